@@ -1,0 +1,238 @@
+// Package model is what a junco user edits and sees: the junction
+// specification, its validation with one error per bad field, parsing and
+// formatting of values in trade units, and evaluation into results and
+// curves by package physics.
+package model
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"junco/physics"
+)
+
+// Spec is the junction specification a user edits. All values are SI; the
+// JSON names carry the unit. Zero values of the optional fields mean
+// "long region" (widths), "material default" (lifetimes, species) and a nil
+// contact recombination velocity means an ideal ohmic contact.
+type Spec struct {
+	Material        string  `json:"material"`
+	Profile         string  `json:"profile"` // "abrupt" or "linear"
+	AcceptorDensity float64 `json:"acceptor_density_per_m3"`
+	DonorDensity    float64 `json:"donor_density_per_m3"`
+	// Gradient is the net-doping gradient of a linear profile, m^-4.
+	Gradient        float64 `json:"gradient_per_m4,omitempty"`
+	AcceptorSpecies string  `json:"acceptor_species,omitempty"`
+	DonorSpecies    string  `json:"donor_species,omitempty"`
+	Temperature     float64 `json:"temperature_K"`
+	Area            float64 `json:"area_m2"`
+	Bias            float64 `json:"bias_V"`
+	// PWidth and NWidth are the quasi-neutral widths, m; 0 = long.
+	PWidth float64 `json:"p_width_m,omitempty"`
+	NWidth float64 `json:"n_width_m,omitempty"`
+	// PContactVelocity and NContactVelocity are the contact recombination
+	// velocities, m/s; nil = ideal ohmic contact.
+	PContactVelocity *float64 `json:"p_contact_recombination_m_per_s,omitempty"`
+	NContactVelocity *float64 `json:"n_contact_recombination_m_per_s,omitempty"`
+	// ElectronLifetime (in the p region) and HoleLifetime (in the n region),
+	// s; 0 = the doping-dependent default.
+	ElectronLifetime float64 `json:"electron_lifetime_s,omitempty"`
+	HoleLifetime     float64 `json:"hole_lifetime_s,omitempty"`
+}
+
+// DefaultSpec returns the specification a new junction starts from: a
+// silicon p+n step junction at 300 K, 1 mm^2, long regions, ohmic contacts,
+// default lifetimes.
+func DefaultSpec() Spec {
+	return Spec{
+		Material:        "si",
+		Profile:         "abrupt",
+		AcceptorDensity: 1e19 * 1e6,
+		DonorDensity:    1e16 * 1e6,
+		Gradient:        1e20 * 1e8,
+		Temperature:     300,
+		Area:            1e-6,
+	}
+}
+
+// Field names used in FieldError and by user interfaces. They match the
+// command-line flag names without dashes.
+const (
+	FieldMaterial         = "material"
+	FieldProfile          = "profile"
+	FieldAcceptorDensity  = "na"
+	FieldDonorDensity     = "nd"
+	FieldGradient         = "gradient"
+	FieldAcceptorSpecies  = "acceptor"
+	FieldDonorSpecies     = "donor"
+	FieldTemperature      = "temp"
+	FieldArea             = "area"
+	FieldBias             = "bias"
+	FieldPWidth           = "wp"
+	FieldNWidth           = "wn"
+	FieldPContactVelocity = "sp"
+	FieldNContactVelocity = "sn"
+	FieldElectronLifetime = "taun"
+	FieldHoleLifetime     = "taup"
+)
+
+// FieldError reports one bad field: which, the offending value as the user
+// would read it, the allowed range and why.
+type FieldError struct {
+	Field   string // one of the Field* names
+	Value   string // the value, formatted in trade units
+	Allowed string // the allowed range or set
+	Why     string // the reason for the limit
+}
+
+func (e FieldError) Error() string {
+	return fmt.Sprintf("%s = %s: allowed %s (%s)", e.Field, e.Value, e.Allowed, e.Why)
+}
+
+// ValidationError collects the field errors of a Spec.
+type ValidationError struct{ Fields []FieldError }
+
+func (e *ValidationError) Error() string {
+	parts := make([]string, len(e.Fields))
+	for i, f := range e.Fields {
+		parts[i] = f.Error()
+	}
+	return strings.Join(parts, "; ")
+}
+
+// For returns the error of one field, if any.
+func (e *ValidationError) For(field string) (FieldError, bool) {
+	if e == nil {
+		return FieldError{}, false
+	}
+	for _, f := range e.Fields {
+		if f.Field == field {
+			return f, true
+		}
+	}
+	return FieldError{}, false
+}
+
+// Limits of the accepted inputs, SI. Values outside are rejected; values
+// inside but outside a model's validity are accepted and flagged.
+const (
+	minDensity, maxDensity         = 1e12 * 1e6, 1e21 * 1e6 // m^-3
+	minGradient, maxGradient       = 1e15 * 1e8, 1e26 * 1e8 // m^-4
+	minTemperature, maxTemperature = 20.0, 1000.0           // K
+	minArea, maxArea               = 1e-14, 0.1             // m^2 (0.01 um^2 to 1000 cm^2)
+	maxReverse, maxForward         = 1e5, 20.0              // V
+	minWidth, maxWidth             = 1e-8, 1e-2             // m
+	minLifetime, maxLifetime       = 1e-13, 1.0             // s
+	maxVelocity                    = 1e7                    // m/s (1e9 cm/s)
+)
+
+// Validate checks every field and returns nil or a *ValidationError with one
+// FieldError per bad field.
+func (s Spec) Validate() error {
+	var errs []FieldError
+	add := func(field, value, allowed, why string) {
+		errs = append(errs, FieldError{Field: field, Value: value, Allowed: allowed, Why: why})
+	}
+	finite := func(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+	rng := func(field string, k Kind, v, lo, hi float64, why string) {
+		if !finite(v) || v < lo || v > hi {
+			add(field, Format(k, v, 3, true), Format(k, lo, 3, true)+" to "+Format(k, hi, 3, true), why)
+		}
+	}
+	mat, err := physics.MaterialByName(s.Material)
+	if err != nil {
+		add(FieldMaterial, fmt.Sprintf("%q", s.Material), strings.Join(physics.MaterialKeys(), ", "), "only these materials have parameter sets")
+	}
+	switch s.Profile {
+	case "abrupt", "linear":
+	default:
+		add(FieldProfile, fmt.Sprintf("%q", s.Profile), "abrupt, linear", "the analytic model knows step and linearly graded junctions")
+	}
+	const dopWhy = "below, background impurities dominate; above, solid solubility and degeneracy make the model meaningless"
+	rng(FieldAcceptorDensity, Density, s.AcceptorDensity, minDensity, maxDensity, dopWhy)
+	rng(FieldDonorDensity, Density, s.DonorDensity, minDensity, maxDensity, dopWhy)
+	if s.Profile == "linear" {
+		rng(FieldGradient, Gradient, s.Gradient, minGradient, maxGradient, "the range of diffused and implanted junction gradients")
+	}
+	if mat != nil {
+		if s.AcceptorSpecies != "" {
+			if d, ok := mat.Dopant(s.AcceptorSpecies); !ok || d.Donor {
+				add(FieldAcceptorSpecies, fmt.Sprintf("%q", s.AcceptorSpecies), strings.Join(mat.DopantNames(false), ", "), "acceptors with known parameters in "+mat.Name)
+			}
+		}
+		if s.DonorSpecies != "" {
+			if d, ok := mat.Dopant(s.DonorSpecies); !ok || !d.Donor {
+				add(FieldDonorSpecies, fmt.Sprintf("%q", s.DonorSpecies), strings.Join(mat.DopantNames(true), ", "), "donors with known parameters in "+mat.Name)
+			}
+		}
+	}
+	rng(FieldTemperature, Temperature, s.Temperature, minTemperature, maxTemperature, "beyond, no material model here is meaningful")
+	rng(FieldArea, Area, s.Area, minArea, maxArea, "from a small test structure to a large power or solar device")
+	if !finite(s.Bias) || s.Bias < -maxReverse || s.Bias > maxForward {
+		add(FieldBias, Format(Voltage, s.Bias, 3, true), "-100 kV to 20 V", "forward bias beyond a few volts only heats a real diode; reverse beyond breakdown is meaningless")
+	}
+	for _, w := range []struct {
+		f string
+		v float64
+	}{{FieldPWidth, s.PWidth}, {FieldNWidth, s.NWidth}} {
+		if w.v != 0 {
+			rng(w.f, Length, w.v, minWidth, maxWidth, "0 means a long region; otherwise between a thin layer and a whole wafer")
+		}
+	}
+	for _, c := range []struct {
+		f string
+		v *float64
+	}{{FieldPContactVelocity, s.PContactVelocity}, {FieldNContactVelocity, s.NContactVelocity}} {
+		if c.v != nil {
+			rng(c.f, Velocity, *c.v, 0, maxVelocity, "0 is a perfectly passivated surface; above about 1e7 cm/s the contact is ohmic (leave it unset)")
+		}
+	}
+	for _, l := range []struct {
+		f string
+		v float64
+	}{{FieldElectronLifetime, s.ElectronLifetime}, {FieldHoleLifetime, s.HoleLifetime}} {
+		if l.v != 0 {
+			rng(l.f, Time, l.v, minLifetime, maxLifetime, "0 selects the doping-dependent default")
+		}
+	}
+	if len(errs) == 0 {
+		return nil
+	}
+	return &ValidationError{Fields: errs}
+}
+
+// Device converts a valid Spec into the physics description.
+func (s Spec) Device() (physics.Device, error) {
+	if err := s.Validate(); err != nil {
+		return physics.Device{}, err
+	}
+	mat, err := physics.MaterialByName(s.Material)
+	if err != nil {
+		return physics.Device{}, err
+	}
+	inf := math.Inf(1)
+	d := physics.Device{
+		Material: mat, Na: s.AcceptorDensity, Nd: s.DonorDensity, Gradient: s.Gradient,
+		AcceptorSpecies: s.AcceptorSpecies, DonorSpecies: s.DonorSpecies,
+		Temperature: s.Temperature, Area: s.Area,
+		Wp: inf, Wn: inf, Sp: inf, Sn: inf,
+		TauN: s.ElectronLifetime, TauP: s.HoleLifetime,
+	}
+	if s.Profile == "linear" {
+		d.Profile = physics.LinearGraded
+	}
+	if s.PWidth > 0 {
+		d.Wp = s.PWidth
+	}
+	if s.NWidth > 0 {
+		d.Wn = s.NWidth
+	}
+	if s.PContactVelocity != nil {
+		d.Sp = *s.PContactVelocity
+	}
+	if s.NContactVelocity != nil {
+		d.Sn = *s.NContactVelocity
+	}
+	return d, nil
+}

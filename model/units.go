@@ -1,0 +1,236 @@
+package model
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+	"unicode"
+)
+
+// Kind names a physical quantity that junco parses and formats.
+type Kind int
+
+// Quantity kinds. Each has an SI unit (used inside) and a trade default unit
+// (taken by a bare number on input).
+const (
+	Density        Kind = iota // SI m^-3, default cm^-3
+	Gradient                   // SI m^-4, default cm^-4
+	Temperature                // SI K, default K
+	Area                       // SI m^2, default cm^2
+	Length                     // SI m, default um
+	Time                       // SI s, default s
+	Voltage                    // SI V, default V
+	Velocity                   // SI m/s, default cm/s
+	Resistance                 // SI ohm, default ohm
+	Current                    // SI A, default A
+	Power                      // SI W, default W
+	Capacitance                // SI F, default F
+	CurrentDensity             // SI A/m^2, default A/cm^2
+	Mobility                   // SI m^2/(V s), shown in cm^2/(V s)
+	Diffusivity                // SI m^2/s, shown in cm^2/s
+	Field                      // SI V/m, shown in V/cm
+	Energy                     // eV
+	CapacitancePerArea         // SI F/m^2, shown in nF/cm^2
+	Dimensionless              // plain number
+)
+
+type unitDef struct {
+	names  []string
+	factor float64 // SI value of one unit
+	offset float64 // added after scaling (degrees Celsius)
+}
+
+// kindInfo describes a kind: its name, SI unit, default unit and accepted
+// units. Built on demand (no package state).
+func kindInfo(k Kind) (name, si, def string, units []unitDef) {
+	switch k {
+	case Density:
+		return "density", "m^-3", "cm^-3", []unitDef{
+			{[]string{"cm-3", "cm^-3", "/cm3", "/cm^3", "cm⁻³", "percm3"}, 1e6, 0},
+			{[]string{"m-3", "m^-3", "/m3", "/m^3", "m⁻³"}, 1, 0}}
+	case Gradient:
+		return "gradient", "m^-4", "cm^-4", []unitDef{
+			{[]string{"cm-4", "cm^-4", "/cm4", "/cm^4"}, 1e8, 0},
+			{[]string{"um-4", "um^-4"}, 1e24, 0},
+			{[]string{"m-4", "m^-4", "/m4", "/m^4"}, 1, 0}}
+	case Temperature:
+		return "temperature", "K", "K", []unitDef{
+			{[]string{"k"}, 1, 0},
+			{[]string{"c", "°c", "degc", "celsius"}, 1, 273.15}}
+	case Area:
+		return "area", "m^2", "cm^2", []unitDef{
+			{[]string{"cm2", "cm^2", "cm²"}, 1e-4, 0},
+			{[]string{"mm2", "mm^2", "mm²"}, 1e-6, 0},
+			{[]string{"um2", "um^2", "µm2", "µm^2", "μm2", "μm^2", "um²", "µm²"}, 1e-12, 0},
+			{[]string{"nm2", "nm^2"}, 1e-18, 0},
+			{[]string{"m2", "m^2", "m²"}, 1, 0}}
+	case Length:
+		return "length", "m", "um", []unitDef{
+			{[]string{"um", "µm", "μm", "micron", "microns"}, 1e-6, 0},
+			{[]string{"nm"}, 1e-9, 0},
+			{[]string{"mm"}, 1e-3, 0},
+			{[]string{"cm"}, 1e-2, 0},
+			{[]string{"m"}, 1, 0}}
+	case Time:
+		return "time", "s", "s", []unitDef{
+			{[]string{"s"}, 1, 0}, {[]string{"ms"}, 1e-3, 0},
+			{[]string{"us", "µs", "μs"}, 1e-6, 0}, {[]string{"ns"}, 1e-9, 0},
+			{[]string{"ps"}, 1e-12, 0}}
+	case Voltage:
+		return "voltage", "V", "V", []unitDef{
+			{[]string{"v"}, 1, 0}, {[]string{"mv"}, 1e-3, 0}, {[]string{"kv"}, 1e3, 0}}
+	case Velocity:
+		return "velocity", "m/s", "cm/s", []unitDef{
+			{[]string{"cm/s"}, 1e-2, 0}, {[]string{"m/s"}, 1, 0}}
+	case Resistance:
+		return "resistance", "ohm", "ohm", []unitDef{
+			{[]string{"ohm", "ohms", "Ω", "r"}, 1, 0}, {[]string{"mohm", "mΩ"}, 1e-3, 0},
+			{[]string{"kohm", "kΩ", "k"}, 1e3, 0}, {[]string{"megohm", "MΩ", "Mohm"}, 1e6, 0}}
+	case Current:
+		return "current", "A", "A", []unitDef{
+			{[]string{"a"}, 1, 0}, {[]string{"ma"}, 1e-3, 0}, {[]string{"ua", "µa", "μa"}, 1e-6, 0},
+			{[]string{"na"}, 1e-9, 0}, {[]string{"pa"}, 1e-12, 0}}
+	case Power:
+		return "power", "W", "W", []unitDef{
+			{[]string{"w"}, 1, 0}, {[]string{"mw"}, 1e-3, 0}, {[]string{"uw", "µw"}, 1e-6, 0}, {[]string{"kw"}, 1e3, 0}}
+	case Capacitance:
+		return "capacitance", "F", "F", []unitDef{
+			{[]string{"f"}, 1, 0}, {[]string{"uf", "µf"}, 1e-6, 0}, {[]string{"nf"}, 1e-9, 0},
+			{[]string{"pf"}, 1e-12, 0}, {[]string{"ff"}, 1e-15, 0}}
+	case CurrentDensity:
+		return "current density", "A/m^2", "A/cm^2", []unitDef{
+			{[]string{"a/cm2", "a/cm^2"}, 1e4, 0}, {[]string{"a/m2", "a/m^2"}, 1, 0},
+			{[]string{"ma/cm2", "ma/cm^2"}, 10, 0}}
+	case Mobility:
+		return "mobility", "m^2/(V s)", "cm^2/Vs", []unitDef{{[]string{"cm2/vs", "cm^2/vs", "cm^2/(v s)"}, 1e-4, 0}, {[]string{"m2/vs", "m^2/vs"}, 1, 0}}
+	case Diffusivity:
+		return "diffusivity", "m^2/s", "cm^2/s", []unitDef{{[]string{"cm2/s", "cm^2/s"}, 1e-4, 0}, {[]string{"m2/s", "m^2/s"}, 1, 0}}
+	case Field:
+		return "field", "V/m", "V/cm", []unitDef{{[]string{"v/cm"}, 100, 0}, {[]string{"kv/cm"}, 1e5, 0}, {[]string{"mv/cm"}, 1e8, 0}, {[]string{"v/m"}, 1, 0}}
+	case Energy:
+		return "energy", "eV", "eV", []unitDef{{[]string{"ev"}, 1, 0}, {[]string{"mev"}, 1e-3, 0}}
+	case CapacitancePerArea:
+		return "capacitance per area", "F/m^2", "nF/cm^2", []unitDef{{[]string{"nf/cm2", "nf/cm^2"}, 1e-5, 0}, {[]string{"f/m2", "f/m^2"}, 1, 0}}
+	case Dimensionless:
+		return "number", "", "", []unitDef{{[]string{""}, 1, 0}}
+	}
+	return "quantity", "", "", nil
+}
+
+// DefaultUnit returns the unit a bare number of kind k is taken in.
+func DefaultUnit(k Kind) string { _, _, d, _ := kindInfo(k); return d }
+
+// SIUnit returns the SI unit junco uses inside for kind k.
+func SIUnit(k Kind) string { _, si, _, _ := kindInfo(k); return si }
+
+// KindName returns the kind's plain name ("density", "area", ...).
+func KindName(k Kind) string { n, _, _, _ := kindInfo(k); return n }
+
+// UnitError is returned by ParseValue for text that is not a number with a
+// known unit.
+type UnitError struct {
+	Text string
+	Kind Kind
+	Why  string
+}
+
+func (e *UnitError) Error() string {
+	name, _, def, units := kindInfo(e.Kind)
+	var acc []string
+	for _, u := range units {
+		acc = append(acc, u.names[0])
+	}
+	return fmt.Sprintf("%q is not a valid %s: %s (units: %s; a bare number is in %s)",
+		e.Text, name, e.Why, strings.Join(acc, ", "), def)
+}
+
+// ParseValue parses text such as "1e17cm-3", "1e23 m^-3", "27C", "100um2"
+// or "-5V" as a quantity of kind k and returns its SI value. A bare number
+// takes the kind's default unit. NaN and infinities are rejected.
+// Range checks are the caller's (see Spec.Validate).
+func ParseValue(k Kind, text string) (float64, error) {
+	s := strings.TrimSpace(text)
+	if s == "" {
+		return 0, &UnitError{Text: text, Kind: k, Why: "empty"}
+	}
+	// Split the longest numeric prefix.
+	end := numberPrefix(s)
+	if end == 0 {
+		return 0, &UnitError{Text: text, Kind: k, Why: "no number"}
+	}
+	num, err := strconv.ParseFloat(s[:end], 64)
+	if err != nil {
+		return 0, &UnitError{Text: text, Kind: k, Why: "no number"}
+	}
+	if math.IsNaN(num) || math.IsInf(num, 0) {
+		return 0, &UnitError{Text: text, Kind: k, Why: "not a finite number"}
+	}
+	unit := strings.TrimSpace(s[end:])
+	_, _, def, units := kindInfo(k)
+	if unit == "" {
+		unit = def
+	}
+	for _, u := range units {
+		for _, n := range u.names {
+			if unitEqual(n, unit) {
+				v := num*u.factor + u.offset
+				if math.IsInf(v, 0) {
+					return 0, &UnitError{Text: text, Kind: k, Why: "too large"}
+				}
+				return v, nil
+			}
+		}
+	}
+	return 0, &UnitError{Text: text, Kind: k, Why: fmt.Sprintf("unknown unit %q", unit)}
+}
+
+// unitEqual compares unit spellings case-insensitively, except that a
+// leading m and M (milli and mega) must match exactly.
+func unitEqual(a, b string) bool {
+	b = strings.ReplaceAll(b, " ", "")
+	if a == b {
+		return true
+	}
+	if a != "" && b != "" && (a[0] == 'm' || a[0] == 'M') && (b[0] == 'm' || b[0] == 'M') && a[0] != b[0] {
+		return false
+	}
+	return strings.EqualFold(a, b)
+}
+
+// numberPrefix returns the length of the leading floating-point literal.
+func numberPrefix(s string) int {
+	i := 0
+	if i < len(s) && (s[i] == '+' || s[i] == '-') {
+		i++
+	}
+	digits := 0
+	for i < len(s) && unicode.IsDigit(rune(s[i])) {
+		i++
+		digits++
+	}
+	if i < len(s) && s[i] == '.' {
+		i++
+		for i < len(s) && unicode.IsDigit(rune(s[i])) {
+			i++
+			digits++
+		}
+	}
+	if digits == 0 {
+		return 0
+	}
+	if i < len(s) && (s[i] == 'e' || s[i] == 'E') {
+		j := i + 1
+		if j < len(s) && (s[j] == '+' || s[j] == '-') {
+			j++
+		}
+		k := j
+		for k < len(s) && unicode.IsDigit(rune(s[k])) {
+			k++
+		}
+		if k > j {
+			i = k
+		}
+	}
+	return i
+}

@@ -1,0 +1,220 @@
+package physics
+
+import (
+	"fmt"
+	"math"
+)
+
+// Device is a complete pn-junction diode description in SI units: what the
+// analytic model needs to compute electrostatics, transport and currents.
+type Device struct {
+	Material *Material
+	Profile  ProfileKind
+	// Na and Nd are the p- and n-region dopings, m^-3.
+	Na, Nd float64
+	// Gradient is the net-doping gradient of a LinearGraded profile, m^-4.
+	Gradient float64
+	// AcceptorSpecies and DonorSpecies name the dopants ("" = material default).
+	AcceptorSpecies, DonorSpecies string
+	// Temperature, K.
+	Temperature float64
+	// Area of the junction, m^2.
+	Area float64
+	// Wp and Wn are the quasi-neutral widths of the p and n regions, m
+	// (+Inf = long).
+	Wp, Wn float64
+	// Sp and Sn are the recombination velocities of the p-side and n-side
+	// contacts, m/s (+Inf = ohmic).
+	Sp, Sn float64
+	// TauN and TauP override the minority lifetimes (electrons in the p
+	// region, holes in the n region), s; 0 selects the doping-dependent
+	// default (MinorityLifetime).
+	TauN, TauP float64
+}
+
+// Flag codes attached to results.
+const (
+	FlagDepletionFails    = "depletion-fails"    // V >= Vbi
+	FlagDepletionMarginal = "depletion-marginal" // Vbi - V < 3 kT/q
+	FlagTemperatureRange  = "temperature-range"  // outside the material's trusted range
+	FlagMobilityRange     = "mobility-range"     // outside the mobility model's range
+	FlagNiFitRange        = "ni-fit-range"       // outside the measured ni fit's range
+	FlagDegenerate        = "degenerate"         // doping near or above Nc or Nv
+	FlagShortDiffusion    = "short-diffusion"    // quasi-neutral width << L: short base
+)
+
+// Flag is a validity warning attached to a result, naming the quantities
+// it affects.
+type Flag struct {
+	Code       string   // one of the Flag* codes
+	Quantities []string // the result quantities the flag concerns
+	Message    string   // a sentence fit to show a user
+}
+
+// Static holds the bias-independent part of a device evaluation.
+type Static struct {
+	Device   Device
+	Vt       float64 // thermal voltage kT/q, V
+	Eg       float64 // band gap, eV
+	Ni       float64 // intrinsic density, m^-3
+	Vbi      float64 // built-in potential, V
+	Junction Junction
+	// Minority-carrier transport: electrons in the p region, holes in the n region.
+	MuN, MuP float64 // mobilities, m^2/(V s)
+	DN, DP   float64 // diffusivities, m^2/s
+	TauN     float64 // electron lifetime, s
+	TauP     float64 // hole lifetime, s
+	// TauNParts and TauPParts are the default lifetime components (also
+	// filled when a lifetime is overridden, for reference).
+	TauNParts, TauPParts LifetimeParts
+	LN, LP               float64 // diffusion lengths, m
+	// Majority-carrier mobilities (holes in p, electrons in n), m^2/(V s).
+	MuMajP, MuMajN float64
+	P, N           QuasiNeutral // the p and n quasi-neutral regions
+	JsN, JsP       float64      // electron (p region) and hole (n region) parts of Js, A/m^2
+	Js             float64      // saturation current density, A/m^2
+	Is, IsN, IsP   float64      // saturation current and its parts, A
+	Flags          []Flag
+}
+
+// Prepare evaluates everything that does not depend on bias. It returns an
+// error for inputs outside the model's domain (non-positive densities,
+// temperature, area or widths; an unknown dopant; Na Nd <= ni^2).
+//
+// Formulas: Vt = kT/q; Eg Varshni; ni (Material.Ni); Vbi
+// (BuiltInPotential or GradedBuiltInPotential); minority mobilities at the
+// doping of the region the carrier is minority in (Material.Mobility);
+// D = mu kT/q (Einstein); tau (MinorityLifetime or override); L = sqrt(D
+// tau); Js = q ni^2 [Dn/(Ln Na) G_p + Dp/(Lp Nd) G_n] (SaturationCurrentDensity);
+// Is = A Js.
+func (d Device) Prepare() (*Static, error) {
+	m := d.Material
+	if m == nil {
+		return nil, fmt.Errorf("no material")
+	}
+	for _, c := range []struct {
+		name string
+		v    float64
+	}{{"acceptor density", d.Na}, {"donor density", d.Nd}, {"temperature", d.Temperature}, {"area", d.Area}, {"p width", d.Wp}, {"n width", d.Wn}} {
+		if !(c.v > 0) || math.IsNaN(c.v) {
+			return nil, fmt.Errorf("%s must be positive, got %g", c.name, c.v)
+		}
+	}
+	if d.Profile == LinearGraded && !(d.Gradient > 0 && !math.IsInf(d.Gradient, 1)) {
+		return nil, fmt.Errorf("gradient must be positive and finite for a linearly graded junction, got %g", d.Gradient)
+	}
+	donor := d.DonorSpecies
+	if donor == "" {
+		donor = m.DefaultDonor
+	}
+	acceptor := d.AcceptorSpecies
+	if acceptor == "" {
+		acceptor = m.DefaultAcceptor
+	}
+	if dd, ok := m.Dopant(donor); !ok || !dd.Donor {
+		return nil, fmt.Errorf("%q is not a donor known in %s (known: %v)", donor, m.Name, m.DopantNames(true))
+	} else {
+		donor = dd.Name
+	}
+	if da, ok := m.Dopant(acceptor); !ok || da.Donor {
+		return nil, fmt.Errorf("%q is not an acceptor known in %s (known: %v)", acceptor, m.Name, m.DopantNames(false))
+	} else {
+		acceptor = da.Name
+	}
+	d.DonorSpecies, d.AcceptorSpecies = donor, acceptor
+
+	t := d.Temperature
+	s := &Static{Device: d, Vt: ThermalVoltage(t), Eg: m.BandGap(t), Ni: m.Ni(t)}
+	if d.Na*d.Nd <= s.Ni*s.Ni {
+		return nil, fmt.Errorf("Na Nd = %.3g m^-6 does not exceed ni^2 = %.3g m^-6 at %g K: no junction forms", d.Na*d.Nd, s.Ni*s.Ni, t)
+	}
+	s.Junction = Junction{Eps: m.Permittivity(), Na: d.Na, Nd: d.Nd, Profile: d.Profile, Gradient: d.Gradient}
+	s.Vbi = s.Junction.GradedBuiltInPotential(s.Ni, t)
+
+	s.MuN = m.Mobility(Electron, d.Na, t, donor)
+	s.MuP = m.Mobility(Hole, d.Nd, t, donor)
+	s.MuMajP = m.Mobility(Hole, d.Na, t, donor)
+	s.MuMajN = m.Mobility(Electron, d.Nd, t, donor)
+	s.DN, s.DP = Diffusivity(s.MuN, t), Diffusivity(s.MuP, t)
+	s.TauNParts = m.MinorityLifetime(Electron, d.Na)
+	s.TauPParts = m.MinorityLifetime(Hole, d.Nd)
+	s.TauN, s.TauP = s.TauNParts.Total, s.TauPParts.Total
+	if d.TauN > 0 {
+		s.TauN = d.TauN
+	}
+	if d.TauP > 0 {
+		s.TauP = d.TauP
+	}
+	s.P = QuasiNeutral{Doping: d.Na, Diffusivity: s.DN, Lifetime: s.TauN, Width: d.Wp, Recombination: d.Sp}
+	s.N = QuasiNeutral{Doping: d.Nd, Diffusivity: s.DP, Lifetime: s.TauP, Width: d.Wn, Recombination: d.Sn}
+	s.LN, s.LP = s.P.DiffusionLength(), s.N.DiffusionLength()
+	s.JsN = s.P.SaturationCurrentDensity(s.Ni)
+	s.JsP = s.N.SaturationCurrentDensity(s.Ni)
+	s.Js = s.JsN + s.JsP
+	s.IsN, s.IsP = s.JsN*d.Area, s.JsP*d.Area
+	s.Is = s.Js * d.Area
+	s.Flags = s.staticFlags()
+	return s, nil
+}
+
+func (s *Static) staticFlags() []Flag {
+	m, d, t := s.Device.Material, s.Device, s.Device.Temperature
+	var f []Flag
+	if t < m.TMin || t > m.TMax {
+		f = append(f, Flag{FlagTemperatureRange, []string{"all"},
+			fmt.Sprintf("%g K is outside %g-%g K, the range %s's parameters are trusted over", t, m.TMin, m.TMax, m.Name)})
+	}
+	if t < m.MobilityTMin || t > m.MobilityTMax {
+		f = append(f, Flag{FlagMobilityRange, []string{"mobility", "diffusivity", "diffusion length", "saturation current"},
+			fmt.Sprintf("mobility model used outside its %g-%g K range", m.MobilityTMin, m.MobilityTMax)})
+	}
+	if m.NiFit != nil && (t < m.NiFit.TMin || t > m.NiFit.TMax) {
+		f = append(f, Flag{FlagNiFitRange, []string{"intrinsic density", "built-in potential", "saturation current"},
+			fmt.Sprintf("intrinsic density extrapolated: the fit of %s covers %g-%g K", m.NiFit.Source, m.NiFit.TMin, m.NiFit.TMax)})
+	}
+	if d.Na > 0.1*m.Nv(t) || d.Nd > 0.1*m.Nc(t) {
+		f = append(f, Flag{FlagDegenerate, []string{"built-in potential", "saturation current"},
+			"doping above a tenth of the effective density of states: Boltzmann statistics and full ionisation are doubtful"})
+	}
+	if (!math.IsInf(d.Wp, 1) && d.Wp < 0.1*s.LN) || (!math.IsInf(d.Wn, 1) && d.Wn < 0.1*s.LP) {
+		f = append(f, Flag{FlagShortDiffusion, []string{"saturation current"},
+			"a quasi-neutral region is much shorter than its diffusion length: the contact sets the current (short base)"})
+	}
+	return f
+}
+
+// Point is the bias-dependent part of an evaluation.
+type Point struct {
+	V         float64   // applied bias, V (forward positive)
+	Depletion Depletion // depletion-approximation electrostatics
+	// CapPerArea and Cap are the depletion capacitance per area (F/m^2) and
+	// total (F); NaN when the depletion approximation fails.
+	CapPerArea, Cap float64
+	// IdealCurrent is the Shockley current Is (exp(V/Vt) - 1), A, and
+	// IdealN, IdealP its electron and hole parts.
+	IdealCurrent, IdealN, IdealP float64
+	// Current is the total with every enabled effect, A (the ideal current
+	// until non-ideal effects are enabled).
+	Current float64
+	Flags   []Flag
+}
+
+// At evaluates the device at bias v (V, forward positive).
+func (s *Static) At(v float64) Point {
+	p := Point{V: v}
+	p.Depletion = s.Junction.Solve(s.Vbi, v)
+	p.CapPerArea = p.Depletion.CapPerArea
+	p.Cap = p.CapPerArea * s.Device.Area
+	e := math.Expm1(v / s.Vt)
+	p.IdealN, p.IdealP = s.IsN*e, s.IsP*e
+	p.IdealCurrent = s.Is * e
+	p.Current = p.IdealCurrent
+	switch {
+	case !p.Depletion.Valid:
+		p.Flags = append(p.Flags, Flag{FlagDepletionFails, []string{"depletion width", "peak field", "capacitance"}, p.Depletion.Problem})
+	case s.Vbi-v < 3*s.Vt:
+		p.Flags = append(p.Flags, Flag{FlagDepletionMarginal, []string{"depletion width", "peak field", "capacitance"},
+			fmt.Sprintf("bias within 3 kT/q of the built-in potential (%.3f V): the depletion approximation is rough here", s.Vbi)})
+	}
+	return p
+}
