@@ -33,6 +33,8 @@ func Format(k Kind, v float64, sig int, ascii bool) string {
 		switch a := math.Abs(v); {
 		case a >= 1e-6:
 			return fixed(v*1e4, sig) + " cm^2"
+		case a >= 1e-8:
+			return sci(v*1e4, sig) + " cm^2"
 		default:
 			return fixed(v*1e12, sig) + " " + micro(ascii) + "m^2"
 		}
@@ -104,7 +106,7 @@ func Engineering(v float64, sig int, unit string, ascii bool) string {
 	r, _ := strconv.ParseFloat(strconv.FormatFloat(m, 'g', sig, 64), 64)
 	if math.Abs(r) >= 1000 {
 		e++
-		m = v / math.Pow(1000, float64(e))
+		m = r / 1000
 	}
 	idx := e + 6
 	if idx < 0 || idx >= len(prefixes) {

@@ -14,25 +14,25 @@ type Kind int
 // Quantity kinds. Each has an SI unit (used inside) and a trade default unit
 // (taken by a bare number on input).
 const (
-	Density        Kind = iota // SI m^-3, default cm^-3
-	Gradient                   // SI m^-4, default cm^-4
-	Temperature                // SI K, default K
-	Area                       // SI m^2, default cm^2
-	Length                     // SI m, default um
-	Time                       // SI s, default s
-	Voltage                    // SI V, default V
-	Velocity                   // SI m/s, default cm/s
-	Resistance                 // SI ohm, default ohm
-	Current                    // SI A, default A
-	Power                      // SI W, default W
-	Capacitance                // SI F, default F
-	CurrentDensity             // SI A/m^2, default A/cm^2
-	Mobility                   // SI m^2/(V s), shown in cm^2/(V s)
-	Diffusivity                // SI m^2/s, shown in cm^2/s
-	Field                      // SI V/m, shown in V/cm
-	Energy                     // eV
-	CapacitancePerArea         // SI F/m^2, shown in nF/cm^2
-	Dimensionless              // plain number
+	Density            Kind = iota // SI m^-3, default cm^-3
+	Gradient                       // SI m^-4, default cm^-4
+	Temperature                    // SI K, default K
+	Area                           // SI m^2, default cm^2
+	Length                         // SI m, default um
+	Time                           // SI s, default s
+	Voltage                        // SI V, default V
+	Velocity                       // SI m/s, default cm/s
+	Resistance                     // SI ohm, default ohm
+	Current                        // SI A, default A
+	Power                          // SI W, default W
+	Capacitance                    // SI F, default F
+	CurrentDensity                 // SI A/m^2, default A/cm^2
+	Mobility                       // SI m^2/(V s), shown in cm^2/(V s)
+	Diffusivity                    // SI m^2/s, shown in cm^2/s
+	Field                          // SI V/m, shown in V/cm
+	Energy                         // eV
+	CapacitancePerArea             // SI F/m^2, shown in nF/cm^2
+	Dimensionless                  // plain number
 )
 
 type unitDef struct {
@@ -182,7 +182,40 @@ func ParseValue(k Kind, text string) (float64, error) {
 			}
 		}
 	}
+	if v, ok := prefixed(k, num, unit); ok {
+		return v, nil
+	}
 	return 0, &UnitError{Text: text, Kind: k, Why: fmt.Sprintf("unknown unit %q", unit)}
+}
+
+// prefixed accepts any SI prefix (f p n u µ m k M G) before the base symbol
+// of the kinds that Format writes with prefixes, so that everything junco
+// prints can be typed back. The prefix case is significant (m vs M).
+func prefixed(k Kind, num float64, unit string) (float64, bool) {
+	var base string
+	switch k {
+	case Length, Time, Voltage, Current, Capacitance, Power:
+		base = SIUnitSymbol(k)
+	case Resistance:
+		base = "ohm"
+	default:
+		return 0, false
+	}
+	if !strings.HasSuffix(strings.ToLower(unit), strings.ToLower(base)) || len(unit) == len(base) {
+		return 0, false
+	}
+	p := unit[:len(unit)-len(base)]
+	factors := map[string]float64{"a": 1e-18, "f": 1e-15, "p": 1e-12, "n": 1e-9, "u": 1e-6, "µ": 1e-6, "μ": 1e-6,
+		"m": 1e-3, "k": 1e3, "M": 1e6, "G": 1e9}
+	f, ok := factors[p]
+	if !ok {
+		return 0, false
+	}
+	v := num * f
+	if math.IsInf(v, 0) {
+		return 0, false
+	}
+	return v, true
 }
 
 // unitEqual compares unit spellings case-insensitively, except that a

@@ -3,6 +3,7 @@ package physics
 import (
 	"fmt"
 	"math"
+	"sort"
 )
 
 // ProfileKind names the doping profile across the metallurgical junction.
@@ -270,6 +271,12 @@ func (d Depletion) Profile(n int) []ProfilePoint {
 	seg(0, d.Xn, nn)
 	seg(d.Xn, 1.25*d.Xn, margin)
 	xs = append(xs, 1.25*d.Xn)
+	if j.Profile == LinearGraded {
+		// The plateau corners are kinks of the field: make them samples so
+		// that the quadrature below stays exact.
+		xs = insertSorted(xs, j.Nd/j.Gradient, d.Xn)
+		xs = insertSorted(xs, -j.Na/j.Gradient, -d.Xp)
+	}
 
 	field := func(x float64) float64 {
 		switch {
@@ -310,4 +317,20 @@ func (j Junction) chargeP(xp float64) float64 {
 		return j.Gradient * xp * xp / 2
 	}
 	return j.Na * (xp - xa/2)
+}
+
+// insertSorted inserts x into the ascending slice xs when x lies strictly
+// inside the depletion region bounded by edge (positive or negative).
+func insertSorted(xs []float64, x, edge float64) []float64 {
+	if math.Abs(x) >= math.Abs(edge) {
+		return xs
+	}
+	i := sort.SearchFloat64s(xs, x)
+	if i < len(xs) && xs[i] == x {
+		return xs
+	}
+	xs = append(xs, 0)
+	copy(xs[i+1:], xs[i:])
+	xs[i] = x
+	return xs
 }

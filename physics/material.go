@@ -223,10 +223,15 @@ func MaterialByName(name string) (*Material, error) {
 	case "sic", "4hsic", "4h_sic", "4h sic":
 		k = "4h-sic"
 	}
-	for _, m := range materials() {
-		if m.Key == k {
-			return m, nil
-		}
+	switch k {
+	case "si":
+		return silicon(), nil
+	case "ge":
+		return germanium(), nil
+	case "gaas":
+		return galliumArsenide(), nil
+	case "4h-sic":
+		return siliconCarbide4H(), nil
 	}
 	return nil, fmt.Errorf("unknown material %q: choose one of %s", name, strings.Join(MaterialKeys(), ", "))
 }
