@@ -1,0 +1,365 @@
+package serve
+
+import (
+	"bytes"
+	"context"
+	"crypto/ed25519"
+	"crypto/rand"
+	"fmt"
+	"io"
+	"log/slog"
+	"net"
+	"os"
+	"path/filepath"
+	"strings"
+	"sync"
+	"testing"
+	"time"
+
+	tea "github.com/charmbracelet/bubbletea"
+	gossh "golang.org/x/crypto/ssh"
+)
+
+// testApp is a minimal App: a screen naming the user, which panics on the
+// key "!" (to test isolation), and a command that echoes its arguments.
+type testApp struct{}
+
+type screen struct {
+	user string
+	w, h int
+	keys int
+}
+
+func (m *screen) Init() tea.Cmd { return nil }
+func (m *screen) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
+	switch msg := msg.(type) {
+	case tea.WindowSizeMsg:
+		m.w, m.h = msg.Width, msg.Height
+	case tea.KeyMsg:
+		switch msg.String() {
+		case "!":
+			panic("injected test panic")
+		case "q":
+			return m, tea.Quit
+		}
+		m.keys++
+	}
+	return m, nil
+}
+func (m *screen) View() string {
+	return fmt.Sprintf("WORKBENCH user=%s size=%dx%d keys=%d\n", m.user, m.w, m.h, m.keys)
+}
+
+func (testApp) Model(ctx context.Context, c Conn) (tea.Model, error) {
+	return &screen{user: c.User, w: c.Width, h: c.Height}, nil
+}
+func (testApp) Command(ctx context.Context, user string, args []string, stdout, stderr io.Writer) int {
+	fmt.Fprintf(stdout, "ran %s for %s\n", strings.Join(args, " "), user)
+	return 0
+}
+
+type userKey struct {
+	signer gossh.Signer
+	line   string
+}
+
+func newUserKey(t *testing.T, user string) userKey {
+	t.Helper()
+	pub, priv, err := ed25519.GenerateKey(rand.Reader)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, err := gossh.NewSignerFromKey(priv)
+	if err != nil {
+		t.Fatal(err)
+	}
+	sp, err := gossh.NewPublicKey(pub)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return userKey{signer: s, line: strings.TrimSpace(string(gossh.MarshalAuthorizedKey(sp))) + " " + user}
+}
+
+type fixture struct {
+	dir, hostKey, authKeys string
+	srv                    *Server
+	addr                   string
+	logs                   *syncBuffer
+}
+
+type syncBuffer struct {
+	mu sync.Mutex
+	b  bytes.Buffer
+}
+
+func (s *syncBuffer) Write(p []byte) (int, error) { s.mu.Lock(); defer s.mu.Unlock(); return s.b.Write(p) }
+func (s *syncBuffer) String() string               { s.mu.Lock(); defer s.mu.Unlock(); return s.b.String() }
+
+func startServer(t *testing.T, dir string, lines ...string) *fixture {
+	t.Helper()
+	f := &fixture{dir: dir, hostKey: filepath.Join(dir, "host", "ed25519"), authKeys: filepath.Join(dir, "authorized_keys"), logs: &syncBuffer{}}
+	if _, err := os.Stat(f.authKeys); os.IsNotExist(err) {
+		writeKeys(t, f.authKeys, lines...)
+	}
+	srv, err := New(Config{Listen: "127.0.0.1:0", HostKeyPath: f.hostKey, AuthorizedKeysPath: f.authKeys,
+		App: testApp{}, Logger: slog.New(slog.NewTextHandler(f.logs, nil)), Grace: time.Second})
+	if err != nil {
+		t.Fatal(err)
+	}
+	l, err := net.Listen("tcp", "127.0.0.1:0")
+	if err != nil {
+		t.Fatal(err)
+	}
+	f.srv, f.addr = srv, l.Addr().String()
+	go func() { _ = srv.Serve(l) }()
+	t.Cleanup(func() { _ = srv.Close() })
+	return f
+}
+
+func writeKeys(t *testing.T, path string, lines ...string) {
+	t.Helper()
+	tmp := path + ".tmp"
+	if err := os.WriteFile(tmp, []byte(strings.Join(lines, "\n")+"\n"), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	// A later modification time than the previous file, even on coarse clocks.
+	later := time.Now().Add(2 * time.Second)
+	_ = os.Chtimes(tmp, later, later)
+	if err := os.Rename(tmp, path); err != nil {
+		t.Fatal(err)
+	}
+}
+
+func clientConfig(user string, auth ...gossh.AuthMethod) *gossh.ClientConfig {
+	return &gossh.ClientConfig{User: user, Auth: auth, HostKeyCallback: gossh.InsecureIgnoreHostKey(), Timeout: 5 * time.Second}
+}
+
+func dial(addr string, cfg *gossh.ClientConfig) (*gossh.Client, error) { return gossh.Dial("tcp", addr, cfg) }
+
+// interactive opens a PTY session and returns its stdin and a reader that
+// waits for text on its output.
+type interactiveSession struct {
+	sess  *gossh.Session
+	in    io.WriteCloser
+	out   *syncBuffer
+	close func()
+}
+
+func openInteractive(t *testing.T, addr, user string, k userKey) *interactiveSession {
+	t.Helper()
+	c, err := dial(addr, clientConfig(user, gossh.PublicKeys(k.signer)))
+	if err != nil {
+		t.Fatalf("dial as %s: %v", user, err)
+	}
+	s, err := c.NewSession()
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := &syncBuffer{}
+	s.Stdout = out
+	in, err := s.StdinPipe()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := s.RequestPty("xterm-256color", 30, 100, gossh.TerminalModes{}); err != nil {
+		t.Fatal(err)
+	}
+	if err := s.Shell(); err != nil {
+		t.Fatal(err)
+	}
+	is := &interactiveSession{sess: s, in: in, out: out, close: func() { s.Close(); c.Close() }}
+	t.Cleanup(is.close)
+	return is
+}
+
+func waitFor(t *testing.T, b *syncBuffer, want string) {
+	t.Helper()
+	deadline := time.Now().Add(5 * time.Second)
+	for time.Now().Before(deadline) {
+		if strings.Contains(b.String(), want) {
+			return
+		}
+		time.Sleep(10 * time.Millisecond)
+	}
+	t.Fatalf("output never showed %q; got %q", want, b.String())
+}
+
+func TestAuthorisedUserGetsWorkbench(t *testing.T) {
+	ada := newUserKey(t, "ada")
+	f := startServer(t, t.TempDir(), ada.line)
+	is := openInteractive(t, f.addr, "ada", ada)
+	waitFor(t, is.out, "WORKBENCH user=ada size=100x30")
+	fmt.Fprint(is.in, "x")
+	waitFor(t, is.out, "keys=1")
+}
+
+func TestRefusedLogins(t *testing.T) {
+	ada, bob := newUserKey(t, "ada"), newUserKey(t, "bob")
+	stranger := newUserKey(t, "eve")
+	f := startServer(t, t.TempDir(), ada.line, bob.line)
+	cases := []struct {
+		name string
+		cfg  *gossh.ClientConfig
+	}{
+		{"unknown key", clientConfig("eve", gossh.PublicKeys(stranger.signer))},
+		{"password", clientConfig("ada", gossh.Password("secret"))},
+		{"keyboard-interactive", clientConfig("ada", gossh.KeyboardInteractive(func(string, string, []string, []bool) ([]string, error) {
+			return []string{"secret"}, nil
+		}))},
+		{"another user's login name", clientConfig("bob", gossh.PublicKeys(ada.signer))},
+	}
+	for _, c := range cases {
+		if cl, err := dial(f.addr, c.cfg); err == nil {
+			cl.Close()
+			t.Errorf("%s: login accepted", c.name)
+		}
+	}
+	logs := f.logs.String()
+	if !strings.Contains(logs, "login refused") || !strings.Contains(logs, gossh.FingerprintSHA256(stranger.signer.PublicKey())) {
+		t.Errorf("refusals not logged with fingerprints:\n%s", logs)
+	}
+}
+
+func TestNoPTYGetsExplanation(t *testing.T) {
+	ada := newUserKey(t, "ada")
+	f := startServer(t, t.TempDir(), ada.line)
+	c, err := dial(f.addr, clientConfig("ada", gossh.PublicKeys(ada.signer)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer c.Close()
+	s, err := c.NewSession()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var out bytes.Buffer
+	s.Stdout = &out
+	if err := s.Shell(); err != nil {
+		t.Fatal(err)
+	}
+	_ = s.Wait()
+	if !strings.Contains(out.String(), "needs a terminal") || strings.Count(out.String(), "\n") != 1 {
+		t.Errorf("no-PTY output %q", out.String())
+	}
+}
+
+func TestCommands(t *testing.T) {
+	ada := newUserKey(t, "ada")
+	f := startServer(t, t.TempDir(), ada.line)
+	run := func(cmd string) (string, string, error) {
+		c, err := dial(f.addr, clientConfig("ada", gossh.PublicKeys(ada.signer)))
+		if err != nil {
+			t.Fatal(err)
+		}
+		defer c.Close()
+		s, err := c.NewSession()
+		if err != nil {
+			t.Fatal(err)
+		}
+		var out, errb bytes.Buffer
+		s.Stdout, s.Stderr = &out, &errb
+		err = s.Run(cmd)
+		return out.String(), errb.String(), err
+	}
+	if out, _, err := run("sessions list"); err != nil || out != "ran sessions list for ada\n" {
+		t.Errorf("sessions list: %q %v", out, err)
+	}
+	for _, bad := range []string{"sh", "bash -c id", "sessions trash foo", "sessions", "cat /etc/passwd"} {
+		if _, errs, err := run(bad); err == nil || !strings.Contains(errs, "no shell") {
+			t.Errorf("%q was not refused: %q %v", bad, errs, err)
+		}
+	}
+}
+
+func TestHostKeyStableAcrossRestarts(t *testing.T) {
+	ada := newUserKey(t, "ada")
+	dir := t.TempDir()
+	f1 := startServer(t, dir, ada.line)
+	fp := f1.srv.Fingerprint()
+	if !f1.srv.CreatedHostKey() {
+		t.Error("first start did not create the host key")
+	}
+	st, err := os.Stat(f1.hostKey)
+	if err != nil || st.Mode().Perm() != 0o600 {
+		t.Fatalf("host key mode %v %v", st.Mode().Perm(), err)
+	}
+	_ = f1.srv.Close()
+	f2 := startServer(t, dir, ada.line)
+	if f2.srv.CreatedHostKey() || f2.srv.Fingerprint() != fp {
+		t.Errorf("host key changed across restarts: %s -> %s", fp, f2.srv.Fingerprint())
+	}
+	// The client sees the same key.
+	var seen string
+	cfg := clientConfig("ada", gossh.PublicKeys(ada.signer))
+	cfg.HostKeyCallback = func(_ string, _ net.Addr, k gossh.PublicKey) error { seen = gossh.FingerprintSHA256(k); return nil }
+	c, err := dial(f2.addr, cfg)
+	if err != nil {
+		t.Fatal(err)
+	}
+	c.Close()
+	if seen != fp {
+		t.Errorf("client saw %s, server printed %s", seen, fp)
+	}
+}
+
+func TestRemovedKeyLocksOut(t *testing.T) {
+	ada, bob := newUserKey(t, "ada"), newUserKey(t, "bob")
+	f := startServer(t, t.TempDir(), ada.line, bob.line)
+	c, err := dial(f.addr, clientConfig("bob", gossh.PublicKeys(bob.signer)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	c.Close()
+	writeKeys(t, f.authKeys, ada.line, "this line is not a key", "ssh-ed25519 AAAA bad/comment")
+	if c, err := dial(f.addr, clientConfig("bob", gossh.PublicKeys(bob.signer))); err == nil {
+		c.Close()
+		t.Fatal("bob still gets in after his key was removed")
+	}
+	// A bad line does not lock out the others.
+	c, err = dial(f.addr, clientConfig("ada", gossh.PublicKeys(ada.signer)))
+	if err != nil {
+		t.Fatalf("ada locked out by a bad line: %v", err)
+	}
+	c.Close()
+	if err := f.srv.Reload(); err != nil {
+		t.Fatal(err)
+	}
+}
+
+func TestPanicIsolated(t *testing.T) {
+	ada, bob := newUserKey(t, "ada"), newUserKey(t, "bob")
+	f := startServer(t, t.TempDir(), ada.line, bob.line)
+	a := openInteractive(t, f.addr, "ada", ada)
+	b := openInteractive(t, f.addr, "bob", bob)
+	waitFor(t, a.out, "user=ada")
+	waitFor(t, b.out, "user=bob")
+	fmt.Fprint(a.in, "!")
+	done := make(chan error, 1)
+	go func() { done <- a.sess.Wait() }()
+	select {
+	case <-done:
+	case <-time.After(5 * time.Second):
+		t.Fatal("panicking connection did not end")
+	}
+	fmt.Fprint(b.in, "y")
+	waitFor(t, b.out, "keys=1")
+	if !strings.Contains(f.logs.String(), "injected test panic") {
+		t.Errorf("panic not logged:\n%s", f.logs.String())
+	}
+	// A new connection still works.
+	c := openInteractive(t, f.addr, "ada", ada)
+	waitFor(t, c.out, "user=ada")
+}
+
+func TestUserNames(t *testing.T) {
+	for _, ok := range []string{"ada", "a.b", "x_y-z", "A1"} {
+		if !ValidUserName(ok) {
+			t.Errorf("%q rejected", ok)
+		}
+	}
+	for _, bad := range []string{"", ".", "..", "-x", ".hidden", "a/b", "a b", "é", strings.Repeat("a", 65)} {
+		if ValidUserName(bad) {
+			t.Errorf("%q accepted", bad)
+		}
+	}
+}

@@ -1,0 +1,505 @@
+// Package serve puts the junco workbench on an SSH server for a lab group:
+// public-key logins only, each key's comment names its user, one program
+// per connection with its own renderer, idle timeout, a connection cap,
+// panic isolation and a graceful shutdown. What a user sees and may run is
+// supplied by an App; this package handles the connection.
+package serve
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"log/slog"
+	"net"
+	"runtime/debug"
+	"strings"
+	"sync"
+	"time"
+
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/lipgloss"
+	"github.com/charmbracelet/ssh"
+	"github.com/charmbracelet/wish"
+	"github.com/muesli/termenv"
+	gossh "golang.org/x/crypto/ssh"
+)
+
+// Conn describes one interactive connection to the App.
+type Conn struct {
+	User     string             // the authenticated user (the key's comment)
+	Renderer *lipgloss.Renderer // renderer for this client's terminal; build every style from it
+	Width    int                // PTY size at connect
+	Height   int
+	Term     string   // the client's TERM
+	Environ  []string // environment the client sent
+}
+
+// App is what the server serves.
+type App interface {
+	// Model returns the Bubble Tea model for one interactive connection.
+	Model(ctx context.Context, c Conn) (tea.Model, error)
+	// Command runs one non-interactive command (already checked against
+	// the allow-list) for user and returns its exit status.
+	Command(ctx context.Context, user string, args []string, stdout, stderr io.Writer) int
+}
+
+// Config configures a Server.
+type Config struct {
+	// Listen is the TCP address; "" means 127.0.0.1:2222 (loopback only:
+	// binding beyond it is an explicit choice).
+	Listen string
+	// HostKeyPath is the ed25519 host key file, created (0600) if missing.
+	HostKeyPath string
+	// AuthorizedKeysPath is the OpenSSH authorized-keys file whose
+	// comments name the users.
+	AuthorizedKeysPath string
+	// IdleTimeout closes a connection with no traffic for this long (0 = none).
+	IdleTimeout time.Duration
+	// MaxConnections caps concurrent connections (0 = 32).
+	MaxConnections int
+	// ShutdownMsg, if set, is sent to every running program at shutdown
+	// so that it can write its recovery draft before it is stopped.
+	ShutdownMsg tea.Msg
+	// Grace bounds how long Shutdown waits for programs (0 = 5 s).
+	Grace time.Duration
+	// Logger receives connection, authentication and panic records.
+	Logger *slog.Logger
+	App    App
+}
+
+// DefaultListen is the default listen address.
+const DefaultListen = "127.0.0.1:2222"
+
+// Server is a running (or ready) SSH front.
+type Server struct {
+	cfg         Config
+	log         *slog.Logger
+	keys        *keyring
+	ssh         *ssh.Server
+	fingerprint string
+	createdKey  bool
+
+	mu       sync.Mutex
+	active   int
+	programs map[*tea.Program]struct{}
+	failures map[string]int // by remote host
+	closing  bool
+}
+
+// New builds a server: loads or creates the host key, reads the authorized
+// keys and sets up the middlewares. It does not listen yet.
+func New(cfg Config) (*Server, error) {
+	if cfg.App == nil {
+		return nil, errors.New("serve: no App")
+	}
+	if cfg.HostKeyPath == "" || cfg.AuthorizedKeysPath == "" {
+		return nil, errors.New("serve: host key and authorized keys paths are required")
+	}
+	if cfg.Listen == "" {
+		cfg.Listen = DefaultListen
+	}
+	if cfg.MaxConnections <= 0 {
+		cfg.MaxConnections = 32
+	}
+	if cfg.Grace <= 0 {
+		cfg.Grace = 5 * time.Second
+	}
+	lg := cfg.Logger
+	if lg == nil {
+		lg = slog.New(slog.NewTextHandler(io.Discard, nil))
+	}
+	s := &Server{cfg: cfg, log: lg, programs: map[*tea.Program]struct{}{}, failures: map[string]int{}}
+	signer, created, err := loadOrCreateHostKey(cfg.HostKeyPath)
+	if err != nil {
+		return nil, err
+	}
+	s.createdKey = created
+	s.fingerprint = gossh.FingerprintSHA256(signer.PublicKey())
+	s.keys, err = newKeyring(cfg.AuthorizedKeysPath, func(f string, a ...any) { lg.Info(fmt.Sprintf(f, a...)) })
+	if err != nil {
+		return nil, err
+	}
+	srv, err := wish.NewServer(
+		wish.WithAddress(cfg.Listen),
+		wish.WithVersion("junco"),
+		wish.WithPublicKeyAuth(s.publicKeyHandler),
+		wish.WithIdleTimeout(cfg.IdleTimeout),
+		// Middlewares: the last listed runs first.
+		wish.WithMiddleware(
+			s.appMiddleware,     // 4. the workbench or an allowed command
+			s.limitMiddleware,   // 3. connection cap
+			s.authMiddleware,    // 2. the session's key must still map to its login name
+			s.recoverMiddleware, // 1. a panic ends this connection only
+		),
+	)
+	if err != nil {
+		return nil, err
+	}
+	srv.AddHostKey(signer)
+	if idle := cfg.IdleTimeout; idle <= 0 {
+		srv.IdleTimeout = 0
+	}
+	s.ssh = srv
+	return s, nil
+}
+
+// Fingerprint returns the SHA256 fingerprint of the host key, to print at
+// start so that users can check it on first connection.
+func (s *Server) Fingerprint() string { return s.fingerprint }
+
+// CreatedHostKey reports whether New generated a new host key.
+func (s *Server) CreatedHostKey() bool { return s.createdKey }
+
+// Users returns the users currently authorised by the keys file.
+func (s *Server) Users() []string { return s.keys.users() }
+
+// Reload re-reads the authorized-keys file now (for SIGHUP).
+func (s *Server) Reload() error { return s.keys.reload(true) }
+
+// Serve accepts connections on l until Shutdown or Close.
+func (s *Server) Serve(l net.Listener) error {
+	err := s.ssh.Serve(l)
+	if errors.Is(err, ssh.ErrServerClosed) {
+		return nil
+	}
+	return err
+}
+
+// ListenAndServe listens on the configured address and serves.
+func (s *Server) ListenAndServe() error {
+	l, err := net.Listen("tcp", s.cfg.Listen)
+	if err != nil {
+		return err
+	}
+	return s.Serve(l)
+}
+
+// Shutdown asks every program to write its recovery draft and stop, waits
+// up to the grace period, then closes the listener and connections.
+func (s *Server) Shutdown(ctx context.Context) error {
+	s.mu.Lock()
+	s.closing = true
+	progs := make([]*tea.Program, 0, len(s.programs))
+	for p := range s.programs {
+		progs = append(progs, p)
+	}
+	s.mu.Unlock()
+	for _, p := range progs {
+		if s.cfg.ShutdownMsg != nil {
+			go p.Send(s.cfg.ShutdownMsg)
+		} else {
+			p.Quit()
+		}
+	}
+	deadline := time.Now().Add(s.cfg.Grace)
+	for time.Now().Before(deadline) {
+		s.mu.Lock()
+		n := len(s.programs)
+		s.mu.Unlock()
+		if n == 0 {
+			break
+		}
+		select {
+		case <-ctx.Done():
+			deadline = time.Now()
+		case <-time.After(20 * time.Millisecond):
+		}
+	}
+	for _, p := range progs {
+		p.Kill()
+	}
+	sctx, cancel := context.WithTimeout(ctx, time.Second)
+	defer cancel()
+	if err := s.ssh.Shutdown(sctx); err != nil && !errors.Is(err, ssh.ErrServerClosed) {
+		return s.ssh.Close()
+	}
+	return nil
+}
+
+// Close stops the server at once.
+func (s *Server) Close() error { return s.ssh.Close() }
+
+// publicKeyHandler admits a key only when the authorized-keys file lists
+// it and the login name equals the user its comment names. Failures are
+// logged with the key's fingerprint and slowed down per remote host.
+func (s *Server) publicKeyHandler(ctx ssh.Context, key ssh.PublicKey) bool {
+	host := remoteHost(ctx.RemoteAddr())
+	fp := gossh.FingerprintSHA256(key)
+	user, ok := s.keys.lookup(key)
+	switch {
+	case !ok:
+		s.fail(host, "unknown key", "login", ctx.User(), "key", fp)
+		return false
+	case user != ctx.User():
+		s.fail(host, "key belongs to another user", "login", ctx.User(), "key_user", user, "key", fp)
+		return false
+	}
+	s.mu.Lock()
+	delete(s.failures, host)
+	s.mu.Unlock()
+	return true
+}
+
+// fail logs a refused attempt and sleeps: 250 ms doubling per failure from
+// the same host, at most 4 s.
+func (s *Server) fail(host, why string, attrs ...any) {
+	s.mu.Lock()
+	if len(s.failures) > 10000 {
+		s.failures = map[string]int{}
+	}
+	s.failures[host]++
+	n := s.failures[host]
+	s.mu.Unlock()
+	s.log.Warn("login refused: "+why, append([]any{"remote", host, "failures", n}, attrs...)...)
+	d := 250 * time.Millisecond << min(n-1, 4)
+	time.Sleep(d)
+}
+
+func remoteHost(a net.Addr) string {
+	if a == nil {
+		return ""
+	}
+	h, _, err := net.SplitHostPort(a.String())
+	if err != nil {
+		return a.String()
+	}
+	return h
+}
+
+func (s *Server) recoverMiddleware(next ssh.Handler) ssh.Handler {
+	return func(sess ssh.Session) {
+		defer func() {
+			if r := recover(); r != nil {
+				s.log.Error("connection ended by a panic", "user", sess.User(), "panic", fmt.Sprint(r), "stack", string(debug.Stack()))
+				fmt.Fprintln(sess.Stderr(), "junco: internal error; the connection is closed (the server keeps running)")
+				_ = sess.Exit(1)
+			}
+		}()
+		next(sess)
+	}
+}
+
+func (s *Server) authMiddleware(next ssh.Handler) ssh.Handler {
+	return func(sess ssh.Session) {
+		key := sess.PublicKey()
+		if key == nil {
+			wish.Fatalln(sess, "junco: public-key authentication is required")
+			return
+		}
+		if user, ok := s.keys.lookup(key); !ok || user != sess.User() {
+			s.log.Warn("session refused: key no longer authorised for this user", "login", sess.User(), "key", gossh.FingerprintSHA256(key))
+			wish.Fatalln(sess, "junco: this key is not authorised for "+sess.User())
+			return
+		}
+		next(sess)
+	}
+}
+
+func (s *Server) limitMiddleware(next ssh.Handler) ssh.Handler {
+	return func(sess ssh.Session) {
+		s.mu.Lock()
+		if s.closing || s.active >= s.cfg.MaxConnections {
+			closing := s.closing
+			s.mu.Unlock()
+			if closing {
+				wish.Fatalln(sess, "junco: the server is shutting down")
+			} else {
+				wish.Fatalln(sess, fmt.Sprintf("junco: the server is at its limit of %d connections; try again later", s.cfg.MaxConnections))
+			}
+			return
+		}
+		s.active++
+		s.mu.Unlock()
+		defer func() {
+			s.mu.Lock()
+			s.active--
+			s.mu.Unlock()
+		}()
+		s.log.Info("connection", "user", sess.User(), "remote", remoteHost(sess.RemoteAddr()), "command", sess.RawCommand())
+		next(sess)
+	}
+}
+
+// AllowedCommand reports whether args is one of the read-only session
+// commands served without the UI: `sessions list`, `sessions show NAME`,
+// `sessions export NAME ...`.
+func AllowedCommand(args []string) bool {
+	if len(args) < 2 || args[0] != "sessions" {
+		return false
+	}
+	switch args[1] {
+	case "list":
+		return true
+	case "show", "export":
+		return len(args) >= 3
+	}
+	return false
+}
+
+const commandHelp = "junco: over SSH you can open the workbench (ssh -t) or run `sessions list`, `sessions show NAME` or `sessions export NAME --format md`; there is no shell"
+
+func (s *Server) appMiddleware(next ssh.Handler) ssh.Handler {
+	return func(sess ssh.Session) {
+		defer next(sess)
+		if args := sess.Command(); len(args) > 0 || sess.Subsystem() != "" {
+			if !AllowedCommand(args) {
+				fmt.Fprintln(sess.Stderr(), commandHelp)
+				_ = sess.Exit(1)
+				return
+			}
+			code := s.cfg.App.Command(sess.Context(), sess.User(), args, sess, sess.Stderr())
+			_ = sess.Exit(code)
+			return
+		}
+		pty, winCh, ok := sess.Pty()
+		if !ok {
+			fmt.Fprintln(sess, "junco: the workbench needs a terminal: connect with `ssh -t`, or run `sessions list` as a command")
+			_ = sess.Exit(1)
+			return
+		}
+		code := s.runProgram(sess, pty, winCh)
+		_ = sess.Exit(code)
+	}
+}
+
+// runProgram runs one program for the connection with its own renderer and
+// the PTY's size, forwarding resizes, until it quits or the client leaves.
+func (s *Server) runProgram(sess ssh.Session, pty ssh.Pty, winCh <-chan ssh.Window) int {
+	env := sessionEnv{environ: append(sess.Environ(), "TERM="+pty.Term)}
+	r := lipgloss.NewRenderer(sess, termenv.WithUnsafe(), termenv.WithEnvironment(env), termenv.WithColorCache(true))
+	r.SetHasDarkBackground(true)
+	ctx, cancel := context.WithCancel(sess.Context())
+	defer cancel()
+	model, err := s.cfg.App.Model(ctx, Conn{User: sess.User(), Renderer: r, Width: pty.Window.Width, Height: pty.Window.Height, Term: pty.Term, Environ: sess.Environ()})
+	if err != nil {
+		fmt.Fprintf(sess.Stderr(), "junco: %v\n", err)
+		return 1
+	}
+	guarded := &guard{inner: model, user: sess.User(), log: s.log}
+	p := tea.NewProgram(guarded, tea.WithInput(sess), tea.WithOutput(sess), tea.WithoutSignalHandler(),
+		tea.WithContext(ctx), tea.WithAltScreen())
+	s.mu.Lock()
+	s.programs[p] = struct{}{}
+	s.mu.Unlock()
+	defer func() {
+		s.mu.Lock()
+		delete(s.programs, p)
+		s.mu.Unlock()
+	}()
+	go func() {
+		w, h := pty.Window.Width, pty.Window.Height
+		if w > 0 && h > 0 {
+			p.Send(tea.WindowSizeMsg{Width: w, Height: h})
+		}
+		for {
+			select {
+			case <-ctx.Done():
+				return
+			case win, ok := <-winCh:
+				if !ok {
+					return
+				}
+				if win.Width > 0 && win.Height > 0 {
+					p.Send(tea.WindowSizeMsg{Width: win.Width, Height: win.Height})
+				}
+			}
+		}
+	}()
+	_, err = p.Run()
+	p.Kill()
+	switch {
+	case guarded.panicked:
+		return 1
+	case err != nil && !errors.Is(err, tea.ErrProgramKilled) && !errors.Is(err, context.Canceled):
+		s.log.Error("program ended with an error", "user", sess.User(), "error", err)
+		return 1
+	}
+	return 0
+}
+
+// sessionEnv answers termenv's environment questions from the client's
+// environment and PTY, never from the server's own.
+type sessionEnv struct{ environ []string }
+
+func (e sessionEnv) Environ() []string { return e.environ }
+func (e sessionEnv) Getenv(k string) string {
+	for i := len(e.environ) - 1; i >= 0; i-- {
+		if v, ok := strings.CutPrefix(e.environ[i], k+"="); ok {
+			return v
+		}
+	}
+	return ""
+}
+
+// guard wraps a connection's model: a panic in Init, Update, View or a
+// command it returns is logged with its stack and ends that program only.
+type guard struct {
+	inner    tea.Model
+	user     string
+	log      *slog.Logger
+	panicked bool
+}
+
+func (g *guard) recovered(r any) tea.Cmd {
+	g.panicked = true
+	g.log.Error("program panic: connection closed", "user", g.user, "panic", fmt.Sprint(r), "stack", string(debug.Stack()))
+	return tea.Quit
+}
+
+func (g *guard) wrap(c tea.Cmd) tea.Cmd {
+	if c == nil {
+		return nil
+	}
+	return func() (msg tea.Msg) {
+		defer func() {
+			if r := recover(); r != nil {
+				g.log.Error("command panic: connection closed", "user", g.user, "panic", fmt.Sprint(r), "stack", string(debug.Stack()))
+				msg = panicMsg{}
+			}
+		}()
+		return c()
+	}
+}
+
+type panicMsg struct{}
+
+func (g *guard) Init() (cmd tea.Cmd) {
+	defer func() {
+		if r := recover(); r != nil {
+			cmd = g.recovered(r)
+		}
+	}()
+	return g.wrap(g.inner.Init())
+}
+
+func (g *guard) Update(msg tea.Msg) (m tea.Model, cmd tea.Cmd) {
+	if _, ok := msg.(panicMsg); ok {
+		g.panicked = true
+		return g, tea.Quit
+	}
+	if g.panicked {
+		return g, tea.Quit
+	}
+	defer func() {
+		if r := recover(); r != nil {
+			m, cmd = g, g.recovered(r)
+		}
+	}()
+	next, c := g.inner.Update(msg)
+	g.inner = next
+	return g, g.wrap(c)
+}
+
+func (g *guard) View() (v string) {
+	if g.panicked {
+		return "junco: internal error; this connection is closing.\n"
+	}
+	defer func() {
+		if r := recover(); r != nil {
+			g.recovered(r)
+			v = "junco: internal error; this connection is closing.\n"
+		}
+	}()
+	return g.inner.View()
+}
