@@ -1,0 +1,753 @@
+package extract
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+
+	"junco/physics"
+)
+
+// DiodeModel selects the I-V model fitted by FitIV.
+type DiodeModel int
+
+const (
+	// ModelSingle is the single-diode model (SingleDiode): Is, n, Rs, Rsh.
+	ModelSingle DiodeModel = iota
+	// ModelDouble is the double-diode model (DoubleDiode): Is1 (n = 1),
+	// Is2 (n = 2), Rs, Rsh.
+	ModelDouble
+)
+
+// String returns "single" or "double".
+func (m DiodeModel) String() string {
+	if m == ModelDouble {
+		return "double"
+	}
+	return "single"
+}
+
+// ParseDiodeModel maps "single" or "double" (case-insensitive) to a
+// DiodeModel.
+func ParseDiodeModel(s string) (DiodeModel, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "single", "":
+		return ModelSingle, nil
+	case "double":
+		return ModelDouble, nil
+	}
+	return 0, inputErr("model", fmt.Sprintf("%q", s), "single or double", "unknown diode model")
+}
+
+// Window is a closed bias interval [MinV, MaxV] in volts selecting the
+// points a fit uses. The zero value selects every point (FitIV further keeps
+// only forward points, V > 0 and I > 0).
+type Window struct {
+	MinV, MaxV float64 // bounds, V
+}
+
+// IsZero reports whether w is the zero value (no restriction).
+func (w Window) IsZero() bool { return w.MinV == 0 && w.MaxV == 0 }
+
+// Contains reports whether v lies in the window (always true for the zero
+// value).
+func (w Window) Contains(v float64) bool { return w.IsZero() || (v >= w.MinV && v <= w.MaxV) }
+
+func (w Window) check(field string) error {
+	if w.IsZero() {
+		return nil
+	}
+	if math.IsNaN(w.MinV) || math.IsNaN(w.MaxV) || math.IsInf(w.MinV, 0) || math.IsInf(w.MaxV, 0) {
+		return inputErr(field, fmt.Sprintf("%g:%g", w.MinV, w.MaxV), "finite bounds", "the fit window must be a finite interval")
+	}
+	if !(w.MinV < w.MaxV) {
+		return inputErr(field, fmt.Sprintf("%g:%g", w.MinV, w.MaxV), "MinV < MaxV", "the fit window is empty")
+	}
+	return nil
+}
+
+// IVOptions configures FitIV.
+type IVOptions struct {
+	// TemperatureK is the device temperature in K (required, 1..2000 K);
+	// it sets Vt = kT/q.
+	TemperatureK float64
+	// Window restricts the fit to a bias range; zero = all forward points.
+	Window Window
+	// Model selects the single- or double-diode model.
+	Model DiodeModel
+	// RelativeNoise is the relative current noise (fraction, default 0.01)
+	// and CurrentFloorA the absolute noise floor in A (default 0). Point i
+	// gets the weight 1/sqrt(RelativeNoise^2 + (CurrentFloorA/I_i)^2) on the
+	// log-current residual (propagation of additive plus multiplicative
+	// noise to ln I; common practice). With no floor all weights are equal.
+	RelativeNoise, CurrentFloorA float64
+	// FixRs holds Rs at RsOhm (>= 0) instead of fitting it; FixRsh holds
+	// Rsh at RshOhm (> 0, +Inf = no shunt).
+	FixRs, FixRsh bool
+	RsOhm, RshOhm float64 // the fixed values, ohm
+	// MaxIterations bounds the Levenberg-Marquardt iterations (default 200).
+	MaxIterations int
+}
+
+// DirectEstimates are the direct (non-iterative) estimates used as the
+// starting point of the least-squares fit.
+type DirectEstimates struct {
+	// From the linear region of ln I vs V (LinearRegion).
+	SaturationCurrentA, IdealityFactor float64
+	LinearWindow                       Window // bias span of the linear region
+	// From Cheung & Cheung (CheungCheung); NaN when not applicable.
+	SeriesResistanceOhm float64
+	// Start value of Rsh from the low-bias excess current (+Inf = none).
+	ShuntResistanceOhm float64
+}
+
+// IVFit is the result of FitIV. Parameter values and standard errors are in
+// SI units (A, ohm); a standard error is NaN for a parameter that was held
+// fixed or found not observable. For ModelSingle the Single fields are set,
+// for ModelDouble the Double fields.
+type IVFit struct {
+	Model        DiodeModel      // model fitted
+	TemperatureK float64         // temperature used for Vt, K
+	Single       SingleDiode     // ModelSingle result
+	SingleStdErr SingleDiode     // its standard errors
+	Double       DoubleDiode     // ModelDouble result
+	DoubleStdErr DoubleDiode     // its standard errors
+	Start        DirectEstimates // direct-method start values
+	// Correlations lists parameter pairs with |r| > 0.9.
+	Correlations []Correlation
+	// RMSLogResidual is sqrt(mean((ln I_model - ln I_meas)^2)) over the
+	// points used (dimensionless; 0.01 is about 1 % scatter).
+	RMSLogResidual float64
+	// Points is the number of points used; Skipped the number in the window
+	// left out because V <= 0, I <= 0 or a value was not finite.
+	Points, Skipped int
+	// UsedWindow spans the bias of the points used.
+	UsedWindow Window
+	Iterations int  // Levenberg-Marquardt iterations of the last fit
+	Converged  bool // false when the iteration limit was hit
+	// Notes explain decisions such as dropping an unobservable parameter.
+	Notes []string
+}
+
+// observable is the threshold below which a parameter's largest effect on
+// ln I over the window counts as not observable.
+const observable = 0.02
+
+// unobservable says why an optional parameter (Rs, Rsh, Is2) cannot be
+// determined from the data, or returns "": its largest effect on ln I is
+// below 2 %, or it is not 3 standard errors away from zero in the log
+// parametrisation (se > value/3; a 3-sigma rule, common practice), which
+// keeps noise from being fitted as a parameter.
+func unobservable(effect, value, se float64) string {
+	switch {
+	case effect < observable:
+		return "largest effect on ln I below 2 %"
+	case math.IsNaN(se) || se > value/3:
+		return "standard error above a third of the value"
+	}
+	return ""
+}
+
+// FitIV fits a diode model to forward I-V data by weighted nonlinear least
+// squares on the log-current scale, r_i = w_i (ln I_model(V_i) - ln I_i),
+// with every parameter fitted as its logarithm (so it stays positive) by
+// Levenberg-Marquardt. The single-diode model is evaluated explicitly with
+// the Lambert W function (SingleDiode.Current), the double-diode model by a
+// monotone Newton solve (DoubleDiode.Current); Jacobians are analytic
+// (implicit differentiation of the model equation).
+//
+// Start values come from published direct methods: the linear region of
+// ln I vs V for n and Is (LinearRegion), Cheung & Cheung, Appl. Phys. Lett.
+// 49, 85 (1986) for Rs (CheungCheung), and the low-bias excess current for
+// Rsh. Rs or Rsh whose largest effect on ln I in the window is below 0.02
+// (2 %), or whose standard error exceeds a third of its value, is declared
+// not observable, removed (Rs = 0, Rsh = +Inf) and the fit repeated; a note
+// says so.
+//
+// Standard errors come from s^2 (J^T W J)^-1 with s^2 = sum w r^2/(N - p)
+// and the delta method for the log parametrisation. Units: v in V, i in A,
+// results in A and ohm. Valid for forward data spanning at least a few
+// kT/q; points with V <= 0 or I <= 0 are skipped (see AnalyzeReverse for
+// reverse bias).
+func FitIV(v, i []float64, opt IVOptions) (*IVFit, error) {
+	if len(v) != len(i) {
+		return nil, inputErr("current", fmt.Sprintf("%d values", len(i)), fmt.Sprintf("%d values (one per voltage)", len(v)), "voltage and current columns must have the same length")
+	}
+	t := opt.TemperatureK
+	if !(t >= 1 && t <= 2000) {
+		return nil, inputErr("TemperatureK", t, "1..2000 K", "the thermal voltage kT/q needs the device temperature")
+	}
+	if err := opt.Window.check("Window"); err != nil {
+		return nil, err
+	}
+	if opt.RelativeNoise < 0 || opt.CurrentFloorA < 0 || math.IsNaN(opt.RelativeNoise) || math.IsNaN(opt.CurrentFloorA) {
+		return nil, inputErr("noise", fmt.Sprintf("%g, %g A", opt.RelativeNoise, opt.CurrentFloorA), ">= 0", "noise levels cannot be negative")
+	}
+	if opt.FixRs && !(opt.RsOhm >= 0 && !math.IsInf(opt.RsOhm, 0)) {
+		return nil, inputErr("RsOhm", opt.RsOhm, "0 <= Rs < Inf", "a fixed series resistance must be finite and not negative")
+	}
+	if opt.FixRsh && !(opt.RshOhm > 0) {
+		return nil, inputErr("RshOhm", opt.RshOhm, "Rsh > 0 (+Inf = no shunt)", "a fixed shunt resistance must be positive")
+	}
+	vt := physics.ThermalVoltage(t)
+	pts, skipped := forwardPoints(v, i, opt.Window)
+	need := 5
+	if opt.FixRs {
+		need--
+	}
+	if opt.FixRsh {
+		need--
+	}
+	if len(pts.v) < need {
+		return nil, tooFew("window", len(pts.v), need, fmt.Sprintf("the fit needs forward points (V > 0, I > 0) inside the window; %d were skipped", skipped))
+	}
+	de, err := directEstimates(pts.v, pts.i, vt)
+	if err != nil {
+		return nil, err
+	}
+	rel := opt.RelativeNoise
+	if rel == 0 {
+		rel = 0.01
+	}
+	w := make([]float64, len(pts.v))
+	for k, c := range pts.i {
+		f := opt.CurrentFloorA / (rel * c)
+		w[k] = 1 / math.Sqrt(1+f*f)
+	}
+	maxIter := opt.MaxIterations
+	if maxIter <= 0 {
+		maxIter = 200
+	}
+	res := &IVFit{Model: opt.Model, TemperatureK: t, Start: de, Points: len(pts.v), Skipped: skipped,
+		UsedWindow: Window{pts.v[0], pts.v[len(pts.v)-1]}}
+
+	// Single-diode fit (also the start of the double-diode fit).
+	sd := SingleDiode{de.SaturationCurrentA, de.IdealityFactor, de.SeriesResistanceOhm, de.ShuntResistanceOhm}
+	if math.IsNaN(sd.SeriesResistanceOhm) || !(sd.SeriesResistanceOhm > 0) {
+		sd.SeriesResistanceOhm = 1e-3 * de.IdealityFactor * vt / pts.i[len(pts.i)-1]
+	}
+	free := [4]bool{true, true, !opt.FixRs, !opt.FixRsh}
+	if opt.FixRs {
+		sd.SeriesResistanceOhm = opt.RsOhm
+	}
+	if opt.FixRsh {
+		sd.ShuntResistanceOhm = opt.RshOhm
+	}
+	if math.IsInf(sd.ShuntResistanceOhm, 1) && free[3] {
+		sd.ShuntResistanceOhm = 1e3 * maxRatio(pts.v, pts.i)
+	}
+	sf, err := fitSingle(pts, w, vt, sd, free, maxIter)
+	if err != nil {
+		return nil, err
+	}
+	for round := 0; round < 2; round++ {
+		changed := false
+		if sf.free[2] {
+			if why := unobservable(seriesEffect(pts, sf.d.SeriesResistanceOhm, sf.d.IdealityFactor*vt), sf.d.SeriesResistanceOhm, sf.se.SeriesResistanceOhm); why != "" {
+				sf.d.SeriesResistanceOhm, sf.free[2], changed = 0, false, true
+				res.Notes = append(res.Notes, "series resistance not observable in the window ("+why+"); set to 0")
+			}
+		}
+		if sf.free[3] {
+			if why := unobservable(shuntEffect(pts, sf.d), sf.d.ShuntResistanceOhm, sf.se.ShuntResistanceOhm); why != "" {
+				sf.d.ShuntResistanceOhm, sf.free[3], changed = math.Inf(1), false, true
+				res.Notes = append(res.Notes, "shunt resistance not observable in the window ("+why+"); set to infinity")
+			}
+		}
+		if !changed {
+			break
+		}
+		if sf, err = fitSingle(pts, w, vt, sf.d, sf.free, maxIter); err != nil {
+			return nil, err
+		}
+	}
+	if opt.Model != ModelDouble {
+		res.Single, res.SingleStdErr = sf.d, sf.se
+		res.Correlations, res.Iterations, res.Converged = sf.corr, sf.iter, sf.converged
+		res.RMSLogResidual = rmsLog(pts, func(x float64) float64 { return sf.d.Current(x, vt) })
+		if !sf.converged {
+			res.Notes = append(res.Notes, "iteration limit reached before convergence")
+		}
+		return res, nil
+	}
+
+	// Double-diode fit started from the single-diode result.
+	dd := doubleStart(pts, vt, sf.d)
+	dfree := [4]bool{true, true, !opt.FixRs, !opt.FixRsh}
+	if opt.FixRs {
+		dd.SeriesResistanceOhm = opt.RsOhm
+	} else if dd.SeriesResistanceOhm == 0 {
+		dd.SeriesResistanceOhm = 1e-3 * vt / pts.i[len(pts.i)-1]
+	}
+	if opt.FixRsh {
+		dd.ShuntResistanceOhm = opt.RshOhm
+	} else if math.IsInf(dd.ShuntResistanceOhm, 1) {
+		dd.ShuntResistanceOhm = 1e3 * maxRatio(pts.v, pts.i)
+	}
+	df, err := fitDouble(pts, w, vt, dd, dfree, maxIter)
+	if err != nil {
+		return nil, err
+	}
+	for round := 0; round < 3; round++ {
+		changed := false
+		if df.free[2] {
+			if why := unobservable(seriesEffect(pts, df.d.SeriesResistanceOhm, vt), df.d.SeriesResistanceOhm, df.se.SeriesResistanceOhm); why != "" {
+				df.d.SeriesResistanceOhm, df.free[2], changed = 0, false, true
+				res.Notes = append(res.Notes, "series resistance not observable in the window ("+why+"); set to 0")
+			}
+		}
+		if df.free[3] {
+			if why := unobservable(shuntEffectDouble(pts, vt, df.d), df.d.ShuntResistanceOhm, df.se.ShuntResistanceOhm); why != "" {
+				df.d.ShuntResistanceOhm, df.free[3], changed = math.Inf(1), false, true
+				res.Notes = append(res.Notes, "shunt resistance not observable in the window ("+why+"); set to infinity")
+			}
+		}
+		if df.free[1] {
+			if why := unobservable(recombEffect(pts, vt, df.d), df.d.RecombinationCurrentA, df.se.RecombinationCurrentA); why != "" {
+				df.d.RecombinationCurrentA, df.free[1], changed = 0, false, true
+				res.Notes = append(res.Notes, "recombination (n = 2) current not observable in the window ("+why+"); set to 0")
+			}
+		}
+		if !changed {
+			break
+		}
+		if df, err = fitDouble(pts, w, vt, df.d, df.free, maxIter); err != nil {
+			return nil, err
+		}
+	}
+	res.Double, res.DoubleStdErr = df.d, df.se
+	res.Correlations, res.Iterations, res.Converged = df.corr, df.iter, df.converged
+	res.RMSLogResidual = rmsLog(pts, func(x float64) float64 { return df.d.Current(x, vt) })
+	if !df.converged {
+		res.Notes = append(res.Notes, "iteration limit reached before convergence")
+	}
+	return res, nil
+}
+
+type ivPoints struct{ v, i []float64 }
+
+// Len is the number of points.
+func (p ivPoints) Len() int { return len(p.v) }
+
+// Less orders by voltage.
+func (p ivPoints) Less(a, b int) bool { return p.v[a] < p.v[b] }
+
+// Swap exchanges two points.
+func (p ivPoints) Swap(a, b int) {
+	p.v[a], p.v[b] = p.v[b], p.v[a]
+	p.i[a], p.i[b] = p.i[b], p.i[a]
+}
+
+// forwardPoints copies the finite points with V > 0, I > 0 inside w,
+// sorted by V, and counts the points in w that were left out.
+func forwardPoints(v, i []float64, w Window) (ivPoints, int) {
+	var p ivPoints
+	skipped := 0
+	for k := range v {
+		if !w.Contains(v[k]) {
+			continue
+		}
+		if v[k] > 0 && i[k] > 0 && !math.IsInf(v[k], 0) && !math.IsInf(i[k], 0) {
+			p.v = append(p.v, v[k])
+			p.i = append(p.i, i[k])
+		} else {
+			skipped++
+		}
+	}
+	if !sort.IsSorted(p) {
+		sort.Stable(p)
+	}
+	return p, skipped
+}
+
+func maxRatio(v, i []float64) float64 {
+	m := 0.0
+	for k := range v {
+		m = math.Max(m, v[k]/i[k])
+	}
+	return m
+}
+
+func seriesEffect(p ivPoints, rs, a float64) float64 {
+	m := 0.0
+	for _, c := range p.i {
+		m = math.Max(m, c*rs/a)
+	}
+	return m
+}
+
+func shuntEffect(p ivPoints, d SingleDiode) float64 {
+	m := 0.0
+	for k := range p.v {
+		vd := p.v[k] - p.i[k]*d.SeriesResistanceOhm
+		m = math.Max(m, vd/d.ShuntResistanceOhm/p.i[k])
+	}
+	return m
+}
+
+func shuntEffectDouble(p ivPoints, vt float64, d DoubleDiode) float64 {
+	m := 0.0
+	for k := range p.v {
+		vd := p.v[k] - p.i[k]*d.SeriesResistanceOhm
+		m = math.Max(m, vd/d.ShuntResistanceOhm/p.i[k])
+	}
+	return m
+}
+
+func recombEffect(p ivPoints, vt float64, d DoubleDiode) float64 {
+	m := 0.0
+	for k := range p.v {
+		vd := p.v[k] - p.i[k]*d.SeriesResistanceOhm
+		m = math.Max(m, d.RecombinationCurrentA*math.Expm1(vd/(2*vt))/p.i[k])
+	}
+	return m
+}
+
+func rmsLog(p ivPoints, model func(float64) float64) float64 {
+	s := 0.0
+	for k := range p.v {
+		r := math.Log(model(p.v[k]) / p.i[k])
+		s += r * r
+	}
+	return math.Sqrt(s / float64(len(p.v)))
+}
+
+type singleResult struct {
+	d, se     SingleDiode
+	free      [4]bool
+	corr      []Correlation
+	iter      int
+	converged bool
+}
+
+// singleName names the single-diode parameters in correlation reports.
+func singleName(k int) string { return [4]string{"Is", "n", "Rs", "Rsh"}[k] }
+
+func (d *SingleDiode) slot(k int) *float64 {
+	switch k {
+	case 0:
+		return &d.SaturationCurrentA
+	case 1:
+		return &d.IdealityFactor
+	case 2:
+		return &d.SeriesResistanceOhm
+	}
+	return &d.ShuntResistanceOhm
+}
+
+func fitSingle(pts ivPoints, w []float64, vt float64, d0 SingleDiode, free [4]bool, maxIter int) (singleResult, error) {
+	var idx []int
+	for k := 0; k < 4; k++ {
+		if free[k] {
+			idx = append(idx, k)
+		}
+	}
+	p := len(idx)
+	theta := make([]float64, p)
+	for j, k := range idx {
+		theta[j] = math.Log(*d0.slot(k))
+	}
+	m := len(pts.v)
+	eval := func(th, r, jac []float64) bool {
+		d := d0
+		for j, k := range idx {
+			*d.slot(k) = math.Exp(th[j])
+		}
+		var g [4]float64
+		for n := 0; n < m; n++ {
+			c := d.grad(pts.v[n], vt, &g)
+			if !(c > 0) || math.IsInf(c, 0) {
+				return false
+			}
+			r[n] = w[n] * math.Log(c/pts.i[n])
+			if jac != nil {
+				for j, k := range idx {
+					jac[n*p+j] = w[n] * g[k] / c
+				}
+			}
+		}
+		return true
+	}
+	lr, err := levenberg(lmProblem{m: m, p: p, eval: eval}, theta, maxIter)
+	if err != nil {
+		return singleResult{}, fmt.Errorf("single-diode fit: %w (start Is=%g A, n=%g, Rs=%g ohm, Rsh=%g ohm)", err,
+			d0.SaturationCurrentA, d0.IdealityFactor, d0.SeriesResistanceOhm, d0.ShuntResistanceOhm)
+	}
+	out := singleResult{d: d0, free: free, iter: lr.iter, converged: lr.converged}
+	nan := math.NaN()
+	out.se = SingleDiode{nan, nan, nan, nan}
+	names := make([]string, p)
+	for j, k := range idx {
+		val := math.Exp(lr.theta[j])
+		*out.d.slot(k) = val
+		names[j] = singleName(k)
+		if lr.cov != nil {
+			*out.se.slot(k) = val * math.Sqrt(lr.cov[j*p+j])
+		}
+	}
+	out.corr = strongCorrelations(lr.cov, names)
+	return out, nil
+}
+
+type doubleResult struct {
+	d, se     DoubleDiode
+	free      [4]bool
+	corr      []Correlation
+	iter      int
+	converged bool
+}
+
+// doubleName names the double-diode parameters in correlation reports.
+func doubleName(k int) string { return [4]string{"Is1", "Is2", "Rs", "Rsh"}[k] }
+
+func (d *DoubleDiode) slot(k int) *float64 {
+	switch k {
+	case 0:
+		return &d.DiffusionCurrentA
+	case 1:
+		return &d.RecombinationCurrentA
+	case 2:
+		return &d.SeriesResistanceOhm
+	}
+	return &d.ShuntResistanceOhm
+}
+
+func fitDouble(pts ivPoints, w []float64, vt float64, d0 DoubleDiode, free [4]bool, maxIter int) (doubleResult, error) {
+	var idx []int
+	for k := 0; k < 4; k++ {
+		if free[k] {
+			idx = append(idx, k)
+		}
+	}
+	p := len(idx)
+	theta := make([]float64, p)
+	for j, k := range idx {
+		theta[j] = math.Log(*d0.slot(k))
+	}
+	m := len(pts.v)
+	eval := func(th, r, jac []float64) bool {
+		d := d0
+		for j, k := range idx {
+			*d.slot(k) = math.Exp(th[j])
+		}
+		var g [4]float64
+		for n := 0; n < m; n++ {
+			c := d.grad(pts.v[n], vt, &g)
+			if !(c > 0) || math.IsInf(c, 0) {
+				return false
+			}
+			r[n] = w[n] * math.Log(c/pts.i[n])
+			if jac != nil {
+				for j, k := range idx {
+					jac[n*p+j] = w[n] * g[k] / c
+				}
+			}
+		}
+		return true
+	}
+	lr, err := levenberg(lmProblem{m: m, p: p, eval: eval}, theta, maxIter)
+	if err != nil {
+		return doubleResult{}, fmt.Errorf("double-diode fit: %w", err)
+	}
+	out := doubleResult{d: d0, free: free, iter: lr.iter, converged: lr.converged}
+	nan := math.NaN()
+	out.se = DoubleDiode{nan, nan, nan, nan}
+	names := make([]string, p)
+	for j, k := range idx {
+		val := math.Exp(lr.theta[j])
+		*out.d.slot(k) = val
+		names[j] = doubleName(k)
+		if lr.cov != nil {
+			*out.se.slot(k) = val * math.Sqrt(lr.cov[j*p+j])
+		}
+	}
+	out.corr = strongCorrelations(lr.cov, names)
+	return out, nil
+}
+
+// doubleStart derives double-diode start values from a single-diode fit:
+// Is1 from the upper third of the points (n = 1 assumed there), Is2 from
+// the excess current in the lower third (n = 2 assumed there).
+func doubleStart(p ivPoints, vt float64, s SingleDiode) DoubleDiode {
+	n := len(p.v)
+	rs := s.SeriesResistanceOhm
+	var a, b []float64
+	for k := 2 * n / 3; k < n; k++ {
+		vd := p.v[k] - p.i[k]*rs
+		a = append(a, p.i[k]*math.Exp(-vd/vt))
+	}
+	is1 := median(a)
+	for k := 0; k < n/3+1; k++ {
+		vd := p.v[k] - p.i[k]*rs
+		ex := p.i[k] - is1*math.Expm1(vd/vt) - vd/s.ShuntResistanceOhm
+		if ex > 0 {
+			b = append(b, ex/math.Expm1(vd/(2*vt)))
+		}
+	}
+	is2 := median(b)
+	if !(is2 > 0) {
+		is2 = is1 * 1e3
+	}
+	if !(is1 > 0) {
+		is1 = s.SaturationCurrentA * 1e-3
+	}
+	return DoubleDiode{is1, is2, rs, s.ShuntResistanceOhm}
+}
+
+func median(x []float64) float64 {
+	if len(x) == 0 {
+		return math.NaN()
+	}
+	y := append([]float64(nil), x...)
+	sort.Float64s(y)
+	n := len(y)
+	if n%2 == 1 {
+		return y[n/2]
+	}
+	return 0.5 * (y[n/2-1] + y[n/2])
+}
+
+// LinearRegion finds the most nearly ideal part of a forward I-V curve: it
+// slides a window of max(5, N/8) consecutive points (sorted by V) along
+// ln I vs V, fits a straight line to each, and keeps the steepest one. The
+// line ln I = ln Is + V/(n Vt) gives
+//
+//	n = 1/(Vt slope),  Is = exp(intercept).
+//
+// The "-1" of exp(V/(n Vt)) - 1 is taken out by dividing I by
+// 1 - exp(-V/(n Vt)) with the current estimate of n (a few passes), so
+// low-bias points are not mistaken for a steeper slope.
+// Units: v in V (sorted ascending, V > 0), i in A (> 0), vt in V; returns
+// Is in A, n, and the bias window of the chosen points. Valid where the
+// steepest part of the curve is neither shunt- nor Rs-limited (the usual
+// "linear region" of the semilog plot).
+// Source: Schroder, Semiconductor Material and Device Characterization, 3rd
+// ed. (2006), sec. 4.2 (ideality factor and saturation current from the
+// semilog plot).
+func LinearRegion(v, i []float64, vt float64) (is, n float64, win Window, err error) {
+	m := len(v)
+	if m != len(i) {
+		return 0, 0, Window{}, inputErr("current", len(i), fmt.Sprintf("%d values", m), "one current per voltage")
+	}
+	k := max(5, m/8)
+	if m < k {
+		return 0, 0, Window{}, tooFew("points", m, 5, "the linear region needs at least 5 forward points")
+	}
+	y := make([]float64, m)
+	for j := range i {
+		if !(i[j] > 0) || !(v[j] > 0) {
+			return 0, 0, Window{}, inputErr(fmt.Sprintf("point %d", j), fmt.Sprintf("V=%g, I=%g", v[j], i[j]), "V > 0 and I > 0", "the semilog plot needs positive forward current")
+		}
+		y[j] = math.Log(i[j])
+	}
+	yc := make([]float64, m)
+	copy(yc, y)
+	var bf lineFit
+	bs := 0
+	for pass := 0; pass < 4; pass++ {
+		best := math.Inf(-1)
+		for s := 0; s+k <= m; s++ {
+			f, ok := fitLine(v[s:s+k], yc[s:s+k], nil)
+			if ok && f.b > best {
+				best, bf, bs = f.b, f, s
+			}
+		}
+		if !(best > 0) {
+			return 0, 0, Window{}, inputErr("current", "not increasing", "ln I rising with V", "no part of the curve rises with bias; is this forward data?")
+		}
+		// Remove the "-1" of exp(V/(n Vt)) - 1, which steepens the curve
+		// below a few n Vt: ln(I/(1 - exp(-V/(n Vt)))) = ln Is + V/(n Vt).
+		a := 1 / bf.b
+		for j := range yc {
+			yc[j] = y[j] - math.Log(-math.Expm1(-v[j]/a))
+		}
+	}
+	return math.Exp(bf.a), 1 / (vt * bf.b), Window{v[bs], v[bs+k-1]}, nil
+}
+
+// CheungResult holds the Cheung-Cheung estimates.
+type CheungResult struct {
+	SeriesResistanceOhm, IdealityFactor float64 // Rs in ohm, n
+	StdErrRs, StdErrN                   float64 // standard errors from the line fit
+	Points                              int     // points on the Cheung-Cheung line
+}
+
+// CheungCheung estimates the series resistance from the high-current part
+// of a forward I-V curve using
+//
+//	dV/d(ln I) = I Rs + n Vt,
+//
+// a straight line in I whose slope is Rs and intercept n Vt. The derivative
+// is a local least-squares slope of V against ln I over +-h neighbours
+// (h = max(2, N/40)). Units: v in V, i in A (sorted by V, I > 0), vt in V.
+// Valid where the shunt current is negligible (upper part of the curve).
+// Source: S. K. Cheung and N. W. Cheung, Appl. Phys. Lett. 49, 85 (1986),
+// eq. (4).
+func CheungCheung(v, i []float64, vt float64) (CheungResult, error) {
+	m := len(v)
+	if m != len(i) {
+		return CheungResult{}, inputErr("current", len(i), fmt.Sprintf("%d values", m), "one current per voltage")
+	}
+	h := max(2, m/40)
+	if m < 2*h+3 {
+		return CheungResult{}, tooFew("points", m, 2*h+3, "the Cheung-Cheung derivative needs a few points on each side")
+	}
+	y := make([]float64, m)
+	for j := range i {
+		if !(i[j] > 0) {
+			return CheungResult{}, inputErr(fmt.Sprintf("point %d", j), i[j], "I > 0", "ln I needs positive current")
+		}
+		y[j] = math.Log(i[j])
+	}
+	var xs, hs []float64
+	for j := h; j < m-h; j++ {
+		f, ok := fitLine(y[j-h:j+h+1], v[j-h:j+h+1], nil)
+		if !ok {
+			continue
+		}
+		xs = append(xs, i[j])
+		hs = append(hs, f.b)
+	}
+	f, ok := fitLine(xs, hs, nil)
+	if !ok || len(xs) < 3 {
+		return CheungResult{}, tooFew("points", len(xs), 3, "the Cheung-Cheung line needs distinct currents")
+	}
+	return CheungResult{SeriesResistanceOhm: f.b, IdealityFactor: f.a / vt,
+		StdErrRs: math.Sqrt(f.vb), StdErrN: math.Sqrt(f.va) / vt, Points: len(xs)}, nil
+}
+
+// directEstimates combines LinearRegion, CheungCheung (on the points above
+// the linear region) and the low-bias excess current into start values.
+func directEstimates(v, i []float64, vt float64) (DirectEstimates, error) {
+	is, n, win, err := LinearRegion(v, i, vt)
+	if err != nil {
+		return DirectEstimates{}, err
+	}
+	de := DirectEstimates{SaturationCurrentA: is, IdealityFactor: n, LinearWindow: win,
+		SeriesResistanceOhm: math.NaN(), ShuntResistanceOhm: math.Inf(1)}
+	// Cheung-Cheung on the points from the middle of the linear window up.
+	mid := 0.5 * (win.MinV + win.MaxV)
+	lo := sort.SearchFloat64s(v, mid)
+	if len(v)-lo >= 7 {
+		if c, err := CheungCheung(v[lo:], i[lo:], vt); err == nil && c.SeriesResistanceOhm > 0 {
+			de.SeriesResistanceOhm = c.SeriesResistanceOhm
+		}
+	}
+	// Shunt from the excess current below the linear window.
+	a := n * vt
+	var r []float64
+	for k := range v {
+		if v[k] >= win.MinV {
+			break
+		}
+		ex := i[k] - is*math.Expm1(v[k]/a)
+		if ex > 0.5*i[k] {
+			r = append(r, v[k]/ex)
+		}
+	}
+	if len(r) >= 3 {
+		de.ShuntResistanceOhm = median(r)
+	}
+	return de, nil
+}

@@ -1,0 +1,81 @@
+package extract
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+)
+
+// CardParams are the diode parameters written into a SPICE-style model
+// card. A zero or NaN field is left out of the card, so the simulator's
+// default applies (the SPICE defaults for these are IS = 1e-14 A, N = 1,
+// RS = 0, CJO = 0, VJ = 1 V, M = 0.5, BV = infinite, TNOM = 27 C; from
+// memory, Nagel, SPICE2, UC Berkeley ERL-M520 (1975)).
+type CardParams struct {
+	IS   float64 // saturation current, A (> 0)
+	N    float64 // emission (ideality) coefficient (> 0)
+	RS   float64 // series resistance, ohm (>= 0)
+	CJO  float64 // zero-bias junction capacitance, F (> 0)
+	VJ   float64 // junction potential, V (> 0)
+	M    float64 // grading coefficient (> 0)
+	BV   float64 // reverse breakdown voltage, V (> 0, magnitude)
+	TNOM float64 // temperature at which the parameters hold, degrees C
+}
+
+// ModelCard returns the one-line SPICE-style diode model card
+//
+//	.model NAME D(IS=... N=... RS=... CJO=... VJ=... M=... BV=... TNOM=...)
+//
+// with only the parameters actually given (non-zero, non-NaN) in that
+// order, each printed with 4 significant digits in exponent form when
+// needed. The name must start with a letter and hold only letters, digits,
+// '_', '-', '.' or '+' (at most 64 characters), so the card parses as one
+// token. Source: Nagel, SPICE2: A Computer Program to Simulate
+// Semiconductor Circuits, UC Berkeley ERL-M520 (1975), diode model
+// parameters (the card syntax is common practice across simulators).
+func ModelCard(name string, p CardParams) (string, error) {
+	if name == "" || len(name) > 64 {
+		return "", inputErr("name", fmt.Sprintf("%q", name), "1..64 characters", "the model card needs a name")
+	}
+	for k, r := range name {
+		ok := r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z' || (k > 0 && (r >= '0' && r <= '9' || strings.ContainsRune("_-.+", r)))
+		if !ok {
+			return "", inputErr("name", fmt.Sprintf("%q", name), "a letter first, then letters, digits, _ - . +", fmt.Sprintf("character %q at position %d would break the card", r, k+1))
+		}
+	}
+	type kv struct {
+		k        string
+		v        float64
+		positive bool // must be > 0 (else >= 0)
+		signed   bool // any finite value
+	}
+	list := []kv{{"IS", p.IS, true, false}, {"N", p.N, true, false}, {"RS", p.RS, false, false},
+		{"CJO", p.CJO, true, false}, {"VJ", p.VJ, true, false}, {"M", p.M, true, false}, {"BV", p.BV, true, false},
+		{"TNOM", p.TNOM, false, true}}
+	var b strings.Builder
+	b.WriteString(".model ")
+	b.WriteString(name)
+	b.WriteString(" D(")
+	first := true
+	for _, e := range list {
+		if e.v == 0 || math.IsNaN(e.v) {
+			continue
+		}
+		if math.IsInf(e.v, 0) || (!e.signed && e.v < 0) {
+			return "", inputErr(e.k, e.v, "finite and positive", "a model-card parameter must be a finite physical value")
+		}
+		if e.k == "TNOM" && e.v < -273.15 {
+			return "", inputErr(e.k, e.v, ">= -273.15 C", "below absolute zero")
+		}
+		if !first {
+			b.WriteByte(' ')
+		}
+		first = false
+		b.WriteString(e.k)
+		b.WriteByte('=')
+		b.WriteString(strconv.FormatFloat(e.v, 'g', 4, 64))
+	}
+	b.WriteByte(')')
+	return b.String(), nil
+}
