@@ -6,16 +6,22 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"strconv"
 	"strings"
 
 	"junco/model"
+	"junco/physics"
 )
 
 // calcOptions holds the inputs of `junco calc`.
 type calcOptions struct {
-	spec  model.Spec
-	json  bool
-	ascii bool
+	spec   model.Spec
+	json   bool
+	ascii  bool
+	csv    bool
+	sweep  string // bias sweep FROM:TO:STEP
+	tsweep string // temperature sweep FROM:TO:STEP
+	ideal  bool
 }
 
 // specFlag is a flag.Value that parses a trade-unit value into a Spec field.
@@ -67,17 +73,60 @@ func newCalcFlags(o *calcOptions, stderr io.Writer) *flag.FlagSet {
 	val("taup", model.Time, func(v float64) { s.HoleLifetime = v }, "hole lifetime in the n side (omitted: default)")
 	val("sp", model.Velocity, func(v float64) { s.PContactVelocity = &v }, "recombination velocity of the p-side contact, e.g. 1e3cm/s (omitted: ohmic)")
 	val("sn", model.Velocity, func(v float64) { s.NContactVelocity = &v }, "recombination velocity of the n-side contact (omitted: ohmic)")
+	val("rc", model.Resistance, func(v float64) { s.ContactResistance = v }, "contact and lead resistance in series, e.g. 0.5ohm (omitted: none)")
+	val("rsh", model.Resistance, func(v float64) { s.ShuntResistance = v }, "shunt resistance across the junction, e.g. 1Mohm (omitted: none)")
+	val("tp", model.Length, func(v float64) { s.PThickness = v }, "thickness of a long p layer for its resistance and punch-through (omitted: 300 um)")
+	val("tn", model.Length, func(v float64) { s.NThickness = v }, "thickness of a long n layer, e.g. a 525um substrate (omitted: 300 um)")
+	val("power-limit", model.Power, func(v float64) { s.PowerLimit = v }, "flag a bias or sweep dissipating more than this, e.g. 250mW (omitted: 1 W)")
+	val("if", model.Current, func(v float64) { s.ForwardCurrent = v }, "reference forward current of VF, dVF/dT and the storage time (omitted: 1 mA)")
+	val("ir", model.Current, func(v float64) { s.ReverseCurrent = v }, "reverse current the diode is switched to for the storage time (omitted: equal to --if)")
+	fs.BoolVar(&s.Effects.NoSRH, "no-srh", false, "effect off: depletion-region SRH recombination and generation")
+	fs.BoolVar(&s.Effects.NoHighInjection, "no-hli", false, "effect off: high injection")
+	fs.BoolVar(&s.Effects.NoSeriesResistance, "no-rs", false, "effect off: series resistance of the regions and --rc")
+	fs.BoolVar(&s.Effects.NoBGN, "no-bgn", false, "effect off: band-gap narrowing")
+	fs.BoolVar(&s.Effects.NoIonisation, "no-ion", false, "effect off: incomplete ionisation (dopants fully ionised)")
+	fs.BoolVar(&s.Effects.NoBreakdown, "no-breakdown", false, "effect off: avalanche breakdown search and multiplication")
+	fs.BoolVar(&o.ideal, "ideal", false, "every effect off: the ideal Shockley diode (a shunt set with --rsh still applies)")
+	fs.StringVar(&s.Effects.BGNModel, "bgn-model", "", "band-gap narrowing set: klaassen1992 (default) or slotboom1976")
+	fs.StringVar(&o.sweep, "sweep", "", "bias sweep FROM:TO:STEP, e.g. -2V:0.9V:10mV: one row per bias")
+	fs.StringVar(&o.tsweep, "tsweep", "", "temperature sweep FROM:TO:STEP, e.g. 250K:400K:10K: Is, VF at --if, dVF/dT, breakdown")
+	fs.BoolVar(&o.csv, "csv", false, "with --sweep or --tsweep: CSV with unit-labelled headers (SI) instead of a table")
 	fs.BoolVar(&o.json, "json", false, "print one JSON object in SI units instead of text")
 	fs.BoolVar(&o.ascii, "ascii", false, "plain ASCII output (u for micro)")
 	return fs
 }
+
+// calcHelp is the description printed by `junco calc --help`.
+const calcHelp = `Usage: junco calc [flags]
+
+Evaluate one pn junction: depletion-approximation electrostatics, the ideal
+(Shockley) diffusion currents and, on by default, the non-ideal effects of a
+real diode. Values take units (1e17cm-3, 300K, 1mm2, 10ohm); a bare number
+takes the unit named in brackets. Positive bias is forward.
+
+Effects (all on by default; each flag turns one off, --ideal turns all off):
+  --no-srh        depletion-region recombination/generation (Sah-Noyce-Shockley)
+  --no-hli        high injection at the depletion edges
+  --no-rs         series resistance of the regions (+ --rc), solved self-consistently
+  --no-bgn        band-gap narrowing (Klaassen-Slotboom-de Graaff 1992; Si only)
+  --no-ion        incomplete ionisation of the dopants (Fermi-Dirac)
+  --no-breakdown  avalanche breakdown (ionisation integral) and multiplication
+current_A is the total with the enabled effects; ideal_current_A stays the
+Shockley current.
+
+Sweeps: --sweep FROM:TO:STEP (bias) or --tsweep FROM:TO:STEP (temperature),
+as a table or, with --csv, as CSV with unit-labelled SI headers.
+
+Caution: ` + model.Caution + `
+
+Flags:`
 
 // runCalc implements `junco calc`.
 func runCalc(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	o := calcOptions{spec: model.DefaultSpec()}
 	fs := newCalcFlags(&o, stderr)
 	fs.Usage = func() {
-		fmt.Fprintln(stderr, "Usage: junco calc [flags]\n\nEvaluate one pn junction in the depletion approximation with the ideal\n(Shockley) diffusion currents. Values take units (1e17cm-3, 300K, 1mm2);\na bare number takes the unit named in brackets. Positive bias is forward.\n\nFlags:")
+		fmt.Fprintln(stderr, calcHelp)
 		fs.PrintDefaults()
 	}
 	if err := fs.Parse(args); err != nil {
@@ -90,22 +139,155 @@ func runCalc(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "junco calc: unexpected argument %q\n", fs.Arg(0))
 		return exitUsage
 	}
+	if o.ideal {
+		bgn := o.spec.Effects.BGNModel
+		o.spec.Effects = model.IdealEffects()
+		o.spec.Effects.BGNModel = bgn
+	}
+	if err := o.spec.Validate(); err != nil {
+		return reportError(stderr, err)
+	}
+	switch {
+	case o.sweep != "" && o.tsweep != "":
+		fmt.Fprintln(stderr, "junco calc: give --sweep or --tsweep, not both")
+		return exitUsage
+	case o.sweep != "":
+		return runSweep(o, stdout, stderr)
+	case o.tsweep != "":
+		return runTSweep(o, stdout, stderr)
+	case o.csv:
+		fmt.Fprintln(stderr, "junco calc: --csv needs --sweep or --tsweep")
+		return exitUsage
+	}
 	res, err := model.Evaluate(o.spec)
 	if err != nil {
-		var ve *model.ValidationError
-		if errors.As(err, &ve) {
-			for _, f := range ve.Fields {
-				fmt.Fprintf(stderr, "junco calc: --%s\n", f.Error())
-			}
-		} else {
-			fmt.Fprintf(stderr, "junco calc: %v\n", err)
-		}
-		return exitUsage
+		return reportError(stderr, err)
 	}
 	if o.json {
 		stdout.Write(res.JSON())
 		return exitOK
 	}
 	fmt.Fprint(stdout, res.Text(o.ascii))
+	return exitOK
+}
+
+func reportError(stderr io.Writer, err error) int {
+	var ve *model.ValidationError
+	if errors.As(err, &ve) {
+		for _, f := range ve.Fields {
+			fmt.Fprintf(stderr, "junco calc: --%s\n", f.Error())
+		}
+	} else {
+		fmt.Fprintf(stderr, "junco calc: %v\n", err)
+	}
+	return exitUsage
+}
+
+// parseRange parses FROM:TO:STEP with units of kind k.
+func parseRange(flagName, text string, k model.Kind) (model.Range, error) {
+	parts := strings.Split(text, ":")
+	if len(parts) != 3 {
+		return model.Range{}, fmt.Errorf("--%s %q: want FROM:TO:STEP, e.g. -2V:0.9V:10mV", flagName, text)
+	}
+	var v [3]float64
+	for i, p := range parts {
+		x, err := model.ParseValue(k, p)
+		if err != nil {
+			return model.Range{}, fmt.Errorf("--%s %q: %v", flagName, text, err)
+		}
+		v[i] = x
+	}
+	if k == model.Temperature {
+		// A step is a difference: undo the offset of a Celsius step.
+		if d, err := model.ParseValue(k, parts[2]); err == nil {
+			if z, err2 := model.ParseValue(k, "0"+unitSuffix(parts[2])); err2 == nil {
+				v[2] = d - z
+			}
+		}
+	}
+	r := model.Range{From: v[0], To: v[1], Step: v[2]}
+	if _, err := r.Points(); err != nil {
+		return model.Range{}, fmt.Errorf("--%s: %v", flagName, err)
+	}
+	return r, nil
+}
+
+// unitSuffix returns the non-numeric tail of a value such as "10K".
+func unitSuffix(s string) string {
+	i := strings.LastIndexAny(s, "0123456789.")
+	return s[i+1:]
+}
+
+// printFlags writes the distinct flags of a sweep to stderr.
+func printFlags(stderr io.Writer, flags []physics.Flag) {
+	for _, f := range flags {
+		fmt.Fprintf(stderr, "junco calc: [%s] %s\n", f.Code, f.Message)
+	}
+}
+
+func runSweep(o calcOptions, stdout, stderr io.Writer) int {
+	r, err := parseRange("sweep", o.sweep, model.Voltage)
+	if err != nil {
+		fmt.Fprintln(stderr, "junco calc:", err)
+		return exitUsage
+	}
+	pts, flags, err := model.IVSweep(o.spec, r)
+	if err != nil {
+		return reportError(stderr, err)
+	}
+	printFlags(stderr, flags)
+	if o.csv {
+		if err := model.WriteIVCSV(stdout, pts); err != nil {
+			fmt.Fprintln(stderr, "junco calc:", err)
+			return exitFailure
+		}
+		return exitOK
+	}
+	f := func(k model.Kind, v float64) string { return model.Format(k, v, 4, o.ascii) }
+	fmt.Fprintf(stdout, "%10s %12s %12s %12s %12s %12s %12s %8s %12s %7s\n", "V", "I", "I_diff", "I_rec/gen", "I_shunt", "I_ideal", "C", "M", "G (S)", "n")
+	for _, p := range pts {
+		fmt.Fprintf(stdout, "%10s %12s %12s %12s %12s %12s %12s %8s %12s %7s\n", f(model.Voltage, p.V), f(model.Current, p.Current),
+			f(model.Current, p.Diffusion), f(model.Current, p.Recombination+p.Generation), f(model.Current, p.Shunt),
+			f(model.Current, p.IdealCurrent), f(model.Capacitance, p.TotalCap), f(model.Dimensionless, p.Mp),
+			strconv.FormatFloat(p.Conductance, 'g', 4, 64), f(model.Dimensionless, p.Ideality))
+	}
+	return exitOK
+}
+
+func runTSweep(o calcOptions, stdout, stderr io.Writer) int {
+	r, err := parseRange("tsweep", o.tsweep, model.Temperature)
+	if err != nil {
+		fmt.Fprintln(stderr, "junco calc:", err)
+		return exitUsage
+	}
+	iF := o.spec.ForwardCurrentOrDefault()
+	rows, err := model.TemperatureSweep(o.spec, r, iF)
+	if err != nil {
+		return reportError(stderr, err)
+	}
+	seen := map[string]bool{}
+	var flags []physics.Flag
+	for _, row := range rows {
+		for _, f := range row.Flags {
+			if !seen[f.Code] {
+				seen[f.Code] = true
+				flags = append(flags, f)
+			}
+		}
+	}
+	printFlags(stderr, append(flags, physics.Flag{Code: model.FlagCaution, Message: model.Caution}))
+	if o.csv {
+		if err := model.WriteTemperatureCSV(stdout, rows, iF); err != nil {
+			fmt.Fprintln(stderr, "junco calc:", err)
+			return exitFailure
+		}
+		return exitOK
+	}
+	f := func(k model.Kind, v float64) string { return model.Format(k, v, 4, o.ascii) }
+	fmt.Fprintf(stdout, "%9s %12s %12s %12s %14s %12s\n", "T", "Is", "Is,diff", "VF@"+model.Format(model.Current, iF, 3, true), "dVF/dT (mV/K)", "VB")
+	for _, row := range rows {
+		fmt.Fprintf(stdout, "%9s %12s %12s %12s %14s %12s\n", f(model.Temperature, row.T), f(model.Current, row.Is), f(model.Current, row.IsDiff),
+			f(model.Voltage, row.VF), strconv.FormatFloat(row.DVFDT*1e3, 'f', 3, 64), f(model.Voltage, row.Breakdown))
+	}
 	return exitOK
 }

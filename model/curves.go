@@ -1,8 +1,11 @@
 package model
 
 import (
+	"bufio"
 	"fmt"
+	"io"
 	"math"
+	"strconv"
 
 	"junco/physics"
 )
@@ -35,6 +38,9 @@ type Curve struct {
 	Y      Axis
 	Xs     []float64
 	Series []Series
+	// Flags are validity and safety flags of the sweep as a whole (for
+	// example the power limit), nil when none.
+	Flags []physics.Flag
 }
 
 // Range is a sweep from From to To in steps of Step (all SI).
@@ -79,8 +85,13 @@ func prepare(s Spec) (*physics.Static, error) {
 	return d.Prepare()
 }
 
-// IVCurve computes the current against bias over r: the total current and
-// each component (electron and hole diffusion), in A.
+// IVCurve computes the current against bias over r, in A: the total
+// current with every enabled effect (series 0), the ideal Shockley current
+// (1) and its electron and hole parts (2, 3), then the components with the
+// effects: diffusion (4), depletion-region recombination/generation (5)
+// and shunt (6). Diffusion + recombination/generation + shunt = total. The
+// curve carries the power-limit and caution flags when the sweep
+// dissipates more than the Spec's power limit.
 func IVCurve(s Spec, r Range) (Curve, error) {
 	st, err := prepare(s)
 	if err != nil {
@@ -90,23 +101,142 @@ func IVCurve(s Spec, r Range) (Curve, error) {
 	if err != nil {
 		return Curve{}, err
 	}
-	total := make([]float64, len(vs))
-	ideal := make([]float64, len(vs))
-	en := make([]float64, len(vs))
-	hp := make([]float64, len(vs))
+	n := len(vs)
+	buf := make([]float64, 7*n)
+	total, ideal, en, hp := buf[0:n], buf[n:2*n], buf[2*n:3*n], buf[3*n:4*n]
+	diff, scr, sh := buf[4*n:5*n], buf[5*n:6*n], buf[6*n:7*n]
+	pmax, vmax := 0.0, 0.0
+	var flags []physics.Flag
+	seen := map[string]bool{}
+	var vj [2]float64
 	for i, v := range vs {
-		p := st.At(v)
+		// Continuation: extrapolate the junction voltage from the two
+		// previous points (the solver brackets and checks it anyway).
+		guess := math.NaN()
+		if i >= 2 && vs[i-1] != vs[i-2] {
+			guess = vj[1] + (vj[1]-vj[0])/(vs[i-1]-vs[i-2])*(v-vs[i-1])
+		}
+		p := st.SolveFrom(v, guess)
+		vj[0], vj[1] = vj[1], p.Vj
 		total[i], ideal[i], en[i], hp[i] = p.Current, p.IdealCurrent, p.IdealN, p.IdealP
+		diff[i], scr[i], sh[i] = p.Diffusion, p.Recombination+p.Generation, p.Shunt
+		if p.Power > pmax {
+			pmax, vmax = p.Power, v
+		}
+		for _, f := range p.Flags {
+			if !seen[f.Code] {
+				seen[f.Code] = true
+				flags = append(flags, f)
+			}
+		}
 	}
+	flags = append(flags, sweepFlags(s, pmax, vmax)...)
 	return Curve{ID: "iv", Title: "Current against bias",
 		X: Axis{Label: "bias V", Kind: Voltage}, Y: Axis{Label: "current I", Kind: Current},
 		Xs: vs, Series: []Series{{"total", total}, {"ideal (Shockley)", ideal},
-			{"electron diffusion", en}, {"hole diffusion", hp}}}, nil
+			{"electron diffusion", en}, {"hole diffusion", hp},
+			{"diffusion", diff}, {"recombination/generation", scr}, {"shunt", sh}}, Flags: flags}, nil
 }
 
-// CVCurve computes the depletion capacitance C (F) and 1/C^2 (F^-2) against
-// bias over r. Points at or above Vbi are NaN (the depletion approximation
-// fails there).
+// sweepFlags returns the power-limit flag (when the largest dissipation
+// pmax, at bias vmax, exceeds the Spec's limit) and the caution.
+func sweepFlags(s Spec, pmax, vmax float64) []physics.Flag {
+	var f []physics.Flag
+	if lim := s.PowerLimitOrDefault(); pmax > lim {
+		f = append(f, powerFlag(pmax, lim, "the sweep, at "+Format(Voltage, vmax, 4, true)+","))
+	}
+	return append(f, cautionFlag())
+}
+
+// IVSweep evaluates the junction at every bias of r with every enabled
+// effect and the small-signal quantities (physics.Static.At): the rows of
+// `junco calc --sweep`. The flags are those of the sweep as a whole
+// (power limit, caution) followed by the distinct flags of its points.
+func IVSweep(s Spec, r Range) ([]physics.Point, []physics.Flag, error) {
+	st, err := prepare(s)
+	if err != nil {
+		return nil, nil, err
+	}
+	vs, err := r.Points()
+	if err != nil {
+		return nil, nil, err
+	}
+	pts := make([]physics.Point, len(vs))
+	pmax, vmax := 0.0, 0.0
+	var flags []physics.Flag
+	seen := map[string]bool{}
+	for _, f := range st.Flags {
+		seen[f.Code] = true
+		flags = append(flags, f)
+	}
+	for i, v := range vs {
+		pts[i] = st.At(v)
+		if pts[i].Power > pmax {
+			pmax, vmax = pts[i].Power, v
+		}
+		for _, f := range pts[i].Flags {
+			if !seen[f.Code] {
+				seen[f.Code] = true
+				flags = append(flags, f)
+			}
+		}
+	}
+	return pts, append(sweepFlags(s, pmax, vmax), flags...), nil
+}
+
+// WriteIVCSV writes sweep rows as CSV with unit-labelled headers: bias,
+// junction voltage, total current and each component, ideal current,
+// avalanche multiplication, total, depletion and diffusion capacitance,
+// conductance, local ideality factor and dissipated power (SI units; NaN
+// written as empty fields).
+func WriteIVCSV(w io.Writer, pts []physics.Point) error {
+	bw := bufio.NewWriter(w)
+	bw.WriteString("bias_V,junction_voltage_V,current_A,ideal_current_A,diffusion_current_A,recombination_current_A,generation_current_A,shunt_current_A,avalanche_multiplication,capacitance_F,depletion_capacitance_F,diffusion_capacitance_F,conductance_S,ideality_factor,power_W\n")
+	for _, p := range pts {
+		row := []float64{p.V, p.Vj, p.Current, p.IdealCurrent, p.Diffusion, p.Recombination, p.Generation, p.Shunt,
+			p.Mp, p.TotalCap, p.Cap, p.DiffusionCap, p.Conductance, p.Ideality, p.Power}
+		for i, v := range row {
+			if i > 0 {
+				bw.WriteByte(',')
+			}
+			bw.WriteString(csvNumber(v))
+		}
+		bw.WriteByte('\n')
+	}
+	return bw.Flush()
+}
+
+func csvNumber(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return ""
+	}
+	return strconv.FormatFloat(v, 'g', 8, 64)
+}
+
+// ConductanceCurve returns the small-signal conductance G(V) = dI/dV (S)
+// at the terminals over r, with every enabled effect (log axis).
+func ConductanceCurve(s Spec, r Range) (Curve, error) {
+	st, err := prepare(s)
+	if err != nil {
+		return Curve{}, err
+	}
+	vs, err := r.Points()
+	if err != nil {
+		return Curve{}, err
+	}
+	g := make([]float64, len(vs))
+	for i, v := range vs {
+		g[i] = st.At(v).Conductance
+	}
+	return Curve{ID: "gv", Title: "Small-signal conductance against bias", X: Axis{Label: "bias V", Kind: Voltage},
+		Y: Axis{Label: "conductance G", Kind: Dimensionless, Unit: "S", Log: true}, Xs: vs, Series: []Series{{"G = dI/dV", g}}}, nil
+}
+
+// CVCurve computes the capacitance against bias over r: the depletion
+// capacitance (series 0; NaN at or above Vbi, where the depletion
+// approximation fails), the low-frequency diffusion capacitance (1) and
+// their total (2; the depletion part held at Vbi - 2kT/q beyond), in F,
+// and the Mott-Schottky curve 1/Cj^2 (F^-2) of the depletion part.
 func CVCurve(s Spec, r Range) (Curve, Curve, error) {
 	st, err := prepare(s)
 	if err != nil {
@@ -118,14 +248,17 @@ func CVCurve(s Spec, r Range) (Curve, Curve, error) {
 	}
 	c := make([]float64, len(vs))
 	inv := make([]float64, len(vs))
+	cd := make([]float64, len(vs))
+	ct := make([]float64, len(vs))
 	for i, v := range vs {
 		p := st.At(v)
 		c[i] = p.Cap
 		inv[i] = 1 / (p.Cap * p.Cap)
+		cd[i], ct[i] = p.DiffusionCap, p.TotalCap
 	}
-	cv := Curve{ID: "cv", Title: "Depletion capacitance against bias",
+	cv := Curve{ID: "cv", Title: "Capacitance against bias",
 		X: Axis{Label: "bias V", Kind: Voltage}, Y: Axis{Label: "capacitance C", Kind: Capacitance},
-		Xs: vs, Series: []Series{{"depletion", c}}}
+		Xs: vs, Series: []Series{{"depletion", c}, {"diffusion", cd}, {"total", ct}}}
 	ms := Curve{ID: "inv-c2", Title: "1/C^2 against bias (Mott-Schottky)",
 		X: Axis{Label: "bias V", Kind: Voltage}, Y: Axis{Label: "1/C^2", Kind: Dimensionless, Unit: "F^-2"},
 		Xs: vs, Series: []Series{{"1/C^2", inv}}}
@@ -168,8 +301,9 @@ func JunctionProfiles(s Spec, n int) (charge, field, potential, bands Curve, err
 		efp[i] = 0
 	}
 	// In electron energy the n-side Fermi level is lower by qV under forward bias.
+	// (at the junction voltage: the series resistance takes the rest).
 	for i := range efn {
-		efn[i] = -s.Bias
+		efn[i] = -p.Vj
 	}
 	pos := Axis{Label: "position x", Kind: Length, Unit: "um"}
 	charge = Curve{ID: "charge", Title: "Space-charge density", X: pos, Y: Axis{Label: "charge density rho", Kind: Dimensionless, Unit: "C/m^3"}, Xs: xs, Series: []Series{{"rho", rho}}}
@@ -223,31 +357,83 @@ func MinorityProfiles(s Spec, n int) (density, current Curve, err error) {
 	return
 }
 
-// TemperatureCurves sweeps the temperature over r (K): the saturation
-// current Is against 1000/T (log axis) and the forward voltage at the
-// forward current iF (A) against T.
-func TemperatureCurves(s Spec, r Range, iF float64) (isCurve, vfCurve Curve, err error) {
+// TemperatureRow is one temperature of a temperature sweep.
+type TemperatureRow struct {
+	T float64 // K
+	// Is is the ideal (Shockley) saturation current and IsDiff the
+	// diffusion saturation current with band-gap narrowing and ionisation,
+	// A.
+	Is, IsDiff float64
+	// VF is the forward voltage at the reference current with every
+	// enabled effect, V, and DVFDT its temperature coefficient, V/K.
+	VF, DVFDT float64
+	// Breakdown is the avalanche breakdown voltage, V (NaN when off).
+	Breakdown float64
+	Flags     []physics.Flag
+}
+
+// TemperatureSweep evaluates the spec at every temperature of r (K): Is(T),
+// the forward voltage at forward current iF (A) VF(T) and dVF/dT (central
+// difference over +-0.5 K), and the breakdown voltage.
+func TemperatureSweep(s Spec, r Range, iF float64) ([]TemperatureRow, error) {
 	ts, err := r.Points()
 	if err != nil {
-		return
+		return nil, err
 	}
-	inv := make([]float64, len(ts))
-	is := make([]float64, len(ts))
-	vf := make([]float64, len(ts))
+	rows := make([]TemperatureRow, len(ts))
 	for i, t := range ts {
 		s2 := s
 		s2.Temperature = t
 		st, e := prepare(s2)
 		if e != nil {
-			err = fmt.Errorf("at %g K: %w", t, e)
-			return
+			return nil, fmt.Errorf("at %g K: %w", t, e)
 		}
-		inv[i] = 1000 / t
-		is[i] = st.Is
-		vf[i] = st.Vt * math.Log1p(iF/st.Is)
+		vf, dv, e := st.ForwardVoltageTemperature(iF, 0.5)
+		if e != nil {
+			vf, dv = math.NaN(), math.NaN()
+		}
+		rows[i] = TemperatureRow{T: t, Is: st.Is, IsDiff: st.IsDiff, VF: vf, DVFDT: dv, Breakdown: st.Breakdown.Voltage, Flags: st.Flags}
+	}
+	return rows, nil
+}
+
+// WriteTemperatureCSV writes temperature-sweep rows as CSV with
+// unit-labelled headers (SI; NaN as empty fields).
+func WriteTemperatureCSV(w io.Writer, rows []TemperatureRow, iF float64) error {
+	bw := bufio.NewWriter(w)
+	fmt.Fprintf(bw, "temperature_K,saturation_current_A,diffusion_saturation_current_A,forward_voltage_V_at_%s,forward_voltage_temperature_coefficient_V_per_K,breakdown_voltage_V\n",
+		strconv.FormatFloat(iF, 'g', -1, 64)+"A")
+	for _, r := range rows {
+		for i, v := range []float64{r.T, r.Is, r.IsDiff, r.VF, r.DVFDT, r.Breakdown} {
+			if i > 0 {
+				bw.WriteByte(',')
+			}
+			bw.WriteString(csvNumber(v))
+		}
+		bw.WriteByte('\n')
+	}
+	return bw.Flush()
+}
+
+// TemperatureCurves sweeps the temperature over r (K): the saturation
+// current Is against 1000/T (log axis) and the forward voltage at the
+// forward current iF (A) against T, with every enabled effect
+// (TemperatureSweep).
+func TemperatureCurves(s Spec, r Range, iF float64) (isCurve, vfCurve Curve, err error) {
+	rows, err := TemperatureSweep(s, r, iF)
+	if err != nil {
+		return
+	}
+	ts := make([]float64, len(rows))
+	inv := make([]float64, len(rows))
+	is := make([]float64, len(rows))
+	isd := make([]float64, len(rows))
+	vf := make([]float64, len(rows))
+	for i, row := range rows {
+		ts[i], inv[i], is[i], isd[i], vf[i] = row.T, 1000/row.T, row.Is, row.IsDiff, row.VF
 	}
 	isCurve = Curve{ID: "is-t", Title: "Saturation current against 1000/T", X: Axis{Label: "1000/T", Kind: Dimensionless, Unit: "1/K"},
-		Y: Axis{Label: "saturation current Is", Kind: Current, Log: true}, Xs: inv, Series: []Series{{"Is", is}}}
+		Y: Axis{Label: "saturation current Is", Kind: Current, Log: true}, Xs: inv, Series: []Series{{"Is", is}, {"Is with BGN and ionisation", isd}}}
 	vfCurve = Curve{ID: "vf-t", Title: fmt.Sprintf("Forward voltage at %s against temperature", Format(Current, iF, 3, true)),
 		X: Axis{Label: "temperature T", Kind: Temperature}, Y: Axis{Label: "forward voltage VF", Kind: Voltage}, Xs: ts, Series: []Series{{"VF", vf}}}
 	return

@@ -17,7 +17,34 @@ const (
 	GroupCapacitance    = "Capacitance"
 	GroupTransport      = "Transport"
 	GroupCurrents       = "Currents"
+	GroupHeavyDoping    = "Ionisation and band-gap narrowing"
+	GroupResistance     = "Resistance"
+	GroupTemperature    = "Temperature"
+	GroupSwitching      = "Switching"
+	GroupBreakdown      = "Breakdown"
 )
+
+// Caution is the safety note shown wherever a breakdown voltage or a
+// dissipated power is shown (CLI, workbench, reports).
+const Caution = "Estimates only: breakdown voltages and dissipated power are model predictions. High-voltage and high-current measurements are hazardous; local codes, lab safety rules and the device's rated limits govern."
+
+// Flag codes added by package model.
+const (
+	FlagCaution    = "caution"     // the safety caution, attached to breakdown and power values
+	FlagPowerLimit = "power-limit" // the dissipated power exceeds the user's limit
+)
+
+// cautionFlag is the flag carrying Caution.
+func cautionFlag() physics.Flag {
+	return physics.Flag{Code: FlagCaution, Quantities: []string{"breakdown", "punch-through", "power"}, Message: Caution}
+}
+
+// powerFlag returns the power-limit flag for power p (W) against limit (W)
+// at the bias or sweep described by where.
+func powerFlag(p, limit float64, where string) physics.Flag {
+	return physics.Flag{Code: FlagPowerLimit, Quantities: []string{"power", "total current"},
+		Message: fmt.Sprintf("%s dissipates %s, above the power limit of %s: the device may heat or fail; check its rated limits", where, Format(Power, p, 3, true), Format(Power, limit, 3, true))}
+}
 
 // Quantity is one computed result with its JSON key (SI unit in the name),
 // display group, label, symbol and kind (which fixes the trade unit).
@@ -42,6 +69,8 @@ type Result struct {
 	Point      physics.Point
 	Quantities []Quantity
 	Flags      []physics.Flag
+	// Cautions are safety notes to show with the result (Caution).
+	Cautions []string
 }
 
 // Evaluate validates the spec and evaluates it at its bias. The error is a
@@ -64,17 +93,52 @@ func resultAt(s Spec, st *physics.Static, v float64) *Result {
 	r := &Result{Spec: s, Static: st, Point: p}
 	r.Flags = append(append([]physics.Flag(nil), st.Flags...), p.Flags...)
 	dep := p.Depletion
+	nan := math.NaN()
+	iF, iR := s.ForwardCurrentOrDefault(), s.ReverseCurrentOrDefault()
+	fw := st.ForwardAndCoefficient(iF, 0.5)
+	vf, dvf := fw.VF, fw.DVFDT
+	sw := physics.Switching{StorageTime: nan, Lifetime: nan}
+	if fw.OK {
+		sw = st.StorageTimeAt(fw.Vj, iF, iR)
+	}
+	bd := st.Breakdown
+	rsh := st.Rsh
+	if math.IsInf(rsh, 1) {
+		rsh = nan
+	}
+	shuntI := p.Shunt
+	if math.IsInf(st.Rsh, 1) {
+		shuntI = 0
+	}
+	res := p.Conductance
+	if res != 0 {
+		res = 1 / res
+	}
 	r.Quantities = []Quantity{
 		{"thermal_voltage_V", GroupConditions, "thermal voltage", "kT/q", Voltage, st.Vt, nil},
 		{"band_gap_eV", GroupConditions, "band gap", "Eg", Energy, st.Eg, nil},
 		{"intrinsic_density_per_m3", GroupConditions, "intrinsic density", "ni", Density, st.Ni, nil},
+		{"acceptor_ionised_density_per_m3", GroupHeavyDoping, "ionised acceptors (p side)", "Na-", Density, st.NaIonised, nil},
+		{"donor_ionised_density_per_m3", GroupHeavyDoping, "ionised donors (n side)", "Nd+", Density, st.NdIonised, nil},
+		{"acceptor_ionised_fraction", GroupHeavyDoping, "  ionised fraction, acceptors", "Na-/Na", Dimensionless, st.NaIonised / st.Device.Na, nil},
+		{"donor_ionised_fraction", GroupHeavyDoping, "  ionised fraction, donors", "Nd+/Nd", Dimensionless, st.NdIonised / st.Device.Nd, nil},
+		{"hole_density_p_side_per_m3", GroupHeavyDoping, "majority holes (p side)", "p0", Density, st.P0, nil},
+		{"electron_density_n_side_per_m3", GroupHeavyDoping, "majority electrons (n side)", "n0", Density, st.N0, nil},
+		{"band_gap_narrowing_p_eV", GroupHeavyDoping, "band-gap narrowing (p side)", "dEg,p", Energy, st.DEgP, nil},
+		{"band_gap_narrowing_n_eV", GroupHeavyDoping, "band-gap narrowing (n side)", "dEg,n", Energy, st.DEgN, nil},
+		{"effective_intrinsic_density_p_per_m3", GroupHeavyDoping, "effective ni (p side)", "ni,eff,p", Density, st.NiEffP, nil},
+		{"effective_intrinsic_density_n_per_m3", GroupHeavyDoping, "effective ni (n side)", "ni,eff,n", Density, st.NiEffN, nil},
 		{"built_in_potential_V", GroupElectrostatics, "built-in potential", "Vbi", Voltage, st.Vbi, nil},
+		{"built_in_potential_full_ionisation_V", GroupElectrostatics, "  with full ionisation", "Vbi,full", Voltage, st.VbiFullIonisation, nil},
+		{"junction_voltage_V", GroupElectrostatics, "junction voltage", "Vj", Voltage, p.Vj, nil},
 		{"depletion_width_m", GroupElectrostatics, "depletion width", "W", Length, dep.W, nil},
 		{"depletion_width_n_m", GroupElectrostatics, "  into n side", "xn", Length, dep.Xn, nil},
 		{"depletion_width_p_m", GroupElectrostatics, "  into p side", "xp", Length, dep.Xp, nil},
 		{"peak_field_V_per_m", GroupElectrostatics, "peak field", "Emax", Field, dep.PeakField, nil},
 		{"junction_capacitance_F", GroupCapacitance, "depletion capacitance", "Cj", Capacitance, p.Cap, nil},
 		{"junction_capacitance_per_area_F_per_m2", GroupCapacitance, "  per area", "Cj/A", CapacitancePerArea, p.CapPerArea, nil},
+		{"diffusion_capacitance_F", GroupCapacitance, "diffusion capacitance", "Cd", Capacitance, p.DiffusionCap, nil},
+		{"total_capacitance_F", GroupCapacitance, "total capacitance", "C", Capacitance, p.TotalCap, nil},
 		{"electron_mobility_m2_per_Vs", GroupTransport, "electron mobility (p side)", "mu_n", Mobility, st.MuN, nil},
 		{"hole_mobility_m2_per_Vs", GroupTransport, "hole mobility (n side)", "mu_p", Mobility, st.MuP, nil},
 		{"electron_diffusivity_m2_per_s", GroupTransport, "electron diffusivity", "Dn", Diffusivity, st.DN, nil},
@@ -87,8 +151,43 @@ func resultAt(s Spec, st *physics.Static, v float64) *Result {
 		{"saturation_current_A", GroupCurrents, "saturation current", "Is", Current, st.Is, nil},
 		{"electron_saturation_current_A", GroupCurrents, "  electrons from p side", "Is,n", Current, st.IsN, nil},
 		{"hole_saturation_current_A", GroupCurrents, "  holes from n side", "Is,p", Current, st.IsP, nil},
+		{"diffusion_saturation_current_A", GroupCurrents, "Is with BGN and ionisation", "Is,diff", Current, st.IsDiff, nil},
 		{"ideal_current_A", GroupCurrents, "Shockley current at bias", "I_ideal", Current, p.IdealCurrent, nil},
+		{"diffusion_current_A", GroupCurrents, "diffusion current", "I_diff", Current, p.Diffusion, nil},
+		{"electron_diffusion_current_A", GroupCurrents, "  electrons into p side", "I_diff,n", Current, p.DiffusionN, nil},
+		{"hole_diffusion_current_A", GroupCurrents, "  holes into n side", "I_diff,p", Current, p.DiffusionP, nil},
+		{"recombination_current_A", GroupCurrents, "SCR recombination current", "I_rec", Current, p.Recombination, nil},
+		{"generation_current_A", GroupCurrents, "SCR generation current", "I_gen", Current, p.Generation, nil},
+		{"shunt_current_A", GroupCurrents, "shunt current", "I_sh", Current, shuntI, nil},
+		{"avalanche_multiplication", GroupCurrents, "avalanche multiplication Mp", "Mp", Dimensionless, p.Mp, nil},
 		{"current_A", GroupCurrents, "total current at bias", "I", Current, p.Current, nil},
+		{"ideality_factor", GroupCurrents, "local ideality factor", "n", Dimensionless, p.Ideality, nil},
+		{"conductance_S", GroupCurrents, "conductance dI/dV (S)", "G", Dimensionless, p.Conductance, nil},
+		{"small_signal_resistance_ohm", GroupCurrents, "small-signal resistance", "r", Resistance, res, nil},
+		{"dissipated_power_W", GroupCurrents, "dissipated power", "P", Power, p.Power, nil},
+		{"series_resistance_ohm", GroupResistance, "series resistance", "Rs", Resistance, st.Rs, nil},
+		{"p_region_resistance_ohm", GroupResistance, "  p region", "Rp", Resistance, st.RP, nil},
+		{"n_region_resistance_ohm", GroupResistance, "  n region", "Rn", Resistance, st.RN, nil},
+		{"contact_resistance_ohm", GroupResistance, "  contact", "Rc", Resistance, st.RContact, nil},
+		{"shunt_resistance_ohm", GroupResistance, "shunt resistance", "Rsh", Resistance, rsh, nil},
+		{"series_voltage_drop_V", GroupResistance, "series-resistance drop", "I Rs", Voltage, p.SeriesDrop, nil},
+		{"forward_voltage_reference_current_A", GroupTemperature, "reference forward current", "IF", Current, iF, nil},
+		{"forward_voltage_V", GroupTemperature, "forward voltage at IF", "VF", Voltage, vf, nil},
+		{"forward_voltage_temperature_coefficient_V_per_K", GroupTemperature, "dVF/dT at IF (V/K)", "dVF/dT", Dimensionless, dvf, nil},
+		{"switching_reverse_current_A", GroupSwitching, "switching reverse current", "IR", Current, iR, nil},
+		{"storage_time_s", GroupSwitching, "storage time (IF to IR)", "ts", Time, sw.StorageTime, nil},
+		{"storage_time_constant_s", GroupSwitching, "  time constant used", "tau_s", Time, sw.Lifetime, nil},
+		{"breakdown_voltage_V", GroupBreakdown, "breakdown voltage (reverse)", "VB", Voltage, bd.Voltage, nil},
+		{"breakdown_peak_field_V_per_m", GroupBreakdown, "  peak field at breakdown", "EB", Field, bd.PeakField, nil},
+		{"breakdown_depletion_width_m", GroupBreakdown, "  depletion width at breakdown", "WB", Length, bd.Width, nil},
+		{"punch_through_voltage_V", GroupBreakdown, "punch-through voltage", "Vpt", Voltage, bd.PunchThroughVoltage, nil},
+		{"tunnelling_limit_V", GroupBreakdown, "Zener limit 4Eg/q (breakdown)", "4Eg/q", Voltage, bd.TunnellingLimit, nil},
+		{"breakdown_sze_gibbons_V", GroupBreakdown, "Sze-Gibbons breakdown estimate", "VB,SG", Voltage, bd.SzeGibbons, nil},
+	}
+	r.Flags = append(r.Flags, cautionFlag())
+	r.Cautions = []string{Caution}
+	if lim := s.PowerLimitOrDefault(); p.Power > lim {
+		r.Flags = append(r.Flags, powerFlag(p.Power, lim, fmt.Sprintf("the bias %s", Format(Voltage, v, 4, true))))
 	}
 	r.attachFlags()
 	return r
@@ -163,6 +262,13 @@ func (r *Result) JSON() []byte {
 	}
 	if len(r.Flags) > 0 {
 		b.WriteString("\n  ")
+	}
+	b.WriteString("],\n  \"cautions\": [")
+	for i, c := range r.Cautions {
+		if i > 0 {
+			b.WriteString(", ")
+		}
+		fmt.Fprintf(&b, "%q", c)
 	}
 	b.WriteString("]\n}\n")
 	return b.Bytes()

@@ -39,6 +39,94 @@ type Spec struct {
 	// s; 0 = the doping-dependent default.
 	ElectronLifetime float64 `json:"electron_lifetime_s,omitempty"`
 	HoleLifetime     float64 `json:"hole_lifetime_s,omitempty"`
+
+	// Effects switches the non-ideal effects off one by one; the zero value
+	// is the realistic default set with every effect on.
+	Effects Effects `json:"effects"`
+	// ContactResistance is the contact and lead resistance in series with
+	// the regions, ohm (0 = none).
+	ContactResistance float64 `json:"contact_resistance_ohm,omitempty"`
+	// ShuntResistance is a resistance across the junction, ohm (0 = none).
+	ShuntResistance float64 `json:"shunt_resistance_ohm,omitempty"`
+	// PThickness and NThickness are the layer thicknesses from the junction
+	// to the contacts of long regions, m, for their series resistance and
+	// punch-through (0 = 300 um assumed).
+	PThickness float64 `json:"p_thickness_m,omitempty"`
+	NThickness float64 `json:"n_thickness_m,omitempty"`
+	// PowerLimit is the dissipated power above which a bias or sweep is
+	// flagged, W (0 = 1 W).
+	PowerLimit float64 `json:"power_limit_W,omitempty"`
+	// ForwardCurrent is the reference forward current of VF, dVF/dT and the
+	// storage time, A (0 = 1 mA); ReverseCurrent the reverse current the
+	// diode is switched to, A (0 = equal to ForwardCurrent).
+	ForwardCurrent float64 `json:"reference_forward_current_A,omitempty"`
+	ReverseCurrent float64 `json:"switching_reverse_current_A,omitempty"`
+}
+
+// Effects switches junco's non-ideal effects off (each field true turns
+// one off); the zero value keeps them all on, the realistic default.
+type Effects struct {
+	// NoSRH drops the depletion-region recombination and generation current
+	// (Sah, Noyce, Shockley 1957).
+	NoSRH bool `json:"no_scr_recombination,omitempty"`
+	// NoHighInjection keeps the low-injection law at every current.
+	NoHighInjection bool `json:"no_high_injection,omitempty"`
+	// NoSeriesResistance drops the regions' and the contact resistance.
+	NoSeriesResistance bool `json:"no_series_resistance,omitempty"`
+	// NoBGN drops band-gap narrowing at heavy doping.
+	NoBGN bool `json:"no_band_gap_narrowing,omitempty"`
+	// NoIonisation assumes fully ionised dopants.
+	NoIonisation bool `json:"no_incomplete_ionisation,omitempty"`
+	// NoBreakdown skips the avalanche breakdown and multiplication.
+	NoBreakdown bool `json:"no_breakdown,omitempty"`
+	// BGNModel names the band-gap narrowing set: "klaassen1992" (default,
+	// also "") or "slotboom1976".
+	BGNModel string `json:"bgn_model,omitempty"`
+}
+
+// IdealEffects returns the switches of the ideal Shockley diode: every
+// effect off.
+func IdealEffects() Effects {
+	return Effects{NoSRH: true, NoHighInjection: true, NoSeriesResistance: true, NoBGN: true, NoIonisation: true, NoBreakdown: true}
+}
+
+// Physics converts the switches into physics.Effects (an unknown BGN model
+// falls back to the default; Validate reports it).
+func (e Effects) Physics() physics.Effects {
+	bm, _ := physics.ParseBGNModel(e.BGNModel)
+	return physics.Effects{SRH: !e.NoSRH, HighInjection: !e.NoHighInjection, SeriesResistance: !e.NoSeriesResistance,
+		BGN: !e.NoBGN, Ionisation: !e.NoIonisation, Breakdown: !e.NoBreakdown, BGNModel: bm}
+}
+
+// DefaultPowerLimit, DefaultForwardCurrent are the values used when the
+// Spec leaves them 0.
+const (
+	DefaultPowerLimit     = 1.0  // W
+	DefaultForwardCurrent = 1e-3 // A
+)
+
+// PowerLimitOrDefault returns PowerLimit, or DefaultPowerLimit when unset.
+func (s Spec) PowerLimitOrDefault() float64 {
+	if s.PowerLimit > 0 {
+		return s.PowerLimit
+	}
+	return DefaultPowerLimit
+}
+
+// ForwardCurrentOrDefault returns ForwardCurrent, or DefaultForwardCurrent.
+func (s Spec) ForwardCurrentOrDefault() float64 {
+	if s.ForwardCurrent > 0 {
+		return s.ForwardCurrent
+	}
+	return DefaultForwardCurrent
+}
+
+// ReverseCurrentOrDefault returns ReverseCurrent, or the forward current.
+func (s Spec) ReverseCurrentOrDefault() float64 {
+	if s.ReverseCurrent > 0 {
+		return s.ReverseCurrent
+	}
+	return s.ForwardCurrentOrDefault()
 }
 
 // DefaultSpec returns the specification a new junction starts from: a
@@ -59,22 +147,30 @@ func DefaultSpec() Spec {
 // Field names used in FieldError and by user interfaces. They match the
 // command-line flag names without dashes.
 const (
-	FieldMaterial         = "material"
-	FieldProfile          = "profile"
-	FieldAcceptorDensity  = "na"
-	FieldDonorDensity     = "nd"
-	FieldGradient         = "gradient"
-	FieldAcceptorSpecies  = "acceptor"
-	FieldDonorSpecies     = "donor"
-	FieldTemperature      = "temp"
-	FieldArea             = "area"
-	FieldBias             = "bias"
-	FieldPWidth           = "wp"
-	FieldNWidth           = "wn"
-	FieldPContactVelocity = "sp"
-	FieldNContactVelocity = "sn"
-	FieldElectronLifetime = "taun"
-	FieldHoleLifetime     = "taup"
+	FieldMaterial          = "material"
+	FieldProfile           = "profile"
+	FieldAcceptorDensity   = "na"
+	FieldDonorDensity      = "nd"
+	FieldGradient          = "gradient"
+	FieldAcceptorSpecies   = "acceptor"
+	FieldDonorSpecies      = "donor"
+	FieldTemperature       = "temp"
+	FieldArea              = "area"
+	FieldBias              = "bias"
+	FieldPWidth            = "wp"
+	FieldNWidth            = "wn"
+	FieldPContactVelocity  = "sp"
+	FieldNContactVelocity  = "sn"
+	FieldElectronLifetime  = "taun"
+	FieldHoleLifetime      = "taup"
+	FieldContactResistance = "rc"
+	FieldShuntResistance   = "rsh"
+	FieldPThickness        = "tp"
+	FieldNThickness        = "tn"
+	FieldPowerLimit        = "power-limit"
+	FieldForwardCurrent    = "if"
+	FieldReverseCurrent    = "ir"
+	FieldBGNModel          = "bgn-model"
 )
 
 // FieldError reports one bad field: which, the offending value as the user
@@ -125,6 +221,11 @@ const (
 	minWidth, maxWidth             = 1e-8, 1e-2             // m
 	minLifetime, maxLifetime       = 1e-13, 1.0             // s
 	maxVelocity                    = 1e7                    // m/s (1e9 cm/s)
+	maxContactResistance           = 1e9                    // ohm
+	minShunt, maxShunt             = 1e-3, 1e15             // ohm
+	minThickness, maxThickness     = 1e-7, 1e-2             // m
+	minPower, maxPower             = 1e-9, 1e6              // W
+	minRefCurrent, maxRefCurrent   = 1e-15, 1e4             // A
 )
 
 // Validate checks every field and returns nil or a *ValidationError with one
@@ -196,6 +297,32 @@ func (s Spec) Validate() error {
 			rng(l.f, Time, l.v, minLifetime, maxLifetime, "0 selects the doping-dependent default")
 		}
 	}
+	if s.ContactResistance != 0 {
+		rng(FieldContactResistance, Resistance, s.ContactResistance, 0, maxContactResistance, "0 means none; above a gigaohm the diode is an open circuit")
+	}
+	if s.ShuntResistance != 0 {
+		rng(FieldShuntResistance, Resistance, s.ShuntResistance, minShunt, maxShunt, "0 means no shunt; below a milliohm the junction is a short circuit")
+	}
+	for _, w := range []struct {
+		f string
+		v float64
+	}{{FieldPThickness, s.PThickness}, {FieldNThickness, s.NThickness}} {
+		if w.v != 0 {
+			rng(w.f, Length, w.v, minThickness, maxThickness, "0 assumes 300 um; otherwise between a thin layer and a whole wafer")
+		}
+	}
+	if s.PowerLimit != 0 {
+		rng(FieldPowerLimit, Power, s.PowerLimit, minPower, maxPower, "0 selects 1 W")
+	}
+	if s.ForwardCurrent != 0 {
+		rng(FieldForwardCurrent, Current, s.ForwardCurrent, minRefCurrent, maxRefCurrent, "0 selects 1 mA")
+	}
+	if s.ReverseCurrent != 0 {
+		rng(FieldReverseCurrent, Current, s.ReverseCurrent, minRefCurrent, maxRefCurrent, "0 selects the forward current")
+	}
+	if _, err := physics.ParseBGNModel(s.Effects.BGNModel); err != nil {
+		add(FieldBGNModel, fmt.Sprintf("%q", s.Effects.BGNModel), "klaassen1992, slotboom1976", "the band-gap narrowing parameter sets junco knows")
+	}
 	if len(errs) == 0 {
 		return nil
 	}
@@ -218,6 +345,8 @@ func (s Spec) Device() (physics.Device, error) {
 		Temperature: s.Temperature, Area: s.Area,
 		Wp: inf, Wn: inf, Sp: inf, Sn: inf,
 		TauN: s.ElectronLifetime, TauP: s.HoleLifetime,
+		Effects: s.Effects.Physics(), ContactResistance: s.ContactResistance, ShuntResistance: s.ShuntResistance,
+		PThickness: s.PThickness, NThickness: s.NThickness,
 	}
 	if s.Profile == "linear" {
 		d.Profile = physics.LinearGraded

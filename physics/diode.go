@@ -30,6 +30,20 @@ type Device struct {
 	// region, holes in the n region), s; 0 selects the doping-dependent
 	// default (MinorityLifetime).
 	TauN, TauP float64
+	// Effects switches the non-ideal effects; the zero value is the ideal
+	// Shockley diode (see Effects and RealisticEffects).
+	Effects Effects
+	// ContactResistance is the contact and lead resistance, ohm, added to
+	// the regions' resistance when Effects.SeriesResistance is on.
+	ContactResistance float64
+	// ShuntResistance is a resistance across the junction, ohm; 0 or +Inf
+	// means none. It applies whatever the Effects.
+	ShuntResistance float64
+	// PThickness and NThickness are the layer thicknesses from the
+	// metallurgical junction to the contacts used for a long region's
+	// series resistance and for punch-through, m; 0 assumes 300 um
+	// (flagged). A region with a finite width uses that width instead.
+	PThickness, NThickness float64
 }
 
 // Flag codes attached to results.
@@ -75,6 +89,43 @@ type Static struct {
 	Js             float64      // saturation current density, A/m^2
 	Is, IsN, IsP   float64      // saturation current and its parts, A
 	Flags          []Flag
+
+	// Non-ideal effects (filled by Prepare; see Effects).
+	Effects Effects
+	// AcceptorLevel and DonorLevel are the effective dopant levels.
+	AcceptorLevel, DonorLevel DopantLevel
+	// P0 and N0 are the majority-carrier densities of the neutral p and n
+	// regions, m^-3 (Na and Nd with full ionisation); NaIonised and
+	// NdIonised the ionised dopant densities there.
+	P0, N0               float64
+	NaIonised, NdIonised float64
+	// VbiFullIonisation is the built-in potential with full ionisation, V
+	// (Vbi itself uses P0 and N0).
+	VbiFullIonisation float64
+	// DEgP, DEgN are the band-gap narrowing of the p and n regions, eV, and
+	// NiEffP, NiEffN the effective intrinsic densities, m^-3; BGNKnown is
+	// false when no narrowing model exists for the material.
+	DEgP, DEgN     float64
+	NiEffP, NiEffN float64
+	BGNKnown       bool
+	// PEff and NEff are the regions as the diffusion model with the effects
+	// sees them (majority density after ionisation, ni_eff).
+	PEff, NEff DiffusionSide
+	// IsDiffN, IsDiffP and IsDiff are the low-injection diffusion
+	// saturation currents with band-gap narrowing and ionisation, A.
+	IsDiffN, IsDiffP, IsDiff float64
+	// SCR holds the parameters of the depletion-region recombination.
+	SCR SCRParams
+	// RP, RN are the quasi-neutral regions' resistances, RContact the
+	// contact resistance and Rs their sum (0 with SeriesResistance off), ohm;
+	// Rsh the shunt resistance (+Inf for none). ResThicknessP/N are the
+	// lengths the region resistances were computed over, m.
+	RP, RN, RContact, Rs, Rsh    float64
+	ResThicknessP, ResThicknessN float64
+	// Breakdown is the avalanche breakdown result (Voltage NaN when the
+	// Breakdown effect is off or no impact model is known).
+	Breakdown Breakdown
+	aval      *avalanche
 }
 
 // Prepare evaluates everything that does not depend on bias. It returns an
@@ -130,6 +181,9 @@ func (d Device) Prepare() (*Static, error) {
 	}
 	s.Junction = Junction{Eps: m.Permittivity(), Na: d.Na, Nd: d.Nd, Profile: d.Profile, Gradient: d.Gradient}
 	s.Vbi = s.Junction.GradedBuiltInPotential(s.Ni, t)
+	if math.IsInf(s.Vbi, 0) || math.IsNaN(s.Vbi) || !(s.Ni > 0) {
+		return nil, fmt.Errorf("the intrinsic density of %s at %g K (%.3g m^-3) is outside floating-point range: no junction model applies", m.Name, t, s.Ni)
+	}
 
 	s.MuN = m.Mobility(Electron, d.Na, t, donor)
 	s.MuP = m.Mobility(Hole, d.Nd, t, donor)
@@ -154,6 +208,9 @@ func (d Device) Prepare() (*Static, error) {
 	s.IsN, s.IsP = s.JsN*d.Area, s.JsP*d.Area
 	s.Is = s.Js * d.Area
 	s.Flags = s.staticFlags()
+	if err := s.prepareEffects(); err != nil {
+		return nil, err
+	}
 	return s, nil
 }
 
@@ -197,22 +254,56 @@ type Point struct {
 	// until non-ideal effects are enabled).
 	Current float64
 	Flags   []Flag
+
+	// Vj is the junction voltage, V (V minus the series-resistance drop).
+	Vj float64
+	// DiffusionN and DiffusionP are the electron (from the p region) and
+	// hole (from the n region) diffusion currents with the enabled effects,
+	// Diffusion their sum; Recombination and Generation the positive and
+	// negative parts of the depletion-region SRH current; Shunt the shunt
+	// current, A. Reverse currents include the avalanche multiplication,
+	// so Diffusion + Recombination + Generation + Shunt = Current.
+	DiffusionN, DiffusionP, Diffusion float64
+	Recombination, Generation         float64
+	Shunt                             float64
+	// Mn, Mp and Mgen are the avalanche multiplication factors of electrons
+	// injected from the p side, holes from the n side and pairs generated
+	// in the depletion region (1 in forward bias or with Breakdown off).
+	Mn, Mp, Mgen float64
+	// SeriesDrop is I Rs, V.
+	SeriesDrop float64
+	// InjectionP and InjectionN are the excess minority densities at the
+	// p-side and n-side depletion edges relative to the majority density.
+	InjectionP, InjectionN float64
+	// Conductance is dI/dV at the terminals, S; Ideality the local ideality
+	// factor n = I/(Vt dI/dV) (NaN unless I > 0).
+	Conductance, Ideality float64
+	// DiffusionCap is the low-frequency diffusion (storage) capacitance,
+	// F; TotalCap = Cap + DiffusionCap with the depletion part taken at
+	// min(Vj, Vbi - 2 Vt) where the depletion approximation fails.
+	DiffusionCap, TotalCap float64
+	// Power is the dissipated power |V I|, W.
+	Power float64
+	// Converged reports whether the self-consistent solution converged;
+	// Iterations counts its steps.
+	Converged  bool
+	Iterations int
 }
 
-// At evaluates the device at bias v (V, forward positive).
+// At evaluates the device at bias v (V, forward positive) with every
+// enabled effect: the junction voltage Vj from V = Vj + I Rs (Solve), the
+// current components, the depletion electrostatics at Vj, the small-signal
+// conductance, ideality and capacitances.
 func (s *Static) At(v float64) Point {
-	p := Point{V: v}
-	p.Depletion = s.Junction.Solve(s.Vbi, v)
+	p := s.Solve(v)
+	p.Depletion = s.Junction.Solve(s.Vbi, p.Vj)
 	p.CapPerArea = p.Depletion.CapPerArea
 	p.Cap = p.CapPerArea * s.Device.Area
-	e := math.Expm1(v / s.Vt)
-	p.IdealN, p.IdealP = s.IsN*e, s.IsP*e
-	p.IdealCurrent = s.Is * e
-	p.Current = p.IdealCurrent
+	s.smallSignal(&p)
 	switch {
 	case !p.Depletion.Valid:
 		p.Flags = append(p.Flags, Flag{FlagDepletionFails, []string{"depletion width", "peak field", "capacitance"}, p.Depletion.Problem})
-	case s.Vbi-v < 3*s.Vt:
+	case s.Vbi-p.Vj < 3*s.Vt:
 		p.Flags = append(p.Flags, Flag{FlagDepletionMarginal, []string{"depletion width", "peak field", "capacitance"},
 			fmt.Sprintf("bias within 3 kT/q of the built-in potential (%.3f V): the depletion approximation is rough here", s.Vbi)})
 	}

@@ -92,8 +92,12 @@ type syncBuffer struct {
 	b  bytes.Buffer
 }
 
-func (s *syncBuffer) Write(p []byte) (int, error) { s.mu.Lock(); defer s.mu.Unlock(); return s.b.Write(p) }
-func (s *syncBuffer) String() string               { s.mu.Lock(); defer s.mu.Unlock(); return s.b.String() }
+func (s *syncBuffer) Write(p []byte) (int, error) {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	return s.b.Write(p)
+}
+func (s *syncBuffer) String() string { s.mu.Lock(); defer s.mu.Unlock(); return s.b.String() }
 
 func startServer(t *testing.T, dir string, lines ...string) *fixture {
 	t.Helper()
@@ -134,7 +138,9 @@ func clientConfig(user string, auth ...gossh.AuthMethod) *gossh.ClientConfig {
 	return &gossh.ClientConfig{User: user, Auth: auth, HostKeyCallback: gossh.InsecureIgnoreHostKey(), Timeout: 5 * time.Second}
 }
 
-func dial(addr string, cfg *gossh.ClientConfig) (*gossh.Client, error) { return gossh.Dial("tcp", addr, cfg) }
+func dial(addr string, cfg *gossh.ClientConfig) (*gossh.Client, error) {
+	return gossh.Dial("tcp", addr, cfg)
+}
 
 // interactive opens a PTY session and returns its stdin and a reader that
 // waits for text on its output.

@@ -33,6 +33,9 @@ type Conn struct {
 	Height   int
 	Term     string   // the client's TERM
 	Environ  []string // environment the client sent
+	// Args is the interactive command the client asked for (see
+	// InteractiveCommand), empty for the plain workbench.
+	Args []string
 }
 
 // App is what the server serves.
@@ -337,12 +340,20 @@ func AllowedCommand(args []string) bool {
 	return false
 }
 
-const commandHelp = "junco: over SSH you can open the workbench (ssh -t) or run `sessions list`, `sessions show NAME` or `sessions export NAME --format md`; there is no shell"
+// InteractiveCommand reports whether args asks for the workbench on a
+// given session: `open NAME` (one's own) or `review OWNER/NAME` (a session
+// shared with one, read-only). These need a PTY.
+func InteractiveCommand(args []string) bool {
+	return len(args) == 2 && (args[0] == "open" || args[0] == "review")
+}
+
+const commandHelp = "junco: over SSH you can open the workbench (ssh -t; `ssh -t ... open NAME`, `ssh -t ... review OWNER/NAME`) or run `sessions list`, `sessions show NAME` or `sessions export NAME --format md`; there is no shell"
 
 func (s *Server) appMiddleware(next ssh.Handler) ssh.Handler {
 	return func(sess ssh.Session) {
 		defer next(sess)
-		if args := sess.Command(); len(args) > 0 || sess.Subsystem() != "" {
+		args := sess.Command()
+		if (len(args) > 0 && !InteractiveCommand(args)) || sess.Subsystem() != "" {
 			if !AllowedCommand(args) {
 				fmt.Fprintln(sess.Stderr(), commandHelp)
 				_ = sess.Exit(1)
@@ -358,20 +369,20 @@ func (s *Server) appMiddleware(next ssh.Handler) ssh.Handler {
 			_ = sess.Exit(1)
 			return
 		}
-		code := s.runProgram(sess, pty, winCh)
+		code := s.runProgram(sess, pty, winCh, args)
 		_ = sess.Exit(code)
 	}
 }
 
 // runProgram runs one program for the connection with its own renderer and
 // the PTY's size, forwarding resizes, until it quits or the client leaves.
-func (s *Server) runProgram(sess ssh.Session, pty ssh.Pty, winCh <-chan ssh.Window) int {
+func (s *Server) runProgram(sess ssh.Session, pty ssh.Pty, winCh <-chan ssh.Window, args []string) int {
 	env := sessionEnv{environ: append(sess.Environ(), "TERM="+pty.Term)}
 	r := lipgloss.NewRenderer(sess, termenv.WithUnsafe(), termenv.WithEnvironment(env), termenv.WithColorCache(true))
 	r.SetHasDarkBackground(true)
 	ctx, cancel := context.WithCancel(sess.Context())
 	defer cancel()
-	model, err := s.cfg.App.Model(ctx, Conn{User: sess.User(), Renderer: r, Width: pty.Window.Width, Height: pty.Window.Height, Term: pty.Term, Environ: sess.Environ()})
+	model, err := s.cfg.App.Model(ctx, Conn{User: sess.User(), Renderer: r, Width: pty.Window.Width, Height: pty.Window.Height, Term: pty.Term, Environ: sess.Environ(), Args: args})
 	if err != nil {
 		fmt.Fprintf(sess.Stderr(), "junco: %v\n", err)
 		return 1

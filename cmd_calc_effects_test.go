@@ -1,0 +1,90 @@
+package main
+
+import (
+	"encoding/json"
+	"strings"
+	"testing"
+)
+
+// --sweep with --csv writes one CSV row per bias with unit-labelled
+// headers, and the caution on stderr.
+func TestCalcSweepCSV(t *testing.T) {
+	code, out, errs := runCLI(t, "calc", "--sweep", "-2V:0.9V:10mV", "--csv")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	lines := strings.Split(strings.TrimSpace(out), "\n")
+	if len(lines) != 292 || !strings.HasPrefix(lines[0], "bias_V,") || !strings.Contains(lines[0], "recombination_current_A") ||
+		!strings.Contains(lines[0], "capacitance_F") || !strings.Contains(lines[0], "ideality_factor") {
+		t.Errorf("header %q, %d lines", lines[0], len(lines))
+	}
+	if !strings.Contains(errs, "[caution]") {
+		t.Errorf("no caution on stderr: %s", errs)
+	}
+	code, out, _ = runCLI(t, "calc", "--sweep", "0V:1V:0.5V", "--ascii")
+	if code != 0 || !strings.Contains(out, "I_rec/gen") {
+		t.Errorf("table: %d\n%s", code, out)
+	}
+}
+
+// --tsweep with --csv: Is(T), VF(T) at --if and dVF/dT per temperature.
+func TestCalcTemperatureSweepCSV(t *testing.T) {
+	code, out, errs := runCLI(t, "calc", "--tsweep", "250K:400K:10K", "--csv", "--if", "10mA")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	lines := strings.Split(strings.TrimSpace(out), "\n")
+	if len(lines) != 17 || !strings.HasPrefix(lines[0], "temperature_K,") || !strings.Contains(lines[0], "0.01A") {
+		t.Errorf("header %q, %d lines", lines[0], len(lines))
+	}
+}
+
+// A sweep above --power-limit warns on stderr; bad sweeps exit 2.
+func TestCalcPowerLimitAndBadSweep(t *testing.T) {
+	_, _, errs := runCLI(t, "calc", "--sweep", "0V:1.5V:0.5V", "--csv", "--power-limit", "10mW")
+	if !strings.Contains(errs, "[power-limit]") {
+		t.Errorf("no power warning: %s", errs)
+	}
+	for _, c := range [][]string{
+		{"calc", "--sweep", "0V:1V"}, {"calc", "--sweep", "1V:0V:0.1V"}, {"calc", "--csv"},
+		{"calc", "--sweep", "0:1:0.1", "--tsweep", "300K:310K:5K"}, {"calc", "--rc", "-3ohm"}, {"calc", "--bgn-model", "x"},
+	} {
+		if code, out, errs := runCLI(t, c...); code != 2 || out != "" || errs == "" {
+			t.Errorf("%v: exit %d, stdout %q", c, code, out)
+		}
+	}
+}
+
+// --ideal and the --no-* switches: with every effect off current_A is the
+// Shockley current; with the realistic default it is not.
+func TestCalcEffectSwitches(t *testing.T) {
+	get := func(args ...string) map[string]any {
+		code, out, errs := runCLI(t, append([]string{"calc", "--bias", "0.7V", "--json"}, args...)...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d %s", args, code, errs)
+		}
+		var m map[string]any
+		if err := json.Unmarshal([]byte(out), &m); err != nil {
+			t.Fatal(err)
+		}
+		return m
+	}
+	m := get("--ideal")
+	if m["current_A"] != m["ideal_current_A"] {
+		t.Errorf("--ideal: %v vs %v", m["current_A"], m["ideal_current_A"])
+	}
+	m = get()
+	if m["current_A"] == m["ideal_current_A"] || m["series_resistance_ohm"].(float64) <= 0 {
+		t.Errorf("default effects not applied")
+	}
+	m = get("--no-rs", "--rsh", "100ohm")
+	if m["series_resistance_ohm"].(float64) != 0 || m["shunt_current_A"].(float64) <= 0.006 {
+		t.Errorf("--no-rs --rsh: Rs %v, shunt %v", m["series_resistance_ohm"], m["shunt_current_A"])
+	}
+	_, _, help := runCLI(t, "calc", "--help")
+	for _, w := range []string{"--no-srh", "--sweep", "--tsweep", "power-limit", "rated limits"} {
+		if !strings.Contains(help, w) {
+			t.Errorf("help lacks %q", w)
+		}
+	}
+}

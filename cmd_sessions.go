@@ -1,0 +1,591 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"time"
+
+	"junco/model"
+	"junco/sessions"
+)
+
+const sessionsUsage = `Usage: junco sessions COMMAND [flags]
+
+Sessions keep what was assumed, measured and extracted, revision by
+revision. Every save is a new revision; nothing is overwritten.
+
+Commands:
+  list                           sessions with their newest revision
+  show NAME [--rev N]            inputs, results, data and notes of a revision
+  history NAME                   every revision: when, by whom, from what
+  diff NAME A B                  changed inputs and results from revision A to B
+  export NAME [--rev N] --format md|csv|json [--out DIR]
+                                 a Markdown report with SVG figures, CSV tables
+                                 of every curve, or the JSON document
+  import FILE [--as NAME]        store a session file from elsewhere
+  trash [NAME]                   move a session to the trash (no NAME: list it)
+  restore NAME                   bring a session back from the trash
+  restore NAME --rev N           store revision N again as the newest
+
+Every command takes --data DIR (default $XDG_DATA_HOME/junco, else
+~/.local/share/junco).
+`
+
+// sessionFlags are the flags shared by the sessions commands.
+type sessionFlags struct {
+	data   string
+	rev    int
+	format string
+	out    string
+	as     string
+	ascii  bool
+}
+
+func newSessionFlagSet(name string, o *sessionFlags, stderr io.Writer, extra ...string) *flag.FlagSet {
+	fs := flag.NewFlagSet("sessions "+name, flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	fs.StringVar(&o.data, "data", "", "data directory (default $XDG_DATA_HOME/junco or ~/.local/share/junco)")
+	for _, e := range extra {
+		switch e {
+		case "rev":
+			fs.IntVar(&o.rev, "rev", 0, "revision number (default: the newest)")
+		case "format":
+			fs.StringVar(&o.format, "format", "", "md, csv or json")
+		case "out":
+			fs.StringVar(&o.out, "out", "", "directory to write the files into (created if missing; nothing is replaced)")
+		case "as":
+			fs.StringVar(&o.as, "as", "", "session name to store under (default: the file name without extension)")
+		case "ascii":
+			fs.BoolVar(&o.ascii, "ascii", false, "plain ASCII output (u for micro)")
+		}
+	}
+	fs.Usage = func() { fmt.Fprint(stderr, sessionsUsage) }
+	return fs
+}
+
+// parseInterleaved parses flags that may come before, between or after
+// the positional arguments and returns the positional ones.
+func parseInterleaved(fs *flag.FlagSet, args []string) ([]string, error) {
+	var pos []string
+	for {
+		if err := fs.Parse(args); err != nil {
+			return nil, err
+		}
+		rest := fs.Args()
+		if len(rest) == 0 {
+			return pos, nil
+		}
+		if rest[0] == "--" {
+			return append(pos, rest[1:]...), nil
+		}
+		pos = append(pos, rest[0])
+		args = rest[1:]
+	}
+}
+
+// openStore opens the store at dir, or at the default location.
+func openStore(dir, user string) (*sessions.Store, error) {
+	if dir == "" {
+		d, err := sessions.DefaultRoot(os.Getenv)
+		if err != nil {
+			return nil, err
+		}
+		dir = d
+	}
+	return sessions.New(dir, sessions.Options{ToolVersion: Version, User: user})
+}
+
+// currentUser names who saves, from the environment.
+func currentUser() string {
+	for _, k := range []string{"USER", "LOGNAME", "USERNAME"} {
+		if v := os.Getenv(k); v != "" {
+			return v
+		}
+	}
+	return ""
+}
+
+// runSessions implements `junco sessions`.
+func runSessions(ctx context.Context, args []string, stdout, stderr io.Writer) int {
+	if len(args) == 0 {
+		fmt.Fprint(stderr, sessionsUsage)
+		return exitUsage
+	}
+	cmd, rest := args[0], args[1:]
+	fail := func(err error) int {
+		fmt.Fprintf(stderr, "junco sessions %s: %v\n", cmd, err)
+		return exitFailure
+	}
+	usageErr := func(format string, a ...any) int {
+		fmt.Fprintf(stderr, "junco sessions %s: %s\n\n", cmd, fmt.Sprintf(format, a...))
+		fmt.Fprint(stderr, sessionsUsage)
+		return exitUsage
+	}
+	var o sessionFlags
+	var fs *flag.FlagSet
+	switch cmd {
+	case "help", "-h", "--help":
+		fmt.Fprint(stdout, sessionsUsage)
+		return exitOK
+	case "list", "history", "trash":
+		fs = newSessionFlagSet(cmd, &o, stderr)
+	case "show":
+		fs = newSessionFlagSet(cmd, &o, stderr, "rev", "ascii")
+	case "diff":
+		fs = newSessionFlagSet(cmd, &o, stderr, "ascii")
+	case "export":
+		fs = newSessionFlagSet(cmd, &o, stderr, "rev", "format", "out", "ascii")
+	case "import":
+		fs = newSessionFlagSet(cmd, &o, stderr, "as")
+	case "restore":
+		fs = newSessionFlagSet(cmd, &o, stderr, "rev")
+	default:
+		return usageErr("unknown command %q", cmd)
+	}
+	pos, err := parseInterleaved(fs, rest)
+	if err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			return exitOK
+		}
+		return exitUsage
+	}
+	want := map[string][2]int{"list": {0, 0}, "show": {1, 1}, "history": {1, 1}, "diff": {3, 3},
+		"export": {1, 1}, "import": {1, 1}, "trash": {0, 1}, "restore": {1, 1}}[cmd]
+	if len(pos) < want[0] || len(pos) > want[1] {
+		return usageErr("expected %s, got %d argument(s)", map[string]string{
+			"list": "no arguments", "show": "a session NAME", "history": "a session NAME", "diff": "NAME A B",
+			"export": "a session NAME", "import": "a FILE", "trash": "at most a session NAME", "restore": "a session NAME"}[cmd], len(pos))
+	}
+	if o.rev < 0 {
+		return usageErr("--rev %d: allowed 1 or more (omit for the newest)", o.rev)
+	}
+	st, err := openStore(o.data, currentUser())
+	if err != nil {
+		return fail(err)
+	}
+	if err := ctx.Err(); err != nil {
+		return fail(err)
+	}
+	switch cmd {
+	case "list":
+		return sessionsList(st, stdout, stderr)
+	case "show":
+		return sessionsShow(st, pos[0], o, stdout, stderr)
+	case "history":
+		return sessionsHistory(st, pos[0], stdout, stderr)
+	case "diff":
+		return sessionsDiff(st, pos, o, stdout, stderr, usageErr)
+	case "export":
+		return sessionsExport(st, pos[0], o, stdout, stderr, usageErr)
+	case "import":
+		data, err := readLimited(pos[0])
+		if err != nil {
+			return fail(err)
+		}
+		r, err := st.Import(data, pos[0], o.as)
+		if err != nil {
+			return fail(err)
+		}
+		fmt.Fprintf(stdout, "imported %s as session %q, revision %d\n", pos[0], r.Session, r.Number)
+		return exitOK
+	case "trash":
+		if len(pos) == 0 {
+			return sessionsTrashList(st, stdout, stderr)
+		}
+		e, err := st.Trash(pos[0])
+		if err != nil {
+			return fail(err)
+		}
+		fmt.Fprintf(stdout, "moved session %q (%d revisions) to the trash; `junco sessions restore %s` brings it back\n", e.Session, e.Revisions, e.Session)
+		return exitOK
+	case "restore":
+		if o.rev > 0 {
+			r, err := st.RestoreRevision(pos[0], o.rev)
+			if err != nil {
+				return fail(err)
+			}
+			fmt.Fprintf(stdout, "stored revision %d of %q again as revision %d\n", o.rev, r.Session, r.Number)
+			return exitOK
+		}
+		e, err := st.Restore(pos[0])
+		if err != nil {
+			return fail(err)
+		}
+		fmt.Fprintf(stdout, "restored session %q (%d revisions, trashed %s)\n", e.Session, e.Revisions, e.Trashed.Format("2006-01-02 15:04:05 UTC"))
+		return exitOK
+	}
+	return exitOK
+}
+
+// readLimited reads a session file given by the user.
+func readLimited(path string) ([]byte, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	data, err := io.ReadAll(io.LimitReader(f, sessions.MaxDocumentBytes+1))
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", path, err)
+	}
+	if len(data) > sessions.MaxDocumentBytes {
+		return nil, fmt.Errorf("%s: larger than the %d MiB a session may have", path, sessions.MaxDocumentBytes>>20)
+	}
+	return data, nil
+}
+
+func warnProblems(stderr io.Writer, probs []*sessions.DamagedError) {
+	for _, p := range probs {
+		fmt.Fprintf(stderr, "junco sessions: warning: %v\n", p)
+	}
+}
+
+func when(t time.Time) string {
+	if t.IsZero() {
+		return "-"
+	}
+	return t.UTC().Format("2006-01-02 15:04 UTC")
+}
+
+func dash(s string) string {
+	if strings.TrimSpace(s) == "" {
+		return "-"
+	}
+	return s
+}
+
+// table writes aligned columns.
+func table(w io.Writer, rows [][]string) {
+	width := map[int]int{}
+	for _, r := range rows {
+		for i, c := range r {
+			width[i] = max(width[i], len([]rune(c)))
+		}
+	}
+	for _, r := range rows {
+		var b strings.Builder
+		for i, c := range r {
+			if i > 0 {
+				b.WriteString("  ")
+			}
+			b.WriteString(c)
+			if i < len(r)-1 {
+				b.WriteString(strings.Repeat(" ", width[i]-len([]rune(c))))
+			}
+		}
+		fmt.Fprintln(w, strings.TrimRight(b.String(), " "))
+	}
+}
+
+func sessionsList(st *sessions.Store, stdout, stderr io.Writer) int {
+	list, probs, err := st.List()
+	if err != nil {
+		fmt.Fprintf(stderr, "junco sessions list: %v\n", err)
+		return exitFailure
+	}
+	warnProblems(stderr, probs)
+	if len(list) == 0 {
+		fmt.Fprintf(stdout, "no sessions in %s\n", st.Root())
+		return exitOK
+	}
+	rows := [][]string{{"NAME", "REV", "SAVED", "AUTHOR", "TITLE"}}
+	for _, s := range list {
+		rows = append(rows, []string{s.Name, strconv.Itoa(s.Latest.Number), when(s.Latest.Meta.Modified), dash(s.Latest.Meta.Author), dash(s.Latest.Meta.Title)})
+	}
+	table(stdout, rows)
+	return exitOK
+}
+
+func sessionsTrashList(st *sessions.Store, stdout, stderr io.Writer) int {
+	list, probs, err := st.Trashed()
+	if err != nil {
+		fmt.Fprintf(stderr, "junco sessions trash: %v\n", err)
+		return exitFailure
+	}
+	warnProblems(stderr, probs)
+	if len(list) == 0 {
+		fmt.Fprintln(stdout, "the trash is empty")
+		return exitOK
+	}
+	rows := [][]string{{"NAME", "REVISIONS", "TRASHED"}}
+	for _, e := range list {
+		rows = append(rows, []string{e.Session, strconv.Itoa(e.Revisions), e.Trashed.Format("2006-01-02 15:04:05 UTC")})
+	}
+	table(stdout, rows)
+	return exitOK
+}
+
+func sessionsHistory(st *sessions.Store, name string, stdout, stderr io.Writer) int {
+	hist, probs, err := st.History(name)
+	warnProblems(stderr, probs)
+	if err != nil {
+		fmt.Fprintf(stderr, "junco sessions history: %v\n", err)
+		return exitFailure
+	}
+	rows := [][]string{{"REV", "SAVED", "BY", "FROM", "TOOL", "BYTES", "NOTE"}}
+	for _, r := range hist {
+		from := "-"
+		if r.Meta.BasedOn > 0 {
+			from = strconv.Itoa(r.Meta.BasedOn)
+		}
+		rows = append(rows, []string{strconv.Itoa(r.Number), when(r.Meta.Modified), dash(r.Meta.SavedBy), from, dash(r.Meta.ToolVersion), strconv.FormatInt(r.Size, 10), dash(r.Meta.Origin)})
+	}
+	table(stdout, rows)
+	return exitOK
+}
+
+func sessionsShow(st *sessions.Store, name string, o sessionFlags, stdout, stderr io.Writer) int {
+	doc, rev, err := st.Open(name, o.rev)
+	if err != nil {
+		fmt.Fprintf(stderr, "junco sessions show: %v\n", err)
+		return exitFailure
+	}
+	m := doc.Meta
+	fmt.Fprintf(stdout, "%s, revision %d: %s\n", name, rev.Number, dash(m.Title))
+	fmt.Fprintf(stdout, "author %s; created %s; saved %s by %s with junco %s\n", dash(m.Author), when(m.Created), when(m.Modified), dash(m.SavedBy), dash(m.ToolVersion))
+	if m.Origin != "" {
+		fmt.Fprintf(stdout, "origin: %s\n", m.Origin)
+	}
+	fmt.Fprintln(stdout, "\nInputs")
+	var rows [][]string
+	for _, r := range sessions.SpecRows(doc.Spec, o.ascii) {
+		rows = append(rows, []string{"  " + r.Label, r.Value})
+	}
+	table(stdout, rows)
+	fmt.Fprintln(stdout)
+	res, err := model.Evaluate(doc.Spec)
+	if err != nil {
+		fmt.Fprintf(stdout, "Results: not computable: %v\n", err)
+	} else {
+		fmt.Fprint(stdout, res.Text(o.ascii))
+	}
+	if len(doc.Measurements) > 0 {
+		fmt.Fprintln(stdout, "\nMeasurements")
+		for _, ms := range doc.Measurements {
+			fmt.Fprintf(stdout, "  %s: %s from %s, %d points, imported %s\n", ms.ID, ms.Kind, ms.SourceFile, ms.Len(), when(ms.ImportedAt))
+		}
+	}
+	if len(doc.Extractions) > 0 {
+		fmt.Fprintln(stdout, "\nExtracted parameters")
+		for _, x := range doc.Extractions {
+			fmt.Fprintf(stdout, "  %s (%s, data %s)\n", x.ID, x.Method, dash(x.Measurement))
+			for _, p := range x.Parameters {
+				fmt.Fprintf(stdout, "    %-6s %s\n", p.Name, sessions.FormatParameter(p, o.ascii))
+			}
+		}
+	}
+	if len(doc.References) > 0 {
+		fmt.Fprintln(stdout, "\nReferences")
+		for _, r := range doc.References {
+			fmt.Fprintf(stdout, "  %s (pinned %s)\n", r.Name, when(r.Pinned))
+		}
+	}
+	if len(doc.Notes) > 0 {
+		fmt.Fprintln(stdout, "\nNotes")
+		for _, l := range doc.Notes {
+			fmt.Fprintln(stdout, "  "+l)
+		}
+	}
+	if len(doc.Reviews) > 0 {
+		fmt.Fprintln(stdout, "\nReview notes")
+		for _, r := range doc.Reviews {
+			fmt.Fprintf(stdout, "  %s, %s: %s\n", r.Author, when(r.Time), r.Text)
+		}
+	}
+	return exitOK
+}
+
+func sessionsDiff(st *sessions.Store, pos []string, o sessionFlags, stdout, stderr io.Writer, usageErr func(string, ...any) int) int {
+	var revs [2]int
+	for i, s := range pos[1:] {
+		n, err := strconv.Atoi(s)
+		if err != nil || n < 1 {
+			return usageErr("revision %q: allowed a revision number, 1 or more", s)
+		}
+		revs[i] = n
+	}
+	a, _, err := st.Open(pos[0], revs[0])
+	if err != nil {
+		fmt.Fprintf(stderr, "junco sessions diff: %v\n", err)
+		return exitFailure
+	}
+	b, _, err := st.Open(pos[0], revs[1])
+	if err != nil {
+		fmt.Fprintf(stderr, "junco sessions diff: %v\n", err)
+		return exitFailure
+	}
+	changes := sessions.Diff(a, b, o.ascii)
+	if len(changes) == 0 {
+		fmt.Fprintf(stdout, "revisions %d and %d of %q have the same inputs, results, data and notes\n", revs[0], revs[1], pos[0])
+		return exitOK
+	}
+	fmt.Fprintf(stdout, "%s: revision %d -> %d\n\n", pos[0], revs[0], revs[1])
+	sessions.WriteChanges(stdout, changes)
+	return exitOK
+}
+
+func sessionsExport(st *sessions.Store, name string, o sessionFlags, stdout, stderr io.Writer, usageErr func(string, ...any) int) int {
+	if o.format == "" {
+		return usageErr("--format is required: md, csv or json")
+	}
+	format, err := sessions.ParseExportFormat(o.format)
+	if err != nil {
+		return usageErr("%v", err)
+	}
+	if format == sessions.FormatCSV && o.out == "" {
+		return usageErr("--format csv writes one file per curve: give --out DIR")
+	}
+	doc, rev, err := st.Open(name, o.rev)
+	if err != nil {
+		fmt.Fprintf(stderr, "junco sessions export: %v\n", err)
+		return exitFailure
+	}
+	files, err := sessions.Export(doc, format, sessions.ExportOptions{Session: name, Revision: rev.Number, Figures: o.out != "", ASCII: o.ascii, ToolVersion: Version})
+	if err != nil {
+		fmt.Fprintf(stderr, "junco sessions export: %v\n", err)
+		return exitFailure
+	}
+	if o.out == "" {
+		stdout.Write(files[0].Data)
+		return exitOK
+	}
+	written, err := sessions.WriteNew(o.out, files)
+	for _, p := range written {
+		fmt.Fprintln(stdout, p)
+	}
+	if err != nil {
+		fmt.Fprintf(stderr, "junco sessions export: %v\n", err)
+		return exitFailure
+	}
+	return exitOK
+}
+
+// ---------------------------------------------------------------- calc
+
+// calcSessionArgs are the session flags of `junco calc`: --session NAME|FILE
+// loads a junction (flags given as well override its values), --save NAME
+// stores the evaluated junction, --data DIR selects the store and
+// --author names who saves.
+type calcSessionArgs struct {
+	Session string
+	Save    string
+	DataDir string
+	Author  string
+}
+
+// calcSessionOptions takes the session flags out of calc's arguments and
+// returns them with the remaining arguments, for calc's own flag set. Both
+// "--flag value" and "--flag=value" are accepted; "--" ends the flags.
+// Use: parse these first, load the Spec with loadSpecForCalc, then parse
+// the rest into it so that explicit flags override the session's values.
+func calcSessionOptions(args []string) (calcSessionArgs, []string, error) {
+	var o calcSessionArgs
+	targets := map[string]*string{"session": &o.Session, "save": &o.Save, "data": &o.DataDir, "author": &o.Author}
+	var rest []string
+	for i := 0; i < len(args); i++ {
+		a := args[i]
+		if a == "--" {
+			rest = append(rest, args[i:]...)
+			break
+		}
+		name := strings.TrimLeft(a, "-")
+		if !strings.HasPrefix(a, "-") || len(a)-len(name) > 2 {
+			rest = append(rest, a)
+			continue
+		}
+		key, val, hasVal := strings.Cut(name, "=")
+		dst, ok := targets[key]
+		if !ok {
+			rest = append(rest, a)
+			continue
+		}
+		if !hasVal {
+			if i+1 >= len(args) {
+				return o, nil, fmt.Errorf("flag --%s needs a value", key)
+			}
+			i++
+			val = args[i]
+		}
+		if val == "" {
+			return o, nil, fmt.Errorf("flag --%s needs a non-empty value", key)
+		}
+		*dst = val
+	}
+	return o, rest, nil
+}
+
+// looksLikePath tells a file argument from a session name: it has a path
+// separator or ends in .json.
+func looksLikePath(s string) bool {
+	return strings.ContainsAny(s, `/\`) || strings.EqualFold(filepath.Ext(s), ".json")
+}
+
+// loadSpecForCalc returns the junction of a session (its newest revision)
+// or of a session file: nameOrFile is a file when it contains a path
+// separator or ends in .json, else a session name in the store at dataDir
+// ("" for the default location). The document is decoded strictly and
+// validated; errors name the file.
+func loadSpecForCalc(dataDir, nameOrFile string) (model.Spec, error) {
+	if looksLikePath(nameOrFile) {
+		data, err := readLimited(nameOrFile)
+		if err != nil {
+			return model.Spec{}, err
+		}
+		doc, err := sessions.Decode(data)
+		if err != nil {
+			return model.Spec{}, fmt.Errorf("%s: %w", nameOrFile, err)
+		}
+		return doc.Spec, nil
+	}
+	st, err := openStore(dataDir, "")
+	if err != nil {
+		return model.Spec{}, err
+	}
+	doc, _, err := st.Open(nameOrFile, 0)
+	if err != nil {
+		return model.Spec{}, err
+	}
+	return doc.Spec, nil
+}
+
+// saveSpecFromCalc stores spec as the next revision of session name (its
+// other contents kept), or as a new session when there is none, and
+// returns the revision number. author is recorded as who saved it and, for
+// a new session, as its author. A concurrent save of the same session
+// makes it fail with a *sessions.StaleError rather than lose either.
+func saveSpecFromCalc(dataDir, name string, spec model.Spec, author string) (rev int, err error) {
+	if err := sessions.ValidateName(name); err != nil {
+		return 0, err
+	}
+	if author == "" {
+		author = currentUser()
+	}
+	st, err := openStore(dataDir, author)
+	if err != nil {
+		return 0, err
+	}
+	latest, err := st.Latest(name)
+	var nf *sessions.NotFoundError
+	switch {
+	case errors.As(err, &nf) || (err == nil && latest == 0):
+		doc := sessions.NewDocument(name, author, spec, time.Now())
+		r, err := st.Save(name, doc, 0)
+		return r.Number, err
+	case err != nil:
+		return 0, err
+	}
+	doc, _, err := st.Open(name, latest)
+	if err != nil {
+		return 0, err
+	}
+	doc.Spec = spec
+	r, err := st.Save(name, doc, latest)
+	return r.Number, err
+}

@@ -1,0 +1,129 @@
+package model
+
+import (
+	"math"
+	"strings"
+
+	"junco/physics"
+)
+
+// This file holds what the interactive workbench needs from model beyond
+// evaluation and curves: trade units as numbers, the allowed range of each
+// field as Validate states it, and the choices of the choice fields.
+
+// TradeUnit returns the unit a value of kind k is typed and shown in by
+// default (DefaultUnit) and the SI value of one such unit, so that a chart
+// can plot v/si in that unit. The factor comes from ParseValue, the one
+// place that knows the units.
+func TradeUnit(k Kind) (unit string, si float64) {
+	unit = DefaultUnit(k)
+	v, err := ParseValue(k, "1 "+unit)
+	if err != nil || v == 0 {
+		return SIUnit(k), 1
+	}
+	return unit, v
+}
+
+// FieldAllowed returns the allowed range or set of a Spec field and the
+// reason for it, in Validate's words. It asks Validate about a deliberately
+// impossible value of the field, so the limits live in one place.
+// ok is false for an unknown field name.
+func FieldAllowed(s Spec, field string) (allowed, why string, ok bool) {
+	bad := math.NaN()
+	switch field {
+	case FieldMaterial:
+		s.Material = "?"
+	case FieldProfile:
+		s.Profile = "?"
+	case FieldAcceptorDensity:
+		s.AcceptorDensity = bad
+	case FieldDonorDensity:
+		s.DonorDensity = bad
+	case FieldGradient:
+		s.Profile, s.Gradient = "linear", bad
+	case FieldAcceptorSpecies:
+		s.AcceptorSpecies = "?"
+	case FieldDonorSpecies:
+		s.DonorSpecies = "?"
+	case FieldTemperature:
+		s.Temperature = bad
+	case FieldArea:
+		s.Area = bad
+	case FieldBias:
+		s.Bias = bad
+	case FieldPWidth:
+		s.PWidth = bad
+	case FieldNWidth:
+		s.NWidth = bad
+	case FieldPContactVelocity:
+		s.PContactVelocity = &bad
+	case FieldNContactVelocity:
+		s.NContactVelocity = &bad
+	case FieldElectronLifetime:
+		s.ElectronLifetime = bad
+	case FieldHoleLifetime:
+		s.HoleLifetime = bad
+	case FieldContactResistance:
+		s.ContactResistance = bad
+	case FieldShuntResistance:
+		s.ShuntResistance = bad
+	case FieldPThickness:
+		s.PThickness = bad
+	case FieldNThickness:
+		s.NThickness = bad
+	case FieldPowerLimit:
+		s.PowerLimit = bad
+	case FieldForwardCurrent:
+		s.ForwardCurrent = bad
+	case FieldReverseCurrent:
+		s.ReverseCurrent = bad
+	case FieldBGNModel:
+		s.Effects.BGNModel = "?"
+	default:
+		return "", "", false
+	}
+	err := s.Validate()
+	ve, isVE := err.(*ValidationError)
+	if !isVE {
+		return "", "", false
+	}
+	fe, found := ve.For(field)
+	if !found {
+		return "", "", false
+	}
+	return fe.Allowed, fe.Why, true
+}
+
+// MaterialChoice is one built-in semiconductor: its lookup key and its
+// display name.
+type MaterialChoice struct {
+	Key, Name string
+}
+
+// MaterialChoices lists the built-in semiconductors in key order.
+func MaterialChoices() []MaterialChoice {
+	var out []MaterialChoice
+	for _, k := range physics.MaterialKeys() {
+		m, err := physics.MaterialByName(k)
+		if err != nil {
+			continue
+		}
+		out = append(out, MaterialChoice{Key: m.Key, Name: m.Name})
+	}
+	return out
+}
+
+// DopantChoices lists the donor (donor = true) or acceptor species known
+// in a material, sorted, and the species assumed when none is given. An
+// unknown material gives no choices.
+func DopantChoices(material string, donor bool) (names []string, usual string) {
+	m, err := physics.MaterialByName(material)
+	if err != nil {
+		return nil, ""
+	}
+	usual = m.DefaultAcceptor
+	if donor {
+		usual = m.DefaultDonor
+	}
+	return m.DopantNames(donor), strings.ToLower(usual)
+}

@@ -1,0 +1,552 @@
+package physics
+
+import (
+	"fmt"
+	"math"
+)
+
+// prepareEffects fills the bias-independent parts of the non-ideal
+// effects: ionisation, band-gap narrowing, the regions as the diffusion
+// model sees them, the depletion-region recombination parameters, the
+// resistances and the breakdown. With every effect off the results equal
+// the ideal model's.
+func (s *Static) prepareEffects() error {
+	d := s.Device
+	m := d.Material
+	t := d.Temperature
+	e := d.Effects
+	s.Effects = e
+	da, _ := m.Dopant(d.AcceptorSpecies)
+	dd, _ := m.Dopant(d.DonorSpecies)
+	s.AcceptorLevel = m.EffectiveDopantLevel(da, d.Na)
+	s.DonorLevel = m.EffectiveDopantLevel(dd, d.Nd)
+	s.P0, s.N0 = d.Na, d.Nd
+	s.NaIonised, s.NdIonised = d.Na, d.Nd
+	s.VbiFullIonisation = s.Vbi
+	if e.Ionisation {
+		s.P0, s.NaIonised = IonisedDensity(d.Na, s.AcceptorLevel, m.Nv(t), s.Ni, t)
+		s.N0, s.NdIonised = IonisedDensity(d.Nd, s.DonorLevel, m.Nc(t), s.Ni, t)
+		s.Vbi = s.VbiFullIonisation + s.Vt*math.Log(s.P0*s.N0/(d.Na*d.Nd))
+		if !(s.Vbi > 0) {
+			return fmt.Errorf("with incomplete ionisation at %g K the built-in potential is %.3g V: no junction forms", t, s.Vbi)
+		}
+		fa, fd := s.NaIonised/d.Na, s.NdIonised/d.Nd
+		if fa < 0.9 || fd < 0.9 {
+			s.Flags = append(s.Flags, Flag{FlagIncompleteIon, []string{"built-in potential", "ionised", "majority", "diffusion current", "series resistance"},
+				fmt.Sprintf("incomplete ionisation: %.0f%% of the acceptors and %.0f%% of the donors are ionised at %g K (Fermi-Dirac occupation of the dopant levels)", 100*fa, 100*fd, t)})
+		}
+	}
+	s.NiEffP, s.NiEffN = s.Ni, s.Ni
+	if e.BGN {
+		var ok bool
+		s.DEgP, ok = BandGapNarrowing(m, e.BGNModel, d.Na)
+		s.DEgN, _ = BandGapNarrowing(m, e.BGNModel, d.Nd)
+		s.BGNKnown = ok
+		s.NiEffP = s.Ni * math.Exp(s.DEgP/(2*s.Vt))
+		s.NiEffN = s.Ni * math.Exp(s.DEgN/(2*s.Vt))
+		switch {
+		case !ok && math.Max(d.Na, d.Nd) > 1e17*perCm3:
+			s.Flags = append(s.Flags, Flag{FlagBGNModel, []string{"diffusion current", "narrowing", "effective ni", "BGN"},
+				fmt.Sprintf("no band-gap narrowing parameters for %s: heavy doping is treated with ni_eff = ni", m.Name)})
+		case ok && (t < bgnTMin || t > bgnTMax):
+			s.Flags = append(s.Flags, Flag{FlagBGNModel, []string{"diffusion current", "narrowing", "effective ni", "BGN"},
+				fmt.Sprintf("band-gap narrowing fitted near 300 K is applied unchanged at %g K (trusted %g-%g K)", t, bgnTMin, bgnTMax)})
+		}
+	}
+	pq, nq := s.P, s.N
+	pq.Doping, nq.Doping = s.P0, s.N0
+	if e.BGN {
+		// The majority density consistent with ni_eff (it differs from P0,
+		// N0 only near intrinsic conditions, where it keeps n0 >= ni_eff).
+		maj := func(ion, ni float64) float64 { return ion/2 + math.Sqrt(ion*ion/4+ni*ni) }
+		pq.Doping, nq.Doping = maj(s.NaIonised, s.NiEffP), maj(s.NdIonised, s.NiEffN)
+	}
+	s.PEff = DiffusionSide{QuasiNeutral: pq, NiEff: s.NiEffP}
+	s.NEff = DiffusionSide{QuasiNeutral: nq, NiEff: s.NiEffN}
+	s.IsDiffN = pq.SaturationCurrentDensity(s.NiEffP) * d.Area
+	s.IsDiffP = nq.SaturationCurrentDensity(s.NiEffN) * d.Area
+	s.IsDiff = s.IsDiffN + s.IsDiffP
+
+	// Depletion-region SRH lifetimes: the user's lifetimes, else the SRH
+	// parts of the defaults (Auger and radiative need majority carriers).
+	tn, tp := s.TauNParts.SRH, s.TauPParts.SRH
+	if d.TauN > 0 {
+		tn = d.TauN
+	}
+	if d.TauP > 0 {
+		tp = d.TauP
+	}
+	n0 := math.Exp(2*math.Log(s.Ni) + s.Vbi/s.Vt - math.Log(s.P0))
+	if math.IsInf(n0, 0) || math.IsNaN(n0) || n0 <= 0 {
+		n0 = s.N0
+	}
+	s.SCR = SCRParams{Ni: s.Ni, P0: s.P0, N0: n0, TauN: tn, TauP: tp, Vt: s.Vt}
+	if e.SRH && (t < 200 || t > 400) {
+		s.Flags = append(s.Flags, Flag{FlagLifetimeTemp, []string{"recombination", "generation", "lifetime"},
+			fmt.Sprintf("lifetimes are taken as temperature independent; at %g K they are an extrapolation of room-temperature values (trusted 200-400 K)", t)})
+	}
+
+	// Resistances.
+	s.Rsh = math.Inf(1)
+	if d.ShuntResistance > 0 {
+		s.Rsh = d.ShuntResistance
+	}
+	var assumedP, assumedN bool
+	s.ResThicknessP, assumedP = layerLength(d.Wp, d.PThickness)
+	s.ResThicknessN, assumedN = layerLength(d.Wn, d.NThickness)
+	s.RP = RegionResistance(s.ResThicknessP, d.Area, s.P0, s.MuMajP)
+	s.RN = RegionResistance(s.ResThicknessN, d.Area, s.N0, s.MuMajN)
+	s.RContact = d.ContactResistance
+	if e.SeriesResistance {
+		s.Rs = s.RP + s.RN + s.RContact
+	}
+	if (e.SeriesResistance || e.Breakdown) && (assumedP || assumedN) {
+		s.Flags = append(s.Flags, Flag{FlagAssumedThickness, []string{"series resistance", "punch-through"},
+			fmt.Sprintf("a long region is taken as %.0f um thick for its resistance and punch-through (set the thickness to change it)", defaultLayerThickness*1e6)})
+	}
+
+	s.Breakdown = Breakdown{Voltage: math.NaN(), PeakField: math.NaN(), Width: math.NaN(), Xp: math.NaN(), Xn: math.NaN(),
+		PunchThroughVoltage: math.NaN(), TunnellingLimit: 4 * s.Eg, SzeGibbons: math.NaN()}
+	if e.Breakdown {
+		s.computeBreakdown()
+	}
+	return nil
+}
+
+// layerLength returns the length of a region used for its resistance: the
+// quasi-neutral width when finite, else the given thickness, else the
+// default (assumed = true).
+func layerLength(w, thick float64) (float64, bool) {
+	switch {
+	case !math.IsInf(w, 1):
+		return w, false
+	case thick > 0:
+		return thick, false
+	}
+	return defaultLayerThickness, true
+}
+
+// computeBreakdown runs the avalanche breakdown search of the junction
+// (Breakdown) with layer thicknesses from the junction to the contacts:
+// quasi-neutral width plus the zero-bias depletion depth for finite
+// regions, else the given or assumed thickness.
+func (s *Static) computeBreakdown() {
+	d := s.Device
+	m := d.Material
+	t := d.Temperature
+	b := &s.Breakdown
+	im, ok := ImpactModelFor(m)
+	if !ok {
+		s.Flags = append(s.Flags, Flag{FlagBreakdownNotFound, []string{"breakdown"}, "no impact-ionisation model for " + m.Name})
+		return
+	}
+	b.Model = im.Source
+	dep0 := s.Junction.Solve(s.Vbi, 0)
+	thick := func(w, given, x0 float64) (float64, bool) {
+		switch {
+		case !math.IsInf(w, 1):
+			return w + x0, false
+		case given > 0:
+			return given, false
+		}
+		return defaultLayerThickness, true
+	}
+	b.ThicknessP, b.AssumedP = thick(d.Wp, d.PThickness, dep0.Xp)
+	b.ThicknessN, b.AssumedN = thick(d.Wn, d.NThickness, dep0.Xn)
+	a := &avalanche{j: s.Junction, c: im.at(t), thickP: b.ThicknessP, thickN: b.ThicknessN, vbi: s.Vbi}
+	nb := d.Na * d.Nd / (d.Na + d.Nd)
+	b.SzeGibbons = SzeGibbonsBreakdown(d.Profile, s.Eg, nb, d.Gradient)
+	// First guess of the peak field from the Sze-Gibbons voltage.
+	guess := math.Sqrt(2 * Q * nb * b.SzeGibbons / s.Junction.Eps)
+	if d.Profile == LinearGraded {
+		guess = 1.5 * b.SzeGibbons / math.Cbrt(12*s.Junction.Eps*b.SzeGibbons/(Q*d.Gradient))
+	}
+	if !(guess > 0) || math.IsInf(guess, 0) {
+		guess = 3e7
+	}
+	e0, it, conv := a.searchBreakdown(guess)
+	b.Iterations, b.Converged = it, conv
+	if !conv || math.IsNaN(e0) {
+		s.Flags = append(s.Flags, Flag{FlagBreakdownNotFound, []string{"breakdown"}, "the breakdown search did not converge"})
+		return
+	}
+	vr, w, up, un := a.reverse(e0)
+	b.Voltage, b.PeakField, b.Width, b.Xp, b.Xn = vr, e0, w, up, un
+	s.aval = a
+	// Punch-through: a natural depletion edge beyond its layer at breakdown.
+	k := Q / s.Junction.Eps
+	vpt := math.Inf(1)
+	if s.Junction.sideEdge(e0/k, d.Na) > b.ThicknessP {
+		v, _, _, _ := a.reverse(k * s.Junction.sideCharge(b.ThicknessP, d.Na))
+		vpt = math.Min(vpt, v)
+	}
+	if s.Junction.sideEdge(e0/k, d.Nd) > b.ThicknessN {
+		v, _, _, _ := a.reverse(k * s.Junction.sideCharge(b.ThicknessN, d.Nd))
+		vpt = math.Min(vpt, v)
+	}
+	if !math.IsInf(vpt, 1) {
+		b.PunchThrough = true
+		b.PunchThroughVoltage = math.Max(vpt, 0)
+		msg := fmt.Sprintf("punch-through: the depletion region reaches a contact at %.4g V reverse, before avalanche; breakdown of the punched-through layer at %.4g V", b.PunchThroughVoltage, vr)
+		if (b.AssumedP && up >= b.ThicknessP) || (b.AssumedN && un >= b.ThicknessN) {
+			msg += fmt.Sprintf(" (with the assumed %.0f um layer)", defaultLayerThickness*1e6)
+		}
+		s.Flags = append(s.Flags, Flag{FlagPunchThrough, []string{"breakdown", "punch-through"}, msg})
+	}
+	switch {
+	case vr < 4*s.Eg:
+		b.Tunnelling = true
+		s.Flags = append(s.Flags, Flag{FlagTunnelling, []string{"breakdown"},
+			fmt.Sprintf("avalanche estimate %.3g V is below 4 Eg/q = %.3g V: Zener tunnelling dominates and sets a lower breakdown voltage (Sze & Ng 2007)", vr, 4*s.Eg)})
+	case vr < 6*s.Eg:
+		b.Mixed = true
+		s.Flags = append(s.Flags, Flag{FlagTunnelling, []string{"breakdown"},
+			fmt.Sprintf("breakdown %.3g V lies between 4 and 6 Eg/q: tunnelling and avalanche both contribute and the avalanche estimate is an upper bound (Sze & Ng 2007)", vr)})
+	}
+	if t < im.TMin || t > im.TMax {
+		s.Flags = append(s.Flags, Flag{FlagImpactRange, []string{"breakdown", "multiplication"},
+			fmt.Sprintf("impact-ionisation coefficients extrapolated to %g K (trusted %g-%g K)", t, im.TMin, im.TMax)})
+	}
+	if e0 < im.EMin || e0 > im.EMax {
+		s.Flags = append(s.Flags, Flag{FlagImpactRange, []string{"breakdown", "multiplication"},
+			fmt.Sprintf("peak field at breakdown %.3g V/cm lies outside the %.3g-%.3g V/cm of the impact-ionisation data", e0/100, im.EMin/100, im.EMax/100)})
+	}
+}
+
+// jstate is the junction branch (diffusion, depletion region, shunt) at
+// one junction voltage.
+type jstate struct {
+	dn, dp, gdn, gdp float64 // electron and hole diffusion currents (A), unmultiplied, and dI/dVj (S)
+	pen, pep         float64 // excess minority densities at the p and n edges, m^-3
+	scr, gscr        float64 // depletion-region SRH current (A) and its derivative
+	mn, mp, mg       float64 // avalanche multiplication factors
+	sh               float64 // shunt current, A
+	i, g             float64 // total current and derivative
+	beyond           bool    // at or beyond breakdown
+}
+
+// junction evaluates the junction branch at junction voltage vj.
+func (s *Static) junction(vj float64) jstate {
+	e := s.Effects
+	a := s.Device.Area
+	vt := s.Vt
+	st := jstate{mn: 1, mp: 1, mg: 1}
+	hli := e.HighInjection
+	side := func(r DiffusionSide) (float64, float64, float64) {
+		j, pe := r.CurrentDensity(vj, vt, hli)
+		var g float64
+		if hli {
+			const h = 1e-6
+			jp, _ := r.CurrentDensity(vj+h, vt, hli)
+			jm, _ := r.CurrentDensity(vj-h, vt, hli)
+			g = (jp - jm) / (2 * h)
+		} else {
+			g = (j + Q*r.Diffusivity*r.NiEff*r.NiEff/(r.Doping*r.DiffusionLength())*GeometryFactor(r.Width, r.DiffusionLength(), r.Recombination, r.Diffusivity)) / vt
+		}
+		return j * a, g * a, pe
+	}
+	st.dn, st.gdn, st.pen = side(s.PEff)
+	st.dp, st.gdp, st.pep = side(s.NEff)
+	var dep Depletion
+	if e.SRH {
+		vg := math.Min(vj, s.Vbi-2*vt)
+		dep = s.Junction.Solve(s.Vbi, vg)
+		j, dj := SCRCurrentDensity(dep, vj, s.SCR)
+		st.scr, st.gscr = j*a, dj*a
+	}
+	var dm [3]float64
+	if e.Breakdown && s.aval != nil && vj < 0 {
+		vr := -vj
+		if vr >= s.Breakdown.Voltage {
+			st.beyond = true
+			st.i, st.g = math.Inf(-1), math.Inf(1)
+			return st
+		}
+		mult := func(vr, guess float64) (float64, float64, float64, float64, bool) {
+			e0 := s.aval.peakField(vr, guess)
+			// Cheap bound: An <= alpha_n(E0) W exp(alpha_p(E0) W), the
+			// coefficients being largest at the peak field; below 1e-10 the
+			// multiplication is 1 to that accuracy.
+			an, ap := s.aval.c.alpha(e0)
+			_, w, _, _ := s.aval.reverse(e0)
+			if an*w*math.Exp(ap*w) < 1e-10 && ap*w < 1e-10 {
+				return 1, 1, 1, e0, true
+			}
+			// A coarse grid far from breakdown (An < 0.05, where its error
+			// of about 1% in An changes M by < 5e-4), the full grid nearer.
+			in := s.aval.integralsN(e0, ionisationGrid/2)
+			if in.An > 0.05 {
+				in = s.aval.integrals(e0)
+			}
+			den := 1 - in.An
+			if !(den > 0) {
+				return 0, 0, 0, e0, false
+			}
+			return 1 / den, in.ExpPhiW / den, in.MeanExp / den, e0, true
+		}
+		guess := dep.PeakField
+		if !(guess > 0) {
+			guess = s.Junction.Solve(s.Vbi, vj).PeakField
+		}
+		var e0 float64
+		var ok bool
+		st.mn, st.mp, st.mg, e0, ok = mult(vr, guess)
+		if !ok {
+			st.beyond = true
+			st.i, st.g = math.Inf(-1), math.Inf(1)
+			return st
+		}
+		if st.mn > 1.2 || st.mp > 1.2 {
+			// Derivative of the multiplication, by a forward difference
+			// towards zero bias (it matters only near breakdown).
+			h := 1e-3 * (s.Breakdown.Voltage - vr)
+			if m1, m2, m3, _, ok2 := mult(vr-h, e0); ok2 {
+				dm = [3]float64{(st.mn - m1) / h, (st.mp - m2) / h, (st.mg - m3) / h}
+			}
+		}
+	}
+	if !math.IsInf(s.Rsh, 1) {
+		st.sh = vj / s.Rsh
+	}
+	st.i = st.mn*st.dn + st.mp*st.dp + st.mg*st.scr + st.sh
+	// dM/dVj = -dM/dVr.
+	st.g = st.mn*st.gdn + st.mp*st.gdp + st.mg*st.gscr - (dm[0]*st.dn + dm[1]*st.dp + dm[2]*st.scr)
+	if !math.IsInf(s.Rsh, 1) {
+		st.g += 1 / s.Rsh
+	}
+	return st
+}
+
+// Solve returns the currents at terminal bias v (V): the junction voltage
+// Vj solving V = Vj + I(Vj) Rs (solveJunction: a Lambert-W start and
+// bisection-safeguarded Newton iteration, which converges for every bias
+// and every Rs >= 0), and the current components at Vj. Unlike At it
+// skips the electrostatics and the small-signal quantities, for sweeps.
+// Beyond the avalanche breakdown with Rs = 0 the current is -Inf and
+// flagged; with Rs > 0 the junction clamps just below breakdown and the
+// resistance sets the current.
+func (s *Static) Solve(v float64) Point { return s.SolveFrom(v, math.NaN()) }
+
+// SolveFrom is Solve with a first estimate of the junction voltage (for
+// example extrapolated from the previous points of a sweep); NaN selects
+// the default start (the Lambert-W solution of the diffusion current).
+func (s *Static) SolveFrom(v, guess float64) Point {
+	p := Point{V: v, Mn: 1, Mp: 1, Mgen: 1, Ideality: math.NaN(), Conductance: math.NaN(),
+		DiffusionCap: math.NaN(), TotalCap: math.NaN()}
+	e := math.Expm1(v / s.Vt)
+	p.IdealN, p.IdealP = s.IsN*e, s.IsP*e
+	p.IdealCurrent = s.Is * e
+	if !s.Effects.Any() && math.IsInf(s.Rsh, 1) {
+		p.Vj = v
+		p.Current = p.IdealCurrent
+		p.DiffusionN, p.DiffusionP, p.Diffusion = p.IdealN, p.IdealP, p.IdealCurrent
+		p.Converged = true
+		p.Power = math.Abs(v * p.Current)
+		p.InjectionP = s.Ni * s.Ni / (s.Device.Na * s.Device.Na) * e
+		p.InjectionN = s.Ni * s.Ni / (s.Device.Nd * s.Device.Nd) * e
+		return p
+	}
+	rs := s.Rs
+	vj := v
+	p.Converged = true
+	var st jstate
+	have := false
+	if rs > 0 {
+		vmin := math.Inf(-1)
+		if s.aval != nil && s.Effects.Breakdown {
+			vmin = -s.Breakdown.Voltage
+		}
+		if math.IsNaN(guess) {
+			guess = v
+			if v > 0 && s.IsDiff > 0 {
+				guess = lambertGuess(s.IsDiff, rs, s.Vt, v)
+			}
+		}
+		var it int
+		var last jstate
+		lastX := math.NaN()
+		vj, it, p.Converged = solveJunction(v, rs, vmin, guess, func(x float64) (float64, float64) {
+			last, lastX = s.junction(x), x
+			return last.i, last.g
+		})
+		p.Iterations = it
+		switch dx := vj - lastX; {
+		case dx == 0:
+			st, have = last, true
+		case math.Abs(dx) <= linearStep:
+			// The last Newton step was tiny: correct the evaluated state
+			// linearly (relative error about (dx/Vt)^2 plus the derivative error times dx/Vt, below 1e-6) instead of
+			// evaluating again.
+			st, have = last, true
+			gsh := 0.0
+			if !math.IsInf(s.Rsh, 1) {
+				gsh = 1 / s.Rsh
+			}
+			if den := st.i - st.sh; den != 0 && !math.IsInf(den, 0) {
+				k := 1 + (st.g-gsh)*dx/den
+				st.dn *= k
+				st.dp *= k
+				st.scr *= k
+			}
+			st.sh += gsh * dx
+			st.i += st.g * dx
+		}
+	}
+	if !have {
+		st = s.junction(vj)
+	}
+	p.Vj = vj
+	if st.beyond {
+		p.Current = math.Inf(-1)
+		if rs > 0 {
+			p.Current = (v - vj) / rs
+		}
+		p.Flags = append(p.Flags, Flag{FlagBeyondBreakdown, []string{"total current", "power"},
+			fmt.Sprintf("reverse bias at or beyond the avalanche breakdown (%.4g V): the current is set by the external circuit", s.Breakdown.Voltage)})
+		p.Diffusion, p.DiffusionN, p.DiffusionP = math.NaN(), math.NaN(), math.NaN()
+		p.Recombination, p.Generation, p.Shunt = math.NaN(), math.NaN(), math.NaN()
+		p.Mn, p.Mp, p.Mgen = math.Inf(1), math.Inf(1), math.Inf(1)
+	} else {
+		p.Mn, p.Mp, p.Mgen = st.mn, st.mp, st.mg
+		p.DiffusionN, p.DiffusionP = st.mn*st.dn, st.mp*st.dp
+		p.Diffusion = p.DiffusionN + p.DiffusionP
+		scr := st.mg * st.scr
+		if scr >= 0 {
+			p.Recombination = scr
+		} else {
+			p.Generation = scr
+		}
+		p.Shunt = st.sh
+		p.Current = st.i
+		// Near breakdown or at high current the terminal form (V - Vj)/Rs
+		// is the accurate one (the junction current is then extremely
+		// sensitive to Vj); rescale the components to it.
+		if rs > 0 && math.Abs(v-vj) > 1e-6*math.Max(1, math.Abs(v)) {
+			it := (v - vj) / rs
+			if den := st.i - st.sh; den != 0 && !math.IsInf(den, 0) {
+				k := (it - st.sh) / den
+				p.DiffusionN *= k
+				p.DiffusionP *= k
+				p.Diffusion *= k
+				p.Recombination *= k
+				p.Generation *= k
+			}
+			p.Current = it
+		}
+	}
+	p.SeriesDrop = p.Current * rs
+	p.Power = math.Abs(v * p.Current)
+	p.InjectionP = st.pen / s.P0
+	p.InjectionN = st.pep / s.N0
+	if !p.Converged {
+		p.Flags = append(p.Flags, Flag{FlagNotConverged, []string{"total current", "junction voltage"},
+			fmt.Sprintf("the series-resistance solution did not converge at %.4g V", v)})
+	}
+	if inj := math.Max(p.InjectionP, p.InjectionN); inj > 0.1 {
+		what := "modelled: the current rolls over towards ideality 2"
+		if !s.Effects.HighInjection {
+			what = "not modelled (high injection is off): the current is overestimated"
+		}
+		p.Flags = append(p.Flags, Flag{FlagHighInjection, []string{"total current", "diffusion current", "ideality"},
+			fmt.Sprintf("high injection: the injected minority density is %.2g of the doping at a depletion edge, %s", inj, what)})
+	}
+	if !st.beyond && s.aval != nil && s.Effects.Breakdown && v <= -s.Breakdown.Voltage {
+		p.Flags = append(p.Flags, Flag{FlagBeyondBreakdown, []string{"total current", "power"},
+			fmt.Sprintf("reverse bias beyond the avalanche breakdown (%.4g V): the junction clamps there and the series resistance and external circuit set the current", s.Breakdown.Voltage)})
+	} else if m := math.Max(p.Mn, p.Mp); m > 1.1 && !st.beyond {
+		p.Flags = append(p.Flags, Flag{FlagNearBreakdown, []string{"total current", "multiplication"},
+			fmt.Sprintf("near breakdown: avalanche multiplication %.3g", m)})
+	}
+	if rs > 0 && math.Abs(p.SeriesDrop) > 0.1*math.Abs(v) && v > 0 {
+		p.Flags = append(p.Flags, Flag{FlagSeriesDominates, []string{"total current", "ideality", "series-resistance drop"},
+			fmt.Sprintf("the series resistance drops %.3g V of the %.3g V bias", p.SeriesDrop, v)})
+	}
+	return p
+}
+
+// smallSignal fills the conductance, ideality and capacitances of p.
+func (s *Static) smallSignal(p *Point) {
+	vj := p.Vj
+	h := 1e-5
+	if s.aval != nil && s.Effects.Breakdown && vj < 0 {
+		h = math.Min(h, 1e-3*(s.Breakdown.Voltage+vj))
+	}
+	a, b := s.junction(vj+h), s.junction(vj-h)
+	g := (a.i - b.i) / (2 * h)
+	if !(h > 0) || math.IsInf(a.i, 0) || math.IsInf(b.i, 0) {
+		g = math.NaN()
+	}
+	p.Conductance = g / (1 + s.Rs*g)
+	if s.Rs > 0 && math.IsInf(g, 1) {
+		p.Conductance = 1 / s.Rs
+	}
+	if p.Current > 0 && p.V > 0 {
+		p.Ideality = p.Current / (s.Vt * p.Conductance)
+	}
+	st := s.junction(vj)
+	cd := 0.0
+	for _, c := range []struct {
+		r  DiffusionSide
+		pe float64
+		g  float64
+	}{{s.PEff, st.pen, st.gdn}, {s.NEff, st.pep, st.gdp}} {
+		d, l := c.r.effective(c.pe, s.Effects.HighInjection)
+		cd += DiffusionCapacitanceFactor(c.r.Width, l, c.r.Recombination, d) * c.r.Lifetime * c.g
+	}
+	p.DiffusionCap = cd
+	cj := p.Cap
+	if !(cj > 0) || vj > s.Vbi-2*s.Vt {
+		cj = s.Junction.Solve(s.Vbi, math.Min(vj, s.Vbi-2*s.Vt)).CapPerArea * s.Device.Area
+	}
+	p.TotalCap = cj + cd
+}
+
+// ForwardVoltage returns the terminal voltage (V) at which the forward
+// current is i (A > 0), with every enabled effect: the junction voltage
+// from I_j(Vj) = i (Newton iteration on ln I_j, safeguarded by bisection
+// on the monotone junction current) plus i Rs. ok is false when no such
+// voltage below 100 V exists.
+func (s *Static) ForwardVoltage(i float64) (v, vj float64, ok bool) {
+	return s.ForwardVoltageFrom(i, math.NaN())
+}
+
+// ForwardVoltageFrom is ForwardVoltage starting from the junction-voltage
+// estimate guess (NaN: the diffusion-current estimate).
+func (s *Static) ForwardVoltageFrom(i, guess float64) (v, vj float64, ok bool) {
+	if !(i > 0) {
+		return math.NaN(), math.NaN(), false
+	}
+	lo, hi := 0.0, math.Inf(1)
+	x := guess
+	if !(x > 0) {
+		x = math.Max(1e-3, s.Vt*math.Log1p(i/math.Max(s.IsDiff, 1e-300)))
+	}
+	li := math.Log(i)
+	for it := 0; it < 200; it++ {
+		st := s.junction(x)
+		if st.i > i {
+			hi = x
+		} else {
+			lo = x
+		}
+		nx := math.NaN()
+		if st.i > 0 && st.g > 0 {
+			nx = x - (math.Log(st.i)-li)*st.i/st.g
+		}
+		if !(nx > lo && nx < hi) {
+			if math.IsInf(hi, 1) {
+				nx = x + 0.25
+			} else {
+				nx = 0.5 * (lo + hi)
+			}
+		}
+		if math.Abs(nx-x) <= 1e-10 || hi-lo <= 1e-10 {
+			return nx + i*s.Rs, nx, true
+		}
+		if nx > 100 {
+			return math.NaN(), math.NaN(), false
+		}
+		x = nx
+	}
+	return math.NaN(), math.NaN(), false
+}

@@ -1,0 +1,94 @@
+package tui
+
+import (
+	"testing"
+
+	tea "github.com/charmbracelet/bubbletea"
+)
+
+// busiest is the fullest screen: 200 x 60, all three panels, a pin, and
+// the logarithmic I-V chart with its overlay.
+func busiest(b *testing.B) Model {
+	m := newTest(b, 200, 60)
+	m = press(m, "p")
+	m = editField(m, "5", 1, "0.6")
+	m = press(m, "enter", "tab", "tab", "l", "shift+tab", "shift+tab")
+	if !m.visible(panelCharts) || m.pin == nil || m.chart.kind().id != "iv-log" {
+		b.Fatal("not the busiest screen")
+	}
+	return m
+}
+
+var sinkView string
+
+// BenchmarkViewBusiest200x60 draws the busiest screen.
+func BenchmarkViewBusiest200x60(b *testing.B) {
+	m := busiest(b)
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		sinkView = m.View()
+	}
+}
+
+// BenchmarkKeystroke200x60 handles one keystroke that changes a value
+// while everything is shown: parse, validate, evaluate, update the sheet
+// and recompute and redraw the chart (and its pinned overlay).
+func BenchmarkKeystroke200x60(b *testing.B) {
+	m := busiest(b)
+	m = press(m, "5", "down", "enter") // typing in the bias field
+	keys := []tea.KeyMsg{keyMsg("1"), keyMsg("backspace")}
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		tm, _ := m.Update(keys[i%2])
+		m = tm.(Model)
+	}
+	b.StopTimer()
+	if !m.chart.pending() {
+		b.Fatal("keystrokes did not ask for new curves")
+	}
+	if m.form.rev < 2 {
+		b.Fatal("keystrokes did not change the junction")
+	}
+}
+
+// BenchmarkChartRedraw200x60 computes and draws the busiest chart (the
+// log I-V with a pinned overlay, 181 bias points each): the work that a
+// change sets off in a command and that lands in Update when done.
+func BenchmarkChartRedraw200x60(b *testing.B) {
+	m := busiest(b)
+	req := m.chart.makeRequest()
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		d := computeChart(req)
+		m.chart.data = &d
+		m.chart.render()
+	}
+}
+
+// BenchmarkChartRender200x60 draws the chart from curves at hand (what a
+// resize or a change of drawing mode costs).
+func BenchmarkChartRender200x60(b *testing.B) {
+	m := busiest(b)
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		m.chart.render()
+	}
+}
+
+// BenchmarkKeystroke80x24 is the same on a small terminal (definition
+// panel only).
+func BenchmarkKeystroke80x24(b *testing.B) {
+	m := newTest(b, 80, 24)
+	m = press(m, "5", "down", "enter")
+	keys := []tea.KeyMsg{keyMsg("1"), keyMsg("backspace")}
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		tm, _ := m.Update(keys[i%2])
+		m = tm.(Model)
+	}
+}

@@ -1,0 +1,87 @@
+package tui
+
+import (
+	"bytes"
+	"fmt"
+	"testing"
+	"time"
+
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/ansi"
+	"github.com/charmbracelet/x/exp/golden"
+	"github.com/charmbracelet/x/exp/teatest"
+)
+
+// runProgram runs the workbench as a program at w x h, sends the keys,
+// quits, and returns the final model's view without escape codes (the
+// renderer has no colour).
+func runProgram(t *testing.T, o Options, w, h int, keys ...string) string {
+	t.Helper()
+	o.Renderer = plainRenderer()
+	o.syncCharts = true
+	tm := teatest.NewTestModel(t, New(o), teatest.WithInitialTermSize(w, h))
+	for _, k := range keys {
+		tm.Send(keyMsg(k))
+	}
+	if err := tm.Quit(); err != nil {
+		t.Fatal(err)
+	}
+	fm := tm.FinalModel(t, teatest.WithFinalTimeout(5*time.Second))
+	m, ok := fm.(Model)
+	if !ok {
+		t.Fatalf("final model is %T", fm)
+	}
+	return ansi.Strip(m.View())
+}
+
+func TestGolden(t *testing.T) {
+	screens := []struct {
+		name string
+		o    Options
+		keys []string
+	}{
+		{"define", Options{}, nil},
+		{"doping-bad-value", Options{}, []string{"2", "down", "enter", "ctrl+u", "1", "e", "2", "5"}},
+		{"results", Options{}, []string{"tab"}},
+		{"chart-iv-log", Options{}, []string{"tab", "tab", "l"}},
+		{"chart-bands-ascii", Options{ASCII: true}, []string{"tab", "tab", "l", "l", "l", "l", "l", "l", "l", "l"}},
+		{"pinned-results", Options{}, []string{"p", "5", "down", "enter", "ctrl+u", "0", ".", "6", "enter", "tab"}},
+		{"help", Options{}, []string{"?"}},
+		{"quit-question", Options{}, []string{"5", "enter", "ctrl+u", "3", "1", "0", "enter", "q"}},
+	}
+	for _, size := range [][2]int{{80, 24}, {120, 40}} {
+		for _, s := range screens {
+			name := fmt.Sprintf("%s-%dx%d", s.name, size[0], size[1])
+			t.Run(name, func(t *testing.T) {
+				out := runProgram(t, s.o, size[0], size[1], s.keys...)
+				golden.RequireEqual(t, []byte(out))
+			})
+		}
+	}
+}
+
+// A real program (curves computed in commands) shows the chart after the
+// keys that open it, and quits through its own keys.
+func TestProgramDrawsChartsAndQuits(t *testing.T) {
+	tm := teatest.NewTestModel(t, New(Options{Renderer: plainRenderer()}), teatest.WithInitialTermSize(100, 30))
+	tm.Send(keyMsg("tab"))
+	tm.Send(keyMsg("tab"))
+	tm.Send(keyMsg("l"))
+	teatest.WaitFor(t, tm.Output(), func(b []byte) bool {
+		return bytes.Contains(b, []byte("log scale")) && bytes.Contains(b, []byte("1e-"))
+	}, teatest.WithDuration(5*time.Second))
+	tm.Send(keyMsg("q"))
+	tm.WaitFinished(t, teatest.WithFinalTimeout(5*time.Second))
+	m := tm.FinalModel(t).(Model)
+	if m.chart.pending() || m.chart.kind().id != "iv-log" || m.chart.plot == nil {
+		t.Errorf("final chart: %s pending=%v drawn=%v", m.chart.kind().id, m.chart.pending(), m.chart.plot != nil)
+	}
+}
+
+// The program quits through its own keys, not only through the test's Quit.
+func TestProgramQuitsOnQ(t *testing.T) {
+	tm := teatest.NewTestModel(t, New(Options{Renderer: plainRenderer()}), teatest.WithInitialTermSize(80, 24))
+	tm.Send(keyMsg("q"))
+	tm.WaitFinished(t, teatest.WithFinalTimeout(5*time.Second))
+	var _ tea.Model = tm.FinalModel(t)
+}

@@ -1,0 +1,95 @@
+package tui
+
+import (
+	"strings"
+
+	"github.com/charmbracelet/bubbles/key"
+)
+
+// guideText is the getting-started guide of the help screen.
+func guideText(g glyphs) []string {
+	return []string{
+		"The workbench has three panels: Define (the junction, step by step), Results (every computed value with its unit) and Charts. Tab and shift+tab move between them; a wide terminal shows them side by side.",
+		"1. In Define, the keys 1 to 5 choose a step: 1 Material, 2 Doping, 3 Geometry, 4 Lifetimes, 5 Conditions. Up and down (or k and j) choose a field.",
+		"2. On a number field press enter and type the value, with a unit or without one (a bare number is in the unit named under the field): 1e17, 1e23 m-3, 250um, 27C, -5V. The results follow as you type; enter applies and moves on; esc puts the old value back; x restores the default.",
+		"3. On a choice (semiconductor, profile, species, the effect switches) left and right or space change it; enter moves on.",
+		"4. A value that is not accepted is marked " + g.bad + " with the allowed range and the reason. The last good value stays in force, and the results say they come from the last valid input.",
+		"5. In Results, the saturation current Is is under Currents and the depletion width W under Electrostatics. [n] beside a value points to warning n at the end of the sheet.",
+		"6. In Charts, left and right choose among the charts; r edits the sweep (from, to, step), tab moves between its boxes, enter applies.",
+		"7. p pins the present result as a reference: every value then shows its change against it and the charts overlay the pinned curve. u drops the pin.",
+		"8. a switches between Unicode and plain ASCII drawing. q quits, asking first when the junction has changed.",
+		"The numbers come from the depletion approximation and the ideal (Shockley) diffusion currents; flags mark values outside a model's validity. The demo junction is invented demo data.",
+	}
+}
+
+// helpScreen draws the guide and every key, scrolled by helpOf.
+func (m Model) helpScreen(w, h int) []string {
+	st, g := m.e.st, m.e.g
+	var out []string
+	out = append(out, rule("Help and guide", w, glyphs{hbar: g.hbarHeavy}, st.heading), "")
+	out = append(out, st.strong.Paint("Getting started"))
+	for _, p := range guideText(g) {
+		for _, l := range wrapText(p, w-2) {
+			out = append(out, "  "+l)
+		}
+	}
+	out = append(out, "", st.strong.Paint("Keys"))
+	k := m.e.keys
+	groups := []struct {
+		title string
+		b     []key.Binding
+	}{
+		{"Everywhere", k.globalBindings()},
+		{"Define", []key.Binding{k.Up, k.Down, k.Change, k.Edit, k.Step, k.NextStep, k.PrevStep, k.RestoreDefault}},
+		{"Typing a value", []key.Binding{k.Apply, k.Cancel, k.ApplyNext, k.ApplyPrev, k.CursorLeftRight, k.ClearToStart}},
+		{"Results", []key.Binding{k.ScrollUp, k.ScrollDown, k.PageUp, k.PageDown, k.Top, k.Bottom}},
+		{"Charts", []key.Binding{k.PrevChart, k.NextChart, k.Sweep}},
+	}
+	hm := m.help
+	hm.Width = 0
+	var cols [][]string
+	for _, gr := range groups {
+		col := append([]string{st.accent.Paint(gr.title)}, strings.Split(hm.FullHelpView([][]key.Binding{gr.b}), "\n")...)
+		cols = append(cols, col)
+	}
+	// Set as many columns side by side as fit, then the rest below.
+	for len(cols) > 0 {
+		n, used := 0, 2
+		for n < len(cols) {
+			cw := colWidth(cols[n]) + 3
+			if n > 0 && used+cw > w {
+				break
+			}
+			used += cw
+			n++
+		}
+		row := make([][]string, n)
+		hgt := 0
+		for i := 0; i < n; i++ {
+			hgt = max(hgt, len(cols[i]))
+		}
+		for i := 0; i < n; i++ {
+			row[i] = block(cols[i], colWidth(cols[i]), hgt, g.ellipsis)
+		}
+		for _, l := range joinColumns("   ", row...) {
+			out = append(out, "  "+l)
+		}
+		out = append(out, "")
+		cols = cols[n:]
+	}
+	off := min(m.helpOf, max(len(out)-h, 0))
+	out = out[off:]
+	res := block(out, w, h, g.ellipsis)
+	if len(out) > h && h > 0 {
+		res[h-1] = padRight(st.faint.Paint("  "+g.arrow+" more below (j or pgdn)"), w, "")
+	}
+	return res
+}
+
+func colWidth(lines []string) int {
+	n := 0
+	for _, l := range lines {
+		n = max(n, width(l))
+	}
+	return n
+}

@@ -1,0 +1,339 @@
+package tui
+
+import (
+	"math"
+	"strconv"
+	"strings"
+
+	"github.com/NimbleMarkets/ntcharts/canvas"
+	"github.com/NimbleMarkets/ntcharts/canvas/graph"
+	"github.com/NimbleMarkets/ntcharts/canvas/runes"
+	"github.com/NimbleMarkets/ntcharts/linechart"
+)
+
+// plotLine is one line of a plot in plotted units (logarithms already
+// taken on a log axis). NaN breaks the line.
+type plotLine struct {
+	label  string
+	xs, ys []float64
+	paint  ink
+	marker string
+	pinned bool
+}
+
+// axisScale describes one plotted axis: its range and ticks in plotted
+// units and how a tick is labelled.
+type axisScale struct {
+	min, max float64
+	ticks    []float64
+	label    func(float64) string
+}
+
+// cellClass says how a chart cell is painted.
+const (
+	classLabel = -3
+	classAxis  = -2
+	classEmpty = -1
+)
+
+// renderPlot draws lines on an ntcharts line chart of w x h cells (axes
+// and tick labels included) and returns exactly h lines of w cells. Only
+// the chart's layout, axes, labels and braille grid are used: lines are
+// drawn series by series into the visible range (the chart's own helpers
+// scale to the data range), and the canvas is painted here in runs so
+// that a redraw stays cheap.
+func renderPlot(lines []plotLine, xs, ys axisScale, w, h int, e env) []string {
+	st, g := e.st, e.g
+	if w < 16 || h < 5 || !(xs.max > xs.min) || !(ys.max > ys.min) {
+		return block([]string{st.muted.Paint("(the chart needs more room)")}, max(w, 0), max(h, 0), "")
+	}
+	gh := h - 2
+	gridH := 4 * gh
+	yfmt := func(i int, _ float64) string {
+		r := gh - i
+		if r < 0 || r >= gh {
+			return ""
+		}
+		unit := (ys.max - ys.min) / float64(gridH-1)
+		c := ys.min + (float64(gridH-1)-float64(4*r)-1.5)*unit
+		return tickIn(ys, c-2*unit, c+2*unit)
+	}
+	lc := linechart.New(w, h, xs.min, xs.max, ys.min, ys.max,
+		linechart.WithXYSteps(1, 1), linechart.WithYLabelFormatter(yfmt))
+	gw := lc.GraphWidth()
+	if gw < 4 || lc.GraphHeight() < 2 {
+		return block([]string{st.muted.Paint("(the chart needs more room)")}, w, h, "")
+	}
+	gridW := 2 * gw
+	xfmt := func(i int, _ float64) string {
+		if i < 0 || i >= gw {
+			return ""
+		}
+		unit := (xs.max - xs.min) / float64(gridW-1)
+		c := xs.min + (float64(2*i)+0.5)*unit
+		return tickIn(xs, c-unit, c+unit)
+	}
+	lc.XLabelFormatter = xfmt
+	lc.DrawXYAxisAndLabel()
+	o := lc.Origin()
+	for i := 0; i < gw; i++ {
+		if xfmt(i, 0) != "" {
+			lc.Canvas.SetCell(canvas.Point{X: o.X + 1 + i, Y: o.Y}, canvas.Cell{Rune: g.tickX})
+		}
+	}
+	for i := 1; i <= gh; i++ {
+		if yfmt(i, 0) != "" {
+			lc.Canvas.SetCell(canvas.Point{X: o.X, Y: o.Y - i}, canvas.Cell{Rune: g.tickY})
+		}
+	}
+
+	owner := make([][]int8, gh)
+	for y := range owner {
+		owner[y] = make([]int8, gw)
+		for x := range owner[y] {
+			owner[y][x] = classEmpty
+		}
+	}
+	inGraph := func(x, y int) bool { return x >= 0 && x < gw && y >= 0 && y < gh }
+	put := func(x, y int, r rune, k int) {
+		if !inGraph(x, y) {
+			return
+		}
+		lc.Canvas.SetCell(canvas.Point{X: o.X + 1 + x, Y: y}, canvas.Cell{Rune: r})
+		owner[y][x] = int8(k)
+	}
+	type mark struct{ x, y int }
+	var markers [][]mark
+	for k, ln := range lines {
+		grid := graph.NewBrailleGrid(gw, gh, xs.min, xs.max, ys.min, ys.max)
+		var prev canvas.Point
+		havePrev := false
+		for j := range ln.xs {
+			if j >= len(ln.ys) || !finite(ln.xs[j]) || !finite(ln.ys[j]) {
+				havePrev = false
+				continue
+			}
+			p := grid.GridPoint(canvas.Float64Point{X: ln.xs[j], Y: ln.ys[j]})
+			if havePrev {
+				for _, q := range graph.GetLinePoints(prev, p) {
+					grid.Set(q)
+				}
+			} else {
+				grid.Set(p)
+			}
+			prev, havePrev = p, true
+		}
+		pat := grid.BraillePatterns()
+		var ms []mark
+		space := max(6, gw/7)
+		for y := 0; y < len(pat) && y < gh; y++ {
+			for x := 0; x < len(pat[y]) && x < gw; x++ {
+				r := pat[y][x]
+				if r == runes.BrailleBlockOffset {
+					continue
+				}
+				if g.ascii {
+					put(x, y, []rune(ln.marker)[0], k)
+				} else {
+					cur := lc.Canvas.Cell(canvas.Point{X: o.X + 1 + x, Y: y}).Rune
+					if runes.IsBraillePattern(cur) {
+						r = runes.CombineBraillePatterns(cur, r)
+					}
+					put(x, y, r, k)
+				}
+			}
+		}
+		// Marker positions: one cell every few columns, staggered per line.
+		for x := (k * space / max(len(lines), 1)) % space; x < gw; x += space {
+			for y := 0; y < len(pat) && y < gh; y++ {
+				if x < len(pat[y]) && pat[y][x] != runes.BrailleBlockOffset {
+					ms = append(ms, mark{x, y})
+					break
+				}
+			}
+		}
+		markers = append(markers, ms)
+	}
+	if !g.ascii {
+		taken := make([][]bool, gh)
+		for y := range taken {
+			taken[y] = make([]bool, gw)
+		}
+		for k := len(markers) - 1; k >= 0; k-- {
+			ms := markers[k]
+			if lines[k].pinned {
+				continue
+			}
+			r := []rune(lines[k].marker)[0]
+			for _, m := range ms {
+				// Only where the line shows, and not crowding another marker.
+				if owner[m.y][m.x] != int8(k) || (m.x > 0 && taken[m.y][m.x-1]) || (m.x+1 < gw && taken[m.y][m.x+1]) {
+					continue
+				}
+				put(m.x, m.y, r, k)
+				taken[m.y][m.x] = true
+			}
+		}
+	}
+
+	// Paint the canvas in runs of one class.
+	out := make([]string, h)
+	var b strings.Builder
+	for y := 0; y < h; y++ {
+		b.Reset()
+		run := strings.Builder{}
+		runClass := classEmpty
+		flush := func() {
+			if run.Len() == 0 {
+				return
+			}
+			s := run.String()
+			switch {
+			case runClass == classLabel:
+				b.WriteString(st.muted.Paint(s))
+			case runClass == classAxis:
+				b.WriteString(st.faint.Paint(s))
+			case runClass >= 0 && runClass < len(lines):
+				b.WriteString(lines[runClass].paint.Paint(s))
+			default:
+				b.WriteString(s)
+			}
+			run.Reset()
+		}
+		for x := 0; x < w; x++ {
+			r := lc.Canvas.Cell(canvas.Point{X: x, Y: y}).Rune
+			cls := classEmpty
+			gx, gy := x-o.X-1, y
+			switch {
+			case inGraph(gx, gy):
+				cls = int(owner[gy][gx])
+			case (x == o.X && y <= o.Y) || (y == o.Y && x >= o.X):
+				cls = classAxis
+			case r != 0:
+				cls = classLabel
+			}
+			if r == 0 {
+				r = ' '
+				if cls == classAxis {
+					cls = classEmpty
+				}
+			}
+			if g.ascii {
+				r = asciiRune(r)
+			}
+			if cls != runClass {
+				flush()
+				runClass = cls
+			}
+			run.WriteRune(r)
+		}
+		flush()
+		out[y] = b.String()
+	}
+	return out
+}
+
+// asciiRune replaces the box-drawing runes of the axes.
+func asciiRune(r rune) rune {
+	switch r {
+	case runes.LineVertical:
+		return '|'
+	case runes.LineHorizontal:
+		return '-'
+	case runes.LineUpRight, runes.LineHorizontalDown, runes.LineVerticalLeft, runes.LineHorizontalVertical:
+		return '+'
+	}
+	if r > 127 {
+		return '?'
+	}
+	return r
+}
+
+func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+
+// tickIn returns the label of the tick in [lo, hi), or "".
+func tickIn(a axisScale, lo, hi float64) string {
+	for _, t := range a.ticks {
+		if t >= lo && t < hi && t >= a.min-1e-12*math.Abs(a.max-a.min) && t <= a.max+1e-12*math.Abs(a.max-a.min) {
+			return a.label(t)
+		}
+	}
+	return ""
+}
+
+// niceStep returns a round step (1, 2 or 5 times a power of ten) near
+// span/n.
+func niceStep(span float64, n int) float64 {
+	if !(span > 0) || n < 1 {
+		return 1
+	}
+	raw := span / float64(n)
+	p := math.Pow(10, math.Floor(math.Log10(raw)))
+	for _, m := range []float64{1, 2, 5, 10} {
+		if m*p >= raw {
+			return m * p
+		}
+	}
+	return 10 * p
+}
+
+// linearScale builds a linear axis over [lo, hi] with about n ticks,
+// widened to whole steps.
+func linearScale(lo, hi float64, n int) axisScale {
+	if !finite(lo) || !finite(hi) {
+		lo, hi = 0, 1
+	}
+	if hi < lo {
+		lo, hi = hi, lo
+	}
+	if hi == lo {
+		d := math.Abs(lo) * 0.1
+		if d == 0 {
+			d = 1
+		}
+		lo, hi = lo-d, hi+d
+	}
+	step := niceStep(hi-lo, n)
+	lo = math.Floor(lo/step+1e-9) * step
+	hi = math.Ceil(hi/step-1e-9) * step
+	a := axisScale{min: lo, max: hi}
+	dec := max(0, -int(math.Floor(math.Log10(step)+1e-9)))
+	for t := lo; t <= hi+step*1e-6; t += step {
+		v := math.Round(t/step) * step
+		a.ticks = append(a.ticks, v)
+	}
+	a.label = func(v float64) string {
+		if math.Abs(v) < step*1e-9 {
+			return "0"
+		}
+		return strconv.FormatFloat(v, 'f', dec, 64)
+	}
+	return a
+}
+
+// exactScale is a linear axis over exactly [lo, hi] (no widening), for a
+// sweep axis whose ends the user chose.
+func exactScale(lo, hi float64, n int) axisScale {
+	a := linearScale(lo, hi, n)
+	if finite(lo) && finite(hi) && hi > lo {
+		a.min, a.max = lo, hi
+	}
+	return a
+}
+
+// decadeScale builds a logarithmic axis over whole decades lo..hi
+// (exponents), labelling every k-th decade as 1e<n>.
+func decadeScale(lo, hi, k int) axisScale {
+	if hi <= lo {
+		hi = lo + 1
+	}
+	k = max(k, 1)
+	a := axisScale{min: float64(lo), max: float64(hi)}
+	for d := lo; d <= hi; d++ {
+		if (d-lo)%k == 0 {
+			a.ticks = append(a.ticks, float64(d))
+		}
+	}
+	a.label = func(v float64) string { return "1e" + strconv.Itoa(int(math.Round(v))) }
+	return a
+}

@@ -1,0 +1,343 @@
+package tui
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+
+	tea "github.com/charmbracelet/bubbletea"
+
+	"junco/model"
+)
+
+// groupBreakdown is the result group whose values call for the safety
+// caution.
+const groupBreakdown = model.GroupBreakdown
+
+// sheetModel is the results sheet: every quantity of the result grouped,
+// with its validity flags, and its change against a pinned reference.
+type sheetModel struct {
+	e   env
+	res *model.Result
+	pin *model.Result
+	// stale names what is not in force when the result is from the last
+	// valid input rather than the text on screen.
+	stale  []string
+	scroll int
+	w, h   int
+	// built is the whole sheet at width w, rebuilt in Update (rebuild)
+	// whenever the result, pin, width or drawing mode changes.
+	built []string
+}
+
+func (s *sheetModel) SetSize(w, h int) {
+	w, h = max(w, 0), max(h, 0)
+	if w != s.w {
+		s.w = w
+		s.rebuild()
+	}
+	s.h = h
+	s.clamp()
+}
+
+func (s *sheetModel) setEnv(e env) { s.e = e; s.rebuild() }
+
+// set puts a new result, pin and list of fields not in force.
+func (s *sheetModel) set(res, pin *model.Result, stale []string) {
+	s.res, s.pin, s.stale = res, pin, stale
+	s.rebuild()
+	s.clamp()
+}
+
+func (s *sheetModel) rebuild() { s.built = s.allLines() }
+
+func (s *sheetModel) clamp() {
+	n := len(s.built)
+	if s.scroll > n-s.h {
+		s.scroll = n - s.h
+	}
+	if s.scroll < 0 {
+		s.scroll = 0
+	}
+}
+
+// Update scrolls the sheet.
+func (s sheetModel) Update(msg tea.Msg) (sheetModel, tea.Cmd) {
+	km, ok := msg.(tea.KeyMsg)
+	if !ok {
+		return s, nil
+	}
+	k := s.e.keys
+	switch {
+	case keyIs(km, k.ScrollDown):
+		s.scroll++
+	case keyIs(km, k.ScrollUp):
+		s.scroll--
+	case keyIs(km, k.PageDown):
+		s.scroll += max(s.h-2, 1)
+	case keyIs(km, k.PageUp):
+		s.scroll -= max(s.h-2, 1)
+	case keyIs(km, k.Top):
+		s.scroll = 0
+	case keyIs(km, k.Bottom):
+		s.scroll = 1 << 20
+	}
+	s.clamp()
+	return s, nil
+}
+
+// cautionNeeded reports whether the result carries breakdown figures or a
+// flag about power or dissipation.
+func cautionNeeded(r *model.Result) bool {
+	if r == nil {
+		return false
+	}
+	for _, q := range r.Quantities {
+		if q.Group == groupBreakdown {
+			return true
+		}
+	}
+	for _, f := range r.Flags {
+		t := strings.ToLower(f.Code + " " + f.Message)
+		if strings.Contains(t, "power") || strings.Contains(t, "dissipat") {
+			return true
+		}
+	}
+	return false
+}
+
+func hasGroup(r *model.Result, grp string) bool {
+	for _, q := range r.Quantities {
+		if q.Group == grp {
+			return true
+		}
+	}
+	return false
+}
+
+// cautionText is the short safety note shown with breakdown and power
+// figures.
+const cautionText = "Caution: breakdown and dissipation figures are estimates only. " +
+	"High-voltage and high-current measurement is hazardous; local codes, lab safety rules " +
+	"and the device's rated limits govern."
+
+// View draws the visible part of the sheet.
+func (s sheetModel) View() string { return strings.Join(s.lines(), "\n") }
+
+func (s sheetModel) lines() []string {
+	all := s.built
+	if s.scroll > 0 && s.scroll < len(all) {
+		all = all[s.scroll:]
+	}
+	out := block(all, s.w, s.h, s.e.g.ellipsis)
+	if s.h > 0 && len(all) > s.h {
+		more := s.e.st.faint.Paint(cut(fmt.Sprintf("  %s more below (%s)", s.e.g.arrow, "j or pgdn"), s.w, ""))
+		out[s.h-1] = padRight(more, s.w, "")
+	}
+	return out
+}
+
+// layoutCols reports the columns of the quantity table for width w.
+type sheetCols struct {
+	label, sym, val, marks, delta, pct int
+}
+
+func (s sheetModel) cols(w int) sheetCols {
+	c := sheetCols{label: 20, sym: 6, val: 14, marks: 6}
+	if s.res != nil {
+		for _, q := range s.res.Quantities {
+			c.label = max(c.label, min(width(q.Label)+1, 36))
+			c.sym = max(c.sym, min(width(q.Symbol)+1, 12))
+			c.val = max(c.val, min(width(q.Text(4, s.e.ascii))+1, 18))
+		}
+	}
+	if s.pin != nil {
+		c.delta, c.pct = 14, 9
+	}
+	// Too wide: shorten long labels first, then the symbols, then labels
+	// again down to a floor.
+	if over := c.total() - w; over > 0 {
+		c.label -= min(over, max(c.label-24, 0))
+	}
+	if over := c.total() - w; over > 0 {
+		c.sym -= min(over, max(c.sym-7, 0))
+	}
+	if over := c.total() - w; over > 0 {
+		c.label = max(14, c.label-over)
+	}
+	return c
+}
+
+func (c sheetCols) total() int { return 2 + c.label + c.sym + c.val + c.marks + c.delta + c.pct }
+
+// allLines builds the whole sheet for the width.
+func (s sheetModel) allLines() []string {
+	st, g := s.e.st, s.e.g
+	w := s.w
+	if w < 10 || s.res == nil {
+		return []string{st.muted.Paint("no result yet")}
+	}
+	r := s.res
+	var out []string
+	if len(s.stale) > 0 {
+		msg := g.bad + " From the last valid input: not in force " + strings.Join(s.stale, ", ") + " (see Define)"
+		for _, l := range wrapText(msg, w) {
+			out = append(out, st.err.Paint(l))
+		}
+	} else {
+		out = append(out, st.ok.Paint(cut(g.good+" live: follows every accepted change", w, g.ellipsis)))
+	}
+	if s.pin != nil {
+		out = append(out, st.pinned.Paint(cut(g.delta+" change against the pinned reference: "+specSummary(s.pin.Spec, s.e.ascii), w, g.ellipsis)))
+	}
+	out = append(out, "")
+
+	// Number the flags so that marks beside values point into the list.
+	flagNo := map[string]int{}
+	for i, f := range r.Flags {
+		if _, ok := flagNo[f.Code]; !ok {
+			flagNo[f.Code] = i + 1
+		}
+	}
+	c := s.cols(w)
+	twoCol := w >= 2*c.total()+3
+	var blocks [][]string
+	for _, grp := range r.Groups() {
+		blocks = append(blocks, s.group(grp, c, flagNo))
+	}
+	if twoCol {
+		// Split the groups in order where the taller column is shortest.
+		best, bestH := 1, 1<<30
+		for k := 1; k < len(blocks); k++ {
+			l, r := 0, 0
+			for i, b := range blocks {
+				if i < k {
+					l += len(b)
+				} else {
+					r += len(b)
+				}
+			}
+			if max(l, r) < bestH {
+				best, bestH = k, max(l, r)
+			}
+		}
+		var left, right []string
+		for i, b := range blocks {
+			if i < best {
+				left = append(left, b...)
+			} else {
+				right = append(right, b...)
+			}
+		}
+		colW := c.total()
+		left = block(left, colW, max(len(left), len(right)), g.ellipsis)
+		out = append(out, joinColumns("   ", left, right)...)
+	} else {
+		for _, b := range blocks {
+			out = append(out, b...)
+		}
+	}
+	if len(r.Flags) > 0 {
+		out = append(out, "", st.heading.Paint("Warnings"))
+		for i, f := range r.Flags {
+			msg := fmt.Sprintf("[%d] %s: %s", i+1, f.Code, f.Message)
+			for j, l := range wrapText(msg, w-6) {
+				if j > 0 {
+					l = "    " + l
+				}
+				out = append(out, "  "+st.warn.Paint(l))
+			}
+		}
+	}
+	if cautionNeeded(r) && !hasGroup(r, groupBreakdown) {
+		out = append(out, "")
+		for _, l := range wrapText(g.bad+" "+cautionText, w-2) {
+			out = append(out, "  "+st.caution.Paint(l))
+		}
+	}
+	return out
+}
+
+// group draws one result group.
+func (s sheetModel) group(grp string, c sheetCols, flagNo map[string]int) []string {
+	st, g, ascii := s.e.st, s.e.g, s.e.ascii
+	out := []string{st.heading.Paint(grp)}
+	if grp == groupBreakdown {
+		for _, l := range wrapText(g.bad+" "+cautionText, max(c.total()-4, 20)) {
+			out = append(out, "  "+st.caution.Paint(l))
+		}
+	}
+	for _, q := range s.res.Quantities {
+		if q.Group != grp {
+			continue
+		}
+		var b strings.Builder
+		b.WriteString("  ")
+		b.WriteString(padRight(q.Label, c.label-1, g.ellipsis) + " ")
+		b.WriteString(st.muted.Paint(padRight(q.Symbol, c.sym-1, g.ellipsis) + " "))
+		b.WriteString(st.strong.Paint(padLeft(q.Text(4, ascii), c.val)))
+		var marks []string
+		for _, code := range q.Flags {
+			if n, ok := flagNo[code]; ok {
+				marks = append(marks, strconv.Itoa(n))
+			}
+		}
+		m := ""
+		if len(marks) > 0 {
+			m = " [" + strings.Join(marks, ",") + "]"
+		}
+		b.WriteString(st.warn.Paint(padRight(m, c.marks, "]")))
+		if s.pin != nil {
+			d, p := deltaText(q, s.pin, ascii)
+			b.WriteString(st.pinned.Paint(padLeft(d, c.delta)))
+			b.WriteString(st.pinned.Paint(padLeft(p, c.pct)))
+		}
+		out = append(out, b.String())
+	}
+	return out
+}
+
+// deltaText formats the change of q against the same quantity of the pin:
+// absolute in q's unit and relative in percent.
+func deltaText(q model.Quantity, pin *model.Result, ascii bool) (abs, pct string) {
+	ref, ok := pin.Get(q.Key)
+	if !ok {
+		return "new", ""
+	}
+	if math.IsNaN(q.Value) || math.IsNaN(ref) {
+		return "n/a", ""
+	}
+	d := q.Value - ref
+	if d == 0 {
+		return "=", ""
+	}
+	abs = model.Format(q.Kind, d, 3, ascii)
+	if d > 0 {
+		abs = "+" + abs
+	}
+	if ref != 0 && !math.IsInf(ref, 0) {
+		p := 100 * d / math.Abs(ref)
+		switch {
+		case math.Abs(p) >= 1e4:
+			pct = fmt.Sprintf("%+.1e%%", p)
+		case math.Abs(p) >= 100:
+			pct = fmt.Sprintf("%+.0f%%", p)
+		default:
+			pct = fmt.Sprintf("%+.2g%%", p)
+		}
+	}
+	return abs, pct
+}
+
+// specSummary is a one-line description of a junction.
+func specSummary(s model.Spec, ascii bool) string {
+	prof := "step"
+	if s.Profile == "linear" {
+		prof = "graded"
+	}
+	return fmt.Sprintf("%s %s, Na %s, Nd %s, %s, %s, %s", strings.ToUpper(s.Material), prof,
+		model.Format(model.Density, s.AcceptorDensity, 3, ascii), model.Format(model.Density, s.DonorDensity, 3, ascii),
+		model.Format(model.Area, s.Area, 3, ascii), model.Format(model.Temperature, s.Temperature, 4, ascii),
+		model.Format(model.Voltage, s.Bias, 3, ascii))
+}

@@ -1,0 +1,608 @@
+// Package tui is the junco workbench: a keyboard-driven terminal program
+// in which an engineer defines a pn junction step by step, reads every
+// result with its unit, charts its curves, and compares it with a pinned
+// reference. Everything it shows is computed by package model.
+//
+// One Model serves one terminal. It is built by New from Options that
+// carry the terminal's lipgloss renderer; all styles come from that
+// renderer, and there is no package state, so a server can run one Model
+// per connection.
+package tui
+
+import (
+	"io"
+	"reflect"
+	"strings"
+
+	"github.com/charmbracelet/bubbles/help"
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/lipgloss"
+	"github.com/muesli/termenv"
+
+	"junco/model"
+)
+
+// Options configure a workbench.
+type Options struct {
+	// Renderer draws for the terminal the workbench runs on; every style is
+	// built from it. nil gives a renderer without colour.
+	Renderer *lipgloss.Renderer
+	// ASCII draws with plain ASCII characters only (see DetectASCII).
+	ASCII bool
+	// NoColor draws without colour (see DetectNoColor); bold, underline
+	// and reverse video still mark focus and state.
+	NoColor bool
+	// Spec is the junction to open; nil opens the built-in demo.
+	Spec *model.Spec
+	// Name is shown in the title bar for Spec (a session name, say).
+	Name string
+	// Width and Height are the terminal size until the first
+	// tea.WindowSizeMsg arrives; 0 means 80 x 24.
+	Width, Height int
+
+	// syncCharts computes chart curves inside Update rather than in a
+	// command, so that a test program's final state is deterministic.
+	syncCharts bool
+}
+
+// DetectASCII reports whether the locale in the environment lacks UTF-8:
+// the first set of LC_ALL, LC_CTYPE and LANG decides; C, POSIX, anything
+// without UTF-8, or none set at all means ASCII. getenv is os.Getenv or a
+// lookup in a remote session's environment.
+func DetectASCII(getenv func(string) string) bool {
+	for _, k := range []string{"LC_ALL", "LC_CTYPE", "LANG"} {
+		v := getenv(k)
+		if v == "" {
+			continue
+		}
+		u := strings.ToUpper(v)
+		return !(strings.Contains(u, "UTF-8") || strings.Contains(u, "UTF8"))
+	}
+	return true
+}
+
+// DetectNoColor reports whether colour should be off: NO_COLOR set to a
+// non-empty value, or TERM=dumb.
+func DetectNoColor(getenv func(string) string) bool {
+	return getenv("NO_COLOR") != "" || getenv("TERM") == "dumb"
+}
+
+// Panels of the main screen.
+type panel int
+
+const (
+	panelDefine panel = iota
+	panelResults
+	panelCharts
+	panelCount
+)
+
+func (p panel) title() string {
+	switch p {
+	case panelDefine:
+		return "Define"
+	case panelResults:
+		return "Results"
+	}
+	return "Charts"
+}
+
+// Screens. Session screens (save, browse) are reserved for a later step
+// and are not reachable yet.
+type screen int
+
+const (
+	screenMain screen = iota
+	screenHelp
+	screenQuit
+	screenSave   // reserved: saving a session
+	screenBrowse // reserved: browsing sessions
+)
+
+// Layouts by terminal size.
+type layout int
+
+const (
+	layoutStack layout = iota // one panel at a time, switched by tab
+	layoutPair                // definition beside results or charts
+	layoutTrio                // definition, results and charts together
+)
+
+func pickLayout(w, h int) layout {
+	switch {
+	case w >= 160 && h >= 44:
+		return layoutTrio
+	case w >= 110 && h >= 28:
+		return layoutPair
+	}
+	return layoutStack
+}
+
+// Smallest terminal the workbench draws panels in.
+const minWidth, minHeight = 40, 12
+
+// Model is the workbench. Use New.
+type Model struct {
+	e      env
+	w, h   int
+	focus  panel
+	right  panel // what the right side shows in the pair layout
+	screen screen
+	helpOf int // scroll of the help screen
+
+	form  formModel
+	sheet sheetModel
+	chart chartModel
+	help  help.Model
+
+	pin      *model.Result
+	baseline model.Spec
+	geo      [6]int // panel boxes from geometry, set by relayout
+	name     string
+	short    string
+	demo     bool
+	note     string
+	formRev  int
+}
+
+// New builds a workbench.
+func New(o Options) Model {
+	r := o.Renderer
+	if r == nil {
+		r = lipgloss.NewRenderer(io.Discard)
+		r.SetColorProfile(termenv.Ascii)
+	}
+	e := newEnv(r, o.ASCII, !o.NoColor)
+	e.keys = e.keys.forASCII(o.ASCII)
+	m := Model{e: e, w: o.Width, h: o.Height, right: panelResults}
+	if m.w <= 0 || m.h <= 0 {
+		m.w, m.h = 80, 24
+	}
+	spec := model.DemoJunction().Spec
+	m.demo = true
+	m.name = model.DemoJunction().Title
+	m.short = model.DemoJunction().Short
+	if o.Spec != nil {
+		spec, m.demo, m.name = *o.Spec, false, o.Name
+		if m.name == "" {
+			m.name = "new junction"
+		}
+		m.short = m.name
+	}
+	m.form = newForm(e, spec)
+	m.baseline = m.form.spec
+	m.formRev = m.form.rev
+	m.sheet = sheetModel{e: e}
+	m.chart = newChart(e, m.form.spec)
+	m.chart.sync = o.syncCharts
+	m.help = m.newHelp()
+	m.sync()
+	m.relayout()
+	// The commands of the calls above are not run: Init asks again.
+	m.chart.lastReq = nil
+	return m
+}
+
+// Init asks for the first chart's curves.
+func (m Model) Init() tea.Cmd { return m.chart.request() }
+
+func (m Model) newHelp() help.Model {
+	st, g := m.e.st, m.e.g
+	sep := " " + g.dot + " "
+	return help.Model{ShortSeparator: sep, FullSeparator: "   ", Ellipsis: g.ellipsis,
+		Styles: help.Styles{Ellipsis: st.helpSep, ShortKey: st.helpKey, ShortDesc: st.helpDesc, ShortSeparator: st.helpSep,
+			FullKey: st.helpKey, FullDesc: st.helpDesc, FullSeparator: st.helpSep}}
+}
+
+// Spec returns the junction in force (every accepted value).
+func (m Model) Spec() model.Spec { return m.form.spec }
+
+// Result returns the evaluation of the junction in force.
+func (m Model) Result() *model.Result { return m.form.res }
+
+// Dirty reports whether the junction differs from the one opened or has
+// text that is not in force.
+func (m Model) Dirty() bool {
+	return !reflect.DeepEqual(m.form.spec, m.baseline) || len(m.form.bad()) > 0
+}
+
+// sync pushes the form's spec and result to the sheet and charts; the
+// command computes the charts' curves.
+func (m *Model) sync() tea.Cmd {
+	var stale []string
+	for _, i := range m.form.bad() {
+		stale = append(stale, m.form.defs[i].label)
+	}
+	if m.sheet.res != m.form.res || m.sheet.pin != m.pin || !reflect.DeepEqual(m.sheet.stale, stale) {
+		m.sheet.set(m.form.res, m.pin, stale)
+	}
+	var pinSpec *model.Spec
+	if m.pin != nil {
+		s := m.pin.Spec
+		pinSpec = &s
+	}
+	return m.chart.setSpec(m.form.spec, pinSpec)
+}
+
+// visible reports whether a panel shows in the current layout.
+func (m Model) visible(p panel) bool {
+	switch pickLayout(m.w, m.h) {
+	case layoutTrio:
+		return true
+	case layoutPair:
+		return p == panelDefine || p == m.rightPanel()
+	}
+	return p == m.focus
+}
+
+func (m Model) rightPanel() panel {
+	if m.focus == panelResults || m.focus == panelCharts {
+		return m.focus
+	}
+	return m.right
+}
+
+// geometry returns the panels' content boxes (width, height) for the
+// current size; a panel not shown gets 0 x 0.
+func (m Model) geometry() (fw, fh, sw, sh, cw, ch int) {
+	w, bodyH := m.w, m.h-2
+	if w < minWidth || m.h < minHeight {
+		return
+	}
+	switch pickLayout(m.w, m.h) {
+	case layoutTrio:
+		lw := 62
+		rw := w - lw - 1
+		fw, fh = lw, bodyH-1
+		need := m.sheetNeed(rw)
+		sheetH := min(need+1, bodyH*55/100)
+		sw, sh = rw, sheetH-1
+		cw, ch = rw, bodyH-sheetH-1
+	case layoutPair:
+		lw := min(64, max(54, w*48/100))
+		rw := w - lw - 1
+		fw, fh = lw, bodyH-1
+		if m.rightPanel() == panelCharts {
+			cw, ch = rw, bodyH-1
+		} else {
+			sw, sh = rw, bodyH-1
+		}
+	default:
+		switch m.focus {
+		case panelDefine:
+			fw, fh = w, bodyH-1
+		case panelResults:
+			sw, sh = w, bodyH-1
+		default:
+			cw, ch = w, bodyH-1
+		}
+	}
+	return
+}
+
+func (m Model) sheetNeed(w int) int {
+	s := m.sheet
+	s.w = w
+	return len(s.allLines())
+}
+
+// relayout hands every panel its size; the charts redraw when theirs
+// changes.
+func (m *Model) relayout() tea.Cmd {
+	fw, fh, sw, sh, cw, ch := m.geometry()
+	m.geo = [6]int{fw, fh, sw, sh, cw, ch}
+	m.form.SetSize(fw, fh)
+	m.sheet.SetSize(sw, sh)
+	m.help.Width = max(m.w, 0)
+	return m.chart.SetSize(cw, ch)
+}
+
+// Update handles a message.
+func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
+	switch msg := msg.(type) {
+	case tea.WindowSizeMsg:
+		m.w, m.h = max(msg.Width, 0), max(msg.Height, 0)
+		return m, m.relayout()
+	case chartDataMsg:
+		m.chart.apply(msg)
+		return m, nil
+	case tea.KeyMsg:
+		return m.key(msg)
+	}
+	return m, nil
+}
+
+func keyIs(km tea.KeyMsg, b key.Binding) bool { return key.Matches(km, b) }
+
+func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
+	k := m.e.keys
+	m.note = ""
+	switch m.screen {
+	case screenQuit:
+		switch {
+		case keyIs(km, k.Yes), km.String() == "ctrl+c":
+			return m, tea.Quit
+		case keyIs(km, k.No), km.String() == "q":
+			m.screen = screenMain
+		}
+		return m, nil
+	case screenHelp:
+		switch {
+		case km.String() == "ctrl+c":
+			return m.quit()
+		case keyIs(km, k.ScrollDown), keyIs(km, k.PageDown):
+			m.helpOf++
+		case keyIs(km, k.ScrollUp), keyIs(km, k.PageUp):
+			m.helpOf = max(m.helpOf-1, 0)
+		case keyIs(km, k.Help), km.String() == "esc", km.String() == "q", km.String() == "enter":
+			m.screen = screenMain
+		}
+		return m, nil
+	}
+	if km.String() == "ctrl+c" {
+		return m.quit()
+	}
+	typing := (m.focus == panelDefine && m.form.typing) || (m.focus == panelCharts && m.chart.editing)
+	if !typing {
+		switch {
+		case keyIs(km, k.NextPanel):
+			return m, m.setFocus((m.focus + 1) % panelCount)
+		case keyIs(km, k.PrevPanel):
+			return m, m.setFocus((m.focus + panelCount - 1) % panelCount)
+		case keyIs(km, k.Help):
+			m.screen, m.helpOf = screenHelp, 0
+			return m, nil
+		case keyIs(km, k.Quit):
+			return m.quit()
+		case keyIs(km, k.Pin):
+			m.pin = m.form.res
+			m.note = "pinned the present result as the reference: the sheet shows changes against it, the charts overlay it"
+			return m, tea.Batch(m.sync(), m.relayout())
+		case keyIs(km, k.Unpin):
+			if m.pin == nil {
+				m.note = "nothing is pinned (p pins the present result)"
+				return m, nil
+			}
+			m.pin = nil
+			m.note = "pin dropped"
+			return m, tea.Batch(m.sync(), m.relayout())
+		case keyIs(km, k.ASCII):
+			m.setASCII(!m.e.ascii)
+			return m, nil
+		}
+	}
+	var cmd tea.Cmd
+	switch m.focus {
+	case panelDefine:
+		m.form, _ = m.form.Update(km)
+		cmd = m.sync()
+		if m.form.rev != m.formRev {
+			m.formRev = m.form.rev
+			if pickLayout(m.w, m.h) == layoutTrio {
+				cmd = tea.Batch(cmd, m.relayout())
+			}
+		}
+	case panelResults:
+		m.sheet, _ = m.sheet.Update(km)
+	case panelCharts:
+		m.chart, cmd = m.chart.Update(km)
+	}
+	return m, cmd
+}
+
+func (m *Model) setFocus(p panel) tea.Cmd {
+	m.focus = p
+	if p == panelResults || p == panelCharts {
+		m.right = p
+	}
+	return m.relayout()
+}
+
+func (m *Model) setASCII(on bool) {
+	e := newEnv(m.e.r, on, m.e.color)
+	e.keys = e.keys.forASCII(on)
+	m.e = e
+	m.form.setEnv(e)
+	m.sheet.setEnv(e)
+	m.help = m.newHelp()
+	m.chart.setEnv(e)
+	if on {
+		m.note = "ASCII drawing on (a switches back)"
+	} else {
+		m.note = "Unicode drawing on (a switches back)"
+	}
+}
+
+func (m Model) quit() (tea.Model, tea.Cmd) {
+	if m.Dirty() {
+		m.screen = screenQuit
+		return m, nil
+	}
+	return m, tea.Quit
+}
+
+// View draws the screen: exactly the terminal's size, every line cut to
+// its width.
+func (m Model) View() string {
+	w, h := m.w, m.h
+	if w < minWidth || h < minHeight {
+		msg := "junco: enlarge the terminal (at least 40 x 12)"
+		if w < 1 || h < 1 {
+			return msg
+		}
+		lines := wrapText(msg, w)
+		return strings.Join(block(lines, w, h, ""), "\n")
+	}
+	var lines []string
+	lines = append(lines, m.header())
+	switch m.screen {
+	case screenHelp:
+		lines = append(lines, m.helpScreen(w, h-2)...)
+	case screenQuit:
+		lines = append(lines, m.quitScreen(w, h-2)...)
+	default:
+		lines = append(lines, m.body()...)
+	}
+	lines = append(lines, m.footer())
+	return strings.Join(block(lines, w, h, m.e.g.ellipsis), "\n")
+}
+
+func (m Model) header() string {
+	st, g := m.e.st, m.e.g
+	left := st.accent.Paint("junco") + " "
+	lw := width("junco ")
+	for p := panel(0); p < panelCount; p++ {
+		t := p.title()
+		if p == m.focus && m.screen == screenMain {
+			left += st.tabOn.Paint("[" + t + "]")
+		} else {
+			left += st.tabOff.Paint(" " + t + " ")
+		}
+		lw += width(t) + 2
+	}
+	var tags []string
+	if m.demo {
+		tags = append(tags, st.warn.Paint("invented demo data"))
+	}
+	if m.pin != nil {
+		tags = append(tags, st.pinned.Paint("pinned"))
+	}
+	if m.Dirty() {
+		tags = append(tags, st.muted.Paint("changed"))
+	}
+	right := strings.Join(tags, " "+g.dot+" ")
+	room := m.w - lw - 2
+	name := m.name
+	nameW := room - width(right) - 3
+	if width(name) > nameW {
+		name = m.short
+	}
+	if nameW >= 8 {
+		right = st.strong.Paint(cut(name, nameW, g.ellipsis)) + "  " + right
+	}
+	if width(right) > room {
+		right = cut(right, max(room, 0), "")
+	}
+	gap := m.w - lw - width(right)
+	if gap < 1 {
+		return cut(left, m.w, "")
+	}
+	return left + strings.Repeat(" ", gap) + right
+}
+
+func (m Model) footer() string {
+	st := m.e.st
+	var hk help.KeyMap
+	switch m.screen {
+	case screenQuit:
+		hk = dialogHelp{m.e.keys}
+	case screenHelp:
+		hk = helpScreenHelp{m.e.keys}
+	default:
+		switch m.focus {
+		case panelDefine:
+			hk = formHelp{k: m.e.keys, typing: m.form.typing}
+		case panelResults:
+			hk = sheetHelp{k: m.e.keys}
+		default:
+			hk = chartHelp{k: m.e.keys, typing: m.chart.editing}
+		}
+	}
+	hm := m.help
+	note := ""
+	if m.note != "" {
+		note = st.warn.Paint(cut(m.note, m.w*2/3, m.e.g.ellipsis)) + "  "
+	}
+	hm.Width = max(m.w-width(note), 0)
+	return note + hm.ShortHelpView(hk.ShortHelp())
+}
+
+// body lays the panels out.
+func (m Model) body() []string {
+	st, g := m.e.st, m.e.g
+	fw, fh, sw, sh, cw, ch := m.geo[0], m.geo[1], m.geo[2], m.geo[3], m.geo[4], m.geo[5]
+	head := func(p panel, w int) string {
+		t := p.title()
+		switch p {
+		case panelDefine:
+			t = "Define the junction"
+		case panelResults:
+			t = "Results"
+			if m.pin != nil {
+				t += " " + g.dot + " with changes against the pin"
+			}
+		case panelCharts:
+			t = "Charts"
+		}
+		if p == m.focus {
+			return rule(t, w, glyphs{hbar: g.hbarHeavy}, st.heading)
+		}
+		return rule(t, w, g, st.headingOff)
+	}
+	pane := func(p panel, w, h int, content []string) []string {
+		return block(append([]string{head(p, w)}, content...), w, h+1, g.ellipsis)
+	}
+	bodyH := m.h - 2
+	switch pickLayout(m.w, m.h) {
+	case layoutTrio:
+		left := pane(panelDefine, fw, fh, m.form.lines())
+		right := append(pane(panelResults, sw, sh, m.sheet.lines()), pane(panelCharts, cw, ch, m.chart.lines())...)
+		return block(joinColumns(st.faint.Paint(g.vbar), left, right), m.w, bodyH, "")
+	case layoutPair:
+		left := pane(panelDefine, fw, fh, m.form.lines())
+		var right []string
+		if cw > 0 {
+			right = pane(panelCharts, cw, ch, m.chart.lines())
+		} else {
+			right = pane(panelResults, sw, sh, m.sheet.lines())
+		}
+		return block(joinColumns(st.faint.Paint(g.vbar), left, right), m.w, bodyH, "")
+	}
+	switch {
+	case fw > 0:
+		return pane(panelDefine, fw, fh, m.form.lines())
+	case sw > 0:
+		return pane(panelResults, sw, sh, m.sheet.lines())
+	}
+	return pane(panelCharts, cw, ch, m.chart.lines())
+}
+
+// quitScreen asks before dropping changes.
+func (m Model) quitScreen(w, h int) []string {
+	st := m.e.st
+	msg := []string{
+		st.strong.Paint("Quit junco?"),
+		"",
+		"The junction has changes that are not saved.",
+		"Saving comes with sessions in a later version;",
+		"the values in force are shown under Define.",
+		"",
+		st.keyName.Paint("y") + " quit and drop the changes    " + st.keyName.Paint("n") + " or " + st.keyName.Paint("esc") + " stay",
+	}
+	boxW := 0
+	for _, l := range msg {
+		boxW = max(boxW, width(l))
+	}
+	padTop := max((h-len(msg))/2, 0)
+	padLeft := max((w-boxW)/2, 0)
+	out := make([]string, padTop)
+	for _, l := range msg {
+		out = append(out, strings.Repeat(" ", padLeft)+l)
+	}
+	return block(out, w, h, m.e.g.ellipsis)
+}
+
+// dialogHelp is the footer of the quit question.
+type dialogHelp struct{ k KeyMap }
+
+func (h dialogHelp) ShortHelp() []key.Binding  { return []key.Binding{h.k.Yes, h.k.No} }
+func (h dialogHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
+
+// helpScreenHelp is the footer of the help screen.
+type helpScreenHelp struct{ k KeyMap }
+
+func (h helpScreenHelp) ShortHelp() []key.Binding {
+	return []key.Binding{h.k.ScrollDown, h.k.ScrollUp, key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc/?", "back"))}
+}
+func (h helpScreenHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
