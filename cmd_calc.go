@@ -124,9 +124,26 @@ Flags:`
 // runCalc implements `junco calc`.
 func runCalc(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	o := calcOptions{spec: model.DefaultSpec()}
+	sess, args, err := calcSessionOptions(args)
+	if err != nil {
+		fmt.Fprintf(stderr, "junco calc: %v\n", err)
+		return exitUsage
+	}
+	if sess.Session != "" {
+		spec, err := loadSpecForCalc(sess.DataDir, sess.Session)
+		if err != nil {
+			fmt.Fprintf(stderr, "junco calc: --session %s: %v\n", sess.Session, err)
+			return exitUsage
+		}
+		o.spec = spec
+	}
 	fs := newCalcFlags(&o, stderr)
 	fs.Usage = func() {
 		fmt.Fprintln(stderr, calcHelp)
+		fmt.Fprintln(stderr, "  -session NAME|FILE\n    \tstart from a stored session or a session file (flags override its values)")
+		fmt.Fprintln(stderr, "  -save NAME\n    \tstore the evaluated junction as a new session, or as the next revision of NAME")
+		fmt.Fprintln(stderr, "  -data DIR\n    \tsession store (default $XDG_DATA_HOME/junco, else ~/.local/share/junco)")
+		fmt.Fprintln(stderr, "  -author NAME\n    \twho saves (default $USER)")
 		fs.PrintDefaults()
 	}
 	if err := fs.Parse(args); err != nil {
@@ -162,6 +179,18 @@ func runCalc(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	res, err := model.Evaluate(o.spec)
 	if err != nil {
 		return reportError(stderr, err)
+	}
+	if sess.Save != "" {
+		author := sess.Author
+		if author == "" {
+			author = currentUser()
+		}
+		rev, err := saveSpecFromCalc(sess.DataDir, sess.Save, o.spec, author)
+		if err != nil {
+			fmt.Fprintf(stderr, "junco calc: --save %s: %v\n", sess.Save, err)
+			return exitFailure
+		}
+		fmt.Fprintf(stderr, "junco calc: saved as revision %d of session %q\n", rev, sess.Save)
 	}
 	if o.json {
 		stdout.Write(res.JSON())

@@ -3,7 +3,7 @@
 // measurements and keep it all in sessions.
 //
 // With no arguments it opens the workbench on the built-in demo session.
-// Subcommands: calc, fit, help (see `junco help`).
+// Subcommands: calc, fit, sessions, open, serve, help (see `junco help`).
 package main
 
 import (
@@ -38,7 +38,11 @@ func run(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.
 	case "calc":
 		return runCalc(ctx, args[1:], stdout, stderr)
 	case "fit":
-		return runFit(ctx, args[1:], stdout, stderr) // provided by cmd_fit.go
+		return runFit(ctx, args[1:], stdout, stderr)
+	case "sessions":
+		return runSessions(ctx, args[1:], stdout, stderr)
+	case "serve":
+		return runServe(ctx, args[1:], stdout, stderr)
 	case "workbench", "open":
 		return runWorkbench(ctx, args[1:], stdout, stderr)
 	case "help", "-h", "--help":
@@ -62,8 +66,12 @@ func usage(w io.Writer) {
 Usage:
   junco                      open the workbench on the built-in demo session
   junco calc [flags]         evaluate one junction (junco calc --help)
+  junco open NAME|FILE       open the workbench on a stored session or a file
   junco fit iv|cv|arrhenius|batch ...
                              extract diode parameters from measured data
+  junco sessions list|show|history|diff|export|import|trash|restore ...
+                             the session store (junco sessions help)
+  junco serve [flags]        serve the workbench over SSH to a lab group
   junco help                 this text
 `)
 }

@@ -1,0 +1,324 @@
+package main
+
+import (
+	"bytes"
+	"crypto/ed25519"
+	"crypto/rand"
+	"fmt"
+	"io"
+	"log/slog"
+	"net"
+	"os"
+	"path/filepath"
+	"runtime"
+	"sort"
+	"strings"
+	"sync"
+	"testing"
+	"time"
+
+	gossh "golang.org/x/crypto/ssh"
+
+	"junco/model"
+	"junco/sessions"
+	"junco/tui/serve"
+)
+
+type sshUser struct {
+	name   string
+	signer gossh.Signer
+	line   string
+}
+
+func newSSHUser(t testing.TB, name string) sshUser {
+	t.Helper()
+	pub, priv, err := ed25519.GenerateKey(rand.Reader)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, _ := gossh.NewSignerFromKey(priv)
+	sp, _ := gossh.NewPublicKey(pub)
+	return sshUser{name: name, signer: s, line: strings.TrimSpace(string(gossh.MarshalAuthorizedKey(sp))) + " " + name}
+}
+
+type lockedBuffer struct {
+	mu sync.Mutex
+	b  bytes.Buffer
+}
+
+func (l *lockedBuffer) Write(p []byte) (int, error) { l.mu.Lock(); defer l.mu.Unlock(); return l.b.Write(p) }
+func (l *lockedBuffer) String() string               { l.mu.Lock(); defer l.mu.Unlock(); return l.b.String() }
+func (l *lockedBuffer) Len() int                     { l.mu.Lock(); defer l.mu.Unlock(); return l.b.Len() }
+
+// startJunco runs the real workbench server on loopback with the given users.
+func startJunco(t testing.TB, users ...sshUser) (addr, data string, app *serveApp) {
+	t.Helper()
+	data = t.TempDir()
+	var lines []string
+	for _, u := range users {
+		lines = append(lines, u.line)
+	}
+	keys := filepath.Join(data, "authorized_keys")
+	if err := os.WriteFile(keys, []byte(strings.Join(lines, "\n")+"\n"), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	lg := slog.New(slog.NewTextHandler(io.Discard, nil))
+	app, err := newServeApp(data, lg)
+	if err != nil {
+		t.Fatal(err)
+	}
+	srv, err := serve.New(serve.Config{HostKeyPath: filepath.Join(data, "host", "ed25519"), AuthorizedKeysPath: keys,
+		App: app, Logger: lg, MaxConnections: 200, ShutdownMsg: shutdownMsg()})
+	if err != nil {
+		t.Fatal(err)
+	}
+	l, err := net.Listen("tcp", "127.0.0.1:0")
+	if err != nil {
+		t.Fatal(err)
+	}
+	go func() { _ = srv.Serve(l) }()
+	t.Cleanup(func() { _ = srv.Close() })
+	return l.Addr().String(), data, app
+}
+
+func sshRun(t testing.TB, addr string, u sshUser, cmd string) (string, string, error) {
+	t.Helper()
+	c, err := gossh.Dial("tcp", addr, &gossh.ClientConfig{User: u.name, Auth: []gossh.AuthMethod{gossh.PublicKeys(u.signer)},
+		HostKeyCallback: gossh.InsecureIgnoreHostKey(), Timeout: 5 * time.Second})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer c.Close()
+	s, err := c.NewSession()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var out, errb bytes.Buffer
+	s.Stdout, s.Stderr = &out, &errb
+	err = s.Run(cmd)
+	return out.String(), errb.String(), err
+}
+
+// saveFor stores a session in user's space of the server data directory.
+func saveFor(t testing.TB, data, user, name string) {
+	t.Helper()
+	root, err := sessions.UserStoreRoot(data, user)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st, err := sessions.New(root, sessions.Options{ToolVersion: Version, User: user})
+	if err != nil {
+		t.Fatal(err)
+	}
+	doc := sessions.NewDocument("private work of "+user, user, model.DefaultSpec(), time.Now())
+	if _, err := st.Save(name, doc, 0); err != nil {
+		t.Fatal(err)
+	}
+}
+
+func TestServePerUserIsolationAndSharing(t *testing.T) {
+	ada, bob, carol := newSSHUser(t, "ada"), newSSHUser(t, "bob"), newSSHUser(t, "carol")
+	addr, data, app := startJunco(t, ada, bob, carol)
+	saveFor(t, data, "ada", "d7")
+
+	out, _, err := sshRun(t, addr, ada, "sessions list")
+	if err != nil || !strings.Contains(out, "d7") {
+		t.Fatalf("ada's own list: %q %v", out, err)
+	}
+	// Bob can neither list, show nor export Ada's private session.
+	if out, _, _ := sshRun(t, addr, bob, "sessions list"); strings.Contains(out, "d7") {
+		t.Errorf("bob lists ada's private session: %q", out)
+	}
+	for _, cmd := range []string{"sessions show ada/d7", "sessions export ada/d7 --format md", "sessions show ../ada/sessions/d7"} {
+		if out, errs, err := sshRun(t, addr, bob, cmd); err == nil || strings.Contains(out, "private work") {
+			t.Errorf("bob ran %q: %q %q", cmd, out, errs)
+		}
+	}
+	// Flags that name paths are refused.
+	if _, errs, err := sshRun(t, addr, ada, "sessions export d7 --out /tmp/x"); err == nil || !strings.Contains(errs, "not available over SSH") {
+		t.Errorf("--out accepted over SSH: %q", errs)
+	}
+	if _, errs, err := sshRun(t, addr, ada, "sessions show d7 --data "+data); err == nil || !strings.Contains(errs, "not available") {
+		t.Errorf("--data accepted over SSH: %q", errs)
+	}
+	// Shared with bob: he sees, shows and exports it; carol still does not.
+	if err := app.shares.Set("ada", "d7", []string{"bob"}); err != nil {
+		t.Fatal(err)
+	}
+	if out, _, err := sshRun(t, addr, bob, "sessions list"); err != nil || !strings.Contains(out, "ada/d7") {
+		t.Errorf("shared session missing from bob's list: %q %v", out, err)
+	}
+	if out, _, err := sshRun(t, addr, bob, "sessions show ada/d7"); err != nil || !strings.Contains(out, "private work of ada") {
+		t.Errorf("bob cannot show the shared session: %q %v", out, err)
+	}
+	if out, _, err := sshRun(t, addr, bob, "sessions export ada/d7 --format md"); err != nil || !strings.Contains(out, "# ") {
+		t.Errorf("bob cannot export the shared session: %q %v", out, err)
+	}
+	if _, _, err := sshRun(t, addr, carol, "sessions show ada/d7"); err == nil {
+		t.Error("carol shows a session not shared with her")
+	}
+	// A review note from bob reaches ada.
+	root, _ := sessions.UserStoreRoot(data, "ada")
+	st, _ := sessions.New(root, sessions.Options{})
+	if err := st.AddReviewNote("d7", sessions.ReviewNote{Author: "bob", Text: "please add the C-V data"}); err != nil {
+		t.Fatal(err)
+	}
+	if out, _, err := sshRun(t, addr, ada, "sessions show d7"); err != nil || !strings.Contains(out, "please add the C-V data") {
+		t.Errorf("review note does not reach the owner: %q %v", out, err)
+	}
+	// Unsharing takes effect for new openings at once.
+	if err := app.shares.Set("ada", "d7", nil); err != nil {
+		t.Fatal(err)
+	}
+	if _, _, err := sshRun(t, addr, bob, "sessions show ada/d7"); err == nil {
+		t.Error("bob still shows the unshared session")
+	}
+}
+
+// TestServeLoad is the bounded load test: 50 concurrent clients each send
+// 200 keystrokes to the real workbench over loopback. It reports the p50
+// and p99 keystroke-to-redraw latency and the server's peak heap. It runs
+// only with JUNCO_LOADTEST=1 (it takes tens of seconds on 2 cores).
+func TestServeLoad(t *testing.T) {
+	if os.Getenv("JUNCO_LOADTEST") == "" {
+		t.Skip("set JUNCO_LOADTEST=1 to run the SSH load test")
+	}
+	const clients, keys = 50, 200
+	users := make([]sshUser, clients)
+	for i := range users {
+		users[i] = newSSHUser(t, fmt.Sprintf("user%02d", i))
+	}
+	addr, _, _ := startJunco(t, users...)
+	var base runtime.MemStats
+	runtime.GC()
+	runtime.ReadMemStats(&base)
+	var peak uint64
+	stop := make(chan struct{})
+	var sampler sync.WaitGroup
+	sampler.Add(1)
+	go func() {
+		defer sampler.Done()
+		var m runtime.MemStats
+		for {
+			select {
+			case <-stop:
+				return
+			case <-time.After(50 * time.Millisecond):
+				runtime.ReadMemStats(&m)
+				if m.HeapInuse > peak {
+					peak = m.HeapInuse
+				}
+			}
+		}
+	}()
+	var mu sync.Mutex
+	var lat []time.Duration
+	var wg sync.WaitGroup
+	errs := make(chan error, clients)
+	for _, u := range users {
+		wg.Add(1)
+		go func(u sshUser) {
+			defer wg.Done()
+			d, err := driveClient(addr, u, keys)
+			if err != nil {
+				errs <- fmt.Errorf("%s: %w", u.name, err)
+				return
+			}
+			mu.Lock()
+			lat = append(lat, d...)
+			mu.Unlock()
+		}(u)
+	}
+	wg.Wait()
+	close(stop)
+	sampler.Wait()
+	close(errs)
+	for err := range errs {
+		t.Error(err)
+	}
+	if len(lat) == 0 {
+		t.Fatal("no latencies measured")
+	}
+	sort.Slice(lat, func(i, j int) bool { return lat[i] < lat[j] })
+	p50, p99 := lat[len(lat)/2], lat[len(lat)*99/100]
+	perConn := float64(peak-min(peak, base.HeapInuse)) / clients / (1 << 20)
+	t.Logf("%d clients x %d keys: p50 %v, p99 %v keystroke-to-redraw; peak heap %.1f MiB (%.2f MiB per connection)",
+		clients, keys, p50, p99, float64(peak)/(1<<20), perConn)
+}
+
+// driveClient opens an interactive workbench and sends keys one at a time,
+// timing each from the write to the first output that follows it.
+func driveClient(addr string, u sshUser, keys int) ([]time.Duration, error) {
+	c, err := gossh.Dial("tcp", addr, &gossh.ClientConfig{User: u.name, Auth: []gossh.AuthMethod{gossh.PublicKeys(u.signer)},
+		HostKeyCallback: gossh.InsecureIgnoreHostKey(), Timeout: 10 * time.Second})
+	if err != nil {
+		return nil, err
+	}
+	defer c.Close()
+	s, err := c.NewSession()
+	if err != nil {
+		return nil, err
+	}
+	defer s.Close()
+	in, _ := s.StdinPipe()
+	outPipe, _ := s.StdoutPipe()
+	if err := s.RequestPty("xterm-256color", 40, 120, gossh.TerminalModes{}); err != nil {
+		return nil, err
+	}
+	if err := s.Shell(); err != nil {
+		return nil, err
+	}
+	got := make(chan int, 1024)
+	go func() {
+		buf := make([]byte, 32<<10)
+		for {
+			n, err := outPipe.Read(buf)
+			if n > 0 {
+				got <- n
+			}
+			if err != nil {
+				close(got)
+				return
+			}
+		}
+	}()
+	// Wait for the first screen, then let it settle.
+	settle := func(quiet time.Duration) bool {
+		for {
+			select {
+			case _, ok := <-got:
+				if !ok {
+					return false
+				}
+			case <-time.After(quiet):
+				return true
+			}
+		}
+	}
+	select {
+	case <-got:
+	case <-time.After(10 * time.Second):
+		return nil, fmt.Errorf("no first screen")
+	}
+	settle(300 * time.Millisecond)
+	// Alternate moving down and up the form: every key redraws.
+	seq := []string{"j", "k"}
+	var lat []time.Duration
+	for i := 0; i < keys; i++ {
+		start := time.Now()
+		if _, err := io.WriteString(in, seq[i%2]); err != nil {
+			return lat, err
+		}
+		select {
+		case _, ok := <-got:
+			if !ok {
+				return lat, fmt.Errorf("connection closed")
+			}
+			lat = append(lat, time.Since(start))
+		case <-time.After(5 * time.Second):
+			return lat, fmt.Errorf("no redraw after key %d", i)
+		}
+		settle(5 * time.Millisecond)
+	}
+	return lat, nil
+}
