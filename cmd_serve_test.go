@@ -46,9 +46,13 @@ type lockedBuffer struct {
 	b  bytes.Buffer
 }
 
-func (l *lockedBuffer) Write(p []byte) (int, error) { l.mu.Lock(); defer l.mu.Unlock(); return l.b.Write(p) }
-func (l *lockedBuffer) String() string               { l.mu.Lock(); defer l.mu.Unlock(); return l.b.String() }
-func (l *lockedBuffer) Len() int                     { l.mu.Lock(); defer l.mu.Unlock(); return l.b.Len() }
+func (l *lockedBuffer) Write(p []byte) (int, error) {
+	l.mu.Lock()
+	defer l.mu.Unlock()
+	return l.b.Write(p)
+}
+func (l *lockedBuffer) String() string { l.mu.Lock(); defer l.mu.Unlock(); return l.b.String() }
+func (l *lockedBuffer) Len() int       { l.mu.Lock(); defer l.mu.Unlock(); return l.b.Len() }
 
 // startJunco runs the real workbench server on loopback with the given users.
 func startJunco(t testing.TB, users ...sshUser) (addr, data string, app *serveApp) {
