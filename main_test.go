@@ -5,6 +5,7 @@ import (
 	"context"
 	"encoding/json"
 	"math"
+	"os"
 	"strings"
 	"testing"
 )
@@ -85,5 +86,27 @@ func TestUnknownCommand(t *testing.T) {
 	}
 	if code, out, _ := runCLI(t, "help"); code != 0 || !strings.Contains(out, "calc") {
 		t.Errorf("help: %d %q", code, out)
+	}
+}
+
+// Every JSON key of `junco calc --json` is documented in the README: the
+// keys are a public interface.
+func TestReadmeDocumentsEveryKey(t *testing.T) {
+	readme, err := os.ReadFile("README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	code, out, errs := runCLI(t, "calc", "--json", "--bias", "0.5V")
+	if code != 0 {
+		t.Fatalf("calc: %s", errs)
+	}
+	var m map[string]any
+	if err := json.Unmarshal([]byte(out), &m); err != nil {
+		t.Fatal(err)
+	}
+	for k := range m {
+		if !strings.Contains(string(readme), "`"+k+"`") {
+			t.Errorf("README does not document the JSON key %q", k)
+		}
 	}
 }

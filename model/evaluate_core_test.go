@@ -161,8 +161,21 @@ func r0(t *testing.T, s Spec) *Result {
 	return r
 }
 
-// Benchmarks: one full evaluation (target under 20 us) and a 1000-point
-// ideal I-V sweep (target under 1 ms).
+// Benchmarks: one evaluation of the ideal (foundation) model (target
+// under 20 us), the same with every real-diode effect on, and a
+// 1000-point ideal I-V sweep (target under 1 ms).
+func BenchmarkEvaluateIdeal(b *testing.B) {
+	s := DefaultSpec()
+	s.Bias = -2
+	s.Effects = IdealEffects()
+	b.ReportAllocs()
+	for i := 0; i < b.N; i++ {
+		if _, err := Evaluate(s); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
 func BenchmarkEvaluate(b *testing.B) {
 	s := DefaultSpec()
 	s.Bias = -2
@@ -176,6 +189,7 @@ func BenchmarkEvaluate(b *testing.B) {
 
 func BenchmarkIVSweep1000(b *testing.B) {
 	s := DefaultSpec()
+	s.Effects = IdealEffects()
 	r := Range{-1, 0.999, 0.002}
 	b.ReportAllocs()
 	for i := 0; i < b.N; i++ {

@@ -1,0 +1,102 @@
+package solver
+
+import (
+	"context"
+	"fmt"
+	"testing"
+)
+
+// benchDevice is a silicon 1e16/1e15 cm^-3 step diode, 10 + 20 um.
+func benchDevice(b *testing.B) Device {
+	return stepDiode(material(b, "si"), 300, 1e16*cm3, 1e15*cm3, 10*um, 20*um)
+}
+
+// Equilibrium (nonlinear Poisson, damped Newton) of a 2000-node device.
+func BenchmarkEquilibrium2000(b *testing.B) {
+	s := newSolver(b, benchDevice(b), Options{Mesh: MeshOptions{Nodes: 2000}})
+	b.ResetTimer()
+	for range b.N {
+		if _, _, err := s.solveEquilibrium(); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// New: automatic mesh and node parameters.
+func BenchmarkNew(b *testing.B) {
+	d := benchDevice(b)
+	for range b.N {
+		if _, err := New(d, Options{}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// An 81-point forward sweep 0 to 0.8 V in 10 mV steps on the automatic
+// mesh, full results at every point.
+func BenchmarkSweep81(b *testing.B) {
+	s := newSolver(b, benchDevice(b), Options{})
+	if _, err := s.Equilibrium(); err != nil {
+		b.Fatal(err)
+	}
+	biases := make([]float64, 81)
+	for i := range biases {
+		biases[i] = 0.01 * float64(i)
+	}
+	b.ReportMetric(float64(len(s.Nodes())), "nodes")
+	b.ResetTimer()
+	for range b.N {
+		if _, err := s.Sweep(context.Background(), biases, nil); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// A 50-point C-V sweep 0 to -4.9 V (each point two solves dV = 5 mV apart).
+func BenchmarkCV50(b *testing.B) {
+	s := newSolver(b, benchDevice(b), Options{})
+	if _, err := s.Equilibrium(); err != nil {
+		b.Fatal(err)
+	}
+	biases := make([]float64, 50)
+	for i := range biases {
+		biases[i] = -0.1 * float64(i)
+	}
+	b.ReportMetric(float64(len(s.Nodes())), "nodes")
+	b.ResetTimer()
+	for range b.N {
+		if _, err := s.CV(context.Background(), biases, nil); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// One coupled Newton step (assembly, banded LU, solve) at 0.5 V for 1k to
+// 8k nodes: the ns/node metric must stay flat (linear cost).
+func BenchmarkNewtonStep(b *testing.B) {
+	for _, n := range []int{1000, 2000, 4000, 8000} {
+		b.Run(fmt.Sprintf("nodes=%d", n), func(b *testing.B) {
+			s := newSolver(b, benchDevice(b), Options{Mesh: MeshOptions{Nodes: n}})
+			tr, err := s.newTracker()
+			if err != nil {
+				b.Fatal(err)
+			}
+			if err := tr.advance(context.Background(), 0.5); err != nil {
+				b.Fatal(err)
+			}
+			st, w := tr.cur.clone(), s.newWork()
+			b.ResetTimer()
+			for range b.N {
+				s.assemble(st, w)
+				if err := w.band.factor(); err != nil {
+					b.Fatal(err)
+				}
+				for r := range w.dlt {
+					w.dlt[r] = -w.f[r]
+				}
+				w.band.solve(w.dlt)
+			}
+			b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(n), "ns/node")
+		})
+	}
+}

@@ -1,0 +1,363 @@
+package solver
+
+import (
+	"fmt"
+	"math"
+
+	"junco/physics"
+)
+
+// Result is the solution at one bias. Node quantities are at X, edge
+// quantities at XMid (the midpoints, where the Scharfetter-Gummel fluxes
+// live). Energies are in eV relative to the equilibrium Fermi level of
+// the cathode, which is held at 0 V; the potential is the electrostatic
+// potential psi in V with n = n_ie exp((psi - phi_n)/V_t).
+type Result struct {
+	// Bias is the anode bias, V (forward positive).
+	Bias float64
+	// Temperature, K, and ThermalVoltage kT/q, V.
+	Temperature, ThermalVoltage float64
+	// X are the node positions, m; XMid the edge midpoints, m.
+	X, XMid []float64
+	// Potential is psi at the nodes, V.
+	Potential []float64
+	// Field is E = -(psi_{i+1} - psi_i)/h_i on the edges, V/m.
+	Field []float64
+	// Ec and Ev are the band edges, eV: Ec = -q psi - kT ln(n_ie/ni) + kT
+	// ln(Nc/ni), Ev = -q psi + kT ln(n_ie/ni) - kT ln(Nv/ni) (consistent
+	// with n = Nc exp((Efn - Ec)/kT), p = Nv exp((Ev - Efp)/kT)).
+	Ec, Ev []float64
+	// Efn and Efp are the electron and hole quasi-Fermi levels, eV.
+	Efn, Efp []float64
+	// N and P are the electron and hole densities, m^-3.
+	N, P []float64
+	// NetDoping is the ionised net doping Nd+ - Na- at the nodes, m^-3.
+	NetDoping []float64
+	// Charge is the space-charge density q (p - n + Nd+ - Na-), C/m^3.
+	Charge []float64
+	// Recombination is the net recombination rate, m^-3 s^-1.
+	Recombination []float64
+	// Jn and Jp are the electron and hole current densities on the edges
+	// along +x, A/m^2 (q times the Scharfetter-Gummel fluxes).
+	Jn, Jp []float64
+	// Current is the terminal current density, A/m^2, positive when
+	// conventional current enters at the anode (forward); it is the mean
+	// of Jn + Jp over the edges, with the sign of the anode side.
+	Current float64
+	// CurrentSpread is max |Jn + Jp - mean| / |mean| over the edges (0 for
+	// zero current): the discrete current-conservation error.
+	CurrentSpread float64
+	// JunctionCharge is the charge per area of each layer of the junction
+	// dipole, C/m^2: eps times the peak field (Gauss's law; the peak sits
+	// where the space charge changes sign and the field vanishes at the
+	// neutral contacts), taking the larger of the edge fields and the
+	// field reconstructed at the metallurgical junction. For a step
+	// junction in reverse bias it is the depletion charge q Nd xn = q Na
+	// xp; at low bias it also holds the majority tail that a heavily doped
+	// side spills across the junction.
+	JunctionCharge float64
+	// PeakField is the largest |E|, V/m.
+	PeakField float64
+	// Barrier is psi(cathode) - psi(anode), V: the built-in potential at
+	// equilibrium, Vbi - V under bias.
+	Barrier float64
+	// Depletion describes the depleted region of the main junction.
+	Depletion Depletion
+	// Iterations, Update and Residual describe the last Newton (or, at
+	// equilibrium, Poisson) iteration: count, last update norm (kT/q) and
+	// row-equilibrated residual norm before it (kT/q).
+	Iterations       int
+	Update, Residual float64
+	// Flags are the validity warnings.
+	Flags []physics.Flag
+}
+
+// Depletion is the depleted region of the main junction (the first
+// junction seen from the anode) as the solver sees it.
+//
+// Definition: a node is depleted when n + p < |Nd+ - Na-| / 2. Each edge is
+// found by walking from the neutral side of the junction's refined zone
+// toward the junction (or away from it when that point is itself
+// depleted) to the first change of state, and interpolating ln((n + p) /
+// (|N|/2)) linearly to zero between the two nodes. A side without any
+// depleted node (thinner than a cell, or crossed by a carrier tail from
+// the other side) has its edge at the metallurgical junction; with no
+// depleted node on either side the region is not Valid. For a step junction the
+// edges lie about 0.16 Debye lengths inside the depletion-approximation
+// edges computed with Vbi - V - 2kT/q (from the one-sided Poisson
+// integral (du/dxi)^2/2 = e^u - 1 - u in Debye lengths xi; own
+// derivation, from memory).
+type Depletion struct {
+	// Valid is false when no depleted node exists between the edges'
+	// search limits (forward bias near flat band, high injection).
+	Valid bool
+	// Junction is the metallurgical junction, m.
+	Junction float64
+	// XAnode and XCathode are the edges on the anode (p) and cathode (n)
+	// sides, m.
+	XAnode, XCathode float64
+	// W is |XCathode - XAnode|, m (NaN when not Valid).
+	W float64
+	// ReachThrough is true when an edge reaches a contact.
+	ReachThrough bool
+	// OutsideZone is true when an edge lies outside the refined mesh zone.
+	OutsideZone bool
+	// MinorityRatio is the larger of the minority/majority density ratios
+	// at the two edges (> 0.1 means high injection).
+	MinorityRatio float64
+}
+
+// electricalEdge returns the edge that contains the electrical junction of
+// the state, the point where n = p (sign change of ln n - ln p = 2 psi -
+// phi_n - phi_p, in kT/q), searched outward from the node nearest the main
+// metallurgical junction; the nearest crossing wins.
+func (s *Solver) electricalEdge(st *state) int {
+	g := func(i int) float64 { return 2*st.psi[i] - st.phin[i] - st.phip[i] - st.v }
+	nn := len(s.x)
+	for d := 0; d < nn; d++ {
+		for _, k := range []int{s.jNode + d, s.jNode - 1 - d} {
+			if k >= 0 && k+1 < nn && (g(k) < 0) != (g(k+1) < 0) {
+				return k
+			}
+		}
+	}
+	return min(s.jNode, nn-2)
+}
+
+// junctionField returns the field at the main metallurgical junction, V/m:
+// the field on the edge left of the junction's node plus (q/eps) times the
+// charge of the part of the node's box up to the junction (doping from the
+// profile, carriers n, p of the node). The discrete edge fields alone would
+// miss the half-box of charge next to the peak, an O(h) error.
+func (s *Solver) junctionField(st *state, n, p float64) float64 {
+	if s.jEdge < 0 {
+		return 0
+	}
+	k := s.jNode - 1
+	e := -(st.psi[k+1] - st.psi[k]) * s.vt / s.h[k]
+	return e + physics.Q/s.eps*(s.jPartDoping+(p-n)*s.jPart)
+}
+
+// junctionCharge returns the charge per area between edge k and the
+// cathode, C/m^2, by Gauss's law from the field on the edge (the field
+// vanishes at the neutral cathode; in the box method the charge sits at
+// the nodes, so the value is exact for the discrete solution).
+func (s *Solver) junctionCharge(st *state, k int) float64 {
+	q := s.eps * (st.psi[k+1] - st.psi[k]) * s.vt / s.h[k] // -eps E
+	if s.anodeLeft {
+		return q
+	}
+	return -q
+}
+
+// depletion finds the depletion edges (see Depletion).
+func (s *Solver) depletion(n, p []float64) Depletion {
+	dep := Depletion{W: math.NaN(), XAnode: math.NaN(), XCathode: math.NaN()}
+	if s.jEdge < 0 {
+		return dep
+	}
+	zi := 0
+	if !s.anodeLeft {
+		zi = len(s.junctions) - 1
+	}
+	z := s.zones[zi]
+	dep.Junction = s.junctions[zi]
+	nn := len(s.x)
+	logRatio := func(i int) float64 {
+		h := 0.5 * math.Abs(s.c[i])
+		if h == 0 {
+			return math.Inf(1)
+		}
+		return math.Log((n[i] + p[i]) / h)
+	}
+	nearest := func(x float64) int {
+		best, bd := 0, math.Inf(1)
+		for i, v := range s.x {
+			if d := math.Abs(v - x); d < bd {
+				best, bd = i, d
+			}
+		}
+		return best
+	}
+	type edgeRes struct {
+		x                     float64
+		empty, reach, outside bool
+		node                  int // the undepleted node next to the edge
+	}
+	// edge searches one side from the zone limit start; dir is +1 when the
+	// contact of that side lies at larger x.
+	edge := func(start, jNode, dir int) edgeRes {
+		i := start
+		if logRatio(i) >= 0 {
+			// Walk toward the junction until the first depleted node.
+			for i != jNode {
+				nx := i - dir
+				if logRatio(nx) < 0 {
+					return edgeRes{x: interpEdge(s.x[i], s.x[nx], logRatio(i), logRatio(nx)), node: i}
+				}
+				i = nx
+			}
+			// No depleted node on this side (the side is thinner than a
+			// cell, or a carrier tail spills over the junction): the edge
+			// is the metallurgical junction itself.
+			return edgeRes{x: dep.Junction, empty: true, node: i}
+		}
+		// The zone limit is itself depleted: walk toward the contact.
+		for {
+			nx := i + dir
+			if nx < 0 || nx >= nn {
+				return edgeRes{x: s.x[i], reach: true, outside: true, node: i}
+			}
+			if logRatio(nx) >= 0 {
+				return edgeRes{x: interpEdge(s.x[nx], s.x[i], logRatio(nx), logRatio(i)), outside: true, node: nx}
+			}
+			i = nx
+		}
+	}
+	jNode := nearest(dep.Junction)
+	lo := edge(nearest(z.lo), jNode, -1)
+	hi := edge(nearest(z.hi), jNode, +1)
+	if lo.empty && hi.empty {
+		return dep
+	}
+	xl, xh, nl, nh := lo.x, hi.x, lo.node, hi.node
+	dep.Valid = true
+	if s.anodeLeft {
+		dep.XAnode, dep.XCathode = xl, xh
+	} else {
+		dep.XAnode, dep.XCathode = xh, xl
+	}
+	dep.W = math.Abs(xh - xl)
+	dep.ReachThrough = lo.reach || hi.reach
+	dep.OutsideZone = (lo.outside && !lo.reach) || (hi.outside && !hi.reach)
+	ratio := func(i int) float64 {
+		if s.c[i] > 0 {
+			return p[i] / n[i]
+		}
+		return n[i] / p[i]
+	}
+	dep.MinorityRatio = math.Max(ratio(nl), ratio(nh))
+	return dep
+}
+
+// interpEdge returns the position where the log-ratio, linear between an
+// undepleted point (xu, lu >= 0) and a depleted point (xd, ld < 0), is 0.
+func interpEdge(xu, xd, lu, ld float64) float64 {
+	if math.IsInf(lu, 1) {
+		return xu
+	}
+	t := lu / (lu - ld)
+	return xu + t*(xd-xu)
+}
+
+// summary returns the depletion width (m), terminal current density
+// (A/m^2) and dipole charge (C/m^2) of a state as result would, without
+// building the arrays (used by CV).
+func (s *Solver) summary(st *state, w *work) (width, current, charge float64) {
+	n, p := w.n, w.p
+	s.carriers(st, n, p)
+	width = s.depletion(n, p).W
+	peak, mean := 0.0, 0.0
+	for k := range s.h {
+		peak = absMax(peak, (st.psi[k+1]-st.psi[k])*s.vt/s.h[k])
+		fn, fp := s.edgeFluxes(k, st, n, p)
+		mean += fn + fp
+	}
+	current = physics.Q * mean / float64(len(s.h))
+	if !s.anodeLeft {
+		current = -current
+	}
+	charge = s.eps * math.Max(peak, math.Abs(s.junctionField(st, n[s.jNode], p[s.jNode])))
+	return width, current, charge
+}
+
+// result builds the output arrays for a converged state.
+func (s *Solver) result(st *state, w *work, iters int, upd, res float64) *Result {
+	nn := len(s.x)
+	vt := s.vt
+	r := &Result{Bias: st.v * vt, Temperature: s.dev.Temperature, ThermalVoltage: vt,
+		X: append([]float64(nil), s.x...), XMid: append([]float64(nil), s.xm...),
+		Iterations: iters, Update: upd, Residual: res}
+	n := make([]float64, nn)
+	p := make([]float64, nn)
+	s.carriers(st, n, p)
+	r.N, r.P = n, p
+	mk := func() []float64 { return make([]float64, nn) }
+	r.Potential, r.Ec, r.Ev, r.Efn, r.Efp = mk(), mk(), mk(), mk(), mk()
+	r.NetDoping, r.Charge, r.Recombination = mk(), mk(), mk()
+	lnc, lnv := math.Log(s.nc/s.ni), math.Log(s.nv/s.ni)
+	for i := 0; i < nn; i++ {
+		r.Potential[i] = st.psi[i] * vt
+		r.Ec[i] = vt * (-(st.psi[i] + s.theta[i]) + lnc)
+		r.Ev[i] = vt * (-(st.psi[i] - s.theta[i]) - lnv)
+		r.Efn[i] = -vt * st.phin[i]
+		r.Efp[i] = -vt * (st.phip[i] + st.v)
+		r.NetDoping[i] = s.c[i]
+		r.Charge[i] = physics.Q * (p[i] - n[i] + s.c[i])
+		r.Recombination[i], _, _, _ = s.recombination(i, st, n[i], p[i])
+	}
+	r.Field, r.Jn, r.Jp = make([]float64, nn-1), make([]float64, nn-1), make([]float64, nn-1)
+	mean := 0.0
+	for k := 0; k < nn-1; k++ {
+		r.Field[k] = -(st.psi[k+1] - st.psi[k]) * vt / s.h[k]
+		r.PeakField = math.Max(r.PeakField, math.Abs(r.Field[k]))
+		fn, fp := s.edgeFluxes(k, st, n, p)
+		r.Jn[k], r.Jp[k] = physics.Q*fn, physics.Q*fp
+		mean += r.Jn[k] + r.Jp[k]
+	}
+	mean /= float64(nn - 1)
+	spread := 0.0
+	for k := range r.Jn {
+		spread = math.Max(spread, math.Abs(r.Jn[k]+r.Jp[k]-mean))
+	}
+	if mean != 0 {
+		r.CurrentSpread = spread / math.Abs(mean)
+	} else if spread != 0 {
+		r.CurrentSpread = math.Inf(1)
+	}
+	if s.anodeLeft {
+		r.Current = mean
+	} else {
+		r.Current = -mean
+	}
+	r.Barrier = (st.psi[s.ic] - st.psi[s.ia]) * vt
+	r.JunctionCharge = s.eps * math.Max(r.PeakField, math.Abs(s.junctionField(st, n[s.jNode], p[s.jNode])))
+	r.Depletion = s.depletion(n, p)
+	r.Flags = append(r.Flags, s.flags...)
+	if r.CurrentSpread > 1e-6 {
+		r.Flags = append(r.Flags, physics.Flag{Code: FlagCurrentUnresolved, Quantities: []string{"current"},
+			Message: fmt.Sprintf("Jn + Jp varies by %.2g relative along the device: the current (%.3g A/m^2) is below what the solver resolves", r.CurrentSpread, r.Current)})
+	}
+	d := r.Depletion
+	switch {
+	case !d.Valid:
+		r.Flags = append(r.Flags, physics.Flag{Code: FlagNoDepletion, Quantities: []string{"depletion width"},
+			Message: fmt.Sprintf("no depleted region (n + p < |N|/2) at %.4g V", r.Bias)})
+	default:
+		if d.MinorityRatio > 0.1 {
+			r.Flags = append(r.Flags, physics.Flag{Code: FlagHighInjection, Quantities: []string{"current"},
+				Message: fmt.Sprintf("minority density %.3g of the majority density at a depletion edge: low-injection formulas do not apply", d.MinorityRatio)})
+		}
+		if d.ReachThrough {
+			r.Flags = append(r.Flags, physics.Flag{Code: FlagReachThrough, Quantities: []string{"depletion width", "capacitance"},
+				Message: "the depletion region reaches a contact"})
+		}
+		if d.OutsideZone {
+			r.Flags = append(r.Flags, physics.Flag{Code: FlagMeshZone, Quantities: []string{"depletion width", "capacitance"},
+				Message: "a depletion edge lies outside the refined mesh zone: raise Options.Mesh.MaxReverseBias"})
+		}
+	}
+	return r
+}
+
+// clone returns a deep copy of the result.
+func (r *Result) clone() *Result {
+	c := *r
+	cp := func(s []float64) []float64 { return append([]float64(nil), s...) }
+	c.X, c.XMid, c.Potential, c.Field = cp(r.X), cp(r.XMid), cp(r.Potential), cp(r.Field)
+	c.Ec, c.Ev, c.Efn, c.Efp = cp(r.Ec), cp(r.Ev), cp(r.Efn), cp(r.Efp)
+	c.N, c.P, c.NetDoping, c.Charge = cp(r.N), cp(r.P), cp(r.NetDoping), cp(r.Charge)
+	c.Recombination, c.Jn, c.Jp = cp(r.Recombination), cp(r.Jn), cp(r.Jp)
+	c.Flags = append([]physics.Flag(nil), r.Flags...)
+	return &c
+}
