@@ -413,16 +413,25 @@ func rmsLog(p ivPoints, model func(float64) float64) float64 {
 	return math.Sqrt(s / float64(len(p.v)))
 }
 
-type singleResult struct {
-	d, se     SingleDiode
+// fourParams is a diode model with four positive parameters addressed by
+// index (for the log-parametrised least-squares fit) and a current with
+// its gradient.
+type fourParams[D any] interface {
+	*D
+	slot(k int) *float64
+}
+
+// fitResult is a fitted model D with its standard errors.
+type fitResult[D any] struct {
+	d, se     D
 	free      [4]bool
 	corr      []Correlation
 	iter      int
 	converged bool
 }
 
-// singleName names the single-diode parameters in correlation reports.
-func singleName(k int) string { return [4]string{"Is", "n", "Rs", "Rsh"}[k] }
+type singleResult = fitResult[SingleDiode]
+type doubleResult = fitResult[DoubleDiode]
 
 func (d *SingleDiode) slot(k int) *float64 {
 	switch k {
@@ -436,71 +445,6 @@ func (d *SingleDiode) slot(k int) *float64 {
 	return &d.ShuntResistanceOhm
 }
 
-func fitSingle(pts ivPoints, w []float64, vt float64, d0 SingleDiode, free [4]bool, maxIter int) (singleResult, error) {
-	var idx []int
-	for k := 0; k < 4; k++ {
-		if free[k] {
-			idx = append(idx, k)
-		}
-	}
-	p := len(idx)
-	theta := make([]float64, p)
-	for j, k := range idx {
-		theta[j] = math.Log(*d0.slot(k))
-	}
-	m := len(pts.v)
-	eval := func(th, r, jac []float64) bool {
-		d := d0
-		for j, k := range idx {
-			*d.slot(k) = math.Exp(th[j])
-		}
-		var g [4]float64
-		for n := 0; n < m; n++ {
-			c := d.grad(pts.v[n], vt, &g)
-			if !(c > 0) || math.IsInf(c, 0) {
-				return false
-			}
-			r[n] = w[n] * math.Log(c/pts.i[n])
-			if jac != nil {
-				for j, k := range idx {
-					jac[n*p+j] = w[n] * g[k] / c
-				}
-			}
-		}
-		return true
-	}
-	lr, err := levenberg(lmProblem{m: m, p: p, eval: eval}, theta, maxIter)
-	if err != nil {
-		return singleResult{}, fmt.Errorf("single-diode fit: %w (start Is=%g A, n=%g, Rs=%g ohm, Rsh=%g ohm)", err,
-			d0.SaturationCurrentA, d0.IdealityFactor, d0.SeriesResistanceOhm, d0.ShuntResistanceOhm)
-	}
-	out := singleResult{d: d0, free: free, iter: lr.iter, converged: lr.converged}
-	nan := math.NaN()
-	out.se = SingleDiode{nan, nan, nan, nan}
-	names := make([]string, p)
-	for j, k := range idx {
-		val := math.Exp(lr.theta[j])
-		*out.d.slot(k) = val
-		names[j] = singleName(k)
-		if lr.cov != nil {
-			*out.se.slot(k) = val * math.Sqrt(lr.cov[j*p+j])
-		}
-	}
-	out.corr = strongCorrelations(lr.cov, names)
-	return out, nil
-}
-
-type doubleResult struct {
-	d, se     DoubleDiode
-	free      [4]bool
-	corr      []Correlation
-	iter      int
-	converged bool
-}
-
-// doubleName names the double-diode parameters in correlation reports.
-func doubleName(k int) string { return [4]string{"Is1", "Is2", "Rs", "Rsh"}[k] }
-
 func (d *DoubleDiode) slot(k int) *float64 {
 	switch k {
 	case 0:
@@ -513,7 +457,12 @@ func (d *DoubleDiode) slot(k int) *float64 {
 	return &d.ShuntResistanceOhm
 }
 
-func fitDouble(pts ivPoints, w []float64, vt float64, d0 DoubleDiode, free [4]bool, maxIter int) (doubleResult, error) {
+// fitLog fits the free parameters of d0 by weighted Levenberg-Marquardt on
+// r = w ln(I_model / I_measured), each parameter as its logarithm (so it
+// stays positive); standard errors come from the covariance (J^T J)^-1 s^2
+// scaled to the parameter (se = value * sigma(ln value)).
+func fitLog[D any, P fourParams[D]](pts ivPoints, w []float64, vt float64, d0 D, free [4]bool, maxIter int,
+	grad func(D, float64, float64, *[4]float64) float64, names [4]string) (fitResult[D], error) {
 	var idx []int
 	for k := 0; k < 4; k++ {
 		if free[k] {
@@ -523,17 +472,17 @@ func fitDouble(pts ivPoints, w []float64, vt float64, d0 DoubleDiode, free [4]bo
 	p := len(idx)
 	theta := make([]float64, p)
 	for j, k := range idx {
-		theta[j] = math.Log(*d0.slot(k))
+		theta[j] = math.Log(*P(&d0).slot(k))
 	}
 	m := len(pts.v)
 	eval := func(th, r, jac []float64) bool {
 		d := d0
 		for j, k := range idx {
-			*d.slot(k) = math.Exp(th[j])
+			*P(&d).slot(k) = math.Exp(th[j])
 		}
 		var g [4]float64
 		for n := 0; n < m; n++ {
-			c := d.grad(pts.v[n], vt, &g)
+			c := grad(d, pts.v[n], vt, &g)
 			if !(c > 0) || math.IsInf(c, 0) {
 				return false
 			}
@@ -548,22 +497,48 @@ func fitDouble(pts ivPoints, w []float64, vt float64, d0 DoubleDiode, free [4]bo
 	}
 	lr, err := levenberg(lmProblem{m: m, p: p, eval: eval}, theta, maxIter)
 	if err != nil {
-		return doubleResult{}, fmt.Errorf("double-diode fit: %w", err)
+		return fitResult[D]{}, err
 	}
-	out := doubleResult{d: d0, free: free, iter: lr.iter, converged: lr.converged}
+	out := fitResult[D]{d: d0, free: free, iter: lr.iter, converged: lr.converged}
 	nan := math.NaN()
-	out.se = DoubleDiode{nan, nan, nan, nan}
-	names := make([]string, p)
+	for k := 0; k < 4; k++ {
+		*P(&out.se).slot(k) = nan
+	}
+	sel := make([]string, p)
 	for j, k := range idx {
 		val := math.Exp(lr.theta[j])
-		*out.d.slot(k) = val
-		names[j] = doubleName(k)
+		*P(&out.d).slot(k) = val
+		sel[j] = names[k]
 		if lr.cov != nil {
-			*out.se.slot(k) = val * math.Sqrt(lr.cov[j*p+j])
+			*P(&out.se).slot(k) = val * math.Sqrt(lr.cov[j*p+j])
 		}
 	}
-	out.corr = strongCorrelations(lr.cov, names)
+	out.corr = strongCorrelations(lr.cov, sel)
 	return out, nil
+}
+
+// Parameter names of the two models in correlation reports.
+func singleNames() [4]string { return [4]string{"Is", "n", "Rs", "Rsh"} }
+func doubleNames() [4]string { return [4]string{"Is1", "Is2", "Rs", "Rsh"} }
+
+func singleName(k int) string { return singleNames()[k] }
+func doubleName(k int) string { return doubleNames()[k] }
+
+func fitSingle(pts ivPoints, w []float64, vt float64, d0 SingleDiode, free [4]bool, maxIter int) (singleResult, error) {
+	r, err := fitLog[SingleDiode](pts, w, vt, d0, free, maxIter, SingleDiode.grad, singleNames())
+	if err != nil {
+		return r, fmt.Errorf("single-diode fit: %w (start Is=%g A, n=%g, Rs=%g ohm, Rsh=%g ohm)", err,
+			d0.SaturationCurrentA, d0.IdealityFactor, d0.SeriesResistanceOhm, d0.ShuntResistanceOhm)
+	}
+	return r, nil
+}
+
+func fitDouble(pts ivPoints, w []float64, vt float64, d0 DoubleDiode, free [4]bool, maxIter int) (doubleResult, error) {
+	r, err := fitLog[DoubleDiode](pts, w, vt, d0, free, maxIter, DoubleDiode.grad, doubleNames())
+	if err != nil {
+		return r, fmt.Errorf("double-diode fit: %w", err)
+	}
+	return r, nil
 }
 
 // doubleStart derives double-diode start values from a single-diode fit:
