@@ -369,3 +369,16 @@ func TestUserNames(t *testing.T) {
 		}
 	}
 }
+
+// The server never writes a key outside the configured host-key path (the
+// SSH library would otherwise create one in the working directory).
+func TestNoStrayHostKey(t *testing.T) {
+	ada := newUserKey(t, "ada")
+	startServer(t, t.TempDir(), ada.line)
+	for _, f := range []string{"id_ed25519", "id_ed25519.pub"} {
+		if _, err := os.Stat(f); err == nil {
+			os.Remove(f)
+			t.Errorf("a stray %s was written into the working directory", f)
+		}
+	}
+}

@@ -124,6 +124,9 @@ func New(cfg Config) (*Server, error) {
 		return nil, err
 	}
 	srv, err := wish.NewServer(
+		// The host key goes in first: without one, wish would write a new
+		// key into the working directory.
+		func(srv *ssh.Server) error { srv.AddHostKey(signer); return nil },
 		wish.WithAddress(cfg.Listen),
 		wish.WithVersion("junco"),
 		wish.WithPublicKeyAuth(s.publicKeyHandler),
@@ -139,7 +142,6 @@ func New(cfg Config) (*Server, error) {
 	if err != nil {
 		return nil, err
 	}
-	srv.AddHostKey(signer)
 	if idle := cfg.IdleTimeout; idle <= 0 {
 		srv.IdleTimeout = 0
 	}
