@@ -39,6 +39,8 @@ func run(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.
 		return runCalc(ctx, args[1:], stdout, stderr)
 	case "fit":
 		return runFit(ctx, args[1:], stdout, stderr)
+	case "solve":
+		return runSolve(ctx, args[1:], stdout, stderr)
 	case "sessions":
 		return runSessions(ctx, args[1:], stdout, stderr)
 	case "serve":
@@ -66,6 +68,7 @@ func usage(w io.Writer) {
 Usage:
   junco                      open the workbench on the built-in demo session
   junco calc [flags]         evaluate one junction (junco calc --help)
+  junco solve [flags]        solve it numerically (drift-diffusion) beside calc (junco solve --help)
   junco open NAME|FILE       open the workbench on a stored session or a file
   junco fit iv|cv|arrhenius|batch ...
                              extract diode parameters from measured data
