@@ -289,21 +289,28 @@ func JunctionProfiles(s Spec, n int) (charge, field, potential, bands Curve, err
 	ev := make([]float64, len(pts))
 	efp := make([]float64, len(pts))
 	efn := make([]float64, len(pts))
-	// p-side neutral region: Ev lies Vt ln(Nv/Na) below the Fermi level.
-	evP := -st.Vt * math.Log(st.Device.Material.Nv(st.Device.Temperature)/st.Device.Na)
+	// p-side neutral region: Ev lies Vt ln(Nv/p0) below the Fermi level.
+	evP := -st.Vt * math.Log(st.Device.Material.Nv(st.Device.Temperature)/st.P0)
+	// The gap drawn is the one the intrinsic density implies,
+	// Eg' = kT ln(Nc Nv / ni^2): with a measured ni fit it differs from the
+	// Varshni gap by a few meV, and only with it do both neutral regions
+	// obey n = Nc exp(-(Ec - EF)/kT), p = Nv exp(-(EF - Ev)/kT).
+	mat, tk := st.Device.Material, st.Device.Temperature
+	gap := st.Vt * math.Log(mat.Nc(tk)*mat.Nv(tk)/(st.Ni*st.Ni))
 	for i, q := range pts {
 		xs[i] = q.X * 1e6
 		rho[i] = q.Charge
 		e[i] = q.Field
 		psi[i] = q.Potential
 		ev[i] = evP - q.Potential
-		ec[i] = ev[i] + st.Eg
+		ec[i] = ev[i] + gap
 		efp[i] = 0
 	}
-	// In electron energy the n-side Fermi level is lower by qV under forward bias.
-	// (at the junction voltage: the series resistance takes the rest).
+	// A forward junction voltage Vj lowers the p side's electron energies
+	// by q Vj against the n side: in this frame (p-side Fermi level 0) the
+	// n-side Fermi level sits at +Vj.
 	for i := range efn {
-		efn[i] = -p.Vj
+		efn[i] = p.Vj
 	}
 	pos := Axis{Label: "position x", Kind: Length, Unit: "um"}
 	charge = Curve{ID: "charge", Title: "Space-charge density", X: pos, Y: Axis{Label: "charge density rho", Kind: Dimensionless, Unit: "C/m^3"}, Xs: xs, Series: []Series{{"rho", rho}}}

@@ -153,6 +153,31 @@ func TestCurves(t *testing.T) {
 	}
 }
 
+// In the neutral n region the band diagram must satisfy
+// n0 = Nc exp(-(Ec - EFn)/kT) (Boltzmann statistics, Sze & Ng 2007, eq. 1.16)
+// at any bias, and EFn - EFp = q Vj.
+func TestBandDiagramFermiLevels(t *testing.T) {
+	for _, v := range []float64{-2, 0, 0.3} {
+		s := DefaultSpec()
+		s.Effects = IdealEffects()
+		s.Bias = v
+		_, _, _, bands, err := JunctionProfiles(s, 200)
+		if err != nil {
+			t.Fatal(err)
+		}
+		r := r0(t, s)
+		last := len(bands.Xs) - 1
+		ec, efn := bands.Series[0].Y[last], bands.Series[3].Y[last]
+		want := r.Static.Vt * math.Log(r.Static.Device.Material.Nc(s.Temperature)/s.DonorDensity)
+		if math.Abs((ec-efn)-want) > 1e-6 {
+			t.Errorf("V=%g: Ec - EFn = %g eV in the n region, want %g", v, ec-efn, want)
+		}
+		if math.Abs(efn-v) > 1e-9 {
+			t.Errorf("V=%g: EFn = %g, want +V", v, efn)
+		}
+	}
+}
+
 func r0(t *testing.T, s Spec) *Result {
 	r, err := Evaluate(s)
 	if err != nil {
