@@ -1,9 +1,13 @@
 package tui
 
 import (
+	"fmt"
 	"testing"
 
 	tea "github.com/charmbracelet/bubbletea"
+
+	"junco/model"
+	"junco/sessions"
 )
 
 // busiest is the fullest screen: 200 x 60, all three panels, a pin, and
@@ -90,5 +94,52 @@ func BenchmarkKeystroke80x24(b *testing.B) {
 	for i := 0; i < b.N; i++ {
 		tm, _ := m.Update(keys[i%2])
 		m = tm.(Model)
+	}
+}
+
+// BenchmarkKeystrokeWithStore200x60 is BenchmarkKeystroke200x60 with a
+// session store: the keystroke also decides whether the draft timer
+// starts.
+func BenchmarkKeystrokeWithStore200x60(b *testing.B) {
+	st := newStore(b, "alice")
+	m := start(New(opts(st, "alice", 200, 60)))
+	m = press(m, "p")
+	m = editField(m, "5", 1, "0.6")
+	m = press(m, "enter", "tab", "tab", "l", "shift+tab", "shift+tab")
+	m = press(m, "5", "down", "enter") // typing in the bias field
+	if !m.visible(panelCharts) || m.pin == nil || !m.Dirty() {
+		b.Fatal("not the busiest screen with unsaved changes")
+	}
+	keys := []tea.KeyMsg{keyMsg("1"), keyMsg("backspace")}
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		tm, _ := m.Update(keys[i%2])
+		m = tm.(Model)
+	}
+	b.StopTimer()
+	if !m.sess.draftPending {
+		b.Fatal("keystrokes did not start the draft timer")
+	}
+}
+
+// BenchmarkViewBrowser200x60 draws the session browser with 60 sessions.
+func BenchmarkViewBrowser200x60(b *testing.B) {
+	st := newStore(b, "alice")
+	spec := model.DemoJunction().Spec
+	for i := 0; i < 60; i++ {
+		doc := sessions.NewDocument(fmt.Sprintf("run %d", i), "alice", spec, t0)
+		if _, err := st.Save(fmt.Sprintf("run-%02d", i), doc, 0); err != nil {
+			b.Fatal(err)
+		}
+	}
+	m := press(New(opts(st, "alice", 200, 60)), "ctrl+o")
+	if m.screen != screenBrowse || len(m.br.list) != 60 {
+		b.Fatal("not the browser")
+	}
+	b.ReportAllocs()
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		sinkView = m.View()
 	}
 }

@@ -16,18 +16,30 @@ const maxInputRunes = 64
 type lineEditor struct {
 	text []rune
 	pos  int
+	// limit bounds the text, in runes (0: maxInputRunes).
+	limit int
 }
 
-func newLineEditor(s string) lineEditor {
-	e := lineEditor{}
+func newLineEditor(s string) lineEditor { return newLineEditorN(s, maxInputRunes) }
+
+// newLineEditorN is an editor for at most n runes.
+func newLineEditorN(s string, n int) lineEditor {
+	e := lineEditor{limit: n}
 	e.set(s)
 	return e
 }
 
+func (e lineEditor) max() int {
+	if e.limit > 0 {
+		return e.limit
+	}
+	return maxInputRunes
+}
+
 func (e *lineEditor) set(s string) {
 	e.text = []rune(s)
-	if len(e.text) > maxInputRunes {
-		e.text = e.text[:maxInputRunes]
+	if len(e.text) > e.max() {
+		e.text = e.text[:e.max()]
 	}
 	e.pos = len(e.text)
 }
@@ -48,7 +60,7 @@ func (e *lineEditor) handle(msg tea.KeyMsg) (consumed, changed bool) {
 		if msg.Type == tea.KeySpace && len(add) == 0 {
 			add = []rune{' '}
 		}
-		room := maxInputRunes - len(e.text)
+		room := e.max() - len(e.text)
 		if room <= 0 || len(add) == 0 {
 			return true, false
 		}

@@ -126,6 +126,7 @@ type glyphs struct {
 	vbar, hbar, hbarHeavy string
 	left, right, ellipsis string
 	dot, delta, arrow     string
+	unsaved               string
 	markers               []string // one per chart series, distinct without colour
 	pinMarker             string
 	axisV, axisH, axisO   rune
@@ -136,13 +137,13 @@ func newGlyphs(ascii bool) glyphs {
 	if ascii {
 		return glyphs{ascii: true, cursor: ">", bad: "x", good: "+",
 			vbar: "|", hbar: "-", hbarHeavy: "=", left: "<", right: ">", ellipsis: "...",
-			dot: "-", delta: "d", arrow: "->",
+			dot: "-", delta: "d", arrow: "->", unsaved: "*",
 			markers:   []string{"*", "o", "+", "x", "#", "%", "@", "="},
 			pinMarker: ".", axisV: '|', axisH: '-', axisO: '+', tickX: '+', tickY: '+'}
 	}
 	return glyphs{cursor: "▸", bad: "✗", good: "✓",
 		vbar: "│", hbar: "─", hbarHeavy: "━", left: "◂", right: "▸", ellipsis: "…",
-		dot: "·", delta: "Δ", arrow: "→",
+		dot: "·", delta: "Δ", arrow: "→", unsaved: "●",
 		markers:   []string{"●", "■", "▲", "◆", "▼", "✚", "○", "□"},
 		pinMarker: "∘", axisV: '│', axisH: '─', axisO: '└', tickX: '┬', tickY: '┤'}
 }

@@ -3,6 +3,8 @@ package tui
 import (
 	"bytes"
 	"fmt"
+	"os"
+	"path/filepath"
 	"testing"
 	"time"
 
@@ -10,6 +12,9 @@ import (
 	"github.com/charmbracelet/x/ansi"
 	"github.com/charmbracelet/x/exp/golden"
 	"github.com/charmbracelet/x/exp/teatest"
+
+	"junco/model"
+	"junco/sessions"
 )
 
 // runProgram runs the workbench as a program at w x h, sends the keys,
@@ -84,4 +89,59 @@ func TestProgramQuitsOnQ(t *testing.T) {
 	tm.Send(keyMsg("q"))
 	tm.WaitFinished(t, teatest.WithFinalTimeout(5*time.Second))
 	var _ tea.Model = tm.FinalModel(t)
+}
+
+// goldenStore is a store with three sessions (one of two revisions) and a
+// damaged entry, all saved at fixed times.
+func goldenStore(t *testing.T) *sessions.Store {
+	t.Helper()
+	st := newStore(t, "alice")
+	spec := model.DemoJunction().Spec
+	storeSession(t, st, "d7-lot417", "test diode D7, lot 417, as probed", spec)
+	saveNext(t, st, "d7-lot417", -5)
+	spec.AcceptorDensity = 1e23
+	storeSession(t, st, "d7-lowdope", "D7 with a lighter p+ layer", spec)
+	spec.Temperature = 350
+	storeSession(t, st, "hot-bench", "hot-chuck run at 350 K", spec)
+	broken := filepath.Join(st.Root(), "sessions", "broken")
+	if err := os.MkdirAll(broken, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(broken, "rev-000001.json"), []byte(`{"schema": 1, "meta": {`), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return st
+}
+
+// TestGoldenSessions pins the session browser and review mode.
+func TestGoldenSessions(t *testing.T) {
+	screens := []struct {
+		name string
+		o    func(t *testing.T) Options
+		keys []string
+	}{
+		{"browser", func(t *testing.T) Options {
+			return Options{Store: goldenStore(t), User: "alice", Now: ticking()}
+		}, []string{"ctrl+o"}},
+		{"browser-filtered", func(t *testing.T) Options {
+			return Options{Store: goldenStore(t), User: "alice", Now: ticking()}
+		}, []string{"ctrl+o", "d", "7", "down"}},
+		{"review", func(t *testing.T) Options {
+			var a, c []string
+			return reviewOpts(&a, &c, newStore(t, "bob"))
+		}, []string{"2", "down", "enter"}},
+		{"review-notes", func(t *testing.T) Options {
+			var a, c []string
+			return reviewOpts(&a, &c, newStore(t, "bob"))
+		}, []string{"tab"}},
+	}
+	for _, size := range [][2]int{{80, 24}, {120, 40}} {
+		for _, s := range screens {
+			name := fmt.Sprintf("%s-%dx%d", s.name, size[0], size[1])
+			t.Run(name, func(t *testing.T) {
+				out := runProgram(t, s.o(t), size[0], size[1], s.keys...)
+				golden.RequireEqual(t, []byte(out))
+			})
+		}
+	}
 }

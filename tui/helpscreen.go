@@ -17,7 +17,11 @@ func guideText(g glyphs) []string {
 		"5. In Results, the saturation current Is is under Currents and the depletion width W under Electrostatics. [n] beside a value points to warning n at the end of the sheet.",
 		"6. In Charts, left and right choose among the charts; r edits the sweep (from, to, step), tab moves between its boxes, enter applies.",
 		"7. p pins the present result as a reference: every value then shows its change against it and the charts overlay the pinned curve. u drops the pin.",
-		"8. a switches between Unicode and plain ASCII drawing. q quits, asking first when the junction has changed.",
+		"8. a switches between Unicode and plain ASCII drawing. q quits, asking first when there are unsaved changes.",
+		"Sessions. ctrl+s saves the junction, its I-V and temperature sweeps, the chart, the pin and the notes as the next revision of its session (the first save asks for a name); S saves as a new session; n adds a dated note. Nothing is overwritten: every save is a new revision. The header says when there are unsaved changes, and a recovery draft of them is kept every few seconds, offered again at the next start.",
+		"ctrl+o opens the session browser: type to filter, enter opens, tab shows the revisions of the selected session. There, space marks a revision, d compares the marked (or the previous) revision with the selected one, c compares the selected one with your current edits, r stores an old revision again as the newest, enter opens a revision.",
+		"If someone saved the session after you opened it, saving says so and offers the next revision anyway or a copy under a new name; your edits are kept either way.",
+		"Review mode shows a colleague's session read-only: every panel and note is there, nothing can be changed. n adds a review note; ctrl+s copies the session into your own sessions, where you can try changes.",
 		"The numbers come from the depletion approximation and the ideal (Shockley) diffusion currents; flags mark values outside a model's validity. The demo junction is invented demo data.",
 	}
 }
@@ -34,17 +38,7 @@ func (m Model) helpScreen(w, h int) []string {
 		}
 	}
 	out = append(out, "", st.strong.Paint("Keys"))
-	k := m.e.keys
-	groups := []struct {
-		title string
-		b     []key.Binding
-	}{
-		{"Everywhere", k.globalBindings()},
-		{"Define", []key.Binding{k.Up, k.Down, k.Change, k.Edit, k.Step, k.NextStep, k.PrevStep, k.RestoreDefault}},
-		{"Typing a value", []key.Binding{k.Apply, k.Cancel, k.ApplyNext, k.ApplyPrev, k.CursorLeftRight, k.ClearToStart}},
-		{"Results", []key.Binding{k.ScrollUp, k.ScrollDown, k.PageUp, k.PageDown, k.Top, k.Bottom}},
-		{"Charts", []key.Binding{k.PrevChart, k.NextChart, k.Sweep}},
-	}
+	groups := m.e.keys.helpGroups()
 	hm := m.help
 	hm.Width = 0
 	var cols [][]string

@@ -13,8 +13,10 @@ type KeyMap struct {
 	Help, Quit           key.Binding
 	Pin, Unpin           key.Binding
 	ASCII                key.Binding
-	// Reserved for sessions (saving and browsing come later): disabled.
-	Save, Browse key.Binding
+	// Sessions. Save and SaveAs are off in review mode, where CopyOwn
+	// takes their keys; Note adds a session note, or in review mode a
+	// review note.
+	Save, SaveAs, Browse, Note, CopyOwn key.Binding
 
 	// Definition panel.
 	Up, Down        key.Binding
@@ -41,6 +43,27 @@ type KeyMap struct {
 
 	// Confirmation.
 	Yes, No key.Binding
+	// SaveFirst saves before quitting (quit question).
+	SaveFirst key.Binding
+
+	// Dialogs with text fields.
+	Submit, NextField, PrevField, Dismiss key.Binding
+
+	// Choice when the revision an edit started from is no longer the
+	// newest.
+	SaveNext, SaveCopy, ShowNewer key.Binding
+
+	// Offer of a crash-recovery draft.
+	DraftRestore, DraftDiscard, DraftLater key.Binding
+
+	// Session browser: the list (typing filters it).
+	ListUp, ListDown, Open, Revisions, ClearFilter, Close key.Binding
+	// Revision history of a session.
+	Mark, DiffPair, DiffCurrent, RestoreRev, OpenRev, Back key.Binding
+
+	// review is set in review mode: the help leaves out the keys that
+	// would change something (they are refused with a reason).
+	review bool
 }
 
 // DefaultKeyMap returns the workbench's key bindings.
@@ -56,8 +79,11 @@ func DefaultKeyMap() KeyMap {
 		Pin:       b([]string{"p"}, "p", "pin as reference"),
 		Unpin:     b([]string{"u"}, "u", "drop the pin"),
 		ASCII:     b([]string{"a"}, "a", "ASCII/Unicode drawing"),
-		Save:      key.NewBinding(key.WithKeys("ctrl+s"), key.WithHelp("ctrl+s", "save session"), key.WithDisabled()),
-		Browse:    key.NewBinding(key.WithKeys("ctrl+o"), key.WithHelp("ctrl+o", "open session"), key.WithDisabled()),
+		Save:      b([]string{"ctrl+s"}, "ctrl+s", "save session"),
+		SaveAs:    b([]string{"S"}, "S", "save as a new session"),
+		Browse:    b([]string{"ctrl+o"}, "ctrl+o", "sessions and revisions"),
+		Note:      b([]string{"n"}, "n", "add a note"),
+		CopyOwn:   key.NewBinding(key.WithKeys("ctrl+s", "S"), key.WithHelp("ctrl+s", "copy into your own sessions"), key.WithDisabled()),
 
 		Up:              b([]string{"up", "k"}, "↑/k", "previous field"),
 		Down:            b([]string{"down", "j"}, "↓/j", "next field"),
@@ -85,8 +111,52 @@ func DefaultKeyMap() KeyMap {
 		NextChart: b([]string{"right", "l", "]"}, "→/l", "next chart"),
 		Sweep:     b([]string{"r", "enter"}, "r", "edit the sweep"),
 
-		Yes: b([]string{"y", "Y"}, "y", "yes, quit"),
-		No:  b([]string{"n", "N", "esc"}, "n/esc", "no, stay"),
+		Yes:       b([]string{"y", "Y"}, "y", "yes, quit"),
+		No:        b([]string{"n", "N", "esc"}, "n/esc", "no, stay"),
+		SaveFirst: b([]string{"s"}, "s", "save first"),
+
+		Submit:    b([]string{"enter"}, "enter", "done"),
+		NextField: b([]string{"tab", "down"}, "tab/↓", "next box"),
+		PrevField: b([]string{"shift+tab", "up"}, "shift+tab/↑", "previous box"),
+		Dismiss:   b([]string{"esc"}, "esc", "cancel, nothing lost"),
+
+		SaveNext:  b([]string{"n"}, "n", "save as the next revision anyway"),
+		SaveCopy:  b([]string{"c"}, "c", "save as a copy under a new name"),
+		ShowNewer: b([]string{"d"}, "d", "what the newer revision changed"),
+
+		DraftRestore: b([]string{"r"}, "r", "restore the draft"),
+		DraftDiscard: b([]string{"d"}, "d", "discard the draft"),
+		DraftLater:   b([]string{"q"}, "q", "quit, keep the draft"),
+
+		ListUp:      b([]string{"up"}, "↑", "previous session"),
+		ListDown:    b([]string{"down"}, "↓", "next session"),
+		Open:        b([]string{"enter"}, "enter", "open the newest revision"),
+		Revisions:   b([]string{"tab", "right"}, "tab/→", "revisions of the session"),
+		ClearFilter: b([]string{"ctrl+u"}, "ctrl+u", "clear the filter"),
+		Close:       b([]string{"esc"}, "esc", "close"),
+
+		Mark:        b([]string{" ", "m"}, "space", "mark as the older side"),
+		DiffPair:    b([]string{"d"}, "d", "diff marked (or previous) with selected"),
+		DiffCurrent: b([]string{"c"}, "c", "diff selected with your current edits"),
+		RestoreRev:  b([]string{"r"}, "r", "restore as the newest revision"),
+		OpenRev:     b([]string{"enter"}, "enter", "open this revision"),
+		Back:        b([]string{"esc", "left", "shift+tab"}, "esc", "back"),
+	}
+	return k
+}
+
+// forMode switches the session keys for review mode (read-only): saving
+// is off and its keys copy the session into the reviewer's own sessions;
+// n adds a review note instead of a session note.
+func (k KeyMap) forMode(readOnly bool) KeyMap {
+	k.review = readOnly
+	k.Save.SetEnabled(!readOnly)
+	k.SaveAs.SetEnabled(!readOnly)
+	k.CopyOwn.SetEnabled(readOnly)
+	if readOnly {
+		k.Note.SetHelp("n", "add a review note")
+	} else {
+		k.Note.SetHelp("n", "add a note")
 	}
 	return k
 }
@@ -117,7 +187,8 @@ func (k KeyMap) forASCII(ascii bool) KeyMap {
 		b.SetHelp(string(out), h.Desc)
 	}
 	for _, b := range []*key.Binding{&k.Up, &k.Down, &k.Change, &k.ApplyNext, &k.ApplyPrev,
-		&k.CursorLeftRight, &k.ScrollUp, &k.ScrollDown, &k.PrevChart, &k.NextChart} {
+		&k.CursorLeftRight, &k.ScrollUp, &k.ScrollDown, &k.PrevChart, &k.NextChart,
+		&k.NextField, &k.PrevField, &k.ListUp, &k.ListDown, &k.Revisions} {
 		fix(b)
 	}
 	return k
@@ -125,7 +196,31 @@ func (k KeyMap) forASCII(ascii bool) KeyMap {
 
 // globalBindings are the bindings shown in every panel's help.
 func (k KeyMap) globalBindings() []key.Binding {
-	return []key.Binding{k.NextPanel, k.PrevPanel, k.Pin, k.Unpin, k.ASCII, k.Help, k.Quit, k.Save, k.Browse}
+	if k.review {
+		return []key.Binding{k.NextPanel, k.PrevPanel, k.ASCII, k.Help, k.Quit}
+	}
+	return []key.Binding{k.NextPanel, k.PrevPanel, k.Pin, k.Unpin, k.ASCII, k.Help, k.Quit}
+}
+
+// defineBindings are the keys of the definition panel.
+func (k KeyMap) defineBindings() []key.Binding {
+	if k.review {
+		return []key.Binding{k.Up, k.Down, k.Step, k.NextStep, k.PrevStep}
+	}
+	return []key.Binding{k.Up, k.Down, k.Change, k.Edit, k.Step, k.NextStep, k.PrevStep, k.RestoreDefault}
+}
+
+// chartBindings are the keys of the charts panel.
+func (k KeyMap) chartBindings() []key.Binding {
+	if k.review {
+		return []key.Binding{k.PrevChart, k.NextChart}
+	}
+	return []key.Binding{k.PrevChart, k.NextChart, k.Sweep}
+}
+
+// sessionBindings are the session keys, shown in every panel's full help.
+func (k KeyMap) sessionBindings() []key.Binding {
+	return []key.Binding{k.Save, k.SaveAs, k.CopyOwn, k.Browse, k.Note}
 }
 
 // formHelp is the help of the definition panel; typing selects the
@@ -140,15 +235,19 @@ func (h formHelp) ShortHelp() []key.Binding {
 	if h.typing {
 		return []key.Binding{k.Apply, k.Cancel, k.ApplyNext, k.ClearToStart}
 	}
-	return []key.Binding{k.Down, k.Edit, k.Change, k.Step, k.NextPanel, k.Pin, k.Help, k.Quit}
+	if k.review {
+		return []key.Binding{k.Down, k.Step, k.NextPanel, k.Note, k.CopyOwn, k.Help, k.Quit}
+	}
+	return []key.Binding{k.Down, k.Edit, k.Change, k.Step, k.NextPanel, k.Pin, k.Help, k.Quit, k.Save, k.CopyOwn}
 }
 
 func (h formHelp) FullHelp() [][]key.Binding {
 	k := h.k
 	return [][]key.Binding{
-		{k.Up, k.Down, k.Change, k.Edit, k.Step, k.NextStep, k.PrevStep, k.RestoreDefault},
+		k.defineBindings(),
 		{k.Apply, k.Cancel, k.ApplyNext, k.ApplyPrev, k.CursorLeftRight, k.ClearToStart},
 		k.globalBindings(),
+		k.sessionBindings(),
 	}
 }
 
@@ -157,12 +256,15 @@ type sheetHelp struct{ k KeyMap }
 
 func (h sheetHelp) ShortHelp() []key.Binding {
 	k := h.k
-	return []key.Binding{k.ScrollDown, k.PageDown, k.NextPanel, k.Pin, k.Unpin, k.Help, k.Quit}
+	if k.review {
+		return []key.Binding{k.ScrollDown, k.PageDown, k.NextPanel, k.Note, k.CopyOwn, k.Help, k.Quit}
+	}
+	return []key.Binding{k.ScrollDown, k.PageDown, k.NextPanel, k.Pin, k.Unpin, k.Help, k.Quit, k.Save, k.CopyOwn}
 }
 
 func (h sheetHelp) FullHelp() [][]key.Binding {
 	k := h.k
-	return [][]key.Binding{{k.ScrollUp, k.ScrollDown, k.PageUp, k.PageDown, k.Top, k.Bottom}, k.globalBindings()}
+	return [][]key.Binding{{k.ScrollUp, k.ScrollDown, k.PageUp, k.PageDown, k.Top, k.Bottom}, k.globalBindings(), k.sessionBindings()}
 }
 
 // chartHelp is the help of the charts panel; typing selects the bindings
@@ -177,12 +279,15 @@ func (h chartHelp) ShortHelp() []key.Binding {
 	if h.typing {
 		return []key.Binding{k.Apply, k.Cancel, k.ApplyNext, k.ClearToStart}
 	}
-	return []key.Binding{k.NextChart, k.PrevChart, k.Sweep, k.NextPanel, k.Pin, k.Help, k.Quit}
+	if k.review {
+		return []key.Binding{k.NextChart, k.PrevChart, k.NextPanel, k.Note, k.CopyOwn, k.Help, k.Quit}
+	}
+	return []key.Binding{k.NextChart, k.PrevChart, k.Sweep, k.NextPanel, k.Pin, k.Help, k.Quit, k.Save, k.CopyOwn}
 }
 
 func (h chartHelp) FullHelp() [][]key.Binding {
 	k := h.k
-	return [][]key.Binding{{k.PrevChart, k.NextChart, k.Sweep}, k.globalBindings()}
+	return [][]key.Binding{k.chartBindings(), k.globalBindings(), k.sessionBindings()}
 }
 
 // allHelp is the full key list of the help screen, one column per panel.
@@ -191,11 +296,37 @@ type allHelp struct{ k KeyMap }
 func (h allHelp) ShortHelp() []key.Binding { return h.k.globalBindings() }
 
 func (h allHelp) FullHelp() [][]key.Binding {
-	k := h.k
-	return [][]key.Binding{
-		k.globalBindings(),
-		{k.Up, k.Down, k.Change, k.Edit, k.Step, k.NextStep, k.PrevStep, k.RestoreDefault},
-		{k.Apply, k.Cancel, k.ApplyNext, k.ApplyPrev, k.CursorLeftRight, k.ClearToStart},
-		{k.ScrollUp, k.ScrollDown, k.PageUp, k.PageDown, k.Top, k.Bottom, k.PrevChart, k.NextChart, k.Sweep},
+	var out [][]key.Binding
+	for _, g := range h.k.helpGroups() {
+		out = append(out, g.b)
 	}
+	return out
+}
+
+// helpGroup is one titled column of the help screen.
+type helpGroup struct {
+	title string
+	b     []key.Binding
+}
+
+// helpGroups lists every binding of the workbench by where it applies:
+// the help screen shows them all.
+func (k KeyMap) helpGroups() []helpGroup {
+	g := []helpGroup{
+		{"Everywhere", k.globalBindings()},
+		{"Sessions", k.sessionBindings()},
+		{"Define", k.defineBindings()},
+	}
+	if !k.review {
+		g = append(g, helpGroup{"Typing a value", []key.Binding{k.Apply, k.Cancel, k.ApplyNext, k.ApplyPrev, k.CursorLeftRight, k.ClearToStart}})
+	}
+	return append(g,
+		helpGroup{"Results", []key.Binding{k.ScrollUp, k.ScrollDown, k.PageUp, k.PageDown, k.Top, k.Bottom}},
+		helpGroup{"Charts", k.chartBindings()},
+		helpGroup{"Session list", []key.Binding{k.ListUp, k.ListDown, k.Open, k.Revisions, k.ClearFilter, k.Close}},
+		helpGroup{"Revisions", []key.Binding{k.Mark, k.DiffPair, k.DiffCurrent, k.RestoreRev, k.OpenRev, k.Back}},
+		helpGroup{"Dialogs", []key.Binding{k.Submit, k.NextField, k.PrevField, k.Dismiss, k.Yes, k.No, k.SaveFirst}},
+		helpGroup{"Newer revision", []key.Binding{k.SaveNext, k.SaveCopy, k.ShowNewer}},
+		helpGroup{"Recovery draft", []key.Binding{k.DraftRestore, k.DraftDiscard, k.DraftLater}},
+	)
 }

@@ -9,6 +9,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"junco/model"
+	"junco/sessions"
 )
 
 // groupBreakdown is the result group whose values call for the safety
@@ -23,9 +24,12 @@ type sheetModel struct {
 	pin *model.Result
 	// stale names what is not in force when the result is from the last
 	// valid input rather than the text on screen.
-	stale  []string
-	scroll int
-	w, h   int
+	stale []string
+	// notes and reviews are the session's notes and review notes.
+	notes   []string
+	reviews []sessions.ReviewNote
+	scroll  int
+	w, h    int
 	// built is the whole sheet at width w, rebuilt in Update (rebuild)
 	// whenever the result, pin, width or drawing mode changes.
 	built []string
@@ -46,6 +50,13 @@ func (s *sheetModel) setEnv(e env) { s.e = e; s.rebuild() }
 // set puts a new result, pin and list of fields not in force.
 func (s *sheetModel) set(res, pin *model.Result, stale []string) {
 	s.res, s.pin, s.stale = res, pin, stale
+	s.rebuild()
+	s.clamp()
+}
+
+// setNotes puts the session's notes and review notes.
+func (s *sheetModel) setNotes(notes []string, reviews []sessions.ReviewNote) {
+	s.notes, s.reviews = notes, reviews
 	s.rebuild()
 	s.clamp()
 }
@@ -192,6 +203,7 @@ func (s sheetModel) allLines() []string {
 		out = append(out, st.pinned.Paint(cut(g.delta+" change against the pinned reference: "+specSummary(s.pin.Spec, s.e.ascii), w, g.ellipsis)))
 	}
 	out = append(out, "")
+	out = append(out, s.noteLines(w)...)
 
 	// Number the flags so that marks beside values point into the list.
 	flagNo := map[string]int{}
@@ -255,6 +267,38 @@ func (s sheetModel) allLines() []string {
 		for _, l := range wrapText(g.bad+" "+cautionText, w-2) {
 			out = append(out, "  "+st.caution.Paint(l))
 		}
+	}
+	return out
+}
+
+// noteLines draws the session notes and the review notes, when there are
+// any.
+func (s sheetModel) noteLines(w int) []string {
+	st := s.e.st
+	var out []string
+	if len(s.notes) > 0 {
+		out = append(out, st.heading.Paint("Session notes"))
+		for _, n := range s.notes {
+			for j, l := range wrapText(n, max(w-4, 8)) {
+				if j > 0 {
+					l = "  " + l
+				}
+				out = append(out, "  "+l)
+			}
+		}
+		out = append(out, "")
+	}
+	if len(s.reviews) > 0 {
+		out = append(out, st.heading.Paint("Review notes"))
+		for _, r := range s.reviews {
+			for j, l := range wrapText(r.Author+", "+stamp(r.Time)+": "+r.Text, max(w-4, 8)) {
+				if j > 0 {
+					l = "  " + l
+				}
+				out = append(out, "  "+st.pinned.Paint(l))
+			}
+		}
+		out = append(out, "")
 	}
 	return out
 }

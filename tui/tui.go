@@ -10,9 +10,11 @@
 package tui
 
 import (
+	"fmt"
 	"io"
 	"reflect"
 	"strings"
+	"time"
 
 	"github.com/charmbracelet/bubbles/help"
 	"github.com/charmbracelet/bubbles/key"
@@ -21,6 +23,7 @@ import (
 	"github.com/muesli/termenv"
 
 	"junco/model"
+	"junco/sessions"
 )
 
 // Options configure a workbench.
@@ -41,9 +44,43 @@ type Options struct {
 	// tea.WindowSizeMsg arrives; 0 means 80 x 24.
 	Width, Height int
 
+	// Store is the user's own session store: saving, the session browser
+	// and recovery drafts use it. nil turns persistence off; the session
+	// keys then say why (NoStoreReason, or a general reason).
+	Store *sessions.Store
+	// NoStoreReason says why Store is nil, for the session keys.
+	NoStoreReason string
+	// User is the author of saves, notes and review notes ("" =
+	// "unknown").
+	User string
+	// Session, Document and Revision open the workbench on revision
+	// Revision of stored session Session, whose document is Document.
+	// With Document and no Session the document is new to the store (a
+	// file): the first save asks for a name. With Session and no
+	// Document, the revision (0: the newest) is read from Store.
+	Session  string
+	Document *sessions.Document
+	Revision int
+	// ReadOnly opens the document for review: everything is shown,
+	// nothing can be changed; n adds a review note (AddReview) and
+	// ctrl+s copies the session into the user's own sessions
+	// (CopyToOwn).
+	ReadOnly bool
+	// AddReview stores a review note by User on the reviewed session.
+	AddReview func(text string) error
+	// CopyToOwn stores doc as a new session called name among the user's
+	// own sessions (in Store, so that the workbench can open it) and
+	// returns its revision. nil copies into Store directly.
+	CopyToOwn func(doc *sessions.Document, name string) (int, error)
+	// Now returns the current time (notes, pins); nil means time.Now.
+	Now func() time.Time
+
 	// syncCharts computes chart curves inside Update rather than in a
 	// command, so that a test program's final state is deterministic.
 	syncCharts bool
+	// draftEvery is how long after a change the recovery draft is
+	// written (0: defaultDraftEvery).
+	draftEvery time.Duration
 }
 
 // DetectASCII reports whether the locale in the environment lacks UTF-8:
@@ -88,16 +125,20 @@ func (p panel) title() string {
 	return "Charts"
 }
 
-// Screens. Session screens (save, browse) are reserved for a later step
-// and are not reachable yet.
+// Screens: the panels, and the screens over them.
 type screen int
 
 const (
-	screenMain screen = iota
-	screenHelp
-	screenQuit
-	screenSave   // reserved: saving a session
-	screenBrowse // reserved: browsing sessions
+	screenMain    screen = iota
+	screenHelp           // guide and keys
+	screenQuit           // quit with unsaved changes?
+	screenDialog         // a text dialog: save, save as, note, review note, copy
+	screenBrowse         // the session list
+	screenHistory        // the revisions of a session
+	screenDiff           // the changes between two revisions
+	screenStale          // a save found a newer revision
+	screenConfirm        // a yes/no question before an action
+	screenDraft          // a recovery draft was found
 )
 
 // Layouts by terminal size.
@@ -136,14 +177,22 @@ type Model struct {
 	chart chartModel
 	help  help.Model
 
-	pin      *model.Result
-	baseline model.Spec
-	geo      [6]int // panel boxes from geometry, set by relayout
-	name     string
-	short    string
-	demo     bool
-	note     string
-	formRev  int
+	pin     *model.Result
+	geo     [6]int // panel boxes from geometry, set by relayout
+	name    string
+	short   string
+	demo    bool
+	note    string
+	formRev int
+
+	sess          session
+	dlg           dialog
+	stale         staleState
+	conf          confirmState
+	offer         draftOffer
+	br            browser
+	quitAfterSave bool
+	syncCharts    bool
 }
 
 // New builds a workbench.
@@ -154,34 +203,113 @@ func New(o Options) Model {
 		r.SetColorProfile(termenv.Ascii)
 	}
 	e := newEnv(r, o.ASCII, !o.NoColor)
-	e.keys = e.keys.forASCII(o.ASCII)
-	m := Model{e: e, w: o.Width, h: o.Height, right: panelResults}
+	e.keys = e.keys.forASCII(o.ASCII).forMode(o.ReadOnly)
+	m := Model{e: e, w: o.Width, h: o.Height, right: panelResults, syncCharts: o.syncCharts}
 	if m.w <= 0 || m.h <= 0 {
 		m.w, m.h = 80, 24
+	}
+	m.sess = newSession(o)
+	doc, rev := o.Document, o.Revision
+	var openErr error
+	if doc == nil && o.Session != "" && o.Store != nil {
+		d, r, err := o.Store.Open(o.Session, o.Revision)
+		if err != nil {
+			openErr = err
+		} else {
+			doc, rev = d, r.Number
+		}
 	}
 	spec := model.DemoJunction().Spec
 	m.demo = true
 	m.name = model.DemoJunction().Title
 	m.short = model.DemoJunction().Short
-	if o.Spec != nil {
-		spec, m.demo, m.name = *o.Spec, false, o.Name
+	switch {
+	case doc != nil:
+		spec, m.demo, m.name = doc.Spec, false, doc.Meta.Title
 		if m.name == "" {
-			m.name = "new junction"
+			m.name = o.Name
 		}
+	case o.Spec != nil:
+		spec, m.demo, m.name = *o.Spec, false, o.Name
+	}
+	if !m.demo && m.name == "" {
+		m.name = "new junction"
+	}
+	if !m.demo {
 		m.short = m.name
 	}
 	m.form = newForm(e, spec)
-	m.baseline = m.form.spec
 	m.formRev = m.form.rev
 	m.sheet = sheetModel{e: e}
 	m.chart = newChart(e, m.form.spec)
 	m.chart.sync = o.syncCharts
 	m.help = m.newHelp()
+	if doc != nil {
+		m.sess.doc = doc
+		if o.Session != "" {
+			m.sess.name, m.sess.rev = o.Session, rev
+		}
+		m.applyExtras(doc)
+	}
+	if m.sess.name == "" {
+		m.sess.suggest = suggestName(o.Name)
+		if m.demo {
+			m.sess.suggest = "d7-demo"
+		}
+	}
+	m.setBaseline()
 	m.sync()
 	m.relayout()
 	// The commands of the calls above are not run: Init asks again.
 	m.chart.lastReq = nil
+	if openErr != nil {
+		m.note = "session " + o.Session + " could not be opened (" + openErr.Error() + "); the demo is shown"
+	}
+	if o.ReadOnly {
+		m.focus = panelDefine
+	} else {
+		m.offerDraft()
+	}
 	return m
+}
+
+// newSession sets up the persistence side from the options.
+func newSession(o Options) session {
+	s := session{store: o.Store, noStore: o.NoStoreReason, user: strings.TrimSpace(o.User), now: o.Now,
+		readOnly: o.ReadOnly, addReview: o.AddReview, copyToOwn: o.CopyToOwn, draftEvery: o.draftEvery}
+	if s.user == "" {
+		s.user = "unknown"
+	}
+	s.editor = sessions.EditorID(s.user)
+	if s.now == nil {
+		s.now = time.Now
+	}
+	if s.draftEvery <= 0 {
+		s.draftEvery = defaultDraftEvery
+	}
+	return s
+}
+
+// suggestName turns a title or file name into a session name to offer
+// at the first save ("" when nothing usable).
+func suggestName(name string) string {
+	var b strings.Builder
+	for _, r := range strings.TrimSpace(name) {
+		switch {
+		case r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z' || r >= '0' && r <= '9' || r == '-' || r == '_' || r == '.':
+			b.WriteRune(r)
+		case r == ' ':
+			b.WriteByte('-')
+		}
+		if b.Len() >= nameRunes {
+			break
+		}
+	}
+	s := strings.Trim(b.String(), ".-")
+	if checkNewName(s) != nil {
+		return ""
+	}
+	return s
 }
 
 // Init asks for the first chart's curves.
@@ -200,12 +328,6 @@ func (m Model) Spec() model.Spec { return m.form.spec }
 
 // Result returns the evaluation of the junction in force.
 func (m Model) Result() *model.Result { return m.form.res }
-
-// Dirty reports whether the junction differs from the one opened or has
-// text that is not in force.
-func (m Model) Dirty() bool {
-	return !reflect.DeepEqual(m.form.spec, m.baseline) || len(m.form.bad()) > 0
-}
 
 // sync pushes the form's spec and result to the sheet and charts; the
 // command computes the charts' curves.
@@ -282,6 +404,9 @@ func (m Model) geometry() (fw, fh, sw, sh, cw, ch int) {
 }
 
 func (m Model) sheetNeed(w int) int {
+	if m.sheet.w == w && m.sheet.built != nil {
+		return len(m.sheet.built) // built for this width by the last change
+	}
 	s := m.sheet
 	s.w = w
 	return len(s.allLines())
@@ -298,8 +423,22 @@ func (m *Model) relayout() tea.Cmd {
 	return m.chart.SetSize(cw, ch)
 }
 
-// Update handles a message.
+// Update handles a message. After a change not yet saved it starts the
+// timer of the recovery draft (once; see scheduleDraft).
 func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
+	tm, cmd := m.update(msg)
+	nm, ok := tm.(Model)
+	if !ok {
+		return tm, cmd
+	}
+	nm, dcmd := nm.scheduleDraft()
+	if dcmd != nil {
+		cmd = tea.Batch(cmd, dcmd)
+	}
+	return nm, cmd
+}
+
+func (m Model) update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	switch msg := msg.(type) {
 	case tea.WindowSizeMsg:
 		m.w, m.h = max(msg.Width, 0), max(msg.Height, 0)
@@ -307,6 +446,14 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	case chartDataMsg:
 		m.chart.apply(msg)
 		return m, nil
+	case draftTickMsg:
+		cmd := m.writeDraft()
+		return m, cmd
+	case draftWrittenMsg:
+		m.draftWritten(msg)
+		return m, nil
+	case ShutdownMsg:
+		return m.shutdown()
 	case tea.KeyMsg:
 		return m.key(msg)
 	}
@@ -321,12 +468,33 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	switch m.screen {
 	case screenQuit:
 		switch {
-		case keyIs(km, k.Yes), km.String() == "ctrl+c":
+		case km.String() == "ctrl+c":
+			return m.shutdown()
+		case keyIs(km, k.Yes):
+			m.discardDraft()
 			return m, tea.Quit
+		case keyIs(km, k.SaveFirst) && m.sess.store != nil && !m.sess.readOnly:
+			m.screen = screenMain
+			m.openSave(false)
+			m.quitAfterSave = m.screen == screenDialog
 		case keyIs(km, k.No), km.String() == "q":
 			m.screen = screenMain
 		}
 		return m, nil
+	case screenDialog:
+		return m.dialogKey(km)
+	case screenBrowse:
+		return m.browseKey(km)
+	case screenHistory:
+		return m.historyKey(km)
+	case screenDiff:
+		return m.diffKey(km)
+	case screenStale:
+		return m.staleKey(km)
+	case screenConfirm:
+		return m.confirmKey(km)
+	case screenDraft:
+		return m.draftKey(km)
 	case screenHelp:
 		switch {
 		case km.String() == "ctrl+c":
@@ -344,8 +512,48 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		return m.quit()
 	}
 	typing := (m.focus == panelDefine && m.form.typing) || (m.focus == panelCharts && m.chart.editing)
+	if typing && (keyIs(km, k.Save) || keyIs(km, k.Browse) || keyIs(km, k.CopyOwn)) && km.Type != tea.KeyRunes {
+		if m.chart.editing && m.focus == panelCharts {
+			m.note = "finish the sweep first: enter applies it, esc cancels"
+			return m, nil
+		}
+		// The text typed stays on screen (marked when not accepted).
+		m.form.finishTyping()
+		m.formRev = m.form.rev
+		cmd := tea.Batch(m.sync(), m.relayout())
+		switch {
+		case keyIs(km, k.Save):
+			m.openSave(false)
+		case keyIs(km, k.CopyOwn):
+			m.openCopy()
+		default:
+			m.openBrowser()
+		}
+		return m, cmd
+	}
+	if m.sess.readOnly && !typing {
+		if why := m.refusal(km); why != "" {
+			m.note = "read-only review: " + why + " cannot be changed; ctrl+s copies it to your sessions"
+			return m, nil
+		}
+	}
 	if !typing {
 		switch {
+		case keyIs(km, k.Save):
+			m.openSave(false)
+			return m, nil
+		case keyIs(km, k.SaveAs):
+			m.openSave(true)
+			return m, nil
+		case keyIs(km, k.CopyOwn):
+			m.openCopy()
+			return m, nil
+		case keyIs(km, k.Browse):
+			m.openBrowser()
+			return m, nil
+		case keyIs(km, k.Note):
+			m.openNote()
+			return m, nil
 		case keyIs(km, k.NextPanel):
 			return m, m.setFocus((m.focus + 1) % panelCount)
 		case keyIs(km, k.PrevPanel):
@@ -357,6 +565,7 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 			return m.quit()
 		case keyIs(km, k.Pin):
 			m.pin = m.form.res
+			m.sess.pinnedAt = m.sess.now()
 			m.note = "pinned the present result as the reference: the sheet shows changes against it, the charts overlay it"
 			return m, tea.Batch(m.sync(), m.relayout())
 		case keyIs(km, k.Unpin):
@@ -391,6 +600,34 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	return m, cmd
 }
 
+// refusal names what a key would change in review mode ("" when the key
+// changes nothing).
+func (m Model) refusal(km tea.KeyMsg) string {
+	k := m.e.keys
+	switch {
+	case keyIs(km, k.Pin), keyIs(km, k.Unpin):
+		return "the pinned reference"
+	case m.focus == panelCharts && keyIs(km, k.Sweep):
+		return "the sweep"
+	case m.focus != panelDefine:
+		return ""
+	}
+	f := m.form
+	if f.cur < 0 || f.cur >= len(f.defs) {
+		return ""
+	}
+	d := f.defs[f.cur]
+	switch {
+	case keyIs(km, k.RestoreDefault):
+		return d.label
+	case d.choice && keyIs(km, k.Change):
+		return d.label
+	case !d.choice && keyIs(km, k.Edit):
+		return d.label
+	}
+	return ""
+}
+
 func (m *Model) setFocus(p panel) tea.Cmd {
 	m.focus = p
 	if p == panelResults || p == panelCharts {
@@ -401,7 +638,7 @@ func (m *Model) setFocus(p panel) tea.Cmd {
 
 func (m *Model) setASCII(on bool) {
 	e := newEnv(m.e.r, on, m.e.color)
-	e.keys = e.keys.forASCII(on)
+	e.keys = e.keys.forASCII(on).forMode(m.sess.readOnly)
 	m.e = e
 	m.form.setEnv(e)
 	m.sheet.setEnv(e)
@@ -441,6 +678,20 @@ func (m Model) View() string {
 		lines = append(lines, m.helpScreen(w, h-2)...)
 	case screenQuit:
 		lines = append(lines, m.quitScreen(w, h-2)...)
+	case screenDialog:
+		lines = append(lines, m.dialogScreen(w, h-2)...)
+	case screenBrowse:
+		lines = append(lines, m.browseScreen(w, h-2)...)
+	case screenHistory:
+		lines = append(lines, m.historyScreen(w, h-2)...)
+	case screenDiff:
+		lines = append(lines, m.diffScreen(w, h-2)...)
+	case screenStale:
+		lines = append(lines, m.staleScreen(w, h-2)...)
+	case screenConfirm:
+		lines = append(lines, m.confirmScreen(w, h-2)...)
+	case screenDraft:
+		lines = append(lines, m.draftScreen(w, h-2)...)
 	default:
 		lines = append(lines, m.body()...)
 	}
@@ -452,6 +703,11 @@ func (m Model) header() string {
 	st, g := m.e.st, m.e.g
 	left := st.accent.Paint("junco") + " "
 	lw := width("junco ")
+	if m.sess.readOnly {
+		b := "review (read-only)"
+		left += st.caution.Paint("["+b+"]") + " "
+		lw += width(b) + 3
+	}
 	for p := panel(0); p < panelCount; p++ {
 		t := p.title()
 		if p == m.focus && m.screen == screenMain {
@@ -469,14 +725,21 @@ func (m Model) header() string {
 		tags = append(tags, st.pinned.Paint("pinned"))
 	}
 	if m.Dirty() {
-		tags = append(tags, st.muted.Paint("changed"))
+		tags = append(tags, st.warn.Paint(g.unsaved+" unsaved"))
 	}
 	right := strings.Join(tags, " "+g.dot+" ")
 	room := m.w - lw - 2
-	name := m.name
+	name, short := m.name, m.short
+	if m.sess.name != "" {
+		short = fmt.Sprintf("%s rev %d", m.sess.name, m.sess.rev)
+		name = short
+		if t := m.title(); t != "" {
+			name += ": " + t
+		}
+	}
 	nameW := room - width(right) - 3
 	if width(name) > nameW {
-		name = m.short
+		name = short
 	}
 	if nameW >= 8 {
 		right = st.strong.Paint(cut(name, nameW, g.ellipsis)) + "  " + right
@@ -496,9 +759,23 @@ func (m Model) footer() string {
 	var hk help.KeyMap
 	switch m.screen {
 	case screenQuit:
-		hk = dialogHelp{m.e.keys}
+		hk = dialogHelp{k: m.e.keys, canSave: m.sess.store != nil && !m.sess.readOnly}
 	case screenHelp:
 		hk = helpScreenHelp{m.e.keys}
+	case screenDialog:
+		hk = textDialogHelp{m.e.keys}
+	case screenBrowse:
+		hk = browseHelp{m.e.keys}
+	case screenHistory:
+		hk = historyHelp{m.e.keys}
+	case screenDiff:
+		hk = diffHelp{m.e.keys}
+	case screenStale:
+		hk = staleHelp{m.e.keys}
+	case screenConfirm:
+		hk = confirmHelp{k: m.e.keys, yes: m.conf.yes}
+	case screenDraft:
+		hk = draftHelp{m.e.keys}
 	default:
 		switch m.focus {
 		case panelDefine:
@@ -512,10 +789,37 @@ func (m Model) footer() string {
 	hm := m.help
 	note := ""
 	if m.note != "" {
-		note = st.warn.Paint(cut(m.note, m.w*2/3, m.e.g.ellipsis)) + "  "
+		note = st.warn.Paint(cut(m.note, max(m.w-2, 0), m.e.g.ellipsis)) + "  "
 	}
-	hm.Width = max(m.w-width(note), 0)
-	return note + hm.ShortHelpView(hk.ShortHelp())
+	return note + shortHelp(hm, hk.ShortHelp(), max(m.w-width(note), 0))
+}
+
+// shortHelp is the one-line help of bindings in w cells: as many entries
+// as fit whole, then an ellipsis when some are left out.
+func shortHelp(hm help.Model, bindings []key.Binding, w int) string {
+	sep := hm.Styles.ShortSeparator.Inline(true).Render(hm.ShortSeparator)
+	tail := " " + hm.Styles.Ellipsis.Inline(true).Render(hm.Ellipsis)
+	var b strings.Builder
+	total := 0
+	for _, kb := range bindings {
+		if !kb.Enabled() {
+			continue
+		}
+		item := hm.Styles.ShortKey.Inline(true).Render(kb.Help().Key) + " " + hm.Styles.ShortDesc.Inline(true).Render(kb.Help().Desc)
+		if total > 0 {
+			item = sep + item
+		}
+		iw := width(item)
+		if total+iw > w {
+			if total > 0 && total+width(tail) <= w {
+				b.WriteString(tail)
+			}
+			break
+		}
+		total += iw
+		b.WriteString(item)
+	}
+	return b.String()
 }
 
 // body lays the panels out.
@@ -527,6 +831,9 @@ func (m Model) body() []string {
 		switch p {
 		case panelDefine:
 			t = "Define the junction"
+			if m.sess.readOnly {
+				t += " " + g.dot + " read-only"
+			}
 		case panelResults:
 			t = "Results"
 			if m.pin != nil {
@@ -575,10 +882,13 @@ func (m Model) quitScreen(w, h int) []string {
 		st.strong.Paint("Quit junco?"),
 		"",
 		"The junction has changes that are not saved.",
-		"Saving comes with sessions in a later version;",
-		"the values in force are shown under Define.",
-		"",
-		st.keyName.Paint("y") + " quit and drop the changes    " + st.keyName.Paint("n") + " or " + st.keyName.Paint("esc") + " stay",
+	}
+	keys := st.keyName.Paint("y") + " quit and drop the changes    " + st.keyName.Paint("n") + " or " + st.keyName.Paint("esc") + " stay"
+	if m.sess.store != nil {
+		msg = append(msg, "Saving keeps them as a new revision.", "", st.keyName.Paint("s")+" save first    "+keys)
+	} else {
+		msg = append(msg, wrapText(m.sess.noStoreText("saving")+".", min(w-4, 46))...)
+		msg = append(msg, "", keys)
 	}
 	boxW := 0
 	for _, l := range msg {
@@ -594,9 +904,17 @@ func (m Model) quitScreen(w, h int) []string {
 }
 
 // dialogHelp is the footer of the quit question.
-type dialogHelp struct{ k KeyMap }
+type dialogHelp struct {
+	k       KeyMap
+	canSave bool
+}
 
-func (h dialogHelp) ShortHelp() []key.Binding  { return []key.Binding{h.k.Yes, h.k.No} }
+func (h dialogHelp) ShortHelp() []key.Binding {
+	if h.canSave {
+		return []key.Binding{h.k.SaveFirst, h.k.Yes, h.k.No}
+	}
+	return []key.Binding{h.k.Yes, h.k.No}
+}
 func (h dialogHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
 
 // helpScreenHelp is the footer of the help screen.

@@ -1,0 +1,567 @@
+package tui
+
+import (
+	"errors"
+	"fmt"
+	"strings"
+
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+
+	"junco/sessions"
+)
+
+// Limits of the dialog fields, in runes (the store's own limits are
+// larger or equal).
+const (
+	nameRunes  = 64
+	titleRunes = 200
+	noteRunes  = 1000
+)
+
+// dialogKind says what a text dialog is for.
+type dialogKind int
+
+const (
+	dlgSave    dialogKind = iota // the next revision of the session in force: title, note
+	dlgSaveNew                   // a new session: name, title, note
+	dlgNote                      // a session note
+	dlgReview                    // a review note
+	dlgCopy                      // a copy in the user's own sessions: name
+)
+
+// dialogField is one text box of a dialog.
+type dialogField struct {
+	label, hint string
+	ed          lineEditor
+	err         string
+}
+
+func (f dialogField) value() string { return strings.TrimSpace(f.ed.value()) }
+
+// dialog is a small form of text boxes. Enter submits from any box; an
+// error is shown under the box it concerns and nothing typed is lost.
+type dialog struct {
+	kind   dialogKind
+	title  string
+	intro  []string
+	fields []dialogField
+	row    int
+	err    string
+}
+
+// staleState is the choice after a save found a newer revision.
+type staleState struct {
+	info   sessions.StaleError
+	latest *sessions.Revision // the newest revision's record, when readable
+	req    saveRequest
+	err    string
+}
+
+// confirmKind is what a confirmation is for.
+type confirmKind int
+
+const (
+	confirmNone confirmKind = iota
+	confirmRestore
+	confirmOpen
+)
+
+// confirmState is a yes/no question before an action.
+type confirmState struct {
+	kind  confirmKind
+	title string
+	lines []string
+	yes   string // what y does
+	name  string
+	rev   int
+	back  screen
+}
+
+// draftOffer is a recovery draft found at start or on opening a session.
+type draftOffer struct {
+	draft   *sessions.Draft
+	changes []sessions.Change
+}
+
+// ---------------------------------------------------------------- opening
+
+// openSave opens the save dialog: the next revision of the session in
+// force, or with asNew (and before the first save) a new session.
+func (m *Model) openSave(asNew bool) {
+	if m.sess.store == nil {
+		m.note = m.sess.noStoreText("saving")
+		return
+	}
+	title := m.title()
+	if asNew || m.sess.name == "" {
+		name := m.sess.suggest
+		intro := "A session keeps every revision you save; nothing is overwritten."
+		heading := "Save the junction as a session"
+		if m.sess.name != "" {
+			name = m.sess.name + "-copy"
+			if len(name) > nameRunes {
+				name = name[:nameRunes]
+			}
+			intro = fmt.Sprintf("A new session starts from what is in force; %s keeps its revisions as they are.", m.sess.name)
+			heading = "Save as a new session"
+		}
+		m.dlg = m.saveNewDialog(heading, intro, name, title, "")
+	} else {
+		m.dlg = dialog{kind: dlgSave, title: fmt.Sprintf("Save %s as revision %d", m.sess.name, m.sess.rev+1),
+			intro: []string{fmt.Sprintf("Revision %d and older stay as they are.", m.sess.rev)},
+			fields: []dialogField{
+				{label: "Title", hint: "what the session is about (up to 200 characters)", ed: newLineEditorN(title, titleRunes)},
+				{label: "Note", hint: "optional: a line for the session's notes, dated and signed", ed: newLineEditorN("", noteRunes)},
+			}, row: 1}
+	}
+	m.screen = screenDialog
+}
+
+func (m Model) saveNewDialog(heading, intro, name, title, note string) dialog {
+	return dialog{kind: dlgSaveNew, title: heading, intro: []string{intro},
+		fields: []dialogField{
+			{label: "Session name", hint: "1 to 64 letters, digits, '-', '_' or '.', e.g. d7-lot417", ed: newLineEditorN(name, nameRunes)},
+			{label: "Title", hint: "what the session is about (up to 200 characters)", ed: newLineEditorN(title, titleRunes)},
+			{label: "Note", hint: "optional: a line for the session's notes, dated and signed", ed: newLineEditorN(note, noteRunes)},
+		}}
+}
+
+// openNote opens the note dialog: a review note in review mode, else a
+// session note.
+func (m *Model) openNote() {
+	if m.sess.readOnly {
+		if m.sess.addReview == nil {
+			m.note = "review notes cannot be added here: this workbench has no review service"
+			return
+		}
+		m.dlg = dialog{kind: dlgReview, title: "Add a review note",
+			intro:  []string{fmt.Sprintf("The note is kept with the session, signed %s and dated.", m.sess.user)},
+			fields: []dialogField{{label: "Note", hint: "your remark for the session's owner", ed: newLineEditorN("", noteRunes)}}}
+	} else {
+		m.dlg = dialog{kind: dlgNote, title: "Add a note to the session",
+			intro:  []string{"The note is dated and signed, and saved with the next save (ctrl+s)."},
+			fields: []dialogField{{label: "Note", hint: "e.g. lifetime from the decay of wafer 3", ed: newLineEditorN("", noteRunes)}}}
+	}
+	m.screen = screenDialog
+}
+
+// openCopy opens the dialog that copies a reviewed session into the
+// user's own sessions.
+func (m *Model) openCopy() {
+	if m.sess.copyToOwn == nil && m.sess.store == nil {
+		m.note = m.sess.noStoreText("copying into your own sessions")
+		return
+	}
+	name := m.sess.name
+	if name == "" {
+		name = "review-copy"
+	} else if len(name)+5 <= nameRunes {
+		name += "-mine"
+	}
+	m.dlg = dialog{kind: dlgCopy, title: "Copy into your own sessions",
+		intro:  []string{"The copy is yours to change; the reviewed session stays as it is."},
+		fields: []dialogField{{label: "Session name", hint: "1 to 64 letters, digits, '-', '_' or '.'", ed: newLineEditorN(name, nameRunes)}}}
+	m.screen = screenDialog
+}
+
+// ---------------------------------------------------------------- keys
+
+func (m Model) dialogKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
+	k := m.e.keys
+	d := &m.dlg
+	switch {
+	case km.String() == "ctrl+c":
+		return m.quit()
+	case keyIs(km, k.Dismiss):
+		m.screen = screenMain
+		m.quitAfterSave = false
+		switch d.kind {
+		case dlgSave, dlgSaveNew, dlgCopy:
+			m.note = "not saved; your edits are kept"
+		default:
+			m.note = "no note added"
+		}
+		return m, nil
+	case keyIs(km, k.Submit):
+		return m.submitDialog()
+	case keyIs(km, k.NextField):
+		d.row = (d.row + 1) % len(d.fields)
+		return m, nil
+	case keyIs(km, k.PrevField):
+		d.row = (d.row + len(d.fields) - 1) % len(d.fields)
+		return m, nil
+	}
+	if d.row >= 0 && d.row < len(d.fields) {
+		if _, changed := d.fields[d.row].ed.handle(km); changed {
+			d.fields[d.row].err = ""
+		}
+	}
+	return m, nil
+}
+
+func (m Model) submitDialog() (tea.Model, tea.Cmd) {
+	d := &m.dlg
+	for i := range d.fields {
+		d.fields[i].err = ""
+	}
+	d.err = ""
+	switch d.kind {
+	case dlgSave, dlgSaveNew:
+		req := saveRequest{name: m.sess.name}
+		f := d.fields
+		if d.kind == dlgSaveNew {
+			req.name, req.asNew = f[0].value(), true
+			f = f[1:]
+		}
+		req.title, req.note = f[0].value(), f[1].value()
+		if d.kind == dlgSaveNew {
+			if err := checkNewName(req.name); err != nil {
+				d.fields[0].err = err.Error()
+				d.row = 0
+				return m, nil
+			}
+		}
+		err := m.save(req, false)
+		return m.afterSave(req, err)
+	case dlgNote:
+		if err := m.addNote(d.fields[0].ed.value()); err != nil {
+			d.fields[0].err = err.Error()
+			return m, nil
+		}
+	case dlgReview:
+		if err := m.addReview(d.fields[0].ed.value()); err != nil {
+			d.fields[0].err = err.Error()
+			return m, nil
+		}
+	case dlgCopy:
+		cmd, err := m.copyToOwn(d.fields[0].value())
+		if err != nil {
+			d.fields[0].err = err.Error()
+			return m, nil
+		}
+		m.screen = screenMain
+		return m, cmd
+	}
+	m.screen = screenMain
+	return m, nil
+}
+
+// afterSave shows the outcome of a save: the workbench on success (or
+// quits when the save came from the quit question), else the error in
+// place, or the choice when the revision the edits started from is no
+// longer the newest.
+func (m Model) afterSave(req saveRequest, err error) (tea.Model, tea.Cmd) {
+	if err == nil {
+		m.screen = screenMain
+		if m.quitAfterSave {
+			return m, tea.Quit
+		}
+		return m, nil
+	}
+	var se *sessions.StaleError
+	var ne *sessions.NameError
+	var ee *sessions.ExistsError
+	var nf *sessions.NotFoundError
+	switch {
+	case errors.As(err, &se) && !req.asNew:
+		m.stale = staleState{info: *se, req: req}
+		if hist, _, herr := m.sess.store.History(se.Session); herr == nil && len(hist) > 0 {
+			r := hist[len(hist)-1]
+			m.stale.latest = &r
+		}
+		m.screen = screenStale
+		return m, nil
+	case errors.As(err, &se):
+		m.dlg.fields[0].err = fmt.Sprintf("a session named %s already exists (revision %d): choose another name, or open it with ctrl+o", req.name, se.Latest)
+		m.dlg.row = 0
+	case req.asNew && (errors.As(err, &ne) || errors.As(err, &ee)):
+		m.dlg.fields[0].err = err.Error()
+		m.dlg.row = 0
+	case !req.asNew && errors.As(err, &nf):
+		m.dlg = m.saveNewDialog("Save as a new session", "", req.name+"-copy", req.title, req.note)
+		m.dlg.err = err.Error() + ". Give a name to save your edits as a new session."
+	default:
+		m.dlg.err = "not saved: " + err.Error() + ". Your edits are kept."
+	}
+	m.screen = screenDialog
+	return m, nil
+}
+
+func (m Model) staleKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
+	k := m.e.keys
+	switch {
+	case km.String() == "ctrl+c":
+		return m.quit()
+	case keyIs(km, k.SaveNext):
+		req := m.stale.req
+		req.name = m.stale.info.Session
+		if err := m.save(req, true); err != nil {
+			m.stale.err = "not saved: " + err.Error() + ". Your edits are kept."
+			return m, nil
+		}
+		m.screen = screenMain
+		if m.quitAfterSave {
+			return m, tea.Quit
+		}
+	case keyIs(km, k.SaveCopy):
+		r := m.stale.req
+		name := m.stale.info.Session + "-copy"
+		if len(name) > nameRunes {
+			name = name[:nameRunes]
+		}
+		m.dlg = m.saveNewDialog("Save your edits as a new session",
+			fmt.Sprintf("%s keeps its revisions as they are; your edits become revision 1 of the new session.", m.stale.info.Session),
+			name, r.title, r.note)
+		m.screen = screenDialog
+	case keyIs(km, k.ShowNewer):
+		in := m.stale.info
+		if in.Base < 1 {
+			m.stale.err = "your edits did not start from a revision of this session, so there is no older side to compare"
+			return m, nil
+		}
+		if err := m.showDiff(in.Session, in.Base, in.Latest, screenStale); err != nil {
+			m.stale.err = err.Error()
+		}
+	case keyIs(km, k.Dismiss):
+		m.screen = screenMain
+		m.quitAfterSave = false
+		m.note = "not saved; your edits are kept (ctrl+s tries again)"
+	}
+	return m, nil
+}
+
+func (m Model) confirmKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
+	k := m.e.keys
+	c := m.conf
+	switch {
+	case km.String() == "ctrl+c":
+		return m.quit()
+	case keyIs(km, k.Yes):
+		m.conf = confirmState{}
+		switch c.kind {
+		case confirmRestore:
+			return m.restoreRevision(c.name, c.rev)
+		case confirmOpen:
+			m.discardDraft()
+			return m.openStored(c.name, c.rev, c.back)
+		}
+		m.screen = c.back
+	case keyIs(km, k.No):
+		m.conf = confirmState{}
+		m.screen = c.back
+		m.note = "nothing changed"
+	}
+	return m, nil
+}
+
+func (m Model) draftKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
+	k := m.e.keys
+	switch {
+	case keyIs(km, k.DraftRestore):
+		cmd := m.restoreDraft()
+		return m, cmd
+	case keyIs(km, k.DraftDiscard):
+		m.offer = draftOffer{}
+		m.screen = screenMain
+		if err := m.sess.store.DiscardDraft(m.draftName(), m.sess.editor); err != nil {
+			m.note = "the draft could not be removed: " + err.Error()
+		} else {
+			m.note = "draft discarded"
+		}
+	case keyIs(km, k.DraftLater), km.String() == "ctrl+c":
+		return m, tea.Quit
+	}
+	return m, nil
+}
+
+// ---------------------------------------------------------------- views
+
+// frame draws a titled box of body lines in the middle of w x h.
+func (m Model) frame(title string, body []string, w, h int) []string {
+	st, g := m.e.st, m.e.g
+	bw := m.frameWidth(w)
+	lines := append([]string{rule(title, bw, glyphs{hbar: g.hbarHeavy}, st.heading), ""}, body...)
+	top := max((h-len(lines))/2, 0)
+	left := max((w-bw)/2, 0)
+	out := make([]string, top, top+len(lines))
+	for _, l := range lines {
+		out = append(out, strings.Repeat(" ", left)+padRight(l, bw, g.ellipsis))
+	}
+	return block(out, w, h, g.ellipsis)
+}
+
+func (m Model) frameWidth(w int) int { return max(min(w-4, 88), 10) }
+
+// wrapped wraps text to the frame and paints every line.
+func wrapped(text string, w int, paint ink, indent string) []string {
+	var out []string
+	for _, l := range wrapText(text, max(w-len(indent), 8)) {
+		out = append(out, indent+paint.Paint(l))
+	}
+	return out
+}
+
+func (m Model) dialogScreen(w, h int) []string {
+	st, g := m.e.st, m.e.g
+	d := m.dlg
+	bw := m.frameWidth(w)
+	var body []string
+	for _, t := range d.intro {
+		if t != "" {
+			body = append(body, wrapped(t, bw, st.muted, "")...)
+		}
+	}
+	if len(body) > 0 {
+		body = append(body, "")
+	}
+	labelW := 0
+	for _, f := range d.fields {
+		labelW = max(labelW, width(f.label))
+	}
+	labelW += 2
+	boxW := max(bw-labelW-4, 6)
+	for i, f := range d.fields {
+		mark := "  "
+		box := padRight(f.ed.value(), boxW, g.ellipsis)
+		label := padRight(f.label, labelW, g.ellipsis)
+		if i == d.row {
+			mark = st.accent.Paint(g.cursor) + " "
+			box = f.ed.view(boxW, st.selected, " ")
+			label = st.strong.Paint(label)
+		}
+		body = append(body, mark+label+"["+box+"]")
+		indent := strings.Repeat(" ", labelW+3)
+		switch {
+		case f.err != "":
+			body = append(body, wrapped(g.bad+" "+f.err, bw, st.err, indent)...)
+		case i == d.row && f.hint != "":
+			body = append(body, wrapped(f.hint, bw, st.faint, indent)...)
+		}
+	}
+	if d.err != "" {
+		body = append(body, "")
+		body = append(body, wrapped(g.bad+" "+d.err, bw, st.err, "")...)
+	}
+	return m.frame(d.title, body, w, h)
+}
+
+func (m Model) staleScreen(w, h int) []string {
+	st, g := m.e.st, m.e.g
+	s := m.stale
+	bw := m.frameWidth(w)
+	in := s.info
+	var body []string
+	who := ""
+	if s.latest != nil {
+		who = fmt.Sprintf(", saved %s by %s", stamp(s.latest.Meta.Modified), dashed(s.latest.Meta.SavedBy))
+	}
+	if in.Base < 1 {
+		body = append(body, wrapped(fmt.Sprintf("Session %s already exists: its newest revision is %d%s.", in.Session, in.Latest, who), bw, st.text, "")...)
+	} else {
+		body = append(body, wrapped(fmt.Sprintf("Session %s has revision %d%s, newer than revision %d your edits started from.", in.Session, in.Latest, who, in.Base), bw, st.text, "")...)
+	}
+	body = append(body, "")
+	body = append(body, wrapped("Nothing is saved yet and your edits are kept. Choose:", bw, st.muted, "")...)
+	k := m.e.keys
+	opt := func(b key.Binding, text string) {
+		body = append(body, "  "+st.keyName.Paint(padRight(b.Help().Key, 5, ""))+" "+text)
+	}
+	opt(k.SaveNext, fmt.Sprintf("save as the next revision anyway (revision %d stays as it is)", in.Latest))
+	opt(k.SaveCopy, "save as a copy under a new name")
+	if in.Base >= 1 {
+		opt(k.ShowNewer, fmt.Sprintf("see what revision %d changed against revision %d", in.Latest, in.Base))
+	}
+	opt(k.Dismiss, "back to the workbench without saving")
+	if s.err != "" {
+		body = append(body, "")
+		body = append(body, wrapped(g.bad+" "+s.err, bw, st.err, "")...)
+	}
+	return m.frame("A newer revision exists", body, w, h)
+}
+
+func (m Model) confirmScreen(w, h int) []string {
+	st := m.e.st
+	c := m.conf
+	bw := m.frameWidth(w)
+	var body []string
+	for _, l := range c.lines {
+		body = append(body, wrapped(l, bw, st.text, "")...)
+	}
+	body = append(body, "", st.keyName.Paint("y")+" "+c.yes+"    "+st.keyName.Paint("n")+" or "+st.keyName.Paint("esc")+" cancel")
+	return m.frame(c.title, body, w, h)
+}
+
+func (m Model) draftScreen(w, h int) []string {
+	st := m.e.st
+	d := m.offer.draft
+	bw := m.frameWidth(w)
+	var body []string
+	if d == nil {
+		return m.frame("Recovery draft", nil, w, h)
+	}
+	what := "the junction that had not been saved yet"
+	if d.Session != sessions.UnnamedDraft {
+		what = "session " + d.Session
+		if d.Base > 0 {
+			what += fmt.Sprintf(" (started from revision %d)", d.Base)
+		}
+	}
+	body = append(body, wrapped(fmt.Sprintf("The workbench stopped with unsaved changes to %s. A recovery draft of them was kept on %s.", what, stamp(d.Saved)), bw, st.text, "")...)
+	body = append(body, "", st.strong.Paint("The draft against what is open now ("+plural(len(m.offer.changes), "change", "changes")+")"))
+	room := max(h-len(body)-7, 3)
+	rows := m.changeLines(m.offer.changes, bw)
+	if len(rows) > room {
+		more := len(rows) - room + 1
+		rows = append(rows[:room-1], st.faint.Paint(fmt.Sprintf("  %s and %d more lines", m.e.g.ellipsis, more)))
+	}
+	body = append(body, rows...)
+	k := m.e.keys
+	body = append(body, "",
+		st.keyName.Paint(k.DraftRestore.Help().Key)+" restore the draft    "+
+			st.keyName.Paint(k.DraftDiscard.Help().Key)+" discard it    "+
+			st.keyName.Paint(k.DraftLater.Help().Key)+" quit and decide later")
+	return m.frame("A recovery draft was kept", body, w, h)
+}
+
+func dashed(s string) string {
+	if strings.TrimSpace(s) == "" {
+		return "-"
+	}
+	return s
+}
+
+// ---------------------------------------------------------------- help
+
+type textDialogHelp struct{ k KeyMap }
+
+func (h textDialogHelp) ShortHelp() []key.Binding {
+	k := h.k
+	return []key.Binding{k.Submit, k.NextField, k.PrevField, k.ClearToStart, k.Dismiss}
+}
+func (h textDialogHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
+
+type staleHelp struct{ k KeyMap }
+
+func (h staleHelp) ShortHelp() []key.Binding {
+	return []key.Binding{h.k.SaveNext, h.k.SaveCopy, h.k.ShowNewer, h.k.Dismiss}
+}
+func (h staleHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
+
+type confirmHelp struct {
+	k   KeyMap
+	yes string
+}
+
+func (h confirmHelp) ShortHelp() []key.Binding {
+	return []key.Binding{key.NewBinding(key.WithKeys("y"), key.WithHelp("y", h.yes)),
+		key.NewBinding(key.WithKeys("n", "esc"), key.WithHelp("n/esc", "cancel"))}
+}
+func (h confirmHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
+
+type draftHelp struct{ k KeyMap }
+
+func (h draftHelp) ShortHelp() []key.Binding {
+	return []key.Binding{h.k.DraftRestore, h.k.DraftDiscard, h.k.DraftLater}
+}
+func (h draftHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
