@@ -326,3 +326,71 @@ func driveClient(addr string, u sshUser, keys int) ([]time.Duration, error) {
 	}
 	return lat, nil
 }
+
+// A session shared with Bob opens read-only for him over SSH; the review
+// note he writes in the workbench reaches Ada; once unshared it no longer
+// opens.
+func TestServeReviewMode(t *testing.T) {
+	ada, bob := newSSHUser(t, "ada"), newSSHUser(t, "bob")
+	addr, data, app := startJunco(t, ada, bob)
+	saveFor(t, data, "ada", "d7")
+	if err := app.shares.Set("ada", "d7", []string{"bob"}); err != nil {
+		t.Fatal(err)
+	}
+	c, err := gossh.Dial("tcp", addr, &gossh.ClientConfig{User: "bob", Auth: []gossh.AuthMethod{gossh.PublicKeys(bob.signer)},
+		HostKeyCallback: gossh.InsecureIgnoreHostKey(), Timeout: 5 * time.Second})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer c.Close()
+	s, err := c.NewSession()
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := &lockedBuffer{}
+	s.Stdout = out
+	in, _ := s.StdinPipe()
+	if err := s.RequestPty("xterm-256color", 40, 120, gossh.TerminalModes{}); err != nil {
+		t.Fatal(err)
+	}
+	if err := s.Start("review ada/d7"); err != nil {
+		t.Fatal(err)
+	}
+	wait := func(want string) {
+		t.Helper()
+		deadline := time.Now().Add(10 * time.Second)
+		for time.Now().Before(deadline) {
+			if strings.Contains(out.String(), want) {
+				return
+			}
+			time.Sleep(20 * time.Millisecond)
+		}
+		t.Fatalf("screen never showed %q", want)
+	}
+	wait("review (read-only)")
+	io.WriteString(in, "n")
+	time.Sleep(200 * time.Millisecond)
+	io.WriteString(in, "series resistance looks high")
+	time.Sleep(200 * time.Millisecond)
+	io.WriteString(in, "\r")
+	wait("review note added")
+	if out, _, err := sshRun(t, addr, ada, "sessions show d7"); err != nil || !strings.Contains(out, "series resistance looks high") || !strings.Contains(out, "bob") {
+		t.Errorf("the review note did not reach the owner: %q %v", out, err)
+	}
+	if err := app.shares.Set("ada", "d7", nil); err != nil {
+		t.Fatal(err)
+	}
+	c2, err := gossh.Dial("tcp", addr, &gossh.ClientConfig{User: "bob", Auth: []gossh.AuthMethod{gossh.PublicKeys(bob.signer)},
+		HostKeyCallback: gossh.InsecureIgnoreHostKey(), Timeout: 5 * time.Second})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer c2.Close()
+	s2, _ := c2.NewSession()
+	var errb bytes.Buffer
+	s2.Stderr = &errb
+	_ = s2.RequestPty("xterm", 24, 80, gossh.TerminalModes{})
+	if err := s2.Run("review ada/d7"); err == nil || !strings.Contains(errb.String(), "no session") {
+		t.Errorf("unshared session still opens for review: %v %q", err, errb.String())
+	}
+}

@@ -12,6 +12,7 @@ import (
 	"io"
 	"os"
 	"os/signal"
+	"strings"
 	"syscall"
 )
 
@@ -31,8 +32,8 @@ const (
 
 // run dispatches a subcommand and returns the process exit code.
 func run(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) int {
-	if len(args) == 0 {
-		return runWorkbench(ctx, nil, stdout, stderr)
+	if len(args) == 0 || (strings.HasPrefix(args[0], "-") && args[0] != "-h" && args[0] != "--help" && args[0] != "--version") {
+		return runWorkbench(ctx, args, stdout, stderr)
 	}
 	switch args[0] {
 	case "calc":
