@@ -10,7 +10,7 @@ import (
 // Solid-State Electron. 19, 857 (1976) (V1 9 mV, N0 1e17 cm^-3, C 0.5) and
 // the Klaassen, Slotboom & de Graaff, Solid-State Electron. 35, 125 (1992)
 // revision (V1 6.92 mV, N0 1.3e17 cm^-3); spot values computed from those
-// parameters (shared/REFERENCE-VALUES.md section 5), compared to the
+// parameters (computed), compared to the
 // printed 0.1 meV.
 func TestBandGapNarrowingSpotValues(t *testing.T) {
 	si, _ := MaterialByName("si")

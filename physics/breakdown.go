@@ -218,10 +218,32 @@ type Breakdown struct {
 	// NB = NaNd/(Na+Nd); graded: 60 (Eg/1.1)^1.2 (a/3e20 cm^-4)^-0.4 V),
 	// for comparison.
 	SzeGibbons float64
+	// AvalancheVoltage is the avalanche breakdown voltage (V, positive)
+	// from the ionisation integral (equal to Voltage).
+	AvalancheVoltage float64
+	// TunnellingVoltage is the reverse bias (V, positive) at which the peak
+	// field reaches TunnellingField: the onset of Zener breakdown; NaN
+	// when the junction punches through first.
+	TunnellingVoltage float64
+	// Effective is the lower of the avalanche and tunnelling voltages: the
+	// breakdown a user will meet first.
+	Effective  float64
 	Converged  bool
 	Iterations int
 	Model      string
 }
+
+// TunnellingField returns the peak field (V/m) at which band-to-band
+// (Zener) tunnelling sets in for a band gap eg (eV).
+//
+// Formula: E_t = 1e8 V/m (eg / 1.12 eV)^(3/2). The 1e6 V/cm for silicon is
+// the field at which tunnelling breakdown is usually placed (Sze & Ng 2007,
+// section 2.4.1; from memory); the Eg^(3/2) scaling to other materials
+// follows the exponent of the Kane tunnelling rate, exp(-pi m*^(1/2)
+// Eg^(3/2) / (2 sqrt(2) q hbar E)), at equal effective mass (E. O. Kane,
+// J. Phys. Chem. Solids 12, 181 (1960); the scaling is an approximation of
+// our own). Valid as an order-of-magnitude onset, not a current.
+func TunnellingField(eg float64) float64 { return 1e8 * math.Pow(eg/1.12, 1.5) }
 
 // defaultLayerThickness is the thickness assumed for a long region in
 // breakdown and series resistance when the user gives none: 300 um, a

@@ -22,7 +22,8 @@ func oneSided(t testing.TB, mat string, nb float64) *Static {
 // coefficient sets behind them (Sze & Gibbons fitted earlier ionisation
 // data; the spread between published calculations is tens of percent, e.g.
 // 53.4 V by Baliga's power law against 60 V at 1e16 cm^-3,
-// shared/REFERENCE-VALUES.md section 7); computed ratios here are 0.72,
+// Baliga, Fundamentals of Power Semiconductor Devices, 2008, ch. 3, from
+// memory); computed ratios here are 0.72,
 // 0.83 and 1.25 at 1e15, 1e16 and 1e17 cm^-3. Tolerance: x0.65..x1.35.
 func TestBreakdownSzeGibbonsAbrupt(t *testing.T) {
 	for _, nb := range []float64{1e15, 1e16, 1e17} {
@@ -62,7 +63,7 @@ func TestBreakdownSzeGibbonsGraded(t *testing.T) {
 
 // 4H-SiC: the critical field at breakdown against Konstantinov et al.,
 // Appl. Phys. Lett. 71, 90 (1997), Ec = 2.49/(1 - 0.25 log10(N/1e16))
-// MV/cm (formula from memory; shared/REFERENCE-VALUES.md section 7), with
+// MV/cm (formula from memory), with
 // the Hatakeyama 2004 coefficients; computed ratios 1.13, 1.08, 1.00.
 // Tolerance 20%.
 func TestBreakdown4HSiCCriticalField(t *testing.T) {
@@ -209,5 +210,33 @@ func BenchmarkAtAllEffects(b *testing.B) {
 	for i := 0; i < b.N; i++ {
 		s.At(0.65)
 		s.At(-5)
+	}
+}
+
+// Zener onset: for a heavily doped silicon junction the peak field reaches
+// the tunnelling field 1e6 V/cm (Sze & Ng 2007, section 2.4.1; from memory)
+// before avalanche, the effective breakdown is that bias, and there the
+// depletion-approximation peak field equals TunnellingField (identity).
+func TestTunnellingBreakdown(t *testing.T) {
+	if e := TunnellingField(1.12); math.Abs(e-1e8) > 1e-6 {
+		t.Fatalf("TunnellingField(1.12 eV) = %g V/m", e)
+	}
+	m, _ := MaterialByName("si")
+	inf := math.Inf(1)
+	d := Device{Material: m, Na: 5e18 * perCm3, Nd: 1e18 * perCm3, Temperature: 300, Area: 1e-6,
+		Wp: inf, Wn: inf, Sp: inf, Sn: inf, Effects: Effects{Breakdown: true}}
+	s := prep(t, d)
+	b := s.Breakdown
+	if !(b.TunnellingVoltage > 0 && b.TunnellingVoltage < b.AvalancheVoltage && b.Effective == b.TunnellingVoltage) {
+		t.Fatalf("tunnelling %g, avalanche %g, effective %g", b.TunnellingVoltage, b.AvalancheVoltage, b.Effective)
+	}
+	dep := s.Junction.Solve(s.Vbi, -b.TunnellingVoltage)
+	if r := math.Abs(dep.PeakField-TunnellingField(s.Eg)) / TunnellingField(s.Eg); r > 1e-6 {
+		t.Errorf("peak field at the Zener onset %g V/m, want %g", dep.PeakField, TunnellingField(s.Eg))
+	}
+	// A lightly doped junction breaks down by avalanche.
+	light := oneSided(t, "si", 1e15)
+	if light.Breakdown.Effective != light.Breakdown.AvalancheVoltage || !math.IsNaN(light.Breakdown.TunnellingVoltage) {
+		t.Errorf("1e15 cm^-3: effective %g, avalanche %g, tunnelling %g", light.Breakdown.Effective, light.Breakdown.AvalancheVoltage, light.Breakdown.TunnellingVoltage)
 	}
 }

@@ -106,7 +106,8 @@ func (s *Static) prepareEffects() error {
 	}
 
 	s.Breakdown = Breakdown{Voltage: math.NaN(), PeakField: math.NaN(), Width: math.NaN(), Xp: math.NaN(), Xn: math.NaN(),
-		PunchThroughVoltage: math.NaN(), TunnellingLimit: 4 * s.Eg, SzeGibbons: math.NaN()}
+		PunchThroughVoltage: math.NaN(), TunnellingLimit: 4 * s.Eg, SzeGibbons: math.NaN(),
+		AvalancheVoltage: math.NaN(), TunnellingVoltage: math.NaN(), Effective: math.NaN()}
 	if e.Breakdown {
 		s.computeBreakdown()
 	}
@@ -172,7 +173,18 @@ func (s *Static) computeBreakdown() {
 	}
 	vr, w, up, un := a.reverse(e0)
 	b.Voltage, b.PeakField, b.Width, b.Xp, b.Xn = vr, e0, w, up, un
+	b.AvalancheVoltage, b.Effective = vr, vr
 	s.aval = a
+	if et := TunnellingField(s.Eg); et < e0 {
+		if vt, _, _, _ := a.reverse(et); vt > 0 {
+			b.TunnellingVoltage = vt
+			b.Effective = math.Min(vr, vt)
+			s.Flags = append(s.Flags, Flag{FlagTunnelling, []string{"breakdown"},
+				fmt.Sprintf("the peak field reaches the tunnelling field %.3g V/cm at %.3g V reverse, before avalanche at %.3g V: Zener breakdown comes first", et/100, vt, vr)})
+		} else {
+			b.TunnellingVoltage, b.Effective = 0, 0
+		}
+	}
 	// Punch-through: a natural depletion edge beyond its layer at breakdown.
 	k := Q / s.Junction.Eps
 	vpt := math.Inf(1)

@@ -6,8 +6,8 @@ import (
 )
 
 // Spot values of the Masetti model computed from Masetti, Severi & Solmi,
-// IEEE Trans. Electron Devices ED-30, 764 (1983), Table I (as tabulated in a
-// reference-value sheet, cm^2/(V s), 300 K).
+// IEEE Trans. Electron Devices ED-30, 764 (1983), Table I (computed from the
+// table's parameters, cm^2/(V s), 300 K).
 func TestMasettiSpotValues(t *testing.T) {
 	si := mustMaterial(t, "si")
 	cases := []struct {

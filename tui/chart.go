@@ -80,6 +80,8 @@ type chartModel struct {
 	seq, have int
 	lastReq   *chartRequest
 	data      *chartData
+	// num is the drift-diffusion side (solver mode).
+	num solverState
 
 	// Cached drawing, rebuilt by render in Update, never in View.
 	title          string
@@ -93,7 +95,7 @@ type chartModel struct {
 }
 
 func newChart(e env, s model.Spec) chartModel {
-	c := chartModel{e: e, kinds: chartKinds(e.ascii), spec: s,
+	c := chartModel{e: e, kinds: kindsFor(e.ascii, false), spec: s,
 		iv:   model.DefaultIVRange(),
 		cv:   model.Range{From: -5, To: 0.5, Step: 0.05},
 		temp: model.Range{From: 250, To: 400, Step: 5},
@@ -116,7 +118,7 @@ func (c *chartModel) SetSize(w, h int) tea.Cmd {
 
 func (c *chartModel) setEnv(e env) {
 	c.e = e
-	c.kinds = chartKinds(e.ascii)
+	c.kinds = kindsFor(e.ascii, c.num.on)
 	c.render()
 }
 
@@ -381,12 +383,14 @@ func chartCurve(c chartRequest, s model.Spec) (model.Curve, error) {
 			return is, err
 		}
 		return vf, err
+	case "carriers":
+		return model.Curve{ID: k.id}, nil // drawn from the solution
 	}
 	return model.Curve{}, fmt.Errorf("unknown chart %q", k.id)
 }
 
 // fixedRows is the number of panel rows around the plot.
-func (c chartModel) fixedRows(legendLines int) int { return 5 + legendLines }
+func (c chartModel) fixedRows(legendLines int) int { return 5 + legendLines + c.readoutRows() }
 
 // render redraws the plot from the curves at hand for the current size,
 // chart and drawing mode.
@@ -403,7 +407,15 @@ func (c *chartModel) render() {
 		return
 	}
 	cur, pinned := c.data.cur, c.data.pinned
+	cur, extra, exs, why, ok := c.overlay(k.id, cur)
+	if !ok {
+		c.curveErr = why
+		return
+	}
 	c.title = cur.Title
+	if len(extra) > 0 {
+		c.title += " " + g.dot + " with the drift-diffusion solution"
+	}
 
 	// Scale the x axis into its display unit.
 	xf, xUnit := axisFactor(cur.X, maxAbs(cur.Xs), c.e.ascii)
@@ -419,6 +431,7 @@ func (c *chartModel) render() {
 	if pinned != nil {
 		pxs = conv(pinned.Xs, xf)
 	}
+	nxs := conv(exs, xf)
 
 	// The y axis: linear in a display unit, or decades of |y|.
 	logY := k.log || cur.Y.Log
@@ -428,6 +441,13 @@ func (c *chartModel) render() {
 	}
 	if pinned != nil {
 		all = append(all, pinned.Series[0].Y...)
+	}
+	for _, s := range extra {
+		for j, y := range s.Y {
+			if j < len(exs) && finite(exs[j]) {
+				all = append(all, y)
+			}
+		}
 	}
 	var ys axisScale
 	var yConv func([]float64) []float64
@@ -441,7 +461,15 @@ func (c *chartModel) render() {
 	// Build legend first: its height fixes the plot height.
 	var items []string
 	for i, s := range cur.Series {
-		items = append(items, st.series[i%len(st.series)].Paint(g.markers[i%len(g.markers)])+" "+s.Label)
+		l := s.Label
+		if len(extra) > 0 {
+			l += " (analytic)"
+		}
+		items = append(items, st.series[i%len(st.series)].Paint(g.markers[i%len(g.markers)])+" "+l)
+	}
+	for i, s := range extra {
+		j := numericMarker(i, len(g.markers))
+		items = append(items, st.series[j%len(st.series)].Paint(g.markers[j])+" "+s.Label)
 	}
 	if pinned != nil {
 		items = append(items, st.pinSeries.Paint(g.pinMarker)+" pinned: "+pinned.Series[0].Label)
@@ -510,6 +538,11 @@ func (c *chartModel) render() {
 	var lines []plotLine
 	if pinned != nil {
 		lines = append(lines, plotLine{label: "pinned", xs: pxs, ys: yConv(pinned.Series[0].Y), paint: st.pinSeries, marker: g.pinMarker, pinned: true})
+	}
+	for i := len(extra) - 1; i >= 0; i-- {
+		j := numericMarker(i, len(g.markers))
+		lines = append(lines, plotLine{label: extra[i].Label, xs: nxs, ys: yConv(extra[i].Y),
+			paint: st.series[j%len(st.series)], marker: g.markers[j]})
 	}
 	for i := len(cur.Series) - 1; i >= 0; i-- {
 		s := cur.Series[i]
@@ -690,6 +723,9 @@ func (c chartModel) lines() []string {
 	if c.pending() {
 		busy = " " + g.dot + " computing" + g.ellipsis
 	}
+	if c.num.solving {
+		busy = " " + g.dot + " solving" + g.ellipsis
+	}
 	out = append(out, st.accent.Paint(pos)+st.strong.Paint(cut(c.title, max(w-width(pos)-width(busy), 0), g.ellipsis))+st.faint.Paint(busy))
 	if c.curveErr != "" || c.plot == nil {
 		msg := c.curveErr
@@ -697,13 +733,14 @@ func (c chartModel) lines() []string {
 		case msg != "":
 		case c.w < 16 || c.h < 8:
 			msg = "the chart needs more room: enlarge the terminal"
-		case c.pending():
+		case c.pending() || c.waiting():
 			msg = ""
 		default:
 			msg = "the chart needs more room: enlarge the terminal"
 		}
 		if msg == "" {
 			out = append(out, "", st.muted.Paint("computing the curves"+g.ellipsis), "")
+			out = append(out, c.readout(w)...)
 			out = append(out, c.sweepLines(w)...)
 			return block(out, w, h, g.ellipsis)
 		}
@@ -712,6 +749,7 @@ func (c chartModel) lines() []string {
 			out = append(out, st.err.Paint(l))
 		}
 		out = append(out, "")
+		out = append(out, c.readout(w)...)
 		out = append(out, c.sweepLines(w)...)
 		return block(out, w, h, g.ellipsis)
 	}
@@ -722,6 +760,7 @@ func (c chartModel) lines() []string {
 	}
 	out = append(out, c.plot...)
 	out = append(out, st.muted.Paint(padLeft(cut(c.xTitle, w, g.ellipsis), w)))
+	out = append(out, c.readout(w)...)
 	out = append(out, c.sweepLines(w)...)
 	return block(out, w, h, g.ellipsis)
 }

@@ -13,6 +13,9 @@ type KeyMap struct {
 	Help, Quit           key.Binding
 	Pin, Unpin           key.Binding
 	ASCII                key.Binding
+	// Solver switches the charts between the analytic model and the
+	// drift-diffusion solver.
+	Solver key.Binding
 	// Sessions. Save and SaveAs are off in review mode, where CopyOwn
 	// takes their keys; Note adds a session note, or in review mode a
 	// review note.
@@ -79,6 +82,7 @@ func DefaultKeyMap() KeyMap {
 		Pin:       b([]string{"p"}, "p", "pin as reference"),
 		Unpin:     b([]string{"u"}, "u", "drop the pin"),
 		ASCII:     b([]string{"a"}, "a", "ASCII/Unicode drawing"),
+		Solver:    b([]string{"m"}, "m", "solver on/off"),
 		Save:      b([]string{"ctrl+s"}, "ctrl+s", "save session"),
 		SaveAs:    b([]string{"S"}, "S", "save as a new session"),
 		Browse:    b([]string{"ctrl+o"}, "ctrl+o", "sessions and revisions"),
@@ -197,9 +201,9 @@ func (k KeyMap) forASCII(ascii bool) KeyMap {
 // globalBindings are the bindings shown in every panel's help.
 func (k KeyMap) globalBindings() []key.Binding {
 	if k.review {
-		return []key.Binding{k.NextPanel, k.PrevPanel, k.ASCII, k.Help, k.Quit}
+		return []key.Binding{k.NextPanel, k.PrevPanel, k.ASCII, k.Solver, k.Help, k.Quit}
 	}
-	return []key.Binding{k.NextPanel, k.PrevPanel, k.Pin, k.Unpin, k.ASCII, k.Help, k.Quit}
+	return []key.Binding{k.NextPanel, k.PrevPanel, k.Pin, k.Unpin, k.ASCII, k.Solver, k.Help, k.Quit}
 }
 
 // defineBindings are the keys of the definition panel.
@@ -280,9 +284,9 @@ func (h chartHelp) ShortHelp() []key.Binding {
 		return []key.Binding{k.Apply, k.Cancel, k.ApplyNext, k.ClearToStart}
 	}
 	if k.review {
-		return []key.Binding{k.NextChart, k.PrevChart, k.NextPanel, k.Note, k.CopyOwn, k.Help, k.Quit}
+		return []key.Binding{k.NextChart, k.PrevChart, k.Solver, k.NextPanel, k.Note, k.CopyOwn, k.Help, k.Quit}
 	}
-	return []key.Binding{k.NextChart, k.PrevChart, k.Sweep, k.NextPanel, k.Pin, k.Help, k.Quit, k.Save, k.CopyOwn}
+	return []key.Binding{k.NextChart, k.PrevChart, k.Sweep, k.Solver, k.NextPanel, k.Pin, k.Help, k.Quit, k.Save, k.CopyOwn}
 }
 
 func (h chartHelp) FullHelp() [][]key.Binding {

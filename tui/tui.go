@@ -344,7 +344,7 @@ func (m *Model) sync() tea.Cmd {
 		s := m.pin.Spec
 		pinSpec = &s
 	}
-	return m.chart.setSpec(m.form.spec, pinSpec)
+	return tea.Batch(m.chart.setSpec(m.form.spec, pinSpec), m.chart.solveRequest(m.form.spec, m.form.res))
 }
 
 // visible reports whether a panel shows in the current layout.
@@ -445,6 +445,9 @@ func (m Model) update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		return m, m.relayout()
 	case chartDataMsg:
 		m.chart.apply(msg)
+		return m, nil
+	case solveDoneMsg:
+		m.chart.applySolve(msg)
 		return m, nil
 	case draftTickMsg:
 		cmd := m.writeDraft()
@@ -579,6 +582,8 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		case keyIs(km, k.ASCII):
 			m.setASCII(!m.e.ascii)
 			return m, nil
+		case keyIs(km, k.Solver):
+			return m, m.toggleSolver()
 		}
 	}
 	var cmd tea.Cmd

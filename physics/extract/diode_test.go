@@ -8,7 +8,8 @@ import (
 )
 
 // Reference currents for Is = 1e-12 A, n = 1.5, Rs = 10 ohm, Rsh = 1e4 ohm,
-// "computed with mpmath at 40 digits" (reference-values sheet). The sheet
+// computed with mpmath at 40 digits from the Lambert-W forms of Banwell &
+// Jayakumar (2000) and Ortiz-Conde et al. (2000). The source of these vectors
 // states Vt = 0.0258520 V; its digits are reproduced to 1e-12 only with the
 // unrounded Vt = kT/q at 300 K = 0.02585199979 V (CODATA 2018 k and q), while
 // the rounded value shifts them by about 1e-7 relative (computed), so the
