@@ -198,28 +198,26 @@ func resultAt(s Spec, st *physics.Static, v float64) *Result {
 // attachFlags marks each quantity with the codes of flags that concern it,
 // matching a flag's quantity names against the quantity labels.
 func (r *Result) attachFlags() {
+	if len(r.Flags) == 0 {
+		return
+	}
+	parent := ""
 	for i := range r.Quantities {
 		q := &r.Quantities[i]
+		sub := strings.HasPrefix(q.Label, "  ")
+		if !sub {
+			parent = q.Label
+		}
 		label := strings.TrimSpace(q.Label)
 		for _, f := range r.Flags {
 			for _, name := range f.Quantities {
-				if name == "all" || strings.Contains(label, name) || (strings.HasPrefix(q.Label, "  ") && strings.Contains(r.parentLabel(i), name)) {
+				if name == "all" || strings.Contains(label, name) || (sub && strings.Contains(parent, name)) {
 					q.Flags = append(q.Flags, f.Code)
 					break
 				}
 			}
 		}
 	}
-}
-
-// parentLabel returns the label of the nearest preceding top-level quantity.
-func (r *Result) parentLabel(i int) string {
-	for j := i; j >= 0; j-- {
-		if !strings.HasPrefix(r.Quantities[j].Label, "  ") {
-			return r.Quantities[j].Label
-		}
-	}
-	return ""
 }
 
 // Get returns the value of the quantity with the given JSON key.
