@@ -261,28 +261,8 @@ func dash(s string) string {
 	return s
 }
 
-// table writes aligned columns.
-func table(w io.Writer, rows [][]string) {
-	width := map[int]int{}
-	for _, r := range rows {
-		for i, c := range r {
-			width[i] = max(width[i], len([]rune(c)))
-		}
-	}
-	for _, r := range rows {
-		var b strings.Builder
-		for i, c := range r {
-			if i > 0 {
-				b.WriteString("  ")
-			}
-			b.WriteString(c)
-			if i < len(r)-1 {
-				b.WriteString(strings.Repeat(" ", width[i]-len([]rune(c))))
-			}
-		}
-		fmt.Fprintln(w, strings.TrimRight(b.String(), " "))
-	}
-}
+// table writes aligned columns (sessions.WriteTable).
+func table(w io.Writer, rows [][]string) { sessions.WriteTable(w, rows) }
 
 func sessionsList(st *sessions.Store, stdout, stderr io.Writer) int {
 	list, probs, err := st.List()

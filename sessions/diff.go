@@ -516,12 +516,12 @@ func WriteChanges(w io.Writer, changes []Change) {
 	for _, c := range changes {
 		rows = append(rows, []string{c.Section, c.Quantity, c.Old, c.New, c.Delta})
 	}
-	writeTable(w, rows)
+	WriteTable(w, rows)
 }
 
-// writeTable writes rows as columns separated by two spaces, padded to
+// WriteTable writes rows as columns separated by two spaces, padded to
 // the widest cell (counted in runes).
-func writeTable(w io.Writer, rows [][]string) {
+func WriteTable(w io.Writer, rows [][]string) {
 	if len(rows) == 0 {
 		return
 	}
