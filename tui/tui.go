@@ -34,7 +34,7 @@ type Options struct {
 	// ASCII draws with plain ASCII characters only (see DetectASCII).
 	ASCII bool
 	// NoColor draws without colour (see DetectNoColor); bold, underline
-	// and reverse video still mark focus and state.
+	// and reversed colours still mark focus and state.
 	NoColor bool
 	// Spec is the junction to open; nil opens the built-in demo.
 	Spec *model.Spec
