@@ -25,6 +25,20 @@ func (a *serveApp) sessionOptions(c serve.Conn, o *tui.Options) error {
 		return err
 	}
 	o.Store, o.User, o.Now = own, c.User, a.now
+	owner := c.User
+	o.Share = func(name string, readers []string) error {
+		if _, err := own.Latest(name); err != nil {
+			return err
+		}
+		return a.shares.Set(owner, name, readers)
+	}
+	o.Readers = func(name string) []string {
+		sh, ok, err := a.shares.Get(owner, name)
+		if err != nil || !ok {
+			return nil
+		}
+		return sh.Readers
+	}
 	if len(c.Args) == 0 {
 		return nil
 	}
@@ -57,6 +71,7 @@ func (a *serveApp) sessionOptions(c serve.Conn, o *tui.Options) error {
 			return fmt.Errorf("review %s: %w", c.Args[1], err)
 		}
 		o.Document, o.Revision, o.ReadOnly = doc, rev.Number, true
+		o.Share, o.Readers = nil, nil
 		o.Name = owner + "/" + name
 		reviewer := c.User
 		o.AddReview = func(text string) error {

@@ -394,3 +394,51 @@ func TestServeReviewMode(t *testing.T) {
 		t.Errorf("unshared session still opens for review: %v %q", err, errb.String())
 	}
 }
+
+// The owner shares a session from the workbench over SSH; the reviewer
+// then finds it in `sessions list`.
+func TestServeOwnerSharesFromWorkbench(t *testing.T) {
+	ada, bob := newSSHUser(t, "ada"), newSSHUser(t, "bob")
+	addr, data, _ := startJunco(t, ada, bob)
+	saveFor(t, data, "ada", "d7")
+	c, err := gossh.Dial("tcp", addr, &gossh.ClientConfig{User: "ada", Auth: []gossh.AuthMethod{gossh.PublicKeys(ada.signer)},
+		HostKeyCallback: gossh.InsecureIgnoreHostKey(), Timeout: 5 * time.Second})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer c.Close()
+	s, err := c.NewSession()
+	if err != nil {
+		t.Fatal(err)
+	}
+	out := &lockedBuffer{}
+	s.Stdout = out
+	in, _ := s.StdinPipe()
+	if err := s.RequestPty("xterm-256color", 40, 120, gossh.TerminalModes{}); err != nil {
+		t.Fatal(err)
+	}
+	if err := s.Start("open d7"); err != nil {
+		t.Fatal(err)
+	}
+	wait := func(want string) {
+		t.Helper()
+		deadline := time.Now().Add(10 * time.Second)
+		for time.Now().Before(deadline) {
+			if strings.Contains(out.String(), want) {
+				return
+			}
+			time.Sleep(20 * time.Millisecond)
+		}
+		t.Fatalf("screen never showed %q", want)
+	}
+	wait("d7")
+	io.WriteString(in, "\x12") // ctrl+r
+	wait("Reviewers")
+	io.WriteString(in, "bob")
+	time.Sleep(200 * time.Millisecond)
+	io.WriteString(in, "\r")
+	wait("shared d7 read-only with bob")
+	if out, _, err := sshRun(t, addr, bob, "sessions list"); err != nil || !strings.Contains(out, "ada/d7") {
+		t.Errorf("bob does not see the shared session: %q %v", out, err)
+	}
+}

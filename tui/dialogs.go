@@ -28,6 +28,7 @@ const (
 	dlgNote                      // a session note
 	dlgReview                    // a review note
 	dlgCopy                      // a copy in the user's own sessions: name
+	dlgShare                     // who may review the saved session
 )
 
 // dialogField is one text box of a dialog.
@@ -146,6 +147,37 @@ func (m *Model) openNote() {
 	m.screen = screenDialog
 }
 
+// openShare opens the dialog that shares the saved session read-only
+// with other users of the server.
+func (m *Model) openShare() {
+	switch {
+	case m.sess.readOnly:
+		m.note = "read-only review: only the owner can share this session"
+		return
+	case m.sess.share == nil:
+		m.note = "sharing needs the workbench served to a group (junco serve); here there is nobody to share with"
+		return
+	case m.sess.name == "":
+		m.note = "save the session first (ctrl+s): only saved sessions can be shared"
+		return
+	}
+	var now []string
+	if m.sess.readers != nil {
+		now = m.sess.readers(m.sess.name)
+	}
+	m.dlg = dialog{kind: dlgShare, title: "Share " + m.sess.name + " for review",
+		intro: []string{"Reviewers see every revision read-only and can add review notes; they never change your session.",
+			"Leave the box empty to stop sharing; it takes effect for new openings at once."},
+		fields: []dialogField{{label: "Reviewers", hint: "user names separated by spaces or commas; * for everyone on the server",
+			ed: newLineEditorN(strings.Join(now, " "), noteRunes)}}}
+	m.screen = screenDialog
+}
+
+// parseReaders splits a reviewer list on spaces and commas.
+func parseReaders(text string) []string {
+	return strings.FieldsFunc(text, func(r rune) bool { return r == ',' || r == ' ' || r == ';' })
+}
+
 // openCopy opens the dialog that copies a reviewed session into the
 // user's own sessions.
 func (m *Model) openCopy() {
@@ -179,6 +211,8 @@ func (m Model) dialogKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		switch d.kind {
 		case dlgSave, dlgSaveNew, dlgCopy:
 			m.note = "not saved; your edits are kept"
+		case dlgShare:
+			m.note = "sharing unchanged"
 		default:
 			m.note = "no note added"
 		}
@@ -233,6 +267,17 @@ func (m Model) submitDialog() (tea.Model, tea.Cmd) {
 		if err := m.addReview(d.fields[0].ed.value()); err != nil {
 			d.fields[0].err = err.Error()
 			return m, nil
+		}
+	case dlgShare:
+		readers := parseReaders(d.fields[0].value())
+		if err := m.sess.share(m.sess.name, readers); err != nil {
+			d.fields[0].err = err.Error()
+			return m, nil
+		}
+		if len(readers) == 0 {
+			m.note = m.sess.name + " is no longer shared"
+		} else {
+			m.note = "shared " + m.sess.name + " read-only with " + strings.Join(readers, ", ")
 		}
 	case dlgCopy:
 		cmd, err := m.copyToOwn(d.fields[0].value())

@@ -20,6 +20,9 @@ type KeyMap struct {
 	// takes their keys; Note adds a session note, or in review mode a
 	// review note.
 	Save, SaveAs, Browse, Note, CopyOwn key.Binding
+	// Share shares the saved session read-only with other users of the
+	// server.
+	Share key.Binding
 
 	// Definition panel.
 	Up, Down        key.Binding
@@ -87,6 +90,7 @@ func DefaultKeyMap() KeyMap {
 		SaveAs:    b([]string{"S"}, "S", "save as a new session"),
 		Browse:    b([]string{"ctrl+o"}, "ctrl+o", "sessions and revisions"),
 		Note:      b([]string{"n"}, "n", "add a note"),
+		Share:     b([]string{"ctrl+r"}, "ctrl+r", "share for review"),
 		CopyOwn:   key.NewBinding(key.WithKeys("ctrl+s", "S"), key.WithHelp("ctrl+s", "copy into your own sessions"), key.WithDisabled()),
 
 		Up:              b([]string{"up", "k"}, "↑/k", "previous field"),
@@ -157,6 +161,7 @@ func (k KeyMap) forMode(readOnly bool) KeyMap {
 	k.Save.SetEnabled(!readOnly)
 	k.SaveAs.SetEnabled(!readOnly)
 	k.CopyOwn.SetEnabled(readOnly)
+	k.Share.SetEnabled(!readOnly)
 	if readOnly {
 		k.Note.SetHelp("n", "add a review note")
 	} else {
@@ -224,7 +229,7 @@ func (k KeyMap) chartBindings() []key.Binding {
 
 // sessionBindings are the session keys, shown in every panel's full help.
 func (k KeyMap) sessionBindings() []key.Binding {
-	return []key.Binding{k.Save, k.SaveAs, k.CopyOwn, k.Browse, k.Note}
+	return []key.Binding{k.Save, k.SaveAs, k.CopyOwn, k.Browse, k.Note, k.Share}
 }
 
 // formHelp is the help of the definition panel; typing selects the

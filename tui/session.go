@@ -78,6 +78,8 @@ type session struct {
 	readOnly  bool
 	addReview func(text string) error
 	copyToOwn func(doc *sessions.Document, name string) (int, error)
+	share     func(session string, readers []string) error
+	readers   func(session string) []string
 
 	draftEvery   time.Duration
 	draftPending bool

@@ -74,6 +74,12 @@ type Options struct {
 	CopyToOwn func(doc *sessions.Document, name string) (int, error)
 	// Now returns the current time (notes, pins); nil means time.Now.
 	Now func() time.Time
+	// Share shares the saved session (by name) read-only with readers
+	// (user names, or "*" for everyone); an empty list stops sharing.
+	// Readers returns the current readers. nil: sharing is not offered
+	// (it needs a server with several users).
+	Share   func(session string, readers []string) error
+	Readers func(session string) []string
 
 	// syncCharts computes chart curves inside Update rather than in a
 	// command, so that a test program's final state is deterministic.
@@ -276,7 +282,8 @@ func New(o Options) Model {
 // newSession sets up the persistence side from the options.
 func newSession(o Options) session {
 	s := session{store: o.Store, noStore: o.NoStoreReason, user: strings.TrimSpace(o.User), now: o.Now,
-		readOnly: o.ReadOnly, addReview: o.AddReview, copyToOwn: o.CopyToOwn, draftEvery: o.draftEvery}
+		readOnly: o.ReadOnly, addReview: o.AddReview, copyToOwn: o.CopyToOwn, draftEvery: o.draftEvery,
+		share: o.Share, readers: o.Readers}
 	if s.user == "" {
 		s.user = "unknown"
 	}
@@ -556,6 +563,9 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 			return m, nil
 		case keyIs(km, k.Note):
 			m.openNote()
+			return m, nil
+		case keyIs(km, k.Share):
+			m.openShare()
 			return m, nil
 		case keyIs(km, k.NextPanel):
 			return m, m.setFocus((m.focus + 1) % panelCount)
