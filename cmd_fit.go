@@ -59,7 +59,12 @@ func fitUsage(w io.Writer) {
 	fmt.Fprint(w, `Usage:
   junco fit iv FILE... [--temp T] [--window V1:V2] [--model single|double]
                        [--leakage-at V] [--model-card NAME] [--json] [--ascii]
+                       [--compare SESSION|FILE [--data DIR]]
       Fit the diode equation to forward I-V data (one result per file).
+      --compare sets the data against a session's junction: the RMS of
+      ln(measured/predicted) over the window, and the minority lifetime of
+      the lightly doped side for which the model's diffusion Is equals the
+      measured one (with its diffusion length and the assumptions).
   junco fit cv FILE --area A [--material si|ge|gaas|4h-sic] [--window V1:V2]
                        [--profile] [--smooth N] [--model-card NAME] [--json] [--ascii]
       Mott-Schottky line (built-in potential, doping), doping profile and the
@@ -315,8 +320,74 @@ type fitIVReport struct {
 	ZeroBiasResistanceOhm *float64         `json:"zero_bias_resistance_ohm,omitempty"`
 	Notes                 []string         `json:"notes,omitempty"`
 	ModelCard             string           `json:"model_card,omitempty"`
+	*fitIVCompare
 
 	fit *extract.IVFit
+}
+
+// fitIVCompare is the comparison of the data with a session's junction
+// (--compare).
+type fitIVCompare struct {
+	CompareSession              string   `json:"compare_session"`
+	CompareError                string   `json:"compare_error,omitempty"`
+	PredictionRMSLogRatio       *float64 `json:"prediction_rms_log_ratio,omitempty"`
+	MeasuredDiffusionIsA        *float64 `json:"measured_diffusion_saturation_current_A,omitempty"`
+	ModelDiffusionIsA           *float64 `json:"model_diffusion_saturation_current_A,omitempty"`
+	LifetimeVaried              string   `json:"lifetime_varied,omitempty"`
+	SpecLifetimeS               *float64 `json:"spec_lifetime_s,omitempty"`
+	ReconcilingLifetimeS        *float64 `json:"reconciling_lifetime_s,omitempty"`
+	ReconcilingDiffusionLengthM *float64 `json:"reconciling_diffusion_length_m,omitempty"`
+	Assumptions                 []string `json:"assumptions,omitempty"`
+}
+
+// fitCompareIV compares the data set of path with spec over the window.
+func fitCompareIV(path, session string, spec model.Spec, c fitCommon) *fitIVCompare {
+	out := &fitIVCompare{CompareSession: session}
+	ds, err := fitImport(path, measure.KindIV)
+	if err != nil {
+		out.CompareError = err.Error()
+		return out
+	}
+	if c.haveTemp {
+		ds.TemperatureK, ds.StatedTemperatureK = nil, c.temp
+	}
+	cmp, err := model.CompareIV(spec, ds, c.window.MinV, c.window.MaxV)
+	if cmp != nil {
+		out.PredictionRMSLogRatio = fitNum(cmp.RMSLogRatio)
+		out.ModelDiffusionIsA = fitNum(cmp.ModelIsA)
+	}
+	if err != nil {
+		out.CompareError = err.Error()
+		return out
+	}
+	out.MeasuredDiffusionIsA = fitNum(cmp.MeasuredIsA)
+	out.LifetimeVaried, out.SpecLifetimeS = cmp.LifetimeSide, fitNum(cmp.SpecLifetimeS)
+	out.ReconcilingLifetimeS = fitNum(cmp.ReconcilingLifetimeS)
+	out.ReconcilingDiffusionLengthM = fitNum(cmp.ReconcilingDiffusionLengthM)
+	out.Assumptions = cmp.Assumptions
+	return out
+}
+
+func fitCompareText(w io.Writer, r *fitIVCompare, ascii bool) {
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintf(tw, "compared with\t%s\n", r.CompareSession)
+	if r.PredictionRMSLogRatio != nil {
+		fmt.Fprintf(tw, "rms ln(measured/predicted)\t%.4f\n", *r.PredictionRMSLogRatio)
+	}
+	if r.CompareError != "" {
+		fmt.Fprintf(tw, "comparison error\t%s\n", r.CompareError)
+		tw.Flush()
+		return
+	}
+	fmt.Fprintf(tw, "diffusion Is, measured\t%s\n", model.Format(model.Current, *r.MeasuredDiffusionIsA, 4, ascii))
+	fmt.Fprintf(tw, "diffusion Is, model\t%s\n", model.Format(model.Current, *r.ModelDiffusionIsA, 4, ascii))
+	fmt.Fprintf(tw, "lifetime varied\t%s (model: %s)\n", r.LifetimeVaried, model.Format(model.Time, *r.SpecLifetimeS, 4, ascii))
+	fmt.Fprintf(tw, "reconciling lifetime\t%s\n", model.Format(model.Time, *r.ReconcilingLifetimeS, 4, ascii))
+	fmt.Fprintf(tw, "diffusion length\t%s\n", model.Format(model.Length, *r.ReconcilingDiffusionLengthM, 4, ascii))
+	for _, a := range r.Assumptions {
+		fmt.Fprintf(tw, "assumes\t%s\n", a)
+	}
+	tw.Flush()
 }
 
 func fitCorrelations(c []extract.Correlation) []fitCorrelation {
@@ -374,7 +445,7 @@ func fitIVFile(path string, c fitCommon, leakAt *float64) (*fitIVReport, error) 
 }
 
 func fitRunIV(args []string, stdout, stderr io.Writer) int {
-	a, err := fitParseArgs("iv", args, []string{"temp", "window", "model", "model-card", "leakage-at"}, []string{"json", "ascii"})
+	a, err := fitParseArgs("iv", args, []string{"temp", "window", "model", "model-card", "leakage-at", "compare", "data"}, []string{"json", "ascii"})
 	if err != nil {
 		fmt.Fprintln(stderr, err)
 		return exitUsage
@@ -408,10 +479,28 @@ func fitRunIV(args []string, stdout, stderr io.Writer) int {
 		}
 		leakAt = &v
 	}
+	var cmpSpec *model.Spec
+	cmpName, wantCmp := a.str("compare")
+	if wantCmp {
+		dir, _ := a.str("data")
+		sp, err := loadSpecForCalc(dir, cmpName)
+		if err != nil {
+			fmt.Fprintf(stderr, "junco fit iv: --compare %s: %v\n", cmpName, err)
+			return exitUsage
+		}
+		cmpSpec = &sp
+	}
 	code := exitOK
 	var reports []*fitIVReport
 	for _, p := range a.pos {
 		r, err := fitIVFile(p, c, leakAt)
+		if err == nil && cmpSpec != nil {
+			r.fitIVCompare = fitCompareIV(p, cmpName, *cmpSpec, c)
+			if r.CompareError != "" {
+				fmt.Fprintf(stderr, "junco fit iv: %s: --compare %s: %s\n", p, cmpName, r.CompareError)
+				code = max(code, exitFailure)
+			}
+		}
 		if err != nil {
 			fmt.Fprintf(stderr, "junco fit iv: %v\n", err)
 			code = max(code, fitExitCode(err))
@@ -448,6 +537,9 @@ func fitRunIV(args []string, stdout, stderr io.Writer) int {
 			fmt.Fprintln(stdout)
 		}
 		fitIVText(stdout, r, c.ascii)
+		if r.fitIVCompare != nil {
+			fitCompareText(stdout, r.fitIVCompare, c.ascii)
+		}
 	}
 	return code
 }
