@@ -23,6 +23,7 @@ func guideText(g glyphs) []string {
 		"ctrl+o opens the session browser: type to filter, enter opens, tab shows the revisions of the selected session. There, space marks a revision, d compares the marked (or the previous) revision with the selected one, c compares the selected one with your current edits, r stores an old revision again as the newest, enter opens a revision.",
 		"If someone saved the session after you opened it, saving says so and offers the next revision anyway or a copy under a new name; your edits are kept either way.",
 		"Review mode shows a colleague's session read-only: every panel and note is there, nothing can be changed. n adds a review note; ctrl+s copies the session into your own sessions, where you can try changes.",
+		"Measurements. i imports a CSV or text sweep: type its path, enter shows the columns, units, rows and any rows left out (or the error with its line and column); enter adds it to the session, f adds it and fits it. f fits the newest I-V data set with the single-diode model: the measured points, the fit and the junction's prediction on a log |I| chart, with Is, n, Rs and Rsh and their standard errors; type a window V1 and V2 (tab between them) and press enter to refit, pgup and pgdn choose another data set. ctrl+s saves the data sets with the session.",
 		"The numbers come from the depletion approximation and the ideal (Shockley) diffusion currents; flags mark values outside a model's validity. The demo junction is invented demo data.",
 	}
 }

@@ -67,6 +67,13 @@ type KeyMap struct {
 	// Revision history of a session.
 	Mark, DiffPair, DiffCurrent, RestoreRev, OpenRev, Back key.Binding
 
+	// Measurements: Import opens the import screen, Fit the fit screen.
+	Import, Fit key.Binding
+	// Import preview: add the data set, add it and fit it, edit the path.
+	AddData, AddFit, EditPath key.Binding
+	// Fit screen: refit with the window typed, choose the I-V data set.
+	Refit, PrevData, NextData key.Binding
+
 	// review is set in review mode: the help leaves out the keys that
 	// would change something (they are refused with a reason).
 	review bool
@@ -149,6 +156,15 @@ func DefaultKeyMap() KeyMap {
 		RestoreRev:  b([]string{"r"}, "r", "restore as the newest revision"),
 		OpenRev:     b([]string{"enter"}, "enter", "open this revision"),
 		Back:        b([]string{"esc", "left", "shift+tab"}, "esc", "back"),
+
+		Import:   b([]string{"i"}, "i", "import a measurement"),
+		Fit:      b([]string{"f"}, "f", "fit an I-V measurement"),
+		AddData:  b([]string{"enter"}, "enter", "add to the session"),
+		AddFit:   b([]string{"f"}, "f", "add and fit"),
+		EditPath: b([]string{"e", "backspace"}, "e", "edit the path"),
+		Refit:    b([]string{"enter"}, "enter", "refit in the window"),
+		PrevData: b([]string{"pgup"}, "pgup", "previous data set"),
+		NextData: b([]string{"pgdown"}, "pgdn", "next data set"),
 	}
 	return k
 }
@@ -162,6 +178,7 @@ func (k KeyMap) forMode(readOnly bool) KeyMap {
 	k.SaveAs.SetEnabled(!readOnly)
 	k.CopyOwn.SetEnabled(readOnly)
 	k.Share.SetEnabled(!readOnly)
+	k.Import.SetEnabled(!readOnly)
 	if readOnly {
 		k.Note.SetHelp("n", "add a review note")
 	} else {
@@ -332,6 +349,7 @@ func (k KeyMap) helpGroups() []helpGroup {
 	return append(g,
 		helpGroup{"Results", []key.Binding{k.ScrollUp, k.ScrollDown, k.PageUp, k.PageDown, k.Top, k.Bottom}},
 		helpGroup{"Charts", k.chartBindings()},
+		helpGroup{"Measurements", []key.Binding{k.Import, k.Fit, k.AddData, k.AddFit, k.EditPath, k.Refit, k.PrevData, k.NextData}},
 		helpGroup{"Session list", []key.Binding{k.ListUp, k.ListDown, k.Open, k.Revisions, k.ClearFilter, k.Close}},
 		helpGroup{"Revisions", []key.Binding{k.Mark, k.DiffPair, k.DiffCurrent, k.RestoreRev, k.OpenRev, k.Back}},
 		helpGroup{"Dialogs", []key.Binding{k.Submit, k.NextField, k.PrevField, k.Dismiss, k.Yes, k.No, k.SaveFirst}},

@@ -19,6 +19,9 @@ type plotLine struct {
 	paint  ink
 	marker string
 	pinned bool
+	// dots draws each point as its marker character, unconnected
+	// (measured data).
+	dots bool
 }
 
 // axisScale describes one plotted axis: its range and ticks in plotted
@@ -106,6 +109,19 @@ func renderPlot(lines []plotLine, xs, ys axisScale, w, h int, e env) []string {
 	var markers [][]mark
 	for k, ln := range lines {
 		grid := graph.NewBrailleGrid(gw, gh, xs.min, xs.max, ys.min, ys.max)
+		if ln.dots {
+			r := []rune(ln.marker + "*")[0]
+			for j := range ln.xs {
+				if j >= len(ln.ys) || !finite(ln.xs[j]) || !finite(ln.ys[j]) ||
+					ln.xs[j] < xs.min || ln.xs[j] > xs.max || ln.ys[j] < ys.min || ln.ys[j] > ys.max {
+					continue
+				}
+				p := grid.GridPoint(canvas.Float64Point{X: ln.xs[j], Y: ln.ys[j]})
+				put(p.X/2, p.Y/4, r, k)
+			}
+			markers = append(markers, nil)
+			continue
+		}
 		var prev canvas.Point
 		havePrev := false
 		for j := range ln.xs {

@@ -36,6 +36,8 @@ type snapshot struct {
 	pin  *model.Spec
 	// notes are the session notes.
 	notes []string
+	// measN is the number of measurements.
+	measN int
 	// sweeps are the document's sweeps as opened: a sweep the user has
 	// not changed is saved as it was.
 	sweeps sessions.Sweeps
@@ -48,6 +50,7 @@ type editKey struct {
 	iv, temp model.Range
 	pin      *model.Result
 	notes    int
+	meas     int
 }
 
 // session is the persistence side of a workbench: the store, who works,
@@ -69,6 +72,9 @@ type session struct {
 	doc     *sessions.Document
 	notes   []string
 	reviews []sessions.ReviewNote
+	// meas are the measurements in force (imported data sets are
+	// appended; nothing else changes them).
+	meas []sessions.Measurement
 	// pinRef names the reference the pin stands for; pinnedAt is when the
 	// user pinned.
 	pinRef   string
@@ -97,7 +103,7 @@ func (s session) noStoreText(what string) string {
 
 // editKey returns the key of the saveable state in force.
 func (m Model) editKey() editKey {
-	return editKey{formRev: m.form.rev, iv: m.chart.iv, temp: m.chart.temp, pin: m.pin, notes: len(m.sess.notes)}
+	return editKey{formRev: m.form.rev, iv: m.chart.iv, temp: m.chart.temp, pin: m.pin, notes: len(m.sess.notes), meas: len(m.sess.meas)}
 }
 
 // Dirty reports whether there are changes not yet saved: the junction, the
@@ -112,7 +118,7 @@ func (m Model) Dirty() bool {
 	if !reflect.DeepEqual(m.form.spec, b.spec) || len(m.form.bad()) > 0 {
 		return true
 	}
-	if m.chart.iv != b.iv || m.chart.temp != b.temp || !slices.Equal(m.sess.notes, b.notes) {
+	if m.chart.iv != b.iv || m.chart.temp != b.temp || !slices.Equal(m.sess.notes, b.notes) || len(m.sess.meas) != b.measN {
 		return true
 	}
 	switch {
@@ -126,7 +132,7 @@ func (m Model) Dirty() bool {
 
 // setBaseline records the state in force as saved.
 func (m *Model) setBaseline() {
-	b := snapshot{spec: m.form.spec, iv: m.chart.iv, temp: m.chart.temp, notes: slices.Clone(m.sess.notes)}
+	b := snapshot{spec: m.form.spec, iv: m.chart.iv, temp: m.chart.temp, notes: slices.Clone(m.sess.notes), measN: len(m.sess.meas)}
 	if m.pin != nil {
 		s := m.pin.Spec
 		b.pin = &s
@@ -242,6 +248,9 @@ func (m Model) document(title string) (*sessions.Document, error) {
 	d.References = refs
 	d.Notes = slices.Clone(m.sess.notes)
 	d.Reviews = slices.Clone(m.sess.reviews)
+	if len(m.sess.meas) > 0 || len(d.Measurements) > 0 {
+		d.Measurements = slices.Clone(m.sess.meas)
+	}
 	return &d, nil
 }
 
@@ -289,6 +298,7 @@ func (m *Model) applyExtras(doc *sessions.Document) {
 		}
 	}
 	m.sess.notes = slices.Clone(doc.Notes)
+	m.sess.meas = slices.Clone(doc.Measurements)
 	m.sess.reviews = slices.Clone(doc.Reviews)
 	m.pushNotes()
 	m.chart.render()

@@ -145,6 +145,8 @@ const (
 	screenStale          // a save found a newer revision
 	screenConfirm        // a yes/no question before an action
 	screenDraft          // a recovery draft was found
+	screenImport         // import a measurement: path and preview
+	screenFit            // fit an I-V measurement
 )
 
 // Layouts by terminal size.
@@ -197,6 +199,8 @@ type Model struct {
 	conf          confirmState
 	offer         draftOffer
 	br            browser
+	imp           importState
+	fit           fitState
 	quitAfterSave bool
 	syncCharts    bool
 }
@@ -449,6 +453,9 @@ func (m Model) update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	switch msg := msg.(type) {
 	case tea.WindowSizeMsg:
 		m.w, m.h = max(msg.Width, 0), max(msg.Height, 0)
+		if m.screen == screenFit {
+			m.renderFit()
+		}
 		return m, m.relayout()
 	case chartDataMsg:
 		m.chart.apply(msg)
@@ -505,6 +512,10 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		return m.confirmKey(km)
 	case screenDraft:
 		return m.draftKey(km)
+	case screenImport:
+		return m.importKey(km)
+	case screenFit:
+		return m.fitKey(km)
 	case screenHelp:
 		switch {
 		case km.String() == "ctrl+c":
@@ -566,6 +577,12 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 			return m, nil
 		case keyIs(km, k.Share):
 			m.openShare()
+			return m, nil
+		case keyIs(km, k.Import):
+			m.openImport()
+			return m, nil
+		case keyIs(km, k.Fit):
+			m.openFit(-1)
 			return m, nil
 		case keyIs(km, k.NextPanel):
 			return m, m.setFocus((m.focus + 1) % panelCount)
@@ -707,6 +724,10 @@ func (m Model) View() string {
 		lines = append(lines, m.confirmScreen(w, h-2)...)
 	case screenDraft:
 		lines = append(lines, m.draftScreen(w, h-2)...)
+	case screenImport:
+		lines = append(lines, m.importScreen(w, h-2)...)
+	case screenFit:
+		lines = append(lines, m.fitScreen(w, h-2)...)
 	default:
 		lines = append(lines, m.body()...)
 	}
@@ -791,6 +812,10 @@ func (m Model) footer() string {
 		hk = confirmHelp{k: m.e.keys, yes: m.conf.yes}
 	case screenDraft:
 		hk = draftHelp{m.e.keys}
+	case screenImport:
+		hk = importHelp{k: m.e.keys, preview: m.imp.ds != nil}
+	case screenFit:
+		hk = fitHelp{m.e.keys}
 	default:
 		switch m.focus {
 		case panelDefine:

@@ -1,0 +1,197 @@
+package tui
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	tea "github.com/charmbracelet/bubbletea"
+)
+
+// writeIV writes an invented forward I-V sweep of a diode (Is = 1e-12 A,
+// n = 1.5 at 300 K, a little series resistance) with 1 % scatter, in
+// volts and milliamperes, with one compliance row and one NaN row.
+func writeIV(t *testing.T, name string) string {
+	t.Helper()
+	rng := rand.New(rand.NewPCG(3, 9))
+	var b strings.Builder
+	b.WriteString("# temperature: 300 K\nV (V),I (mA),status\n")
+	vt := 0.025852
+	for k := 0; k < 60; k++ {
+		v := 0.05 + 0.012*float64(k)
+		i := 1e-12 * math.Expm1(v/(1.5*vt)) * (1 + 0.01*rng.NormFloat64())
+		fmt.Fprintf(&b, "%.4f,%.6e,0\n", v, i*1e3)
+	}
+	b.WriteString("0.8,NaN,0\n0.81,100,1\n")
+	p := filepath.Join(t.TempDir(), name)
+	if err := os.WriteFile(p, []byte(b.String()), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+func importInto(t *testing.T, m Model, path string) Model {
+	t.Helper()
+	m = press(m, "i")
+	if m.screen != screenImport {
+		t.Fatalf("i did not open the import screen: %q", plain(m))
+	}
+	m = press(m, "ctrl+u")
+	m.imp.ed.set(path)
+	return press(m, "enter")
+}
+
+func TestImportPreviewAndAccept(t *testing.T) {
+	m := newTest(t, 100, 30)
+	m = importInto(t, m, writeIV(t, "diode.csv"))
+	v := plain(m)
+	for _, want := range []string{"I-V sweep: 60 points", "voltage", `"V (V)"`, "unit V", "current", "unit mA", "compliance", "non-finite", "rows left out"} {
+		if !strings.Contains(v, want) {
+			t.Errorf("preview lacks %q:\n%s", want, v)
+		}
+	}
+	if len(m.sess.meas) != 0 || m.Dirty() {
+		t.Fatal("a preview must add nothing")
+	}
+	m = press(m, "enter")
+	if m.screen != screenMain || len(m.sess.meas) != 1 || m.sess.meas[0].ID != "iv-1" {
+		t.Fatalf("accept: screen %d, %d measurements", m.screen, len(m.sess.meas))
+	}
+	if !m.Dirty() || !strings.Contains(plain(m), "unsaved") {
+		t.Error("an added measurement must mark the session unsaved")
+	}
+	doc, err := m.document("t")
+	if err != nil || len(doc.Measurements) != 1 || doc.Measurements[0].SourceFile != "diode.csv" {
+		t.Fatalf("document: %v %+v", err, doc)
+	}
+	m = importInto(t, m, writeIV(t, "second.csv"))
+	m = press(m, "enter")
+	if len(m.sess.meas) != 2 || m.sess.meas[1].ID != "iv-2" {
+		t.Fatalf("second import: %+v", len(m.sess.meas))
+	}
+}
+
+func TestImportBadFileNamesLineAndColumn(t *testing.T) {
+	m := newTest(t, 100, 30)
+	p := filepath.Join(t.TempDir(), "bad.csv")
+	if err := os.WriteFile(p, []byte("V,I (A)\n0.1,1e-9\n0.2,abc\n"), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	m = importInto(t, m, p)
+	v := flat(plain(m))
+	if !strings.Contains(v, "bad.csv:3:2") || !strings.Contains(v, "Nothing was imported") {
+		t.Errorf("the error must name line 3, column 2:\n%s", plain(m))
+	}
+	m = press(m, "enter", "esc")
+	if len(m.sess.meas) != 0 || m.Dirty() || m.screen != screenMain {
+		t.Fatalf("a bad file must add nothing (%d, screen %d)", len(m.sess.meas), m.screen)
+	}
+	// A missing file and a directory are errors too, not crashes.
+	for _, path := range []string{filepath.Join(t.TempDir(), "none.csv"), t.TempDir(), ""} {
+		m = importInto(t, m, path)
+		if m.imp.ds != nil || m.imp.err == "" {
+			t.Errorf("%q: want an error", path)
+		}
+		m = press(m, "esc")
+	}
+}
+
+func TestFitScreen(t *testing.T) {
+	for _, size := range [][2]int{{120, 40}, {80, 24}} {
+		m := newTest(t, size[0], size[1])
+		m = importInto(t, m, writeIV(t, "diode.csv"))
+		m = press(m, "f")
+		if m.screen != screenFit || m.fit.view == nil {
+			t.Fatalf("%v: f must add and fit: %q %s", size, m.fit.err, plain(m))
+		}
+		v := plain(m)
+		for _, want := range []string{"Is ", "n ", "Rs", "Rsh", "±", "RMS log residual", "points used", "window used", "measured", "fit", "prediction"} {
+			if !strings.Contains(v, want) {
+				t.Errorf("%v: the fit screen lacks %q:\n%s", size, want, v)
+			}
+		}
+		if size[0] == 120 {
+			if n := m.fit.view.Fit.Single.IdealityFactor; math.Abs(n-1.5) > 0.05 {
+				t.Errorf("n = %g, want about 1.5", n)
+			}
+			if !strings.Contains(v, "•") {
+				t.Errorf("the measured points need their own character:\n%s", v)
+			}
+		}
+		before := m.fit.view.Fit.Points
+		m = typeText(m, "0.2")
+		m = press(m, "tab")
+		m = typeText(m, "500mV")
+		m = press(m, "enter")
+		if m.fit.view == nil || m.fit.win.MinV != 0.2 || math.Abs(m.fit.win.MaxV-0.5) > 1e-12 {
+			t.Fatalf("%v: window not applied: %+v %q", size, m.fit.win, m.fit.err)
+		}
+		if after := m.fit.view.Fit.Points; after >= before || after == 0 {
+			t.Errorf("%v: refit in the window uses %d points, before %d", size, after, before)
+		}
+		if u := m.fit.view.Fit.UsedWindow; u.MinV < 0.2 || u.MaxV > 0.5 {
+			t.Errorf("used window %+v", u)
+		}
+		// A bad window says why and keeps the fit.
+		m = press(m, "ctrl+u")
+		m = typeText(m, "x")
+		m = press(m, "enter")
+		if m.fit.winErr == "" || m.fit.view == nil {
+			t.Errorf("a bad bound must be reported")
+		}
+		m = press(m, "esc")
+		if m.screen != screenMain {
+			t.Errorf("esc must close the fit screen")
+		}
+	}
+}
+
+func TestFitWithoutData(t *testing.T) {
+	m := newTest(t, 80, 24)
+	m = press(m, "f")
+	if m.screen != screenMain || !strings.Contains(plain(m), "no I-V data set") {
+		t.Errorf("f without data must say so:\n%s", plain(m))
+	}
+}
+
+// TestMeasureScreensRandomKeys feeds random keys and sizes to the import
+// and fit screens: no panic, never an empty view.
+func TestMeasureScreensRandomKeys(t *testing.T) {
+	path := writeIV(t, "diode.csv")
+	named := []tea.KeyType{tea.KeyEnter, tea.KeyTab, tea.KeyShiftTab, tea.KeyEsc, tea.KeyLeft, tea.KeyRight,
+		tea.KeyBackspace, tea.KeyDelete, tea.KeyPgUp, tea.KeyPgDown, tea.KeyCtrlU, tea.KeySpace}
+	const runes = "0123456789.-:mVife "
+	sizes := [][2]int{{0, 0}, {5, 3}, {40, 12}, {60, 16}, {80, 24}, {99, 30}, {100, 30}, {160, 44}}
+	rng := rand.New(rand.NewPCG(11, 5))
+	m := newTest(t, 80, 24)
+	m = importInto(t, m, path)
+	m = press(m, "f")
+	for step := 0; step < 400; step++ {
+		var msg tea.Msg
+		switch p := rng.IntN(100); {
+		case p < 5:
+			s := sizes[rng.IntN(len(sizes))]
+			msg = tea.WindowSizeMsg{Width: s[0], Height: s[1]}
+		case p < 10 && m.screen == screenMain:
+			if m = press(m, "i"); m.screen == screenImport {
+				m.imp.ed.set(path)
+				m = press(m, "enter")
+			}
+			continue
+		case p < 45:
+			msg = tea.KeyMsg{Type: named[rng.IntN(len(named))]}
+		default:
+			rs := []rune(runes)
+			msg = tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune{rs[rng.IntN(len(rs))]}}
+		}
+		tm, _ := m.Update(msg)
+		m = tm.(Model)
+		if m.View() == "" {
+			t.Fatalf("step %d: empty view", step)
+		}
+	}
+}
