@@ -45,8 +45,16 @@ func importInto(t *testing.T, m Model, path string) Model {
 	return press(m, "enter")
 }
 
+// bare drops the invented demo measurements, so that a test sees only
+// what it imports.
+func bare(m Model) Model {
+	m.sess.meas = nil
+	m.setBaseline()
+	return m
+}
+
 func TestImportPreviewAndAccept(t *testing.T) {
-	m := newTest(t, 100, 30)
+	m := bare(newTest(t, 100, 30))
 	m = importInto(t, m, writeIV(t, "diode.csv"))
 	v := plain(m)
 	for _, want := range []string{"I-V sweep: 60 points", "voltage", `"V (V)"`, "unit V", "current", "unit mA", "compliance", "non-finite", "rows left out"} {
@@ -76,7 +84,7 @@ func TestImportPreviewAndAccept(t *testing.T) {
 }
 
 func TestImportBadFileNamesLineAndColumn(t *testing.T) {
-	m := newTest(t, 100, 30)
+	m := bare(newTest(t, 100, 30))
 	p := filepath.Join(t.TempDir(), "bad.csv")
 	if err := os.WriteFile(p, []byte("V,I (A)\n0.1,1e-9\n0.2,abc\n"), 0o600); err != nil {
 		t.Fatal(err)
@@ -151,7 +159,7 @@ func TestFitScreen(t *testing.T) {
 }
 
 func TestFitWithoutData(t *testing.T) {
-	m := newTest(t, 80, 24)
+	m := bare(newTest(t, 80, 24))
 	m = press(m, "f")
 	if m.screen != screenMain || !strings.Contains(plain(m), "no I-V data set") {
 		t.Errorf("f without data must say so:\n%s", plain(m))
@@ -193,5 +201,23 @@ func TestMeasureScreensRandomKeys(t *testing.T) {
 		if m.View() == "" {
 			t.Fatalf("step %d: empty view", step)
 		}
+	}
+}
+
+// The demo opens with its invented measurements (labelled invented in
+// their source field), ready for the fit screen.
+func TestDemoComesWithInventedMeasurements(t *testing.T) {
+	m := newTest(t, 120, 40)
+	if len(m.sess.meas) == 0 || m.Dirty() {
+		t.Fatalf("demo measurements %d, dirty %v", len(m.sess.meas), m.Dirty())
+	}
+	for _, ms := range m.sess.meas {
+		if !strings.Contains(ms.SourceFile, "invented") {
+			t.Errorf("%s not labelled invented: %q", ms.ID, ms.SourceFile)
+		}
+	}
+	m = press(m, "f")
+	if !strings.Contains(plain(m), "Is") {
+		t.Errorf("fit screen on the demo data:\n%s", plain(m))
 	}
 }

@@ -267,6 +267,18 @@ func New(o Options) Model {
 			m.sess.suggest = "d7-demo"
 		}
 	}
+	if m.demo && doc == nil {
+		// The demo comes with its invented measurements (made by our own
+		// model with noise and labelled so), ready for the fit screen.
+		if sets, err := model.DemoMeasurements(1); err == nil {
+			for _, ds := range sets {
+				if ds.ImportedAt.IsZero() {
+					ds.ImportedAt = m.sess.now().UTC()
+				}
+				m.sess.meas = append(m.sess.meas, sessions.Measurement{ID: ds.ID, DataSet: ds.DataSet})
+			}
+		}
+	}
 	m.setBaseline()
 	m.sync()
 	m.relayout()
