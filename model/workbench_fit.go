@@ -169,6 +169,13 @@ func PredictedIV(s Spec, ds *measure.DataSet) (Curve, error) {
 	if !(hi > lo) {
 		return Curve{}, errors.New("the data set spans no bias range")
 	}
+	// The prediction is made at the temperature the data were taken at,
+	// when the data set states one.
+	label := "prediction"
+	if t, ok := ds.Temperature(); ok && t != s.Temperature {
+		s.Temperature = t
+		label = fmt.Sprintf("prediction at %s", Format(Temperature, t, 4, true))
+	}
 	c, err := IVCurve(s, Range{From: lo, To: hi, Step: (hi - lo) / 199})
 	if err != nil {
 		return Curve{}, err
@@ -177,7 +184,7 @@ func PredictedIV(s Spec, ds *measure.DataSet) (Curve, error) {
 		return Curve{}, errors.New("the prediction has no current")
 	}
 	c.ID, c.Y.Log = "iv-prediction", true
-	c.Series = []Series{{Label: "prediction", Y: c.Series[0].Y}}
+	c.Series = []Series{{Label: label, Y: c.Series[0].Y}}
 	return c, nil
 }
 
