@@ -63,6 +63,29 @@ type IVFitView struct {
 	ResidualV, Residual []float64
 }
 
+// FitParameter is one fitted parameter for a record: SI value and unit,
+// standard error (NaN when held fixed or not observable).
+type FitParameter struct {
+	Name, Unit    string
+	Value, StdErr float64
+}
+
+// Parameters lists the single-diode parameters of the fit (Is in A, n, Rs
+// and Rsh in ohm) with their standard errors, for storing with the
+// session.
+func (v *IVFitView) Parameters() []FitParameter {
+	if v == nil || v.Fit == nil {
+		return nil
+	}
+	d, se := v.Fit.Single, v.Fit.SingleStdErr
+	return []FitParameter{
+		{"Is", "A", d.SaturationCurrentA, se.SaturationCurrentA},
+		{"n", "", d.IdealityFactor, se.IdealityFactor},
+		{"Rs", "ohm", d.SeriesResistanceOhm, se.SeriesResistanceOhm},
+		{"Rsh", "ohm", d.ShuntResistanceOhm, se.ShuntResistanceOhm},
+	}
+}
+
 // IVFitWindow is the bias window of a fit in V; the zero value means all
 // forward points.
 type IVFitWindow struct{ MinV, MaxV float64 }

@@ -72,7 +72,7 @@ type KeyMap struct {
 	// Import preview: add the data set, add it and fit it, edit the path.
 	AddData, AddFit, EditPath key.Binding
 	// Fit screen: refit with the window typed, choose the I-V data set.
-	Refit, PrevData, NextData key.Binding
+	Refit, PrevData, NextData, KeepFit key.Binding
 
 	// review is set in review mode: the help leaves out the keys that
 	// would change something (they are refused with a reason).
@@ -165,6 +165,7 @@ func DefaultKeyMap() KeyMap {
 		Refit:    b([]string{"enter"}, "enter", "refit in the window"),
 		PrevData: b([]string{"pgup"}, "pgup", "previous data set"),
 		NextData: b([]string{"pgdown"}, "pgdn", "next data set"),
+		KeepFit:  b([]string{"ctrl+k"}, "ctrl+k", "keep the fit with the session"),
 	}
 	return k
 }
@@ -349,7 +350,7 @@ func (k KeyMap) helpGroups() []helpGroup {
 	return append(g,
 		helpGroup{"Results", []key.Binding{k.ScrollUp, k.ScrollDown, k.PageUp, k.PageDown, k.Top, k.Bottom}},
 		helpGroup{"Charts", k.chartBindings()},
-		helpGroup{"Measurements", []key.Binding{k.Import, k.Fit, k.AddData, k.AddFit, k.EditPath, k.Refit, k.PrevData, k.NextData}},
+		helpGroup{"Measurements", []key.Binding{k.Import, k.Fit, k.AddData, k.AddFit, k.EditPath, k.Refit, k.PrevData, k.NextData, k.KeepFit}},
 		helpGroup{"Session list", []key.Binding{k.ListUp, k.ListDown, k.Open, k.Revisions, k.ClearFilter, k.Close}},
 		helpGroup{"Revisions", []key.Binding{k.Mark, k.DiffPair, k.DiffCurrent, k.RestoreRev, k.OpenRev, k.Back}},
 		helpGroup{"Dialogs", []key.Binding{k.Submit, k.NextField, k.PrevField, k.Dismiss, k.Yes, k.No, k.SaveFirst}},

@@ -254,6 +254,40 @@ func (m *Model) refit() {
 	m.renderFit()
 }
 
+// keepFit stores the fit in force with the session (saved with ctrl+s):
+// its parameters with standard errors, the data set, the window and notes.
+func (m *Model) keepFit() {
+	f := &m.fit
+	switch {
+	case m.sess.readOnly:
+		m.note = "read-only review: fits cannot be kept here"
+		return
+	case f.view == nil || f.idx < 0 || f.idx >= len(m.sess.meas):
+		m.note = "no fit to keep"
+		return
+	}
+	var params []sessions.Parameter
+	for _, p := range f.view.Parameters() {
+		q := sessions.Parameter{Name: p.Name, Unit: p.Unit, Value: p.Value}
+		if !math.IsNaN(p.StdErr) && !math.IsInf(p.StdErr, 0) && !math.IsNaN(p.Value) && !math.IsInf(p.Value, 0) {
+			se := p.StdErr
+			q.StdError = &se
+		}
+		if math.IsNaN(p.Value) || math.IsInf(p.Value, 0) {
+			continue
+		}
+		params = append(params, q)
+	}
+	ms := m.sess.meas[f.idx]
+	id := fmt.Sprintf("fit-%d", len(m.sess.extr)+1)
+	notes := append([]string{fmt.Sprintf("window %s to %s, %d points, RMS log residual %.4g, %s",
+		model.Format(model.Voltage, f.view.Fit.UsedWindow.MinV, 4, true), model.Format(model.Voltage, f.view.Fit.UsedWindow.MaxV, 4, true),
+		f.view.Fit.Points, f.view.Fit.RMSLogResidual, model.Format(model.Temperature, f.view.TemperatureK, 4, true))}, f.view.Fit.Notes...)
+	m.sess.extr = append(m.sess.extr, sessions.Extraction{ID: id, Method: "iv-single-diode", Measurement: ms.ID,
+		Performed: m.sess.now().UTC(), Parameters: params, Notes: notes})
+	m.note = "kept " + id + " of " + ms.ID + " with the session; ctrl+s saves it"
+}
+
 // applyWindow reads the window fields: both empty means every forward
 // point.
 func (m *Model) applyWindow() {
@@ -294,6 +328,9 @@ func (m Model) fitKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		return m, nil
 	case keyIs(km, k.Submit):
 		m.applyWindow()
+		return m, nil
+	case keyIs(km, k.KeepFit):
+		m.keepFit()
 		return m, nil
 	case km.Type == tea.KeyTab || km.Type == tea.KeyShiftTab:
 		f.row = 1 - f.row
@@ -573,6 +610,6 @@ func (h importHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortH
 type fitHelp struct{ k KeyMap }
 
 func (h fitHelp) ShortHelp() []key.Binding {
-	return []key.Binding{h.k.Refit, key.NewBinding(key.WithKeys("tab"), key.WithHelp("tab", "other bound")), h.k.NextData, h.k.Close}
+	return []key.Binding{h.k.Refit, key.NewBinding(key.WithKeys("tab"), key.WithHelp("tab", "other bound")), h.k.KeepFit, h.k.NextData, h.k.Close}
 }
 func (h fitHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }

@@ -221,3 +221,31 @@ func TestDemoComesWithInventedMeasurements(t *testing.T) {
 		t.Errorf("fit screen on the demo data:\n%s", plain(m))
 	}
 }
+
+// ctrl+k keeps the fit with the session: parameters with standard errors,
+// the data set's ID and the window; the session becomes unsaved and the
+// saved document carries the extraction.
+func TestKeepFitWithSession(t *testing.T) {
+	st := newStore(t, "alice")
+	o := opts(st, "alice", 120, 40)
+	m := start(New(o))
+	m = press(m, "f")
+	if m.screen != screenFit {
+		t.Fatalf("no fit screen:\n%s", plain(m))
+	}
+	m = press(m, "ctrl+k")
+	if len(m.sess.extr) != 1 || !m.Dirty() {
+		t.Fatalf("kept %d fits, dirty %v", len(m.sess.extr), m.Dirty())
+	}
+	x := m.sess.extr[0]
+	if x.Method != "iv-single-diode" || x.Measurement == "" || len(x.Parameters) < 2 || x.Parameters[0].Name != "Is" || x.Parameters[0].StdError == nil {
+		t.Fatalf("extraction %+v", x)
+	}
+	doc, err := m.document("demo")
+	if err != nil || len(doc.Extractions) != 1 {
+		t.Fatalf("document extractions: %v %v", doc, err)
+	}
+	if err := doc.Validate(); err != nil {
+		t.Fatalf("the saved document would be invalid: %v", err)
+	}
+}

@@ -36,8 +36,8 @@ type snapshot struct {
 	pin  *model.Spec
 	// notes are the session notes.
 	notes []string
-	// measN is the number of measurements.
-	measN int
+	// measN is the number of measurements, extrN of kept fits.
+	measN, extrN int
 	// sweeps are the document's sweeps as opened: a sweep the user has
 	// not changed is saved as it was.
 	sweeps sessions.Sweeps
@@ -51,6 +51,7 @@ type editKey struct {
 	pin      *model.Result
 	notes    int
 	meas     int
+	extr     int
 }
 
 // session is the persistence side of a workbench: the store, who works,
@@ -75,6 +76,8 @@ type session struct {
 	// meas are the measurements in force (imported data sets are
 	// appended; nothing else changes them).
 	meas []sessions.Measurement
+	// extr are the fits kept with the session (ctrl+k on the fit screen).
+	extr []sessions.Extraction
 	// pinRef names the reference the pin stands for; pinnedAt is when the
 	// user pinned.
 	pinRef   string
@@ -103,7 +106,7 @@ func (s session) noStoreText(what string) string {
 
 // editKey returns the key of the saveable state in force.
 func (m Model) editKey() editKey {
-	return editKey{formRev: m.form.rev, iv: m.chart.iv, temp: m.chart.temp, pin: m.pin, notes: len(m.sess.notes), meas: len(m.sess.meas)}
+	return editKey{formRev: m.form.rev, iv: m.chart.iv, temp: m.chart.temp, pin: m.pin, notes: len(m.sess.notes), meas: len(m.sess.meas), extr: len(m.sess.extr)}
 }
 
 // Dirty reports whether there are changes not yet saved: the junction, the
@@ -118,7 +121,7 @@ func (m Model) Dirty() bool {
 	if !reflect.DeepEqual(m.form.spec, b.spec) || len(m.form.bad()) > 0 {
 		return true
 	}
-	if m.chart.iv != b.iv || m.chart.temp != b.temp || !slices.Equal(m.sess.notes, b.notes) || len(m.sess.meas) != b.measN {
+	if m.chart.iv != b.iv || m.chart.temp != b.temp || !slices.Equal(m.sess.notes, b.notes) || len(m.sess.meas) != b.measN || len(m.sess.extr) != b.extrN {
 		return true
 	}
 	switch {
@@ -132,7 +135,7 @@ func (m Model) Dirty() bool {
 
 // setBaseline records the state in force as saved.
 func (m *Model) setBaseline() {
-	b := snapshot{spec: m.form.spec, iv: m.chart.iv, temp: m.chart.temp, notes: slices.Clone(m.sess.notes), measN: len(m.sess.meas)}
+	b := snapshot{spec: m.form.spec, iv: m.chart.iv, temp: m.chart.temp, notes: slices.Clone(m.sess.notes), measN: len(m.sess.meas), extrN: len(m.sess.extr)}
 	if m.pin != nil {
 		s := m.pin.Spec
 		b.pin = &s
@@ -251,6 +254,9 @@ func (m Model) document(title string) (*sessions.Document, error) {
 	if len(m.sess.meas) > 0 || len(d.Measurements) > 0 {
 		d.Measurements = slices.Clone(m.sess.meas)
 	}
+	if len(m.sess.extr) > 0 || len(d.Extractions) > 0 {
+		d.Extractions = slices.Clone(m.sess.extr)
+	}
 	return &d, nil
 }
 
@@ -299,6 +305,7 @@ func (m *Model) applyExtras(doc *sessions.Document) {
 	}
 	m.sess.notes = slices.Clone(doc.Notes)
 	m.sess.meas = slices.Clone(doc.Measurements)
+	m.sess.extr = slices.Clone(doc.Extractions)
 	m.sess.reviews = slices.Clone(doc.Reviews)
 	m.pushNotes()
 	m.chart.render()
