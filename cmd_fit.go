@@ -59,7 +59,7 @@ func fitUsage(w io.Writer) {
 	fmt.Fprint(w, `Usage:
   junco fit iv FILE... [--temp T] [--window V1:V2] [--model single|double]
                        [--leakage-at V] [--model-card NAME] [--json] [--ascii]
-                       [--compare SESSION|FILE [--data DIR]]
+                       [--compare SESSION|FILE] [--save-to NAME] [--data DIR]
       Fit the diode equation to forward I-V data (one result per file).
       --compare sets the data against a session's junction: the RMS of
       ln(measured/predicted) over the window, and the minority lifetime of
@@ -67,6 +67,7 @@ func fitUsage(w io.Writer) {
       measured one (with its diffusion length and the assumptions).
   junco fit cv FILE --area A [--material si|ge|gaas|4h-sic] [--window V1:V2]
                        [--profile] [--smooth N] [--model-card NAME] [--json] [--ascii]
+                       [--save-to NAME] [--data DIR]
       Mott-Schottky line (built-in potential, doping), doping profile and the
       junction-capacitance fit C = Cj0/(1 - V/Vbi)^m + Cpar.
   junco fit arrhenius FILE... [--temp T1,T2,...] [--gamma G] [--current I]
@@ -77,6 +78,12 @@ func fitUsage(w io.Writer) {
                        [--model single|double] [--json] [--ascii]
       Fit many I-V files in parallel; summary per parameter (median,
       quartiles, outliers) and a CSV table (--csv -, standard output).
+
+--save-to NAME (fit iv and cv) stores each data set fitted (IDs iv-1, cv-1,
+...) and its fit (parameters with standard errors; window and residual in
+the notes) as the next revision of session NAME, created with the default
+junction when missing; failed fits are not stored. --data DIR selects the
+session store (default $XDG_DATA_HOME/junco, else ~/.local/share/junco).
 
 Data files: CSV or TSV with a header naming voltage and current (or
 capacitance) columns, units in the header (V, mV; A, mA, uA, nA, pA; F, pF,
@@ -323,6 +330,7 @@ type fitIVReport struct {
 	*fitIVCompare
 
 	fit *extract.IVFit
+	ds  *measure.DataSet
 }
 
 // fitIVCompare is the comparison of the data with a session's junction
@@ -412,7 +420,7 @@ func fitIVFile(path string, c fitCommon, leakAt *float64) (*fitIVReport, error) 
 	r := &fitIVReport{File: path, Model: c.model.String(), TemperatureK: fitNum(t), TemperatureSource: src,
 		WindowV: []float64{f.UsedWindow.MinV, f.UsedWindow.MaxV}, RMSLogResidual: fitNum(f.RMSLogResidual),
 		Points: &f.Points, SkippedPoints: f.Skipped, RowProblems: ds.ProblemRows, Correlations: fitCorrelations(f.Correlations),
-		Notes: f.Notes, fit: f}
+		Notes: f.Notes, fit: f, ds: ds}
 	if src == "assumed" {
 		r.Notes = append(r.Notes, "temperature not given (no --temp, column or comment): 300 K assumed")
 	}
@@ -445,7 +453,7 @@ func fitIVFile(path string, c fitCommon, leakAt *float64) (*fitIVReport, error) 
 }
 
 func fitRunIV(args []string, stdout, stderr io.Writer) int {
-	a, err := fitParseArgs("iv", args, []string{"temp", "window", "model", "model-card", "leakage-at", "compare", "data"}, []string{"json", "ascii"})
+	a, err := fitParseArgs("iv", args, []string{"temp", "window", "model", "model-card", "leakage-at", "compare", "data", "save-to"}, []string{"json", "ascii"})
 	if err != nil {
 		fmt.Fprintln(stderr, err)
 		return exitUsage
@@ -478,6 +486,13 @@ func fitRunIV(args []string, stdout, stderr io.Writer) int {
 			return exitUsage
 		}
 		leakAt = &v
+	}
+	saveTo, wantSave := a.str("save-to")
+	if wantSave {
+		if err := fitSaveCheckName("iv", saveTo); err != nil {
+			fmt.Fprintln(stderr, err)
+			return exitUsage
+		}
 	}
 	var cmpSpec *model.Spec
 	cmpName, wantCmp := a.str("compare")
@@ -530,16 +545,27 @@ func fitRunIV(args []string, stdout, stderr io.Writer) int {
 			fmt.Fprintf(stderr, "junco fit iv: %v\n", err)
 			return exitFailure
 		}
-		return code
+	} else {
+		for k, r := range reports {
+			if k > 0 {
+				fmt.Fprintln(stdout)
+			}
+			fitIVText(stdout, r, c.ascii)
+			if r.fitIVCompare != nil {
+				fitCompareText(stdout, r.fitIVCompare, c.ascii)
+			}
+		}
 	}
-	for k, r := range reports {
-		if k > 0 {
-			fmt.Fprintln(stdout)
+	if wantSave {
+		var items []fitSaveItem
+		now := time.Now()
+		for _, r := range reports {
+			if r.fit != nil && r.ds != nil {
+				items = append(items, fitIVSaveItem(r, now))
+			}
 		}
-		fitIVText(stdout, r, c.ascii)
-		if r.fitIVCompare != nil {
-			fitCompareText(stdout, r.fitIVCompare, c.ascii)
-		}
+		dir, _ := a.str("data")
+		code = max(code, fitSaveReport("iv", dir, saveTo, items, stderr))
 	}
 	return code
 }
@@ -666,7 +692,7 @@ type fitCVReport struct {
 }
 
 func fitRunCV(args []string, stdout, stderr io.Writer) int {
-	a, err := fitParseArgs("cv", args, []string{"area", "material", "window", "smooth", "model-card"}, []string{"json", "ascii", "profile"})
+	a, err := fitParseArgs("cv", args, []string{"area", "material", "window", "smooth", "model-card", "save-to", "data"}, []string{"json", "ascii", "profile"})
 	if err != nil {
 		fmt.Fprintln(stderr, err)
 		return exitUsage
@@ -719,6 +745,13 @@ func fitRunCV(args []string, stdout, stderr io.Writer) int {
 	if wantCard {
 		if _, err := extract.ModelCard(card, extract.CardParams{}); err != nil {
 			return bad("--model-card: %v", err)
+		}
+	}
+	saveTo, wantSave := a.str("save-to")
+	if wantSave {
+		if err := fitSaveCheckName("cv", saveTo); err != nil {
+			fmt.Fprintln(stderr, err)
+			return exitUsage
 		}
 	}
 	ascii := a.bools["ascii"]
@@ -781,9 +814,18 @@ func fitRunCV(args []string, stdout, stderr io.Writer) int {
 			fmt.Fprintf(stderr, "junco fit cv: %v\n", err)
 			return exitFailure
 		}
-		return code
+	} else {
+		fitCVText(stdout, r, ascii)
 	}
-	fitCVText(stdout, r, ascii)
+	if wantSave {
+		var jfit *extract.CVFit
+		if r.ZeroBiasCapacitanceF != nil {
+			jfit = jf
+		}
+		dir, _ := a.str("data")
+		item := fitCVSaveItem(ds, r, ms, jfit, time.Now())
+		code = max(code, fitSaveReport("cv", dir, saveTo, []fitSaveItem{item}, stderr))
+	}
 	return code
 }
 
