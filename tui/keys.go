@@ -158,7 +158,7 @@ func DefaultKeyMap() KeyMap {
 		Back:        b([]string{"esc", "left", "shift+tab"}, "esc", "back"),
 
 		Import:   b([]string{"i"}, "i", "import a measurement"),
-		Fit:      b([]string{"f"}, "f", "fit an I-V measurement"),
+		Fit:      b([]string{"f"}, "f", "fit an I-V or C-V measurement"),
 		AddData:  b([]string{"enter"}, "enter", "add to the session"),
 		AddFit:   b([]string{"f"}, "f", "add and fit"),
 		EditPath: b([]string{"e", "backspace"}, "e", "edit the path"),

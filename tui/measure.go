@@ -216,9 +216,17 @@ func (m Model) ivMeasurements() []int {
 // openFit shows the fit screen for measurement i (-1: the newest I-V
 // data set).
 func (m *Model) openFit(i int) {
+	if i >= 0 && i < len(m.sess.meas) && m.sess.meas[i].Kind == measure.KindCV {
+		m.openCVFit(i)
+		return
+	}
 	ivs := m.ivMeasurements()
 	if len(ivs) == 0 {
-		m.note = "no I-V data set in the session: i imports one"
+		if len(m.fitMeasurements()) > 0 {
+			m.openCVFit(-1)
+			return
+		}
+		m.note = "no I-V data set (nor C-V) in the session: i imports one"
 		return
 	}
 	if i < 0 || i >= len(m.sess.meas) || m.sess.meas[i].Kind != measure.KindIV {
@@ -336,23 +344,7 @@ func (m Model) fitKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		f.row = 1 - f.row
 		return m, nil
 	case keyIs(km, k.PrevData), keyIs(km, k.NextData):
-		ivs := m.ivMeasurements()
-		if len(ivs) < 2 {
-			return m, nil
-		}
-		at := 0
-		for j, i := range ivs {
-			if i == f.idx {
-				at = j
-			}
-		}
-		if keyIs(km, k.NextData) {
-			at = (at + 1) % len(ivs)
-		} else {
-			at = (at + len(ivs) - 1) % len(ivs)
-		}
-		f.idx = ivs[at]
-		m.refit()
+		m.stepFitData(f.idx, keyIs(km, k.NextData))
 		return m, nil
 	}
 	f.row = min(max(f.row, 0), 1)
@@ -549,8 +541,8 @@ func (m Model) fitScreen(w, h int) []string {
 	if f.idx >= 0 && f.idx < len(m.sess.meas) {
 		x := m.sess.meas[f.idx]
 		title = "Fit " + x.ID + " " + g.dot + " " + x.SourceFile
-		if n := len(m.ivMeasurements()); n > 1 {
-			title += fmt.Sprintf(" %s %d I-V data sets (pgup/pgdn)", g.dot, n)
+		if n := len(m.fitMeasurements()); n > 1 {
+			title += fmt.Sprintf(" %s %d data sets (pgup/pgdn)", g.dot, n)
 		}
 	}
 	out := []string{rule(title, w, glyphs{hbar: g.hbarHeavy}, st.heading)}

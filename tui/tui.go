@@ -147,6 +147,7 @@ const (
 	screenDraft          // a recovery draft was found
 	screenImport         // import a measurement: path and preview
 	screenFit            // fit an I-V measurement
+	screenCVFit          // fit a C-V measurement
 )
 
 // Layouts by terminal size.
@@ -201,6 +202,7 @@ type Model struct {
 	br            browser
 	imp           importState
 	fit           fitState
+	cvfit         cvFitState
 	quitAfterSave bool
 	syncCharts    bool
 }
@@ -468,6 +470,9 @@ func (m Model) update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		if m.screen == screenFit {
 			m.renderFit()
 		}
+		if m.screen == screenCVFit {
+			m.renderCVFit()
+		}
 		return m, m.relayout()
 	case chartDataMsg:
 		m.chart.apply(msg)
@@ -528,6 +533,8 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		return m.importKey(km)
 	case screenFit:
 		return m.fitKey(km)
+	case screenCVFit:
+		return m.cvFitKey(km)
 	case screenHelp:
 		switch {
 		case km.String() == "ctrl+c":
@@ -740,6 +747,8 @@ func (m Model) View() string {
 		lines = append(lines, m.importScreen(w, h-2)...)
 	case screenFit:
 		lines = append(lines, m.fitScreen(w, h-2)...)
+	case screenCVFit:
+		lines = append(lines, m.cvFitScreen(w, h-2)...)
 	default:
 		lines = append(lines, m.body()...)
 	}
@@ -828,6 +837,8 @@ func (m Model) footer() string {
 		hk = importHelp{k: m.e.keys, preview: m.imp.ds != nil}
 	case screenFit:
 		hk = fitHelp{m.e.keys}
+	case screenCVFit:
+		hk = cvFitHelp{m.e.keys}
 	default:
 		switch m.focus {
 		case panelDefine:

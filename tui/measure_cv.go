@@ -1,0 +1,398 @@
+package tui
+
+import (
+	"fmt"
+	"math"
+	"strings"
+
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+
+	"junco/model"
+	"junco/model/measure"
+	"junco/sessions"
+)
+
+// cvFitState is the C-V fit screen: the C-V data set fitted, the window
+// fields, the fit and its 1/C^2 chart, drawn for the size in w x h.
+type cvFitState struct {
+	idx    int // index into the session's measurements
+	eds    [2]lineEditor
+	row    int
+	win    model.IVFitWindow
+	winErr string
+	view   *model.CVFitView
+	err    string
+
+	w, h   int
+	legend []string
+	yTitle string
+	plot   []string
+}
+
+// fitMeasurements returns the indices of the session's data sets that a
+// fit screen takes (I-V and C-V), in session order.
+func (m Model) fitMeasurements() []int {
+	var out []int
+	for i, x := range m.sess.meas {
+		if x.Kind == measure.KindIV || x.Kind == measure.KindCV {
+			out = append(out, i)
+		}
+	}
+	return out
+}
+
+// stepFitData moves from measurement at to the previous or next fittable
+// data set and opens the fit screen of its kind.
+func (m *Model) stepFitData(at int, next bool) {
+	all := m.fitMeasurements()
+	if len(all) < 2 {
+		return
+	}
+	j := 0
+	for n, i := range all {
+		if i == at {
+			j = n
+		}
+	}
+	if next {
+		j = (j + 1) % len(all)
+	} else {
+		j = (j + len(all) - 1) % len(all)
+	}
+	// On a screen of the same kind the window typed stays in force.
+	i := all[j]
+	cv := m.sess.meas[i].Kind == measure.KindCV
+	switch {
+	case cv && m.screen == screenCVFit:
+		m.cvfit.idx = i
+		m.recvfit()
+	case cv:
+		m.openCVFit(i)
+	case m.screen == screenFit:
+		m.fit.idx = i
+		m.refit()
+	default:
+		m.openFit(i)
+	}
+}
+
+// openCVFit shows the C-V fit screen for measurement i (not C-V: the
+// newest C-V data set).
+func (m *Model) openCVFit(i int) {
+	var cvs []int
+	for j, x := range m.sess.meas {
+		if x.Kind == measure.KindCV {
+			cvs = append(cvs, j)
+		}
+	}
+	if len(cvs) == 0 {
+		m.note = "no C-V data set in the session: i imports one"
+		return
+	}
+	if i < 0 || i >= len(m.sess.meas) || m.sess.meas[i].Kind != measure.KindCV {
+		i = cvs[len(cvs)-1]
+	}
+	m.cvfit = cvFitState{idx: i, eds: [2]lineEditor{newLineEditor(""), newLineEditor("")}}
+	m.screen = screenCVFit
+	m.recvfit()
+}
+
+// recvfit fits the chosen C-V data set in the window in force (the
+// prediction comes with the fit) and redraws.
+func (m *Model) recvfit() {
+	f := &m.cvfit
+	f.view, f.err = nil, ""
+	if f.idx < 0 || f.idx >= len(m.sess.meas) {
+		f.err = "the data set is gone"
+		m.renderCVFit()
+		return
+	}
+	v, err := model.FitMeasuredCV(&m.sess.meas[f.idx].DataSet, m.form.spec, f.win)
+	if err != nil {
+		f.err = err.Error()
+	} else {
+		f.view = v
+	}
+	m.renderCVFit()
+}
+
+// keepCVFit stores the C-V fit in force with the session as a
+// Mott-Schottky extraction.
+func (m *Model) keepCVFit() {
+	f := &m.cvfit
+	switch {
+	case m.sess.readOnly:
+		m.note = "read-only review: fits cannot be kept here"
+		return
+	case f.view == nil || f.idx < 0 || f.idx >= len(m.sess.meas):
+		m.note = "no fit to keep"
+		return
+	}
+	var params []sessions.Parameter
+	for _, p := range f.view.Parameters() {
+		if !finite(p.Value) {
+			continue
+		}
+		q := sessions.Parameter{Name: p.Name, Unit: p.Unit, Value: p.Value}
+		if finite(p.StdErr) {
+			se := p.StdErr
+			q.StdError = &se
+		}
+		params = append(params, q)
+	}
+	ms := m.sess.meas[f.idx]
+	v := f.view
+	r := v.MottSchottky
+	notes := []string{fmt.Sprintf("window %s to %s, %d points, RMS relative residual of 1/C^2 %.4g",
+		model.Format(model.Voltage, r.UsedWindow.MinV, 4, true), model.Format(model.Voltage, r.UsedWindow.MaxV, 4, true), r.Points, r.RMSRelResidual),
+		fmt.Sprintf("one-sided abrupt junction; area %s, permittivity of %s", model.Format(model.Area, v.AreaM2, 4, true), v.Material)}
+	if v.JunctionNote != "" {
+		notes = append(notes, v.JunctionNote)
+	}
+	id := fmt.Sprintf("fit-%d", len(m.sess.extr)+1)
+	m.sess.extr = append(m.sess.extr, sessions.Extraction{ID: id, Method: "mott-schottky", Measurement: ms.ID,
+		Performed: m.sess.now().UTC(), Parameters: params, Notes: notes})
+	m.note = "kept " + id + " of " + ms.ID + " with the session; ctrl+s saves it"
+}
+
+// applyCVWindow reads the window fields: both empty means every point.
+func (m *Model) applyCVWindow() {
+	f := &m.cvfit
+	a, b := strings.TrimSpace(f.eds[0].value()), strings.TrimSpace(f.eds[1].value())
+	f.winErr = ""
+	if a == "" && b == "" {
+		f.win = model.IVFitWindow{}
+		m.recvfit()
+		return
+	}
+	lo, err1 := model.ParseValue(model.Voltage, a)
+	hi, err2 := model.ParseValue(model.Voltage, b)
+	switch {
+	case err1 != nil:
+		f.winErr = "V1: " + err1.Error()
+	case err2 != nil:
+		f.winErr = "V2: " + err2.Error()
+	case !(lo < hi):
+		f.winErr = "the window needs V1 < V2"
+	}
+	if f.winErr != "" {
+		m.renderCVFit()
+		return
+	}
+	f.win = model.IVFitWindow{MinV: lo, MaxV: hi}
+	m.recvfit()
+}
+
+func (m Model) cvFitKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
+	k := m.e.keys
+	f := &m.cvfit
+	switch {
+	case km.String() == "ctrl+c":
+		return m.quit()
+	case keyIs(km, k.Dismiss):
+		m.screen = screenMain
+		return m, nil
+	case keyIs(km, k.Submit):
+		m.applyCVWindow()
+		return m, nil
+	case keyIs(km, k.KeepFit):
+		m.keepCVFit()
+		return m, nil
+	case km.Type == tea.KeyTab || km.Type == tea.KeyShiftTab:
+		f.row = 1 - f.row
+		return m, nil
+	case keyIs(km, k.PrevData), keyIs(km, k.NextData):
+		m.stepFitData(f.idx, keyIs(km, k.NextData))
+		return m, nil
+	}
+	f.row = min(max(f.row, 0), 1)
+	f.eds[f.row].handle(km)
+	return m, nil
+}
+
+// renderCVFit draws the 1/C^2 chart of the C-V fit screen.
+func (m *Model) renderCVFit() {
+	f := &m.cvfit
+	st, g := m.e.st, m.e.g
+	f.w, f.h = m.w, m.h
+	f.legend, f.yTitle, f.plot = nil, "", nil
+	cw, ch, _ := fitGeometry(m.w, m.h-2)
+	v := f.view
+	if v == nil || cw < 16 || len(v.Inverse.Series) < 2 {
+		return
+	}
+	dotMark := "+"
+	if !m.e.ascii {
+		dotMark = "•"
+	}
+	items := []string{st.series[1].Paint(dotMark) + " measured 1/C²"}
+	if m.e.ascii {
+		items[0] = st.series[1].Paint(dotMark) + " measured 1/C^2"
+	}
+	type src struct {
+		xs, ys []float64
+		ln     plotLine
+	}
+	var srcs []src
+	if p := v.Prediction; p != nil && len(p.Series) > 0 {
+		items = append(items, st.pinSeries.Paint(g.pinMarker)+" "+p.Series[0].Label+" (the junction)")
+		srcs = append(srcs, src{p.Xs, p.Series[0].Y, plotLine{label: "prediction", paint: st.pinSeries, marker: g.pinMarker, pinned: true}})
+	}
+	items = append(items, st.series[0].Paint(g.markers[0])+" Mott-Schottky line")
+	srcs = append(srcs, src{v.Inverse.Xs, v.Inverse.Series[1].Y, plotLine{label: "line", paint: st.series[0], marker: g.markers[0]}})
+	srcs = append(srcs, src{v.Inverse.Xs, v.Inverse.Series[0].Y, plotLine{label: "measured", paint: st.series[1], marker: dotMark, dots: true}})
+	f.legend = flowItems(items, cw, 2)
+	ph := ch - len(f.legend) - 2
+	if ph < 5 {
+		f.legend = nil
+		return
+	}
+	// The y range is that of the measured points (the line and the
+	// prediction are clipped to it, so a far-off prediction cannot flatten
+	// the data), scaled to a power of ten for the tick labels.
+	ylo, yhi := minMax(v.Inverse.Series[0].Y, 1)
+	ylo = math.Min(ylo, 0)
+	peak := math.Max(math.Abs(ylo), math.Abs(yhi))
+	exp := 0
+	if peak > 0 && finite(peak) {
+		exp = int(math.Floor(math.Log10(peak)))
+	}
+	scale := math.Pow(10, float64(exp))
+	ys := linearScale(ylo/scale, yhi*1.05/scale, max(2, ph/3))
+	xlo, xhi := minMax(v.Inverse.Xs, 1)
+	xs := exactScale(xlo, xhi, max(2, cw/12))
+	var lines []plotLine
+	for _, s := range srcs {
+		ln := s.ln
+		ln.xs = s.xs
+		ln.ys = make([]float64, len(s.ys))
+		for i, y := range s.ys {
+			y /= scale
+			if !finite(y) || y < ys.min || y > ys.max {
+				y = math.NaN()
+			}
+			ln.ys[i] = y
+		}
+		lines = append(lines, ln)
+	}
+	f.yTitle = fmt.Sprintf("1/C^2 (1e%d F^-2)", exp)
+	f.plot = renderPlot(lines, xs, ys, cw, ph, m.e)
+}
+
+// cvFitTable is the parameter table of the C-V fit screen; compact sets
+// two parameters to a line.
+func (m Model) cvFitTable(w int, compact bool) []string {
+	st, g := m.e.st, m.e.g
+	f := m.cvfit
+	var out []string
+	if f.err != "" {
+		out = append(out, st.err.Paint(g.bad+" the fit failed:"))
+		out = append(out, wrapped(f.err, w, st.err, "  ")...)
+	}
+	v := f.view
+	if v == nil {
+		return out
+	}
+	pm := "±"
+	if m.e.ascii {
+		pm = "+/-"
+	}
+	out = append(out, st.strong.Paint(cut("Mott-Schottky, one-sided abrupt", w, g.ellipsis)))
+	var pair string
+	for i, r := range v.Rows {
+		if i == 2 && !compact {
+			out = append(out, st.strong.Paint(cut("C = Cj0/(1 - V/Vj)^m + Cpar", w, g.ellipsis)))
+		}
+		l := fmt.Sprintf("  %-4s %-12s %s %s", r.Name, r.Value, pm, r.StdErr)
+		if r.Remark != "" {
+			l = fmt.Sprintf("  %-4s %-12s %s", r.Name, r.Value, r.Remark)
+		}
+		if compact {
+			if i%2 == 0 {
+				pair = padRight(l, 38, "")
+				if i == len(v.Rows)-1 {
+					out = append(out, cut(pair, w, g.ellipsis))
+				}
+				continue
+			}
+			l = pair + l
+		}
+		out = append(out, cut(l, w, g.ellipsis))
+	}
+	r := v.MottSchottky
+	win := fmt.Sprintf("  %d points, window used %s to %s", r.Points,
+		model.Format(model.Voltage, r.UsedWindow.MinV, 4, m.e.ascii), model.Format(model.Voltage, r.UsedWindow.MaxV, 4, m.e.ascii))
+	out = append(out, cut(win, w, g.ellipsis),
+		cut(fmt.Sprintf("  RMS relative residual %.4f", r.RMSRelResidual), w, g.ellipsis))
+	if v.JunctionNote != "" {
+		out = append(out, wrapped(v.JunctionNote, w, st.muted, "  ")...)
+	}
+	if !compact {
+		out = append(out, wrapped(fmt.Sprintf("N is the lightly doped side's doping, from the area %s and the permittivity of %s.",
+			model.Format(model.Area, v.AreaM2, 4, m.e.ascii), v.Material), w, st.muted, "  ")...)
+	}
+	if v.PredictionErr != "" {
+		out = append(out, wrapped("no prediction: "+v.PredictionErr, w, st.muted, "  ")...)
+	}
+	return out
+}
+
+// cvFitScreen draws the C-V fit: the window fields, the chart and the
+// table.
+func (m Model) cvFitScreen(w, h int) []string {
+	st, g := m.e.st, m.e.g
+	f := m.cvfit
+	title := "C-V fit"
+	if f.idx >= 0 && f.idx < len(m.sess.meas) {
+		x := m.sess.meas[f.idx]
+		title = "C-V fit " + x.ID + " " + g.dot + " " + x.SourceFile
+		if n := len(m.fitMeasurements()); n > 1 {
+			title += fmt.Sprintf(" %s %d data sets (pgup/pgdn)", g.dot, n)
+		}
+	}
+	out := []string{rule(title, w, glyphs{hbar: g.hbarHeavy}, st.heading)}
+	field := func(i int, label string) string {
+		cur := st.faint
+		if i == f.row {
+			cur = st.selected
+		}
+		return label + " " + st.text.Paint("["+f.eds[i].view(9, cur, " ")+"]")
+	}
+	win := "window " + field(0, "V1") + "  " + field(1, "V2")
+	if f.win == (model.IVFitWindow{}) {
+		win += st.muted.Paint("  (empty: every point)")
+	}
+	out = append(out, win)
+	if f.winErr != "" {
+		out = append(out, st.err.Paint(cut(g.bad+" "+f.winErr, w, g.ellipsis)))
+	} else {
+		out = append(out, "")
+	}
+	cw, ch, beside := fitGeometry(w, h)
+	var chart []string
+	if f.plot != nil {
+		chart = append(chart, f.legend...)
+		chart = append(chart, st.muted.Paint(f.yTitle))
+		chart = append(chart, f.plot...)
+		chart = append(chart, st.muted.Paint(padLeft("bias V (V)", cw)))
+	} else {
+		chart = append(chart, st.muted.Paint("(no chart: enlarge the terminal, or no fit to draw)"))
+	}
+	if beside {
+		left := block(chart, cw, ch, g.ellipsis)
+		out = append(out, joinColumns(" "+st.faint.Paint(g.vbar), left, m.cvFitTable(fitTableWidth, false))...)
+	} else {
+		out = append(out, block(chart, cw, max(ch, 0), g.ellipsis)...)
+		out = append(out, m.cvFitTable(w, true)...)
+	}
+	return block(out, w, h, g.ellipsis)
+}
+
+// cvFitHelp is the footer of the C-V fit screen.
+type cvFitHelp struct{ k KeyMap }
+
+func (h cvFitHelp) ShortHelp() []key.Binding {
+	return []key.Binding{h.k.Refit, key.NewBinding(key.WithKeys("tab"), key.WithHelp("tab", "other bound")), h.k.KeepFit, h.k.NextData, h.k.Close}
+}
+func (h cvFitHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }

@@ -1,0 +1,192 @@
+package tui
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	tea "github.com/charmbracelet/bubbletea"
+
+	"junco/model"
+	"junco/physics"
+)
+
+// cvTestSpec is an invented one-sided junction: p+ (1e19 cm^-3) on n
+// (1e16 cm^-3) silicon, 1 mm^2, at 300 K.
+func cvTestSpec() model.Spec {
+	s := model.DemoJunction().Spec
+	s.Material, s.Profile = "si", "abrupt"
+	s.AcceptorDensity, s.DonorDensity = 1e19*1e6, 1e16*1e6
+	s.Area, s.Temperature = 1e-6, 300
+	return s
+}
+
+// writeCV writes a reverse C-V sweep of cvTestSpec computed by the model
+// (depletion capacitance) with 0.2 % scatter from a fixed seed, in volts
+// and picofarads.
+func writeCV(t *testing.T, name string) string {
+	t.Helper()
+	cv, _, err := model.CVCurve(cvTestSpec(), model.Range{From: -5, To: 0, Step: 0.1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rng := rand.New(rand.NewPCG(11, 5))
+	var b strings.Builder
+	b.WriteString("# temperature: 300 K\nV (V),C (pF)\n")
+	for k, v := range cv.Xs {
+		c := cv.Series[0].Y[k] * (1 + 0.002*rng.NormFloat64())
+		fmt.Fprintf(&b, "%.4f,%.6e\n", v, c*1e12)
+	}
+	p := filepath.Join(t.TempDir(), name)
+	if err := os.WriteFile(p, []byte(b.String()), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+// withSpec sets the junction of the session (the geometry of the fit).
+func withSpec(m Model, s model.Spec) Model {
+	m.form.spec = s
+	return m
+}
+
+// The invented sweep fits back: doping within 5 %, Vbi within 50 mV of
+// the junction's built-in potential; the screen shows the rows and the
+// legend at both layouts.
+func TestCVFitRoundTrip(t *testing.T) {
+	s := cvTestSpec()
+	mat, err := physics.MaterialByName(s.Material)
+	if err != nil {
+		t.Fatal(err)
+	}
+	vbi := physics.BuiltInPotential(s.AcceptorDensity, s.DonorDensity, mat.Ni(s.Temperature), s.Temperature)
+	path := writeCV(t, "cv.csv")
+	for _, size := range [][2]int{{120, 40}, {80, 30}} {
+		m := withSpec(bare(newTest(t, size[0], size[1])), s)
+		m = importInto(t, m, path)
+		if !strings.Contains(plain(m), "C-V sweep: 51 points") {
+			t.Fatalf("%v: preview:\n%s", size, plain(m))
+		}
+		m = press(m, "f")
+		if m.screen != screenCVFit || m.cvfit.view == nil {
+			t.Fatalf("%v: f must add and show the C-V fit: %q\n%s", size, m.cvfit.err, plain(m))
+		}
+		ms := m.cvfit.view.MottSchottky
+		if r := ms.DopingM3 / s.DonorDensity; math.Abs(r-1) > 0.05 {
+			t.Errorf("%v: doping %g, want %g (ratio %.4f)", size, ms.DopingM3, s.DonorDensity, r)
+		}
+		if d := ms.BuiltInV - vbi; math.Abs(d) > 0.05 {
+			t.Errorf("%v: Vbi %.4f V, want %.4f V", size, ms.BuiltInV, vbi)
+		}
+		if !(ms.StdErrM3 > 0) || !(ms.StdErrV > 0) {
+			t.Errorf("%v: standard errors %g %g", size, ms.StdErrM3, ms.StdErrV)
+		}
+		v := plain(m)
+		for _, want := range []string{"C-V fit cv-1", "Vbi", "N ", "cm^-3", "measured 1/C", "Mott-Schottky line", "prediction", "1/C^2 (1e", "window"} {
+			if !strings.Contains(v, want) {
+				t.Errorf("%v: the C-V screen lacks %q:\n%s", size, want, v)
+			}
+		}
+		if m.cvfit.view.Junction != nil && !strings.Contains(v, "Cj0") {
+			t.Errorf("%v: the general fit converged but is not shown:\n%s", size, v)
+		}
+		// A window narrows the points used; a bad one is refused.
+		before := ms.Points
+		m = press(m, "ctrl+u")
+		m.cvfit.eds[0].set("-3")
+		m.cvfit.eds[1].set("-1")
+		m = press(m, "enter")
+		if m.cvfit.view == nil || m.cvfit.view.MottSchottky.Points >= before {
+			t.Fatalf("%v: window not applied: %+v %q", size, m.cvfit.win, m.cvfit.err)
+		}
+		m.cvfit.eds[1].set("-4")
+		m = press(m, "enter")
+		if m.cvfit.winErr == "" || m.cvfit.view == nil {
+			t.Errorf("%v: V1 > V2 must be refused, keeping the fit", size)
+		}
+		m = press(m, "esc")
+		if m.screen != screenMain {
+			t.Errorf("%v: esc must close the C-V screen", size)
+		}
+	}
+}
+
+// ctrl+k keeps the C-V fit as a Mott-Schottky extraction that validates.
+func TestKeepCVFit(t *testing.T) {
+	st := newStore(t, "alice")
+	m := start(New(opts(st, "alice", 120, 40)))
+	m = press(m, "f")
+	if m.screen != screenFit {
+		t.Fatalf("f must still open the I-V fit on the demo:\n%s", plain(m))
+	}
+	// pgdn cycles through every data set; the demo's C-V sweep is last.
+	for n := 0; n < len(m.sess.meas) && m.screen != screenCVFit; n++ {
+		m = press(m, "pgdown")
+	}
+	if m.screen != screenCVFit || m.cvfit.view == nil {
+		t.Fatalf("pgdn must reach the C-V data set: %q\n%s", m.cvfit.err, plain(m))
+	}
+	m = press(m, "ctrl+k")
+	if len(m.sess.extr) != 1 || !m.Dirty() {
+		t.Fatalf("kept %d fits, dirty %v", len(m.sess.extr), m.Dirty())
+	}
+	x := m.sess.extr[0]
+	if x.Method != "mott-schottky" || !strings.HasPrefix(x.Measurement, "cv-") || len(x.Parameters) < 2 ||
+		x.Parameters[0].Name != "Vbi" || x.Parameters[1].Name != "N" || x.Parameters[1].StdError == nil {
+		t.Fatalf("extraction %+v", x)
+	}
+	if r := x.Parameters[1].Value / model.DemoJunction().Spec.DonorDensity; math.Abs(r-1) > 0.05 {
+		t.Errorf("demo doping ratio %.4f", r)
+	}
+	doc, err := m.document("demo")
+	if err != nil || len(doc.Extractions) != 1 {
+		t.Fatalf("document extractions: %v %v", doc, err)
+	}
+	if err := doc.Validate(); err != nil {
+		t.Fatalf("the saved document would be invalid: %v", err)
+	}
+	// pgup goes back to an I-V set on the I-V screen.
+	m = press(m, "pgup")
+	if m.screen != screenFit {
+		t.Errorf("pgup from the C-V set must show the I-V screen, screen %d", m.screen)
+	}
+}
+
+// Random keys and sizes on the C-V screen do not panic and always draw.
+func TestCVFitRandomKeys(t *testing.T) {
+	m := withSpec(bare(newTest(t, 120, 40)), cvTestSpec())
+	m = importInto(t, m, writeCV(t, "cv.csv"))
+	m = press(m, "f")
+	if m.screen != screenCVFit {
+		t.Fatalf("no C-V screen:\n%s", plain(m))
+	}
+	rng := rand.New(rand.NewPCG(7, 7))
+	named := []tea.KeyType{tea.KeyEnter, tea.KeyTab, tea.KeyShiftTab, tea.KeyBackspace, tea.KeyLeft, tea.KeyRight,
+		tea.KeyPgUp, tea.KeyPgDown, tea.KeyCtrlK, tea.KeyCtrlU, tea.KeyHome, tea.KeyEnd, tea.KeyDelete}
+	runes := []rune("-0123456789.eEmuVk xq")
+	sizes := [][2]int{{120, 40}, {80, 24}, {40, 12}, {10, 5}, {200, 60}}
+	for step := 0; step < 300; step++ {
+		var msg tea.Msg
+		switch p := rng.IntN(100); {
+		case p < 5:
+			s := sizes[rng.IntN(len(sizes))]
+			msg = tea.WindowSizeMsg{Width: s[0], Height: s[1]}
+		case p < 40:
+			msg = tea.KeyMsg{Type: named[rng.IntN(len(named))]}
+		default:
+			msg = tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune{runes[rng.IntN(len(runes))]}}
+		}
+		tm, _ := m.Update(msg)
+		m = tm.(Model)
+		if m.View() == "" {
+			t.Fatalf("step %d: empty view", step)
+		}
+		if m.screen != screenCVFit {
+			m = press(m, "f")
+		}
+	}
+}
