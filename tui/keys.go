@@ -73,6 +73,11 @@ type KeyMap struct {
 	AddData, AddFit, EditPath key.Binding
 	// Fit screen: refit with the window typed, choose the I-V data set.
 	Refit, PrevData, NextData, KeepFit key.Binding
+	// LinLog switches the current axis of the I-V fit between log and
+	// linear.
+	LinLog key.Binding
+	// Arrhenius opens the temperature analysis of the I-V data sets.
+	Arrhenius key.Binding
 
 	// review is set in review mode: the help leaves out the keys that
 	// would change something (they are refused with a reason).
@@ -157,15 +162,17 @@ func DefaultKeyMap() KeyMap {
 		OpenRev:     b([]string{"enter"}, "enter", "open this revision"),
 		Back:        b([]string{"esc", "left", "shift+tab"}, "esc", "back"),
 
-		Import:   b([]string{"i"}, "i", "import a measurement"),
-		Fit:      b([]string{"f"}, "f", "fit an I-V or C-V measurement"),
-		AddData:  b([]string{"enter"}, "enter", "add to the session"),
-		AddFit:   b([]string{"f"}, "f", "add and fit"),
-		EditPath: b([]string{"e", "backspace"}, "e", "edit the path"),
-		Refit:    b([]string{"enter"}, "enter", "refit in the window"),
-		PrevData: b([]string{"pgup"}, "pgup", "previous data set"),
-		NextData: b([]string{"pgdown"}, "pgdn", "next data set"),
-		KeepFit:  b([]string{"ctrl+k"}, "ctrl+k", "keep the fit with the session"),
+		Import:    b([]string{"i"}, "i", "import a measurement"),
+		Fit:       b([]string{"f"}, "f", "fit an I-V or C-V measurement"),
+		AddData:   b([]string{"enter"}, "enter", "add to the session"),
+		AddFit:    b([]string{"f"}, "f", "add and fit"),
+		EditPath:  b([]string{"e", "backspace"}, "e", "edit the path"),
+		Refit:     b([]string{"enter"}, "enter", "refit in the window"),
+		PrevData:  b([]string{"pgup"}, "pgup", "previous data set"),
+		NextData:  b([]string{"pgdown"}, "pgdn", "next data set"),
+		KeepFit:   b([]string{"ctrl+k"}, "ctrl+k", "keep the fit with the session"),
+		LinLog:    b([]string{"ctrl+l"}, "ctrl+l", "linear/log current axis"),
+		Arrhenius: b([]string{"A"}, "A", "activation energy from the I-V data sets"),
 	}
 	return k
 }
@@ -350,7 +357,7 @@ func (k KeyMap) helpGroups() []helpGroup {
 	return append(g,
 		helpGroup{"Results", []key.Binding{k.ScrollUp, k.ScrollDown, k.PageUp, k.PageDown, k.Top, k.Bottom}},
 		helpGroup{"Charts", k.chartBindings()},
-		helpGroup{"Measurements", []key.Binding{k.Import, k.Fit, k.AddData, k.AddFit, k.EditPath, k.Refit, k.PrevData, k.NextData, k.KeepFit}},
+		helpGroup{"Measurements", []key.Binding{k.Import, k.Fit, k.AddData, k.AddFit, k.EditPath, k.Refit, k.PrevData, k.NextData, k.KeepFit, k.LinLog, k.Arrhenius}},
 		helpGroup{"Session list", []key.Binding{k.ListUp, k.ListDown, k.Open, k.Revisions, k.ClearFilter, k.Close}},
 		helpGroup{"Revisions", []key.Binding{k.Mark, k.DiffPair, k.DiffCurrent, k.RestoreRev, k.OpenRev, k.Back}},
 		helpGroup{"Dialogs", []key.Binding{k.Submit, k.NextField, k.PrevField, k.Dismiss, k.Yes, k.No, k.SaveFirst}},

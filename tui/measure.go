@@ -38,6 +38,8 @@ type fitState struct {
 	err    string
 	pred   *model.Curve
 	pErr   string
+	// linear draws |I| on a linear axis instead of a log one.
+	linear bool
 
 	w, h   int
 	legend []string
@@ -340,6 +342,10 @@ func (m Model) fitKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	case keyIs(km, k.KeepFit):
 		m.keepFit()
 		return m, nil
+	case keyIs(km, k.LinLog):
+		f.linear = !f.linear
+		m.renderFit()
+		return m, nil
 	case km.Type == tea.KeyTab || km.Type == tea.KeyShiftTab:
 		f.row = 1 - f.row
 		return m, nil
@@ -406,6 +412,36 @@ func (m *Model) renderFit() {
 		f.legend = nil
 		return
 	}
+	xlo, xhi := minMax(meas.Xs, 1)
+	xs := exactScale(xlo, xhi, max(2, cw/12))
+	if f.linear {
+		// The y range is that of the measured |I| (the fit and the
+		// prediction are clipped to it), in the SI prefix that suits it.
+		mags := make([]float64, len(meas.Series[0].Y))
+		for i, y := range meas.Series[0].Y {
+			mags[i] = math.Abs(y)
+		}
+		div, unit := axisFactor(model.Axis{Kind: model.Current}, maxAbs(mags), m.e.ascii)
+		_, yhi := minMax(mags, div)
+		ys := linearScale(0, yhi*1.05, max(2, ph/3))
+		var lines []plotLine
+		for _, s := range srcs {
+			ln := s.ln
+			ln.xs = s.xs
+			ln.ys = make([]float64, len(s.ys))
+			for i, y := range s.ys {
+				y = math.Abs(y) / div
+				if !finite(y) || y > ys.max {
+					y = math.NaN()
+				}
+				ln.ys[i] = y
+			}
+			lines = append(lines, ln)
+		}
+		f.yTitle = "|current I| (" + unit + ", linear scale)"
+		f.plot = renderPlot(lines, xs, ys, cw, ph, m.e)
+		return
+	}
 	var all []float64
 	for _, s := range srcs {
 		for _, y := range s.ys {
@@ -420,8 +456,6 @@ func (m *Model) renderFit() {
 	}
 	ys := decadeScale(lo, hi, max(1, int(math.Ceil(3*float64(hi-lo)/float64(max(ph-2, 1))))))
 	floor := math.Pow(10, float64(lo))
-	xlo, xhi := minMax(meas.Xs, 1)
-	xs := exactScale(xlo, xhi, max(2, cw/12))
 	var lines []plotLine
 	for _, s := range srcs {
 		ln := s.ln
@@ -602,6 +636,6 @@ func (h importHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortH
 type fitHelp struct{ k KeyMap }
 
 func (h fitHelp) ShortHelp() []key.Binding {
-	return []key.Binding{h.k.Refit, key.NewBinding(key.WithKeys("tab"), key.WithHelp("tab", "other bound")), h.k.KeepFit, h.k.NextData, h.k.Close}
+	return []key.Binding{h.k.Refit, key.NewBinding(key.WithKeys("tab"), key.WithHelp("tab", "other bound")), h.k.KeepFit, h.k.LinLog, h.k.NextData, h.k.Close}
 }
 func (h fitHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }

@@ -249,3 +249,39 @@ func TestKeepFitWithSession(t *testing.T) {
 		t.Fatalf("the saved document would be invalid: %v", err)
 	}
 }
+
+// ctrl+l switches the fit chart's current axis between log and linear
+// (with an SI prefix), and back; the window fields take no text from it.
+func TestFitLinearLogToggle(t *testing.T) {
+	m := newTest(t, 120, 40)
+	m = press(m, "f")
+	if m.screen != screenFit || m.fit.view == nil {
+		t.Fatalf("f must open the I-V fit on the demo:\n%s", plain(m))
+	}
+	if v := plain(m); !strings.Contains(v, "log scale") {
+		t.Fatalf("the fit chart starts on a log axis:\n%s", v)
+	}
+	tm, _ := m.Update(tea.KeyMsg{Type: tea.KeyCtrlL})
+	m = tm.(Model)
+	v := plain(m)
+	if !m.fit.linear || !strings.Contains(v, "linear scale") || strings.Contains(v, "log scale") || m.fit.plot == nil {
+		t.Fatalf("ctrl+l must draw |I| on a linear axis:\n%s", v)
+	}
+	if !strings.Contains(v, "(mA, linear") && !strings.Contains(v, "(µA, linear") && !strings.Contains(v, "(A, linear") {
+		t.Errorf("the linear axis names its unit:\n%s", v)
+	}
+	if m.fit.eds[0].value() != "" || m.fit.eds[1].value() != "" {
+		t.Error("ctrl+l must not type into the window")
+	}
+	// A resize keeps the choice.
+	tm, _ = m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
+	m = tm.(Model)
+	if !strings.Contains(plain(m), "linear scale") {
+		t.Errorf("a resize must keep the linear axis:\n%s", plain(m))
+	}
+	tm, _ = m.Update(tea.KeyMsg{Type: tea.KeyCtrlL})
+	m = tm.(Model)
+	if m.fit.linear || !strings.Contains(plain(m), "log scale") {
+		t.Errorf("ctrl+l again must go back to log:\n%s", plain(m))
+	}
+}

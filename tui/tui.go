@@ -135,19 +135,20 @@ func (p panel) title() string {
 type screen int
 
 const (
-	screenMain    screen = iota
-	screenHelp           // guide and keys
-	screenQuit           // quit with unsaved changes?
-	screenDialog         // a text dialog: save, save as, note, review note, copy
-	screenBrowse         // the session list
-	screenHistory        // the revisions of a session
-	screenDiff           // the changes between two revisions
-	screenStale          // a save found a newer revision
-	screenConfirm        // a yes/no question before an action
-	screenDraft          // a recovery draft was found
-	screenImport         // import a measurement: path and preview
-	screenFit            // fit an I-V measurement
-	screenCVFit          // fit a C-V measurement
+	screenMain      screen = iota
+	screenHelp             // guide and keys
+	screenQuit             // quit with unsaved changes?
+	screenDialog           // a text dialog: save, save as, note, review note, copy
+	screenBrowse           // the session list
+	screenHistory          // the revisions of a session
+	screenDiff             // the changes between two revisions
+	screenStale            // a save found a newer revision
+	screenConfirm          // a yes/no question before an action
+	screenDraft            // a recovery draft was found
+	screenImport           // import a measurement: path and preview
+	screenFit              // fit an I-V measurement
+	screenCVFit            // fit a C-V measurement
+	screenArrhenius        // activation energy from I-V data at several temperatures
 )
 
 // Layouts by terminal size.
@@ -203,6 +204,7 @@ type Model struct {
 	imp           importState
 	fit           fitState
 	cvfit         cvFitState
+	arr           arrheniusState
 	quitAfterSave bool
 	syncCharts    bool
 }
@@ -535,6 +537,8 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		return m.fitKey(km)
 	case screenCVFit:
 		return m.cvFitKey(km)
+	case screenArrhenius:
+		return m.arrheniusKey(km)
 	case screenHelp:
 		switch {
 		case km.String() == "ctrl+c":
@@ -602,6 +606,9 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 			return m, nil
 		case keyIs(km, k.Fit):
 			m.openFit(-1)
+			return m, nil
+		case keyIs(km, k.Arrhenius):
+			m.openArrhenius()
 			return m, nil
 		case keyIs(km, k.NextPanel):
 			return m, m.setFocus((m.focus + 1) % panelCount)
@@ -749,6 +756,8 @@ func (m Model) View() string {
 		lines = append(lines, m.fitScreen(w, h-2)...)
 	case screenCVFit:
 		lines = append(lines, m.cvFitScreen(w, h-2)...)
+	case screenArrhenius:
+		lines = append(lines, m.arrheniusScreen(w, h-2)...)
 	default:
 		lines = append(lines, m.body()...)
 	}
@@ -839,6 +848,8 @@ func (m Model) footer() string {
 		hk = fitHelp{m.e.keys}
 	case screenCVFit:
 		hk = cvFitHelp{m.e.keys}
+	case screenArrhenius:
+		hk = arrheniusHelp{m.e.keys}
 	default:
 		switch m.focus {
 		case panelDefine:
