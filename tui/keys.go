@@ -78,6 +78,8 @@ type KeyMap struct {
 	LinLog key.Binding
 	// Arrhenius opens the temperature analysis of the I-V data sets.
 	Arrhenius key.Binding
+	// Batch opens the batch fit of a directory of I-V files.
+	Batch key.Binding
 
 	// review is set in review mode: the help leaves out the keys that
 	// would change something (they are refused with a reason).
@@ -173,6 +175,7 @@ func DefaultKeyMap() KeyMap {
 		KeepFit:   b([]string{"ctrl+k"}, "ctrl+k", "keep the fit with the session"),
 		LinLog:    b([]string{"ctrl+l"}, "ctrl+l", "linear/log current axis"),
 		Arrhenius: b([]string{"A"}, "A", "activation energy from the I-V data sets"),
+		Batch:     b([]string{"B"}, "B", "batch fit of a directory of I-V files"),
 	}
 	return k
 }
@@ -357,7 +360,7 @@ func (k KeyMap) helpGroups() []helpGroup {
 	return append(g,
 		helpGroup{"Results", []key.Binding{k.ScrollUp, k.ScrollDown, k.PageUp, k.PageDown, k.Top, k.Bottom}},
 		helpGroup{"Charts", k.chartBindings()},
-		helpGroup{"Measurements", []key.Binding{k.Import, k.Fit, k.AddData, k.AddFit, k.EditPath, k.Refit, k.PrevData, k.NextData, k.KeepFit, k.LinLog, k.Arrhenius}},
+		helpGroup{"Measurements", []key.Binding{k.Import, k.Fit, k.AddData, k.AddFit, k.EditPath, k.Refit, k.PrevData, k.NextData, k.KeepFit, k.LinLog, k.Arrhenius, k.Batch}},
 		helpGroup{"Session list", []key.Binding{k.ListUp, k.ListDown, k.Open, k.Revisions, k.ClearFilter, k.Close}},
 		helpGroup{"Revisions", []key.Binding{k.Mark, k.DiffPair, k.DiffCurrent, k.RestoreRev, k.OpenRev, k.Back}},
 		helpGroup{"Dialogs", []key.Binding{k.Submit, k.NextField, k.PrevField, k.Dismiss, k.Yes, k.No, k.SaveFirst}},

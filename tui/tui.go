@@ -149,6 +149,7 @@ const (
 	screenFit              // fit an I-V measurement
 	screenCVFit            // fit a C-V measurement
 	screenArrhenius        // activation energy from I-V data at several temperatures
+	screenBatch            // batch fit of the I-V files of a directory
 )
 
 // Layouts by terminal size.
@@ -205,6 +206,7 @@ type Model struct {
 	fit           fitState
 	cvfit         cvFitState
 	arr           arrheniusState
+	bat           batchState
 	quitAfterSave bool
 	syncCharts    bool
 }
@@ -482,6 +484,11 @@ func (m Model) update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	case solveDoneMsg:
 		m.chart.applySolve(msg)
 		return m, nil
+	case batchProgressMsg:
+		return m, m.applyBatchProgress(msg)
+	case batchDoneMsg:
+		m.applyBatchDone(msg)
+		return m, nil
 	case draftTickMsg:
 		cmd := m.writeDraft()
 		return m, cmd
@@ -539,6 +546,8 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		return m.cvFitKey(km)
 	case screenArrhenius:
 		return m.arrheniusKey(km)
+	case screenBatch:
+		return m.batchKey(km)
 	case screenHelp:
 		switch {
 		case km.String() == "ctrl+c":
@@ -609,6 +618,9 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 			return m, nil
 		case keyIs(km, k.Arrhenius):
 			m.openArrhenius()
+			return m, nil
+		case keyIs(km, k.Batch):
+			m.openBatch()
 			return m, nil
 		case keyIs(km, k.NextPanel):
 			return m, m.setFocus((m.focus + 1) % panelCount)
@@ -758,6 +770,8 @@ func (m Model) View() string {
 		lines = append(lines, m.cvFitScreen(w, h-2)...)
 	case screenArrhenius:
 		lines = append(lines, m.arrheniusScreen(w, h-2)...)
+	case screenBatch:
+		lines = append(lines, m.batchScreen(w, h-2)...)
 	default:
 		lines = append(lines, m.body()...)
 	}
@@ -850,6 +864,8 @@ func (m Model) footer() string {
 		hk = cvFitHelp{m.e.keys}
 	case screenArrhenius:
 		hk = arrheniusHelp{m.e.keys}
+	case screenBatch:
+		hk = batchHelp{m.e.keys}
 	default:
 		switch m.focus {
 		case panelDefine:

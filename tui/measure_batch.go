@@ -1,0 +1,229 @@
+package tui
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"strings"
+
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+
+	"junco/model"
+)
+
+// batchState is the batch screen: a directory of I-V files fitted one by
+// one off the UI thread. seq numbers the runs; a message of an older run
+// is dropped. While a run is out, cancel stops it and prog and done carry
+// its messages.
+type batchState struct {
+	ed      lineEditor
+	seq     int
+	running bool
+	cancel  context.CancelFunc
+	prog    chan batchProgressMsg
+	done    chan batchDoneMsg
+	// n of total files finished in the run in force.
+	n, total int
+	view     *model.BatchView
+	err      string
+	dir      string // the directory of the run shown
+}
+
+// batchProgressMsg reports n of total files finished in run seq.
+type batchProgressMsg struct{ seq, n, total int }
+
+// batchDoneMsg ends run seq: the rows finished (kept on cancellation) or
+// the error that stopped the run before any file.
+type batchDoneMsg struct {
+	seq  int
+	view *model.BatchView
+	err  error
+}
+
+// openBatch shows the batch screen, keeping the last run.
+func (m *Model) openBatch() {
+	if m.bat.ed.limit == 0 {
+		m.bat.ed = newLineEditor("")
+	}
+	m.screen = screenBatch
+}
+
+// startBatch cancels a run in force and starts one on the directory
+// typed; the fits run in a goroutine that reports through channels.
+func (m *Model) startBatch() tea.Cmd {
+	b := &m.bat
+	if b.cancel != nil {
+		b.cancel()
+	}
+	b.seq++
+	seq := b.seq
+	dir := strings.TrimSpace(b.ed.value())
+	ctx, cancel := context.WithCancel(context.Background())
+	prog := make(chan batchProgressMsg, 16)
+	done := make(chan batchDoneMsg, 1)
+	b.running, b.cancel, b.prog, b.done = true, cancel, prog, done
+	b.n, b.total, b.view, b.err, b.dir = 0, 0, nil, "", dir
+	fallbackK := m.form.spec.Temperature
+	send := func(n, total int) {
+		select { // never block the workers; the final count comes with done
+		case prog <- batchProgressMsg{seq: seq, n: n, total: total}:
+		default:
+		}
+	}
+	go func() {
+		defer cancel()
+		msg := batchDoneMsg{seq: seq}
+		defer func() {
+			if r := recover(); r != nil {
+				msg = batchDoneMsg{seq: seq, err: fmt.Errorf("the batch failed: %v", r)}
+			}
+			done <- msg
+		}()
+		files, err := model.BatchFiles(dir)
+		if err != nil {
+			msg.err = err
+			return
+		}
+		send(0, len(files))
+		msg.view, msg.err = model.BatchFitIV(ctx, files, fallbackK, 0, send)
+	}()
+	return waitBatch(prog, done)
+}
+
+// waitBatch returns the next message of a run: a progress count or the
+// end.
+func waitBatch(prog chan batchProgressMsg, done chan batchDoneMsg) tea.Cmd {
+	return func() tea.Msg {
+		select {
+		case d := <-done:
+			return d
+		case p := <-prog:
+			return p
+		}
+	}
+}
+
+// applyBatchProgress takes a count of the run in force and waits for the
+// next message.
+func (m *Model) applyBatchProgress(msg batchProgressMsg) tea.Cmd {
+	b := &m.bat
+	if msg.seq != b.seq || !b.running {
+		return nil
+	}
+	if msg.n >= b.n {
+		b.n, b.total = msg.n, msg.total
+	}
+	return waitBatch(b.prog, b.done)
+}
+
+// applyBatchDone takes the end of the run in force.
+func (m *Model) applyBatchDone(msg batchDoneMsg) {
+	b := &m.bat
+	if msg.seq != b.seq {
+		return
+	}
+	b.running, b.cancel, b.prog, b.done = false, nil, nil, nil
+	b.view = msg.view
+	if v := msg.view; v != nil {
+		b.n, b.total = v.Fitted+v.Failed, v.Files
+	}
+	switch {
+	case msg.err == nil:
+	case errors.Is(msg.err, context.Canceled):
+		b.err = "cancelled: the files finished are kept"
+	default:
+		b.err = msg.err.Error()
+	}
+}
+
+func (m Model) batchKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
+	k := m.e.keys
+	b := &m.bat
+	switch {
+	case km.String() == "ctrl+c":
+		if b.cancel != nil {
+			b.cancel()
+		}
+		return m.quit()
+	case keyIs(km, k.Dismiss):
+		if b.running {
+			b.cancel()
+			m.note = "cancelling the batch: the files finished are kept"
+			return m, nil
+		}
+		m.screen = screenMain
+		return m, nil
+	case keyIs(km, k.Submit):
+		if b.running {
+			m.note = "a batch is running: esc cancels it"
+			return m, nil
+		}
+		return m, m.startBatch()
+	}
+	b.ed.handle(km)
+	return m, nil
+}
+
+// batchScreen draws the directory field, the progress, the summary and
+// the first rows.
+func (m Model) batchScreen(w, h int) []string {
+	st, g := m.e.st, m.e.g
+	b := m.bat
+	ascii := m.e.ascii
+	c := func(s string) string { return cut(s, w, g.ellipsis) }
+	out := []string{rule("Batch fit of the I-V files of a directory", w, glyphs{hbar: g.hbarHeavy}, st.heading)}
+	out = append(out, "directory "+st.text.Paint("["+b.ed.view(max(w-14, 8), st.selected, " ")+"]"))
+	switch {
+	case b.running && b.total == 0:
+		out = append(out, st.muted.Paint(c("listing the files...  esc cancels")))
+	case b.running:
+		out = append(out, st.strong.Paint(c(fmt.Sprintf("%d of %d files", b.n, b.total)))+st.muted.Paint("  esc cancels"))
+	case b.view != nil:
+		out = append(out, st.strong.Paint(c(fmt.Sprintf("%d of %d files", b.n, b.total))))
+	default:
+		out = append(out, st.muted.Paint(c("type a directory of CSV or TSV I-V files; enter fits them all")))
+	}
+	if b.err != "" {
+		out = append(out, wrapped(g.bad+" "+b.err, w, st.err, "")...)
+	}
+	v := b.view
+	if v == nil {
+		return block(out, w, h, g.ellipsis)
+	}
+	out = append(out, "", c(fmt.Sprintf("%d fitted, %d failed, %d not run", v.Fitted, v.Failed, v.NotRun)))
+	out = append(out, st.strong.Paint(c(fmt.Sprintf("  %-4s %-11s %-11s %-11s %s", "", "median", "Q1", "Q3", "outliers"))))
+	for _, s := range v.Stats {
+		f := func(x float64) string { return model.Format(s.Kind, x, 3, ascii) }
+		sm := s.Summary
+		out = append(out, c(fmt.Sprintf("  %-4s %-11s %-11s %-11s %d of %d", s.Name, f(sm.Median), f(sm.Q1), f(sm.Q3), len(s.Outliers), sm.N)))
+	}
+	out = append(out, "", st.strong.Paint(c(fmt.Sprintf("  %-20s %-11s %-7s %s", "file", "Is", "n", "Rs"))))
+	room := h - len(out)
+	for i, r := range v.Rows {
+		if i >= room-1 && len(v.Rows) > room {
+			out = append(out, st.muted.Paint(c(fmt.Sprintf("  ... %d more", len(v.Rows)-i))))
+			break
+		}
+		name := cut(r.File, 20, g.ellipsis)
+		if r.Err != nil {
+			out = append(out, st.err.Paint(c(fmt.Sprintf("  %-20s %s %s", name, g.bad, oneLine(r.Err.Error())))))
+			continue
+		}
+		out = append(out, c(fmt.Sprintf("  %-20s %-11s %-7.3f %s", name, model.Format(model.Current, r.Is, 3, ascii), r.N,
+			model.Format(model.Resistance, r.Rs, 3, ascii))))
+	}
+	return block(out, w, h, g.ellipsis)
+}
+
+// oneLine joins the words of s on one line.
+func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
+
+// batchHelp is the footer of the batch screen.
+type batchHelp struct{ k KeyMap }
+
+func (h batchHelp) ShortHelp() []key.Binding {
+	return []key.Binding{key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "fit the files")),
+		key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "cancel or close"))}
+}
+func (h batchHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }

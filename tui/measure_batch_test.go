@@ -1,0 +1,215 @@
+package tui
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	tea "github.com/charmbracelet/bubbletea"
+
+	"junco/model"
+	"junco/physics"
+	"junco/physics/extract"
+)
+
+// batchIs is the saturation current of the invented diodes.
+const batchIs = 2e-12
+
+// writeBatchDir writes good invented I-V sweeps (single diode at 300 K,
+// Is spread by a few percent around batchIs, 1 % multiplicative noise)
+// and one file that is not a measurement into a temporary directory.
+func writeBatchDir(t *testing.T, good int) string {
+	t.Helper()
+	dir := t.TempDir()
+	vt := physics.ThermalVoltage(300)
+	rng := rand.New(rand.NewPCG(7, 11))
+	for k := 0; k < good; k++ {
+		// Invented device, not a measurement.
+		d := extract.SingleDiode{SaturationCurrentA: batchIs * (1 + 0.04*float64(k-good/2)/float64(good)),
+			IdealityFactor: 1.3 + 0.02*float64(k%3), SeriesResistanceOhm: 3, ShuntResistanceOhm: math.Inf(1)}
+		var b strings.Builder
+		b.WriteString("# invented single-diode sweep for a test\n# temperature: 300 K\nV,I (A)\n")
+		for i := 0; i <= 60; i++ {
+			v := 0.1 + 0.6*float64(i)/60
+			cur := d.Current(v, vt) * (1 + 0.01*rng.NormFloat64())
+			fmt.Fprintf(&b, "%.4f,%.6e\n", v, cur)
+		}
+		if err := os.WriteFile(filepath.Join(dir, fmt.Sprintf("die%02d.csv", k)), []byte(b.String()), 0o600); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := os.WriteFile(filepath.Join(dir, "broken.csv"), []byte("no numbers here\nat all;;\n"), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(dir, "notes.txt"), []byte("not listed"), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	return dir
+}
+
+func TestBatchFilesListing(t *testing.T) {
+	dir := writeBatchDir(t, 3)
+	files, err := model.BatchFiles(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var names []string
+	for _, f := range files {
+		names = append(names, filepath.Base(f))
+	}
+	if got := strings.Join(names, " "); got != "broken.csv die00.csv die01.csv die02.csv" {
+		t.Errorf("files %q", got)
+	}
+	if _, err := model.BatchFiles(filepath.Join(dir, "missing")); err == nil || !strings.Contains(err.Error(), "no directory") {
+		t.Errorf("missing directory: %v", err)
+	}
+}
+
+// B opens the screen; enter fits the directory: the median Is is within
+// 10 % of the invented value and the bad file is a row with its error.
+func TestBatchScreen(t *testing.T) {
+	dir := writeBatchDir(t, 6)
+	m := newTest(t, 120, 40)
+	m = press(m, "B")
+	if m.screen != screenBatch {
+		t.Fatalf("B must open the batch screen:\n%s", plain(m))
+	}
+	m = typeText(m, dir)
+	m = press(m, "enter")
+	b := m.bat
+	if b.running || b.view == nil || b.err != "" {
+		t.Fatalf("batch not finished: running %v err %q\n%s", b.running, b.err, plain(m))
+	}
+	v := b.view
+	if v.Files != 7 || v.Fitted != 6 || v.Failed != 1 || len(v.Rows) != 7 {
+		t.Fatalf("view %+v", v)
+	}
+	if med := v.Stats[0].Summary.Median; math.Abs(med/batchIs-1) > 0.1 {
+		t.Errorf("median Is %g, want %g within 10 %%", med, batchIs)
+	}
+	if v.Rows[0].File != "broken.csv" || v.Rows[0].Err == nil {
+		t.Errorf("the bad file must be a row with its error: %+v", v.Rows[0])
+	}
+	s := plain(m)
+	for _, want := range []string{"7 of 7 files", "6 fitted, 1 failed", "median", "broken.csv", "die05.csv"} {
+		if !strings.Contains(s, want) {
+			t.Errorf("screen lacks %q:\n%s", want, s)
+		}
+	}
+	if m.Dirty() {
+		t.Error("a batch must not change the session")
+	}
+	m = press(m, "esc")
+	if m.screen != screenMain {
+		t.Error("esc must close the screen when no batch runs")
+	}
+	m = press(m, "B", "ctrl+u")
+	m = typeText(m, filepath.Join(dir, "missing"))
+	m = press(m, "enter")
+	if !strings.Contains(m.bat.err, "no directory") {
+		t.Errorf("missing directory: %q", m.bat.err)
+	}
+}
+
+// A batch cancelled after its first file keeps the rows finished.
+func TestBatchCancelKeepsRows(t *testing.T) {
+	dir := writeBatchDir(t, 6)
+	files, err := model.BatchFiles(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	defer cancel()
+	v, err := model.BatchFitIV(ctx, files, 300, 1, func(done, total int) {
+		if done == 2 {
+			cancel()
+		}
+	})
+	if err == nil || v == nil || !v.Cancelled {
+		t.Fatalf("want a cancelled batch: %v %+v", err, v)
+	}
+	if len(v.Rows) < 2 || v.NotRun == 0 || len(v.Rows)+v.NotRun != len(files) {
+		t.Fatalf("rows %d, not run %d of %d", len(v.Rows), v.NotRun, len(files))
+	}
+	if v.Rows[1].Err != nil || v.Stats[0].Summary.N != v.Fitted {
+		t.Errorf("finished rows lost: %+v", v.Rows)
+	}
+}
+
+// esc while a batch runs cancels it; the screen shows the cancellation,
+// and a stale message of an earlier run is dropped.
+func TestBatchScreenCancel(t *testing.T) {
+	dir := writeBatchDir(t, 6)
+	m := newTest(t, 100, 30)
+	m = press(m, "B")
+	m = typeText(m, dir)
+	tm, cmd := m.Update(keyMsg("enter"))
+	m = tm.(Model)
+	if !m.bat.running || cmd == nil {
+		t.Fatal("enter must start the batch")
+	}
+	tm, _ = m.Update(keyMsg("esc"))
+	m = tm.(Model)
+	if m.screen != screenBatch {
+		t.Fatal("esc while running must cancel, not close")
+	}
+	m = drain(m, cmd)
+	if m.bat.running || m.bat.view == nil {
+		t.Fatalf("the cancelled batch must end with its rows: %+v", m.bat)
+	}
+	if v := m.bat.view; v.Cancelled {
+		if !strings.Contains(m.bat.err, "cancelled") || v.Fitted+v.Failed+v.NotRun != 7 {
+			t.Errorf("cancelled view: err %q %+v", m.bat.err, v)
+		}
+	}
+	before := m.bat
+	tm, _ = m.Update(batchDoneMsg{seq: before.seq - 1})
+	if got := tm.(Model).bat; got.view != before.view || got.err != before.err {
+		t.Error("a stale message must be dropped")
+	}
+	tm, _ = m.Update(batchProgressMsg{seq: before.seq + 5, n: 99, total: 99})
+	if tm.(Model).bat.n == 99 {
+		t.Error("a stale progress must be dropped")
+	}
+}
+
+// Random keys on the batch screen (with a finished batch shown) never
+// panic and always draw.
+func TestBatchRandomKeys(t *testing.T) {
+	dir := writeBatchDir(t, 2)
+	m := newTest(t, 80, 24)
+	m = press(m, "B")
+	m = typeText(m, dir)
+	m = press(m, "enter")
+	rng := rand.New(rand.NewPCG(3, 5))
+	named := []tea.KeyType{tea.KeyLeft, tea.KeyRight, tea.KeyBackspace, tea.KeyDelete, tea.KeyHome, tea.KeyEnd,
+		tea.KeyCtrlU, tea.KeyCtrlW, tea.KeySpace, tea.KeyUp, tea.KeyDown, tea.KeyTab, tea.KeyPgDown}
+	const runes = "abcBf/.-_09 é"
+	sizes := [][2]int{{0, 0}, {1, 1}, {20, 5}, {40, 12}, {80, 24}, {200, 60}}
+	for step := 0; step < 400; step++ {
+		var msg tea.Msg
+		switch p := rng.IntN(100); {
+		case p < 5:
+			s := sizes[rng.IntN(len(sizes))]
+			msg = tea.WindowSizeMsg{Width: s[0], Height: s[1]}
+		case p < 50:
+			msg = tea.KeyMsg{Type: named[rng.IntN(len(named))]}
+		default:
+			r := []rune(runes)
+			msg = tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune{r[rng.IntN(len(r))]}}
+		}
+		tm, _ := m.Update(msg)
+		m = tm.(Model)
+		if m.screen != screenBatch {
+			t.Fatalf("step %d: left the screen", step)
+		}
+		if m.w > 0 && m.h > 0 && m.View() == "" {
+			t.Fatalf("step %d: empty view", step)
+		}
+	}
+}
