@@ -298,32 +298,36 @@ func (m *Model) keepFit() {
 	m.note = "kept " + id + " of " + ms.ID + " with the session; ctrl+s saves it"
 }
 
-// applyWindow reads the window fields: both empty means every forward
-// point.
-func (m *Model) applyWindow() {
-	f := &m.fit
-	a, b := strings.TrimSpace(f.eds[0].value()), strings.TrimSpace(f.eds[1].value())
-	f.winErr = ""
+// parseWindow reads two window boxes: both empty means every point (the
+// zero window); otherwise V1 < V2 with units. The error names the box.
+func parseWindow(eds [2]lineEditor) (model.IVFitWindow, string) {
+	a, b := strings.TrimSpace(eds[0].value()), strings.TrimSpace(eds[1].value())
 	if a == "" && b == "" {
-		f.win = model.IVFitWindow{}
-		m.refit()
-		return
+		return model.IVFitWindow{}, ""
 	}
 	lo, err1 := model.ParseValue(model.Voltage, a)
 	hi, err2 := model.ParseValue(model.Voltage, b)
 	switch {
 	case err1 != nil:
-		f.winErr = "V1: " + err1.Error()
+		return model.IVFitWindow{}, "V1: " + err1.Error()
 	case err2 != nil:
-		f.winErr = "V2: " + err2.Error()
+		return model.IVFitWindow{}, "V2: " + err2.Error()
 	case !(lo < hi):
-		f.winErr = "the window needs V1 < V2"
+		return model.IVFitWindow{}, "the window needs V1 < V2"
 	}
-	if f.winErr != "" {
+	return model.IVFitWindow{MinV: lo, MaxV: hi}, ""
+}
+
+// applyWindow reads the window fields and refits; a bad window is
+// reported and the fit in force stays.
+func (m *Model) applyWindow() {
+	f := &m.fit
+	w, bad := parseWindow(f.eds)
+	if f.winErr = bad; bad != "" {
 		m.renderFit()
 		return
 	}
-	f.win = model.IVFitWindow{MinV: lo, MaxV: hi}
+	f.win = w
 	m.refit()
 }
 

@@ -3,7 +3,6 @@ package tui
 import (
 	"fmt"
 	"math"
-	"strings"
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
@@ -156,31 +155,16 @@ func (m *Model) keepCVFit() {
 	m.note = "kept " + id + " of " + ms.ID + " with the session; ctrl+s saves it"
 }
 
-// applyCVWindow reads the window fields: both empty means every point.
+// applyCVWindow reads the window fields (parseWindow) and refits; a bad
+// window is reported and the fit in force stays.
 func (m *Model) applyCVWindow() {
 	f := &m.cvfit
-	a, b := strings.TrimSpace(f.eds[0].value()), strings.TrimSpace(f.eds[1].value())
-	f.winErr = ""
-	if a == "" && b == "" {
-		f.win = model.IVFitWindow{}
-		m.recvfit()
-		return
-	}
-	lo, err1 := model.ParseValue(model.Voltage, a)
-	hi, err2 := model.ParseValue(model.Voltage, b)
-	switch {
-	case err1 != nil:
-		f.winErr = "V1: " + err1.Error()
-	case err2 != nil:
-		f.winErr = "V2: " + err2.Error()
-	case !(lo < hi):
-		f.winErr = "the window needs V1 < V2"
-	}
-	if f.winErr != "" {
+	w, bad := parseWindow(f.eds)
+	if f.winErr = bad; bad != "" {
 		m.renderCVFit()
 		return
 	}
-	f.win = model.IVFitWindow{MinV: lo, MaxV: hi}
+	f.win = w
 	m.recvfit()
 }
 
