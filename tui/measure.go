@@ -276,26 +276,33 @@ func (m *Model) keepFit() {
 		m.note = "no fit to keep"
 		return
 	}
-	var params []sessions.Parameter
-	for _, p := range f.view.Parameters() {
-		q := sessions.Parameter{Name: p.Name, Unit: p.Unit, Value: p.Value}
-		if !math.IsNaN(p.StdErr) && !math.IsInf(p.StdErr, 0) && !math.IsNaN(p.Value) && !math.IsInf(p.Value, 0) {
-			se := p.StdErr
-			q.StdError = &se
-		}
-		if math.IsNaN(p.Value) || math.IsInf(p.Value, 0) {
-			continue
-		}
-		params = append(params, q)
-	}
 	ms := m.sess.meas[f.idx]
-	id := fmt.Sprintf("fit-%d", len(m.sess.extr)+1)
 	notes := append([]string{fmt.Sprintf("window %s to %s, %d points, RMS log residual %.4g, %s",
 		model.Format(model.Voltage, f.view.Fit.UsedWindow.MinV, 4, true), model.Format(model.Voltage, f.view.Fit.UsedWindow.MaxV, 4, true),
 		f.view.Fit.Points, f.view.Fit.RMSLogResidual, model.Format(model.Temperature, f.view.TemperatureK, 4, true))}, f.view.Fit.Notes...)
-	m.sess.extr = append(m.sess.extr, sessions.Extraction{ID: id, Method: "iv-single-diode", Measurement: ms.ID,
+	m.keepExtraction("iv-single-diode", ms.ID, f.view.Parameters(), notes)
+}
+
+// keepExtraction adds a fit to the session's extractions (saved with
+// ctrl+s): finite parameters only, each with its standard error where
+// that is finite.
+func (m *Model) keepExtraction(method, measurement string, ps []model.FitParameter, notes []string) {
+	var params []sessions.Parameter
+	for _, p := range ps {
+		if !finite(p.Value) {
+			continue
+		}
+		q := sessions.Parameter{Name: p.Name, Unit: p.Unit, Value: p.Value}
+		if finite(p.StdErr) {
+			se := p.StdErr
+			q.StdError = &se
+		}
+		params = append(params, q)
+	}
+	id := fmt.Sprintf("fit-%d", len(m.sess.extr)+1)
+	m.sess.extr = append(m.sess.extr, sessions.Extraction{ID: id, Method: method, Measurement: measurement,
 		Performed: m.sess.now().UTC(), Parameters: params, Notes: notes})
-	m.note = "kept " + id + " of " + ms.ID + " with the session; ctrl+s saves it"
+	m.note = "kept " + id + " of " + measurement + " with the session; ctrl+s saves it"
 }
 
 // parseWindow reads two window boxes: both empty means every point (the
@@ -571,14 +578,31 @@ func sparkline(v []float64, w int, ascii bool) string {
 	return string(out)
 }
 
-// fitScreen draws the fit: the window fields, the chart and the table.
-func (m Model) fitScreen(w, h int) []string {
+// fitLayout is what a fit screen shows; the I-V and C-V screens share
+// the drawing (drawFit).
+type fitLayout struct {
+	prefix      string // title prefix, e.g. "Fit"
+	idx         int    // the data set fitted
+	eds         [2]lineEditor
+	row         int
+	win         model.IVFitWindow
+	winErr      string
+	emptyWindow string // what an empty window means
+	noChart     string // shown when there is no chart
+	legend      []string
+	yTitle      string
+	plot        []string
+	table       func(width int, compact bool) []string
+}
+
+// drawFit draws a fit screen: title, window fields, chart and table
+// (beside the chart when the terminal is wide enough, else below).
+func (m Model) drawFit(l fitLayout, w, h int) []string {
 	st, g := m.e.st, m.e.g
-	f := m.fit
-	title := "Fit"
-	if f.idx >= 0 && f.idx < len(m.sess.meas) {
-		x := m.sess.meas[f.idx]
-		title = "Fit " + x.ID + " " + g.dot + " " + x.SourceFile
+	title := l.prefix
+	if l.idx >= 0 && l.idx < len(m.sess.meas) {
+		x := m.sess.meas[l.idx]
+		title = l.prefix + " " + x.ID + " " + g.dot + " " + x.SourceFile
 		if n := len(m.fitMeasurements()); n > 1 {
 			title += fmt.Sprintf(" %s %d data sets (pgup/pgdn)", g.dot, n)
 		}
@@ -586,40 +610,47 @@ func (m Model) fitScreen(w, h int) []string {
 	out := []string{rule(title, w, glyphs{hbar: g.hbarHeavy}, st.heading)}
 	field := func(i int, label string) string {
 		cur := st.faint
-		if i == f.row {
+		if i == l.row {
 			cur = st.selected
 		}
-		return label + " " + st.text.Paint("["+f.eds[i].view(9, cur, " ")+"]")
+		return label + " " + st.text.Paint("["+l.eds[i].view(9, cur, " ")+"]")
 	}
 	win := "window " + field(0, "V1") + "  " + field(1, "V2")
-	if f.win == (model.IVFitWindow{}) {
-		win += st.muted.Paint("  (empty: every forward point)")
+	if l.win == (model.IVFitWindow{}) {
+		win += st.muted.Paint("  (empty: " + l.emptyWindow + ")")
 	}
 	out = append(out, win)
-	if f.winErr != "" {
-		out = append(out, st.err.Paint(cut(g.bad+" "+f.winErr, w, g.ellipsis)))
+	if l.winErr != "" {
+		out = append(out, st.err.Paint(cut(g.bad+" "+l.winErr, w, g.ellipsis)))
 	} else {
 		out = append(out, "")
 	}
 	cw, ch, beside := fitGeometry(w, h)
 	var chart []string
-	if f.plot != nil {
-		chart = append(chart, f.legend...)
-		chart = append(chart, st.muted.Paint(f.yTitle))
-		chart = append(chart, f.plot...)
+	if l.plot != nil {
+		chart = append(chart, l.legend...)
+		chart = append(chart, st.muted.Paint(l.yTitle))
+		chart = append(chart, l.plot...)
 		chart = append(chart, st.muted.Paint(padLeft("bias V (V)", cw)))
 	} else {
-		chart = append(chart, st.muted.Paint("(no chart: enlarge the terminal, or nothing to draw on a log axis)"))
+		chart = append(chart, st.muted.Paint(l.noChart))
 	}
-	table := m.fitTable(fitTableWidth, false)
 	if beside {
 		left := block(chart, cw, ch, g.ellipsis)
-		out = append(out, joinColumns(" "+st.faint.Paint(g.vbar), left, table)...)
+		out = append(out, joinColumns(" "+st.faint.Paint(g.vbar), left, l.table(fitTableWidth, false))...)
 	} else {
 		out = append(out, block(chart, cw, max(ch, 0), g.ellipsis)...)
-		out = append(out, m.fitTable(w, true)...)
+		out = append(out, l.table(w, true)...)
 	}
 	return block(out, w, h, g.ellipsis)
+}
+
+// fitScreen draws the I-V fit.
+func (m Model) fitScreen(w, h int) []string {
+	f := m.fit
+	return m.drawFit(fitLayout{prefix: "Fit", idx: f.idx, eds: f.eds, row: f.row, win: f.win, winErr: f.winErr,
+		emptyWindow: "every forward point", noChart: "(no chart: enlarge the terminal, or nothing to draw on a log axis)",
+		legend: f.legend, yTitle: f.yTitle, plot: f.plot, table: m.fitTable}, w, h)
 }
 
 // importHelp is the footer of the import screen.

@@ -9,7 +9,6 @@ import (
 
 	"junco/model"
 	"junco/model/measure"
-	"junco/sessions"
 )
 
 // cvFitState is the C-V fit screen: the C-V data set fitted, the window
@@ -128,18 +127,6 @@ func (m *Model) keepCVFit() {
 		m.note = "no fit to keep"
 		return
 	}
-	var params []sessions.Parameter
-	for _, p := range f.view.Parameters() {
-		if !finite(p.Value) {
-			continue
-		}
-		q := sessions.Parameter{Name: p.Name, Unit: p.Unit, Value: p.Value}
-		if finite(p.StdErr) {
-			se := p.StdErr
-			q.StdError = &se
-		}
-		params = append(params, q)
-	}
 	ms := m.sess.meas[f.idx]
 	v := f.view
 	r := v.MottSchottky
@@ -149,10 +136,7 @@ func (m *Model) keepCVFit() {
 	if v.JunctionNote != "" {
 		notes = append(notes, v.JunctionNote)
 	}
-	id := fmt.Sprintf("fit-%d", len(m.sess.extr)+1)
-	m.sess.extr = append(m.sess.extr, sessions.Extraction{ID: id, Method: "mott-schottky", Measurement: ms.ID,
-		Performed: m.sess.now().UTC(), Parameters: params, Notes: notes})
-	m.note = "kept " + id + " of " + ms.ID + " with the session; ctrl+s saves it"
+	m.keepExtraction("mott-schottky", ms.ID, v.Parameters(), notes)
 }
 
 // applyCVWindow reads the window fields (parseWindow) and refits; a bad
@@ -322,55 +306,12 @@ func (m Model) cvFitTable(w int, compact bool) []string {
 	return out
 }
 
-// cvFitScreen draws the C-V fit: the window fields, the chart and the
-// table.
+// cvFitScreen draws the C-V fit (drawFit).
 func (m Model) cvFitScreen(w, h int) []string {
-	st, g := m.e.st, m.e.g
 	f := m.cvfit
-	title := "C-V fit"
-	if f.idx >= 0 && f.idx < len(m.sess.meas) {
-		x := m.sess.meas[f.idx]
-		title = "C-V fit " + x.ID + " " + g.dot + " " + x.SourceFile
-		if n := len(m.fitMeasurements()); n > 1 {
-			title += fmt.Sprintf(" %s %d data sets (pgup/pgdn)", g.dot, n)
-		}
-	}
-	out := []string{rule(title, w, glyphs{hbar: g.hbarHeavy}, st.heading)}
-	field := func(i int, label string) string {
-		cur := st.faint
-		if i == f.row {
-			cur = st.selected
-		}
-		return label + " " + st.text.Paint("["+f.eds[i].view(9, cur, " ")+"]")
-	}
-	win := "window " + field(0, "V1") + "  " + field(1, "V2")
-	if f.win == (model.IVFitWindow{}) {
-		win += st.muted.Paint("  (empty: every point)")
-	}
-	out = append(out, win)
-	if f.winErr != "" {
-		out = append(out, st.err.Paint(cut(g.bad+" "+f.winErr, w, g.ellipsis)))
-	} else {
-		out = append(out, "")
-	}
-	cw, ch, beside := fitGeometry(w, h)
-	var chart []string
-	if f.plot != nil {
-		chart = append(chart, f.legend...)
-		chart = append(chart, st.muted.Paint(f.yTitle))
-		chart = append(chart, f.plot...)
-		chart = append(chart, st.muted.Paint(padLeft("bias V (V)", cw)))
-	} else {
-		chart = append(chart, st.muted.Paint("(no chart: enlarge the terminal, or no fit to draw)"))
-	}
-	if beside {
-		left := block(chart, cw, ch, g.ellipsis)
-		out = append(out, joinColumns(" "+st.faint.Paint(g.vbar), left, m.cvFitTable(fitTableWidth, false))...)
-	} else {
-		out = append(out, block(chart, cw, max(ch, 0), g.ellipsis)...)
-		out = append(out, m.cvFitTable(w, true)...)
-	}
-	return block(out, w, h, g.ellipsis)
+	return m.drawFit(fitLayout{prefix: "C-V fit", idx: f.idx, eds: f.eds, row: f.row, win: f.win, winErr: f.winErr,
+		emptyWindow: "every point", noChart: "(no chart: enlarge the terminal, or no fit to draw)",
+		legend: f.legend, yTitle: f.yTitle, plot: f.plot, table: m.cvFitTable}, w, h)
 }
 
 // cvFitHelp is the footer of the C-V fit screen.
