@@ -337,36 +337,7 @@ func TestServeReviewMode(t *testing.T) {
 	if err := app.shares.Set("ada", "d7", []string{"bob"}); err != nil {
 		t.Fatal(err)
 	}
-	c, err := gossh.Dial("tcp", addr, &gossh.ClientConfig{User: "bob", Auth: []gossh.AuthMethod{gossh.PublicKeys(bob.signer)},
-		HostKeyCallback: gossh.InsecureIgnoreHostKey(), Timeout: 5 * time.Second})
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer c.Close()
-	s, err := c.NewSession()
-	if err != nil {
-		t.Fatal(err)
-	}
-	out := &lockedBuffer{}
-	s.Stdout = out
-	in, _ := s.StdinPipe()
-	if err := s.RequestPty("xterm-256color", 40, 120, gossh.TerminalModes{}); err != nil {
-		t.Fatal(err)
-	}
-	if err := s.Start("review ada/d7"); err != nil {
-		t.Fatal(err)
-	}
-	wait := func(want string) {
-		t.Helper()
-		deadline := time.Now().Add(10 * time.Second)
-		for time.Now().Before(deadline) {
-			if strings.Contains(out.String(), want) {
-				return
-			}
-			time.Sleep(20 * time.Millisecond)
-		}
-		t.Fatalf("screen never showed %q", want)
-	}
+	in, wait := openWorkbench(t, addr, bob, "review ada/d7")
 	wait("review (read-only)")
 	io.WriteString(in, "n")
 	time.Sleep(200 * time.Millisecond)
@@ -401,12 +372,30 @@ func TestServeOwnerSharesFromWorkbench(t *testing.T) {
 	ada, bob := newSSHUser(t, "ada"), newSSHUser(t, "bob")
 	addr, data, _ := startJunco(t, ada, bob)
 	saveFor(t, data, "ada", "d7")
-	c, err := gossh.Dial("tcp", addr, &gossh.ClientConfig{User: "ada", Auth: []gossh.AuthMethod{gossh.PublicKeys(ada.signer)},
+	in, wait := openWorkbench(t, addr, ada, "open d7")
+	wait("d7")
+	io.WriteString(in, "\x12") // ctrl+r
+	wait("Reviewers")
+	io.WriteString(in, "bob")
+	time.Sleep(200 * time.Millisecond)
+	io.WriteString(in, "\r")
+	wait("shared d7 read-only with bob")
+	if out, _, err := sshRun(t, addr, bob, "sessions list"); err != nil || !strings.Contains(out, "ada/d7") {
+		t.Errorf("bob does not see the shared session: %q %v", out, err)
+	}
+}
+
+// openWorkbench starts the interactive workbench for u over SSH with the
+// given command (120x40 PTY) and returns its input and a function that
+// waits until the screen shows a text.
+func openWorkbench(t *testing.T, addr string, u sshUser, cmd string) (io.Writer, func(string)) {
+	t.Helper()
+	c, err := gossh.Dial("tcp", addr, &gossh.ClientConfig{User: u.name, Auth: []gossh.AuthMethod{gossh.PublicKeys(u.signer)},
 		HostKeyCallback: gossh.InsecureIgnoreHostKey(), Timeout: 5 * time.Second})
 	if err != nil {
 		t.Fatal(err)
 	}
-	defer c.Close()
+	t.Cleanup(func() { c.Close() })
 	s, err := c.NewSession()
 	if err != nil {
 		t.Fatal(err)
@@ -417,7 +406,7 @@ func TestServeOwnerSharesFromWorkbench(t *testing.T) {
 	if err := s.RequestPty("xterm-256color", 40, 120, gossh.TerminalModes{}); err != nil {
 		t.Fatal(err)
 	}
-	if err := s.Start("open d7"); err != nil {
+	if err := s.Start(cmd); err != nil {
 		t.Fatal(err)
 	}
 	wait := func(want string) {
@@ -431,14 +420,5 @@ func TestServeOwnerSharesFromWorkbench(t *testing.T) {
 		}
 		t.Fatalf("screen never showed %q", want)
 	}
-	wait("d7")
-	io.WriteString(in, "\x12") // ctrl+r
-	wait("Reviewers")
-	io.WriteString(in, "bob")
-	time.Sleep(200 * time.Millisecond)
-	io.WriteString(in, "\r")
-	wait("shared d7 read-only with bob")
-	if out, _, err := sshRun(t, addr, bob, "sessions list"); err != nil || !strings.Contains(out, "ada/d7") {
-		t.Errorf("bob does not see the shared session: %q %v", out, err)
-	}
+	return in, wait
 }
