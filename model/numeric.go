@@ -808,6 +808,39 @@ type NumericResult struct {
 	Flags []physics.Flag
 }
 
+// numericSweep is what a numeric sweep starts from: its biases, the most
+// reverse of them (which sizes the device), the device, the solver and
+// its built-in potential.
+type numericSweep struct {
+	vs   []float64
+	vmin float64
+	nd   *NumericDevice
+	s    *solver.Solver
+	vbi  float64
+}
+
+// numericSweepSetup validates the range (errors name field), builds the
+// device for its most reverse bias and solves the equilibrium.
+func numericSweepSetup(spec Spec, num NumericSpec, r Range, field string) (numericSweep, error) {
+	vs, err := numericBiases(r, field)
+	if err != nil {
+		return numericSweep{}, err
+	}
+	vmin := 0.0
+	for _, v := range vs {
+		vmin = math.Min(vmin, v)
+	}
+	nd, s, err := numericBuild(spec, num, vmin)
+	if err != nil {
+		return numericSweep{}, err
+	}
+	vbi, err := s.BuiltInPotential()
+	if err != nil {
+		return numericSweep{}, err
+	}
+	return numericSweep{vs: vs, vmin: vmin, nd: nd, s: s, vbi: vbi}, nil
+}
+
 // numericBuild validates, builds and meshes.
 func numericBuild(spec Spec, num NumericSpec, vmin float64) (*NumericDevice, *solver.Solver, error) {
 	nd, err := BuildNumericDevice(spec, num, vmin)
@@ -1297,22 +1330,11 @@ func (f *flagSet) addPoint(fl ...physics.Flag) {
 // together with the error (ctx.Err() or a *solver.ConvergenceError naming
 // the bias); bad input gives a nil result and a *ValidationError.
 func NumericIV(ctx context.Context, spec Spec, num NumericSpec, r Range, progress NumericProgressFunc) (*NumericIVResult, error) {
-	vs, err := numericBiases(r, FieldNumericSweep)
+	sw, err := numericSweepSetup(spec, num, r, FieldNumericSweep)
 	if err != nil {
 		return nil, err
 	}
-	vmin := 0.0
-	for _, v := range vs {
-		vmin = math.Min(vmin, v)
-	}
-	nd, s, err := numericBuild(spec, num, vmin)
-	if err != nil {
-		return nil, err
-	}
-	vbi, err := s.BuiltInPotential()
-	if err != nil {
-		return nil, err
-	}
+	vs, vmin, nd, s, vbi := sw.vs, sw.vmin, sw.nd, sw.s, sw.vbi
 	out := &NumericIVResult{Spec: spec, Device: nd, Range: r, Requested: len(vs), Nodes: len(s.Nodes()), BuiltInPotential: vbi}
 	analytic := make([]float64, len(vs))
 	for i := range analytic {
@@ -1383,22 +1405,11 @@ type NumericCVResult struct {
 // model (Sze & Ng 2007, eq. 2.30). Errors and partial results as
 // NumericIV; progress Stage "cv", Value the capacitance in F.
 func NumericCV(ctx context.Context, spec Spec, num NumericSpec, r Range, progress NumericProgressFunc) (*NumericCVResult, error) {
-	vs, err := numericBiases(r, FieldNumericCV)
+	sw, err := numericSweepSetup(spec, num, r, FieldNumericCV)
 	if err != nil {
 		return nil, err
 	}
-	vmin := 0.0
-	for _, v := range vs {
-		vmin = math.Min(vmin, v)
-	}
-	nd, s, err := numericBuild(spec, num, vmin)
-	if err != nil {
-		return nil, err
-	}
-	vbi, err := s.BuiltInPotential()
-	if err != nil {
-		return nil, err
-	}
+	vs, vmin, nd, s, vbi := sw.vs, sw.vmin, sw.nd, sw.s, sw.vbi
 	out := &NumericCVResult{Spec: spec, Device: nd, Range: r, Requested: len(vs), Nodes: len(s.Nodes()), BuiltInPotential: vbi}
 	var fs flagSet
 	fs.add(nd.Flags...)
