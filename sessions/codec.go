@@ -986,18 +986,12 @@ func (d *decoder) slice(v reflect.Value, path *jpath) error {
 				}
 				out = append(out, row)
 			}
-			d.ws()
-			c, ok := d.peek()
-			if !ok {
-				return d.eof()
+			end, err := d.arrayNext()
+			if err != nil {
+				return err
 			}
-			d.pos++
-			if c == ']' {
+			if end {
 				break
-			}
-			if c != ',' {
-				d.pos--
-				return d.syntax("expected ',' or ']' in an array")
 			}
 		}
 		v.Set(reflect.ValueOf(out))
@@ -1015,18 +1009,12 @@ func (d *decoder) slice(v reflect.Value, path *jpath) error {
 		if err := d.value(out.Index(i), path.index(i)); err != nil {
 			return err
 		}
-		d.ws()
-		c, ok := d.peek()
-		if !ok {
-			return d.eof()
+		end, err := d.arrayNext()
+		if err != nil {
+			return err
 		}
-		d.pos++
-		if c == ']' {
+		if end {
 			break
-		}
-		if c != ',' {
-			d.pos--
-			return d.syntax("expected ',' or ']' in an array")
 		}
 	}
 	v.Set(out)
@@ -1060,20 +1048,33 @@ func (d *decoder) floats(path *jpath) ([]float64, error) {
 			return nil, &TypeError{Path: path.index(i).String(), Why: fmt.Sprintf("%s is out of range for a 64-bit number", b)}
 		}
 		out = append(out, f)
-		d.ws()
-		c, ok = d.peek()
-		if !ok {
-			return nil, d.eof()
+		end, err := d.arrayNext()
+		if err != nil {
+			return nil, err
 		}
-		d.pos++
-		if c == ']' {
+		if end {
 			return out, nil
 		}
-		if c != ',' {
-			d.pos--
-			return nil, d.syntax("expected ',' or ']' in an array")
-		}
 	}
+}
+
+// arrayNext reads what follows an array element: ',' (another element
+// follows) or ']' (end reports true); anything else is a syntax error.
+func (d *decoder) arrayNext() (end bool, err error) {
+	d.ws()
+	c, ok := d.peek()
+	if !ok {
+		return false, d.eof()
+	}
+	d.pos++
+	switch c {
+	case ']':
+		return true, nil
+	case ',':
+		return false, nil
+	}
+	d.pos--
+	return false, d.syntax("expected ',' or ']' in an array")
 }
 
 // members walks the members of an object, calling fn for each key with
