@@ -137,21 +137,11 @@ func FitMeasuredCV(ds *measure.DataSet, spec Spec, window IVFitWindow) (*CVFitVi
 // predictedInverseCV is the junction's predicted 1/C^2 (depletion
 // capacitance) over the bias span of a data set, about 200 points.
 func predictedInverseCV(s Spec, ds *measure.DataSet) (Curve, error) {
-	lo, hi := math.Inf(1), math.Inf(-1)
-	for _, x := range ds.VoltageV {
-		if !math.IsNaN(x) && !math.IsInf(x, 0) {
-			lo, hi = math.Min(lo, x), math.Max(hi, x)
-		}
+	s, r, label, err := predictionSweep(s, ds)
+	if err != nil {
+		return Curve{}, err
 	}
-	if !(hi > lo) {
-		return Curve{}, errors.New("the data set spans no bias range")
-	}
-	label := "prediction"
-	if t, ok := ds.Temperature(); ok && t != s.Temperature {
-		s.Temperature = t
-		label = fmt.Sprintf("prediction at %s", Format(Temperature, t, 4, true))
-	}
-	_, inv, err := CVCurve(s, Range{From: lo, To: hi, Step: (hi - lo) / 199})
+	_, inv, err := CVCurve(s, r)
 	if err != nil {
 		return Curve{}, err
 	}

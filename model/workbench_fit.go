@@ -183,23 +183,11 @@ func PredictedIV(s Spec, ds *measure.DataSet) (Curve, error) {
 	if ds == nil || len(ds.VoltageV) == 0 {
 		return Curve{}, errors.New("the data set has no points")
 	}
-	lo, hi := math.Inf(1), math.Inf(-1)
-	for _, x := range ds.VoltageV {
-		if !math.IsNaN(x) && !math.IsInf(x, 0) {
-			lo, hi = math.Min(lo, x), math.Max(hi, x)
-		}
+	s, r, label, err := predictionSweep(s, ds)
+	if err != nil {
+		return Curve{}, err
 	}
-	if !(hi > lo) {
-		return Curve{}, errors.New("the data set spans no bias range")
-	}
-	// The prediction is made at the temperature the data were taken at,
-	// when the data set states one.
-	label := "prediction"
-	if t, ok := ds.Temperature(); ok && t != s.Temperature {
-		s.Temperature = t
-		label = fmt.Sprintf("prediction at %s", Format(Temperature, t, 4, true))
-	}
-	c, err := IVCurve(s, Range{From: lo, To: hi, Step: (hi - lo) / 199})
+	c, err := IVCurve(s, r)
 	if err != nil {
 		return Curve{}, err
 	}
@@ -233,4 +221,26 @@ func sortedUnique(xs []float64) []float64 {
 		}
 	}
 	return out
+}
+
+// predictionSweep returns what a prediction for a data set is computed
+// with: the spec at the temperature the data were taken at (when the data
+// set states one), about 200 biases over the data's span, and the series
+// label that says so.
+func predictionSweep(s Spec, ds *measure.DataSet) (Spec, Range, string, error) {
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, x := range ds.VoltageV {
+		if !math.IsNaN(x) && !math.IsInf(x, 0) {
+			lo, hi = math.Min(lo, x), math.Max(hi, x)
+		}
+	}
+	if !(hi > lo) {
+		return s, Range{}, "", errors.New("the data set spans no bias range")
+	}
+	label := "prediction"
+	if t, ok := ds.Temperature(); ok && t != s.Temperature {
+		s.Temperature = t
+		label = fmt.Sprintf("prediction at %s", Format(Temperature, t, 4, true))
+	}
+	return s, Range{From: lo, To: hi, Step: (hi - lo) / 199}, label, nil
 }
