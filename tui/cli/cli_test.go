@@ -1,4 +1,4 @@
-package main
+package cli
 
 import (
 	"bytes"
@@ -92,7 +92,7 @@ func TestUnknownCommand(t *testing.T) {
 // Every JSON key of `junco calc --json` is documented in the README: the
 // keys are a public interface.
 func TestReadmeDocumentsEveryKey(t *testing.T) {
-	readme, err := os.ReadFile("README.md")
+	readme, err := os.ReadFile("../../README.md")
 	if err != nil {
 		t.Fatal(err)
 	}
