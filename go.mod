@@ -48,6 +48,12 @@ require (
 	github.com/rivo/uniseg v0.4.7 // indirect
 	github.com/xo/terminfo v0.0.0-20220910002029-abceb7e1c41e // indirect
 	golang.org/x/image v0.30.0 // indirect
-	golang.org/x/sys v0.50.0 // indirect
 	golang.org/x/text v0.44.0 // indirect
 )
+
+require (
+	early.invalid/termquiet v0.0.0
+	golang.org/x/sys v0.50.0
+)
+
+replace early.invalid/termquiet => ./tui/termquiet

@@ -13,10 +13,14 @@ import (
 	"os/signal"
 	"syscall"
 
+	"early.invalid/termquiet"
+
 	"junco/tui/cli"
 )
 
 func main() {
+	// Undo the start-up guard against terminal queries (see termquiet).
+	termquiet.Restore()
 	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
 	code := cli.Run(ctx, os.Args[1:], os.Stdin, os.Stdout, os.Stderr)
 	stop()

@@ -189,14 +189,19 @@ func runWorkbench(ctx context.Context, args []string, stdout, stderr io.Writer) 
 		return exitUsage
 	}
 	r := lipgloss.NewRenderer(os.Stdout)
+	noColor := tui.DetectNoColor(os.Getenv)
 	// Ask the terminal for its background once, before the program owns
-	// the input.
-	r.SetHasDarkBackground(r.HasDarkBackground())
+	// the input; without colour there is nothing to ask.
+	if noColor {
+		r.SetHasDarkBackground(true)
+	} else {
+		r.SetHasDarkBackground(r.HasDarkBackground())
+	}
 	w, h, _ := term.GetSize(os.Stdout.Fd())
 	m, err := workbenchModel(o, tui.Options{
 		Renderer: r,
 		ASCII:    o.ascii || tui.DetectASCII(os.Getenv),
-		NoColor:  tui.DetectNoColor(os.Getenv),
+		NoColor:  noColor,
 		Width:    w,
 		Height:   h,
 	})

@@ -1,0 +1,3 @@
+module early.invalid/termquiet
+
+go 1.26.0
