@@ -37,10 +37,11 @@ Serve the workbench over SSH to a lab group. Logins are by public key only;
 each line of the authorized-keys file (OpenSSH format) names its user in the
 comment field, and the SSH login name must equal it. Each user's sessions
 live under DIR/users/USER. Files reach the server only through each
-user's inbox, DIR/users/USER/inbox (mode 0700): "scp FILE USER@HOST:",
-"scp -O" and "sftp USER@HOST" land there, and the workbench's import and
-batch screens read nothing else. The keys file is re-read when it changes and on
-SIGHUP; SIGINT or SIGTERM stop the server after writing recovery drafts.
+user's inbox, DIR/users/USER/inbox (mode 0700): "scp FILE USER@HOST:"
+(also with -O) and "sftp USER@HOST" land there, and the workbench's
+import and batch screens read nothing else. The keys file is re-read
+when it changes and on SIGHUP; SIGINT or SIGTERM stop the server after
+writing recovery drafts.
 
 Flags:
 `

@@ -481,3 +481,16 @@ func TestServeUploadThenImport(t *testing.T) {
 		t.Errorf("/etc/passwd on a served import:\n%s", v)
 	}
 }
+
+// The inbox caps are flags of junco serve; out-of-range values are
+// refused with the allowed range.
+func TestServeInboxCapFlags(t *testing.T) {
+	for _, args := range [][]string{{"--upload-max-mib", "0"}, {"--inbox-max-mib", "0"}, {"--upload-max-mib", "100000"},
+		{"--upload-max-mib", "64", "--inbox-max-mib", "32"}} {
+		var out, errb bytes.Buffer
+		code := runServe(context.Background(), append(args, "--data", t.TempDir()), &out, &errb)
+		if code != exitUsage || !strings.Contains(errb.String(), "allowed 1 to 65536") {
+			t.Errorf("%v: exit %d, %q", args, code, errb.String())
+		}
+	}
+}

@@ -77,29 +77,29 @@ func scpTarget(sess ssh.Session, e *scp.FileEntry) string {
 func (h inboxSCP) Write(sess ssh.Session, e *scp.FileEntry) (int64, error) {
 	in, err := h.inbox(sess)
 	if err != nil {
-		return 0, err
+		return 0, lineErr(err)
 	}
 	// The file's own name must be a plain one too, whatever the target.
 	if _, err := sessions.InboxName("upload", e.Name); err != nil {
-		return 0, err
+		return 0, lineErr(err)
 	}
 	w, err := in.Create(scpTarget(sess, e), e.Size)
 	if err != nil {
-		return 0, err
+		return 0, lineErr(err)
 	}
 	n, err := io.Copy(w, e.Reader)
 	if err != nil {
 		w.Fail(err)
 	}
 	if cerr := w.Close(); cerr != nil {
-		return n, cerr
+		return n, lineErr(cerr)
 	}
 	return n, nil
 }
 
 // Mkdir refuses folders: the inbox is flat.
 func (inboxSCP) Mkdir(ssh.Session, *scp.DirEntry) error {
-	return &sessions.InboxError{Op: "upload", Why: "the inbox has no folders; copy files, not folders (-r)", Err: fs.ErrPermission}
+	return lineErr(&sessions.InboxError{Op: "upload", Why: "the inbox has no folders; copy files, not folders (-r)", Err: fs.ErrPermission})
 }
 
 // Glob returns the inbox names a download asks for: one checked name, or
@@ -107,24 +107,24 @@ func (inboxSCP) Mkdir(ssh.Session, *scp.DirEntry) error {
 func (h inboxSCP) Glob(sess ssh.Session, pattern string) ([]string, error) {
 	in, err := h.inbox(sess)
 	if err != nil {
-		return nil, err
+		return nil, lineErr(err)
 	}
 	if !strings.ContainsAny(pattern, "*?[") {
 		name, err := sessions.InboxName("download", pattern)
 		if err != nil {
-			return nil, err
+			return nil, lineErr(err)
 		}
 		return []string{name}, nil
 	}
 	if _, err := sessions.InboxName("download", pattern); err != nil {
-		return nil, err
+		return nil, lineErr(err)
 	}
 	if _, err := path.Match(pattern, ""); err != nil {
-		return nil, &sessions.InboxError{Op: "download", Why: "the pattern is malformed", Err: fs.ErrInvalid}
+		return nil, lineErr(&sessions.InboxError{Op: "download", Why: "the pattern is malformed", Err: fs.ErrInvalid})
 	}
 	fis, err := in.List()
 	if err != nil {
-		return nil, err
+		return nil, lineErr(err)
 	}
 	var out []string
 	for _, fi := range fis {
@@ -132,12 +132,15 @@ func (h inboxSCP) Glob(sess ssh.Session, pattern string) ([]string, error) {
 			out = append(out, fi.Name())
 		}
 	}
+	if len(out) == 0 {
+		return nil, lineErr(&sessions.InboxError{Op: "download", Why: "no file of your inbox matches the pattern", Err: fs.ErrNotExist})
+	}
 	return out, nil
 }
 
 // WalkDir refuses folders (-r).
 func (inboxSCP) WalkDir(ssh.Session, string, fs.WalkDirFunc) error {
-	return &sessions.InboxError{Op: "download", Why: "the inbox has no folders; copy files, not folders (-r)", Err: fs.ErrPermission}
+	return lineErr(&sessions.InboxError{Op: "download", Why: "the inbox has no folders; copy files, not folders (-r)", Err: fs.ErrPermission})
 }
 
 // NewDirEntry refuses folders.
@@ -149,17 +152,32 @@ func (h inboxSCP) NewDirEntry(sess ssh.Session, _ string) (*scp.DirEntry, error)
 func (h inboxSCP) NewFileEntry(sess ssh.Session, name string) (*scp.FileEntry, func() error, error) {
 	in, err := h.inbox(sess)
 	if err != nil {
-		return nil, nil, err
+		return nil, nil, lineErr(err)
 	}
 	f, err := in.Open(name)
 	if err != nil {
-		return nil, nil, err
+		return nil, nil, lineErr(err)
 	}
 	fi, err := f.Stat()
 	if err != nil {
 		f.Close()
-		return nil, nil, fmt.Errorf("download: %s cannot be read", name)
+		return nil, nil, lineErr(fmt.Errorf("download: %s cannot be read", name))
 	}
 	return &scp.FileEntry{Name: fi.Name(), Filepath: fi.Name(), Mode: 0o600, Size: fi.Size(),
 		Reader: f, Mtime: fi.ModTime().Unix(), Atime: fi.ModTime().Unix()}, f.Close, nil
 }
+
+// lineErr ends an error's message with a newline: wish prints the scp
+// middleware's error to the client's stderr as it is, and OpenSSH's scp
+// would run the next message into it.
+func lineErr(err error) error {
+	if err == nil {
+		return nil
+	}
+	return scpLineError{err}
+}
+
+type scpLineError struct{ error }
+
+func (e scpLineError) Error() string { return e.error.Error() + "\n" }
+func (e scpLineError) Unwrap() error { return e.error }

@@ -7,6 +7,7 @@ import (
 	"io/fs"
 	"os"
 	"strings"
+	"sync"
 	"time"
 
 	"github.com/charmbracelet/ssh"
@@ -32,13 +33,18 @@ func (s *Server) sftpSubsystem(sess ssh.Session) {
 		return
 	}
 	defer in.Close()
-	h := &inboxSFTP{in: in}
+	h := &inboxSFTP{in: in, stderr: sess.Stderr()}
 	rs := sftp.NewRequestServer(sess, sftp.Handlers{FileGet: h, FilePut: h, FileCmd: h, FileList: h})
+	// Serve closes every open file when the client leaves; the exit
+	// status goes out before the channel closes (rs.Close would close it
+	// first, and OpenSSH's scp would report a failure).
 	err = rs.Serve()
-	_ = rs.Close()
 	if err != nil && !errors.Is(err, io.EOF) {
 		s.log.Info("sftp session ended", "user", sess.User(), "error", err)
+		_ = sess.Exit(1)
+		return
 	}
+	_ = sess.Exit(0)
 }
 
 // openInbox opens user's inbox, or says that uploads are not served.
@@ -49,8 +55,23 @@ func (s *Server) openInbox(user string) (*sessions.Inbox, error) {
 	return s.cfg.Inbox(user)
 }
 
-// inboxSFTP answers SFTP requests from one inbox.
-type inboxSFTP struct{ in *sessions.Inbox }
+// inboxSFTP answers SFTP requests from one inbox. Refusals also go to
+// the session's stderr: OpenSSH's sftp and scp show only the status code
+// ("Permission denied", "Failure"), not the message that names the rule
+// or the cap.
+type inboxSFTP struct {
+	in     *sessions.Inbox
+	stderr io.Writer
+}
+
+// fail says why on stderr (unless the file is merely missing, which
+// scp asks about on every upload) and returns the SFTP status.
+func (h *inboxSFTP) fail(err error) error {
+	if err != nil && !errors.Is(err, fs.ErrNotExist) {
+		fmt.Fprintf(h.stderr, "junco: %v\n", err)
+	}
+	return sftpErr(err)
+}
 
 // sftpName maps the client's path (cleaned and absolute: the inbox is
 // "/") to an inbox name; root reports the inbox itself.
@@ -78,7 +99,7 @@ func (h *inboxSFTP) Fileread(r *sftp.Request) (io.ReaderAt, error) {
 	name, _ := sftpName(r.Filepath)
 	f, err := h.in.Open(name)
 	if err != nil {
-		return nil, sftpErr(err)
+		return nil, h.fail(err)
 	}
 	ra, ok := f.(io.ReaderAt)
 	if !ok {
@@ -92,13 +113,30 @@ func (h *inboxSFTP) Fileread(r *sftp.Request) (io.ReaderAt, error) {
 func (h *inboxSFTP) Filewrite(r *sftp.Request) (io.WriterAt, error) {
 	name, root := sftpName(r.Filepath)
 	if root {
-		return nil, sftpErr(&sessions.InboxError{Op: "upload", Why: "name a file, not the inbox", Err: fs.ErrPermission})
+		return nil, h.fail(&sessions.InboxError{Op: "upload", Why: "name a file, not the inbox", Err: fs.ErrPermission})
 	}
 	w, err := h.in.Create(name, -1)
 	if err != nil {
-		return nil, sftpErr(err)
+		return nil, h.fail(err)
 	}
-	return w, nil
+	return &sftpUpload{InboxWriter: w, h: h}, nil
+}
+
+// sftpUpload reports the first failure of an upload (a cap crossed) on
+// stderr too; the status is a failure carrying the message, which
+// clients that show messages print.
+type sftpUpload struct {
+	*sessions.InboxWriter
+	h    *inboxSFTP
+	once sync.Once
+}
+
+func (u *sftpUpload) WriteAt(p []byte, off int64) (int, error) {
+	n, err := u.InboxWriter.WriteAt(p, off)
+	if err != nil {
+		u.once.Do(func() { fmt.Fprintf(u.h.stderr, "junco: %v\n", err) })
+	}
+	return n, err
 }
 
 // Filecmd runs remove, rename and setstat; everything else is refused.
@@ -106,20 +144,20 @@ func (h *inboxSFTP) Filecmd(r *sftp.Request) error {
 	name, root := sftpName(r.Filepath)
 	switch r.Method {
 	case "Remove":
-		return sftpErr(h.in.Remove(name))
+		return h.fail(h.in.Remove(name))
 	case "Rename", "PosixRename":
 		to, _ := sftpName(r.Target)
-		return sftpErr(h.in.Rename(name, to, r.Method == "PosixRename"))
+		return h.fail(h.in.Rename(name, to, r.Method == "PosixRename"))
 	case "Setstat":
 		if root {
 			return nil
 		}
 		_, err := h.in.Stat(name)
-		return sftpErr(err)
+		return h.fail(err)
 	case "Mkdir", "Rmdir":
-		return sftpErr(&sessions.InboxError{Op: strings.ToLower(r.Method), Why: "the inbox has no folders", Err: fs.ErrPermission})
+		return h.fail(&sessions.InboxError{Op: strings.ToLower(r.Method), Why: "the inbox has no folders", Err: fs.ErrPermission})
 	}
-	return sftpErr(&sessions.InboxError{Op: strings.ToLower(r.Method), Why: "links are not allowed in the inbox", Err: fs.ErrPermission})
+	return h.fail(&sessions.InboxError{Op: strings.ToLower(r.Method), Why: "links are not allowed in the inbox", Err: fs.ErrPermission})
 }
 
 // PosixRename replaces an existing target, as the OpenSSH extension says.
@@ -132,13 +170,13 @@ func (h *inboxSFTP) Filelist(r *sftp.Request) (sftp.ListerAt, error) {
 	case "List":
 		if !root {
 			if _, err := h.in.Stat(name); err != nil {
-				return nil, sftpErr(err)
+				return nil, h.fail(err)
 			}
-			return nil, sftpErr(&sessions.InboxError{Op: "list", Why: "the inbox has no folders", Err: fs.ErrPermission})
+			return nil, h.fail(&sessions.InboxError{Op: "list", Why: "the inbox has no folders", Err: fs.ErrPermission})
 		}
 		fis, err := h.in.List()
 		if err != nil {
-			return nil, sftpErr(err)
+			return nil, h.fail(err)
 		}
 		return listerAt(fis), nil
 	case "Stat", "Lstat":
@@ -147,11 +185,13 @@ func (h *inboxSFTP) Filelist(r *sftp.Request) (sftp.ListerAt, error) {
 		}
 		fi, err := h.in.Stat(name)
 		if err != nil {
-			return nil, sftpErr(err)
+			// Clients stat freely (scp on every upload): a name the
+			// inbox cannot hold simply does not exist there.
+			return nil, fmt.Errorf("%w: %v", sftp.ErrSSHFxNoSuchFile, err)
 		}
 		return listerAt{fi}, nil
 	}
-	return nil, sftpErr(&sessions.InboxError{Op: "readlink", Why: "links are not allowed in the inbox", Err: fs.ErrPermission})
+	return nil, h.fail(&sessions.InboxError{Op: "readlink", Why: "links are not allowed in the inbox", Err: fs.ErrPermission})
 }
 
 // listerAt hands out a fixed list.
