@@ -384,3 +384,50 @@ func TestNoInboxNoTransfer(t *testing.T) {
 		sc.Close()
 	}
 }
+
+// TestSFTPReasonsOnStderr: a refusal's reason, which OpenSSH's clients do
+// not print from the SFTP status, reaches stderr with the cap named. (The
+// exit status after SFTP, which Go's client cannot wait for, was checked
+// with OpenSSH's scp by hand.)
+func TestSFTPReasonsOnStderr(t *testing.T) {
+	f := startInboxServer(t, sessions.InboxLimits{FileBytes: 1 << 20, FileFlag: "--upload-max-mib"})
+	c, err := dial(f.addr, clientConfig("ada", gossh.PublicKeys(f.ada.signer)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer c.Close()
+	s, err := c.NewSession()
+	if err != nil {
+		t.Fatal(err)
+	}
+	// RequestSubsystem starts no copying: read stderr from its pipe.
+	var stderr syncBuffer
+	errPipe, _ := s.StderrPipe()
+	copied := make(chan struct{})
+	go func() { io.Copy(&stderr, errPipe); close(copied) }()
+	in, _ := s.StdinPipe()
+	out, _ := s.StdoutPipe()
+	if err := s.RequestSubsystem("sftp"); err != nil {
+		t.Fatal(err)
+	}
+	sc, err := sftp.NewClientPipe(out, in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	w, _ := sc.Create("big.csv")
+	w.Write(make([]byte, 1<<20+1))
+	w.Close()
+	sc.Mkdir("sub")
+	sc.Close()
+	in.Close()
+	select {
+	case <-copied:
+	case <-time.After(5 * time.Second):
+		t.Fatal("stderr never closed")
+	}
+	for _, want := range []string{"at most 1 MiB (the server's --upload-max-mib)", "mkdir: the inbox has no folders"} {
+		if !strings.Contains(stderr.String(), want) {
+			t.Errorf("stderr lacks %q: %q", want, stderr.String())
+		}
+	}
+}
