@@ -44,20 +44,20 @@ type BatchView struct {
 	Stats []BatchStat
 }
 
-// BatchFitIV imports and fits (single diode, all forward points) every
-// file in paths on jobs workers (0: one per CPU). fallbackK is the
+// BatchFitIV imports from files (nil: LocalFiles) and fits (single
+// diode, all forward points) every file in paths on jobs workers (0: one per CPU). fallbackK is the
 // temperature for files that state none. A file that fails is a row with
 // its error and never stops the batch. When ctx is cancelled no new file
 // starts; the rows finished are kept and the error is ctx.Err() (with the
 // view). progress, when set, is called after each file with the number
 // done and the total.
-func BatchFitIV(ctx context.Context, paths []string, fallbackK float64, jobs int, progress func(done, total int)) (*BatchView, error) {
+func BatchFitIV(ctx context.Context, files Files, paths []string, fallbackK float64, jobs int, progress func(done, total int)) (*BatchView, error) {
 	fit := func(ctx context.Context, p string) (BatchRow, error) {
 		r := BatchRow{File: filepath.Base(p)}
 		if err := ctx.Err(); err != nil {
 			return r, err
 		}
-		ds, err := ImportMeasurement(p, nil)
+		ds, err := ImportMeasurement(files, p, nil)
 		if err != nil {
 			return r, err
 		}
@@ -128,24 +128,28 @@ func batchStats(rows []BatchRow) []BatchStat {
 }
 
 // BatchFiles lists the CSV and TSV files (by extension, any case) of
-// directory dir, sorted by name. A missing directory, a path that is not
-// a directory, and a directory without such files are errors.
-func BatchFiles(dir string) ([]string, error) {
+// directory dir in files (nil: LocalFiles), sorted by name. A missing
+// directory, a path that is not a directory, and a directory without such
+// files are errors.
+func BatchFiles(files Files, dir string) ([]string, error) {
 	dir = strings.TrimSpace(dir)
-	if dir == "" {
-		return nil, errors.New("no directory named: type the path of a directory of CSV or TSV files")
+	if files == nil {
+		files = LocalFiles{}
+		if dir == "" {
+			return nil, errors.New("no directory named: type the path of a directory of CSV or TSV files")
+		}
+		fi, err := os.Stat(dir)
+		if errors.Is(err, os.ErrNotExist) {
+			return nil, fmt.Errorf("no directory %s", dir)
+		}
+		if err != nil {
+			return nil, err
+		}
+		if !fi.IsDir() {
+			return nil, fmt.Errorf("%s is not a directory", dir)
+		}
 	}
-	fi, err := os.Stat(dir)
-	if errors.Is(err, os.ErrNotExist) {
-		return nil, fmt.Errorf("no directory %s", dir)
-	}
-	if err != nil {
-		return nil, err
-	}
-	if !fi.IsDir() {
-		return nil, fmt.Errorf("%s is not a directory", dir)
-	}
-	ents, err := os.ReadDir(dir)
+	ents, err := files.ReadDir(dir)
 	if err != nil {
 		return nil, err
 	}
@@ -158,6 +162,9 @@ func BatchFiles(dir string) ([]string, error) {
 		out = append(out, filepath.Join(dir, e.Name()))
 	}
 	if len(out) == 0 {
+		if dir == "" {
+			return nil, errors.New("no CSV or TSV file here")
+		}
 		return nil, fmt.Errorf("no CSV or TSV file in %s", dir)
 	}
 	return out, nil

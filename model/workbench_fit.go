@@ -3,6 +3,8 @@ package model
 import (
 	"errors"
 	"fmt"
+	"io"
+	"io/fs"
 	"math"
 	"os"
 	"sort"
@@ -16,16 +18,43 @@ import (
 // maxImportBytes bounds the measurement files the workbench imports.
 const maxImportBytes = 64 << 20
 
-// ImportMeasurement imports the measurement file at path for the
-// workbench: only a regular file (no directory, device or pipe that could
-// block) of at most 64 MiB is read. now stamps the import (nil: time.Now).
-// On error no data set is returned; measure's typed errors (file, line,
-// column) come through unchanged.
-func ImportMeasurement(path string, now func() time.Time) (*measure.DataSet, error) {
+// Files is where the workbench reads measurement files from: the local
+// file system (LocalFiles) or, on a server, the user's inbox
+// (sessions.Inbox), which opens nothing outside it. Open opens a file for
+// reading; ReadDir lists a folder. Their errors are shown to the user.
+type Files interface {
+	Open(name string) (fs.File, error)
+	ReadDir(name string) ([]fs.DirEntry, error)
+}
+
+// LocalFiles is the local file system, reached with the rights of the
+// user who runs junco.
+type LocalFiles struct{}
+
+// Open opens the file at path.
+func (LocalFiles) Open(path string) (fs.File, error) { return os.Open(path) }
+
+// ReadDir lists the folder at path.
+func (LocalFiles) ReadDir(path string) ([]fs.DirEntry, error) { return os.ReadDir(path) }
+
+// ImportMeasurement imports the measurement file at path from files (nil:
+// LocalFiles) for the workbench: only a regular file (no directory,
+// device or pipe that could block) of at most 64 MiB is read. now stamps
+// the import (nil: time.Now). On error no data set is returned; measure's
+// typed errors (file, line, column) come through unchanged.
+func ImportMeasurement(files Files, path string, now func() time.Time) (*measure.DataSet, error) {
 	if path == "" {
 		return nil, errors.New("no file named: type the path of a CSV or text file")
 	}
-	fi, err := os.Stat(path)
+	if files == nil {
+		files = LocalFiles{}
+	}
+	f, err := files.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	fi, err := f.Stat()
 	if err != nil {
 		return nil, err
 	}
@@ -35,7 +64,7 @@ func ImportMeasurement(path string, now func() time.Time) (*measure.DataSet, err
 	if fi.Size() > maxImportBytes {
 		return nil, fmt.Errorf("%s has %d bytes; at most %d are imported here", path, fi.Size(), maxImportBytes)
 	}
-	return measure.ImportFile(path, measure.Options{Now: now})
+	return measure.Import(io.LimitReader(f, maxImportBytes), path, measure.Options{Now: now})
 }
 
 // FitRow is one fitted parameter for display: its name, the value and its

@@ -83,7 +83,7 @@ func (m Model) importKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	}
 	if keyIs(km, k.Submit) {
 		path := strings.TrimSpace(m.imp.ed.value())
-		ds, err := model.ImportMeasurement(path, m.sess.now)
+		ds, err := model.ImportMeasurement(m.sess.files, path, m.sess.now)
 		m.imp.ds, m.imp.err = nil, ""
 		if err != nil {
 			m.imp.err = err.Error()
@@ -134,6 +134,9 @@ func (m Model) importScreen(w, h int) []string {
 	fw := m.frameWidth(w)
 	var body []string
 	body = append(body, wrapped("The path of a CSV or text sweep (bias with current or capacitance; units from the header).", fw, st.muted, "")...)
+	if m.sess.filesNote != "" {
+		body = append(body, wrapped(m.sess.filesNote, fw, st.muted, "")...)
+	}
 	body = append(body, "", "file  "+st.text.Paint(m.imp.ed.view(max(fw-6, 1), st.selected, " ")))
 	switch {
 	case m.imp.err != "":

@@ -65,6 +65,7 @@ func (m *Model) startBatch() tea.Cmd {
 	b.running, b.cancel, b.prog, b.done = true, cancel, prog, done
 	b.n, b.total, b.view, b.err, b.dir = 0, 0, nil, "", dir
 	fallbackK := m.form.spec.Temperature
+	src := m.sess.files
 	send := func(n, total int) {
 		select { // never block the workers; the final count comes with done
 		case prog <- batchProgressMsg{seq: seq, n: n, total: total}:
@@ -80,13 +81,13 @@ func (m *Model) startBatch() tea.Cmd {
 			}
 			done <- msg
 		}()
-		files, err := model.BatchFiles(dir)
+		files, err := model.BatchFiles(src, dir)
 		if err != nil {
 			msg.err = err
 			return
 		}
 		send(0, len(files))
-		msg.view, msg.err = model.BatchFitIV(ctx, files, fallbackK, 0, send)
+		msg.view, msg.err = model.BatchFitIV(ctx, src, files, fallbackK, 0, send)
 	}()
 	return waitBatch(prog, done)
 }
@@ -183,6 +184,9 @@ func (m Model) batchScreen(w, h int) []string {
 		out = append(out, st.strong.Paint(c(fmt.Sprintf("%d of %d files", b.n, b.total))))
 	default:
 		out = append(out, st.muted.Paint(c("type a directory of CSV or TSV I-V files; enter fits them all")))
+		if m.sess.filesNote != "" {
+			out = append(out, wrapped(m.sess.filesNote, w, st.muted, "")...)
+		}
 	}
 	if b.err != "" {
 		out = append(out, wrapped(g.bad+" "+b.err, w, st.err, "")...)

@@ -54,7 +54,7 @@ func writeBatchDir(t *testing.T, good int) string {
 
 func TestBatchFilesListing(t *testing.T) {
 	dir := writeBatchDir(t, 3)
-	files, err := model.BatchFiles(dir)
+	files, err := model.BatchFiles(nil, dir)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -65,7 +65,7 @@ func TestBatchFilesListing(t *testing.T) {
 	if got := strings.Join(names, " "); got != "broken.csv die00.csv die01.csv die02.csv" {
 		t.Errorf("files %q", got)
 	}
-	if _, err := model.BatchFiles(filepath.Join(dir, "missing")); err == nil || !strings.Contains(err.Error(), "no directory") {
+	if _, err := model.BatchFiles(nil, filepath.Join(dir, "missing")); err == nil || !strings.Contains(err.Error(), "no directory") {
 		t.Errorf("missing directory: %v", err)
 	}
 }
@@ -119,13 +119,13 @@ func TestBatchScreen(t *testing.T) {
 // A batch cancelled after its first file keeps the rows finished.
 func TestBatchCancelKeepsRows(t *testing.T) {
 	dir := writeBatchDir(t, 6)
-	files, err := model.BatchFiles(dir)
+	files, err := model.BatchFiles(nil, dir)
 	if err != nil {
 		t.Fatal(err)
 	}
 	ctx, cancel := context.WithCancel(context.Background())
 	defer cancel()
-	v, err := model.BatchFitIV(ctx, files, 300, 1, func(done, total int) {
+	v, err := model.BatchFitIV(ctx, nil, files, 300, 1, func(done, total int) {
 		if done == 2 {
 			cancel()
 		}

@@ -63,6 +63,10 @@ type session struct {
 	user    string // author of saves and notes
 	editor  string // user as a draft editor name
 	now     func() time.Time
+	// files is where measurements are read (nil: the local file system);
+	// filesNote says where, for the import and batch screens.
+	files     model.Files
+	filesNote string
 
 	name    string // session name; "" = not stored yet
 	suggest string // suggested name for the first save

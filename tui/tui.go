@@ -80,6 +80,12 @@ type Options struct {
 	// (it needs a server with several users).
 	Share   func(session string, readers []string) error
 	Readers func(session string) []string
+	// Files is where the import and batch screens read measurement
+	// files: nil is the local file system; a server passes the user's
+	// inbox. FilesNote, when set, tells the user where files come from
+	// (shown on those screens).
+	Files     model.Files
+	FilesNote string
 
 	// syncCharts computes chart curves inside Update rather than in a
 	// command, so that a test program's final state is deterministic.
@@ -305,7 +311,7 @@ func New(o Options) Model {
 func newSession(o Options) session {
 	s := session{store: o.Store, noStore: o.NoStoreReason, user: strings.TrimSpace(o.User), now: o.Now,
 		readOnly: o.ReadOnly, addReview: o.AddReview, copyToOwn: o.CopyToOwn, draftEvery: o.draftEvery,
-		share: o.Share, readers: o.Readers}
+		share: o.Share, readers: o.Readers, files: o.Files, filesNote: o.FilesNote}
 	if s.user == "" {
 		s.user = "unknown"
 	}

@@ -38,7 +38,10 @@ var (
 
 // ParseError reports a problem at one place of the file: the file name,
 // 1-based line and column (field) number, the field's header name and
-// value, and what was expected.
+// value, and what was expected. Its message gives the place and never the
+// file's text (ColumnName and Value are for callers that choose to show
+// them): a file that is not a measurement, read by mistake or on purpose,
+// must not have its contents printed.
 type ParseError struct {
 	File       string // source file name as given to Import
 	Line       int    // 1-based physical line
@@ -49,8 +52,7 @@ type ParseError struct {
 	Err        error  // sentinel
 }
 
-// Error formats the error as "file:line:column (column "name"): what
-// "value"; expected ...".
+// Error formats the error as "file:line:column: what; expected ...".
 func (e *ParseError) Error() string {
 	var b strings.Builder
 	b.WriteString(e.File)
@@ -58,15 +60,9 @@ func (e *ParseError) Error() string {
 	if e.Column > 0 {
 		fmt.Fprintf(&b, ":%d", e.Column)
 	}
-	if e.ColumnName != "" {
-		fmt.Fprintf(&b, " (column %q)", e.ColumnName)
-	}
 	b.WriteString(": ")
 	if e.Err != nil {
 		b.WriteString(e.Err.Error())
-	}
-	if e.Value != "" {
-		fmt.Fprintf(&b, " %q", e.Value)
 	}
 	if e.Expected != "" {
 		b.WriteString("; expected ")
@@ -79,7 +75,9 @@ func (e *ParseError) Error() string {
 func (e *ParseError) Unwrap() error { return e.Err }
 
 // ColumnError reports a header problem: a required column missing or
-// ambiguous, or a unit that is unknown or contradicts the column.
+// ambiguous, or a unit that is unknown or contradicts the column. Like
+// ParseError, its message names columns by number and never prints the
+// header's text (Header holds it for callers).
 type ColumnError struct {
 	File   string   // source file name as given to Import
 	Line   int      // line of the header (0 for a headerless file)
@@ -90,8 +88,8 @@ type ColumnError struct {
 	Err    error    // sentinel
 }
 
-// Error formats the error as "file:line:column: role column: what: detail
-// (header: ...)".
+// Error formats the error as "file:line:column: role column: what:
+// detail (header of N columns)".
 func (e *ColumnError) Error() string {
 	var b strings.Builder
 	b.WriteString(e.File)
@@ -106,15 +104,8 @@ func (e *ColumnError) Error() string {
 		b.WriteString(": ")
 		b.WriteString(e.Detail)
 	}
-	if len(e.Header) > 0 {
-		b.WriteString(" (header: ")
-		for k, h := range e.Header {
-			if k > 0 {
-				b.WriteString(" | ")
-			}
-			b.WriteString(h)
-		}
-		b.WriteString(")")
+	if n := len(e.Header); n > 0 {
+		fmt.Fprintf(&b, " (header of %d column%s)", n, map[bool]string{true: "s"}[n != 1])
 	}
 	return b.String()
 }

@@ -202,8 +202,8 @@ func pickColumn(cells []headerCell, q Quantity, opt Column, file string, line in
 	}
 	if tie >= 0 {
 		return -1, &ColumnError{File: file, Line: line, Column: tie + 1, Role: q.String(), Header: header, Err: ErrAmbiguousColumn,
-			Detail: fmt.Sprintf("columns %d (%q) and %d (%q) both look like %s; choose one in the import options",
-				best+1, cells[best].raw, tie+1, cells[tie].raw, q)}
+			Detail: fmt.Sprintf("columns %d and %d both look like %s; choose one in the import options",
+				best+1, tie+1, q)}
 	}
 	return best, nil
 }

@@ -525,7 +525,7 @@ func (im *importer) unitRow(line []byte) (bool, error) {
 			b, _ := lookupUnit(u)
 			if a != b {
 				return false, &ColumnError{File: im.file, Line: im.lr.line, Column: k + 1, Role: "unit row", Header: rawCells(im.header), Err: ErrUnitMismatch,
-					Detail: fmt.Sprintf("the header cell says %q, the unit row below it %q", h.unit, u)}
+					Detail: "the header cell and the unit row below it name different units"}
 			}
 		}
 	}
@@ -764,17 +764,17 @@ func (im *importer) plan(headerless bool, line int) error {
 			un, ok := lookupUnit(u)
 			if !ok || un.q != q {
 				what := ErrUnknownUnit
-				detail := fmt.Sprintf("unit %q is not a %s unit; allowed %s", u, q, allowedUnits(q))
+				detail := fmt.Sprintf("the unit of column %d is not a %s unit; allowed %s", idx+1, q, allowedUnits(q))
 				if ok {
 					what = ErrUnitMismatch
-					detail = fmt.Sprintf("unit %q is a %s unit, but the column is used as %s", u, un.q, q)
+					detail = fmt.Sprintf("the unit of column %d is a %s unit, but the column is used as %s", idx+1, un.q, q)
 				}
 				return &ColumnError{File: im.file, Line: line, Column: idx + 1, Role: q.String(), Header: raw, Err: what, Detail: detail}
 			}
 			if optUnit != "" {
 				if s1, o1, _ := ParseUnit(q, optUnit); s1 != un.scale || o1 != un.offset {
 					return &ColumnError{File: im.file, Line: line, Column: idx + 1, Role: q.String(), Header: raw, Err: ErrUnitMismatch,
-						Detail: fmt.Sprintf("the header says %q but the options say %q", u, optUnit)}
+						Detail: fmt.Sprintf("the header's unit differs from the options' %q", optUnit)}
 				}
 			}
 			*found = u

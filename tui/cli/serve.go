@@ -26,16 +26,22 @@ type serveOptions struct {
 	listen, hostKey, authKeys, data string
 	idle                            time.Duration
 	maxConn                         int
+	uploadMiB, inboxMiB             int64
 }
 
 const serveUsage = `Usage: junco serve [--listen ADDR] [--data DIR] [--host-key FILE]
                    [--authorized-keys FILE] [--idle DURATION] [--max-conn N]
+                   [--upload-max-mib N] [--inbox-max-mib N]
 
 Serve the workbench over SSH to a lab group. Logins are by public key only;
 each line of the authorized-keys file (OpenSSH format) names its user in the
 comment field, and the SSH login name must equal it. Each user's sessions
-live under DIR/users/USER. The keys file is re-read when it changes and on
-SIGHUP; SIGINT or SIGTERM stop the server after writing recovery drafts.
+live under DIR/users/USER. Files reach the server only through each
+user's inbox, DIR/users/USER/inbox (mode 0700): "scp FILE USER@HOST:"
+(also with -O) and "sftp USER@HOST" land there, and the workbench's
+import and batch screens read nothing else. The keys file is re-read
+when it changes and on SIGHUP; SIGINT or SIGTERM stop the server after
+writing recovery drafts.
 
 Flags:
 `
@@ -51,6 +57,8 @@ func runServe(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 	fs.StringVar(&o.authKeys, "authorized-keys", "", "OpenSSH authorized-keys file; each key's comment is its user (default DATA/authorized_keys)")
 	fs.DurationVar(&o.idle, "idle", 30*time.Minute, "close connections idle this long (0: never)")
 	fs.IntVar(&o.maxConn, "max-conn", 32, "most concurrent connections")
+	fs.Int64Var(&o.uploadMiB, "upload-max-mib", sessions.DefaultInboxFileBytes>>20, "largest file a user may upload to the inbox, in MiB (1 to 65536)")
+	fs.Int64Var(&o.inboxMiB, "inbox-max-mib", sessions.DefaultInboxUserBytes>>20, "most a user's inbox may hold in all, in MiB (1 to 1048576, at least --upload-max-mib)")
 	fs.Usage = func() { fmt.Fprint(stderr, serveUsage); fs.PrintDefaults() }
 	if err := fs.Parse(args); err != nil {
 		if errors.Is(err, flag.ErrHelp) {
@@ -64,6 +72,10 @@ func runServe(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 	}
 	if o.maxConn < 1 || o.maxConn > 10000 {
 		fmt.Fprintf(stderr, "junco serve: --max-conn %d: allowed 1 to 10000\n", o.maxConn)
+		return exitUsage
+	}
+	if o.uploadMiB < 1 || o.uploadMiB > 1<<16 || o.inboxMiB < 1 || o.inboxMiB > 1<<20 || o.inboxMiB < o.uploadMiB {
+		fmt.Fprintf(stderr, "junco serve: --upload-max-mib %d, --inbox-max-mib %d: allowed 1 to 65536 and 1 to 1048576 MiB, the inbox at least one upload\n", o.uploadMiB, o.inboxMiB)
 		return exitUsage
 	}
 	if o.idle < 0 {
@@ -90,10 +102,12 @@ func runServe(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 		fmt.Fprintf(stderr, "junco serve: %v\n", err)
 		return exitFailure
 	}
+	app.inboxLimits = sessions.InboxLimits{FileBytes: o.uploadMiB << 20, UserBytes: o.inboxMiB << 20,
+		FileFlag: "--upload-max-mib", UserFlag: "--inbox-max-mib"}
 	srv, err := serve.New(serve.Config{
 		Listen: o.listen, HostKeyPath: o.hostKey, AuthorizedKeysPath: o.authKeys,
 		IdleTimeout: o.idle, MaxConnections: o.maxConn, Logger: logger, App: app,
-		ShutdownMsg: shutdownMsg(),
+		ShutdownMsg: shutdownMsg(), Inbox: app.inbox,
 	})
 	if err != nil {
 		fmt.Fprintf(stderr, "junco serve: %v\n", err)
@@ -144,6 +158,8 @@ type serveApp struct {
 	shares *sessions.Shares
 	log    *slog.Logger
 	now    func() time.Time
+	// inboxLimits caps each user's uploads (zero: the defaults).
+	inboxLimits sessions.InboxLimits
 }
 
 func newServeApp(data string, log *slog.Logger) (*serveApp, error) {
@@ -288,6 +304,9 @@ func (a *serveApp) Model(ctx context.Context, c serve.Conn) (tea.Model, error) {
 	opts := tui.Options{Renderer: c.Renderer, ASCII: tui.DetectASCII(getenv), NoColor: tui.DetectNoColor(getenv),
 		Width: c.Width, Height: c.Height}
 	if err := a.sessionOptions(c, &opts); err != nil {
+		return nil, err
+	}
+	if err := a.inboxOptions(ctx, c.User, &opts); err != nil {
 		return nil, err
 	}
 	return tui.New(opts), nil

@@ -1,6 +1,7 @@
 package cli
 
 import (
+	"context"
 	"fmt"
 	"time"
 
@@ -93,4 +94,23 @@ func (a *serveApp) sessionOptions(c serve.Conn, o *tui.Options) error {
 		return nil
 	}
 	return fmt.Errorf("unknown command %q", c.Args[0])
+}
+
+// inbox opens user's inbox: the only folder served users reach with
+// scp, sftp and the workbench's import and batch screens.
+func (a *serveApp) inbox(user string) (*sessions.Inbox, error) {
+	return sessions.OpenInbox(a.data, user, a.inboxLimits)
+}
+
+// inboxOptions makes the workbench read measurement files from user's
+// inbox only, until ctx ends.
+func (a *serveApp) inboxOptions(ctx context.Context, user string, o *tui.Options) error {
+	in, err := a.inbox(user)
+	if err != nil {
+		return err
+	}
+	context.AfterFunc(ctx, func() { in.Close() })
+	o.Files = in
+	o.FilesNote = "Files come from your inbox on this server: upload with `scp FILE " + user + "@HOST:` or `sftp " + user + "@HOST`, then type the file name only (the batch screen fits the CSV and TSV files of the inbox: leave the directory empty)."
+	return nil
 }

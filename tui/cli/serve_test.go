@@ -2,6 +2,7 @@ package cli
 
 import (
 	"bytes"
+	"context"
 	"crypto/ed25519"
 	"crypto/rand"
 	"fmt"
@@ -17,6 +18,9 @@ import (
 	"testing"
 	"time"
 
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/ansi"
+	"github.com/pkg/sftp"
 	gossh "golang.org/x/crypto/ssh"
 
 	"junco/model"
@@ -72,7 +76,7 @@ func startJunco(t testing.TB, users ...sshUser) (addr, data string, app *serveAp
 		t.Fatal(err)
 	}
 	srv, err := serve.New(serve.Config{HostKeyPath: filepath.Join(data, "host", "ed25519"), AuthorizedKeysPath: keys,
-		App: app, Logger: lg, MaxConnections: 200, ShutdownMsg: shutdownMsg()})
+		App: app, Logger: lg, MaxConnections: 200, ShutdownMsg: shutdownMsg(), Inbox: app.inbox})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -421,4 +425,72 @@ func openWorkbench(t *testing.T, addr string, u sshUser, cmd string) (io.Writer,
 		t.Fatalf("screen never showed %q", want)
 	}
 	return in, wait
+}
+
+// TestServeUploadThenImport: a file put over SFTP by ada lands in
+// DATA/users/ada/inbox (mode 0700), and ada's served workbench imports it
+// by name while refusing a server path.
+func TestServeUploadThenImport(t *testing.T) {
+	ada := newSSHUser(t, "ada")
+	addr, data, app := startJunco(t, ada)
+	c, err := gossh.Dial("tcp", addr, &gossh.ClientConfig{User: "ada", Auth: []gossh.AuthMethod{gossh.PublicKeys(ada.signer)},
+		HostKeyCallback: gossh.InsecureIgnoreHostKey(), Timeout: 5 * time.Second})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer c.Close()
+	sc, err := sftp.NewClient(c)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer sc.Close()
+	w, err := sc.Create("die.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	io.WriteString(w, "V (V),I (A)\n0.5,1e-6\n0.6,1e-5\n")
+	if err := w.Close(); err != nil {
+		t.Fatal(err)
+	}
+	dir := filepath.Join(data, "users", "ada", "inbox")
+	if fi, err := os.Stat(dir); err != nil || fi.Mode().Perm() != 0o700 {
+		t.Fatalf("inbox: %v, %v; want a folder of mode 0700", fi, err)
+	}
+	if _, err := os.Stat(filepath.Join(dir, "die.csv")); err != nil {
+		t.Fatal(err)
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	defer cancel()
+	tm, err := app.Model(ctx, serve.Conn{User: "ada", Width: 120, Height: 40})
+	if err != nil {
+		t.Fatal(err)
+	}
+	keys := func(ks ...tea.KeyMsg) string {
+		for _, k := range ks {
+			tm, _ = tm.Update(k)
+		}
+		return strings.Join(strings.Fields(ansi.Strip(tm.View())), " ")
+	}
+	runes := func(s string) tea.KeyMsg { return tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(s)} }
+	enter, esc, clear := tea.KeyMsg{Type: tea.KeyEnter}, tea.KeyMsg{Type: tea.KeyEscape}, tea.KeyMsg{Type: tea.KeyCtrlU}
+	if v := keys(runes("i"), clear, runes("die.csv"), enter); !strings.Contains(v, "I-V sweep: 2 points") {
+		t.Errorf("the uploaded file was not imported:\n%s", v)
+	}
+	v := keys(esc, runes("i"), clear, runes("/etc/passwd"), enter)
+	if !strings.Contains(v, "Nothing was imported") || strings.Contains(v, "root:") {
+		t.Errorf("/etc/passwd on a served import:\n%s", v)
+	}
+}
+
+// The inbox caps are flags of junco serve; out-of-range values are
+// refused with the allowed range.
+func TestServeInboxCapFlags(t *testing.T) {
+	for _, args := range [][]string{{"--upload-max-mib", "0"}, {"--inbox-max-mib", "0"}, {"--upload-max-mib", "100000"},
+		{"--upload-max-mib", "64", "--inbox-max-mib", "32"}} {
+		var out, errb bytes.Buffer
+		code := runServe(context.Background(), append(args, "--data", t.TempDir()), &out, &errb)
+		if code != exitUsage || !strings.Contains(errb.String(), "allowed 1 to 65536") {
+			t.Errorf("%v: exit %d, %q", args, code, errb.String())
+		}
+	}
 }

@@ -23,6 +23,8 @@ import (
 	"github.com/charmbracelet/wish"
 	"github.com/muesli/termenv"
 	gossh "golang.org/x/crypto/ssh"
+
+	"junco/sessions"
 )
 
 // Conn describes one interactive connection to the App.
@@ -69,6 +71,9 @@ type Config struct {
 	// Logger receives connection, authentication and panic records.
 	Logger *slog.Logger
 	App    App
+	// Inbox opens a user's inbox for file transfer (SFTP and scp, see
+	// inbox_sftp.go and inbox_scp.go); nil serves no file transfer.
+	Inbox func(user string) (*sessions.Inbox, error)
 }
 
 // DefaultListen is the default listen address.
@@ -134,6 +139,7 @@ func New(cfg Config) (*Server, error) {
 		// Middlewares: the last listed runs first.
 		wish.WithMiddleware(
 			s.appMiddleware,     // 4. the workbench or an allowed command
+			s.scpMiddleware,     // 3b. legacy scp (-O) into the user's inbox
 			s.limitMiddleware,   // 3. connection cap
 			s.authMiddleware,    // 2. the session's key must still map to its login name
 			s.recoverMiddleware, // 1. a panic ends this connection only
@@ -141,6 +147,11 @@ func New(cfg Config) (*Server, error) {
 	)
 	if err != nil {
 		return nil, err
+	}
+	// SFTP (and so OpenSSH 9 scp) into the user's inbox, behind the same
+	// checks as a session.
+	srv.SubsystemHandlers = map[string]ssh.SubsystemHandler{
+		"sftp": ssh.SubsystemHandler(s.recoverMiddleware(s.authMiddleware(s.limitMiddleware(s.sftpSubsystem)))),
 	}
 	if idle := cfg.IdleTimeout; idle <= 0 {
 		srv.IdleTimeout = 0

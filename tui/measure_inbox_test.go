@@ -1,0 +1,126 @@
+package tui
+
+import (
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"junco/sessions"
+)
+
+// servedInbox lays out a server data folder: alice's inbox holds a good
+// I-V file and a symbolic link to a file outside; bob's inbox holds his
+// own file; a readable CSV and an account-like file lie outside every
+// inbox. It returns a workbench served to alice (reading her inbox only).
+func servedInbox(t *testing.T) (m Model, data string, outside []string) {
+	t.Helper()
+	data = t.TempDir()
+	good, err := os.ReadFile(writeIV(t, "die.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	secretCSV := filepath.Join(data, "private.csv")
+	account := filepath.Join(data, "account")
+	os.WriteFile(secretCSV, good, 0o600)
+	os.WriteFile(account, []byte("rootSECRET:x:0:0:root:/root:/bin/sh\n"), 0o600)
+	put := func(user, name string, b []byte) *sessions.Inbox {
+		in, err := sessions.OpenInbox(data, user, sessions.InboxLimits{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		w, err := in.Create(name, -1)
+		if err != nil {
+			t.Fatal(err)
+		}
+		w.Write(b)
+		if err := w.Close(); err != nil {
+			t.Fatal(err)
+		}
+		return in
+	}
+	put("bob", "bobs.csv", good).Close()
+	in := put("alice", "die.csv", good)
+	t.Cleanup(func() { in.Close() })
+	dir, _ := sessions.InboxRoot(data, "alice")
+	if err := os.Symlink(secretCSV, filepath.Join(dir, "link.csv")); err != nil {
+		t.Fatal(err)
+	}
+	m = start(New(Options{Renderer: plainRenderer(), Width: 120, Height: 40, Files: in, FilesNote: "files come from your inbox"}))
+	return m, data, []string{secretCSV, account}
+}
+
+// TestServedImportReadsOnlyTheInbox tries, on the import screen of a
+// served workbench, every way out of the inbox: a relative escape, an
+// absolute path to a readable CSV and to an account file, the system
+// account file, a symbolic link to outside, another user's inbox. Each is
+// refused and nothing is added; no message names a server path or shows
+// the file's text. A file in the inbox imports.
+func TestServedImportReadsOnlyTheInbox(t *testing.T) {
+	m, data, outside := servedInbox(t)
+	before := len(m.sess.meas)
+	paths := []string{"../../../private.csv", "../../x", outside[0], outside[1], "/etc/passwd", "link.csv",
+		"../../bob/inbox/bobs.csv", "../bob/inbox/bobs.csv"}
+	for _, p := range paths {
+		m = press(m, "i", "ctrl+u")
+		m = typeText(m, p)
+		m = press(m, "enter")
+		if m.imp.ds != nil || m.imp.err == "" {
+			t.Errorf("%s: imported (%v) or no error", p, m.imp.ds != nil)
+		}
+		for _, leak := range []string{data, filepath.Base(data), "/etc", "passwd", "SECRET", "root:", "users"} {
+			if strings.Contains(m.imp.err, leak) {
+				t.Errorf("%s: message %q names %q", p, m.imp.err, leak)
+			}
+		}
+		m = press(m, "esc")
+	}
+	if len(m.sess.meas) != before {
+		t.Fatalf("measurements were added: %d", len(m.sess.meas)-before)
+	}
+	m = press(m, "i", "ctrl+u")
+	if !strings.Contains(flat(plain(m)), "files come from your inbox") {
+		t.Errorf("the import screen does not say where files come from:\n%s", plain(m))
+	}
+	m = typeText(m, "die.csv")
+	m = press(m, "enter")
+	if m.imp.ds == nil {
+		t.Fatalf("a file of the inbox: %s", m.imp.err)
+	}
+}
+
+// TestServedBatchReadsOnlyTheInbox: the batch screen of a served
+// workbench lists only the inbox (an empty folder field), and refuses any
+// other folder without naming it.
+func TestServedBatchReadsOnlyTheInbox(t *testing.T) {
+	m, data, _ := servedInbox(t)
+	for _, dir := range []string{data, "/etc", "..", "../bob/inbox", "../../.."} {
+		m = press(m, "B", "ctrl+u")
+		m = typeText(m, dir)
+		m = press(m, "enter")
+		if m.bat.view != nil || m.bat.err == "" {
+			t.Errorf("%s: listed or no error", dir)
+		}
+		if strings.Contains(m.bat.err, data) || strings.Contains(m.bat.err, "/etc") {
+			t.Errorf("%s: message names a server path: %q", dir, m.bat.err)
+		}
+		m = press(m, "esc")
+	}
+	m = press(m, "B", "ctrl+u", "enter")
+	v := m.bat.view
+	if v == nil || v.Files != 1 || v.Fitted != 1 || v.Rows[0].File != "die.csv" {
+		t.Fatalf("batch of the inbox: %+v err %q", v, m.bat.err)
+	}
+}
+
+// The local workbench keeps full file access: an absolute path imports.
+func TestLocalImportKeepsFullAccess(t *testing.T) {
+	p := writeIV(t, "local.csv")
+	m := newTest(t, 120, 40)
+	m = press(m, "i")
+	m = typeText(m, p)
+	m = press(m, "enter")
+	if m.imp.ds == nil {
+		t.Fatalf("local import of an absolute path: %s", m.imp.err)
+	}
+}
