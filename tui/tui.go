@@ -461,6 +461,9 @@ func (m *Model) relayout() tea.Cmd {
 // Update handles a message. After a change not yet saved it starts the
 // timer of the recovery draft (once; see scheduleDraft).
 func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
+	if km, ok := msg.(tea.KeyMsg); ok && km.Type == tea.KeyRunes && len(km.Runes) > 1 && !km.Paste {
+		return m.eachKey(km)
+	}
 	tm, cmd := m.update(msg)
 	nm, ok := tm.(Model)
 	if !ok {
@@ -471,6 +474,27 @@ func (m Model) Update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		cmd = tea.Batch(cmd, dcmd)
 	}
 	return nm, cmd
+}
+
+// eachKey acts on every key of a read that carried several (typeahead, key
+// repeat over SSH, a script typing): the terminal library reports such a run
+// of printable keys as one message, which matches no single-key binding.
+// Each key goes through Update on its own, as if typed one by one, so text
+// fields get the same characters and every other key acts. A bracketed
+// paste stays whole.
+func (m Model) eachKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
+	var cur tea.Model = m
+	cmds := make([]tea.Cmd, 0, len(km.Runes))
+	for _, r := range km.Runes {
+		one := tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune{r}, Alt: km.Alt}
+		if r == ' ' {
+			one = tea.KeyMsg{Type: tea.KeySpace, Runes: []rune{r}, Alt: km.Alt}
+		}
+		var cmd tea.Cmd
+		cur, cmd = cur.Update(one)
+		cmds = append(cmds, cmd)
+	}
+	return cur, tea.Batch(cmds...)
 }
 
 func (m Model) update(msg tea.Msg) (tea.Model, tea.Cmd) {

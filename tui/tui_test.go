@@ -106,6 +106,15 @@ func keyMsg(k string) tea.KeyMsg {
 	case "space":
 		return tea.KeyMsg{Type: tea.KeySpace, Runes: []rune{' '}}
 	}
+	// Any other named key (ctrl+k, f1, ...) by the terminal library's own
+	// names: control keys are 0-31 and 127, special keys negative.
+	if len([]rune(k)) > 1 {
+		for t := tea.KeyType(-200); t <= 127; t++ {
+			if t != tea.KeyRunes && t.String() == k {
+				return tea.KeyMsg{Type: t}
+			}
+		}
+	}
 	return tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune(k)}
 }
 
