@@ -206,7 +206,7 @@ func (s *Shares) Set(owner, name string, readers []string) error {
 		return err
 	}
 	dir := filepath.Dir(path)
-	if err := os.MkdirAll(dir, 0o755); err != nil {
+	if err := mkdirPrivate(dir); err != nil {
 		return err
 	}
 	f, err := os.CreateTemp(dir, ".tmp-*")

@@ -47,6 +47,8 @@ type Store struct {
 	now  func() time.Time
 	tool string
 	user string
+	// notices say what opening the store changed (modes tightened).
+	notices []string
 }
 
 // Options configure a Store.
@@ -60,10 +62,21 @@ type Options struct {
 }
 
 // New returns the store rooted at root (made absolute). Directories are
-// created when the first session is saved.
+// created when the first session is saved, private to the owner. A store
+// that other accounts can read (one written by an older junco) is made
+// private here; Notices says so.
 func New(root string, o Options) (*Store, error) {
-	return newStore(root, o, osFS{})
+	s, err := newStore(root, o, osFS{})
+	if err != nil {
+		return nil, err
+	}
+	s.notices = tightenNotices(s.root)
+	return s, nil
 }
+
+// Notices returns what opening the store changed or could not change,
+// one sentence each, for the user or a server's log.
+func (s *Store) Notices() []string { return s.notices }
 
 func newStore(root string, o Options, fsys fileSystem) (*Store, error) {
 	if strings.TrimSpace(root) == "" {
@@ -359,10 +372,14 @@ func (s *Store) checkCase(name string) error {
 	return nil
 }
 
-// Modes of the files the store writes: revisions are read-only (they
-// never change), drafts private to the user, exports ordinary files.
+// Modes of what the store writes, whatever the umask: every directory
+// and file of a store is private to its owner, so that other accounts of
+// a shared host read no session; revisions and review notes are also
+// read-only (they never change), drafts are replaced. Exports go where
+// the user asks and are ordinary files.
 const (
-	revisionMode fs.FileMode = 0o444
+	dirMode      fs.FileMode = 0o700
+	revisionMode fs.FileMode = 0o400
 	draftMode    fs.FileMode = 0o600
 	exportMode   fs.FileMode = 0o644
 )
