@@ -87,11 +87,6 @@ func TestSaveOpenHistory(t *testing.T) {
 	}
 }
 
-func isNotFound(err error) bool {
-	var nf *NotFoundError
-	return errors.As(err, &nf)
-}
-
 func TestStaleSave(t *testing.T) {
 	s := newTestStore(t)
 	doc := exampleDocument()
@@ -364,14 +359,24 @@ func TestDamagedFiles(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var names []string
+	var names, damaged []string
 	for _, l := range list {
 		names = append(names, l.Name)
+		if len(l.Damaged) > 0 {
+			damaged = append(damaged, l.Name)
+			if l.Latest.Number != 0 || l.Damaged[0].Path != rev1(l.Name) {
+				t.Errorf("%s: newest readable revision %d, damaged %v; want none and revision 1", l.Name, l.Latest.Number, l.Damaged)
+			}
+		}
 	}
-	// The header of "truncated" and "badspec" reads (listing reads only the
-	// header); opening them reports the damage.
-	if want := []string{"badspec", "good", "middle", "truncated"}; !reflect.DeepEqual(names, want) {
+	// Damaged sessions are listed, marked. The header of "truncated" and
+	// "badspec" reads (listing reads only the header); opening them
+	// reports the damage.
+	if want := []string{"badspec", "empty", "garbage", "good", "middle", "newer", "truncated"}; !reflect.DeepEqual(names, want) {
 		t.Errorf("listed %q, want %q", names, want)
+	}
+	if want := []string{"empty", "garbage", "newer"}; !reflect.DeepEqual(damaged, want) {
+		t.Errorf("marked damaged %q, want %q", damaged, want)
 	}
 	joined := ""
 	for _, p := range probs {
@@ -466,7 +471,7 @@ func TestListHeaders(t *testing.T) {
 	os.Chmod(p, 0o644)
 	os.WriteFile(p, bytes.Replace(b, []byte("p+n test diode D7"), []byte(`p+n \u001b[31mred`), 1), 0o644)
 	list, probs, _ = s.List()
-	if len(list) != 1 || len(probs) != 1 || !strings.Contains(probs[0].Error(), "control character") {
+	if len(list) != 2 || len(list[1].Damaged) != 1 || list[1].Latest.Meta.Title != "" || len(probs) != 1 || !strings.Contains(probs[0].Error(), "control character") {
 		t.Errorf("escape in a title: %+v %v", list, probs)
 	}
 }

@@ -267,6 +267,7 @@ func (s *Store) Drafts() ([]Draft, []*DamagedError, error) {
 		for _, f := range files {
 			fn := f.Name()
 			if strings.HasPrefix(fn, ".") {
+				s.sweepTemp(dir, f)
 				continue
 			}
 			path := filepath.Join(dir, fn)
