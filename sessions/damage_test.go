@@ -87,12 +87,12 @@ func TestStaleTempFilesSwept(t *testing.T) {
 	if _, err := s.Save("d7", exampleDocument(), 0); err != nil {
 		t.Fatal(err)
 	}
-	if err := s.SaveDraft("d7", "ana", 1, exampleDocument()); err != nil {
+	if err := s.SaveDraft("d7", DraftKey{Editor: "ana"}, 1, exampleDocument()); err != nil {
 		t.Fatal(err)
 	}
 	old := time.Now().Add(-staleTempAge - time.Minute)
 	var stale, fresh []string
-	for _, dir := range []string{s.sessionDir("d7"), filepath.Dir(s.draftPath("d7", "ana"))} {
+	for _, dir := range []string{s.sessionDir("d7"), filepath.Dir(s.draftPath("d7", DraftKey{Editor: "ana"}))} {
 		for i, age := range []time.Time{old, time.Now()} {
 			p := filepath.Join(dir, ".tmp-"+string(rune('a'+i)))
 			if err := os.WriteFile(p, []byte("half a revision"), 0o600); err != nil {

@@ -65,7 +65,7 @@ func TestStoreIsPrivateWhateverTheUmask(t *testing.T) {
 		steps = append(steps, err)
 		_, err = s.Save("d2", exampleDocument(), 0)
 		steps = append(steps, err)
-		steps = append(steps, s.SaveDraft("d1", "alice", 1, exampleDocument()))
+		steps = append(steps, s.SaveDraft("d1", DraftKey{Editor: "alice"}, 1, exampleDocument()))
 		steps = append(steps, s.AddReviewNote("d1", ReviewNote{Author: "bob", Text: "looks right"}))
 		_, err = s.Trash("d2")
 		steps = append(steps, err)
@@ -98,7 +98,7 @@ func TestLooseStoreIsTightenedOnOpen(t *testing.T) {
 	if _, err := s.Save("old", exampleDocument(), 0); err != nil {
 		t.Fatal(err)
 	}
-	if err := s.SaveDraft("old", "ana", 1, exampleDocument()); err != nil {
+	if err := s.SaveDraft("old", DraftKey{Editor: "ana"}, 1, exampleDocument()); err != nil {
 		t.Fatal(err)
 	}
 	loosen := func(path string, d fs.DirEntry, err error) error {

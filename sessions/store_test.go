@@ -271,14 +271,14 @@ func TestImport(t *testing.T) {
 func TestDrafts(t *testing.T) {
 	s := newTestStore(t)
 	doc := exampleDocument()
-	if err := s.SaveDraft("d7", "alice", 0, doc); err != nil {
+	if err := s.SaveDraft("d7", DraftKey{Editor: "alice"}, 0, doc); err != nil {
 		t.Fatal(err)
 	}
 	doc.Notes = append(doc.Notes, "typed since")
-	if err := s.SaveDraft("d7", "alice", 0, doc); err != nil {
+	if err := s.SaveDraft("d7", DraftKey{Editor: "alice"}, 0, doc); err != nil {
 		t.Fatal(err)
 	}
-	if err := s.SaveDraft("d7", "bob", 2, exampleDocument()); err != nil {
+	if err := s.SaveDraft("d7", DraftKey{Editor: "bob"}, 2, exampleDocument()); err != nil {
 		t.Fatal(err)
 	}
 	ds, probs, err := s.Drafts()
@@ -300,10 +300,10 @@ func TestDrafts(t *testing.T) {
 	if len(ds) != 1 || len(probs) != 1 || !strings.Contains(probs[0].Error(), "bob.json") {
 		t.Errorf("damaged draft: %v / %v", ds, probs)
 	}
-	if err := s.DiscardDraft("d7", "alice"); err != nil {
+	if err := s.DiscardDraft("d7", DraftKey{Editor: "alice"}); err != nil {
 		t.Fatal(err)
 	}
-	if err := s.DiscardDraft("d7", "alice"); err != nil {
+	if err := s.DiscardDraft("d7", DraftKey{Editor: "alice"}); err != nil {
 		t.Errorf("discarding twice: %v", err)
 	}
 	ds, _, _ = s.Drafts()

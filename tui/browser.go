@@ -452,6 +452,12 @@ func (m Model) browseScreen(w, h int) []string {
 	list := make([]string, 0, len(shown))
 	for i, s := range shown {
 		title := s.Latest.Meta.Title
+		switch {
+		case len(s.Damaged) > 0 && s.Latest.Number == 0:
+			title = "(damaged: no revision can be read) " + title
+		case len(s.Damaged) > 0:
+			title = fmt.Sprintf("(damaged: newest readable is revision %d) %s", s.Latest.Number, title)
+		}
 		if b.drafts[s.Name] {
 			title = "(your draft) " + title
 		}
