@@ -91,7 +91,7 @@ func (s *Store) draftPath(name string, k DraftKey) string {
 // draft or the new one. Callers save drafts every few seconds while a
 // session has unsaved changes and discard them after a save.
 func (s *Store) SaveDraft(name string, k DraftKey, base int, doc *Document) error {
-	if err := ValidateName(name); err != nil {
+	if err := validateDraftSession(name); err != nil {
 		return err
 	}
 	if err := k.validate(); err != nil {
@@ -162,7 +162,7 @@ func (s *Store) Drafts() ([]Draft, []*DamagedError, error) {
 			continue
 		}
 		dir := filepath.Join(top, name)
-		if ValidateName(name) != nil || !e.IsDir() {
+		if validateDraftSession(name) != nil || !e.IsDir() {
 			probs = append(probs, &DamagedError{Path: dir, Err: errors.New("not a draft directory; ignored")})
 			continue
 		}
@@ -266,7 +266,7 @@ func (s *Store) readDraft(path string) (*Draft, error) {
 // DiscardDraft removes the draft of session name by k; a missing draft is
 // not an error.
 func (s *Store) DiscardDraft(name string, k DraftKey) error {
-	if err := ValidateName(name); err != nil {
+	if err := validateDraftSession(name); err != nil {
 		return err
 	}
 	if err := k.validate(); err != nil {
@@ -290,7 +290,7 @@ func (s *Store) DiscardDraft(name string, k DraftKey) error {
 // connection wrote it, newest first, with problems for the draft files of
 // that editor that cannot be read (they are left as they are).
 func (s *Store) DraftsOf(name, editor string) ([]Draft, []*DamagedError, error) {
-	if err := ValidateName(name); err != nil {
+	if err := validateDraftSession(name); err != nil {
 		return nil, nil, err
 	}
 	if err := ValidateName(editor); err != nil {
@@ -321,7 +321,7 @@ func (s *Store) DraftOf(name, editor string) (*Draft, error) {
 // HasDraft reports whether editor has a draft of session name, of any
 // connection.
 func (s *Store) HasDraft(name, editor string) bool {
-	if ValidateName(name) != nil || ValidateName(editor) != nil {
+	if validateDraftSession(name) != nil || ValidateName(editor) != nil {
 		return false
 	}
 	if _, err := s.fs.Stat(s.draftPath(name, DraftKey{Editor: editor})); err == nil {

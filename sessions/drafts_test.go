@@ -54,3 +54,31 @@ func TestDraftsPerConnection(t *testing.T) {
 		t.Errorf("a connection with a path was accepted: %v", err)
 	}
 }
+
+// TestReservedNameIsNoSession: the one name check refuses the name kept
+// for drafts of unsaved junctions, in any letter case, so no front end
+// can save a session under it; its drafts still work.
+func TestReservedNameIsNoSession(t *testing.T) {
+	s := newTestStore(t)
+	for _, n := range []string{UnnamedDraft, "_UNSAVED", "_Unsaved"} {
+		if err := ValidateName(n); err == nil || !strings.Contains(err.Error(), "kept for the recovery drafts") {
+			t.Errorf("ValidateName(%q) = %v, want it refused as reserved", n, err)
+		}
+		if _, err := s.Save(n, exampleDocument(), 0); err == nil {
+			t.Errorf("a session named %q was saved", n)
+		}
+	}
+	k := DraftKey{Editor: "alice", Conn: NewConnID(fixedTime)}
+	if err := s.SaveDraft(UnnamedDraft, k, 0, exampleDocument()); err != nil {
+		t.Fatal(err)
+	}
+	if d, err := s.DraftOf(UnnamedDraft, "alice"); err != nil || d == nil {
+		t.Errorf("the draft of an unsaved junction: %v %v", d, err)
+	}
+	if ds, probs, _ := s.Drafts(); len(ds) != 1 || len(probs) != 0 {
+		t.Errorf("all drafts: %d %v", len(ds), probs)
+	}
+	if err := s.DiscardDraft(UnnamedDraft, k); err != nil {
+		t.Error(err)
+	}
+}

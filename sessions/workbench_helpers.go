@@ -4,8 +4,9 @@ import "strings"
 
 // UnnamedDraft is the session name under which the workbench keeps the
 // crash-recovery draft of a junction that has no session name yet (the
-// demo, or a file opened but not saved). Workbenches refuse it as the name
-// of a session, so that the draft of a named session never lands on it.
+// demo, or a file opened but not saved). ValidateName refuses it as the
+// name of a session, so that the draft of a named session never lands on
+// it.
 const UnnamedDraft = "_unsaved"
 
 // IsReservedName reports whether name is kept for the store's own use

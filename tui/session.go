@@ -630,16 +630,9 @@ func (m *Model) save(req saveRequest, next bool) error {
 	return nil
 }
 
-// checkNewName checks the name of a new session.
-func checkNewName(name string) error {
-	if err := sessions.ValidateName(name); err != nil {
-		return err
-	}
-	if sessions.IsReservedName(name) {
-		return &sessions.NameError{Name: name, Why: "is kept for the recovery drafts of unsaved junctions"}
-	}
-	return nil
-}
+// checkNewName checks the name of a new session (sessions.ValidateName
+// also refuses the reserved ones).
+func checkNewName(name string) error { return sessions.ValidateName(name) }
 
 // addReview adds a review note through the review service.
 func (m *Model) addReview(text string) error {
