@@ -461,7 +461,8 @@ func (m Model) browseScreen(w, h int) []string {
 		if b.drafts[s.Name] {
 			title = "(your draft) " + title
 		}
-		l := row(s.Name, strconv.Itoa(s.Revisions), stamp(s.Latest.Meta.Modified), dashed(s.Latest.Meta.SavedBy), title)
+		echo := func(t string) string { return sessions.Printable(t, sessions.MaxEchoRunes, g.ellipsis) }
+		l := row(echo(s.Name), strconv.Itoa(s.Revisions), stamp(s.Latest.Meta.Modified), dashed(echo(s.Latest.Meta.SavedBy)), echo(title))
 		if i == b.sel {
 			list = append(list, st.accent.Paint(g.cursor)+" "+st.selected.Paint(l))
 		} else {

@@ -322,9 +322,20 @@ func (m *Model) applyExtras(doc *sessions.Document) {
 	}
 }
 
-// pushNotes hands the notes to the results sheet.
+// pushNotes hands the notes to the results sheet, made printable
+// (sessions.Printable): a note from a file or a reviewer cannot reach the
+// terminal with a control sequence.
 func (m *Model) pushNotes() {
-	m.sheet.setNotes(m.sess.notes, m.sess.reviews)
+	notes := make([]string, len(m.sess.notes))
+	for i, n := range m.sess.notes {
+		notes[i] = sessions.Printable(n, 0, "")
+	}
+	reviews := slices.Clone(m.sess.reviews)
+	for i := range reviews {
+		reviews[i].Author = sessions.Printable(reviews[i].Author, 0, "")
+		reviews[i].Text = sessions.Printable(reviews[i].Text, 0, "")
+	}
+	m.sheet.setNotes(notes, reviews)
 }
 
 // openDocument puts a stored (or imported) document in force in place of

@@ -1,11 +1,13 @@
 package tui
 
 import (
+	"strings"
 	"testing"
 
 	tea "github.com/charmbracelet/bubbletea"
 
 	"junco/model"
+	"junco/sessions"
 )
 
 // TestTwoConnectionsKeepTheirDrafts: one user on two connections edits
@@ -65,5 +67,26 @@ func TestTwoConnectionsKeepTheirDrafts(t *testing.T) {
 	}
 	if ds, _, _ := st.DraftsOf("d7", "alice"); len(ds) != 0 {
 		t.Errorf("%d drafts left after the save, want none", len(ds))
+	}
+}
+
+// TestReviewNoteWithControlCharactersIsEscaped: a review note carrying a
+// terminal control sequence is shown escaped, never passed through.
+func TestReviewNoteWithControlCharactersIsEscaped(t *testing.T) {
+	st := newStore(t, "alice")
+	storeSession(t, st, "d7", "diode D7", model.DemoJunction().Spec)
+	if err := st.AddReviewNote("d7", sessions.ReviewNote{Author: "bob", Text: "fine \x1b[2Jgone"}); err != nil {
+		t.Fatal(err)
+	}
+	o := opts(st, "alice", 120, 40)
+	o.Session = "d7"
+	m := start(New(o))
+	for _, n := range m.sheet.reviews {
+		if strings.ContainsRune(n.Text, 0x1b) {
+			t.Fatalf("the note reaches the sheet unescaped: %q", n.Text)
+		}
+	}
+	if len(m.sheet.reviews) != 1 || m.sheet.reviews[0].Text != `fine \x1b[2Jgone` {
+		t.Errorf("reviews on the sheet: %+v", m.sheet.reviews)
 	}
 }
