@@ -382,6 +382,9 @@ func (m Model) openStored(name string, rev int, back screen) (tea.Model, tea.Cmd
 	if m.note == "" {
 		m.note = fmt.Sprintf("opened %s, revision %d", name, r.Number)
 	}
+	if len(r.Skipped) > 0 {
+		m.note += fmt.Sprintf(" (the newest readable; unreadable newer revisions: %d, left untouched; saving takes the next free number)", len(r.Skipped))
+	}
 	m.offerDraft()
 	return m, cmd
 }

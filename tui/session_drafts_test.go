@@ -1,6 +1,8 @@
 package tui
 
 import (
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 
@@ -88,5 +90,32 @@ func TestReviewNoteWithControlCharactersIsEscaped(t *testing.T) {
 	}
 	if len(m.sheet.reviews) != 1 || m.sheet.reviews[0].Text != `fine \x1b[2Jgone` {
 		t.Errorf("reviews on the sheet: %+v", m.sheet.reviews)
+	}
+}
+
+// TestOpenSessionWithDamagedNewestRevision: the browser opens the newest
+// readable revision of a session whose newest one is damaged, says so,
+// and the next save takes the next free number.
+func TestOpenSessionWithDamagedNewestRevision(t *testing.T) {
+	st := newStore(t, "alice")
+	storeSession(t, st, "d7", "diode D7", model.DemoJunction().Spec)
+	saveNext(t, st, "d7", 0.5)
+	p := filepath.Join(st.Root(), "sessions", "d7", "rev-000002.json")
+	os.Chmod(p, 0o600)
+	if err := os.WriteFile(p, []byte("{"), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	m := start(New(opts(st, "alice", 140, 40)))
+	m = press(m, "ctrl+o")
+	wantIn(t, m, "(damaged: newest readable is revision 1)")
+	m = press(m, "enter")
+	if m.screen != screenMain || m.sess.name != "d7" || m.sess.rev != 1 {
+		t.Fatalf("open: screen %d, session %q, revision %d", m.screen, m.sess.name, m.sess.rev)
+	}
+	wantIn(t, m, "unreadable newer revisions: 1")
+	m = editField(m, "5", 0, "305")
+	m = press(m, "enter", "ctrl+s", "enter")
+	if n, _ := st.Latest("d7"); n != 3 || m.sess.rev != 3 {
+		t.Errorf("saved as revision %d (workbench at %d), want 3", n, m.sess.rev)
 	}
 }
