@@ -367,10 +367,12 @@ func sessionsShow(st *sessions.Store, name string, o sessionFlags, stdout, stder
 	}
 	warnSkipped(st, stderr, rev)
 	m := doc.Meta
-	fmt.Fprintf(stdout, "%s, revision %d: %s\n", name, rev.Number, dash(m.Title))
-	fmt.Fprintf(stdout, "author %s; created %s; saved %s by %s with junco %s\n", dash(m.Author), when(m.Created), when(m.Modified), dash(m.SavedBy), dash(m.ToolVersion))
+	// Every text of the document is echoed through sessions.Printable.
+	e := func(s string) string { return sessions.Printable(s, 0, "") }
+	fmt.Fprintf(stdout, "%s, revision %d: %s\n", name, rev.Number, e(dash(m.Title)))
+	fmt.Fprintf(stdout, "author %s; created %s; saved %s by %s with junco %s\n", e(dash(m.Author)), when(m.Created), when(m.Modified), e(dash(m.SavedBy)), e(dash(m.ToolVersion)))
 	if m.Origin != "" {
-		fmt.Fprintf(stdout, "origin: %s\n", m.Origin)
+		fmt.Fprintf(stdout, "origin: %s\n", e(m.Origin))
 	}
 	fmt.Fprintln(stdout, "\nInputs")
 	var rows [][]string
@@ -388,34 +390,34 @@ func sessionsShow(st *sessions.Store, name string, o sessionFlags, stdout, stder
 	if len(doc.Measurements) > 0 {
 		fmt.Fprintln(stdout, "\nMeasurements")
 		for _, ms := range doc.Measurements {
-			fmt.Fprintf(stdout, "  %s: %s from %s, %d points, imported %s\n", ms.ID, ms.Kind, ms.SourceFile, ms.Len(), when(ms.ImportedAt))
+			fmt.Fprintf(stdout, "  %s: %s from %s, %d points, imported %s\n", e(ms.ID), e(string(ms.Kind)), e(ms.SourceFile), ms.Len(), when(ms.ImportedAt))
 		}
 	}
 	if len(doc.Extractions) > 0 {
 		fmt.Fprintln(stdout, "\nExtracted parameters")
 		for _, x := range doc.Extractions {
-			fmt.Fprintf(stdout, "  %s (%s, data %s)\n", x.ID, x.Method, dash(x.Measurement))
+			fmt.Fprintf(stdout, "  %s (%s, data %s)\n", e(x.ID), e(x.Method), e(dash(x.Measurement)))
 			for _, p := range x.Parameters {
-				fmt.Fprintf(stdout, "    %-6s %s\n", p.Name, sessions.FormatParameter(p, o.ascii))
+				fmt.Fprintf(stdout, "    %-6s %s\n", e(p.Name), e(sessions.FormatParameter(p, o.ascii)))
 			}
 		}
 	}
 	if len(doc.References) > 0 {
 		fmt.Fprintln(stdout, "\nReferences")
 		for _, r := range doc.References {
-			fmt.Fprintf(stdout, "  %s (pinned %s)\n", r.Name, when(r.Pinned))
+			fmt.Fprintf(stdout, "  %s (pinned %s)\n", e(r.Name), when(r.Pinned))
 		}
 	}
 	if len(doc.Notes) > 0 {
 		fmt.Fprintln(stdout, "\nNotes")
 		for _, l := range doc.Notes {
-			fmt.Fprintln(stdout, "  "+l)
+			fmt.Fprintln(stdout, "  "+e(l))
 		}
 	}
 	if len(doc.Reviews) > 0 {
 		fmt.Fprintln(stdout, "\nReview notes")
 		for _, r := range doc.Reviews {
-			fmt.Fprintf(stdout, "  %s, %s: %s\n", r.Author, when(r.Time), r.Text)
+			fmt.Fprintf(stdout, "  %s, %s: %s\n", e(r.Author), when(r.Time), e(r.Text))
 		}
 	}
 	return exitOK

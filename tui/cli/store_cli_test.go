@@ -142,3 +142,23 @@ func TestServeListNamesNoServerPath(t *testing.T) {
 		t.Errorf("list over SSH: %q %q %v", out, errs, err)
 	}
 }
+
+// TestShowEscapesControlCharacters: a review note written with a terminal
+// control sequence is shown escaped by `sessions show`.
+func TestShowEscapesControlCharacters(t *testing.T) {
+	dir := t.TempDir()
+	if code, _, errs := runCLI(t, "calc", "--save", "d7", "--data", dir); code != 0 {
+		t.Fatal(errs)
+	}
+	st, err := sessions.New(dir, sessions.Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := st.AddReviewNote("d7", sessions.ReviewNote{Author: "bob", Text: "ok \x1b]0;owned\x07 \x1b[2J"}); err != nil {
+		t.Fatal(err)
+	}
+	code, out, errs := runCLI(t, "sessions", "show", "d7", "--data", dir)
+	if code != 0 || strings.ContainsAny(out, "\x1b\x07") || !strings.Contains(out, `ok \x1b]0;owned\x07 \x1b[2J`) {
+		t.Errorf("show: exit %d, %q, %q", code, out, errs)
+	}
+}
