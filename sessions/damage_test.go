@@ -90,9 +90,12 @@ func TestStaleTempFilesSwept(t *testing.T) {
 	if err := s.SaveDraft("d7", DraftKey{Editor: "ana"}, 1, exampleDocument()); err != nil {
 		t.Fatal(err)
 	}
+	if err := s.AddReviewNote("d7", ReviewNote{Author: "bob", Text: "seen"}); err != nil {
+		t.Fatal(err)
+	}
 	old := time.Now().Add(-staleTempAge - time.Minute)
 	var stale, fresh []string
-	for _, dir := range []string{s.sessionDir("d7"), filepath.Dir(s.draftPath("d7", DraftKey{Editor: "ana"}))} {
+	for _, dir := range []string{s.sessionDir("d7"), filepath.Dir(s.draftPath("d7", DraftKey{Editor: "ana"})), filepath.Join(s.Root(), reviewsDir, "d7")} {
 		for i, age := range []time.Time{old, time.Now()} {
 			p := filepath.Join(dir, ".tmp-"+string(rune('a'+i)))
 			if err := os.WriteFile(p, []byte("half a revision"), 0o600); err != nil {
@@ -114,6 +117,9 @@ func TestStaleTempFilesSwept(t *testing.T) {
 		t.Fatal(err)
 	}
 	if _, _, err := s.Drafts(); err != nil {
+		t.Fatal(err)
+	}
+	if _, _, err := s.ReviewNotes("d7"); err != nil {
 		t.Fatal(err)
 	}
 	for _, p := range stale {
