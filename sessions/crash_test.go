@@ -211,9 +211,9 @@ func TestCrashConsistency(t *testing.T) {
 		{
 			name: "draft replacement",
 			prepare: func(s *Store) error {
-				return s.SaveDraft("d7", "ed", 0, docA)
+				return s.SaveDraft("d7", DraftKey{Editor: "ed"}, 0, docA)
 			},
-			op:  func(s *Store) error { return s.SaveDraft("d7", "ed", 0, docB) },
+			op:  func(s *Store) error { return s.SaveDraft("d7", DraftKey{Editor: "ed"}, 0, docB) },
 			ops: "mkdir create write chmod sync close rename syncdir",
 			check: func(t *testing.T, root string, done bool) {
 				s, _ := New(root, Options{})

@@ -520,25 +520,32 @@ func WriteChanges(w io.Writer, changes []Change) {
 }
 
 // WriteTable writes rows as columns separated by two spaces, padded to
-// the widest cell (counted in runes).
+// the widest cell (counted in runes). Every cell is made Printable and
+// cut to MaxEchoRunes.
 func WriteTable(w io.Writer, rows [][]string) {
 	if len(rows) == 0 {
 		return
 	}
+	clean := make([][]string, len(rows))
 	width := make([]int, len(rows[0]))
-	for _, r := range rows {
+	for j, r := range rows {
+		clean[j] = make([]string, len(r))
 		for i, c := range r {
-			width[i] = max(width[i], len([]rune(c)))
+			c = Printable(c, MaxEchoRunes, "...")
+			clean[j][i] = c
+			if i < len(width) {
+				width[i] = max(width[i], len([]rune(c)))
+			}
 		}
 	}
-	for _, r := range rows {
+	for _, r := range clean {
 		var line strings.Builder
 		for i, c := range r {
 			if i > 0 {
 				line.WriteString("  ")
 			}
 			line.WriteString(c)
-			if i < len(r)-1 {
+			if i < len(r)-1 && i < len(width) {
 				line.WriteString(strings.Repeat(" ", width[i]-len([]rune(c))))
 			}
 		}

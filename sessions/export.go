@@ -604,7 +604,7 @@ func WriteNew(dir string, files []File) ([]string, error) {
 		}
 	}
 	fsys := osFS{}
-	if err := fsys.MkdirAll(dir); err != nil {
+	if err := os.MkdirAll(dir, 0o755); err != nil { // the user's folder: ordinary modes
 		return nil, fmt.Errorf("export: %w", err)
 	}
 	st := &Store{fs: fsys}

@@ -6,12 +6,16 @@ import (
 	"io"
 	"io/fs"
 	"os"
+	"path/filepath"
+	"syscall"
 )
 
 // fileSystem is every file operation the store performs. The store uses
 // osFS; tests wrap it to fail any chosen operation and check that a save
 // interrupted at any step loses nothing.
 type fileSystem interface {
+	// MkdirAll creates dir and its missing parents private to the owner
+	// (dirMode, whatever the umask).
 	MkdirAll(dir string) error
 	// CreateTemp creates a new file in dir with a unique name from pattern
 	// (as os.CreateTemp), opened for writing.
@@ -43,7 +47,39 @@ type tempFile interface {
 // osFS is the real file system.
 type osFS struct{}
 
-func (osFS) MkdirAll(dir string) error { return os.MkdirAll(dir, 0o755) }
+func (osFS) MkdirAll(dir string) error { return mkdirPrivate(dir) }
+
+// mkdirPrivate creates dir and every missing parent with mode dirMode,
+// set explicitly after each create so that no umask widens or narrows
+// it. Directories that exist are left as they are (tightenModes deals
+// with those). Another process creating the same directory at the same
+// time is not an error.
+func mkdirPrivate(dir string) error {
+	info, err := os.Stat(dir)
+	if err == nil {
+		if !info.IsDir() {
+			return &fs.PathError{Op: "mkdir", Path: dir, Err: syscall.ENOTDIR}
+		}
+		return nil
+	}
+	if !errors.Is(err, fs.ErrNotExist) {
+		return err
+	}
+	if parent := filepath.Dir(dir); parent != dir {
+		if err := mkdirPrivate(parent); err != nil {
+			return err
+		}
+	}
+	if err := os.Mkdir(dir, dirMode); err != nil {
+		if errors.Is(err, fs.ErrExist) {
+			if info, serr := os.Stat(dir); serr == nil && info.IsDir() {
+				return nil
+			}
+		}
+		return err
+	}
+	return os.Chmod(dir, dirMode)
+}
 
 func (osFS) CreateTemp(dir, pattern string) (tempFile, error) { return os.CreateTemp(dir, pattern) }
 

@@ -152,10 +152,7 @@ func OpenInbox(dataRoot, user string, lim InboxLimits) (*Inbox, error) {
 	if err != nil {
 		return nil, err
 	}
-	if err := os.MkdirAll(filepath.Dir(dir), 0o700); err != nil {
-		return nil, errors.New("the inbox folder cannot be created on the server; ask the administrator")
-	}
-	if err := os.Mkdir(dir, 0o700); err != nil && !errors.Is(err, fs.ErrExist) {
+	if err := mkdirPrivate(dir); err != nil {
 		return nil, errors.New("the inbox folder cannot be created on the server; ask the administrator")
 	}
 	fi, err := os.Lstat(dir)

@@ -27,7 +27,8 @@ func (e *NameError) Error() string {
 // ValidateName checks a session name (also used for editor names and IDs
 // inside a document). A valid name is 1 to 64 ASCII letters, digits, '-',
 // '_' or '.', does not start with '.' or '-', does not end with '.', and is
-// not a device name that some file systems reserve (con, nul, com1, ...).
+// not a device name that some file systems reserve (con, nul, com1, ...)
+// nor the name the store keeps for itself (UnnamedDraft).
 // Anything that could escape the store — "..", slashes, backslashes,
 // control characters, NUL, an absolute path, a drive letter — is refused
 // with a message saying which. No path is built from a name that has not
@@ -65,6 +66,9 @@ func ValidateName(name string) error {
 			return bad(fmt.Sprintf("contains %q", r))
 		}
 	}
+	if IsReservedName(name) {
+		return bad("is kept for the recovery drafts of unsaved junctions")
+	}
 	base, _, _ := strings.Cut(strings.ToLower(name), ".")
 	switch base {
 	case "con", "prn", "aux", "nul",
@@ -73,4 +77,13 @@ func ValidateName(name string) error {
 		return bad("is a device name that some file systems reserve")
 	}
 	return nil
+}
+
+// validateDraftSession checks the session name of a draft: a session
+// name, or UnnamedDraft.
+func validateDraftSession(name string) error {
+	if name == UnnamedDraft {
+		return nil
+	}
+	return ValidateName(name)
 }

@@ -63,9 +63,9 @@ func TestStoreRejectsBadNames(t *testing.T) {
 		_, checks["Trash"] = s.Trash(bad)
 		_, checks["Restore"] = s.Restore(bad)
 		_, checks["RestoreRevision"] = s.RestoreRevision(bad, 1)
-		checks["SaveDraft"] = s.SaveDraft(bad, "ed", 0, doc)
-		checks["SaveDraft editor"] = s.SaveDraft("ok", bad, 0, doc)
-		checks["DiscardDraft"] = s.DiscardDraft(bad, "ed")
+		checks["SaveDraft"] = s.SaveDraft(bad, DraftKey{Editor: "ed"}, 0, doc)
+		checks["SaveDraft editor"] = s.SaveDraft("ok", DraftKey{Editor: bad}, 0, doc)
+		checks["DiscardDraft"] = s.DiscardDraft(bad, DraftKey{Editor: "ed"})
 		_, checks["Import as"] = s.Import(mustEncode(t, doc), "x.json", bad+"/")
 		for op, err := range checks {
 			var ne *NameError

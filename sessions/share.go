@@ -93,7 +93,11 @@ func (s *Store) ReviewNotes(name string) ([]ReviewNote, []*DamagedError, error) 
 	var notes []ReviewNote
 	var damaged []*DamagedError
 	for _, e := range entries {
-		if e.IsDir() || !strings.HasSuffix(e.Name(), ".json") || strings.HasPrefix(e.Name(), ".") {
+		if strings.HasPrefix(e.Name(), ".") {
+			s.sweepTemp(dir, e)
+			continue
+		}
+		if e.IsDir() || !strings.HasSuffix(e.Name(), ".json") {
 			continue
 		}
 		path := filepath.Join(dir, e.Name())
@@ -206,7 +210,7 @@ func (s *Shares) Set(owner, name string, readers []string) error {
 		return err
 	}
 	dir := filepath.Dir(path)
-	if err := os.MkdirAll(dir, 0o755); err != nil {
+	if err := mkdirPrivate(dir); err != nil {
 		return err
 	}
 	f, err := os.CreateTemp(dir, ".tmp-*")

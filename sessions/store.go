@@ -47,6 +47,8 @@ type Store struct {
 	now  func() time.Time
 	tool string
 	user string
+	// notices say what opening the store changed (modes tightened).
+	notices []string
 }
 
 // Options configure a Store.
@@ -60,10 +62,21 @@ type Options struct {
 }
 
 // New returns the store rooted at root (made absolute). Directories are
-// created when the first session is saved.
+// created when the first session is saved, private to the owner. A store
+// that other accounts can read (one written by an older junco) is made
+// private here; Notices says so.
 func New(root string, o Options) (*Store, error) {
-	return newStore(root, o, osFS{})
+	s, err := newStore(root, o, osFS{})
+	if err != nil {
+		return nil, err
+	}
+	s.notices = tightenNotices(s.root)
+	return s, nil
 }
+
+// Notices returns what opening the store changed or could not change,
+// one sentence each, for the user or a server's log.
+func (s *Store) Notices() []string { return s.notices }
 
 func newStore(root string, o Options, fsys fileSystem) (*Store, error) {
 	if strings.TrimSpace(root) == "" {
@@ -184,6 +197,9 @@ type Revision struct {
 	Path    string
 	Size    int64
 	Meta    Meta
+	// Skipped are the newer revisions that could not be read when the
+	// newest readable one was asked for (Open with revision 0).
+	Skipped []*DamagedError
 }
 
 // revisions lists the revision numbers of a session directory, ascending,
@@ -203,7 +219,8 @@ func (s *Store) revisions(name string) ([]int, []*DamagedError, error) {
 	for _, e := range ents {
 		n := e.Name()
 		if strings.HasPrefix(n, ".") {
-			continue // revisions being written, editor backups
+			s.sweepTemp(dir, e) // revisions being written, editor backups
+			continue
 		}
 		r, ok := parseRevFile(n)
 		if !ok || e.IsDir() {
@@ -289,11 +306,17 @@ func (s *Store) Save(name string, doc *Document, base int) (Revision, error) {
 	case len(revs) > 0:
 		latest = revs[len(revs)-1]
 	}
+	next := base + 1
 	if latest != base {
 		if latest < base {
 			return Revision{}, &NotFoundError{Session: name, Revision: base}
 		}
-		return Revision{}, &StaleError{Session: name, Base: base, Latest: latest}
+		if base == 0 || !s.allDamaged(name, revs, base) {
+			return Revision{}, &StaleError{Session: name, Base: base, Latest: latest}
+		}
+		// Every revision after base is unreadable: base is the newest
+		// one can work from, and the next free number is taken.
+		next = latest + 1
 	}
 	if base == 0 {
 		if err := s.checkCase(name); err != nil {
@@ -303,7 +326,7 @@ func (s *Store) Save(name string, doc *Document, base int) (Revision, error) {
 			return Revision{}, err
 		}
 	}
-	return s.claim(name, data, meta, base+1, false)
+	return s.claim(name, data, meta, next, false)
 }
 
 // SaveNext stores doc as the next free revision of an existing session,
@@ -359,10 +382,14 @@ func (s *Store) checkCase(name string) error {
 	return nil
 }
 
-// Modes of the files the store writes: revisions are read-only (they
-// never change), drafts private to the user, exports ordinary files.
+// Modes of what the store writes, whatever the umask: every directory
+// and file of a store is private to its owner, so that other accounts of
+// a shared host read no session; revisions and review notes are also
+// read-only (they never change), drafts are replaced. Exports go where
+// the user asks and are ordinary files.
 const (
-	revisionMode fs.FileMode = 0o444
+	dirMode      fs.FileMode = 0o700
+	revisionMode fs.FileMode = 0o400
 	draftMode    fs.FileMode = 0o600
 	exportMode   fs.FileMode = 0o644
 )
@@ -419,7 +446,7 @@ func (s *Store) claim(name string, data []byte, meta Meta, n int, next bool) (Re
 				if lerr != nil || latest < n {
 					latest = n
 				}
-				return Revision{}, &StaleError{Session: name, Base: n - 1, Latest: latest}
+				return Revision{}, &StaleError{Session: name, Base: meta.BasedOn, Latest: latest}
 			}
 			if tries < maxClaimTries {
 				n++
@@ -454,15 +481,13 @@ func (s *Store) Open(name string, rev int) (*Document, Revision, error) {
 		return nil, Revision{}, fmt.Errorf("session %q: revision %d: allowed 1 or more (0 for the newest)", name, rev)
 	}
 	if rev == 0 {
-		latest, err := s.Latest(name)
-		if err != nil {
-			return nil, Revision{}, err
-		}
-		if latest == 0 {
-			return nil, Revision{}, &NotFoundError{Session: name}
-		}
-		rev = latest
+		return s.openNewest(name)
 	}
+	return s.openRevision(name, rev)
+}
+
+// openRevision reads revision rev (1 or more) of session name.
+func (s *Store) openRevision(name string, rev int) (*Document, Revision, error) {
 	path := filepath.Join(s.sessionDir(name), revFile(rev))
 	doc, size, err := s.readDocument(path)
 	if err != nil {
@@ -585,18 +610,24 @@ func asDamaged(path string, err error) *DamagedError {
 	return &DamagedError{Path: path, Err: err}
 }
 
-// Summary is one session in a listing: its newest revision and how many
-// there are.
+// Summary is one session in a listing: its newest readable revision and
+// how many there are.
 type Summary struct {
 	Name      string
 	Revisions int
-	Latest    Revision
+	// Latest is the newest revision whose header reads (Number 0 when
+	// none does).
+	Latest Revision
+	// Damaged are the revisions newer than Latest that cannot be read,
+	// newest first: a session with any is damaged, and shown so.
+	Damaged []*DamagedError
 }
 
-// List returns every session whose newest revision's header reads, sorted
-// by name, and a problem for every entry that does not: an unreadable
-// file, a directory with an invalid name, a stray file. Problems never
-// hide the good sessions. Only the header of each newest revision is read.
+// List returns every session, sorted by name, with its newest readable
+// revision, and a problem for every entry that cannot be read: an
+// unreadable revision (also in its session's Damaged), a directory with an
+// invalid name, a stray file. Problems never hide a session. Only
+// revision headers are read, from the newest down to the first that reads.
 func (s *Store) List() ([]Summary, []*DamagedError, error) {
 	top := filepath.Join(s.root, sessionsDir)
 	ents, err := s.fs.ReadDir(top)
@@ -631,15 +662,19 @@ func (s *Store) List() ([]Summary, []*DamagedError, error) {
 		if len(revs) == 0 {
 			continue // created, first revision never completed
 		}
-		n := revs[len(revs)-1]
-		rpath := filepath.Join(path, revFile(n))
-		meta, size, err := s.readHeader(rpath)
-		if err != nil {
-			probs = append(probs, asDamaged(rpath, err))
-			continue
+		sum := Summary{Name: name, Revisions: len(revs)}
+		for i := len(revs) - 1; i >= 0; i-- {
+			rpath := filepath.Join(path, revFile(revs[i]))
+			meta, size, err := s.readHeader(rpath)
+			if err != nil {
+				sum.Damaged = append(sum.Damaged, asDamaged(rpath, err))
+				continue
+			}
+			sum.Latest = Revision{Session: name, Number: revs[i], Path: rpath, Size: size, Meta: meta}
+			break
 		}
-		out = append(out, Summary{Name: name, Revisions: len(revs),
-			Latest: Revision{Session: name, Number: n, Path: rpath, Size: size, Meta: meta}})
+		probs = append(probs, sum.Damaged...)
+		out = append(out, sum)
 	}
 	slices.SortFunc(out, func(a, b Summary) int { return strings.Compare(a.Name, b.Name) })
 	return out, probs, nil

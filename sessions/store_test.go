@@ -87,11 +87,6 @@ func TestSaveOpenHistory(t *testing.T) {
 	}
 }
 
-func isNotFound(err error) bool {
-	var nf *NotFoundError
-	return errors.As(err, &nf)
-}
-
 func TestStaleSave(t *testing.T) {
 	s := newTestStore(t)
 	doc := exampleDocument()
@@ -276,14 +271,14 @@ func TestImport(t *testing.T) {
 func TestDrafts(t *testing.T) {
 	s := newTestStore(t)
 	doc := exampleDocument()
-	if err := s.SaveDraft("d7", "alice", 0, doc); err != nil {
+	if err := s.SaveDraft("d7", DraftKey{Editor: "alice"}, 0, doc); err != nil {
 		t.Fatal(err)
 	}
 	doc.Notes = append(doc.Notes, "typed since")
-	if err := s.SaveDraft("d7", "alice", 0, doc); err != nil {
+	if err := s.SaveDraft("d7", DraftKey{Editor: "alice"}, 0, doc); err != nil {
 		t.Fatal(err)
 	}
-	if err := s.SaveDraft("d7", "bob", 2, exampleDocument()); err != nil {
+	if err := s.SaveDraft("d7", DraftKey{Editor: "bob"}, 2, exampleDocument()); err != nil {
 		t.Fatal(err)
 	}
 	ds, probs, err := s.Drafts()
@@ -305,10 +300,10 @@ func TestDrafts(t *testing.T) {
 	if len(ds) != 1 || len(probs) != 1 || !strings.Contains(probs[0].Error(), "bob.json") {
 		t.Errorf("damaged draft: %v / %v", ds, probs)
 	}
-	if err := s.DiscardDraft("d7", "alice"); err != nil {
+	if err := s.DiscardDraft("d7", DraftKey{Editor: "alice"}); err != nil {
 		t.Fatal(err)
 	}
-	if err := s.DiscardDraft("d7", "alice"); err != nil {
+	if err := s.DiscardDraft("d7", DraftKey{Editor: "alice"}); err != nil {
 		t.Errorf("discarding twice: %v", err)
 	}
 	ds, _, _ = s.Drafts()
@@ -364,14 +359,24 @@ func TestDamagedFiles(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var names []string
+	var names, damaged []string
 	for _, l := range list {
 		names = append(names, l.Name)
+		if len(l.Damaged) > 0 {
+			damaged = append(damaged, l.Name)
+			if l.Latest.Number != 0 || l.Damaged[0].Path != rev1(l.Name) {
+				t.Errorf("%s: newest readable revision %d, damaged %v; want none and revision 1", l.Name, l.Latest.Number, l.Damaged)
+			}
+		}
 	}
-	// The header of "truncated" and "badspec" reads (listing reads only the
-	// header); opening them reports the damage.
-	if want := []string{"badspec", "good", "middle", "truncated"}; !reflect.DeepEqual(names, want) {
+	// Damaged sessions are listed, marked. The header of "truncated" and
+	// "badspec" reads (listing reads only the header); opening them
+	// reports the damage.
+	if want := []string{"badspec", "empty", "garbage", "good", "middle", "newer", "truncated"}; !reflect.DeepEqual(names, want) {
 		t.Errorf("listed %q, want %q", names, want)
+	}
+	if want := []string{"empty", "garbage", "newer"}; !reflect.DeepEqual(damaged, want) {
+		t.Errorf("marked damaged %q, want %q", damaged, want)
 	}
 	joined := ""
 	for _, p := range probs {
@@ -466,7 +471,7 @@ func TestListHeaders(t *testing.T) {
 	os.Chmod(p, 0o644)
 	os.WriteFile(p, bytes.Replace(b, []byte("p+n test diode D7"), []byte(`p+n \u001b[31mred`), 1), 0o644)
 	list, probs, _ = s.List()
-	if len(list) != 1 || len(probs) != 1 || !strings.Contains(probs[0].Error(), "control character") {
+	if len(list) != 2 || len(list[1].Damaged) != 1 || list[1].Latest.Meta.Title != "" || len(probs) != 1 || !strings.Contains(probs[0].Error(), "control character") {
 		t.Errorf("escape in a title: %+v %v", list, probs)
 	}
 }

@@ -1,16 +1,12 @@
 package sessions
 
-import (
-	"errors"
-	"fmt"
-	"io/fs"
-	"strings"
-)
+import "strings"
 
 // UnnamedDraft is the session name under which the workbench keeps the
 // crash-recovery draft of a junction that has no session name yet (the
-// demo, or a file opened but not saved). Workbenches refuse it as the name
-// of a session, so that the draft of a named session never lands on it.
+// demo, or a file opened but not saved). ValidateName refuses it as the
+// name of a session, so that the draft of a named session never lands on
+// it.
 const UnnamedDraft = "_unsaved"
 
 // IsReservedName reports whether name is kept for the store's own use
@@ -48,38 +44,4 @@ func EditorID(user string) string {
 		return "unknown"
 	}
 	return id
-}
-
-// DraftOf returns the draft of session name by editor, or nil and no
-// error when there is none. A draft file that cannot be read gives a
-// *DamagedError naming it; the file is left as it is.
-func (s *Store) DraftOf(name, editor string) (*Draft, error) {
-	if err := ValidateName(name); err != nil {
-		return nil, err
-	}
-	if err := ValidateName(editor); err != nil {
-		return nil, fmt.Errorf("editor: %w", err)
-	}
-	path := s.draftPath(name, editor)
-	d, err := s.readDraft(path)
-	if err != nil {
-		if errors.Is(err, fs.ErrNotExist) {
-			return nil, nil
-		}
-		return nil, err
-	}
-	if d.Session != name || d.Editor != editor {
-		return nil, &DamagedError{Path: path, Err: fmt.Errorf("names session %q by %q, but is stored as %q by %q", d.Session, d.Editor, name, editor)}
-	}
-	return d, nil
-}
-
-// HasDraft reports whether a draft of session name by editor exists
-// (without reading it).
-func (s *Store) HasDraft(name, editor string) bool {
-	if ValidateName(name) != nil || ValidateName(editor) != nil {
-		return false
-	}
-	_, err := s.fs.Stat(s.draftPath(name, editor))
-	return err == nil
 }

@@ -382,6 +382,9 @@ func (m Model) openStored(name string, rev int, back screen) (tea.Model, tea.Cmd
 	if m.note == "" {
 		m.note = fmt.Sprintf("opened %s, revision %d", name, r.Number)
 	}
+	if len(r.Skipped) > 0 {
+		m.note += fmt.Sprintf(" (the newest readable; unreadable newer revisions: %d, left untouched; saving takes the next free number)", len(r.Skipped))
+	}
 	m.offerDraft()
 	return m, cmd
 }
@@ -452,10 +455,17 @@ func (m Model) browseScreen(w, h int) []string {
 	list := make([]string, 0, len(shown))
 	for i, s := range shown {
 		title := s.Latest.Meta.Title
+		switch {
+		case len(s.Damaged) > 0 && s.Latest.Number == 0:
+			title = "(damaged: no revision can be read) " + title
+		case len(s.Damaged) > 0:
+			title = fmt.Sprintf("(damaged: newest readable is revision %d) %s", s.Latest.Number, title)
+		}
 		if b.drafts[s.Name] {
 			title = "(your draft) " + title
 		}
-		l := row(s.Name, strconv.Itoa(s.Revisions), stamp(s.Latest.Meta.Modified), dashed(s.Latest.Meta.SavedBy), title)
+		echo := func(t string) string { return sessions.Printable(t, sessions.MaxEchoRunes, g.ellipsis) }
+		l := row(echo(s.Name), strconv.Itoa(s.Revisions), stamp(s.Latest.Meta.Modified), dashed(echo(s.Latest.Meta.SavedBy)), echo(title))
 		if i == b.sel {
 			list = append(list, st.accent.Paint(g.cursor)+" "+st.selected.Paint(l))
 		} else {

@@ -79,10 +79,14 @@ type confirmState struct {
 	back  screen
 }
 
-// draftOffer is a recovery draft found at start or on opening a session.
+// draftOffer is the recovery drafts found at start or on opening a
+// session: the one shown, and those still to offer (one per connection
+// that stopped with unsaved changes).
 type draftOffer struct {
 	draft   *sessions.Draft
 	changes []sessions.Change
+	queue   []*sessions.Draft
+	shown   int // drafts shown so far, this one included
 }
 
 // ---------------------------------------------------------------- opening
@@ -407,13 +411,14 @@ func (m Model) draftKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		cmd := m.restoreDraft()
 		return m, cmd
 	case keyIs(km, k.DraftDiscard):
-		m.offer = draftOffer{}
-		m.screen = screenMain
-		if err := m.sess.store.DiscardDraft(m.draftName(), m.sess.editor); err != nil {
-			m.note = "the draft could not be removed: " + err.Error()
-		} else {
-			m.note = "draft discarded"
+		if d := m.offer.draft; d != nil {
+			if err := m.sess.store.DiscardDraft(m.draftName(), d.Key()); err != nil {
+				m.note = "the draft could not be removed: " + err.Error()
+			} else {
+				m.note = "draft discarded"
+			}
 		}
+		m.nextOffer()
 	case keyIs(km, k.DraftLater), km.String() == "ctrl+c":
 		return m, tea.Quit
 	}
@@ -553,6 +558,9 @@ func (m Model) draftScreen(w, h int) []string {
 		}
 	}
 	body = append(body, wrapped(fmt.Sprintf("The workbench stopped with unsaved changes to %s. A recovery draft of them was kept on %s.", what, stamp(d.Saved)), bw, st.text, "")...)
+	if total := m.offer.shown + len(m.offer.queue); total > 1 {
+		body = append(body, wrapped(fmt.Sprintf("Draft %d of %d: each connection that stopped with unsaved changes kept its own; discard this one to see the next.", m.offer.shown, total), bw, st.muted, "")...)
+	}
 	body = append(body, "", st.strong.Paint("The draft against what is open now ("+plural(len(m.offer.changes), "change", "changes")+")"))
 	room := max(h-len(body)-7, 3)
 	rows := m.changeLines(m.offer.changes, bw)

@@ -62,7 +62,11 @@ type session struct {
 	noStore string // why store is nil
 	user    string // author of saves and notes
 	editor  string // user as a draft editor name
-	now     func() time.Time
+	conn    string // this workbench run, for its drafts (sessions.NewConnID)
+	// restored is whose draft was restored into the edits in force: it is
+	// removed with this workbench's own draft after a save.
+	restored *sessions.DraftKey
+	now      func() time.Time
 	// files is where measurements are read (nil: the local file system);
 	// filesNote says where, for the import and batch screens.
 	files     model.Files
@@ -318,9 +322,20 @@ func (m *Model) applyExtras(doc *sessions.Document) {
 	}
 }
 
-// pushNotes hands the notes to the results sheet.
+// pushNotes hands the notes to the results sheet, made printable
+// (sessions.Printable): a note from a file or a reviewer cannot reach the
+// terminal with a control sequence.
 func (m *Model) pushNotes() {
-	m.sheet.setNotes(m.sess.notes, m.sess.reviews)
+	notes := make([]string, len(m.sess.notes))
+	for i, n := range m.sess.notes {
+		notes[i] = sessions.Printable(n, 0, "")
+	}
+	reviews := slices.Clone(m.sess.reviews)
+	for i := range reviews {
+		reviews[i].Author = sessions.Printable(reviews[i].Author, 0, "")
+		reviews[i].Text = sessions.Printable(reviews[i].Text, 0, "")
+	}
+	m.sheet.setNotes(notes, reviews)
 }
 
 // openDocument puts a stored (or imported) document in force in place of
@@ -344,6 +359,24 @@ func (m *Model) openDocument(doc *sessions.Document, name string, rev int, readO
 
 // draftable reports whether drafts are written.
 func (m Model) draftable() bool { return m.sess.store != nil && !m.sess.readOnly }
+
+// draftKey is whose drafts this workbench writes: its user on its
+// connection.
+func (m Model) draftID() sessions.DraftKey {
+	return sessions.DraftKey{Editor: m.sess.editor, Conn: m.sess.conn}
+}
+
+// dropDrafts removes this workbench's draft of session name and the one
+// it restored from, if any.
+func (m *Model) dropDrafts(name string) error {
+	err := m.sess.store.DiscardDraft(name, m.draftID())
+	if r := m.sess.restored; r != nil {
+		if rerr := m.sess.store.DiscardDraft(name, *r); err == nil {
+			err = rerr
+		}
+	}
+	return err
+}
 
 // draftName is the session name the draft is kept under.
 func (m Model) draftName() string {
@@ -387,9 +420,9 @@ func (m *Model) writeDraft() tea.Cmd {
 		return func() tea.Msg { return draftWrittenMsg{name: name, err: err} }
 	}
 	m.sess.draftKey = m.editKey()
-	st, editor, base := m.sess.store, m.sess.editor, m.sess.rev
+	st, key, base := m.sess.store, m.draftID(), m.sess.rev
 	return func() tea.Msg {
-		return draftWrittenMsg{name: name, err: st.SaveDraft(name, editor, base, doc)}
+		return draftWrittenMsg{name: name, err: st.SaveDraft(name, key, base, doc)}
 	}
 }
 
@@ -402,7 +435,7 @@ func (m *Model) draftWritten(msg draftWrittenMsg) {
 	}
 	if !m.Dirty() || msg.name != m.draftName() {
 		// Saved (or another session opened) while the draft was written.
-		_ = m.sess.store.DiscardDraft(msg.name, m.sess.editor)
+		_ = m.sess.store.DiscardDraft(msg.name, m.draftID())
 	}
 }
 
@@ -410,53 +443,76 @@ func (m *Model) draftWritten(msg draftWrittenMsg) {
 func (m Model) shutdown() (tea.Model, tea.Cmd) {
 	if m.draftable() && m.Dirty() {
 		if doc, err := m.document(m.title()); err == nil {
-			_ = m.sess.store.SaveDraft(m.draftName(), m.sess.editor, m.sess.rev, doc)
+			_ = m.sess.store.SaveDraft(m.draftName(), m.draftID(), m.sess.rev, doc)
 		}
 	}
 	return m, tea.Quit
 }
 
-// discardDraft removes the draft of the session in force.
+// discardDraft removes the draft of the session in force (and the one
+// restored into it).
 func (m *Model) discardDraft() {
 	if m.draftable() {
-		if err := m.sess.store.DiscardDraft(m.draftName(), m.sess.editor); err != nil {
+		if err := m.dropDrafts(m.draftName()); err != nil {
 			m.note = "the recovery draft could not be removed: " + err.Error()
 		}
 	}
+	m.sess.restored = nil
 	m.sess.draftKey = m.editKey()
 }
 
-// offerDraft looks for a draft of the session in force and, when there
-// is one that differs from what is open, shows the offer.
+// offerDraft looks for the drafts of the session in force by this user,
+// from any connection, and shows the offer of the newest that differs
+// from what is open; the others follow when it is discarded. Drafts equal
+// to what is open are removed.
 func (m *Model) offerDraft() {
 	if !m.draftable() {
 		return
 	}
-	d, err := m.sess.store.DraftOf(m.draftName(), m.sess.editor)
+	ds, probs, err := m.sess.store.DraftsOf(m.draftName(), m.sess.editor)
+	if err == nil && len(probs) > 0 {
+		err = probs[0]
+	}
 	if err != nil {
 		m.note = "a recovery draft could not be read (it was left as it is): " + err.Error()
-		return
 	}
-	if d == nil {
-		return
+	var queue []*sessions.Draft
+	for i := range ds {
+		queue = append(queue, &ds[i])
 	}
+	m.offer = draftOffer{queue: queue}
+	m.nextOffer()
+}
+
+// nextOffer shows the first draft of the queue that differs from what is
+// open, or returns to the workbench when none is left.
+func (m *Model) nextOffer() {
 	cur, err := m.document(m.title())
-	if err != nil {
+	for err == nil && len(m.offer.queue) > 0 {
+		d := m.offer.queue[0]
+		m.offer.queue = m.offer.queue[1:]
+		changes := sessions.Diff(cur, d.Document, m.e.ascii)
+		if len(changes) == 0 {
+			_ = m.sess.store.DiscardDraft(m.draftName(), d.Key())
+			continue
+		}
+		m.offer.draft, m.offer.changes = d, changes
+		m.offer.shown++
+		m.screen = screenDraft
 		return
 	}
-	changes := sessions.Diff(cur, d.Document, m.e.ascii)
-	if len(changes) == 0 {
-		_ = m.sess.store.DiscardDraft(m.draftName(), m.sess.editor)
-		return
+	m.offer = draftOffer{}
+	if m.screen == screenDraft {
+		m.screen = screenMain
 	}
-	m.offer = draftOffer{draft: d, changes: changes}
-	m.screen = screenDraft
 }
 
 // restoreDraft puts the offered draft in force as unsaved changes to the
-// revision it started from.
+// revision it started from. Other drafts of the offer stay where they are
+// and are offered at the next opening.
 func (m *Model) restoreDraft() tea.Cmd {
 	d := m.offer.draft
+	left := len(m.offer.queue)
 	m.offer = draftOffer{}
 	m.screen = screenMain
 	if d == nil {
@@ -473,11 +529,17 @@ func (m *Model) restoreDraft() tea.Cmd {
 	m.sess.base = base
 	m.sess.base.sweeps = d.Document.Sweeps
 	m.sess.draftKey = m.editKey()
+	if k := d.Key(); k != m.draftID() {
+		m.sess.restored = &k
+	}
 	m.note = "draft of " + stamp(d.Saved) + " restored: its changes are not saved yet"
 	if name != "" && d.Base > 0 {
 		if latest, err := m.sess.store.Latest(name); err == nil && latest > d.Base {
 			m.note += fmt.Sprintf("; it started from revision %d and the session now has revision %d", d.Base, latest)
 		}
+	}
+	if left > 0 {
+		m.note += "; " + plural(left, "other draft", "other drafts") + " of this session from other connections are kept and offered at the next opening"
 	}
 	return cmd
 }
@@ -559,10 +621,11 @@ func (m *Model) save(req saveRequest, next bool) error {
 	m.pushNotes()
 	m.setBaseline()
 	if m.draftable() {
-		_ = st.DiscardDraft(oldDraft, m.sess.editor)
+		_ = m.dropDrafts(oldDraft)
 		if oldDraft != req.name {
-			_ = st.DiscardDraft(req.name, m.sess.editor)
+			_ = st.DiscardDraft(req.name, m.draftID())
 		}
+		m.sess.restored = nil
 	}
 	m.note = fmt.Sprintf("saved as session %s, revision %d", req.name, rev.Number)
 	if bad := m.form.bad(); len(bad) > 0 {
@@ -578,16 +641,9 @@ func (m *Model) save(req saveRequest, next bool) error {
 	return nil
 }
 
-// checkNewName checks the name of a new session.
-func checkNewName(name string) error {
-	if err := sessions.ValidateName(name); err != nil {
-		return err
-	}
-	if sessions.IsReservedName(name) {
-		return &sessions.NameError{Name: name, Why: "is kept for the recovery drafts of unsaved junctions"}
-	}
-	return nil
-}
+// checkNewName checks the name of a new session (sessions.ValidateName
+// also refuses the reserved ones).
+func checkNewName(name string) error { return sessions.ValidateName(name) }
 
 // addReview adds a review note through the review service.
 func (m *Model) addReview(text string) error {

@@ -357,18 +357,18 @@ func TestBrowserFiltersAndShowsDamagedEntries(t *testing.T) {
 	}
 	m := start(New(opts(st, "alice", 120, 40)))
 	m = press(m, "ctrl+o")
-	wantIn(t, m, "Sessions", "3 sessions, 1 entry cannot be read", "d7-lot417", "d9-lot420", "hot-bench",
+	wantIn(t, m, "Sessions", "4 sessions, 1 entry cannot be read", "d7-lot417", "d9-lot420", "hot-bench", "broken", "(damaged: no revision can be read)",
 		"Cannot be read", "sessions/broken/rev-000001.json")
 	if strings.Contains(plain(m), st.Root()) {
 		t.Error("the browser shows the store's full path")
 	}
 	m = typeText(m, "lot")
-	wantIn(t, m, "2 of 3 sessions", "d7-lot417", "d9-lot420")
+	wantIn(t, m, "2 of 4 sessions", "d7-lot417", "d9-lot420")
 	if strings.Contains(plain(m), "hot-bench") {
 		t.Error("the filter lets hot-bench through")
 	}
 	m = typeText(m, " 420")
-	wantIn(t, m, "1 of 3 sessions")
+	wantIn(t, m, "1 of 4 sessions")
 	m = press(m, "ctrl+u")
 	m = typeText(m, "nothing-like-it")
 	wantIn(t, m, "no session matches the filter")
@@ -383,7 +383,7 @@ func TestBrowserFiltersAndShowsDamagedEntries(t *testing.T) {
 	wantIn(t, m, "opened hot-bench, revision 1")
 	// With unsaved changes, opening asks first; n keeps them.
 	m = editField(m, "5", 0, "360")
-	m = press(m, "enter", "ctrl+o", "down", "enter")
+	m = press(m, "enter", "ctrl+o", "down", "down", "enter")
 	wantIn(t, m, "Open the newest revision of d9-lot420?", "drops them")
 	m = press(m, "n")
 	if m.screen != screenBrowse || m.sess.name != "hot-bench" || m.Spec().Temperature != 360 {

@@ -319,6 +319,7 @@ func newSession(o Options) session {
 	if s.now == nil {
 		s.now = time.Now
 	}
+	s.conn = sessions.NewConnID(s.now())
 	if s.draftEvery <= 0 {
 		s.draftEvery = defaultDraftEvery
 	}

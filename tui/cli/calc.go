@@ -11,6 +11,7 @@ import (
 
 	"junco/model"
 	"junco/physics"
+	"junco/sessions"
 )
 
 // calcOptions holds the inputs of `junco calc`.
@@ -129,6 +130,16 @@ func runCalc(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "junco calc: %v\n", err)
 		return exitUsage
 	}
+	if sess.Save != "" {
+		if err := sessions.ValidateName(sess.Save); err != nil {
+			fmt.Fprintf(stderr, "junco calc: --save: %v\n", err)
+			return exitUsage
+		}
+	}
+	if sess.Next && sess.Save == "" {
+		fmt.Fprintln(stderr, "junco calc: --next-revision needs --save NAME")
+		return exitUsage
+	}
 	if sess.Session != "" {
 		spec, err := loadSpecForCalc(sess.DataDir, sess.Session)
 		if err != nil {
@@ -142,6 +153,7 @@ func runCalc(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintln(stderr, calcHelp)
 		fmt.Fprintln(stderr, "  -session NAME|FILE\n    \tstart from a stored session or a session file (flags override its values)")
 		fmt.Fprintln(stderr, "  -save NAME\n    \tstore the evaluated junction as a new session, or as the next revision of NAME")
+		fmt.Fprintln(stderr, "  -next-revision\n    \twith --save: when another save of NAME came first, save again on top of it\n    \t(retrying), so that scripts saving at the same time lose nothing and fail\n    \tnothing. Never automatic: without it such a save stores nothing and exits 1")
 		fmt.Fprintln(stderr, "  -data DIR\n    \tsession store (default $XDG_DATA_HOME/junco, else ~/.local/share/junco)")
 		fmt.Fprintln(stderr, "  -author NAME\n    \twho saves (default $USER)")
 		fs.PrintDefaults()
@@ -185,9 +197,14 @@ func runCalc(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		if author == "" {
 			author = currentUser()
 		}
-		rev, err := saveSpecFromCalc(sess.DataDir, sess.Save, o.spec, author)
+		rev, err := saveSpecFromCalc(sess.DataDir, sess.Save, o.spec, author, sess.Next, stderr)
+		var se *sessions.StaleError
+		if errors.As(err, &se) {
+			fmt.Fprintf(stderr, "junco calc: --save %s: another save of the session came first (revision %d); nothing was saved: run again, or add --next-revision to save on top of whatever is newest\n", sess.Save, se.Latest)
+			return exitFailure
+		}
 		if err != nil {
-			fmt.Fprintf(stderr, "junco calc: --save %s: %v\n", sess.Save, err)
+			fmt.Fprintf(stderr, "junco calc: --save %s: %s\n", sess.Save, sessions.Printable(err.Error(), 0, ""))
 			return exitFailure
 		}
 		fmt.Fprintf(stderr, "junco calc: saved as revision %d of session %q\n", rev, sess.Save)

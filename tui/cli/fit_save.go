@@ -208,13 +208,13 @@ type fitSaveResult struct {
 }
 
 // fitSaveToSession stores the items as the next revision of session name
-// in the store at dataDir (default location when empty): the newest
-// revision is opened, the items appended and the document saved with that
-// revision as its base. When another save came first (a stale base), it
-// starts once more from the new newest revision. A session that does not
-// exist is created with the default junction. Either the whole revision
-// is stored or nothing.
-func fitSaveToSession(dataDir, name string, items []fitSaveItem, now time.Time) (fitSaveResult, error) {
+// in the store at dataDir (default location when empty): the items are
+// appended to the newest readable revision and saved on top of it; when
+// another save came first, they are appended again to the new newest
+// revision (sessions.Store.Update, the one save-with-retry of every front
+// end). A session that does not exist is created with the default
+// junction. Either the whole revision is stored or nothing.
+func fitSaveToSession(dataDir, name string, items []fitSaveItem, now time.Time, stderr io.Writer) (fitSaveResult, error) {
 	if err := sessions.ValidateName(name); err != nil {
 		return fitSaveResult{}, err
 	}
@@ -222,43 +222,23 @@ func fitSaveToSession(dataDir, name string, items []fitSaveItem, now time.Time) 
 		return fitSaveResult{}, errors.New("no successful fit to store")
 	}
 	author := currentUser()
-	st, err := openStore(dataDir, author)
+	st, err := openStore(dataDir, author, stderr)
 	if err != nil {
 		return fitSaveResult{}, err
 	}
-	var lastErr error
-	for attempt := 0; attempt < 2; attempt++ {
-		latest, err := st.Latest(name)
-		var nf *sessions.NotFoundError
-		if errors.As(err, &nf) {
-			latest, err = 0, nil
-		}
-		if err != nil {
-			return fitSaveResult{}, err
-		}
-		var doc *sessions.Document
-		if latest == 0 {
+	var res fitSaveResult
+	r, err := st.Update(name, func(doc *sessions.Document, rev int) (*sessions.Document, error) {
+		if doc == nil {
 			doc = sessions.NewDocument(name, author, model.DefaultSpec(), now)
-		} else {
-			d, rev, err := st.Open(name, latest)
-			if err != nil {
-				return fitSaveResult{}, err
-			}
-			doc, latest = d, rev.Number
 		}
-		ids := fitAppendItems(doc, items)
-		r, err := st.Save(name, doc, latest)
-		var stale *sessions.StaleError
-		if errors.As(err, &stale) {
-			lastErr = err
-			continue
-		}
-		if err != nil {
-			return fitSaveResult{}, err
-		}
-		return fitSaveResult{Revision: r.Number, Created: latest == 0, Measurements: ids}, nil
+		res = fitSaveResult{Created: rev == 0, Measurements: fitAppendItems(doc, items)}
+		return doc, nil
+	})
+	if err != nil {
+		return fitSaveResult{}, err
 	}
-	return fitSaveResult{}, fmt.Errorf("%w (tried twice; another save keeps coming first)", lastErr)
+	res.Revision = r.Number
+	return res, nil
 }
 
 // fitSaveReport runs fitSaveToSession for a fit subcommand and reports on
@@ -268,7 +248,7 @@ func fitSaveReport(cmd, dataDir, name string, items []fitSaveItem, stderr io.Wri
 		fmt.Fprintf(stderr, "junco fit %s: --save-to %s: no fit succeeded; nothing saved\n", cmd, name)
 		return exitFailure
 	}
-	res, err := fitSaveToSession(dataDir, name, items, time.Now())
+	res, err := fitSaveToSession(dataDir, name, items, time.Now(), stderr)
 	if err != nil {
 		fmt.Fprintf(stderr, "junco fit %s: --save-to %s: %v; nothing saved\n", cmd, name, err)
 		return exitFailure

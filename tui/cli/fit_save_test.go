@@ -1,6 +1,7 @@
 package cli
 
 import (
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -152,7 +153,7 @@ func TestFitSaveToSessionAppends(t *testing.T) {
 	now := time.Now()
 	items := []fitSaveItem{fitIVSaveItem(r, now)}
 	for want := 1; want <= 2; want++ {
-		res, err := fitSaveToSession(store, "s", items, now)
+		res, err := fitSaveToSession(store, "s", items, now, io.Discard)
 		if err != nil || res.Revision != want || res.Created != (want == 1) {
 			t.Fatalf("save %d: %+v, %v", want, res, err)
 		}

@@ -163,6 +163,15 @@ type serveApp struct {
 }
 
 func newServeApp(data string, log *slog.Logger) (*serveApp, error) {
+	// The data folder is private to the server's account; one left
+	// readable by an older junco is tightened, and the log says so.
+	notices, err := sessions.PrepareDataRoot(data)
+	if err != nil {
+		return nil, err
+	}
+	for _, n := range notices {
+		log.Warn("data folder permissions", "change", n)
+	}
 	sh, err := sessions.NewShares(data, nil)
 	if err != nil {
 		return nil, err

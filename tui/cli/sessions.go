@@ -90,8 +90,10 @@ func parseInterleaved(fs *flag.FlagSet, args []string) ([]string, error) {
 	}
 }
 
-// openStore opens the store at dir, or at the default location.
-func openStore(dir, user string) (*sessions.Store, error) {
+// openStore opens the store at dir, or at the default location, and
+// tells on stderr what opening it changed (a store other accounts could
+// read is made private).
+func openStore(dir, user string, stderr io.Writer) (*sessions.Store, error) {
 	if dir == "" {
 		d, err := sessions.DefaultRoot(os.Getenv)
 		if err != nil {
@@ -99,7 +101,24 @@ func openStore(dir, user string) (*sessions.Store, error) {
 		}
 		dir = d
 	}
-	return sessions.New(dir, sessions.Options{ToolVersion: Version, User: user})
+	st, err := sessions.New(dir, sessions.Options{ToolVersion: Version, User: user})
+	if err != nil {
+		return nil, err
+	}
+	for _, n := range st.Notices() {
+		fmt.Fprintf(stderr, "junco: note: %s\n", storeText(st, n))
+	}
+	return st, nil
+}
+
+// storeText makes a message about the store fit to echo: paths in it are
+// written relative to the store (over SSH the store's place is the
+// server's business, not the user's), and it is made printable.
+func storeText(st *sessions.Store, msg string) string {
+	root := st.Root()
+	msg = strings.ReplaceAll(msg, root+string(filepath.Separator), "")
+	msg = strings.ReplaceAll(msg, root, "the session store")
+	return sessions.Printable(msg, 0, "")
 }
 
 // currentUser names who saves, from the environment.
@@ -166,7 +185,7 @@ func runSessions(ctx context.Context, args []string, stdout, stderr io.Writer) i
 	if o.rev < 0 {
 		return usageErr("--rev %d: allowed 1 or more (omit for the newest)", o.rev)
 	}
-	st, err := openStore(o.data, currentUser())
+	st, err := openStore(o.data, currentUser(), stderr)
 	if err != nil {
 		return fail(err)
 	}
@@ -241,9 +260,17 @@ func readLimited(path string) ([]byte, error) {
 	return data, nil
 }
 
-func warnProblems(stderr io.Writer, probs []*sessions.DamagedError) {
+func warnProblems(st *sessions.Store, stderr io.Writer, probs []*sessions.DamagedError) {
 	for _, p := range probs {
-		fmt.Fprintf(stderr, "junco sessions: warning: %v\n", p)
+		fmt.Fprintf(stderr, "junco sessions: warning: %s\n", storeText(st, p.Error()))
+	}
+}
+
+// warnSkipped tells which newer revisions could not be read when the
+// newest readable one was opened.
+func warnSkipped(st *sessions.Store, stderr io.Writer, rev sessions.Revision) {
+	for _, d := range rev.Skipped {
+		fmt.Fprintf(stderr, "junco sessions: warning: %s; revision %d, the newest readable, is used\n", storeText(st, d.Error()), rev.Number)
 	}
 }
 
@@ -270,16 +297,27 @@ func sessionsList(st *sessions.Store, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "junco sessions list: %v\n", err)
 		return exitFailure
 	}
-	warnProblems(stderr, probs)
+	warnProblems(st, stderr, probs)
 	if len(list) == 0 {
-		fmt.Fprintf(stdout, "no sessions in %s\n", st.Root())
+		fmt.Fprintln(stdout, "no sessions yet")
 		return exitOK
 	}
 	rows := [][]string{{"NAME", "REV", "SAVED", "AUTHOR", "TITLE"}}
+	damaged := false
 	for _, s := range list {
-		rows = append(rows, []string{s.Name, strconv.Itoa(s.Latest.Number), when(s.Latest.Meta.Modified), dash(s.Latest.Meta.Author), dash(s.Latest.Meta.Title)})
+		rev := strconv.Itoa(s.Latest.Number)
+		switch {
+		case len(s.Damaged) > 0 && s.Latest.Number == 0:
+			rev, damaged = "!", true
+		case len(s.Damaged) > 0:
+			rev, damaged = rev+"!", true
+		}
+		rows = append(rows, []string{s.Name, rev, when(s.Latest.Meta.Modified), dash(s.Latest.Meta.Author), dash(s.Latest.Meta.Title)})
 	}
 	table(stdout, rows)
+	if damaged {
+		fmt.Fprintln(stdout, "! damaged: the newer revisions cannot be read (see the warnings); the newest readable one is shown, opened and saved on")
+	}
 	return exitOK
 }
 
@@ -289,7 +327,7 @@ func sessionsTrashList(st *sessions.Store, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "junco sessions trash: %v\n", err)
 		return exitFailure
 	}
-	warnProblems(stderr, probs)
+	warnProblems(st, stderr, probs)
 	if len(list) == 0 {
 		fmt.Fprintln(stdout, "the trash is empty")
 		return exitOK
@@ -304,7 +342,7 @@ func sessionsTrashList(st *sessions.Store, stdout, stderr io.Writer) int {
 
 func sessionsHistory(st *sessions.Store, name string, stdout, stderr io.Writer) int {
 	hist, probs, err := st.History(name)
-	warnProblems(stderr, probs)
+	warnProblems(st, stderr, probs)
 	if err != nil {
 		fmt.Fprintf(stderr, "junco sessions history: %v\n", err)
 		return exitFailure
@@ -324,14 +362,17 @@ func sessionsHistory(st *sessions.Store, name string, stdout, stderr io.Writer) 
 func sessionsShow(st *sessions.Store, name string, o sessionFlags, stdout, stderr io.Writer) int {
 	doc, rev, err := st.Open(name, o.rev)
 	if err != nil {
-		fmt.Fprintf(stderr, "junco sessions show: %v\n", err)
+		fmt.Fprintf(stderr, "junco sessions show: %s\n", storeText(st, err.Error()))
 		return exitFailure
 	}
+	warnSkipped(st, stderr, rev)
 	m := doc.Meta
-	fmt.Fprintf(stdout, "%s, revision %d: %s\n", name, rev.Number, dash(m.Title))
-	fmt.Fprintf(stdout, "author %s; created %s; saved %s by %s with junco %s\n", dash(m.Author), when(m.Created), when(m.Modified), dash(m.SavedBy), dash(m.ToolVersion))
+	// Every text of the document is echoed through sessions.Printable.
+	e := func(s string) string { return sessions.Printable(s, 0, "") }
+	fmt.Fprintf(stdout, "%s, revision %d: %s\n", name, rev.Number, e(dash(m.Title)))
+	fmt.Fprintf(stdout, "author %s; created %s; saved %s by %s with junco %s\n", e(dash(m.Author)), when(m.Created), when(m.Modified), e(dash(m.SavedBy)), e(dash(m.ToolVersion)))
 	if m.Origin != "" {
-		fmt.Fprintf(stdout, "origin: %s\n", m.Origin)
+		fmt.Fprintf(stdout, "origin: %s\n", e(m.Origin))
 	}
 	fmt.Fprintln(stdout, "\nInputs")
 	var rows [][]string
@@ -349,34 +390,34 @@ func sessionsShow(st *sessions.Store, name string, o sessionFlags, stdout, stder
 	if len(doc.Measurements) > 0 {
 		fmt.Fprintln(stdout, "\nMeasurements")
 		for _, ms := range doc.Measurements {
-			fmt.Fprintf(stdout, "  %s: %s from %s, %d points, imported %s\n", ms.ID, ms.Kind, ms.SourceFile, ms.Len(), when(ms.ImportedAt))
+			fmt.Fprintf(stdout, "  %s: %s from %s, %d points, imported %s\n", e(ms.ID), e(string(ms.Kind)), e(ms.SourceFile), ms.Len(), when(ms.ImportedAt))
 		}
 	}
 	if len(doc.Extractions) > 0 {
 		fmt.Fprintln(stdout, "\nExtracted parameters")
 		for _, x := range doc.Extractions {
-			fmt.Fprintf(stdout, "  %s (%s, data %s)\n", x.ID, x.Method, dash(x.Measurement))
+			fmt.Fprintf(stdout, "  %s (%s, data %s)\n", e(x.ID), e(x.Method), e(dash(x.Measurement)))
 			for _, p := range x.Parameters {
-				fmt.Fprintf(stdout, "    %-6s %s\n", p.Name, sessions.FormatParameter(p, o.ascii))
+				fmt.Fprintf(stdout, "    %-6s %s\n", e(p.Name), e(sessions.FormatParameter(p, o.ascii)))
 			}
 		}
 	}
 	if len(doc.References) > 0 {
 		fmt.Fprintln(stdout, "\nReferences")
 		for _, r := range doc.References {
-			fmt.Fprintf(stdout, "  %s (pinned %s)\n", r.Name, when(r.Pinned))
+			fmt.Fprintf(stdout, "  %s (pinned %s)\n", e(r.Name), when(r.Pinned))
 		}
 	}
 	if len(doc.Notes) > 0 {
 		fmt.Fprintln(stdout, "\nNotes")
 		for _, l := range doc.Notes {
-			fmt.Fprintln(stdout, "  "+l)
+			fmt.Fprintln(stdout, "  "+e(l))
 		}
 	}
 	if len(doc.Reviews) > 0 {
 		fmt.Fprintln(stdout, "\nReview notes")
 		for _, r := range doc.Reviews {
-			fmt.Fprintf(stdout, "  %s, %s: %s\n", r.Author, when(r.Time), r.Text)
+			fmt.Fprintf(stdout, "  %s, %s: %s\n", e(r.Author), when(r.Time), e(r.Text))
 		}
 	}
 	return exitOK
@@ -424,9 +465,10 @@ func sessionsExport(st *sessions.Store, name string, o sessionFlags, stdout, std
 	}
 	doc, rev, err := st.Open(name, o.rev)
 	if err != nil {
-		fmt.Fprintf(stderr, "junco sessions export: %v\n", err)
+		fmt.Fprintf(stderr, "junco sessions export: %s\n", storeText(st, err.Error()))
 		return exitFailure
 	}
+	warnSkipped(st, stderr, rev)
 	files, err := sessions.Export(doc, format, sessions.ExportOptions{Session: name, Revision: rev.Number, Figures: o.out != "", ASCII: o.ascii, ToolVersion: Version})
 	if err != nil {
 		fmt.Fprintf(stderr, "junco sessions export: %v\n", err)
@@ -451,13 +493,15 @@ func sessionsExport(st *sessions.Store, name string, o sessionFlags, stdout, std
 
 // calcSessionArgs are the session flags of `junco calc`: --session NAME|FILE
 // loads a junction (flags given as well override its values), --save NAME
-// stores the evaluated junction, --data DIR selects the store and
-// --author names who saves.
+// stores the evaluated junction, --next-revision makes that save retry on
+// top of whatever another save stored meanwhile, --data DIR selects the
+// store and --author names who saves.
 type calcSessionArgs struct {
 	Session string
 	Save    string
 	DataDir string
 	Author  string
+	Next    bool
 }
 
 // calcSessionOptions takes the session flags out of calc's arguments and
@@ -481,6 +525,17 @@ func calcSessionOptions(args []string) (calcSessionArgs, []string, error) {
 			continue
 		}
 		key, val, hasVal := strings.Cut(name, "=")
+		if key == "next-revision" {
+			b, err := strconv.ParseBool(val)
+			if !hasVal {
+				b, err = true, nil
+			}
+			if err != nil {
+				return o, nil, fmt.Errorf("flag --next-revision=%q: allowed true or false", val)
+			}
+			o.Next = b
+			continue
+		}
 		dst, ok := targets[key]
 		if !ok {
 			rest = append(rest, a)
@@ -524,7 +579,7 @@ func loadSpecForCalc(dataDir, nameOrFile string) (model.Spec, error) {
 		}
 		return doc.Spec, nil
 	}
-	st, err := openStore(dataDir, "")
+	st, err := openStore(dataDir, "", io.Discard) // the save or a later command tells
 	if err != nil {
 		return model.Spec{}, err
 	}
@@ -536,36 +591,45 @@ func loadSpecForCalc(dataDir, nameOrFile string) (model.Spec, error) {
 }
 
 // saveSpecFromCalc stores spec as the next revision of session name (its
-// other contents kept), or as a new session when there is none, and
-// returns the revision number. author is recorded as who saved it and, for
-// a new session, as its author. A concurrent save of the same session
-// makes it fail with a *sessions.StaleError rather than lose either.
-func saveSpecFromCalc(dataDir, name string, spec model.Spec, author string) (rev int, err error) {
+// other contents kept from the newest readable revision), or as a new
+// session when there is none, and returns the revision number. author is
+// recorded as who saved it and, for a new session, as its author. With
+// next, a save that another one overtook is made again on top of the new
+// newest revision (sessions.Store.Update): scripts that save concurrently
+// lose nothing and fail nothing. Without it, such a save stores nothing
+// and fails with a *sessions.StaleError.
+func saveSpecFromCalc(dataDir, name string, spec model.Spec, author string, next bool, stderr io.Writer) (rev int, err error) {
 	if err := sessions.ValidateName(name); err != nil {
 		return 0, err
 	}
 	if author == "" {
 		author = currentUser()
 	}
-	st, err := openStore(dataDir, author)
+	st, err := openStore(dataDir, author, stderr)
 	if err != nil {
 		return 0, err
 	}
-	latest, err := st.Latest(name)
+	change := func(doc *sessions.Document, _ int) (*sessions.Document, error) {
+		if doc == nil {
+			return sessions.NewDocument(name, author, spec, time.Now()), nil
+		}
+		doc.Spec = spec
+		return doc, nil
+	}
+	if next {
+		r, err := st.Update(name, change)
+		return r.Number, err
+	}
+	doc, r, err := st.Open(name, 0)
 	var nf *sessions.NotFoundError
 	switch {
-	case errors.As(err, &nf) || (err == nil && latest == 0):
-		doc := sessions.NewDocument(name, author, spec, time.Now())
-		r, err := st.Save(name, doc, 0)
-		return r.Number, err
+	case errors.As(err, &nf):
+		doc, r = nil, sessions.Revision{}
 	case err != nil:
 		return 0, err
 	}
-	doc, _, err := st.Open(name, latest)
-	if err != nil {
-		return 0, err
-	}
-	doc.Spec = spec
-	r, err := st.Save(name, doc, latest)
-	return r.Number, err
+	warnSkipped(st, stderr, r)
+	doc, _ = change(doc, r.Number)
+	saved, err := st.Save(name, doc, r.Number)
+	return saved.Number, err
 }

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"errors"
+	"io"
 	"os"
 	"path/filepath"
 	"reflect"
@@ -29,12 +30,12 @@ func seeded(t *testing.T) string {
 	t.Helper()
 	dir := t.TempDir()
 	s := model.DefaultSpec()
-	if rev, err := saveSpecFromCalc(dir, "d7", s, "ana"); err != nil || rev != 1 {
+	if rev, err := saveSpecFromCalc(dir, "d7", s, "ana", false, io.Discard); err != nil || rev != 1 {
 		t.Fatalf("first save: %d %v", rev, err)
 	}
 	s.Temperature = 350
 	s.Bias = -3
-	if rev, err := saveSpecFromCalc(dir, "d7", s, "ben"); err != nil || rev != 2 {
+	if rev, err := saveSpecFromCalc(dir, "d7", s, "ben", false, io.Discard); err != nil || rev != 2 {
 		t.Fatalf("second save: %d %v", rev, err)
 	}
 	return dir
@@ -223,21 +224,32 @@ func TestSessionsErrors(t *testing.T) {
 			t.Errorf("%v: exit %d, stderr %q; want %d with %q", c.args, code, errb.String(), c.code, c.msg)
 		}
 	}
-	// A damaged revision: show names the file and exits non-zero, list
-	// still shows the others and warns.
-	saveSpecFromCalc(dir, "other", model.DefaultSpec(), "ana")
+	// A damaged newest revision: show warns, naming the file relative to
+	// the store, and shows the newest readable revision; list marks the
+	// session; asking for the damaged revision itself fails.
+	saveSpecFromCalc(dir, "other", model.DefaultSpec(), "ana", false, io.Discard)
 	p := filepath.Join(dir, "sessions", "d7", "rev-000002.json")
+	rel := filepath.Join("sessions", "d7", "rev-000002.json")
 	os.Chmod(p, 0o644)
 	os.WriteFile(p, []byte("{\"schema\": 1, \"meta\": "), 0o644)
-	if code, _, errs := sess(t, dir, "show", "d7"); code != exitFailure || !strings.Contains(errs, p) || !strings.Contains(errs, "truncated") {
-		t.Errorf("show damaged: %d %q", code, errs)
+	code, out, errs := sess(t, dir, "show", "d7")
+	if code != 0 || !strings.Contains(out, "d7, revision 1") || !strings.Contains(errs, rel) || !strings.Contains(errs, "truncated") || strings.Contains(errs, dir) {
+		t.Errorf("show damaged: %d %q %q", code, out, errs)
 	}
-	code, out, errs := sess(t, dir, "list")
-	if code != 0 || !strings.Contains(out, "other") || !strings.Contains(errs, p) {
+	if code, _, errs := sess(t, dir, "show", "d7", "--rev", "2"); code != exitFailure || !strings.Contains(errs, rel) || strings.Contains(errs, dir) {
+		t.Errorf("show the damaged revision: %d %q", code, errs)
+	}
+	code, out, errs = sess(t, dir, "list")
+	if code != 0 || !strings.Contains(out, "other") || !strings.Contains(out, "d7     1!") || !strings.Contains(out, "! damaged") || !strings.Contains(errs, rel) || strings.Contains(out+errs, dir) {
 		t.Errorf("list with damage: %d %q %q", code, out, errs)
 	}
 	if code, out, _ := sess(t, dir, "show", "d7", "--rev", "1"); code != 0 || !strings.Contains(out, "revision 1") {
 		t.Errorf("older revision of a damaged session: %d", code)
+	}
+	// The next save from the newest readable revision takes the next free
+	// number.
+	if rev, err := saveSpecFromCalc(dir, "d7", model.DefaultSpec(), "ana", false, io.Discard); err != nil || rev != 3 {
+		t.Errorf("save after the damage: revision %d, %v; want 3", rev, err)
 	}
 }
 
@@ -283,18 +295,18 @@ func TestLoadAndSaveSpecForCalc(t *testing.T) {
 	}
 	// The rest of the session survives a calc save; bad specs are refused.
 	spec.Area = 2e-6
-	rev, err := saveSpecFromCalc(dir, "d7", spec, "carla")
+	rev, err := saveSpecFromCalc(dir, "d7", spec, "carla", false, io.Discard)
 	if err != nil || rev != 3 {
 		t.Fatalf("save next: %d %v", rev, err)
 	}
 	bad := spec
 	bad.Temperature = 1
-	_, err = saveSpecFromCalc(dir, "d7", bad, "carla")
+	_, err = saveSpecFromCalc(dir, "d7", bad, "carla", false, io.Discard)
 	var ie *sessions.InvalidError
 	if !errors.As(err, &ie) || !strings.Contains(err.Error(), "(temp)") {
 		t.Errorf("invalid spec saved: %v", err)
 	}
-	if _, err := saveSpecFromCalc(dir, "a/b", spec, "x"); err == nil {
+	if _, err := saveSpecFromCalc(dir, "a/b", spec, "x", false, io.Discard); err == nil {
 		t.Error("bad name accepted")
 	}
 }

@@ -29,6 +29,8 @@ type workbenchOptions struct {
 	rev   int    // --rev N (0 = the newest)
 	// target is the session name or session file to open ("" = the demo).
 	target string
+	// notices receives what opening the store changed (nil: not told).
+	notices io.Writer
 }
 
 // parseWorkbenchArgs reads the workbench's arguments: --ascii, --data
@@ -140,6 +142,11 @@ func workbenchModel(o workbenchOptions, base tui.Options) (tui.Model, error) {
 		if err != nil {
 			return tui.Model{}, err
 		}
+		if o.notices != nil {
+			for _, n := range st.Notices() {
+				fmt.Fprintf(o.notices, "junco: note: %s\n", storeText(st, n))
+			}
+		}
 		base.Store = st
 	}
 	switch {
@@ -198,6 +205,7 @@ func runWorkbench(ctx context.Context, args []string, stdout, stderr io.Writer) 
 		r.SetHasDarkBackground(r.HasDarkBackground())
 	}
 	w, h, _ := term.GetSize(os.Stdout.Fd())
+	o.notices = stderr // shown before the workbench takes the screen, and after it
 	m, err := workbenchModel(o, tui.Options{
 		Renderer: r,
 		ASCII:    o.ascii || tui.DetectASCII(os.Getenv),
