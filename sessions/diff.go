@@ -11,6 +11,7 @@ import (
 	"strings"
 
 	"junco/model"
+	"junco/sessions/internal/strictjson"
 )
 
 // Change is one row of a comparison between two documents: the section,
@@ -82,7 +83,7 @@ func specFields() []specField {
 // nested objects (the effect switches) appear as "effects.no_breakdown".
 func specMembers(s model.Spec) map[string]json.RawMessage {
 	top := map[string]json.RawMessage{}
-	b, err := encodeJSON(s)
+	b, err := strictjson.Encode(s)
 	if err != nil {
 		return top
 	}
@@ -287,8 +288,8 @@ func Diff(a, b *Document, ascii bool) []Change {
 			case y == nil:
 				add(SectionMeasurements, id, dataSetSummary(*x), "", "removed")
 			default:
-				ex, _ := encodeJSON(x)
-				ey, _ := encodeJSON(y)
+				ex, _ := strictjson.Encode(x)
+				ey, _ := strictjson.Encode(y)
 				if !bytes.Equal(ex, ey) {
 					d := "values changed"
 					if x.Len() != y.Len() {
@@ -340,8 +341,8 @@ func Diff(a, b *Document, ascii bool) []Change {
 			case y == nil:
 				add(SectionReferences, name, "pinned", "", "removed")
 			default:
-				ex, _ := encodeJSON(x)
-				ey, _ := encodeJSON(y)
+				ex, _ := strictjson.Encode(x)
+				ey, _ := strictjson.Encode(y)
 				if !bytes.Equal(ex, ey) {
 					add(SectionReferences, name, "pinned "+x.Pinned.Format("2006-01-02 15:04"), "pinned "+y.Pinned.Format("2006-01-02 15:04"), "changed")
 				}

@@ -24,6 +24,7 @@ import (
 
 	"junco/model"
 	"junco/model/measure"
+	"junco/sessions/internal/strictjson"
 )
 
 // SchemaVersion is the version of the session format this package writes.
@@ -266,12 +267,12 @@ func (d *Document) Clone() *Document {
 // to model.Spec later are copied too. A Spec that cannot be encoded (NaN)
 // is copied shallowly; Validate rejects it anyway.
 func cloneSpec(s model.Spec) model.Spec {
-	b, err := encodeJSON(s)
+	b, err := strictjson.Encode(s)
 	if err != nil {
 		return s
 	}
 	var out model.Spec
-	if decodeJSON(b, &out) != nil {
+	if strictjson.Decode(b, &out) != nil {
 		return s
 	}
 	return out

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"errors"
 	"flag"
+	"junco/sessions/internal/strictjson"
 	"math/rand/v2"
 	"os"
 	"path/filepath"
@@ -300,7 +301,7 @@ func TestEncodeRefusesNonFinite(t *testing.T) {
 		t.Errorf("NaN in a row: got %v", err)
 	}
 	// The raw encoder names the path too.
-	_, err = encodeJSON(struct {
+	_, err = strictjson.Encode(struct {
 		X []float64 `json:"x"`
 	}{[]float64{1, doc.Measurements[0].CurrentA[1]}})
 	if err == nil || !strings.Contains(err.Error(), "$.x[1]") {

@@ -7,6 +7,7 @@ import (
 	"errors"
 	"fmt"
 	"io/fs"
+	"junco/sessions/internal/strictjson"
 	"path/filepath"
 	"slices"
 	"strings"
@@ -114,7 +115,7 @@ func (s *Store) SaveDraft(name string, k DraftKey, base int, doc *Document) erro
 		Saved    time.Time `json:"saved"`
 		Document rawJSON   `json:"document"`
 	}
-	data, err := encodeJSON(out{Session: name, Editor: k.Editor, Conn: k.Conn, Base: base, Saved: s.now().UTC(), Document: rawJSON(body)})
+	data, err := strictjson.Encode(out{Session: name, Editor: k.Editor, Conn: k.Conn, Base: base, Saved: s.now().UTC(), Document: rawJSON(body)})
 	if err != nil {
 		return err
 	}
@@ -253,7 +254,7 @@ func (s *Store) readDraft(path string) (*Draft, error) {
 		return nil, &DamagedError{Path: path, Err: errors.New("too large")}
 	}
 	var f draftFile
-	if err := decodeJSON(data, &f); err != nil {
+	if err := strictjson.Decode(data, &f); err != nil {
 		return nil, &DamagedError{Path: path, Err: err}
 	}
 	doc, err := Decode(f.Document)

@@ -5,7 +5,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
-	"reflect"
+	"junco/sessions/internal/strictjson"
 )
 
 // MaxDocumentBytes bounds the size of a document junco reads, so that a
@@ -38,7 +38,7 @@ func Encode(doc *Document) ([]byte, error) {
 	if err := doc.Validate(); err != nil {
 		return nil, err
 	}
-	return encodeJSONSize(doc, sizeHint(doc))
+	return strictjson.EncodeSize(doc, sizeHint(doc))
 }
 
 // sizeHint estimates the encoded size of a document: about 26 bytes per
@@ -92,30 +92,28 @@ func decodeVersioned(data []byte, m migrator, target any) error {
 			return err
 		}
 	}
-	return decodeJSON(data, target)
+	return strictjson.Decode(data, target)
 }
 
 // peekSchema returns the "schema" member of the top-level object, reading
 // no further than needed (junco writes it first).
 func peekSchema(data []byte) (int, error) {
-	d := decoder{data: data}
-	d.ws()
-	if c, ok := d.peek(); !ok {
-		return 0, d.syntax("empty document")
+	r := strictjson.NewReader(data)
+	if c, ok := r.Peek(); !ok {
+		return 0, r.Syntax("empty document")
 	} else if c != '{' {
-		return 0, d.syntax("a session document is a JSON object and starts with '{'")
+		return 0, r.Syntax("a session document is a JSON object and starts with '{'")
 	}
 	version, found := 0, false
 	errFound := errors.New("found")
-	err := d.members(nil, func(key string) error {
+	err := r.Members(func(key string) error {
 		if key != "schema" {
-			return d.skip()
+			return r.Skip()
 		}
-		var n int
-		if err := d.value(reflect.ValueOf(&n).Elem(), (*jpath)(nil).key("schema")); err != nil {
+		if err := r.Value("schema", &version); err != nil {
 			return err
 		}
-		version, found = n, true
+		found = true
 		return errFound
 	})
 	if err != nil && err != errFound {
@@ -143,27 +141,26 @@ var errShort = errors.New("header not complete in the bytes read")
 // order, fall back to the caller's full decode (errShort as well).
 func decodeHeader(prefix []byte, partial bool) (header, error) {
 	var h header
-	d := decoder{data: prefix}
-	d.ws()
-	if c, ok := d.peek(); !ok || c != '{' {
+	r := strictjson.NewReader(prefix)
+	if c, ok := r.Peek(); !ok || c != '{' {
 		if !ok && partial {
 			return h, errShort
 		}
-		return h, d.syntax("a session document is a JSON object and starts with '{'")
+		return h, r.Syntax("a session document is a JSON object and starts with '{'")
 	}
 	got := 0
 	done := errors.New("done")
-	err := d.members(nil, func(key string) error {
+	err := r.Members(func(key string) error {
 		switch key {
 		case "schema":
-			if err := d.value(reflect.ValueOf(&h.Schema).Elem(), (*jpath)(nil).key("schema")); err != nil {
+			if err := r.Value("schema", &h.Schema); err != nil {
 				return err
 			}
 			if h.Schema != SchemaVersion {
 				return errShort
 			}
 		case "meta":
-			if err := d.value(reflect.ValueOf(&h.Meta).Elem(), (*jpath)(nil).key("meta")); err != nil {
+			if err := r.Value("meta", &h.Meta); err != nil {
 				return err
 			}
 		default:
@@ -177,8 +174,8 @@ func decodeHeader(prefix []byte, partial bool) (header, error) {
 	})
 	switch {
 	case err == done:
-		if len(d.unknown) > 0 {
-			return h, &UnknownFieldsError{Fields: d.unknown}
+		if u := r.Unknown(); len(u) > 0 {
+			return h, &UnknownFieldsError{Fields: u}
 		}
 		return h, nil
 	case err == nil:

@@ -1,0 +1,74 @@
+package strictjson
+
+import (
+	"errors"
+	"math"
+	"strings"
+	"testing"
+)
+
+type rec struct {
+	Name  string      `json:"name"`
+	Rows  [][]float64 `json:"rows,omitempty"`
+	Count int         `json:"count"`
+}
+
+// Round trip, and the layout the format promises: one table row per line.
+func TestRoundTripAndLayout(t *testing.T) {
+	in := rec{Name: "d7", Rows: [][]float64{{0.1, 1e-9}, {0.2, 2e-8}}, Count: 2}
+	b, err := Encode(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if n := strings.Count(string(b), "\n"); n < 6 {
+		t.Errorf("expected one row per line, got %d lines:\n%s", n, b)
+	}
+	var out rec
+	if err := Decode(b, &out); err != nil {
+		t.Fatal(err)
+	}
+	if out.Name != in.Name || out.Count != 2 || len(out.Rows) != 2 || out.Rows[1][1] != 2e-8 {
+		t.Errorf("round trip gave %+v", out)
+	}
+}
+
+// The strict rules: unknown keys by path, duplicate keys, fractions for
+// integers, NaN on encoding.
+func TestStrictRules(t *testing.T) {
+	var r rec
+	err := Decode([]byte(`{"name":"x","count":1,"colour":2}`), &r)
+	var uf *UnknownFieldsError
+	if !errors.As(err, &uf) || len(uf.Fields) != 1 || uf.Fields[0] != "$.colour" {
+		t.Errorf("unknown key: %v", err)
+	}
+	var se *SyntaxError
+	if err := Decode([]byte(`{"name":"x","name":"y"}`), &r); !errors.As(err, &se) {
+		t.Errorf("duplicate key: %v", err)
+	}
+	var te *TypeError
+	if err := Decode([]byte(`{"count":1.5}`), &r); !errors.As(err, &te) || te.Path != "$.count" {
+		t.Errorf("fraction for int: %v", err)
+	}
+	if _, err := Encode(rec{Rows: [][]float64{{math.NaN()}}}); err == nil {
+		t.Error("NaN encoded")
+	}
+}
+
+// A Reader takes one member and leaves the rest unread.
+func TestReaderTakesOneMember(t *testing.T) {
+	r := NewReader([]byte(`{"schema": 3, "rest": [1, 2, {"deep": true}]} trailing`))
+	var v int
+	stop := errors.New("stop")
+	err := r.Members(func(key string) error {
+		if key != "schema" {
+			return r.Skip()
+		}
+		if err := r.Value(key, &v); err != nil {
+			return err
+		}
+		return stop
+	})
+	if err != stop || v != 3 {
+		t.Errorf("schema %d, err %v", v, err)
+	}
+}
