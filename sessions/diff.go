@@ -183,11 +183,11 @@ func (f specField) number(raw json.RawMessage) (float64, bool) {
 	return v, err == nil
 }
 
-// delta describes the change from a to b of a quantity of kind k: an
+// Delta describes the change from a to b of a quantity of kind k: an
 // absolute difference for temperatures, voltages and energies, a
 // percentage when the ratio lies within a factor of ten, a factor
 // otherwise.
-func delta(k model.Kind, a, b float64, ascii bool) string {
+func Delta(k model.Kind, a, b float64, ascii bool) string {
 	switch {
 	case math.IsNaN(a) && math.IsNaN(b):
 		return ""
@@ -250,7 +250,7 @@ func Diff(a, b *Document, ascii bool) []Change {
 			vb, okb = 0, !f.text
 		}
 		if oka && okb {
-			d = delta(f.kind, va, vb, ascii)
+			d = Delta(f.kind, va, vb, ascii)
 		}
 		add(SectionInputs, f.label, f.format(ra, ascii), f.format(rb, ascii), d)
 	}
@@ -263,7 +263,7 @@ func Diff(a, b *Document, ascii bool) []Change {
 	// Sweeps.
 	sw := func(q string, k model.Kind, x, y float64) {
 		if x != y {
-			add(SectionSweeps, q, model.Format(k, x, 4, ascii), model.Format(k, y, 4, ascii), delta(k, x, y, ascii))
+			add(SectionSweeps, q, model.Format(k, x, 4, ascii), model.Format(k, y, 4, ascii), Delta(k, x, y, ascii))
 		}
 	}
 	sw("bias sweep from", model.Voltage, a.Sweeps.Bias.From, b.Sweeps.Bias.From)
@@ -325,7 +325,7 @@ func Diff(a, b *Document, ascii bool) []Change {
 					case FormatParameter(*p, ascii) != FormatParameter(*q, ascii) || p.Value != q.Value:
 						d := "changed"
 						if p.Value != 0 && q.Value != 0 {
-							d = delta(model.Dimensionless, p.Value, q.Value, ascii)
+							d = Delta(model.Dimensionless, p.Value, q.Value, ascii)
 						}
 						add(SectionExtractions, label, FormatParameter(*p, ascii), FormatParameter(*q, ascii), d)
 					}
@@ -395,19 +395,20 @@ func diffResults(sa, sb model.Spec, ascii bool) []Change {
 	for _, q := range ra.Quantities {
 		vb, ok := rb.Get(q.Key)
 		if !ok {
-			out = append(out, Change{Section: SectionResults, Quantity: resultLabel(q), Old: q.Text(4, ascii), New: "(absent)", Delta: "removed"})
+			out = append(out, Change{Section: SectionResults, Quantity: ResultLabel(q), Old: q.Text(4, ascii), New: "(absent)", Delta: "removed"})
 			continue
 		}
 		if vb == q.Value || (math.IsNaN(vb) && math.IsNaN(q.Value)) {
 			continue
 		}
-		out = append(out, Change{Section: SectionResults, Quantity: resultLabel(q),
-			Old: q.Text(4, ascii), New: model.Format(q.Kind, vb, 4, ascii), Delta: delta(q.Kind, q.Value, vb, ascii)})
+		out = append(out, Change{Section: SectionResults, Quantity: ResultLabel(q),
+			Old: q.Text(4, ascii), New: model.Format(q.Kind, vb, 4, ascii), Delta: Delta(q.Kind, q.Value, vb, ascii)})
 	}
 	return out
 }
 
-func resultLabel(q model.Quantity) string {
+// ResultLabel is the label and symbol a diff or report gives a result.
+func ResultLabel(q model.Quantity) string {
 	return strings.TrimSpace(q.Label) + " " + q.Symbol
 }
 
@@ -448,9 +449,9 @@ func diffByID[T any](a, b []T, key func(T) string, fn func(id string, x, y *T)) 
 
 func dataSetSummary(m Measurement) string {
 	var cols []string
-	for _, c := range m.valueColumns() {
-		if c.values != nil {
-			cols = append(cols, c.key)
+	for _, c := range m.ValueColumns() {
+		if c.Values != nil {
+			cols = append(cols, c.Key)
 		}
 	}
 	return fmt.Sprintf("%s from %s, %d points (%s)", m.Kind, m.SourceFile, m.Len(), strings.Join(cols, ", "))
@@ -463,18 +464,20 @@ func FormatParameter(p Parameter, ascii bool) string {
 	if ascii {
 		pm = "+/-"
 	}
-	v := formatWithUnit(p.Value, p.Unit)
+	v := FormatWithUnit(p.Value, p.Unit)
 	if p.StdError == nil {
 		return v + " (not estimated)"
 	}
-	s := v + " " + pm + " " + formatWithUnit(*p.StdError, p.Unit)
+	s := v + " " + pm + " " + FormatWithUnit(*p.StdError, p.Unit)
 	if p.Value != 0 {
 		s += fmt.Sprintf(" (%.2g %%)", math.Abs(*p.StdError/p.Value)*100)
 	}
 	return s
 }
 
-func formatWithUnit(v float64, unit string) string {
+// FormatWithUnit writes v with four significant figures and its unit, as
+// diffs and reports show parameters of a fit.
+func FormatWithUnit(v float64, unit string) string {
 	s := strconv.FormatFloat(v, 'g', 4, 64)
 	if unit != "" {
 		s += " " + unit

@@ -62,7 +62,7 @@ func TestDiffInputsAndResults(t *testing.T) {
 	changed := 0
 	for _, q := range ra.Quantities {
 		vb, _ := rb.Get(q.Key)
-		c, ok := findChange(ch, SectionResults, resultLabel(q))
+		c, ok := findChange(ch, SectionResults, ResultLabel(q))
 		if vb == q.Value || (math.IsNaN(vb) && math.IsNaN(q.Value)) {
 			if ok {
 				t.Errorf("%s listed although unchanged", q.Key)

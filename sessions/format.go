@@ -46,8 +46,8 @@ func Encode(doc *Document) ([]byte, error) {
 func sizeHint(doc *Document) int {
 	n := 64 << 10
 	for _, m := range doc.Measurements {
-		for _, c := range m.valueColumns() {
-			n += 26 * len(c.values)
+		for _, c := range m.ValueColumns() {
+			n += 26 * len(c.Values)
 		}
 		n += 256 * len(m.Problems)
 	}

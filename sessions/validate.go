@@ -256,15 +256,16 @@ func (s Sweeps) problems() []FieldProblem {
 	return ps
 }
 
-// measurementColumn is one value column of a measurement: its JSON name,
-// its values and the range a measured value may take.
-type measurementColumn struct {
-	key    string
-	values []float64
+// MeasurementColumn is one value column of a measurement: its JSON name
+// (with the SI unit) and its values (nil when the data set has none).
+type MeasurementColumn struct {
+	Key    string
+	Values []float64
 }
 
-func (m Measurement) valueColumns() []measurementColumn {
-	return []measurementColumn{
+// ValueColumns lists the value columns of a measurement in a fixed order.
+func (m Measurement) ValueColumns() []MeasurementColumn {
+	return []MeasurementColumn{
 		{"voltage_V", m.VoltageV}, {"current_A", m.CurrentA}, {"capacitance_F", m.CapacitanceF},
 		{"frequency_Hz", m.FrequencyHz}, {"temperature_K", m.TemperatureK},
 	}
@@ -302,17 +303,17 @@ func (m Measurement) problems(p string, ids map[string]bool) []FieldProblem {
 	if n > maxRows {
 		add(p+".voltage_V", fmt.Sprintf("%d points", n), fmt.Sprintf("at most %d", maxRows), "keeps one session within memory")
 	}
-	for _, c := range m.valueColumns() {
-		if c.values == nil {
+	for _, c := range m.ValueColumns() {
+		if c.Values == nil {
 			continue
 		}
-		if len(c.values) != n {
-			add(p+"."+c.key, fmt.Sprintf("%d values", len(c.values)), fmt.Sprintf("%d (one per voltage)", n), "the columns of a sweep have equal length")
+		if len(c.Values) != n {
+			add(p+"."+c.Key, fmt.Sprintf("%d values", len(c.Values)), fmt.Sprintf("%d (one per voltage)", n), "the columns of a sweep have equal length")
 			continue
 		}
-		for k, v := range c.values {
+		for k, v := range c.Values {
 			if !finite(v) {
-				add(fmt.Sprintf("%s.%s[%d]", p, c.key, k), fmt.Sprint(v), "a finite number", "JSON has no NaN or infinity; the importer leaves such rows out")
+				add(fmt.Sprintf("%s.%s[%d]", p, c.Key, k), fmt.Sprint(v), "a finite number", "JSON has no NaN or infinity; the importer leaves such rows out")
 				break
 			}
 		}

@@ -14,6 +14,7 @@ import (
 
 	"junco/model"
 	"junco/sessions"
+	"junco/sessions/report"
 )
 
 const sessionsUsage = `Usage: junco sessions COMMAND [flags]
@@ -456,11 +457,11 @@ func sessionsExport(st *sessions.Store, name string, o sessionFlags, stdout, std
 	if o.format == "" {
 		return usageErr("--format is required: md, csv or json")
 	}
-	format, err := sessions.ParseExportFormat(o.format)
+	format, err := report.ParseExportFormat(o.format)
 	if err != nil {
 		return usageErr("%v", err)
 	}
-	if format == sessions.FormatCSV && o.out == "" {
+	if format == report.FormatCSV && o.out == "" {
 		return usageErr("--format csv writes one file per curve: give --out DIR")
 	}
 	doc, rev, err := st.Open(name, o.rev)
@@ -469,7 +470,7 @@ func sessionsExport(st *sessions.Store, name string, o sessionFlags, stdout, std
 		return exitFailure
 	}
 	warnSkipped(st, stderr, rev)
-	files, err := sessions.Export(doc, format, sessions.ExportOptions{Session: name, Revision: rev.Number, Figures: o.out != "", ASCII: o.ascii, ToolVersion: Version})
+	files, err := report.Export(doc, format, report.ExportOptions{Session: name, Revision: rev.Number, Figures: o.out != "", ASCII: o.ascii, ToolVersion: Version})
 	if err != nil {
 		fmt.Fprintf(stderr, "junco sessions export: %v\n", err)
 		return exitFailure

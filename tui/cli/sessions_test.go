@@ -13,6 +13,7 @@ import (
 
 	"junco/model"
 	"junco/sessions"
+	"junco/sessions/report"
 )
 
 // sess runs `junco sessions ARGS --data dir` and returns the exit code and
@@ -101,7 +102,7 @@ func TestSessionsDiff(t *testing.T) {
 func TestSessionsExport(t *testing.T) {
 	dir := seeded(t)
 	code, out, errs := sess(t, dir, "export", "d7", "--format", "md")
-	if code != 0 || !strings.HasPrefix(out, "# d7") || !strings.Contains(out, sessions.Caution) || strings.Contains(out, ".svg") {
+	if code != 0 || !strings.HasPrefix(out, "# d7") || !strings.Contains(out, report.Caution) || strings.Contains(out, ".svg") {
 		t.Errorf("md to stdout: %d %q\n%.300s", code, errs, out)
 	}
 	outDir := filepath.Join(t.TempDir(), "report")

@@ -1,4 +1,4 @@
-package sessions
+package report
 
 import (
 	"fmt"
@@ -6,6 +6,7 @@ import (
 	"time"
 
 	"junco/model"
+	"junco/sessions"
 )
 
 // Caution is the notice every exported report carries.
@@ -53,13 +54,13 @@ func (o ExportOptions) prefix() string {
 // NAME-rN.md (and NAME-rN-ID.svg figures when o.Figures), for csv one
 // NAME-rN-ID.csv per curve and NAME-rN-data-ID.csv per measured data set,
 // for json NAME-rN.json.
-func Export(doc *Document, f ExportFormat, o ExportOptions) ([]File, error) {
-	if err := ValidateName(o.Session); err != nil {
+func Export(doc *sessions.Document, f ExportFormat, o ExportOptions) ([]File, error) {
+	if err := sessions.ValidateName(o.Session); err != nil {
 		return nil, err
 	}
 	switch f {
 	case FormatJSON:
-		data, err := Encode(doc)
+		data, err := sessions.Encode(doc)
 		if err != nil {
 			return nil, err
 		}
@@ -89,7 +90,7 @@ func Export(doc *Document, f ExportFormat, o ExportOptions) ([]File, error) {
 // references compared with this junction, notes, review notes and the
 // figures — each as a text chart in a code block and, with o.Figures, as
 // an SVG file beside the report. The first file is the report.
-func Report(doc *Document, o ExportOptions) ([]File, error) {
+func Report(doc *sessions.Document, o ExportOptions) ([]File, error) {
 	res, err := model.Evaluate(doc.Spec)
 	if err != nil {
 		return nil, err
@@ -121,7 +122,7 @@ func Report(doc *Document, o ExportOptions) ([]File, error) {
 	p("\n> **Caution.** %s\n\n", Caution)
 
 	p("## Inputs\n\n| input | value |\n|---|---|\n")
-	for _, r := range SpecRows(doc.Spec, o.ASCII) {
+	for _, r := range sessions.SpecRows(doc.Spec, o.ASCII) {
 		p("| %s | %s |\n", mdCell(r.Label), mdCell(r.Value))
 	}
 
@@ -154,9 +155,9 @@ func Report(doc *Document, o ExportOptions) ([]File, error) {
 				t = f4(model.Temperature, v, o)
 			}
 			var cols []string
-			for _, c := range m.valueColumns() {
-				if c.values != nil {
-					cols = append(cols, c.key)
+			for _, c := range m.ValueColumns() {
+				if c.Values != nil {
+					cols = append(cols, c.Key)
 				}
 			}
 			p("| %s | %s | %s | %s | %s | %s | %d | %d |\n", mdCell(m.ID), mdCell(string(m.Kind)), mdCell(m.SourceFile), stamp(m.ImportedAt), t, mdCell(strings.Join(cols, ", ")), m.Len(), m.ProblemRows)
@@ -177,12 +178,12 @@ func Report(doc *Document, o ExportOptions) ([]File, error) {
 		for _, par := range x.Parameters {
 			se, rel := "not estimated", "-"
 			if par.StdError != nil {
-				se = formatWithUnit(*par.StdError, par.Unit)
+				se = sessions.FormatWithUnit(*par.StdError, par.Unit)
 				if par.Value != 0 {
 					rel = fmt.Sprintf("%.2g %%", abs64(*par.StdError/par.Value)*100)
 				}
 			}
-			p("| %s | %s | %s | %s |\n", mdCell(par.Name), mdCell(formatWithUnit(par.Value, par.Unit)), mdCell(se), rel)
+			p("| %s | %s | %s | %s |\n", mdCell(par.Name), mdCell(sessions.FormatWithUnit(par.Value, par.Unit)), mdCell(se), rel)
 		}
 		for _, n := range x.Notes {
 			p("\n- %s", md(n))
@@ -210,10 +211,10 @@ func Report(doc *Document, o ExportOptions) ([]File, error) {
 				if rv.Value != nil {
 					ref = model.Format(q.Kind, *rv.Value, 4, o.ASCII)
 					if *rv.Value != q.Value {
-						d = delta(q.Kind, *rv.Value, q.Value, o.ASCII)
+						d = sessions.Delta(q.Kind, *rv.Value, q.Value, o.ASCII)
 					}
 				}
-				p("| %s | %s | %s | %s |\n", mdCell(resultLabel(q)), mdCell(ref), mdCell(q.Text(4, o.ASCII)), mdCell(d))
+				p("| %s | %s | %s | %s |\n", mdCell(sessions.ResultLabel(q)), mdCell(ref), mdCell(q.Text(4, o.ASCII)), mdCell(d))
 			}
 		}
 		p("\n")

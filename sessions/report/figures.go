@@ -1,15 +1,11 @@
-package sessions
+package report
 
 import (
 	"bytes"
 	"encoding/csv"
-	"errors"
 	"fmt"
 	"image/color"
-	"io/fs"
 	"math"
-	"os"
-	"path/filepath"
 	"strconv"
 	"strings"
 	"unicode"
@@ -21,13 +17,11 @@ import (
 	"gonum.org/v1/plot/vg/vgsvg"
 
 	"junco/model"
+	"junco/sessions"
 )
 
 // File is one exported file: its name (no directory) and content.
-type File struct {
-	Name string
-	Data []byte
-}
+type File = sessions.File
 
 // profilePoints is the number of samples of the junction and minority
 // profiles in exports.
@@ -45,7 +39,7 @@ type Figure struct {
 // potential, bands), the minority-carrier profiles and the temperature
 // curves. A curve the model refuses at these inputs (profiles in strong
 // forward bias, for example) is left out and its reason returned in notes.
-func Figures(doc *Document) (figs []Figure, notes []string, err error) {
+func Figures(doc *sessions.Document) (figs []Figure, notes []string, err error) {
 	if err := doc.Spec.Validate(); err != nil {
 		return nil, nil, err
 	}
@@ -239,26 +233,26 @@ func csvNumber(v float64) string {
 // MeasurementCSV writes a measured data set as CSV, one row per point,
 // with the columns it has under unit-labelled headers (voltage_V,
 // current_A, capacitance_F, frequency_Hz, temperature_K), SI values.
-func MeasurementCSV(m Measurement) []byte {
+func MeasurementCSV(m sessions.Measurement) []byte {
 	var b bytes.Buffer
 	w := csv.NewWriter(&b)
-	var cols []measurementColumn
-	for _, c := range m.valueColumns() {
-		if c.values != nil {
+	var cols []sessions.MeasurementColumn
+	for _, c := range m.ValueColumns() {
+		if c.Values != nil {
 			cols = append(cols, c)
 		}
 	}
 	header := make([]string, len(cols))
 	for i, c := range cols {
-		header[i] = c.key
+		header[i] = c.Key
 	}
 	_ = w.Write(header)
 	row := make([]string, len(cols))
 	for k := range m.Len() {
 		for i, c := range cols {
 			row[i] = ""
-			if k < len(c.values) {
-				row[i] = csvNumber(c.values[k])
+			if k < len(c.Values) {
+				row[i] = csvNumber(c.Values[k])
 			}
 		}
 		_ = w.Write(row)
@@ -295,7 +289,7 @@ func displayUnit(a model.Axis, maxAbs float64) (string, float64) {
 		model.Time:        {"ps", "ns", "us", "ms", "s"},
 		model.Length:      {"nm", "um", "mm", "m"},
 	}
-	if units, ok := prefixed[a.Kind]; ok && maxAbs > 0 && finite(maxAbs) {
+	if units, ok := prefixed[a.Kind]; ok && maxAbs > 0 && isFinite(maxAbs) {
 		best, bestF := "", 0.0
 		for _, u := range units {
 			one, err := model.ParseValue(a.Kind, "1"+u)
@@ -324,7 +318,7 @@ func yExtent(f Figure) (lo, hi float64, ok bool) {
 					continue
 				}
 			}
-			if finite(y) {
+			if isFinite(y) {
 				lo, hi = min(lo, y), max(hi, y)
 			}
 		}
@@ -335,7 +329,7 @@ func yExtent(f Figure) (lo, hi float64, ok bool) {
 func xExtent(c model.Curve) (lo, hi float64, ok bool) {
 	lo, hi = math.Inf(1), math.Inf(-1)
 	for _, x := range c.Xs {
-		if finite(x) {
+		if isFinite(x) {
 			lo, hi = min(lo, x), max(hi, x)
 		}
 	}
@@ -407,7 +401,7 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 			if f.LogY {
 				y = math.Abs(y)
 			}
-			if !finite(x) || !finite(y) || (f.LogY && y <= 0) {
+			if !isFinite(x) || !isFinite(y) || (f.LogY && y <= 0) {
 				flush()
 				continue
 			}
@@ -509,7 +503,7 @@ func TextChart(f Figure, width, height int) string {
 				break
 			}
 			y := s.Y[i]
-			if !finite(x) || !finite(y) || (f.LogY && y == 0) {
+			if !isFinite(x) || !isFinite(y) || (f.LogY && y == 0) {
 				prevOK = false
 				continue
 			}
@@ -587,46 +581,4 @@ func asciiOnly(s string) string {
 	}, s)
 }
 
-// ---------------------------------------------------------------- writing
-
-// WriteNew writes files into dir (created if missing) without replacing
-// anything: if any of the names exists, nothing is written and the error
-// names it. Each file is written to a temporary name, flushed and linked
-// to its name, so a file that appears is complete. It returns the paths
-// written.
-func WriteNew(dir string, files []File) ([]string, error) {
-	for _, f := range files {
-		if f.Name == "" || f.Name != filepath.Base(f.Name) || strings.HasPrefix(f.Name, ".") {
-			return nil, fmt.Errorf("export: %q is not a plain file name", f.Name)
-		}
-		if _, err := os.Lstat(filepath.Join(dir, f.Name)); err == nil {
-			return nil, fmt.Errorf("export: %s exists; nothing was written (choose another --out directory or move the file)", filepath.Join(dir, f.Name))
-		}
-	}
-	fsys := osFS{}
-	if err := os.MkdirAll(dir, 0o755); err != nil { // the user's folder: ordinary modes
-		return nil, fmt.Errorf("export: %w", err)
-	}
-	st := &Store{fs: fsys}
-	var written []string
-	for _, f := range files {
-		tmp, err := st.writeTemp(dir, f.Data, exportMode)
-		if err != nil {
-			return written, fmt.Errorf("export: %w", err)
-		}
-		dst := filepath.Join(dir, f.Name)
-		err = fsys.Link(tmp, dst)
-		fsys.Remove(tmp)
-		if err != nil {
-			if errors.Is(err, fs.ErrExist) {
-				return written, fmt.Errorf("export: %s appeared while exporting; it was left as it is", dst)
-			}
-			return written, fmt.Errorf("export: %w", err)
-		}
-		written = append(written, dst)
-	}
-	if err := fsys.SyncDir(dir); err != nil {
-		return written, fmt.Errorf("export: flushing %s: %w", dir, err)
-	}
-	return written, nil
-}
+func isFinite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }

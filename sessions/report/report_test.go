@@ -1,4 +1,4 @@
-package sessions
+package report
 
 import (
 	"bytes"
@@ -11,6 +11,7 @@ import (
 	"testing"
 
 	"junco/model"
+	"junco/sessions"
 )
 
 func TestUnitAndColumnNames(t *testing.T) {
@@ -194,13 +195,13 @@ func TestExportAndWriteNew(t *testing.T) {
 	if err != nil || !bytes.Equal(js[0].Data, mustEncode(t, doc)) {
 		t.Errorf("json export differs from the document: %v", err)
 	}
-	written, err := WriteNew(dir, js)
+	written, err := sessions.WriteNew(dir, js)
 	if err != nil || len(written) != 1 {
 		t.Fatal(err)
 	}
 	before, _ := os.ReadFile(written[0])
 	// A second export into the same directory replaces nothing.
-	_, err = WriteNew(dir, append(csvs, js...))
+	_, err = sessions.WriteNew(dir, append(csvs, js...))
 	if err == nil || !strings.Contains(err.Error(), "d7-r1.json exists") {
 		t.Errorf("overwrite: %v", err)
 	}
@@ -210,7 +211,7 @@ func TestExportAndWriteNew(t *testing.T) {
 	if after, _ := os.ReadFile(written[0]); !bytes.Equal(before, after) {
 		t.Error("existing file changed")
 	}
-	if _, err := WriteNew(dir, []File{{Name: "../escape.csv"}}); err == nil {
+	if _, err := sessions.WriteNew(dir, []File{{Name: "../escape.csv"}}); err == nil {
 		t.Error("a path in a file name was accepted")
 	}
 	if _, err := ParseExportFormat("pdf"); err == nil || !strings.Contains(err.Error(), "md") {
