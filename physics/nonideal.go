@@ -80,7 +80,7 @@ func (s *Static) prepareEffects() error {
 	if math.IsInf(n0, 0) || math.IsNaN(n0) || n0 <= 0 {
 		n0 = s.N0
 	}
-	s.SCR = SCRParams{Ni: s.Ni, P0: s.P0, N0: n0, TauN: tn, TauP: tp, Vt: s.Vt}
+	s.SCR = SCRParams{Ni: s.Ni, P0: s.P0, N0: n0, TauN: tn, TauP: tp, Vt: s.Vt, Local: s.localLifetimes()}
 	if e.SRH && (t < 200 || t > 400) {
 		s.Flags = append(s.Flags, Flag{FlagLifetimeTemp, []string{"recombination", "generation", "lifetime"},
 			fmt.Sprintf("lifetimes are taken as temperature independent; at %g K they are an extrapolation of room-temperature values (trusted 200-400 K)", t)})
@@ -112,6 +112,41 @@ func (s *Static) prepareEffects() error {
 		s.computeBreakdown()
 	}
 	return nil
+}
+
+// localLifetimes returns the SRH lifetimes of the depletion region at
+// position x, tau(N(x)): the doping-dependent SRH part of the default
+// lifetime (Material.MinorityLifetime) at the local total doping |N(x)|,
+// or the user's lifetime where one is given (then the same everywhere,
+// as the user gives one number per carrier). A step junction has one pair
+// per side. The depletion region of a one-sided junction lies in the
+// lightly doped side, so its generation takes that side's lifetimes, not
+// the heavily doped side's.
+func (s *Static) localLifetimes() func(x float64) (float64, float64) {
+	d := s.Device
+	m := d.Material
+	at := func(n float64) (float64, float64) {
+		tn, tp := m.MinorityLifetime(Electron, n).SRH, m.MinorityLifetime(Hole, n).SRH
+		if d.TauN > 0 {
+			tn = d.TauN
+		}
+		if d.TauP > 0 {
+			tp = d.TauP
+		}
+		return tn, tp
+	}
+	if d.Profile == Abrupt {
+		tnP, tpP := at(d.Na)
+		tnN, tpN := at(d.Nd)
+		return func(x float64) (float64, float64) {
+			if x < 0 {
+				return tnP, tpP
+			}
+			return tnN, tpN
+		}
+	}
+	j := s.Junction
+	return func(x float64) (float64, float64) { return at(math.Abs(j.NetDoping(x))) }
 }
 
 // layerLength returns the length of a region used for its resistance: the
@@ -156,11 +191,15 @@ func (s *Static) computeBreakdown() {
 	b.ThicknessN, b.AssumedN = thick(d.Wn, d.NThickness, dep0.Xn)
 	a := &avalanche{j: s.Junction, c: im.at(t), thickP: b.ThicknessP, thickN: b.ThicknessN, vbi: s.Vbi}
 	nb := d.Na * d.Nd / (d.Na + d.Nd)
-	b.SzeGibbons = SzeGibbonsBreakdown(d.Profile, s.Eg, nb, d.Gradient)
-	// First guess of the peak field from the Sze-Gibbons voltage.
-	guess := math.Sqrt(2 * Q * nb * b.SzeGibbons / s.Junction.Eps)
+	sg := SzeGibbonsBreakdown(d.Profile, s.Eg, nb, d.Gradient)
+	if SzeGibbonsFitted(m.Key) {
+		b.SzeGibbons = sg
+	}
+	// First guess of the peak field from the Sze-Gibbons voltage (only a
+	// starting point of the search, so it serves outside its materials).
+	guess := math.Sqrt(2 * Q * nb * sg / s.Junction.Eps)
 	if d.Profile == LinearGraded {
-		guess = 1.5 * b.SzeGibbons / math.Cbrt(12*s.Junction.Eps*b.SzeGibbons/(Q*d.Gradient))
+		guess = 1.5 * sg / math.Cbrt(12*s.Junction.Eps*sg/(Q*d.Gradient))
 	}
 	if !(guess > 0) || math.IsInf(guess, 0) {
 		guess = 3e7
