@@ -268,17 +268,23 @@ func CVCurve(s Spec, r Range) (Curve, Curve, error) {
 // JunctionProfiles samples the electrostatics across the junction at the
 // spec's bias: charge density (C/cm^3 shown as C/m^3 SI), field (V/m),
 // potential (V) and the band edges Ec, Ev and the Fermi levels (eV,
-// relative to the p-side Fermi level), against position in um. It returns
-// an error when the depletion approximation does not apply at that bias.
+// relative to the p-side Fermi level), against position in um, in the
+// plain depletion approximation at the junction voltage (Point.Textbook).
+// It returns an error when the depletion approximation does not apply at
+// that bias.
 func JunctionProfiles(s Spec, n int) (charge, field, potential, bands Curve, err error) {
 	st, err := prepare(s)
 	if err != nil {
 		return
 	}
 	p := st.At(s.Bias)
-	pts := p.Depletion.Profile(n)
+	// The plain depletion approximation at the junction voltage: its
+	// potential spans the whole Vbi - Vj, so that the bands join the
+	// neutral regions; the tail-corrected solution of the results
+	// (Point.Depletion) leaves 2kT/q to the undrawn majority tails.
+	pts := p.Textbook.Profile(n)
 	if pts == nil {
-		err = fmt.Errorf("%s", p.Depletion.Problem)
+		err = fmt.Errorf("%s", p.Textbook.Problem)
 		return
 	}
 	xs := make([]float64, len(pts))

@@ -111,3 +111,119 @@ func TestSzeGibbonsOnlyForItsMaterials(t *testing.T) {
 		}
 	}
 }
+
+// The electrostatic built-in potential includes band-gap narrowing, split
+// evenly between the band edges: Vbi = Vt ln(p0 n0/(ni,eff,p ni,eff,n)).
+// Reference: equating the Fermi levels of the two neutral regions with
+// Boltzmann statistics, p0 = Nv exp(-(EF - Ev)/kT), n0 = Nc exp(-(Ec - EF)/kT),
+// gives q Vbi = kT ln(p0 n0/ni^2) - dEv,p - dEc,n (Sze & Ng 2007, eq. 2.8
+// with the band edges moved); the even split dEv = dEc = dEg/2 (an
+// assumption, common practice in device simulation; from memory) gives
+// the formula above, which this project's numerical solver also uses. At
+// 1e20/1e20 cm^-3 the potential without narrowing (1.192 V) exceeded the
+// band gap; with it Vbi stays below Eg.
+func TestBuiltInPotentialWithBGN(t *testing.T) {
+	for _, n := range [][2]float64{{1e17, 1e16}, {1e19, 1e18}, {1e20, 1e20}} {
+		s := prep(t, siDevice(n[0], n[1], 300, Effects{BGN: true, BGNModel: BGNKlaassen1992}))
+		want := s.Vt * math.Log(s.P0*s.N0/(s.NiEffP*s.NiEffN))
+		if math.Abs(s.Vbi-want) > 1e-9 {
+			t.Errorf("%g/%g: Vbi = %.6f V, Vt ln(p0 n0/(ni,eff,p ni,eff,n)) = %.6f V", n[0], n[1], s.Vbi, want)
+		}
+		if d := s.VbiNoBGN - s.Vbi - (s.DEgP+s.DEgN)/2; math.Abs(d) > 1e-9 {
+			t.Errorf("%g/%g: Vbi lowered by %.4g V, want (dEg,p + dEg,n)/2", n[0], n[1], s.VbiNoBGN-s.Vbi)
+		}
+		if n[0] == 1e20 && !(s.Vbi < s.Eg) {
+			t.Errorf("1e20/1e20: Vbi = %.4f V is not below Eg = %.4f eV", s.Vbi, s.Eg)
+		}
+	}
+}
+
+// W and Cj include the majority-carrier tails: (Vbi - V - 2kT/q) replaces
+// (Vbi - V) in the step junction (Sze & Ng 2007, section 2.2.1, the
+// correction after eq. 2.14, from memory). Reference values (computed from
+// that formula, with the plain form for comparison): Si, eps_r 11.7, one-
+// sided N = 1e16 cm^-3, A = 1e-3 cm^2, Vbi = 0.8 V, 300 K: C(-1 V) =
+// 2.1787e-11 F, W = 0.4755 um; C(-5 V) = 1.2015e-11 F. At 0 V in Si
+// 1e17/1e16 the numerical solver's Cj lies 3.6 % above the plain form,
+// sqrt(Vbi/(Vbi - 2 Vt)).
+func TestDepletionWithMajorityTails(t *testing.T) {
+	eps := 11.7 * Eps0
+	j := Junction{Eps: eps, Na: 1e40, Nd: 1e22, Profile: Abrupt}
+	for _, c := range []struct{ v, cap, w float64 }{{-1, 2.1787e-11, 0.4755e-6}, {-5, 1.2015e-11, math.NaN()}} {
+		d := j.SolveWithTails(0.8, 2*ThermalVoltage(300), c.v)
+		if got := d.CapPerArea * 1e-7; math.Abs(got/c.cap-1) > 5e-4 {
+			t.Errorf("C(%g V) = %.5g F, want %.5g F", c.v, got, c.cap)
+		}
+		if !math.IsNaN(c.w) && math.Abs(d.W/c.w-1) > 5e-4 {
+			t.Errorf("W(%g V) = %.5g m, want %.5g m", c.v, d.W, c.w)
+		}
+	}
+	s := prep(t, siDevice(1e17, 1e16, 300, Effects{}))
+	p := s.At(0)
+	want := math.Sqrt(s.Vbi / (s.Vbi - 2*s.Vt))
+	if r := p.Cap / p.CapTextbook; math.Abs(r/want-1) > 1e-9 {
+		t.Errorf("Cj/Cj,textbook = %.6f, want sqrt(Vbi/(Vbi - 2Vt)) = %.6f", r, want)
+	}
+	if math.Abs(want-1.036) > 0.003 {
+		t.Errorf("tail factor %.4f, the solver's +3.6 %%", want)
+	}
+	// The peak field obeys Gauss's law at the tail-corrected edge.
+	if e := Q * s.Device.Nd * p.Depletion.Xn / s.Junction.Eps; math.Abs(p.Depletion.PeakField/e-1) > 1e-12 {
+		t.Errorf("Emax %.6g, q Nd xn/eps %.6g", p.Depletion.PeakField, e)
+	}
+}
+
+// The linearly graded junction's W and Cj use the gradient voltage
+// Vg = (2kT/3q) ln(a^2 eps kT/(8 q^2 ni^3)) (B. R. Chawla, H. K. Gummel,
+// IEEE Trans. Electron Devices ED-18, 178 (1971); Sze & Ng 2007, eq.
+// 2.38), not the eq.-2.37 built-in potential: the 1/C^3 intercept is Vg.
+// Si, a = 1e20 cm^-4, 300 K: Vg = 0.570 V; the numerical solver's 1/C^3
+// intercept is 0.5726 V (eq. 2.37 gives 0.669 V).
+func TestGradedJunctionUsesGradientVoltage(t *testing.T) {
+	d := siDevice(1e19, 1e19, 300, Effects{})
+	d.Profile, d.Gradient = LinearGraded, 1e20*1e8
+	s := prep(t, d)
+	if math.Abs(s.GradientVoltage-0.5726) > 0.005 {
+		t.Errorf("Vg = %.4f V, the solver's intercept 0.5726 V", s.GradientVoltage)
+	}
+	c3 := func(v float64) float64 { c := s.At(v).CapPerArea; return 1 / (c * c * c) }
+	v1, v2 := -0.5, -2.0
+	y1, y2 := c3(v1), c3(v2)
+	intercept := v1 - y1*(v2-v1)/(y2-y1) // 1/C^3 = k (Vg - V): zero at V = Vg
+	if math.Abs(intercept-s.GradientVoltage) > 1e-6 {
+		t.Errorf("1/C^3 intercept %.5f V, want Vg = %.5f V", intercept, s.GradientVoltage)
+	}
+	if math.Abs(intercept-0.5726) > 0.005 {
+		t.Errorf("1/C^3 intercept %.4f V, the solver's 0.5726 V", intercept)
+	}
+}
+
+// Intrinsic regime: Si at 600 K with Nd = 1e15 cm^-3 has ni = 4.2e15 cm^-3
+// above the doping. The majority density follows neutrality,
+// n0 = N/2 + sqrt(N^2/4 + ni^2) (Neamen 4th ed., eq. 4.60; Sze & Ng 2007,
+// section 1.4.3), in the ideal model too, and a flag names the regime
+// when ni exceeds a tenth of a side's doping.
+func TestIntrinsicRegime(t *testing.T) {
+	s := prep(t, siDevice(1e19, 1e15, 600, Effects{}))
+	nd := s.Device.Nd
+	n0 := nd/2 + math.Sqrt(nd*nd/4+s.Ni*s.Ni)
+	if math.Abs(s.N.Doping/n0-1) > 1e-12 || math.Abs(s.N0/n0-1) > 1e-12 {
+		t.Errorf("n0 = %.5g (transport) %.5g (majority), want %.5g m^-3", s.N.Doping, s.N0, n0)
+	}
+	if want := Q * s.Ni * s.Ni * s.DP / (s.LP * n0) * s.Device.Area; math.Abs(s.IsP/want-1) > 1e-9 {
+		t.Errorf("Is,p = %.5g A, q ni^2 Dp/(Lp n0) A = %.5g A", s.IsP, want)
+	}
+	found := false
+	for _, f := range s.Flags {
+		found = found || f.Code == FlagIntrinsic
+	}
+	if !found {
+		t.Errorf("ni = %.3g cm^-3 above Nd = 1e15 cm^-3 and no %q flag", s.Ni/perCm3, FlagIntrinsic)
+	}
+	// Not flagged at 300 K.
+	for _, f := range prep(t, siDevice(1e19, 1e15, 300, Effects{})).Flags {
+		if f.Code == FlagIntrinsic {
+			t.Errorf("flagged at 300 K")
+		}
+	}
+}

@@ -20,13 +20,13 @@ func (s *Static) prepareEffects() error {
 	dd, _ := m.Dopant(d.DonorSpecies)
 	s.AcceptorLevel = m.EffectiveDopantLevel(da, d.Na)
 	s.DonorLevel = m.EffectiveDopantLevel(dd, d.Nd)
-	s.P0, s.N0 = d.Na, d.Nd
+	s.P0, s.N0 = s.P.Doping, s.N.Doping // majority densities with ni (MajorityDensity)
 	s.NaIonised, s.NdIonised = d.Na, d.Nd
 	s.VbiFullIonisation = s.Vbi
 	if e.Ionisation {
 		s.P0, s.NaIonised = IonisedDensity(d.Na, s.AcceptorLevel, m.Nv(t), s.Ni, t)
 		s.N0, s.NdIonised = IonisedDensity(d.Nd, s.DonorLevel, m.Nc(t), s.Ni, t)
-		s.Vbi = s.VbiFullIonisation + s.Vt*math.Log(s.P0*s.N0/(d.Na*d.Nd))
+		s.Vbi = s.VbiFullIonisation + s.Vt*math.Log(s.P0*s.N0/(s.P.Doping*s.N.Doping))
 		if !(s.Vbi > 0) {
 			return fmt.Errorf("with incomplete ionisation at %g K the built-in potential is %.3g V: no junction forms", t, s.Vbi)
 		}
@@ -53,6 +53,36 @@ func (s *Static) prepareEffects() error {
 				fmt.Sprintf("band-gap narrowing fitted near 300 K is applied unchanged at %g K (trusted %g-%g K)", t, bgnTMin, bgnTMax)})
 		}
 	}
+	s.VbiNoBGN = s.Vbi
+	if e.BGN {
+		// Electrostatic built-in potential with band-gap narrowing, each
+		// region's narrowing split evenly between its band edges:
+		// Vbi = Vt ln(p0 n0/(ni,eff,p ni,eff,n)) = VbiNoBGN - (dEg,p + dEg,n)/2.
+		// Only the majority band's shift enters the electrostatic
+		// potential, half the narrowing under this split (the split is an
+		// assumption; published splits differ). The graded junction takes
+		// the narrowing at the doping of its zero-bias depletion edges.
+		dp, dn := s.DEgP, s.DEgN
+		if d.Profile == LinearGraded {
+			dep0 := s.Junction.Solve(s.Vbi, 0)
+			dp, _ = BandGapNarrowing(m, e.BGNModel, math.Abs(s.Junction.NetDoping(-dep0.Xp)))
+			dn, _ = BandGapNarrowing(m, e.BGNModel, math.Abs(s.Junction.NetDoping(dep0.Xn)))
+		}
+		s.Vbi -= (dp + dn) / 2
+		if !(s.Vbi > 0) {
+			return fmt.Errorf("with band-gap narrowing at %g K the built-in potential is %.3g V: no junction forms", t, s.Vbi)
+		}
+	}
+	// Majority-carrier tails: 2kT/q for the step junction; the gradient
+	// voltage of Chawla & Gummel for the graded one (bounded so that the
+	// depleted drop never exceeds Vbi - 2kT/q, the step junction's value,
+	// which the graded junction approaches when its edges reach the
+	// plateaus; this bound is junco's own interpolation).
+	s.Tail, s.GradientVoltage = 2*s.Vt, math.NaN()
+	if d.Profile == LinearGraded {
+		s.GradientVoltage = GradientVoltage(d.Gradient, s.Junction.Eps, s.Ni, t) - (s.VbiNoBGN - s.Vbi)
+		s.Tail = s.Vbi - math.Min(s.GradientVoltage, s.Vbi-2*s.Vt)
+	}
 	pq, nq := s.P, s.N
 	pq.Doping, nq.Doping = s.P0, s.N0
 	if e.BGN {
@@ -76,7 +106,7 @@ func (s *Static) prepareEffects() error {
 	if d.TauP > 0 {
 		tp = d.TauP
 	}
-	n0 := math.Exp(2*math.Log(s.Ni) + s.Vbi/s.Vt - math.Log(s.P0))
+	n0 := math.Exp(2*math.Log(s.Ni) + s.VbiNoBGN/s.Vt - math.Log(s.P0))
 	if math.IsInf(n0, 0) || math.IsNaN(n0) || n0 <= 0 {
 		n0 = s.N0
 	}
@@ -300,8 +330,11 @@ func (s *Static) junction(vj float64) jstate {
 	st.dp, st.gdp, st.pep = side(s.NEff)
 	var dep Depletion
 	if e.SRH {
-		vg := math.Min(vj, s.Vbi-2*vt)
-		dep = s.Junction.Solve(s.Vbi, vg)
+		// The SNS integral is written with ni and the carrier densities of
+		// the plain depletion approximation, which its own tails complete:
+		// it takes VbiNoBGN and no tail correction.
+		vg := math.Min(vj, s.VbiNoBGN-2*vt)
+		dep = s.Junction.Solve(s.VbiNoBGN, vg)
 		j, dj := SCRCurrentDensity(dep, vj, s.SCR)
 		st.scr, st.gscr = j*a, dj*a
 	}
@@ -546,8 +579,8 @@ func (s *Static) smallSignal(p *Point) {
 	}
 	p.DiffusionCap = cd
 	cj := p.Cap
-	if !(cj > 0) || vj > s.Vbi-2*s.Vt {
-		cj = s.Junction.Solve(s.Vbi, math.Min(vj, s.Vbi-2*s.Vt)).CapPerArea * s.Device.Area
+	if vc := s.Vbi - s.Tail - 2*s.Vt; !(cj > 0) || vj > vc {
+		cj = s.DepletionAt(math.Min(vj, vc)).CapPerArea * s.Device.Area
 	}
 	p.TotalCap = cj + cd
 }

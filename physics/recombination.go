@@ -26,14 +26,14 @@ func (d Depletion) depletionPotential(x float64) (psi, e float64) {
 	}
 	u := math.Min(x, d.Xn)
 	qx := j.sideCharge(d.Xn, j.Nd)
-	return (d.Vbi - d.V) - k*(qx*(d.Xn-u)-f(d.Xn, j.Nd)+f(u, j.Nd)), k * (qx - j.sideCharge(u, j.Nd))
+	return d.Drop() - k*(qx*(d.Xn-u)-f(d.Xn, j.Nd)+f(u, j.Nd)), k * (qx - j.sideCharge(u, j.Nd))
 }
 
 // positionOfPotential inverts depletionPotential: the x at which psi = ps,
 // clamped to [-xp, xn]; closed form for the step junction, bisection for
 // the graded one.
 func (d Depletion) positionOfPotential(ps float64) float64 {
-	tot := d.Vbi - d.V
+	tot := d.Drop()
 	if ps <= 0 {
 		return -d.Xp
 	}
@@ -117,7 +117,7 @@ func SCRCurrentDensity(dep Depletion, v float64, sp SCRParams) (j, dj float64) {
 	ni := sp.Ni
 	n1 := ni * math.Exp(sp.TrapLevel/vt)
 	p1 := ni * ni / n1
-	psiTot := dep.Vbi - dep.V
+	psiTot := dep.Drop()
 	lc := (v - dep.V) / (2 * vt) // the bias beyond the geometry's, split evenly
 	lnP0, lnN0 := math.Log(sp.P0), math.Log(sp.N0)
 	num := ni * ni * math.Expm1(v/vt)
@@ -277,5 +277,5 @@ func geometricSlope(dep Depletion) float64 {
 	if dep.j.Profile == LinearGraded {
 		m = 1.0 / 3
 	}
-	return m / (dep.Vbi - dep.V)
+	return m / dep.Drop()
 }
