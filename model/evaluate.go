@@ -249,8 +249,10 @@ func (r *Result) Groups() []string {
 }
 
 // JSON encodes the result as one JSON object: every quantity under its key
-// in SI units (null where not applicable), "depletion_valid", and "flags"
-// (code and message). Keys keep the display order.
+// in SI units (null where not applicable), "depletion_valid",
+// "ionisation_model" (the dopant-level model used, physics.IonisationModel;
+// null with ionisation off), and "flags" (code and message). Keys keep the
+// display order.
 func (r *Result) JSON() []byte {
 	var b bytes.Buffer
 	b.WriteString("{\n")
@@ -258,6 +260,11 @@ func (r *Result) JSON() []byte {
 		fmt.Fprintf(&b, "  %q: %s,\n", q.Key, jsonNumber(q.Value))
 	}
 	fmt.Fprintf(&b, "  \"depletion_valid\": %t,\n", r.Point.Depletion.Valid)
+	if e := r.Static.Effects; e.Ionisation {
+		fmt.Fprintf(&b, "  \"ionisation_model\": %q,\n", e.IonisationModel.String())
+	} else {
+		b.WriteString("  \"ionisation_model\": null,\n")
+	}
 	b.WriteString("  \"flags\": [")
 	for i, f := range r.Flags {
 		if i > 0 {

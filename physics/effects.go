@@ -30,10 +30,14 @@ type Effects struct {
 	Breakdown bool
 	// BGNModel selects the band-gap narrowing parameter set.
 	BGNModel BGNModel
+	// IonisationModel selects the dopant-level description of Ionisation;
+	// the zero value is the textbook single level.
+	IonisationModel IonisationModel
 }
 
 // RealisticEffects returns the default set of effects: every effect on,
-// band-gap narrowing by Klaassen, Slotboom and de Graaff (1992).
+// band-gap narrowing by Klaassen, Slotboom and de Graaff (1992), the
+// single-level ionisation model.
 func RealisticEffects() Effects {
 	return Effects{SRH: true, HighInjection: true, SeriesResistance: true, BGN: true, Ionisation: true,
 		Breakdown: true, BGNModel: BGNKlaassen1992}

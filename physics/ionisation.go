@@ -1,6 +1,9 @@
 package physics
 
-import "math"
+import (
+	"fmt"
+	"math"
+)
 
 // pearsonBardeenAlphaSi is the coefficient of the ionisation-energy
 // lowering E(N) = E0 - alpha N^(1/3) in silicon, eV m (3.1e-8 eV cm).
@@ -15,6 +18,59 @@ const pearsonBardeenAlphaSi = 3.1e-8 * 1e-2
 // silicon value of Pearson & Bardeen (1949) scaled by 11.7/eps_r for other
 // hosts (approximate).
 func (m *Material) IonisationLowering() float64 { return pearsonBardeenAlphaSi * 11.7 / m.EpsR }
+
+// IonisationModel selects the description of the dopant levels used for
+// incomplete ionisation.
+type IonisationModel int
+
+const (
+	// IonisationSingleLevel is the textbook single level: the isolated
+	// dopant's ionisation energy and degeneracy at every density, every
+	// dopant localised (Sze & Ng 2007, section 1.4.2; Neamen 4th ed.,
+	// section 4.5). It is the default. Above about 1e18 cm^-3 in Si it
+	// overstates freeze-out (no level lowering, no impurity band; such
+	// dopings are flagged degenerate).
+	IonisationSingleLevel IonisationModel = iota
+	// IonisationLowered lowers the level with density, E = E0 - alpha
+	// N^(1/3) (after Pearson & Bardeen 1949), and counts a fraction
+	// 1 - b(N) of the dopants as ionised (impurity band), with b of the
+	// form of Altermatt et al. (2006) but junco's own parameters
+	// (LoweredDopantLevel): not a published parameter set, and not
+	// checked against measured ionised fractions. Si:P 1e17 cm^-3 at
+	// 77 K: ionised 0.35 against the single level's 0.135.
+	IonisationLowered
+)
+
+// String returns "single-level" or "lowered".
+func (im IonisationModel) String() string {
+	if im == IonisationLowered {
+		return "lowered"
+	}
+	return "single-level"
+}
+
+// ParseIonisationModel reads "single-level" (also "" for the default) or
+// "lowered".
+func ParseIonisationModel(s string) (IonisationModel, error) {
+	switch s {
+	case "", "single-level":
+		return IonisationSingleLevel, nil
+	case "lowered":
+		return IonisationLowered, nil
+	}
+	return 0, fmt.Errorf("ionisation model %q: allowed single-level (default) or lowered", s)
+}
+
+// DopantLevelFor returns the level of dopant d at total density n (m^-3)
+// in material m under ionisation model im: the isolated level (energy
+// d.Ionisation, degeneracy d.Degeneracy, all localised) for
+// IonisationSingleLevel, EffectiveDopantLevel for IonisationLowered.
+func (m *Material) DopantLevelFor(d Dopant, n float64, im IonisationModel) DopantLevel {
+	if im == IonisationLowered {
+		return m.LoweredDopantLevel(d, n)
+	}
+	return DopantLevel{Energy: d.Ionisation, Degeneracy: d.Degeneracy, Localised: 1, MottDensity: math.Inf(1)}
+}
 
 // DopantLevel is the effective description of one dopant species at one
 // density: the lowered ionisation energy, the degeneracy and the fraction b
@@ -31,8 +87,15 @@ type DopantLevel struct {
 	MottDensity float64
 }
 
-// EffectiveDopantLevel returns the level of dopant d at total density n
-// (m^-3) in material m.
+// EffectiveDopantLevel returns the level of dopant d at density n (m^-3)
+// under the default ionisation model (IonisationSingleLevel; see
+// DopantLevelFor).
+func (m *Material) EffectiveDopantLevel(d Dopant, n float64) DopantLevel {
+	return m.DopantLevelFor(d, n, IonisationSingleLevel)
+}
+
+// LoweredDopantLevel returns the lowered level of dopant d at total
+// density n (m^-3) in material m (the IonisationLowered model).
 //
 // Formulas: E(N) = max(E0 - alpha N^(1/3), 0) (Pearson & Bardeen 1949) with
 // alpha from IonisationLowering; the Mott density N_M = (E0/alpha)^3 where
@@ -41,7 +104,7 @@ type DopantLevel struct {
 // own choice N_b = N_M and exponent 2 (approximate, not a fit). In silicon
 // N_M = 3.1e18 cm^-3 for phosphorus, close to the measured metal-insulator
 // transition near 3.7e18 cm^-3 (from memory).
-func (m *Material) EffectiveDopantLevel(d Dopant, n float64) DopantLevel {
+func (m *Material) LoweredDopantLevel(d Dopant, n float64) DopantLevel {
 	alpha := m.IonisationLowering()
 	e := d.Ionisation - alpha*math.Cbrt(n)
 	if e < 0 {

@@ -18,8 +18,8 @@ func (s *Static) prepareEffects() error {
 	s.Effects = e
 	da, _ := m.Dopant(d.AcceptorSpecies)
 	dd, _ := m.Dopant(d.DonorSpecies)
-	s.AcceptorLevel = m.EffectiveDopantLevel(da, d.Na)
-	s.DonorLevel = m.EffectiveDopantLevel(dd, d.Nd)
+	s.AcceptorLevel = m.DopantLevelFor(da, d.Na, e.IonisationModel)
+	s.DonorLevel = m.DopantLevelFor(dd, d.Nd, e.IonisationModel)
 	s.P0, s.N0 = s.P.Doping, s.N.Doping // majority densities with ni (MajorityDensity)
 	s.NaIonised, s.NdIonised = d.Na, d.Nd
 	s.VbiFullIonisation = s.Vbi
@@ -33,7 +33,7 @@ func (s *Static) prepareEffects() error {
 		fa, fd := s.NaIonised/d.Na, s.NdIonised/d.Nd
 		if fa < 0.9 || fd < 0.9 {
 			s.Flags = append(s.Flags, Flag{FlagIncompleteIon, []string{"built-in potential", "ionised", "majority", "diffusion current", "series resistance"},
-				fmt.Sprintf("incomplete ionisation: %.0f%% of the acceptors and %.0f%% of the donors are ionised at %g K (Fermi-Dirac occupation of the dopant levels)", 100*fa, 100*fd, t)})
+				fmt.Sprintf("incomplete ionisation: %.0f%% of the acceptors and %.0f%% of the donors are ionised at %g K (Fermi-Dirac occupation of the dopant levels, %s model)", 100*fa, 100*fd, t, e.IonisationModel)})
 		}
 	}
 	s.NiEffP, s.NiEffN = s.Ni, s.Ni
