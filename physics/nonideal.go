@@ -426,8 +426,8 @@ func (s *Static) SolveFrom(v, guess float64) Point {
 		p.DiffusionN, p.DiffusionP, p.Diffusion = p.IdealN, p.IdealP, p.IdealCurrent
 		p.Converged = true
 		p.Power = math.Abs(v * p.Current)
-		p.InjectionP = s.Ni * s.Ni / (s.Device.Na * s.Device.Na) * e
-		p.InjectionN = s.Ni * s.Ni / (s.Device.Nd * s.Device.Nd) * e
+		p.InjectionP = s.Ni * s.Ni / (s.P0 * s.P0) * e
+		p.InjectionN = s.Ni * s.Ni / (s.N0 * s.N0) * e
 		return p
 	}
 	rs := s.Rs
