@@ -63,6 +63,9 @@ const (
 	FlagLifetimeTemp      = "lifetime-temperature" // lifetimes are taken as temperature independent
 	FlagSeriesDominates   = "series-resistance"    // the series drop exceeds 10% of the forward bias
 	FlagBreakdownNotFound = "breakdown-not-found"
+	// FlagBreakdownTemperature: breakdown away from 300 K with a
+	// temperature law not checked against measurement.
+	FlagBreakdownTemperature = "breakdown-temperature"
 )
 
 // Gauss-Legendre 8-point nodes (positive half) and weights (Abramowitz &

@@ -284,6 +284,10 @@ func (s *Static) computeBreakdown() {
 		s.Flags = append(s.Flags, Flag{FlagTunnelling, []string{"breakdown"},
 			fmt.Sprintf("breakdown %.3g V lies between 4 and 6 Eg/q: tunnelling and avalanche both contribute and the avalanche estimate is an upper bound (Sze & Ng 2007)", vr)})
 	}
+	if im.TempLawCheck == "" && math.Abs(t-300) > 10 {
+		s.Flags = append(s.Flags, Flag{FlagBreakdownTemperature, []string{"breakdown", "multiplication"},
+			fmt.Sprintf("breakdown at %g K: the temperature law of the %s impact-ionisation coefficients is not checked against measured breakdown voltages (for Si it gives about +0.2 %%/K, perhaps twice the measured coefficient)", t, m.Name)})
+	}
 	if t < im.TMin || t > im.TMax {
 		s.Flags = append(s.Flags, Flag{FlagImpactRange, []string{"breakdown", "multiplication"},
 			fmt.Sprintf("impact-ionisation coefficients extrapolated to %g K (trusted %g-%g K)", t, im.TMin, im.TMax)})
