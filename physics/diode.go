@@ -147,11 +147,13 @@ type Static struct {
 // temperature, area or widths; an unknown dopant; Na Nd <= ni^2).
 //
 // Formulas: Vt = kT/q; Eg Varshni; ni (Material.Ni); Vbi
-// (BuiltInPotential or GradedBuiltInPotential); minority mobilities at the
+// (BuiltInPotential or GradedBuiltInPotential, then with ionisation and
+// band-gap narrowing in prepareEffects); minority mobilities at the
 // doping of the region the carrier is minority in (Material.Mobility);
 // D = mu kT/q (Einstein); tau (MinorityLifetime or override); L = sqrt(D
-// tau); Js = q ni^2 [Dn/(Ln Na) G_p + Dp/(Lp Nd) G_n] (SaturationCurrentDensity);
-// Is = A Js.
+// tau); majority densities p0, n0 = N/2 + sqrt(N^2/4 + ni^2)
+// (MajorityDensity); Js = q ni^2 [Dn/(Ln p0) G_p + Dp/(Lp n0) G_n]
+// (SaturationCurrentDensity); Is = A Js.
 func (d Device) Prepare() (*Static, error) {
 	m := d.Material
 	if m == nil {
