@@ -255,6 +255,19 @@ func TestIonisationSingleLevelDefault(t *testing.T) {
 	if f := sl.NdIonised / nd; !(f > 0.2) {
 		t.Errorf("lowered option: ionised %.3f, want the lowered level's larger fraction", f)
 	}
+	// Above the Mott density the single level gives way to a band: the
+	// Mott criterion N^(1/3) a* = 0.26 (Edwards & Sienko, Phys. Rev. B 17,
+	// 2575 (1978); from memory) with the hydrogenic radius
+	// a* = q^2/(8 pi eps E0) puts it at 6.9e18 cm^-3 for a 45 meV level in
+	// Si (computed); Si:B 1e19 cm^-3 at 300 K counts as fully ionised, and
+	// is flagged.
+	if nm := m.MottDensity(p) / perCm3; math.Abs(nm/6.87e18-1) > 0.01 {
+		t.Errorf("Mott density %.4g cm^-3, want 6.87e18", nm)
+	}
+	sh := prep(t, siDevice(1e19, 1e16, 300, Effects{Ionisation: true}))
+	if f := sh.NaIonised / sh.Device.Na; f != 1 || !hasFlag(sh.Flags, FlagMottTransition) {
+		t.Errorf("Si:B 1e19 at 300 K: ionised %.4f, flags %v", f, sh.Flags)
+	}
 	if m, err := ParseIonisationModel("lowered"); err != nil || m != IonisationLowered {
 		t.Errorf("parse lowered: %v %v", m, err)
 	}

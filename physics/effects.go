@@ -58,7 +58,8 @@ const (
 	FlagPunchThrough      = "punch-through"     // a region is thinner than the depletion width at breakdown
 	FlagAssumedThickness  = "assumed-thickness" // a long region's thickness was assumed
 	FlagIncompleteIon     = "incomplete-ionisation"
-	FlagBGNModel          = "bgn-model" // no band-gap narrowing parameters or outside their range
+	FlagMottTransition    = "mott-transition" // doping within x10 below the dopant's Mott density
+	FlagBGNModel          = "bgn-model"       // no band-gap narrowing parameters or outside their range
 	FlagImpactRange       = "impact-ionisation-range"
 	FlagLifetimeTemp      = "lifetime-temperature" // lifetimes are taken as temperature independent
 	FlagSeriesDominates   = "series-resistance"    // the series drop exceeds 10% of the forward bias

@@ -25,11 +25,13 @@ type IonisationModel int
 
 const (
 	// IonisationSingleLevel is the textbook single level: the isolated
-	// dopant's ionisation energy and degeneracy at every density, every
-	// dopant localised (Sze & Ng 2007, section 1.4.2; Neamen 4th ed.,
-	// section 4.5). It is the default. Above about 1e18 cm^-3 in Si it
-	// overstates freeze-out (no level lowering, no impurity band; such
-	// dopings are flagged degenerate).
+	// dopant's ionisation energy and degeneracy, every dopant localised
+	// (Sze & Ng 2007, section 1.4.2; Neamen 4th ed., section 4.5), below
+	// the Mott density of the dopant (MottDensity); at and above it the
+	// dopants form a band and count as fully ionised. It is the default.
+	// The switch at the Mott density is abrupt (the single level knows no
+	// impurity band); dopings within a factor 10 below it are flagged
+	// (FlagMottTransition), where the single level overstates freeze-out.
 	IonisationSingleLevel IonisationModel = iota
 	// IonisationLowered lowers the level with density, E = E0 - alpha
 	// N^(1/3) (after Pearson & Bardeen 1949), and counts a fraction
@@ -69,7 +71,25 @@ func (m *Material) DopantLevelFor(d Dopant, n float64, im IonisationModel) Dopan
 	if im == IonisationLowered {
 		return m.LoweredDopantLevel(d, n)
 	}
-	return DopantLevel{Energy: d.Ionisation, Degeneracy: d.Degeneracy, Localised: 1, MottDensity: math.Inf(1)}
+	nm := m.MottDensity(d)
+	b := 1.0
+	if n >= nm {
+		b = 0
+	}
+	return DopantLevel{Energy: d.Ionisation, Degeneracy: d.Degeneracy, Localised: b, MottDensity: nm}
+}
+
+// MottDensity returns the density (m^-3) above which dopant d in material
+// m forms a metallic impurity band, from the Mott criterion
+// N_c^(1/3) a* = 0.26 (P. P. Edwards, M. J. Sienko, Phys. Rev. B 17, 2575
+// (1978); N. F. Mott, Rev. Mod. Phys. 40, 677 (1968); from memory) with the
+// hydrogenic Bohr radius of the level, a* = q^2/(8 pi eps E0). Si with a
+// 45 meV level: 6.9e18 cm^-3 (measured for Si:P about 3.7e18 cm^-3, from
+// memory: the estimate is good to a factor of two).
+func (m *Material) MottDensity(d Dopant) float64 {
+	a := Q / (8 * math.Pi * m.Permittivity() * d.Ionisation) // q^2/(8 pi eps E0 q) with E0 in eV
+	c := 0.26 / a
+	return c * c * c
 }
 
 // DopantLevel is the effective description of one dopant species at one

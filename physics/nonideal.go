@@ -30,6 +30,20 @@ func (s *Static) prepareEffects() error {
 		if !(s.Vbi > 0) {
 			return fmt.Errorf("with incomplete ionisation at %g K the built-in potential is %.3g V: no junction forms", t, s.Vbi)
 		}
+		for _, c := range []struct {
+			n  float64
+			lv DopantLevel
+			sp string
+		}{{d.Na, s.AcceptorLevel, d.AcceptorSpecies}, {d.Nd, s.DonorLevel, d.DonorSpecies}} {
+			if e.IonisationModel == IonisationSingleLevel && c.n > 0.1*c.lv.MottDensity {
+				what := "the single dopant level overstates freeze-out near it"
+				if c.n >= c.lv.MottDensity {
+					what = "the dopants are taken as a band, fully ionised"
+				}
+				s.Flags = append(s.Flags, Flag{FlagMottTransition, []string{"ionised", "majority", "built-in potential"},
+					fmt.Sprintf("%s at %.3g cm^-3 is near or above its Mott density %.3g cm^-3: %s", c.sp, c.n/perCm3, c.lv.MottDensity/perCm3, what)})
+			}
+		}
 		fa, fd := s.NaIonised/d.Na, s.NdIonised/d.Nd
 		if fa < 0.9 || fd < 0.9 {
 			s.Flags = append(s.Flags, Flag{FlagIncompleteIon, []string{"built-in potential", "ionised", "majority", "diffusion current", "series resistance"},
