@@ -128,7 +128,7 @@ func resultAt(s Spec, st *physics.Static, v float64) *Result {
 		{"band_gap_narrowing_n_eV", GroupHeavyDoping, "band-gap narrowing (n side)", "dEg,n", Energy, st.DEgN, nil},
 		{"effective_intrinsic_density_p_per_m3", GroupHeavyDoping, "effective ni (p side)", "ni,eff,p", Density, st.NiEffP, nil},
 		{"effective_intrinsic_density_n_per_m3", GroupHeavyDoping, "effective ni (n side)", "ni,eff,n", Density, st.NiEffN, nil},
-		{"built_in_potential_V", GroupElectrostatics, "built-in potential, Vt ln(p0 n0/ni^2)", "Vbi", Voltage, st.VbiNoBGN, nil},
+		{"built_in_potential_V", GroupElectrostatics, "built-in potential", "Vbi", Voltage, st.VbiNoBGN, nil},
 		{"built_in_potential_full_ionisation_V", GroupElectrostatics, "  with full ionisation", "Vbi,full", Voltage, st.VbiFullIonisation, nil},
 		{"built_in_potential_electrostatic_V", GroupElectrostatics, "  with BGN (electrostatic; W, Cj use it)", "Vbi,es", Voltage, st.Vbi, nil},
 		{"majority_tail_potential_V", GroupElectrostatics, "  majority-carrier tails (2kT/q or Vbi - Vg)", "Vtail", Voltage, st.Tail, nil},
