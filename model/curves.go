@@ -268,17 +268,23 @@ func CVCurve(s Spec, r Range) (Curve, Curve, error) {
 // JunctionProfiles samples the electrostatics across the junction at the
 // spec's bias: charge density (C/cm^3 shown as C/m^3 SI), field (V/m),
 // potential (V) and the band edges Ec, Ev and the Fermi levels (eV,
-// relative to the p-side Fermi level), against position in um. It returns
-// an error when the depletion approximation does not apply at that bias.
+// relative to the p-side Fermi level), against position in um, in the
+// plain depletion approximation at the junction voltage (Point.Textbook).
+// It returns an error when the depletion approximation does not apply at
+// that bias.
 func JunctionProfiles(s Spec, n int) (charge, field, potential, bands Curve, err error) {
 	st, err := prepare(s)
 	if err != nil {
 		return
 	}
 	p := st.At(s.Bias)
-	pts := p.Depletion.Profile(n)
+	// The plain depletion approximation at the junction voltage: its
+	// potential spans the whole Vbi - Vj, so that the bands join the
+	// neutral regions; the tail-corrected solution of the results
+	// (Point.Depletion) leaves 2kT/q to the undrawn majority tails.
+	pts := p.Textbook.Profile(n)
 	if pts == nil {
-		err = fmt.Errorf("%s", p.Depletion.Problem)
+		err = fmt.Errorf("%s", p.Textbook.Problem)
 		return
 	}
 	xs := make([]float64, len(pts))
@@ -322,10 +328,20 @@ func JunctionProfiles(s Spec, n int) (charge, field, potential, bands Curve, err
 }
 
 // MinorityProfiles samples the excess minority-carrier densities (m^-3) and
-// their diffusion current densities J = q D d(dn)/dx (A/m^2) along the two
-// quasi-neutral regions at the spec's bias, against the distance from each
-// depletion edge in um (p side negative). A long region is drawn over five
-// diffusion lengths.
+// their diffusion current densities (A/m^2) along the two quasi-neutral
+// regions at the spec's bias, against the distance from each depletion
+// edge in um (p side negative). A long region is drawn over five diffusion
+// lengths.
+//
+// Every profile is driven by what the results use: the junction voltage
+// Vj after the series-resistance drop, the edge densities of the
+// diffusion model at Vj (with high injection and band-gap narrowing when
+// on; physics.DiffusionSide.Injection) and the diffusion currents of the
+// results (Point.DiffusionN, DiffusionP, with multiplication in reverse).
+// The shape along each region is the low-injection solution of the
+// diffusion equation (physics.QuasiNeutral.ExcessProfile) with the
+// high-injection diffusivity at the edge, an approximation in high
+// injection.
 func MinorityProfiles(s Spec, n int) (density, current Curve, err error) {
 	st, err := prepare(s)
 	if err != nil {
@@ -334,28 +350,30 @@ func MinorityProfiles(s Spec, n int) (density, current Curve, err error) {
 	if n < 4 {
 		n = 4
 	}
-	e := math.Expm1(s.Bias / st.Vt)
-	ni2 := st.Ni * st.Ni
+	p := st.At(s.Bias)
+	hli := st.Effects.HighInjection
+	area := st.Device.Area
 	var xs, dens, cur []float64
-	side := func(r physics.QuasiNeutral, sign float64, j0 float64) {
-		w := r.Width
+	side := func(r physics.DiffusionSide, sign, pe, i float64) {
+		q := r.Effective(pe, hli)
+		w := q.Width
 		if math.IsInf(w, 1) {
-			w = 5 * r.DiffusionLength()
+			w = 5 * q.DiffusionLength()
 		}
-		d0 := ni2 / r.Doping * e
-		for i := 0; i < n; i++ {
-			x := w * float64(i) / float64(n-1)
+		j0 := i / area
+		for k := 0; k < n; k++ {
+			x := w * float64(k) / float64(n-1)
 			if sign < 0 {
-				x = w * float64(n-1-i) / float64(n-1)
+				x = w * float64(n-1-k) / float64(n-1)
 			}
-			fd, fj := r.ExcessProfile(x)
+			fd, fj := q.ExcessProfile(x)
 			xs = append(xs, sign*x*1e6)
-			dens = append(dens, d0*fd)
-			cur = append(cur, j0*e*fj)
+			dens = append(dens, pe*fd)
+			cur = append(cur, j0*fj)
 		}
 	}
-	side(st.P, -1, st.JsN)
-	side(st.N, 1, st.JsP)
+	side(st.PEff, -1, p.InjectionP*st.P0, p.DiffusionN)
+	side(st.NEff, 1, p.InjectionN*st.N0, p.DiffusionP)
 	pos := Axis{Label: "distance from depletion edge", Kind: Length, Unit: "um"}
 	density = Curve{ID: "minority", Title: "Excess minority carriers (electrons p side, holes n side)", X: pos,
 		Y: Axis{Label: "excess density", Kind: Density, Log: true}, Xs: xs, Series: []Series{{"excess minority density", dens}}}

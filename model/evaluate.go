@@ -128,15 +128,20 @@ func resultAt(s Spec, st *physics.Static, v float64) *Result {
 		{"band_gap_narrowing_n_eV", GroupHeavyDoping, "band-gap narrowing (n side)", "dEg,n", Energy, st.DEgN, nil},
 		{"effective_intrinsic_density_p_per_m3", GroupHeavyDoping, "effective ni (p side)", "ni,eff,p", Density, st.NiEffP, nil},
 		{"effective_intrinsic_density_n_per_m3", GroupHeavyDoping, "effective ni (n side)", "ni,eff,n", Density, st.NiEffN, nil},
-		{"built_in_potential_V", GroupElectrostatics, "built-in potential", "Vbi", Voltage, st.Vbi, nil},
+		{"built_in_potential_V", GroupElectrostatics, "built-in potential", "Vbi", Voltage, st.VbiNoBGN, nil},
 		{"built_in_potential_full_ionisation_V", GroupElectrostatics, "  with full ionisation", "Vbi,full", Voltage, st.VbiFullIonisation, nil},
+		{"built_in_potential_electrostatic_V", GroupElectrostatics, "  with BGN (electrostatic; W, Cj use it)", "Vbi,es", Voltage, st.Vbi, nil},
+		{"majority_tail_potential_V", GroupElectrostatics, "  majority-carrier tails (2kT/q or Vbi - Vg)", "Vtail", Voltage, st.Tail, nil},
+		{"gradient_voltage_V", GroupElectrostatics, "  gradient voltage (graded junction)", "Vg", Voltage, st.GradientVoltage, nil},
 		{"junction_voltage_V", GroupElectrostatics, "junction voltage", "Vj", Voltage, p.Vj, nil},
 		{"depletion_width_m", GroupElectrostatics, "depletion width", "W", Length, dep.W, nil},
 		{"depletion_width_n_m", GroupElectrostatics, "  into n side", "xn", Length, dep.Xn, nil},
 		{"depletion_width_p_m", GroupElectrostatics, "  into p side", "xp", Length, dep.Xp, nil},
+		{"depletion_width_textbook_m", GroupElectrostatics, "  textbook form (no tails)", "W,tb", Length, p.Textbook.W, nil},
 		{"peak_field_V_per_m", GroupElectrostatics, "peak field", "Emax", Field, dep.PeakField, nil},
 		{"junction_capacitance_F", GroupCapacitance, "depletion capacitance", "Cj", Capacitance, p.Cap, nil},
 		{"junction_capacitance_per_area_F_per_m2", GroupCapacitance, "  per area", "Cj/A", CapacitancePerArea, p.CapPerArea, nil},
+		{"junction_capacitance_textbook_F", GroupCapacitance, "  textbook form (no tails)", "Cj,tb", Capacitance, p.CapTextbook, nil},
 		{"diffusion_capacitance_F", GroupCapacitance, "diffusion capacitance", "Cd", Capacitance, p.DiffusionCap, nil},
 		{"total_capacitance_F", GroupCapacitance, "total capacitance", "C", Capacitance, p.TotalCap, nil},
 		{"electron_mobility_m2_per_Vs", GroupTransport, "electron mobility (p side)", "mu_n", Mobility, st.MuN, nil},
@@ -244,8 +249,10 @@ func (r *Result) Groups() []string {
 }
 
 // JSON encodes the result as one JSON object: every quantity under its key
-// in SI units (null where not applicable), "depletion_valid", and "flags"
-// (code and message). Keys keep the display order.
+// in SI units (null where not applicable), "depletion_valid",
+// "ionisation_model" (the dopant-level model used, physics.IonisationModel;
+// null with ionisation off), and "flags" (code and message). Keys keep the
+// display order.
 func (r *Result) JSON() []byte {
 	var b bytes.Buffer
 	b.WriteString("{\n")
@@ -253,6 +260,11 @@ func (r *Result) JSON() []byte {
 		fmt.Fprintf(&b, "  %q: %s,\n", q.Key, jsonNumber(q.Value))
 	}
 	fmt.Fprintf(&b, "  \"depletion_valid\": %t,\n", r.Point.Depletion.Valid)
+	if e := r.Static.Effects; e.Ionisation {
+		fmt.Fprintf(&b, "  \"ionisation_model\": %q,\n", e.IonisationModel.String())
+	} else {
+		b.WriteString("  \"ionisation_model\": null,\n")
+	}
 	b.WriteString("  \"flags\": [")
 	for i, f := range r.Flags {
 		if i > 0 {

@@ -35,7 +35,8 @@ func TestBandGapNarrowingSpotValues(t *testing.T) {
 
 // ni_eff^2 = ni^2 exp(dEg/kT) enters the region's saturation current only:
 // a p+ emitter at 1e19 cm^-3 carries exp(60.5 meV/kT) ~ 10x the electron
-// current of the ideal model, and the built-in potential keeps ni.
+// current of the ideal model; the built-in potential without narrowing
+// (VbiNoBGN) keeps ni (the electrostatic one: TestBuiltInPotentialWithBGN).
 func TestBandGapNarrowingInSaturationCurrent(t *testing.T) {
 	d := siDiode()
 	d.Effects = Effects{BGN: true}
@@ -45,7 +46,7 @@ func TestBandGapNarrowingInSaturationCurrent(t *testing.T) {
 	if math.Abs(ratio/want-1) > 1e-9 {
 		t.Errorf("Is,n ratio %g, want exp(dEg/kT) = %g", ratio, want)
 	}
-	if s.Vbi != s.VbiFullIonisation {
+	if s.VbiNoBGN != s.VbiFullIonisation {
 		t.Errorf("BGN changed Vbi")
 	}
 }

@@ -216,7 +216,8 @@ type Breakdown struct {
 	// SzeGibbons is the universal estimate of Sze & Gibbons 1966 for the
 	// one-sided junction (abrupt: 60 (Eg/1.1)^1.5 (NB/1e16)^-0.75 V,
 	// NB = NaNd/(Na+Nd); graded: 60 (Eg/1.1)^1.2 (a/3e20 cm^-4)^-0.4 V),
-	// for comparison.
+	// for comparison; NaN for materials the law was not fitted to
+	// (SzeGibbonsFitted).
 	SzeGibbons float64
 	// AvalancheVoltage is the avalanche breakdown voltage (V, positive)
 	// from the ionisation integral (equal to Voltage).
@@ -261,6 +262,20 @@ func SzeGibbonsBreakdown(profile ProfileKind, eg, nb, a float64) float64 {
 		return 60 * math.Pow(eg/1.1, 1.2) * math.Pow(a/(3e20*1e8), -0.4)
 	}
 	return 60 * math.Pow(eg/1.1, 1.5) * math.Pow(nb/(1e16*perCm3), -0.75)
+}
+
+// SzeGibbonsFitted reports whether the universal law of Sze & Gibbons
+// (1966) was fitted to the material with key k: their curves cover Ge, Si,
+// GaAs and GaP only (S. M. Sze, G. Gibbons, Appl. Phys. Lett. 8, 111
+// (1966); Sze & Ng 2007, section 2.4.1). Outside these hosts (4H-SiC, for
+// one) the law is an extrapolation with no data behind it and junco reports
+// no value.
+func SzeGibbonsFitted(k string) bool {
+	switch k {
+	case "si", "ge", "gaas", "gap":
+		return true
+	}
+	return false
 }
 
 // searchBreakdown finds the peak field at which An = 1 by false position

@@ -55,6 +55,7 @@ const (
 	FlagNiFitRange        = "ni-fit-range"       // outside the measured ni fit's range
 	FlagDegenerate        = "degenerate"         // doping near or above Nc or Nv
 	FlagShortDiffusion    = "short-diffusion"    // quasi-neutral width << L: short base
+	FlagIntrinsic         = "intrinsic"          // ni above a tenth of a side's doping
 )
 
 // Flag is a validity warning attached to a result, naming the quantities
@@ -67,12 +68,25 @@ type Flag struct {
 
 // Static holds the bias-independent part of a device evaluation.
 type Static struct {
-	Device   Device
-	Vt       float64 // thermal voltage kT/q, V
-	Eg       float64 // band gap, eV
-	Ni       float64 // intrinsic density, m^-3
-	Vbi      float64 // built-in potential, V
-	Junction Junction
+	Device Device
+	Vt     float64 // thermal voltage kT/q, V
+	Eg     float64 // band gap, eV
+	Ni     float64 // intrinsic density, m^-3
+	// Vbi is the electrostatic built-in potential, V: the one W, Emax, Cj
+	// and the breakdown use. It includes incomplete ionisation and, with
+	// BGN on, band-gap narrowing split evenly between the band edges,
+	// Vbi = Vt ln(p0 n0 / (ni,eff,p ni,eff,n)) (see VbiNoBGN).
+	Vbi float64
+	// VbiNoBGN is Vt ln(p0 n0 / ni^2), the built-in potential without
+	// band-gap narrowing, V (the textbook formula; the depletion-region
+	// recombination integral, written with ni, uses it).
+	VbiNoBGN float64
+	// Tail is the potential carried by the majority-carrier tails at the
+	// depletion edges, V: 2kT/q for the step junction, Vbi - Vg for the
+	// graded one (Junction.SolveWithTails). GradientVoltage is Vg of the
+	// graded junction (NaN for the step junction), V.
+	Tail, GradientVoltage float64
+	Junction              Junction
 	// Minority-carrier transport: electrons in the p region, holes in the n region.
 	MuN, MuP float64 // mobilities, m^2/(V s)
 	DN, DP   float64 // diffusivities, m^2/s
@@ -133,11 +147,13 @@ type Static struct {
 // temperature, area or widths; an unknown dopant; Na Nd <= ni^2).
 //
 // Formulas: Vt = kT/q; Eg Varshni; ni (Material.Ni); Vbi
-// (BuiltInPotential or GradedBuiltInPotential); minority mobilities at the
+// (BuiltInPotential or GradedBuiltInPotential, then with ionisation and
+// band-gap narrowing in prepareEffects); minority mobilities at the
 // doping of the region the carrier is minority in (Material.Mobility);
 // D = mu kT/q (Einstein); tau (MinorityLifetime or override); L = sqrt(D
-// tau); Js = q ni^2 [Dn/(Ln Na) G_p + Dp/(Lp Nd) G_n] (SaturationCurrentDensity);
-// Is = A Js.
+// tau); majority densities p0, n0 = N/2 + sqrt(N^2/4 + ni^2)
+// (MajorityDensity); Js = q ni^2 [Dn/(Ln p0) G_p + Dp/(Lp n0) G_n]
+// (SaturationCurrentDensity); Is = A Js.
 func (d Device) Prepare() (*Static, error) {
 	m := d.Material
 	if m == nil {
@@ -199,8 +215,10 @@ func (d Device) Prepare() (*Static, error) {
 	if d.TauP > 0 {
 		s.TauP = d.TauP
 	}
-	s.P = QuasiNeutral{Doping: d.Na, Diffusivity: s.DN, Lifetime: s.TauN, Width: d.Wp, Recombination: d.Sp}
-	s.N = QuasiNeutral{Doping: d.Nd, Diffusivity: s.DP, Lifetime: s.TauP, Width: d.Wn, Recombination: d.Sn}
+	// The regions' majority densities from neutrality with ni (they differ
+	// from the dopings only near the intrinsic regime, FlagIntrinsic).
+	s.P = QuasiNeutral{Doping: MajorityDensity(d.Na, s.Ni), Diffusivity: s.DN, Lifetime: s.TauN, Width: d.Wp, Recombination: d.Sp}
+	s.N = QuasiNeutral{Doping: MajorityDensity(d.Nd, s.Ni), Diffusivity: s.DP, Lifetime: s.TauP, Width: d.Wn, Recombination: d.Sn}
 	s.LN, s.LP = s.P.DiffusionLength(), s.N.DiffusionLength()
 	s.JsN = s.P.SaturationCurrentDensity(s.Ni)
 	s.JsP = s.N.SaturationCurrentDensity(s.Ni)
@@ -233,6 +251,10 @@ func (s *Static) staticFlags() []Flag {
 		f = append(f, Flag{FlagDegenerate, []string{"built-in potential", "saturation current"},
 			"doping above a tenth of the effective density of states: Boltzmann statistics and full ionisation are doubtful"})
 	}
+	if s.Ni > 0.1*math.Min(d.Na, d.Nd) {
+		f = append(f, Flag{FlagIntrinsic, []string{"intrinsic density", "built-in potential", "majority", "saturation current", "depletion width", "capacitance"},
+			fmt.Sprintf("intrinsic regime: ni = %.3g cm^-3 exceeds a tenth of a side's doping (Na %.3g, Nd %.3g cm^-3); majority densities from n0 = N/2 + sqrt(N^2/4 + ni^2), and the junction fades as ni approaches the doping", s.Ni/perCm3, d.Na/perCm3, d.Nd/perCm3)})
+	}
 	if (!math.IsInf(d.Wp, 1) && d.Wp < 0.1*s.LN) || (!math.IsInf(d.Wn, 1) && d.Wn < 0.1*s.LP) {
 		f = append(f, Flag{FlagShortDiffusion, []string{"saturation current"},
 			"a quasi-neutral region is much shorter than its diffusion length: the contact sets the current (short base)"})
@@ -257,6 +279,12 @@ type Point struct {
 
 	// Vj is the junction voltage, V (V minus the series-resistance drop).
 	Vj float64
+	// Textbook is the plain depletion approximation at Vj (no
+	// majority-carrier tails, the built-in potential Vbi itself), and
+	// CapTextbook its capacitance, F: the values of the textbook formulas
+	// (Sze & Ng 2007, eqs. 2.10-2.14 and 2.33-2.36) for comparison.
+	Textbook    Depletion
+	CapTextbook float64
 	// DiffusionN and DiffusionP are the electron (from the p region) and
 	// hole (from the n region) diffusion currents with the enabled effects,
 	// Diffusion their sum; Recombination and Generation the positive and
@@ -279,8 +307,9 @@ type Point struct {
 	// factor n = I/(Vt dI/dV) (NaN unless I > 0).
 	Conductance, Ideality float64
 	// DiffusionCap is the low-frequency diffusion (storage) capacitance,
-	// F; TotalCap = Cap + DiffusionCap with the depletion part taken at
-	// min(Vj, Vbi - 2 Vt) where the depletion approximation fails.
+	// F; TotalCap = Cap + DiffusionCap with the depletion part taken where
+	// the depleted drop is 2 Vt, min(Vj, Vbi - Tail - 2 Vt), where the
+	// depletion approximation fails.
 	DiffusionCap, TotalCap float64
 	// Power is the dissipated power |V I|, W.
 	Power float64
@@ -293,19 +322,29 @@ type Point struct {
 // At evaluates the device at bias v (V, forward positive) with every
 // enabled effect: the junction voltage Vj from V = Vj + I Rs (Solve), the
 // current components, the depletion electrostatics at Vj, the small-signal
-// conductance, ideality and capacitances.
+// conductance, ideality and capacitances. The electrostatics include the
+// majority-carrier tails (DepletionAt); Point.Textbook keeps the plain
+// depletion approximation.
 func (s *Static) At(v float64) Point {
 	p := s.Solve(v)
-	p.Depletion = s.Junction.Solve(s.Vbi, p.Vj)
+	p.Depletion = s.DepletionAt(p.Vj)
 	p.CapPerArea = p.Depletion.CapPerArea
 	p.Cap = p.CapPerArea * s.Device.Area
+	p.Textbook = s.Junction.Solve(s.Vbi, p.Vj)
+	p.CapTextbook = p.Textbook.CapPerArea * s.Device.Area
 	s.smallSignal(&p)
 	switch {
 	case !p.Depletion.Valid:
 		p.Flags = append(p.Flags, Flag{FlagDepletionFails, []string{"depletion width", "peak field", "capacitance"}, p.Depletion.Problem})
-	case s.Vbi-p.Vj < 3*s.Vt:
+	case p.Depletion.Drop() < 3*s.Vt:
 		p.Flags = append(p.Flags, Flag{FlagDepletionMarginal, []string{"depletion width", "peak field", "capacitance"},
-			fmt.Sprintf("bias within 3 kT/q of the built-in potential (%.3f V): the depletion approximation is rough here", s.Vbi)})
+			fmt.Sprintf("the depleted region holds less than 3 kT/q (built-in potential %.3f V less %.3g V in the majority-carrier tails): the depletion approximation is rough here", s.Vbi, s.Tail)})
 	}
 	return p
+}
+
+// DepletionAt returns the depletion solution at junction voltage vj (V)
+// with the majority-carrier tails (Junction.SolveWithTails with Tail).
+func (s *Static) DepletionAt(vj float64) Depletion {
+	return s.Junction.SolveWithTails(s.Vbi, s.Tail, vj)
 }

@@ -30,10 +30,14 @@ type Effects struct {
 	Breakdown bool
 	// BGNModel selects the band-gap narrowing parameter set.
 	BGNModel BGNModel
+	// IonisationModel selects the dopant-level description of Ionisation;
+	// the zero value is the textbook single level.
+	IonisationModel IonisationModel
 }
 
 // RealisticEffects returns the default set of effects: every effect on,
-// band-gap narrowing by Klaassen, Slotboom and de Graaff (1992).
+// band-gap narrowing by Klaassen, Slotboom and de Graaff (1992), the
+// single-level ionisation model.
 func RealisticEffects() Effects {
 	return Effects{SRH: true, HighInjection: true, SeriesResistance: true, BGN: true, Ionisation: true,
 		Breakdown: true, BGNModel: BGNKlaassen1992}
@@ -54,11 +58,15 @@ const (
 	FlagPunchThrough      = "punch-through"     // a region is thinner than the depletion width at breakdown
 	FlagAssumedThickness  = "assumed-thickness" // a long region's thickness was assumed
 	FlagIncompleteIon     = "incomplete-ionisation"
-	FlagBGNModel          = "bgn-model" // no band-gap narrowing parameters or outside their range
+	FlagMottTransition    = "mott-transition" // doping within x10 below the dopant's Mott density
+	FlagBGNModel          = "bgn-model"       // no band-gap narrowing parameters or outside their range
 	FlagImpactRange       = "impact-ionisation-range"
 	FlagLifetimeTemp      = "lifetime-temperature" // lifetimes are taken as temperature independent
 	FlagSeriesDominates   = "series-resistance"    // the series drop exceeds 10% of the forward bias
 	FlagBreakdownNotFound = "breakdown-not-found"
+	// FlagBreakdownTemperature: breakdown away from 300 K with a
+	// temperature law not checked against measurement.
+	FlagBreakdownTemperature = "breakdown-temperature"
 )
 
 // Gauss-Legendre 8-point nodes (positive half) and weights (Abramowitz &

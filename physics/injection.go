@@ -63,6 +63,15 @@ func (r DiffusionSide) effective(pe float64, hli bool) (d, l float64) {
 	return d, math.Sqrt(d * r.Lifetime)
 }
 
+// Effective returns the region as the diffusion model sees it at edge
+// excess density pe: its QuasiNeutral with the high-injection diffusivity
+// of effective (the Webster doubling) when hli is set.
+func (r DiffusionSide) Effective(pe float64, hli bool) QuasiNeutral {
+	q := r.QuasiNeutral
+	q.Diffusivity, _ = r.effective(pe, hli)
+	return q
+}
+
 // CurrentDensity returns the minority diffusion current density (A/m^2)
 // injected into the region at junction voltage v and the excess edge
 // density (m^-3).

@@ -1,6 +1,9 @@
 package physics
 
-import "math"
+import (
+	"fmt"
+	"math"
+)
 
 // pearsonBardeenAlphaSi is the coefficient of the ionisation-energy
 // lowering E(N) = E0 - alpha N^(1/3) in silicon, eV m (3.1e-8 eV cm).
@@ -15,6 +18,79 @@ const pearsonBardeenAlphaSi = 3.1e-8 * 1e-2
 // silicon value of Pearson & Bardeen (1949) scaled by 11.7/eps_r for other
 // hosts (approximate).
 func (m *Material) IonisationLowering() float64 { return pearsonBardeenAlphaSi * 11.7 / m.EpsR }
+
+// IonisationModel selects the description of the dopant levels used for
+// incomplete ionisation.
+type IonisationModel int
+
+const (
+	// IonisationSingleLevel is the textbook single level: the isolated
+	// dopant's ionisation energy and degeneracy, every dopant localised
+	// (Sze & Ng 2007, section 1.4.2; Neamen 4th ed., section 4.5), below
+	// the Mott density of the dopant (MottDensity); at and above it the
+	// dopants form a band and count as fully ionised. It is the default.
+	// The switch at the Mott density is abrupt (the single level knows no
+	// impurity band); dopings within a factor 10 below it are flagged
+	// (FlagMottTransition), where the single level overstates freeze-out.
+	IonisationSingleLevel IonisationModel = iota
+	// IonisationLowered lowers the level with density, E = E0 - alpha
+	// N^(1/3) (after Pearson & Bardeen 1949), and counts a fraction
+	// 1 - b(N) of the dopants as ionised (impurity band), with b of the
+	// form of Altermatt et al. (2006) but junco's own parameters
+	// (LoweredDopantLevel): not a published parameter set, and not
+	// checked against measured ionised fractions. Si:P 1e17 cm^-3 at
+	// 77 K: ionised 0.35 against the single level's 0.135.
+	IonisationLowered
+)
+
+// String returns "single-level" or "lowered".
+func (im IonisationModel) String() string {
+	if im == IonisationLowered {
+		return "lowered"
+	}
+	return "single-level"
+}
+
+// ParseIonisationModel reads "single-level" (also "" for the default) or
+// "lowered".
+func ParseIonisationModel(s string) (IonisationModel, error) {
+	switch s {
+	case "", "single-level":
+		return IonisationSingleLevel, nil
+	case "lowered":
+		return IonisationLowered, nil
+	}
+	return 0, fmt.Errorf("ionisation model %q: allowed single-level (default) or lowered", s)
+}
+
+// DopantLevelFor returns the level of dopant d at total density n (m^-3)
+// in material m under ionisation model im: the isolated level (energy
+// d.Ionisation, degeneracy d.Degeneracy, all localised) for
+// IonisationSingleLevel, EffectiveDopantLevel for IonisationLowered.
+func (m *Material) DopantLevelFor(d Dopant, n float64, im IonisationModel) DopantLevel {
+	if im == IonisationLowered {
+		return m.LoweredDopantLevel(d, n)
+	}
+	nm := m.MottDensity(d)
+	b := 1.0
+	if n >= nm {
+		b = 0
+	}
+	return DopantLevel{Energy: d.Ionisation, Degeneracy: d.Degeneracy, Localised: b, MottDensity: nm}
+}
+
+// MottDensity returns the density (m^-3) above which dopant d in material
+// m forms a metallic impurity band, from the Mott criterion
+// N_c^(1/3) a* = 0.26 (P. P. Edwards, M. J. Sienko, Phys. Rev. B 17, 2575
+// (1978); N. F. Mott, Rev. Mod. Phys. 40, 677 (1968); from memory) with the
+// hydrogenic Bohr radius of the level, a* = q^2/(8 pi eps E0). Si with a
+// 45 meV level: 6.9e18 cm^-3 (measured for Si:P about 3.7e18 cm^-3, from
+// memory: the estimate is good to a factor of two).
+func (m *Material) MottDensity(d Dopant) float64 {
+	a := Q / (8 * math.Pi * m.Permittivity() * d.Ionisation) // q^2/(8 pi eps E0 q) with E0 in eV
+	c := 0.26 / a
+	return c * c * c
+}
 
 // DopantLevel is the effective description of one dopant species at one
 // density: the lowered ionisation energy, the degeneracy and the fraction b
@@ -31,8 +107,15 @@ type DopantLevel struct {
 	MottDensity float64
 }
 
-// EffectiveDopantLevel returns the level of dopant d at total density n
-// (m^-3) in material m.
+// EffectiveDopantLevel returns the level of dopant d at density n (m^-3)
+// under the default ionisation model (IonisationSingleLevel; see
+// DopantLevelFor).
+func (m *Material) EffectiveDopantLevel(d Dopant, n float64) DopantLevel {
+	return m.DopantLevelFor(d, n, IonisationSingleLevel)
+}
+
+// LoweredDopantLevel returns the lowered level of dopant d at total
+// density n (m^-3) in material m (the IonisationLowered model).
 //
 // Formulas: E(N) = max(E0 - alpha N^(1/3), 0) (Pearson & Bardeen 1949) with
 // alpha from IonisationLowering; the Mott density N_M = (E0/alpha)^3 where
@@ -41,7 +124,7 @@ type DopantLevel struct {
 // own choice N_b = N_M and exponent 2 (approximate, not a fit). In silicon
 // N_M = 3.1e18 cm^-3 for phosphorus, close to the measured metal-insulator
 // transition near 3.7e18 cm^-3 (from memory).
-func (m *Material) EffectiveDopantLevel(d Dopant, n float64) DopantLevel {
+func (m *Material) LoweredDopantLevel(d Dopant, n float64) DopantLevel {
 	alpha := m.IonisationLowering()
 	e := d.Ionisation - alpha*math.Cbrt(n)
 	if e < 0 {

@@ -54,7 +54,7 @@ func TestIonisationTemperatureAndDoping(t *testing.T) {
 	si, _ := MaterialByName("si")
 	p, _ := si.Dopant("phosphorus")
 	frac := func(m *Material, d Dopant, n, t float64) float64 {
-		_, ion := IonisedDensity(n, m.EffectiveDopantLevel(d, n), m.Nc(t), m.Ni(t), t)
+		_, ion := IonisedDensity(n, m.LoweredDopantLevel(d, n), m.Nc(t), m.Ni(t), t)
 		return ion / n
 	}
 	if f := frac(si, p, 1e22, 77); f > 0.8 {
@@ -68,7 +68,7 @@ func TestIonisationTemperatureAndDoping(t *testing.T) {
 	}
 	sic, _ := MaterialByName("4h-sic")
 	al, _ := sic.Dopant("aluminium")
-	_, ion := IonisedDensity(1e23, sic.EffectiveDopantLevel(al, 1e23), sic.Nv(300), sic.Ni(300), 300)
+	_, ion := IonisedDensity(1e23, sic.LoweredDopantLevel(al, 1e23), sic.Nv(300), sic.Ni(300), 300)
 	if f := ion / 1e23; f > 0.5 || f < 0.05 {
 		t.Errorf("4H-SiC:Al 1e17 at 300 K: ionised %g", f)
 	}

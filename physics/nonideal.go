@@ -18,22 +18,36 @@ func (s *Static) prepareEffects() error {
 	s.Effects = e
 	da, _ := m.Dopant(d.AcceptorSpecies)
 	dd, _ := m.Dopant(d.DonorSpecies)
-	s.AcceptorLevel = m.EffectiveDopantLevel(da, d.Na)
-	s.DonorLevel = m.EffectiveDopantLevel(dd, d.Nd)
-	s.P0, s.N0 = d.Na, d.Nd
+	s.AcceptorLevel = m.DopantLevelFor(da, d.Na, e.IonisationModel)
+	s.DonorLevel = m.DopantLevelFor(dd, d.Nd, e.IonisationModel)
+	s.P0, s.N0 = s.P.Doping, s.N.Doping // majority densities with ni (MajorityDensity)
 	s.NaIonised, s.NdIonised = d.Na, d.Nd
 	s.VbiFullIonisation = s.Vbi
 	if e.Ionisation {
 		s.P0, s.NaIonised = IonisedDensity(d.Na, s.AcceptorLevel, m.Nv(t), s.Ni, t)
 		s.N0, s.NdIonised = IonisedDensity(d.Nd, s.DonorLevel, m.Nc(t), s.Ni, t)
-		s.Vbi = s.VbiFullIonisation + s.Vt*math.Log(s.P0*s.N0/(d.Na*d.Nd))
+		s.Vbi = s.VbiFullIonisation + s.Vt*math.Log(s.P0*s.N0/(s.P.Doping*s.N.Doping))
 		if !(s.Vbi > 0) {
 			return fmt.Errorf("with incomplete ionisation at %g K the built-in potential is %.3g V: no junction forms", t, s.Vbi)
+		}
+		for _, c := range []struct {
+			n  float64
+			lv DopantLevel
+			sp string
+		}{{d.Na, s.AcceptorLevel, d.AcceptorSpecies}, {d.Nd, s.DonorLevel, d.DonorSpecies}} {
+			if e.IonisationModel == IonisationSingleLevel && c.n > 0.1*c.lv.MottDensity {
+				what := "the single dopant level overstates freeze-out near it"
+				if c.n >= c.lv.MottDensity {
+					what = "the dopants are taken as a band, fully ionised"
+				}
+				s.Flags = append(s.Flags, Flag{FlagMottTransition, []string{"ionised", "majority", "built-in potential"},
+					fmt.Sprintf("%s at %.3g cm^-3 is near or above its Mott density %.3g cm^-3: %s", c.sp, c.n/perCm3, c.lv.MottDensity/perCm3, what)})
+			}
 		}
 		fa, fd := s.NaIonised/d.Na, s.NdIonised/d.Nd
 		if fa < 0.9 || fd < 0.9 {
 			s.Flags = append(s.Flags, Flag{FlagIncompleteIon, []string{"built-in potential", "ionised", "majority", "diffusion current", "series resistance"},
-				fmt.Sprintf("incomplete ionisation: %.0f%% of the acceptors and %.0f%% of the donors are ionised at %g K (Fermi-Dirac occupation of the dopant levels)", 100*fa, 100*fd, t)})
+				fmt.Sprintf("incomplete ionisation: %.0f%% of the acceptors and %.0f%% of the donors are ionised at %g K (Fermi-Dirac occupation of the dopant levels, %s model)", 100*fa, 100*fd, t, e.IonisationModel)})
 		}
 	}
 	s.NiEffP, s.NiEffN = s.Ni, s.Ni
@@ -52,6 +66,36 @@ func (s *Static) prepareEffects() error {
 			s.Flags = append(s.Flags, Flag{FlagBGNModel, []string{"diffusion current", "narrowing", "effective ni", "BGN"},
 				fmt.Sprintf("band-gap narrowing fitted near 300 K is applied unchanged at %g K (trusted %g-%g K)", t, bgnTMin, bgnTMax)})
 		}
+	}
+	s.VbiNoBGN = s.Vbi
+	if e.BGN {
+		// Electrostatic built-in potential with band-gap narrowing, each
+		// region's narrowing split evenly between its band edges:
+		// Vbi = Vt ln(p0 n0/(ni,eff,p ni,eff,n)) = VbiNoBGN - (dEg,p + dEg,n)/2.
+		// Only the majority band's shift enters the electrostatic
+		// potential, half the narrowing under this split (the split is an
+		// assumption; published splits differ). The graded junction takes
+		// the narrowing at the doping of its zero-bias depletion edges.
+		dp, dn := s.DEgP, s.DEgN
+		if d.Profile == LinearGraded {
+			dep0 := s.Junction.Solve(s.Vbi, 0)
+			dp, _ = BandGapNarrowing(m, e.BGNModel, math.Abs(s.Junction.NetDoping(-dep0.Xp)))
+			dn, _ = BandGapNarrowing(m, e.BGNModel, math.Abs(s.Junction.NetDoping(dep0.Xn)))
+		}
+		s.Vbi -= (dp + dn) / 2
+		if !(s.Vbi > 0) {
+			return fmt.Errorf("with band-gap narrowing at %g K the built-in potential is %.3g V: no junction forms", t, s.Vbi)
+		}
+	}
+	// Majority-carrier tails: 2kT/q for the step junction; the gradient
+	// voltage of Chawla & Gummel for the graded one (bounded so that the
+	// depleted drop never exceeds Vbi - 2kT/q, the step junction's value,
+	// which the graded junction approaches when its edges reach the
+	// plateaus; this bound is junco's own interpolation).
+	s.Tail, s.GradientVoltage = 2*s.Vt, math.NaN()
+	if d.Profile == LinearGraded {
+		s.GradientVoltage = GradientVoltage(d.Gradient, s.Junction.Eps, s.Ni, t) - (s.VbiNoBGN - s.Vbi)
+		s.Tail = s.Vbi - math.Min(s.GradientVoltage, s.Vbi-2*s.Vt)
 	}
 	pq, nq := s.P, s.N
 	pq.Doping, nq.Doping = s.P0, s.N0
@@ -76,11 +120,11 @@ func (s *Static) prepareEffects() error {
 	if d.TauP > 0 {
 		tp = d.TauP
 	}
-	n0 := math.Exp(2*math.Log(s.Ni) + s.Vbi/s.Vt - math.Log(s.P0))
+	n0 := math.Exp(2*math.Log(s.Ni) + s.VbiNoBGN/s.Vt - math.Log(s.P0))
 	if math.IsInf(n0, 0) || math.IsNaN(n0) || n0 <= 0 {
 		n0 = s.N0
 	}
-	s.SCR = SCRParams{Ni: s.Ni, P0: s.P0, N0: n0, TauN: tn, TauP: tp, Vt: s.Vt}
+	s.SCR = SCRParams{Ni: s.Ni, P0: s.P0, N0: n0, TauN: tn, TauP: tp, Vt: s.Vt, Local: s.localLifetimes()}
 	if e.SRH && (t < 200 || t > 400) {
 		s.Flags = append(s.Flags, Flag{FlagLifetimeTemp, []string{"recombination", "generation", "lifetime"},
 			fmt.Sprintf("lifetimes are taken as temperature independent; at %g K they are an extrapolation of room-temperature values (trusted 200-400 K)", t)})
@@ -112,6 +156,41 @@ func (s *Static) prepareEffects() error {
 		s.computeBreakdown()
 	}
 	return nil
+}
+
+// localLifetimes returns the SRH lifetimes of the depletion region at
+// position x, tau(N(x)): the doping-dependent SRH part of the default
+// lifetime (Material.MinorityLifetime) at the local total doping |N(x)|,
+// or the user's lifetime where one is given (then the same everywhere,
+// as the user gives one number per carrier). A step junction has one pair
+// per side. The depletion region of a one-sided junction lies in the
+// lightly doped side, so its generation takes that side's lifetimes, not
+// the heavily doped side's.
+func (s *Static) localLifetimes() func(x float64) (float64, float64) {
+	d := s.Device
+	m := d.Material
+	at := func(n float64) (float64, float64) {
+		tn, tp := m.MinorityLifetime(Electron, n).SRH, m.MinorityLifetime(Hole, n).SRH
+		if d.TauN > 0 {
+			tn = d.TauN
+		}
+		if d.TauP > 0 {
+			tp = d.TauP
+		}
+		return tn, tp
+	}
+	if d.Profile == Abrupt {
+		tnP, tpP := at(d.Na)
+		tnN, tpN := at(d.Nd)
+		return func(x float64) (float64, float64) {
+			if x < 0 {
+				return tnP, tpP
+			}
+			return tnN, tpN
+		}
+	}
+	j := s.Junction
+	return func(x float64) (float64, float64) { return at(math.Abs(j.NetDoping(x))) }
 }
 
 // layerLength returns the length of a region used for its resistance: the
@@ -156,11 +235,15 @@ func (s *Static) computeBreakdown() {
 	b.ThicknessN, b.AssumedN = thick(d.Wn, d.NThickness, dep0.Xn)
 	a := &avalanche{j: s.Junction, c: im.at(t), thickP: b.ThicknessP, thickN: b.ThicknessN, vbi: s.Vbi}
 	nb := d.Na * d.Nd / (d.Na + d.Nd)
-	b.SzeGibbons = SzeGibbonsBreakdown(d.Profile, s.Eg, nb, d.Gradient)
-	// First guess of the peak field from the Sze-Gibbons voltage.
-	guess := math.Sqrt(2 * Q * nb * b.SzeGibbons / s.Junction.Eps)
+	sg := SzeGibbonsBreakdown(d.Profile, s.Eg, nb, d.Gradient)
+	if SzeGibbonsFitted(m.Key) {
+		b.SzeGibbons = sg
+	}
+	// First guess of the peak field from the Sze-Gibbons voltage (only a
+	// starting point of the search, so it serves outside its materials).
+	guess := math.Sqrt(2 * Q * nb * sg / s.Junction.Eps)
 	if d.Profile == LinearGraded {
-		guess = 1.5 * b.SzeGibbons / math.Cbrt(12*s.Junction.Eps*b.SzeGibbons/(Q*d.Gradient))
+		guess = 1.5 * sg / math.Cbrt(12*s.Junction.Eps*sg/(Q*d.Gradient))
 	}
 	if !(guess > 0) || math.IsInf(guess, 0) {
 		guess = 3e7
@@ -215,6 +298,10 @@ func (s *Static) computeBreakdown() {
 		s.Flags = append(s.Flags, Flag{FlagTunnelling, []string{"breakdown"},
 			fmt.Sprintf("breakdown %.3g V lies between 4 and 6 Eg/q: tunnelling and avalanche both contribute and the avalanche estimate is an upper bound (Sze & Ng 2007)", vr)})
 	}
+	if im.TempLawCheck == "" && math.Abs(t-300) > 10 {
+		s.Flags = append(s.Flags, Flag{FlagBreakdownTemperature, []string{"breakdown", "multiplication"},
+			fmt.Sprintf("breakdown at %g K: the temperature law of the %s impact-ionisation coefficients is not checked against measured breakdown voltages (for Si it gives about +0.2 %%/K, perhaps twice the measured coefficient)", t, m.Name)})
+	}
 	if t < im.TMin || t > im.TMax {
 		s.Flags = append(s.Flags, Flag{FlagImpactRange, []string{"breakdown", "multiplication"},
 			fmt.Sprintf("impact-ionisation coefficients extrapolated to %g K (trusted %g-%g K)", t, im.TMin, im.TMax)})
@@ -261,8 +348,11 @@ func (s *Static) junction(vj float64) jstate {
 	st.dp, st.gdp, st.pep = side(s.NEff)
 	var dep Depletion
 	if e.SRH {
-		vg := math.Min(vj, s.Vbi-2*vt)
-		dep = s.Junction.Solve(s.Vbi, vg)
+		// The SNS integral is written with ni and the carrier densities of
+		// the plain depletion approximation, which its own tails complete:
+		// it takes VbiNoBGN and no tail correction.
+		vg := math.Min(vj, s.VbiNoBGN-2*vt)
+		dep = s.Junction.Solve(s.VbiNoBGN, vg)
 		j, dj := SCRCurrentDensity(dep, vj, s.SCR)
 		st.scr, st.gscr = j*a, dj*a
 	}
@@ -354,8 +444,8 @@ func (s *Static) SolveFrom(v, guess float64) Point {
 		p.DiffusionN, p.DiffusionP, p.Diffusion = p.IdealN, p.IdealP, p.IdealCurrent
 		p.Converged = true
 		p.Power = math.Abs(v * p.Current)
-		p.InjectionP = s.Ni * s.Ni / (s.Device.Na * s.Device.Na) * e
-		p.InjectionN = s.Ni * s.Ni / (s.Device.Nd * s.Device.Nd) * e
+		p.InjectionP = s.Ni * s.Ni / (s.P0 * s.P0) * e
+		p.InjectionN = s.Ni * s.Ni / (s.N0 * s.N0) * e
 		return p
 	}
 	rs := s.Rs
@@ -507,8 +597,8 @@ func (s *Static) smallSignal(p *Point) {
 	}
 	p.DiffusionCap = cd
 	cj := p.Cap
-	if !(cj > 0) || vj > s.Vbi-2*s.Vt {
-		cj = s.Junction.Solve(s.Vbi, math.Min(vj, s.Vbi-2*s.Vt)).CapPerArea * s.Device.Area
+	if vc := s.Vbi - s.Tail - 2*s.Vt; !(cj > 0) || vj > vc {
+		cj = s.DepletionAt(math.Min(vj, vc)).CapPerArea * s.Device.Area
 	}
 	p.TotalCap = cj + cd
 }

@@ -26,14 +26,14 @@ func (d Depletion) depletionPotential(x float64) (psi, e float64) {
 	}
 	u := math.Min(x, d.Xn)
 	qx := j.sideCharge(d.Xn, j.Nd)
-	return (d.Vbi - d.V) - k*(qx*(d.Xn-u)-f(d.Xn, j.Nd)+f(u, j.Nd)), k * (qx - j.sideCharge(u, j.Nd))
+	return d.Drop() - k*(qx*(d.Xn-u)-f(d.Xn, j.Nd)+f(u, j.Nd)), k * (qx - j.sideCharge(u, j.Nd))
 }
 
 // positionOfPotential inverts depletionPotential: the x at which psi = ps,
 // clamped to [-xp, xn]; closed form for the step junction, bisection for
 // the graded one.
 func (d Depletion) positionOfPotential(ps float64) float64 {
-	tot := d.Vbi - d.V
+	tot := d.Drop()
 	if ps <= 0 {
 		return -d.Xp
 	}
@@ -67,6 +67,12 @@ type SCRParams struct {
 	Ni         float64 // intrinsic density, m^-3
 	P0, N0     float64 // majority densities at the p and n edges at equilibrium, m^-3 (P0 N0 = ni^2 exp(Vbi/Vt))
 	TauN, TauP float64 // SRH electron and hole lifetimes in the depletion region, s
+	// Local, when set, gives the SRH lifetimes (tau_n, tau_p) at position
+	// x (m, p side negative) and replaces TauN, TauP: the lifetimes follow
+	// the local doping, tau(N(x)), so that the depletion region, which lies
+	// mostly in the lightly doped side, recombines with that side's
+	// lifetimes. It must be piecewise smooth with its only jump at x = 0.
+	Local func(x float64) (tn, tp float64)
 	// TrapLevel is Et - Ei, eV (0 = midgap trap, the most effective).
 	TrapLevel float64
 	Vt        float64 // thermal voltage, V
@@ -97,7 +103,10 @@ type SCRParams struct {
 // Limits: deep reverse bias gives J = -q ni W/(tau_n + tau_p), i.e.
 // q ni W/(2 tau0) with tau0 = (tau_n + tau_p)/2 (Neamen 4th ed., eq. 8.74);
 // forward bias gives ideality near 2 (exp(V/2Vt) with
-// tau_eff = sqrt(tau_n tau_p) at the peak). Valid where the depletion
+// tau_eff = sqrt(tau_n tau_p) at the peak). With position-dependent
+// lifetimes (SCRParams.Local) tau_n, tau_p are taken at each x inside the
+// integral, and the deep-reverse limit becomes
+// J = -q ni int dx/(tau_n(x) + tau_p(x)). Valid where the depletion
 // approximation holds (V below Vbi - 2 Vt; callers clamp the geometry) and
 // where the SRH rate of one trap level describes the recombination.
 func SCRCurrentDensity(dep Depletion, v float64, sp SCRParams) (j, dj float64) {
@@ -108,12 +117,19 @@ func SCRCurrentDensity(dep Depletion, v float64, sp SCRParams) (j, dj float64) {
 	ni := sp.Ni
 	n1 := ni * math.Exp(sp.TrapLevel/vt)
 	p1 := ni * ni / n1
-	psiTot := dep.Vbi - dep.V
+	psiTot := dep.Drop()
 	lc := (v - dep.V) / (2 * vt) // the bias beyond the geometry's, split evenly
 	lnP0, lnN0 := math.Log(sp.P0), math.Log(sp.N0)
 	num := ni * ni * math.Expm1(v/vt)
 	dnum := ni * ni * math.Exp(v/vt) / vt
 	tn, tp := sp.TauN, sp.TauP
+	// Lifetimes of the p and n sides (equal without Local): they place the
+	// quadrature pieces; the integrand itself takes them at each x.
+	tnP, tpP, tnN, tpN := tn, tp, tn, tp
+	if sp.Local != nil {
+		tnP, tpP = sp.Local(-0.5 * dep.Xp)
+		tnN, tpN = sp.Local(0.5 * dep.Xn)
+	}
 	reverse := v < 0
 	jn := dep.j
 	abrupt := jn.Profile == Abrupt
@@ -139,6 +155,10 @@ func SCRCurrentDensity(dep Depletion, v float64, sp SCRParams) (j, dj float64) {
 		} else {
 			n = math.Exp(lnN0 + (psi-psiTot)*ivt + lc)
 		}
+		tn, tp := tn, tp
+		if sp.Local != nil {
+			tn, tp = sp.Local(x)
+		}
 		iden := 1 / (tp*(n+n1) + tn*(p+p1))
 		u := num * iden
 		if reverse {
@@ -146,8 +166,15 @@ func SCRCurrentDensity(dep Depletion, v float64, sp SCRParams) (j, dj float64) {
 		}
 		return u, (dnum - u*(tp*n+tn*p)*0.5*ivt) * iden
 	}
-	// Peak of U: tau_p n = tau_n p.
-	ps := 0.5 * (psiTot + vt*math.Log(sp.P0*tn/(sp.N0*tp)))
+	// Peak of U: tau_p n = tau_n p (with the n side's lifetimes when the
+	// p side's put it beyond the junction).
+	ps := 0.5 * (psiTot + vt*math.Log(sp.P0*tnP/(sp.N0*tpP)))
+	if sp.Local != nil && dep.positionOfPotential(ps) > 0 {
+		ps = 0.5 * (psiTot + vt*math.Log(sp.P0*tnN/(sp.N0*tpN)))
+		if dep.positionOfPotential(ps) < 0 {
+			ps, _ = dep.depletionPotential(0)
+		}
+	}
 	var sum, dsum float64
 	// piece integrates from focus c towards end b with the sinh map of
 	// scale l = Vt/|E(c)|.
@@ -188,13 +215,22 @@ func SCRCurrentDensity(dep Depletion, v float64, sp SCRParams) (j, dj float64) {
 	// Reverse bias: a plateau -ni/(tau_n + tau_p) between the points where
 	// tau_n p and tau_p n reach the plateau's denominator (the edges of the
 	// generating region); the pieces are mapped from those two points.
-	den0 := tp*n1 + tn*p1
-	psA := vt * (math.Log(sp.P0*tn/den0) + lc)
-	psB := psiTot - vt*(math.Log(sp.N0*tp/den0)+lc)
+	psA := vt * (math.Log(sp.P0*tnP/(tpP*n1+tnP*p1)) + lc)
+	psB := psiTot - vt*(math.Log(sp.N0*tpN/(tpN*n1+tnN*p1))+lc)
+	// split integrates from c towards b, cutting at the junction where
+	// local lifetimes jump.
+	split := func(c, b float64) {
+		if sp.Local != nil && c*b < 0 {
+			piece(c, 0)
+			piece(0, b)
+			return
+		}
+		piece(c, b)
+	}
 	if v < 0 && psA < psB {
 		xa, xb := dep.positionOfPotential(psA), dep.positionOfPotential(psB)
-		piece(xa, -dep.Xp)
-		piece(xb, dep.Xn)
+		split(xa, -dep.Xp)
+		split(xb, dep.Xn)
 		switch {
 		case xa < 0 && xb > 0:
 			piece(xa, 0)
@@ -203,14 +239,17 @@ func SCRCurrentDensity(dep Depletion, v float64, sp SCRParams) (j, dj float64) {
 			m := 0.5 * (xa + xb)
 			piece(xa, m)
 			piece(xb, m)
-			// [xb, xn] contains 0: already covered by piece(xb, xn); the
-			// kink of the potential at 0 is mild in the decaying tail.
+			// [xb, xn] contains 0: covered by split(xb, xn); the kink of
+			// the potential at 0 is mild in the decaying tail.
 		default: // xa >= 0: the whole plateau on the n side
 			m := 0.5 * (xa + xb)
 			piece(xa, m)
 			piece(xb, m)
 		}
-		return Q * sum, Q * (dsum + geometricSlope(dep)*ni*dep.W/(tn+tp))
+		// The moving edges generate with the lifetimes of the side they
+		// move into, weighted by the side's share of the width.
+		edge := (dep.Xp/(tnP+tpP) + dep.Xn/(tnN+tpN))
+		return Q * sum, Q * (dsum + geometricSlope(dep)*ni*edge)
 	}
 	xs := dep.positionOfPotential(ps)
 	switch {
@@ -238,5 +277,5 @@ func geometricSlope(dep Depletion) float64 {
 	if dep.j.Profile == LinearGraded {
 		m = 1.0 / 3
 	}
-	return m / (dep.Vbi - dep.V)
+	return m / dep.Drop()
 }

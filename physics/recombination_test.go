@@ -40,7 +40,7 @@ func TestSCRQuadrature(t *testing.T) {
 			d.TauN, d.TauP = 1e-8, 1e-6
 			s := prep(t, d)
 			for _, v := range []float64{-30, -5, -0.5, 0.1, 0.3, 0.5, 0.7} {
-				dep := s.Junction.Solve(s.Vbi, math.Min(v, s.Vbi-2*s.Vt))
+				dep := s.Junction.Solve(s.VbiNoBGN, math.Min(v, s.Vbi-2*s.Vt))
 				j, _ := SCRCurrentDensity(dep, v, s.SCR)
 				b := bruteSCR(dep, v, s.SCR)
 				if math.Abs(j/b-1) > 1e-5 {
@@ -61,7 +61,7 @@ func TestSCRGenerationLimit(t *testing.T) {
 	d.TauN, d.TauP = 1e-6, 1e-6
 	s := prep(t, d)
 	ratio := func(v float64) float64 {
-		dep := s.Junction.Solve(s.Vbi, v)
+		dep := s.Junction.Solve(s.VbiNoBGN, v)
 		j, _ := SCRCurrentDensity(dep, v, s.SCR)
 		return -j / (Q * s.Ni * dep.W / (s.SCR.TauN + s.SCR.TauP))
 	}
@@ -79,7 +79,7 @@ func TestSCRGenerationLimit(t *testing.T) {
 func TestSCRIdealityNearTwo(t *testing.T) {
 	s := prep(t, siDiode())
 	j := func(v float64) float64 {
-		jj, _ := SCRCurrentDensity(s.Junction.Solve(s.Vbi, v), v, s.SCR)
+		jj, _ := SCRCurrentDensity(s.Junction.Solve(s.VbiNoBGN, v), v, s.SCR)
 		return jj
 	}
 	for _, v := range []float64{0.2, 0.3, 0.4} {
