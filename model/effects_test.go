@@ -266,3 +266,38 @@ func TestEvaluateRandomSpecs(t *testing.T) {
 		}
 	}
 }
+
+// The dopant-level model is a user choice that reaches the physics and is
+// named in the result; an unknown one is a field error. Si:P 1e17 cm^-3 at
+// 77 K: the single isolated 45 meV level (g = 2) gives 0.135 ionised
+// (computed from the single-level occupation; the same check as
+// physics.TestIonisationSingleLevelDefault), the lowered level more.
+func TestIonisationModelChoice(t *testing.T) {
+	s := DemoJunction().Spec
+	s.Material, s.Temperature = "si", 77
+	s.AcceptorDensity, s.DonorDensity = 1e25, 1e23
+	frac := func(model string) float64 {
+		t.Helper()
+		s.Effects.IonisationModel = model
+		r, err := Evaluate(s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		v, ok := r.Get("donor_ionised_fraction")
+		if !ok {
+			t.Fatal("no donor_ionised_fraction")
+		}
+		return v
+	}
+	single, lowered := frac(""), frac("lowered")
+	if math.Abs(single-0.135) > 0.005 {
+		t.Errorf("single-level fraction %.4f, want 0.135", single)
+	}
+	if lowered <= single {
+		t.Errorf("lowered level ionises %g, single level %g: want more with the lowered level", lowered, single)
+	}
+	s.Effects.IonisationModel = "deep"
+	if err := s.Validate(); err == nil || !strings.Contains(err.Error(), FieldIonisationModel) {
+		t.Errorf("unknown ionisation model accepted: %v", err)
+	}
+}

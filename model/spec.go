@@ -82,6 +82,10 @@ type Effects struct {
 	// BGNModel names the band-gap narrowing set: "klaassen1992" (default,
 	// also "") or "slotboom1976".
 	BGNModel string `json:"bgn_model,omitempty"`
+	// IonisationModel names the dopant-level description of incomplete
+	// ionisation: "single-level" (default, also "") or "lowered" (see
+	// physics.IonisationModel).
+	IonisationModel string `json:"ionisation_model,omitempty"`
 }
 
 // IdealEffects returns the switches of the ideal Shockley diode: every
@@ -94,8 +98,9 @@ func IdealEffects() Effects {
 // falls back to the default; Validate reports it).
 func (e Effects) Physics() physics.Effects {
 	bm, _ := physics.ParseBGNModel(e.BGNModel)
+	im, _ := physics.ParseIonisationModel(e.IonisationModel)
 	return physics.Effects{SRH: !e.NoSRH, HighInjection: !e.NoHighInjection, SeriesResistance: !e.NoSeriesResistance,
-		BGN: !e.NoBGN, Ionisation: !e.NoIonisation, Breakdown: !e.NoBreakdown, BGNModel: bm}
+		BGN: !e.NoBGN, Ionisation: !e.NoIonisation, Breakdown: !e.NoBreakdown, BGNModel: bm, IonisationModel: im}
 }
 
 // DefaultPowerLimit, DefaultForwardCurrent are the values used when the
@@ -171,6 +176,7 @@ const (
 	FieldForwardCurrent    = "if"
 	FieldReverseCurrent    = "ir"
 	FieldBGNModel          = "bgn-model"
+	FieldIonisationModel   = "ion-model"
 )
 
 // FieldError reports one bad field: which, the offending value as the user
@@ -322,6 +328,9 @@ func (s Spec) Validate() error {
 	}
 	if _, err := physics.ParseBGNModel(s.Effects.BGNModel); err != nil {
 		add(FieldBGNModel, fmt.Sprintf("%q", s.Effects.BGNModel), "klaassen1992, slotboom1976", "the band-gap narrowing parameter sets junco knows")
+	}
+	if _, err := physics.ParseIonisationModel(s.Effects.IonisationModel); err != nil {
+		add(FieldIonisationModel, fmt.Sprintf("%q", s.Effects.IonisationModel), "single-level, lowered", "the dopant-level descriptions junco knows")
 	}
 	if len(errs) == 0 {
 		return nil

@@ -183,6 +183,13 @@ func fieldDefs() []fieldDef {
 			shown:  func(s model.Spec) bool { return !s.Effects.NoBGN }},
 		effectSwitch("effect-ion", "Incomplete ionisation", "dopants not all ionised (shallow levels, low temperature)", "",
 			func(e *model.Effects) *bool { return &e.NoIonisation }),
+		{id: model.FieldIonisationModel, label: "  dopant levels", hint: "how the ionisation of a dopant is described", step: 4, choice: true,
+			options: func(model.Spec) []option {
+				return []option{{"", "single level (textbook)"}, {"single-level", "single level"}, {"lowered", "lowered with doping"}}
+			},
+			str:    func(s model.Spec) string { return s.Effects.IonisationModel },
+			setStr: func(s *model.Spec, v string) { s.Effects.IonisationModel = v },
+			shown:  func(s model.Spec) bool { return !s.Effects.NoIonisation }},
 		effectSwitch("effect-bd", "Avalanche breakdown", "impact ionisation: multiplication and breakdown voltage", "",
 			func(e *model.Effects) *bool { return &e.NoBreakdown }),
 	}

@@ -89,6 +89,7 @@ func newCalcFlags(o *calcOptions, stderr io.Writer) *flag.FlagSet {
 	fs.BoolVar(&s.Effects.NoBreakdown, "no-breakdown", false, "effect off: avalanche breakdown search and multiplication")
 	fs.BoolVar(&o.ideal, "ideal", false, "every effect off: the ideal Shockley diode (a shunt set with --rsh still applies)")
 	fs.StringVar(&s.Effects.BGNModel, "bgn-model", "", "band-gap narrowing set: klaassen1992 (default) or slotboom1976")
+	fs.StringVar(&s.Effects.IonisationModel, "ion-model", "", "dopant levels of incomplete ionisation: single-level (default) or lowered")
 	fs.StringVar(&o.sweep, "sweep", "", "bias sweep FROM:TO:STEP, e.g. -2V:0.9V:10mV: one row per bias")
 	fs.StringVar(&o.tsweep, "tsweep", "", "temperature sweep FROM:TO:STEP, e.g. 250K:400K:10K: Is, VF at --if, dVF/dT, breakdown")
 	fs.BoolVar(&o.csv, "csv", false, "with --sweep or --tsweep: CSV with unit-labelled headers (SI) instead of a table")
@@ -110,7 +111,10 @@ Effects (all on by default; each flag turns one off, --ideal turns all off):
   --no-hli        high injection at the depletion edges
   --no-rs         series resistance of the regions (+ --rc), solved self-consistently
   --no-bgn        band-gap narrowing (Klaassen-Slotboom-de Graaff 1992; Si only)
-  --no-ion        incomplete ionisation of the dopants (Fermi-Dirac)
+  --no-ion        incomplete ionisation of the dopants (Fermi-Dirac); --ion-model
+                  single-level (default: one isolated level per dopant, fully
+                  ionised above its Mott density) or lowered (level lowered
+                  with doping)
   --no-breakdown  avalanche breakdown (ionisation integral) and multiplication
 current_A is the total with the enabled effects; ideal_current_A stays the
 Shockley current.
@@ -169,9 +173,9 @@ func runCalc(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		return exitUsage
 	}
 	if o.ideal {
-		bgn := o.spec.Effects.BGNModel
+		bgn, im := o.spec.Effects.BGNModel, o.spec.Effects.IonisationModel
 		o.spec.Effects = model.IdealEffects()
-		o.spec.Effects.BGNModel = bgn
+		o.spec.Effects.BGNModel, o.spec.Effects.IonisationModel = bgn, im
 	}
 	if err := o.spec.Validate(); err != nil {
 		return reportError(stderr, err)

@@ -279,9 +279,9 @@ func runSolve(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 		return exitUsage
 	}
 	if o.calc.ideal {
-		bgn := o.calc.spec.Effects.BGNModel
+		bgn, im := o.calc.spec.Effects.BGNModel, o.calc.spec.Effects.IonisationModel
 		o.calc.spec.Effects = model.IdealEffects()
-		o.calc.spec.Effects.BGNModel = bgn
+		o.calc.spec.Effects.BGNModel, o.calc.spec.Effects.IonisationModel = bgn, im
 	}
 	if msg := o.checkModes(); msg != "" {
 		fmt.Fprintln(stderr, "junco solve:", msg)
