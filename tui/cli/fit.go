@@ -69,8 +69,11 @@ func fitUsage(w io.Writer) {
       --current also dVF/dT at that current.
   junco fit batch DIR|FILE... [--jobs N] [--csv OUT] [--temp T] [--window V1:V2]
                        [--model single|double] [--json] [--ascii]
-      Fit many I-V files in parallel; summary per parameter (median,
-      quartiles, outliers) and a CSV table (--csv -, standard output).
+      Fit many I-V files in parallel: the files named and every .csv,
+      .tsv, .txt and .dat file under each directory (subdirectories too,
+      hidden entries skipped), in sorted order; summary per parameter
+      (median, quartiles, outliers; log scale for Is, Is2 and Rsh) and a
+      CSV table (--csv -, standard output). Ctrl-C keeps the rows done.
 
 --save-to NAME (fit iv and cv) stores each data set fitted (IDs iv-1, cv-1,
 ...) and its fit (parameters with standard errors; window and residual in
