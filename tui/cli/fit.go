@@ -188,6 +188,50 @@ func fitParseArgs(cmd string, args []string, valued, boolean []string) (*fitArgs
 	return a, nil
 }
 
+// fitStart parses the arguments of a fit subcommand; done says the caller
+// returns code at once: bad arguments (the message on stderr, exit 2) or
+// --help (the usage on stdout, exit 0).
+func fitStart(cmd string, args, valued, boolean []string, stdout, stderr io.Writer) (a *fitArgs, code int, done bool) {
+	a, err := fitParseArgs(cmd, args, valued, boolean)
+	if err != nil {
+		fmt.Fprintln(stderr, err)
+		return nil, exitUsage, true
+	}
+	if a.bools["help"] {
+		fitUsage(stdout)
+		return nil, exitOK, true
+	}
+	return a, exitOK, false
+}
+
+// fitStartCommon is fitStart followed by fitParseCommon.
+func fitStartCommon(cmd string, args, valued, boolean []string, stdout, stderr io.Writer) (*fitArgs, fitCommon, int, bool) {
+	a, code, done := fitStart(cmd, args, valued, boolean, stdout, stderr)
+	if done {
+		return nil, fitCommon{}, code, true
+	}
+	c, err := fitParseCommon(cmd, a)
+	if err != nil {
+		fmt.Fprintln(stderr, err)
+		return nil, c, exitUsage, true
+	}
+	return a, c, exitOK, false
+}
+
+// fitTextTail writes the lines that end a fit's text report: strong
+// correlations, notes and the model card.
+func fitTextTail(tw io.Writer, corr []fitCorrelation, notes []string, card string) {
+	for _, c := range corr {
+		fmt.Fprintf(tw, "strongly correlated\t\t%s and %s, r = %.3f\n", c.A, c.B, c.R)
+	}
+	for _, n := range notes {
+		fmt.Fprintf(tw, "note\t\t%s\n", n)
+	}
+	if card != "" {
+		fmt.Fprintf(tw, "model card\t\t%s\n", card)
+	}
+}
+
 // fitLooksNumeric keeps negative numbers ("-0.5:0.5") positional.
 func fitLooksNumeric(s string) bool {
 	return len(s) > 1 && s[0] == '-' && (s[1] >= '0' && s[1] <= '9' || s[1] == '.')

@@ -41,20 +41,11 @@ type fitArrheniusReport struct {
 }
 
 func fitRunArrhenius(args []string, stdout, stderr io.Writer) int {
-	a, err := fitParseArgs("arrhenius", args, []string{"temp", "window", "gamma", "current"}, []string{"json", "ascii"})
-	if err != nil {
-		fmt.Fprintln(stderr, err)
-		return exitUsage
+	a, c, code, done := fitStartCommon("arrhenius", args, []string{"temp", "window", "gamma", "current"}, []string{"json", "ascii"}, stdout, stderr)
+	if done {
+		return code
 	}
-	if a.bools["help"] {
-		fitUsage(stdout)
-		return exitOK
-	}
-	c, err := fitParseCommon("arrhenius", a)
-	if err != nil {
-		fmt.Fprintln(stderr, err)
-		return exitUsage
-	}
+	var err error
 	files := a.pos
 	if len(files) < 3 {
 		fmt.Fprintf(stderr, "junco fit arrhenius: %d files given; an activation energy with an error estimate needs I-V curves at 3 or more temperatures\n", len(files))

@@ -20,20 +20,11 @@ import (
 )
 
 func fitRunBatch(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	a, err := fitParseArgs("batch", args, []string{"jobs", "csv", "temp", "window", "model"}, []string{"json", "ascii"})
-	if err != nil {
-		fmt.Fprintln(stderr, err)
-		return exitUsage
+	a, c, code, done := fitStartCommon("batch", args, []string{"jobs", "csv", "temp", "window", "model"}, []string{"json", "ascii"}, stdout, stderr)
+	if done {
+		return code
 	}
-	if a.bools["help"] {
-		fitUsage(stdout)
-		return exitOK
-	}
-	c, err := fitParseCommon("batch", a)
-	if err != nil {
-		fmt.Fprintln(stderr, err)
-		return exitUsage
-	}
+	var err error
 	jobs := runtime.NumCPU()
 	if s, ok := a.str("jobs"); ok {
 		if jobs, err = strconv.Atoi(s); err != nil || jobs < 1 || jobs > 1024 {
@@ -102,7 +93,7 @@ func fitRunBatch(ctx context.Context, args []string, stdout, stderr io.Writer) i
 	if failed > 0 {
 		fmt.Fprintf(stderr, "junco fit batch: %d of %d files failed (listed with their errors)\n", failed, len(files))
 	}
-	code := exitOK
+	code = exitOK
 	switch {
 	case runErr != nil:
 		fmt.Fprintf(stderr, "junco fit batch: interrupted: %d of %d files done; results so far kept\n", ok+failed, len(files))

@@ -49,15 +49,11 @@ type fitCVReport struct {
 }
 
 func fitRunCV(args []string, stdout, stderr io.Writer) int {
-	a, err := fitParseArgs("cv", args, []string{"area", "material", "window", "smooth", "model-card", "save-to", "data"}, []string{"json", "ascii", "profile"})
-	if err != nil {
-		fmt.Fprintln(stderr, err)
-		return exitUsage
+	a, code, done := fitStart("cv", args, []string{"area", "material", "window", "smooth", "model-card", "save-to", "data"}, []string{"json", "ascii", "profile"}, stdout, stderr)
+	if done {
+		return code
 	}
-	if a.bools["help"] {
-		fitUsage(stdout)
-		return exitOK
-	}
+	var err error
 	bad := func(format string, x ...any) int {
 		fmt.Fprintf(stderr, "junco fit cv: "+format+"\n", x...)
 		return exitUsage
@@ -129,7 +125,7 @@ func fitRunCV(args []string, stdout, stderr io.Writer) int {
 		MottSchottkyRMSRel: fitNum(ms.RMSRelResidual), RowProblems: ds.ProblemRows, Notes: res.Notes}
 	r.BuiltInPotentialV, r.DopingPerM3 = fitNum(ms.BuiltInV), fitNum(ms.DopingM3)
 	r.StdErr.BuiltInPotentialV, r.StdErr.DopingPerM3 = fitNum(ms.StdErrV), fitNum(ms.StdErrM3)
-	code := exitOK
+	code = exitOK
 	if jf := res.Junction; jf == nil {
 		fmt.Fprintf(stderr, "junco fit cv: %s: junction-capacitance fit: %v\n", path, res.JunctionErr)
 		code = fitExitCode(res.JunctionErr)
@@ -192,15 +188,7 @@ func fitCVText(w io.Writer, r *fitCVReport, ascii bool) {
 		fmt.Fprintf(tw, "  parasitic capacitance\tCpar\t%s\n", fitPM(model.Capacitance, fitVal(r.ParasiticCapacitanceF), fitVal(r.StdErr.ParasiticCapacitanceF), ascii))
 		fmt.Fprintf(tw, "  rms relative residual\t\t%.4f\n", fitVal(r.JunctionFitRMSRel))
 	}
-	for _, c := range r.Correlations {
-		fmt.Fprintf(tw, "strongly correlated\t\t%s and %s, r = %.3f\n", c.A, c.B, c.R)
-	}
-	for _, n := range r.Notes {
-		fmt.Fprintf(tw, "note\t\t%s\n", n)
-	}
-	if r.ModelCard != "" {
-		fmt.Fprintf(tw, "model card\t\t%s\n", r.ModelCard)
-	}
+	fitTextTail(tw, r.Correlations, r.Notes, r.ModelCard)
 	tw.Flush()
 	if len(r.Profile) > 0 {
 		fmt.Fprintln(w, "\ndoping profile (differential C-V)")

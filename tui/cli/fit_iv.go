@@ -140,19 +140,9 @@ func fitIVFile(path string, c fitCommon, leakAt *float64) (*fitIVReport, error) 
 }
 
 func fitRunIV(args []string, stdout, stderr io.Writer) int {
-	a, err := fitParseArgs("iv", args, []string{"temp", "window", "model", "model-card", "leakage-at", "compare", "data", "save-to"}, []string{"json", "ascii"})
-	if err != nil {
-		fmt.Fprintln(stderr, err)
-		return exitUsage
-	}
-	if a.bools["help"] {
-		fitUsage(stdout)
-		return exitOK
-	}
-	c, err := fitParseCommon("iv", a)
-	if err != nil {
-		fmt.Fprintln(stderr, err)
-		return exitUsage
+	a, c, code, done := fitStartCommon("iv", args, []string{"temp", "window", "model", "model-card", "leakage-at", "compare", "data", "save-to"}, []string{"json", "ascii"}, stdout, stderr)
+	if done {
+		return code
 	}
 	if len(a.pos) == 0 {
 		fmt.Fprintln(stderr, "junco fit iv: no data file given (junco fit iv FILE...)")
@@ -192,7 +182,7 @@ func fitRunIV(args []string, stdout, stderr io.Writer) int {
 		}
 		cmpSpec = &sp
 	}
-	code := exitOK
+	code = exitOK
 	var reports []*fitIVReport
 	for _, p := range a.pos {
 		r, err := fitIVFile(p, c, leakAt)
@@ -302,14 +292,6 @@ func fitIVText(w io.Writer, r *fitIVReport, ascii bool) {
 	if r.ZeroBiasResistanceOhm != nil {
 		fmt.Fprintf(tw, "zero-bias resistance\tR0\t%s\n", model.Format(model.Resistance, *r.ZeroBiasResistanceOhm, 4, ascii))
 	}
-	for _, c := range f.Correlations {
-		fmt.Fprintf(tw, "strongly correlated\t\t%s and %s, r = %.3f\n", c.A, c.B, c.R)
-	}
-	for _, n := range r.Notes {
-		fmt.Fprintf(tw, "note\t\t%s\n", n)
-	}
-	if r.ModelCard != "" {
-		fmt.Fprintf(tw, "model card\t\t%s\n", r.ModelCard)
-	}
+	fitTextTail(tw, r.Correlations, r.Notes, r.ModelCard)
 	tw.Flush()
 }
