@@ -9,6 +9,7 @@ import (
 	"path/filepath"
 	"strings"
 	"testing"
+	"testing/fstest"
 
 	"junco/physics"
 	"junco/physics/extract"
@@ -200,5 +201,29 @@ func TestImportGuard(t *testing.T) {
 		if !ok || !strings.Contains(fe.Error(), c.want) {
 			t.Errorf("%q: %v, want a *FileError with %q", c.path, err, c.want)
 		}
+	}
+}
+
+// The batch walk reads through model.Files (a served user's inbox there):
+// it lists what the Files give, walks their folders, and stops at
+// MaxBatchDepth levels with an error naming the limit.
+func TestBatchFilesThroughFiles(t *testing.T) {
+	fsys := fstest.MapFS{
+		"a.csv":       {Data: []byte("x")},
+		"sub/b.TXT":   {Data: []byte("x")},
+		".h/c.csv":    {Data: []byte("x")},
+		"d.md":        {Data: []byte("x")},
+		"sub/e/f.dat": {Data: []byte("x")},
+	}
+	got, err := BatchFiles(fsys, ".")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := "a.csv sub/b.TXT sub/e/f.dat"; strings.Join(got, " ") != want {
+		t.Errorf("files %q, want %q", strings.Join(got, " "), want)
+	}
+	deep := strings.Repeat("d/", MaxBatchDepth+2) + "x.csv"
+	if _, err := BatchFiles(fstest.MapFS{deep: {Data: []byte("x")}}, "."); err == nil || !strings.Contains(err.Error(), fmt.Sprintf("at most %d", MaxBatchDepth)) {
+		t.Errorf("deep tree: %v", err)
 	}
 }
