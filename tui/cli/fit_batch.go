@@ -65,7 +65,7 @@ func fitRunBatch(ctx context.Context, args []string, stdout, stderr io.Writer) i
 		}
 		if now := time.Now(); done == total || now.Sub(last) >= 500*time.Millisecond {
 			last = now
-			fmt.Fprintf(stderr, "\rjunco fit batch: %d/%d files", done, total)
+			fmt.Fprintf(stderr, "\rjunco fit batch: %s", fitProgressLine(done, total, now.Sub(start)))
 			if done == total {
 				fmt.Fprintln(stderr)
 			}
@@ -121,6 +121,18 @@ func fitRunBatch(ctx context.Context, args []string, stdout, stderr io.Writer) i
 	}
 	fitBatchText(stdout, rows, sums, ok, failed, notRun, jobs, elapsed, c)
 	return code
+}
+
+// fitProgressLine says how far a batch is: files done of total, the rate
+// so far and the time left at that rate.
+func fitProgressLine(done, total int, elapsed time.Duration) string {
+	s := fmt.Sprintf("%d/%d files", done, total)
+	if done == 0 || elapsed <= 0 {
+		return s
+	}
+	rate := float64(done) / elapsed.Seconds()
+	left := time.Duration(float64(total-done) / rate * float64(time.Second)).Round(time.Second)
+	return s + fmt.Sprintf(", %.0f files/s, %s left ", rate, left)
 }
 
 // fitErrText is the message of err, "" for nil.

@@ -288,3 +288,15 @@ func TestFrontEndsImportGuard(t *testing.T) {
 		}
 	}
 }
+
+// The progress line of a long batch gives the files done, the rate and
+// the time left at that rate (250 of 1000 files in 5 s: 50 files/s, 15 s
+// left).
+func TestFitProgressLine(t *testing.T) {
+	if got := fitProgressLine(250, 1000, 5*time.Second); got != "250/1000 files, 50 files/s, 15s left " {
+		t.Errorf("%q", got)
+	}
+	if got := fitProgressLine(0, 1000, 0); got != "0/1000 files" {
+		t.Errorf("%q", got)
+	}
+}
