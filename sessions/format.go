@@ -65,6 +65,7 @@ func Decode(data []byte) (*Document, error) {
 	if err := decodeVersioned(data, currentMigrator(), doc); err != nil {
 		return nil, err
 	}
+	migrateCVRecords(doc)
 	if err := doc.Validate(); err != nil {
 		return nil, err
 	}

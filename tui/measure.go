@@ -11,6 +11,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"junco/model"
+	"junco/model/fit"
 	"junco/model/measure"
 	"junco/sessions"
 )
@@ -32,9 +33,9 @@ type fitState struct {
 	idx    int // index into the session's measurements
 	eds    [2]lineEditor
 	row    int
-	win    model.IVFitWindow
+	win    fit.Window
 	winErr string
-	view   *model.IVFitView
+	view   *fit.IVView
 	err    string
 	pred   *model.Curve
 	pErr   string
@@ -83,7 +84,7 @@ func (m Model) importKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	}
 	if keyIs(km, k.Submit) {
 		path := strings.TrimSpace(m.imp.ed.value())
-		ds, err := model.ImportMeasurement(m.sess.files, path, m.sess.now)
+		ds, err := fit.Import(m.sess.files, path, "", m.sess.now)
 		m.imp.ds, m.imp.err = nil, ""
 		if err != nil {
 			m.imp.err = err.Error()
@@ -253,13 +254,13 @@ func (m *Model) refit() {
 		return
 	}
 	ds := &m.sess.meas[f.idx].DataSet
-	v, err := model.FitMeasuredIV(ds, f.win, m.form.spec.Temperature)
+	v, err := fit.NewIVView(ds, fit.IVOptions{Window: f.win, Temperature: fit.TemperatureRule{FallbackK: m.form.spec.Temperature, FallbackSource: fit.SourceJunction}})
 	if err != nil {
 		f.err = err.Error()
 	} else {
 		f.view = v
 	}
-	if p, err := model.PredictedIV(m.form.spec, ds); err != nil {
+	if p, err := fit.PredictedIV(m.form.spec, ds); err != nil {
 		f.pErr = err.Error()
 	} else {
 		f.pred = &p
@@ -279,53 +280,36 @@ func (m *Model) keepFit() {
 		m.note = "no fit to keep"
 		return
 	}
-	ms := m.sess.meas[f.idx]
-	notes := append([]string{fmt.Sprintf("window %s to %s, %d points, RMS log residual %.4g, %s",
-		model.Format(model.Voltage, f.view.Fit.UsedWindow.MinV, 4, true), model.Format(model.Voltage, f.view.Fit.UsedWindow.MaxV, 4, true),
-		f.view.Fit.Points, f.view.Fit.RMSLogResidual, model.Format(model.Temperature, f.view.TemperatureK, 4, true))}, f.view.Fit.Notes...)
-	m.keepExtraction("iv-single-diode", ms.ID, f.view.Parameters(), notes)
+	m.keepRecords(m.sess.meas[f.idx].ID, fit.IVRecord(f.view.Result))
 }
 
-// keepExtraction adds a fit to the session's extractions (saved with
-// ctrl+s): finite parameters only, each with its standard error where
-// that is finite.
-func (m *Model) keepExtraction(method, measurement string, ps []model.FitParameter, notes []string) {
-	var params []sessions.Parameter
-	for _, p := range ps {
-		if !finite(p.Value) {
-			continue
-		}
-		q := sessions.Parameter{Name: p.Name, Unit: p.Unit, Value: p.Value}
-		if finite(p.StdErr) {
-			se := p.StdErr
-			q.StdError = &se
-		}
-		params = append(params, q)
-	}
-	id := fmt.Sprintf("fit-%d", len(m.sess.extr)+1)
-	m.sess.extr = append(m.sess.extr, sessions.Extraction{ID: id, Method: method, Measurement: measurement,
-		Performed: m.sess.now().UTC(), Parameters: params, Notes: notes})
-	m.note = "kept " + id + " of " + measurement + " with the session; ctrl+s saves it"
+// keepRecords adds the records of a fit of measurement to the session's
+// extractions (saved with ctrl+s) under IDs that collide with none
+// (sessions.AppendFitRecords).
+func (m *Model) keepRecords(measurement string, recs ...fit.Record) {
+	var ids []string
+	m.sess.extr, ids = sessions.AppendFitRecords(m.sess.extr, measurement, m.sess.now(), recs...)
+	m.note = "kept " + strings.Join(ids, ", ") + " of " + measurement + " with the session; ctrl+s saves it"
 }
 
 // parseWindow reads two window boxes: both empty means every point (the
 // zero window); otherwise V1 < V2 with units. The error names the box.
-func parseWindow(eds [2]lineEditor) (model.IVFitWindow, string) {
+func parseWindow(eds [2]lineEditor) (fit.Window, string) {
 	a, b := strings.TrimSpace(eds[0].value()), strings.TrimSpace(eds[1].value())
 	if a == "" && b == "" {
-		return model.IVFitWindow{}, ""
+		return fit.Window{}, ""
 	}
 	lo, err1 := model.ParseValue(model.Voltage, a)
 	hi, err2 := model.ParseValue(model.Voltage, b)
 	switch {
 	case err1 != nil:
-		return model.IVFitWindow{}, "V1: " + err1.Error()
+		return fit.Window{}, "V1: " + err1.Error()
 	case err2 != nil:
-		return model.IVFitWindow{}, "V2: " + err2.Error()
+		return fit.Window{}, "V2: " + err2.Error()
 	case !(lo < hi):
-		return model.IVFitWindow{}, "the window needs V1 < V2"
+		return fit.Window{}, "the window needs V1 < V2"
 	}
-	return model.IVFitWindow{MinV: lo, MaxV: hi}, ""
+	return fit.Window{MinV: lo, MaxV: hi}, ""
 }
 
 // applyWindow reads the window fields and refits; a bad window is
@@ -397,7 +381,7 @@ func (m *Model) renderFit() {
 	if f.idx < 0 || f.idx >= len(m.sess.meas) || cw < 16 {
 		return
 	}
-	meas := model.MeasuredCurve(&m.sess.meas[f.idx].DataSet)
+	meas := fit.MeasuredCurve(&m.sess.meas[f.idx].DataSet)
 	if len(meas.Series) == 0 {
 		return
 	}
@@ -588,7 +572,7 @@ type fitLayout struct {
 	idx         int    // the data set fitted
 	eds         [2]lineEditor
 	row         int
-	win         model.IVFitWindow
+	win         fit.Window
 	winErr      string
 	emptyWindow string // what an empty window means
 	noChart     string // shown when there is no chart
@@ -619,7 +603,7 @@ func (m Model) drawFit(l fitLayout, w, h int) []string {
 		return label + " " + st.text.Paint("["+l.eds[i].view(9, cur, " ")+"]")
 	}
 	win := "window " + field(0, "V1") + "  " + field(1, "V2")
-	if l.win == (model.IVFitWindow{}) {
+	if l.win == (fit.Window{}) {
 		win += st.muted.Paint("  (empty: " + l.emptyWindow + ")")
 	}
 	out = append(out, win)

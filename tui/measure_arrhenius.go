@@ -9,6 +9,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"junco/model"
+	"junco/model/fit"
 )
 
 // arrheniusState is the temperature screen: the I-V data sets at several
@@ -19,7 +20,7 @@ type arrheniusState struct {
 	ed       lineEditor
 	gamma    float64
 	gammaErr string
-	view     *model.ArrheniusView
+	view     *fit.ArrheniusView
 	err      string
 }
 
@@ -37,12 +38,12 @@ func (m *Model) openArrhenius() {
 // refitArrhenius runs the analysis with the gamma in force.
 func (m *Model) refitArrhenius() {
 	a := &m.arr
-	var in []model.ArrheniusInput
+	var in []fit.ArrheniusInput
 	for _, i := range m.ivMeasurements() {
-		in = append(in, model.ArrheniusInput{ID: m.sess.meas[i].ID, DataSet: &m.sess.meas[i].DataSet})
+		in = append(in, fit.ArrheniusInput{ID: m.sess.meas[i].ID, DataSet: &m.sess.meas[i].DataSet})
 	}
 	a.view, a.err = nil, ""
-	v, err := model.FitMeasuredArrhenius(in, a.gamma)
+	v, err := fit.Arrhenius(in, a.gamma)
 	a.view = v
 	if err != nil {
 		a.err = err.Error()

@@ -4,12 +4,14 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"path/filepath"
 	"strings"
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
 	"junco/model"
+	"junco/model/fit"
 )
 
 // batchState is the batch screen: a directory of I-V files fitted one by
@@ -25,7 +27,7 @@ type batchState struct {
 	done    chan batchDoneMsg
 	// n of total files finished in the run in force.
 	n, total int
-	view     *model.BatchView
+	view     *fit.BatchResult
 	err      string
 	dir      string // the directory of the run shown
 }
@@ -37,7 +39,7 @@ type batchProgressMsg struct{ seq, n, total int }
 // the error that stopped the run before any file.
 type batchDoneMsg struct {
 	seq  int
-	view *model.BatchView
+	view *fit.BatchResult
 	err  error
 }
 
@@ -81,13 +83,14 @@ func (m *Model) startBatch() tea.Cmd {
 			}
 			done <- msg
 		}()
-		files, err := model.BatchFiles(src, dir)
+		files, err := fit.BatchFiles(src, dir)
 		if err != nil {
 			msg.err = err
 			return
 		}
 		send(0, len(files))
-		msg.view, msg.err = model.BatchFitIV(ctx, src, files, fallbackK, 0, send)
+		msg.view, msg.err = fit.Batch(ctx, files, fit.BatchOptions{Files: src, Progress: send,
+			IV: fit.IVOptions{Temperature: fit.TemperatureRule{FallbackK: fallbackK, FallbackSource: fit.SourceJunction}}})
 	}()
 	return waitBatch(prog, done)
 }
@@ -127,7 +130,7 @@ func (m *Model) applyBatchDone(msg batchDoneMsg) {
 	b.running, b.cancel, b.prog, b.done = false, nil, nil, nil
 	b.view = msg.view
 	if v := msg.view; v != nil {
-		b.n, b.total = v.Fitted+v.Failed, v.Files
+		b.n, b.total = v.Fitted+v.Failed, len(v.Rows)
 	}
 	switch {
 	case msg.err == nil:
@@ -183,7 +186,7 @@ func (m Model) batchScreen(w, h int) []string {
 	case b.view != nil:
 		out = append(out, st.strong.Paint(c(fmt.Sprintf("%d of %d files", b.n, b.total))))
 	default:
-		out = append(out, st.muted.Paint(c("type a directory of CSV or TSV I-V files; enter fits them all")))
+		out = append(out, st.muted.Paint(c("type a directory of I-V files (.csv, .tsv, .txt, .dat; subdirectories too); enter fits them all")))
 		if m.sess.filesNote != "" {
 			out = append(out, wrapped(m.sess.filesNote, w, st.muted, "")...)
 		}
@@ -197,25 +200,36 @@ func (m Model) batchScreen(w, h int) []string {
 	}
 	out = append(out, "", c(fmt.Sprintf("%d fitted, %d failed, %d not run", v.Fitted, v.Failed, v.NotRun)))
 	out = append(out, st.strong.Paint(c(fmt.Sprintf("  %-4s %-11s %-11s %-11s %s", "", "median", "Q1", "Q3", "outliers"))))
-	for _, s := range v.Stats {
-		f := func(x float64) string { return model.Format(s.Kind, x, 3, ascii) }
-		sm := s.Summary
-		out = append(out, c(fmt.Sprintf("  %-4s %-11s %-11s %-11s %d of %d", s.Name, f(sm.Median), f(sm.Q1), f(sm.Q3), len(s.Outliers), sm.N)))
+	params := fit.BatchParams()
+	for j := range 3 { // Is, n, Rs
+		p, sm := params[j], v.Stats[j]
+		f := func(x float64) string { return model.Format(p.Kind, x, 3, ascii) }
+		out = append(out, c(fmt.Sprintf("  %-4s %-11s %-11s %-11s %d of %d", p.Symbol, f(sm.Median), f(sm.Q1), f(sm.Q3), len(sm.Outliers), sm.N)))
 	}
 	out = append(out, "", st.strong.Paint(c(fmt.Sprintf("  %-20s %-11s %-7s %s", "file", "Is", "n", "Rs"))))
+	var rows []fit.BatchRow
+	for _, r := range v.Rows {
+		if r.Status != fit.StatusNotRun {
+			rows = append(rows, r)
+		}
+	}
 	room := h - len(out)
-	for i, r := range v.Rows {
-		if i >= room-1 && len(v.Rows) > room {
-			out = append(out, st.muted.Paint(c(fmt.Sprintf("  ... %d more", len(v.Rows)-i))))
+	for i, r := range rows {
+		if i >= room-1 && len(rows) > room {
+			out = append(out, st.muted.Paint(c(fmt.Sprintf("  ... %d more", len(rows)-i))))
 			break
 		}
-		name := cut(r.File, 20, g.ellipsis)
+		file := r.File
+		if rel, err := filepath.Rel(b.dir, r.File); err == nil {
+			file = rel
+		}
+		name := cut(file, 20, g.ellipsis)
 		if r.Err != nil {
 			out = append(out, st.err.Paint(c(fmt.Sprintf("  %-20s %s %s", name, g.bad, oneLine(r.Err.Error())))))
 			continue
 		}
-		out = append(out, c(fmt.Sprintf("  %-20s %-11s %-7.3f %s", name, model.Format(model.Current, r.Is, 3, ascii), r.N,
-			model.Format(model.Resistance, r.Rs, 3, ascii))))
+		out = append(out, c(fmt.Sprintf("  %-20s %-11s %-7.3f %s", name, model.Format(model.Current, r.Values[0], 3, ascii), r.Values[1],
+			model.Format(model.Resistance, r.Values[2], 3, ascii))))
 	}
 	return block(out, w, h, g.ellipsis)
 }

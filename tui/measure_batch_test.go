@@ -12,7 +12,7 @@ import (
 
 	tea "github.com/charmbracelet/bubbletea"
 
-	"junco/model"
+	"junco/model/fit"
 	"junco/physics"
 	"junco/physics/extract"
 )
@@ -46,7 +46,7 @@ func writeBatchDir(t *testing.T, good int) string {
 	if err := os.WriteFile(filepath.Join(dir, "broken.csv"), []byte("no numbers here\nat all;;\n"), 0o600); err != nil {
 		t.Fatal(err)
 	}
-	if err := os.WriteFile(filepath.Join(dir, "notes.txt"), []byte("not listed"), 0o600); err != nil {
+	if err := os.WriteFile(filepath.Join(dir, "notes.md"), []byte("not listed"), 0o600); err != nil {
 		t.Fatal(err)
 	}
 	return dir
@@ -54,7 +54,7 @@ func writeBatchDir(t *testing.T, good int) string {
 
 func TestBatchFilesListing(t *testing.T) {
 	dir := writeBatchDir(t, 3)
-	files, err := model.BatchFiles(nil, dir)
+	files, err := fit.BatchFiles(nil, dir)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -65,7 +65,7 @@ func TestBatchFilesListing(t *testing.T) {
 	if got := strings.Join(names, " "); got != "broken.csv die00.csv die01.csv die02.csv" {
 		t.Errorf("files %q", got)
 	}
-	if _, err := model.BatchFiles(nil, filepath.Join(dir, "missing")); err == nil || !strings.Contains(err.Error(), "no directory") {
+	if _, err := fit.BatchFiles(nil, filepath.Join(dir, "missing")); err == nil || !strings.Contains(err.Error(), "no directory") {
 		t.Errorf("missing directory: %v", err)
 	}
 }
@@ -86,13 +86,13 @@ func TestBatchScreen(t *testing.T) {
 		t.Fatalf("batch not finished: running %v err %q\n%s", b.running, b.err, plain(m))
 	}
 	v := b.view
-	if v.Files != 7 || v.Fitted != 6 || v.Failed != 1 || len(v.Rows) != 7 {
+	if v.Fitted != 6 || v.Failed != 1 || len(v.Rows) != 7 {
 		t.Fatalf("view %+v", v)
 	}
-	if med := v.Stats[0].Summary.Median; math.Abs(med/batchIs-1) > 0.1 {
+	if med := v.Stats[0].Median; math.Abs(med/batchIs-1) > 0.1 {
 		t.Errorf("median Is %g, want %g within 10 %%", med, batchIs)
 	}
-	if v.Rows[0].File != "broken.csv" || v.Rows[0].Err == nil {
+	if filepath.Base(v.Rows[0].File) != "broken.csv" || v.Rows[0].Err == nil {
 		t.Errorf("the bad file must be a row with its error: %+v", v.Rows[0])
 	}
 	s := plain(m)
@@ -119,24 +119,24 @@ func TestBatchScreen(t *testing.T) {
 // A batch cancelled after its first file keeps the rows finished.
 func TestBatchCancelKeepsRows(t *testing.T) {
 	dir := writeBatchDir(t, 6)
-	files, err := model.BatchFiles(nil, dir)
+	files, err := fit.BatchFiles(nil, dir)
 	if err != nil {
 		t.Fatal(err)
 	}
 	ctx, cancel := context.WithCancel(context.Background())
 	defer cancel()
-	v, err := model.BatchFitIV(ctx, nil, files, 300, 1, func(done, total int) {
+	v, err := fit.Batch(ctx, files, fit.BatchOptions{Jobs: 1, Progress: func(done, total int) {
 		if done == 2 {
 			cancel()
 		}
-	})
-	if err == nil || v == nil || !v.Cancelled {
+	}})
+	if err == nil || v == nil || !v.Interrupted {
 		t.Fatalf("want a cancelled batch: %v %+v", err, v)
 	}
-	if len(v.Rows) < 2 || v.NotRun == 0 || len(v.Rows)+v.NotRun != len(files) {
+	if v.Fitted+v.Failed < 2 || v.NotRun == 0 || len(v.Rows) != len(files) {
 		t.Fatalf("rows %d, not run %d of %d", len(v.Rows), v.NotRun, len(files))
 	}
-	if v.Rows[1].Err != nil || v.Stats[0].Summary.N != v.Fitted {
+	if v.Rows[1].Err != nil || v.Stats[0].N != v.Fitted {
 		t.Errorf("finished rows lost: %+v", v.Rows)
 	}
 }
@@ -162,7 +162,7 @@ func TestBatchScreenCancel(t *testing.T) {
 	if m.bat.running || m.bat.view == nil {
 		t.Fatalf("the cancelled batch must end with its rows: %+v", m.bat)
 	}
-	if v := m.bat.view; v.Cancelled {
+	if v := m.bat.view; v.Interrupted {
 		if !strings.Contains(m.bat.err, "cancelled") || v.Fitted+v.Failed+v.NotRun != 7 {
 			t.Errorf("cancelled view: err %q %+v", m.bat.err, v)
 		}

@@ -8,6 +8,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"junco/model"
+	"junco/model/fit"
 	"junco/model/measure"
 )
 
@@ -17,9 +18,9 @@ type cvFitState struct {
 	idx    int // index into the session's measurements
 	eds    [2]lineEditor
 	row    int
-	win    model.IVFitWindow
+	win    fit.Window
 	winErr string
-	view   *model.CVFitView
+	view   *fit.CVView
 	err    string
 
 	w, h   int
@@ -106,7 +107,7 @@ func (m *Model) recvfit() {
 		m.renderCVFit()
 		return
 	}
-	v, err := model.FitMeasuredCV(&m.sess.meas[f.idx].DataSet, m.form.spec, f.win)
+	v, err := fit.NewCVView(&m.sess.meas[f.idx].DataSet, m.form.spec, f.win)
 	if err != nil {
 		f.err = err.Error()
 	} else {
@@ -127,16 +128,7 @@ func (m *Model) keepCVFit() {
 		m.note = "no fit to keep"
 		return
 	}
-	ms := m.sess.meas[f.idx]
-	v := f.view
-	r := v.MottSchottky
-	notes := []string{fmt.Sprintf("window %s to %s, %d points, RMS relative residual of 1/C^2 %.4g",
-		model.Format(model.Voltage, r.UsedWindow.MinV, 4, true), model.Format(model.Voltage, r.UsedWindow.MaxV, 4, true), r.Points, r.RMSRelResidual),
-		fmt.Sprintf("one-sided abrupt junction; area %s, permittivity of %s", model.Format(model.Area, v.AreaM2, 4, true), v.Material)}
-	if v.JunctionNote != "" {
-		notes = append(notes, v.JunctionNote)
-	}
-	m.keepExtraction("mott-schottky", ms.ID, v.Parameters(), notes)
+	m.keepRecords(m.sess.meas[f.idx].ID, fit.CVRecords(f.view.Result)...)
 }
 
 // applyCVWindow reads the window fields (parseWindow) and refits; a bad

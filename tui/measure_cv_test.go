@@ -115,7 +115,10 @@ func TestCVFitRoundTrip(t *testing.T) {
 	}
 }
 
-// ctrl+k keeps the C-V fit as a Mott-Schottky extraction that validates.
+// ctrl+k keeps the C-V fit as the command line stores it (fit.CVRecords):
+// a Mott-Schottky extraction (Vbi, N) and, when the junction fit
+// converged, a junction-capacitance extraction (Cj0, Vbi, m, Cpar); the
+// document validates.
 func TestKeepCVFit(t *testing.T) {
 	st := newStore(t, "alice")
 	m := start(New(opts(st, "alice", 120, 40)))
@@ -131,8 +134,18 @@ func TestKeepCVFit(t *testing.T) {
 		t.Fatalf("pgdn must reach the C-V data set: %q\n%s", m.cvfit.err, plain(m))
 	}
 	m = press(m, "ctrl+k")
-	if len(m.sess.extr) != 1 || !m.Dirty() {
-		t.Fatalf("kept %d fits, dirty %v", len(m.sess.extr), m.Dirty())
+	want := 1
+	if m.cvfit.view.Junction != nil {
+		want = 2
+	}
+	if len(m.sess.extr) != want || !m.Dirty() {
+		t.Fatalf("kept %d fits (want %d), dirty %v", len(m.sess.extr), want, m.Dirty())
+	}
+	if want == 2 {
+		j := m.sess.extr[1]
+		if j.Method != "cv-junction-capacitance" || len(j.Parameters) != 4 || j.Parameters[1].Name != "Vbi" || j.ID == m.sess.extr[0].ID {
+			t.Errorf("junction extraction %+v", j)
+		}
 	}
 	x := m.sess.extr[0]
 	if x.Method != "mott-schottky" || !strings.HasPrefix(x.Measurement, "cv-") || len(x.Parameters) < 2 ||
@@ -143,7 +156,7 @@ func TestKeepCVFit(t *testing.T) {
 		t.Errorf("demo doping ratio %.4f", r)
 	}
 	doc, err := m.document("demo")
-	if err != nil || len(doc.Extractions) != 1 {
+	if err != nil || len(doc.Extractions) != want {
 		t.Fatalf("document extractions: %v %v", doc, err)
 	}
 	if err := doc.Validate(); err != nil {

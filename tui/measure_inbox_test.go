@@ -108,7 +108,7 @@ func TestServedBatchReadsOnlyTheInbox(t *testing.T) {
 	}
 	m = press(m, "B", "ctrl+u", "enter")
 	v := m.bat.view
-	if v == nil || v.Files != 1 || v.Fitted != 1 || v.Rows[0].File != "die.csv" {
+	if v == nil || len(v.Rows) != 1 || v.Fitted != 1 || v.Rows[0].File != "die.csv" {
 		t.Fatalf("batch of the inbox: %+v err %q", v, m.bat.err)
 	}
 }

@@ -10,6 +10,7 @@ import (
 	"time"
 
 	"junco/model"
+	"junco/model/fit"
 	"junco/model/measure"
 	"junco/physics"
 	"junco/physics/extract"
@@ -151,7 +152,7 @@ func TestFitSaveToSessionAppends(t *testing.T) {
 		t.Fatal(err)
 	}
 	now := time.Now()
-	items := []fitSaveItem{fitIVSaveItem(r, now)}
+	items := []fitSaveItem{{prefix: "iv", ds: r.res.DataSet, records: []fit.Record{fit.IVRecord(r.res)}}}
 	for want := 1; want <= 2; want++ {
 		res, err := fitSaveToSession(store, "s", items, now, io.Discard)
 		if err != nil || res.Revision != want || res.Created != (want == 1) {

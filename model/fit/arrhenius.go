@@ -1,4 +1,4 @@
-package model
+package fit
 
 import (
 	"errors"
@@ -61,12 +61,26 @@ func (v *ArrheniusView) Used() []ArrheniusRow {
 	return out
 }
 
-// FitMeasuredArrhenius fits each I-V data set that states its temperature
+// ArrheniusPointOf is the point a single-diode I-V fit gives the
+// Arrhenius line: its temperature, Is and the standard error of Is (0,
+// meaning not weighted by it, when not determined).
+func ArrheniusPointOf(r *IVResult) extract.ArrheniusPoint {
+	return arrheniusPoint(r.Temperature.K, r.Fit.Single.SaturationCurrentA, r.Fit.SingleStdErr.SaturationCurrentA)
+}
+
+func arrheniusPoint(t, is, se float64) extract.ArrheniusPoint {
+	if !Finite(se) {
+		se = 0
+	}
+	return extract.ArrheniusPoint{TemperatureK: t, SaturationCurrentA: is, StdErrA: se}
+}
+
+// Arrhenius fits each I-V data set that states its temperature
 // and then the Arrhenius line of the saturation currents; gamma sets the
 // prefactor exponent 3 + gamma/2 (0: T^3). Data sets without a
 // temperature, or whose fit fails, are listed with the reason and left
 // out. At least three temperatures are needed for an error estimate.
-func FitMeasuredArrhenius(sets []ArrheniusInput, gamma float64) (*ArrheniusView, error) {
+func Arrhenius(sets []ArrheniusInput, gamma float64) (*ArrheniusView, error) {
 	if math.IsNaN(gamma) || math.IsInf(gamma, 0) {
 		return nil, errors.New("gamma must be a finite number")
 	}
@@ -86,7 +100,7 @@ func FitMeasuredArrhenius(sets []ArrheniusInput, gamma float64) (*ArrheniusView,
 			continue
 		}
 		r.TemperatureK = t
-		f, err := FitMeasuredIV(ds, IVFitWindow{}, t)
+		f, err := IV(ds, IVOptions{})
 		if err != nil {
 			r.Skip = "fit failed: " + err.Error()
 			skipped = append(skipped, r)
@@ -114,11 +128,7 @@ func FitMeasuredArrhenius(sets []ArrheniusInput, gamma float64) (*ArrheniusView,
 	}
 	pts := make([]extract.ArrheniusPoint, len(used))
 	for i, r := range used {
-		se := r.StdErrA
-		if math.IsNaN(se) {
-			se = 0
-		}
-		pts[i] = extract.ArrheniusPoint{TemperatureK: r.TemperatureK, SaturationCurrentA: r.SaturationCurrentA, StdErrA: se}
+		pts[i] = arrheniusPoint(r.TemperatureK, r.SaturationCurrentA, r.StdErrA)
 	}
 	fit, err := extract.FitArrhenius(pts, extract.ArrheniusOptions{Gamma: gamma})
 	if err != nil {

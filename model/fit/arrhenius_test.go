@@ -1,16 +1,17 @@
-package model
+package fit
 
 import (
 	"math"
 	"strings"
 	"testing"
 
+	"junco/model"
 	"junco/model/measure"
 )
 
 func demoArrheniusInputs(t *testing.T) []ArrheniusInput {
 	t.Helper()
-	sets, err := DemoMeasurements(1)
+	sets, err := model.DemoMeasurements(1)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -26,12 +27,12 @@ func demoArrheniusInputs(t *testing.T) []ArrheniusInput {
 // On the invented demo sweeps (three temperatures) the activation energy
 // is that of silicon's saturation current: between Eg/2 and Eg + 0.2 eV
 // (diffusion near Eg, generation near Eg/2; Sze & Ng 2007, sec. 2.3).
-func TestFitMeasuredArrheniusDemo(t *testing.T) {
+func TestArrheniusDemo(t *testing.T) {
 	in := demoArrheniusInputs(t)
 	if len(in) < 3 {
 		t.Fatalf("the demo has %d I-V sweeps", len(in))
 	}
-	v, err := FitMeasuredArrhenius(in, 0)
+	v, err := Arrhenius(in, 0)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -51,25 +52,25 @@ func TestFitMeasuredArrheniusDemo(t *testing.T) {
 		t.Errorf("line %v %v, first point %.4g", v.LineX, v.LineY, used[0].LnReducedSaturationA)
 	}
 	// gamma changes the exponent and so Ea.
-	v2, err := FitMeasuredArrhenius(in, 2)
+	v2, err := Arrhenius(in, 2)
 	if err != nil || v2.Fit.Exponent != 4 || v2.Fit.ActivationEnergyEV >= ea {
 		t.Fatalf("gamma 2: %v %+v", err, v2.Fit)
 	}
 }
 
-func TestFitMeasuredArrheniusTooFew(t *testing.T) {
+func TestArrheniusTooFew(t *testing.T) {
 	in := demoArrheniusInputs(t)
-	v, err := FitMeasuredArrhenius(in[:1], 0)
+	v, err := Arrhenius(in[:1], 0)
 	if err == nil || v == nil || len(v.Rows) != 1 || !strings.Contains(err.Error(), "two or more temperatures") {
 		t.Fatalf("one temperature: %v", err)
 	}
 	noT := *in[0].DataSet
 	noT.StatedTemperatureK, noT.TemperatureK = 0, nil
-	v, err = FitMeasuredArrhenius(append([]ArrheniusInput{{ID: "x", DataSet: &noT}}, in...), 0)
+	v, err = Arrhenius(append([]ArrheniusInput{{ID: "x", DataSet: &noT}}, in...), 0)
 	if err != nil || v.Rows[len(v.Rows)-1].Skip == "" || len(v.Used()) != len(in) {
 		t.Fatalf("a data set without temperature is listed and left out: %v %+v", err, v.Rows)
 	}
-	if _, err := FitMeasuredArrhenius(in, math.NaN()); err == nil {
+	if _, err := Arrhenius(in, math.NaN()); err == nil {
 		t.Error("NaN gamma must be refused")
 	}
 }

@@ -1,0 +1,25 @@
+// Package fit is the one fit layer of junco: importing a measurement file
+// for a fit, choosing the fit's temperature, fitting I-V and C-V data sets,
+// the Arrhenius analysis, batches of files with their statistics, and the
+// records a fit leaves in a session. The command line (tui/cli) and the
+// workbench (tui) both call it, so that the same file gives the same
+// answer in both.
+//
+// Policies kept here, once:
+//   - Temperature: the file's own (a temperature column, else a
+//     "# temperature: 300 K" comment), else the option given, else the
+//     caller's fallback (the junction's in the workbench, 300 K assumed on
+//     the command line); the result always says which (Temperature.Source)
+//     and a note says so when it was not the file's.
+//   - Files: only regular files of at most MaxFileBytes are imported.
+//   - Batches: directories are walked recursively, hidden entries skipped,
+//     and files ending .csv, .tsv, .txt or .dat (any case) are taken, in
+//     sorted order; one row per file in that order, whatever the number of
+//     workers.
+//   - Statistics: median, quartiles and Tukey fences, on log10 for the
+//     quantities that span decades and are positive by nature (Is, Is2,
+//     Rsh), linear for n and Rs (a fitted Rs of 0 is a value, not a gap).
+//   - Records: one method name and one parameter set per model; values
+//     that are not finite are left out with a note; record IDs are
+//     MEASUREMENT-fit-K with the smallest free K.
+package fit

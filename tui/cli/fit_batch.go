@@ -1,0 +1,304 @@
+package cli
+
+import (
+	"context"
+	"encoding/csv"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"runtime"
+	"strconv"
+	"strings"
+	"text/tabwriter"
+	"time"
+
+	"junco/model"
+	"junco/model/fit"
+	"junco/physics/extract"
+)
+
+func fitRunBatch(ctx context.Context, args []string, stdout, stderr io.Writer) int {
+	a, c, code, done := fitStartCommon("batch", args, []string{"jobs", "csv", "temp", "window", "model"}, []string{"json", "ascii"}, stdout, stderr)
+	if done {
+		return code
+	}
+	var err error
+	jobs := runtime.NumCPU()
+	if s, ok := a.str("jobs"); ok {
+		if jobs, err = strconv.Atoi(s); err != nil || jobs < 1 || jobs > 1024 {
+			fmt.Fprintf(stderr, "junco fit batch: --jobs %q: expected a whole number of workers, 1..1024\n", s)
+			return exitUsage
+		}
+	}
+	if len(a.pos) == 0 {
+		fmt.Fprintln(stderr, "junco fit batch: no directory or file given (junco fit batch DIR|FILE...)")
+		return exitUsage
+	}
+	files, err := fit.BatchFiles(nil, a.pos...)
+	if err != nil {
+		fmt.Fprintf(stderr, "junco fit batch: %v\n", err)
+		return exitUsage // nothing to fit: bad input
+	}
+	csvPath, wantCSV := a.str("csv")
+	var csvOut io.Writer
+	if wantCSV {
+		if csvPath == "-" {
+			csvOut = stdout
+		} else {
+			f, err := os.Create(csvPath)
+			if err != nil {
+				fmt.Fprintf(stderr, "junco fit batch: --csv: %v\n", err)
+				return exitUsage
+			}
+			defer f.Close()
+			csvOut = f
+		}
+	}
+	start := time.Now()
+	showProgress := len(files) >= 100
+	last := time.Time{}
+	progress := func(done, total int) {
+		if !showProgress {
+			return
+		}
+		if now := time.Now(); done == total || now.Sub(last) >= 500*time.Millisecond {
+			last = now
+			fmt.Fprintf(stderr, "\rjunco fit batch: %s", fitProgressLine(done, total, now.Sub(start)))
+			if done == total {
+				fmt.Fprintln(stderr)
+			}
+		}
+	}
+	res, runErr := fit.Batch(ctx, files, fit.BatchOptions{IV: c.ivOptions(), Jobs: jobs, Progress: progress})
+	if showProgress && runErr != nil {
+		fmt.Fprintln(stderr)
+	}
+	rows, sums := res.Rows, res.Stats
+	ok, failed, notRun, assumed := res.Fitted, res.Failed, res.NotRun, 0
+	allInput := true
+	for _, r := range rows {
+		switch {
+		case r.Status == fit.StatusError && fitExitCode(r.Err) != exitUsage:
+			allInput = false
+		case r.Status == fit.StatusOK && r.Temperature.Source == fit.SourceAssumed:
+			assumed++
+		}
+	}
+	elapsed := time.Since(start)
+	if assumed > 0 {
+		fmt.Fprintf(stderr, "junco fit batch: %d files give no temperature; 300 K assumed for them (use --temp)\n", assumed)
+	}
+	if failed > 0 {
+		fmt.Fprintf(stderr, "junco fit batch: %d of %d files failed (listed with their errors)\n", failed, len(files))
+	}
+	code = exitOK
+	switch {
+	case runErr != nil:
+		fmt.Fprintf(stderr, "junco fit batch: interrupted: %d of %d files done; results so far kept\n", ok+failed, len(files))
+		code = exitFailure
+	case ok == 0 && allInput:
+		code = exitUsage
+	case ok == 0:
+		code = exitFailure
+	}
+	if csvOut != nil {
+		if err := fitBatchCSV(csvOut, rows, sums); err != nil {
+			fmt.Fprintf(stderr, "junco fit batch: --csv: %v\n", err)
+			return exitFailure
+		}
+		if csvPath == "-" {
+			return code
+		}
+	}
+	if c.json {
+		if err := fitWriteJSON(stdout, fitBatchJSON(rows, sums, ok, failed, notRun, runErr != nil)); err != nil {
+			fmt.Fprintf(stderr, "junco fit batch: %v\n", err)
+			return exitFailure
+		}
+		return code
+	}
+	fitBatchText(stdout, rows, sums, ok, failed, notRun, jobs, elapsed, c)
+	return code
+}
+
+// fitProgressLine says how far a batch is: files done of total, the rate
+// so far and the time left at that rate.
+func fitProgressLine(done, total int, elapsed time.Duration) string {
+	s := fmt.Sprintf("%d/%d files", done, total)
+	if done == 0 || elapsed <= 0 {
+		return s
+	}
+	rate := float64(done) / elapsed.Seconds()
+	left := time.Duration(float64(total-done) / rate * float64(time.Second)).Round(time.Second)
+	return s + fmt.Sprintf(", %.0f files/s, %s left ", rate, left)
+}
+
+// fitErrText is the message of err, "" for nil.
+func fitErrText(err error) string {
+	if err == nil {
+		return ""
+	}
+	return err.Error()
+}
+
+func fitCSVNum(v float64) string {
+	if math.IsNaN(v) {
+		return ""
+	}
+	if math.IsInf(v, 1) {
+		return "inf"
+	}
+	return strconv.FormatFloat(v, 'g', 6, 64)
+}
+
+// fitOutlierSet maps row index to the parameters it is an outlier in.
+func fitOutlierSet(sums [5]extract.Summary) map[int][]string {
+	m := map[int][]string{}
+	for j, s := range sums {
+		for _, k := range s.Outliers {
+			m[k] = append(m[k], fit.BatchParams()[j].Key)
+		}
+	}
+	return m
+}
+
+func fitBatchCSV(w io.Writer, rows []fit.BatchRow, sums [5]extract.Summary) error {
+	cw := csv.NewWriter(w)
+	head := []string{"file", "status", "error", "temperature_K", "temperature_source"}
+	for _, p := range fit.BatchParams() {
+		head = append(head, p.Key, p.Key+"_stderr")
+	}
+	head = append(head, "rms_log_residual", "points", "outlier_in")
+	if err := cw.Write(head); err != nil {
+		return err
+	}
+	out := fitOutlierSet(sums)
+	rec := make([]string, 0, len(head))
+	for k, r := range rows {
+		rec = rec[:0]
+		rec = append(rec, r.File, r.Status, fitErrText(r.Err))
+		if r.Status != fit.StatusOK {
+			for len(rec) < len(head) {
+				rec = append(rec, "")
+			}
+		} else {
+			rec = append(rec, fitCSVNum(r.Temperature.K), r.Temperature.Source)
+			for j := range fit.BatchParams() {
+				rec = append(rec, fitCSVNum(r.Values[j]), fitCSVNum(r.StdErr[j]))
+			}
+			rec = append(rec, fitCSVNum(r.RMS), strconv.Itoa(r.Points), strings.Join(out[k], " "))
+		}
+		if err := cw.Write(rec); err != nil {
+			return err
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+type fitSummaryJSON struct {
+	N         int      `json:"n"`
+	Median    *float64 `json:"median"`
+	Q1        *float64 `json:"q1"`
+	Q3        *float64 `json:"q3"`
+	LowFence  *float64 `json:"low_fence"`
+	HighFence *float64 `json:"high_fence"`
+	LogScale  bool     `json:"log_scale"`
+	Outliers  []string `json:"outliers"`
+}
+
+type fitBatchRowJSON struct {
+	File              string   `json:"file"`
+	Status            string   `json:"status"`
+	Error             string   `json:"error,omitempty"`
+	TemperatureK      *float64 `json:"temperature_K,omitempty"`
+	TemperatureSource string   `json:"temperature_source,omitempty"`
+	*fitIVValues
+	RMSLogResidual *float64     `json:"rms_log_residual,omitempty"`
+	Points         int          `json:"points,omitempty"`
+	StdErr         *fitIVValues `json:"stderr,omitempty"`
+}
+
+func fitBatchJSON(rows []fit.BatchRow, sums [5]extract.Summary, ok, failed, notRun int, interrupted bool) any {
+	summary := map[string]fitSummaryJSON{}
+	for j, s := range sums {
+		if s.N == 0 {
+			continue
+		}
+		sj := fitSummaryJSON{N: s.N, Median: fitNum(s.Median), Q1: fitNum(s.Q1), Q3: fitNum(s.Q3),
+			LowFence: fitNum(s.LowFence), HighFence: fitNum(s.HiFence), LogScale: s.Log, Outliers: []string{}}
+		for _, k := range s.Outliers {
+			sj.Outliers = append(sj.Outliers, rows[k].File)
+		}
+		summary[fit.BatchParams()[j].Key] = sj
+	}
+	var out []fitBatchRowJSON
+	for _, r := range rows {
+		rj := fitBatchRowJSON{File: r.File, Status: r.Status, Error: fitErrText(r.Err)}
+		if r.Status == fit.StatusOK {
+			rj.TemperatureK, rj.TemperatureSource = fitNum(r.Temperature.K), r.Temperature.Source
+			v, s := r.Values, r.StdErr
+			rj.fitIVValues = &fitIVValues{fitNum(v[0]), fitNum(v[1]), fitNum(v[2]), fitNum(v[3]), fitNum(v[4])}
+			rj.StdErr = &fitIVValues{fitNum(s[0]), fitNum(s[1]), fitNum(s[2]), fitNum(s[3]), fitNum(s[4])}
+			rj.RMSLogResidual, rj.Points = fitNum(r.RMS), r.Points
+		}
+		out = append(out, rj)
+	}
+	return struct {
+		Files       int                       `json:"files"`
+		Fitted      int                       `json:"fitted"`
+		Failed      int                       `json:"failed"`
+		NotRun      int                       `json:"not_run"`
+		Interrupted bool                      `json:"interrupted"`
+		Summary     map[string]fitSummaryJSON `json:"summary"`
+		Results     []fitBatchRowJSON         `json:"results"`
+	}{len(rows), ok, failed, notRun, interrupted, summary, out}
+}
+
+func fitBatchText(w io.Writer, rows []fit.BatchRow, sums [5]extract.Summary, ok, failed, notRun, jobs int, elapsed time.Duration, c fitCommon) {
+	fmt.Fprintf(w, "%d files: %d fitted, %d failed", len(rows), ok, failed)
+	if notRun > 0 {
+		fmt.Fprintf(w, ", %d not run (interrupted)", notRun)
+	}
+	fmt.Fprintf(w, "; %s diode model, %d workers, %.1f s\n\n", c.model, jobs, elapsed.Seconds())
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintf(tw, "parameter\tN\tmedian\tQ1\tQ3\toutliers\n")
+	for j, p := range fit.BatchParams() {
+		s := sums[j]
+		if s.N == 0 {
+			continue
+		}
+		f := func(v float64) string { return model.Format(p.Kind, v, 4, c.ascii) }
+		var names []string
+		for i, k := range s.Outliers {
+			if i == 3 {
+				names = append(names, fmt.Sprintf("... %d more", len(s.Outliers)-3))
+				break
+			}
+			names = append(names, filepath.Base(rows[k].File))
+		}
+		o := strconv.Itoa(len(s.Outliers))
+		if len(names) > 0 {
+			o += " (" + strings.Join(names, ", ") + ")"
+		}
+		fmt.Fprintf(tw, "%s\t%d\t%s\t%s\t%s\t%s\n", p.Label, s.N, f(s.Median), f(s.Q1), f(s.Q3), o)
+	}
+	tw.Flush()
+	fmt.Fprintln(w, "\n(quartiles by linear interpolation; outliers beyond 1.5 IQR, on a log scale for Is, Is2 and Rsh)")
+	if failed > 0 {
+		fmt.Fprintln(w, "\nfailed:")
+		shown := 0
+		for _, r := range rows {
+			if r.Status == fit.StatusError {
+				if shown == 20 {
+					fmt.Fprintf(w, "  ... %d more (see --csv)\n", failed-20)
+					break
+				}
+				fmt.Fprintf(w, "  %s\n", fitErrText(r.Err))
+				shown++
+			}
+		}
+	}
+}

@@ -1,0 +1,297 @@
+package cli
+
+import (
+	"fmt"
+	"io"
+	"math"
+	"text/tabwriter"
+
+	"junco/model"
+	"junco/model/fit"
+	"junco/model/measure"
+	"junco/physics/extract"
+)
+
+// fitIVReport is the JSON object of one I-V fit.
+type fitIVReport struct {
+	File              string    `json:"file"`
+	Error             string    `json:"error,omitempty"`
+	Model             string    `json:"model,omitempty"`
+	TemperatureK      *float64  `json:"temperature_K,omitempty"`
+	TemperatureSource string    `json:"temperature_source,omitempty"`
+	WindowV           []float64 `json:"window_V,omitempty"`
+	*fitIVValues
+	RMSLogResidual        *float64         `json:"rms_log_residual,omitempty"`
+	Points                *int             `json:"points,omitempty"`
+	SkippedPoints         int              `json:"skipped_points,omitempty"`
+	RowProblems           int              `json:"row_problems,omitempty"`
+	StdErr                *fitIVValues     `json:"stderr,omitempty"`
+	Correlations          []fitCorrelation `json:"correlations,omitempty"`
+	LeakageCurrentA       *float64         `json:"leakage_current_A,omitempty"`
+	LeakageBiasV          *float64         `json:"leakage_bias_V,omitempty"`
+	ZeroBiasResistanceOhm *float64         `json:"zero_bias_resistance_ohm,omitempty"`
+	Notes                 []string         `json:"notes,omitempty"`
+	ModelCard             string           `json:"model_card,omitempty"`
+	*fitIVCompare
+
+	fit *extract.IVFit
+	res *fit.IVResult
+}
+
+// fitIVCompare is the comparison of the data with a session's junction
+// (--compare).
+type fitIVCompare struct {
+	CompareSession              string   `json:"compare_session"`
+	CompareError                string   `json:"compare_error,omitempty"`
+	PredictionRMSLogRatio       *float64 `json:"prediction_rms_log_ratio,omitempty"`
+	MeasuredDiffusionIsA        *float64 `json:"measured_diffusion_saturation_current_A,omitempty"`
+	ModelDiffusionIsA           *float64 `json:"model_diffusion_saturation_current_A,omitempty"`
+	LifetimeVaried              string   `json:"lifetime_varied,omitempty"`
+	SpecLifetimeS               *float64 `json:"spec_lifetime_s,omitempty"`
+	ReconcilingLifetimeS        *float64 `json:"reconciling_lifetime_s,omitempty"`
+	ReconcilingDiffusionLengthM *float64 `json:"reconciling_diffusion_length_m,omitempty"`
+	Assumptions                 []string `json:"assumptions,omitempty"`
+}
+
+// fitCompareIV compares the data set of a fit with spec over the window,
+// at the fit's temperature when the file states none and --temp gave one.
+func fitCompareIV(r *fitIVReport, session string, spec model.Spec, c fitCommon) *fitIVCompare {
+	out := &fitIVCompare{CompareSession: session}
+	ds := *r.res.DataSet
+	if t := r.res.Temperature; t.Source == fit.SourceOption {
+		ds.TemperatureK, ds.StatedTemperatureK = nil, t.K
+	}
+	cmp, err := model.CompareIV(spec, &ds, c.window.MinV, c.window.MaxV)
+	if cmp != nil {
+		out.PredictionRMSLogRatio = fitNum(cmp.RMSLogRatio)
+		out.ModelDiffusionIsA = fitNum(cmp.ModelIsA)
+	}
+	if err != nil {
+		out.CompareError = err.Error()
+		return out
+	}
+	out.MeasuredDiffusionIsA = fitNum(cmp.MeasuredIsA)
+	out.LifetimeVaried, out.SpecLifetimeS = cmp.LifetimeSide, fitNum(cmp.SpecLifetimeS)
+	out.ReconcilingLifetimeS = fitNum(cmp.ReconcilingLifetimeS)
+	out.ReconcilingDiffusionLengthM = fitNum(cmp.ReconcilingDiffusionLengthM)
+	out.Assumptions = cmp.Assumptions
+	return out
+}
+
+func fitCompareText(w io.Writer, r *fitIVCompare, ascii bool) {
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintf(tw, "compared with\t%s\n", r.CompareSession)
+	if r.PredictionRMSLogRatio != nil {
+		fmt.Fprintf(tw, "rms ln(measured/predicted)\t%.4f\n", *r.PredictionRMSLogRatio)
+	}
+	if r.CompareError != "" {
+		fmt.Fprintf(tw, "comparison error\t%s\n", r.CompareError)
+		tw.Flush()
+		return
+	}
+	fmt.Fprintf(tw, "diffusion Is, measured\t%s\n", model.Format(model.Current, *r.MeasuredDiffusionIsA, 4, ascii))
+	fmt.Fprintf(tw, "diffusion Is, model\t%s\n", model.Format(model.Current, *r.ModelDiffusionIsA, 4, ascii))
+	fmt.Fprintf(tw, "lifetime varied\t%s (model: %s)\n", r.LifetimeVaried, model.Format(model.Time, *r.SpecLifetimeS, 4, ascii))
+	fmt.Fprintf(tw, "reconciling lifetime\t%s\n", model.Format(model.Time, *r.ReconcilingLifetimeS, 4, ascii))
+	fmt.Fprintf(tw, "diffusion length\t%s\n", model.Format(model.Length, *r.ReconcilingDiffusionLengthM, 4, ascii))
+	for _, a := range r.Assumptions {
+		fmt.Fprintf(tw, "assumes\t%s\n", a)
+	}
+	tw.Flush()
+}
+
+// fitIVFile imports one file and fits it.
+func fitIVFile(path string, c fitCommon, leakAt *float64) (*fitIVReport, error) {
+	ds, err := fitImport(path, measure.KindIV)
+	if err != nil {
+		return nil, err
+	}
+	res, err := fit.IV(ds, c.ivOptions())
+	if err != nil {
+		return nil, fmt.Errorf("%s: %w", path, err)
+	}
+	f, t := res.Fit, res.Temperature
+	r := &fitIVReport{File: path, Model: c.model.String(), TemperatureK: fitNum(t.K), TemperatureSource: t.Source,
+		WindowV: []float64{f.UsedWindow.MinV, f.UsedWindow.MaxV}, RMSLogResidual: fitNum(f.RMSLogResidual),
+		Points: &f.Points, SkippedPoints: f.Skipped, RowProblems: ds.ProblemRows, Correlations: fitCorrelations(f.Correlations),
+		Notes: res.Notes, fit: f, res: res}
+	if c.model == extract.ModelDouble {
+		d, s := f.Double, f.DoubleStdErr
+		r.fitIVValues = &fitIVValues{fitNum(d.DiffusionCurrentA), fitNum(1), fitNum(d.SeriesResistanceOhm), fitNum(d.ShuntResistanceOhm), fitNum(d.RecombinationCurrentA)}
+		r.StdErr = &fitIVValues{fitNum(s.DiffusionCurrentA), nil, fitNum(s.SeriesResistanceOhm), fitNum(s.ShuntResistanceOhm), fitNum(s.RecombinationCurrentA)}
+		if r.RecombinationCurrentA == nil {
+			zero := 0.0
+			r.RecombinationCurrentA = &zero
+		}
+	} else {
+		d, s := f.Single, f.SingleStdErr
+		r.fitIVValues = &fitIVValues{fitNum(d.SaturationCurrentA), fitNum(d.IdealityFactor), fitNum(d.SeriesResistanceOhm), fitNum(d.ShuntResistanceOhm), nil}
+		r.StdErr = &fitIVValues{fitNum(s.SaturationCurrentA), fitNum(s.IdealityFactor), fitNum(s.SeriesResistanceOhm), fitNum(s.ShuntResistanceOhm), nil}
+	}
+	if leakAt != nil {
+		rv, err := extract.AnalyzeReverse(ds.VoltageV, ds.CurrentA, extract.ReverseOptions{BiasV: *leakAt})
+		if err != nil {
+			return nil, fmt.Errorf("%s: reverse bias: %w", path, err)
+		}
+		r.LeakageCurrentA, r.LeakageBiasV = fitNum(rv.LeakageCurrentA), fitNum(rv.BiasV)
+		r.ZeroBiasResistanceOhm = fitNum(rv.ShuntResistanceOhm)
+	}
+	return r, nil
+}
+
+func fitRunIV(args []string, stdout, stderr io.Writer) int {
+	a, c, code, done := fitStartCommon("iv", args, []string{"temp", "window", "model", "model-card", "leakage-at", "compare", "data", "save-to"}, []string{"json", "ascii"}, stdout, stderr)
+	if done {
+		return code
+	}
+	if len(a.pos) == 0 {
+		fmt.Fprintln(stderr, "junco fit iv: no data file given (junco fit iv FILE...)")
+		return exitUsage
+	}
+	card, wantCard := a.str("model-card")
+	if wantCard {
+		if _, err := extract.ModelCard(card, extract.CardParams{}); err != nil {
+			fmt.Fprintf(stderr, "junco fit iv: --model-card: %v\n", err)
+			return exitUsage
+		}
+	}
+	var leakAt *float64
+	if s, ok := a.str("leakage-at"); ok {
+		v, err := model.ParseValue(model.Voltage, s)
+		if err != nil || !(v < 0) {
+			fmt.Fprintf(stderr, "junco fit iv: --leakage-at %q: expected a reverse bias below 0 V, e.g. -5V\n", s)
+			return exitUsage
+		}
+		leakAt = &v
+	}
+	saveTo, wantSave := a.str("save-to")
+	if wantSave {
+		if err := fitSaveCheckName("iv", saveTo); err != nil {
+			fmt.Fprintln(stderr, err)
+			return exitUsage
+		}
+	}
+	var cmpSpec *model.Spec
+	cmpName, wantCmp := a.str("compare")
+	if wantCmp {
+		dir, _ := a.str("data")
+		sp, err := loadSpecForCalc(dir, cmpName)
+		if err != nil {
+			fmt.Fprintf(stderr, "junco fit iv: --compare %s: %v\n", cmpName, err)
+			return exitUsage
+		}
+		cmpSpec = &sp
+	}
+	code = exitOK
+	var reports []*fitIVReport
+	for _, p := range a.pos {
+		r, err := fitIVFile(p, c, leakAt)
+		if err == nil && cmpSpec != nil {
+			r.fitIVCompare = fitCompareIV(r, cmpName, *cmpSpec, c)
+			if r.CompareError != "" {
+				fmt.Fprintf(stderr, "junco fit iv: %s: --compare %s: %s\n", p, cmpName, r.CompareError)
+				code = max(code, exitFailure)
+			}
+		}
+		if err != nil {
+			fmt.Fprintf(stderr, "junco fit iv: %v\n", err)
+			code = max(code, fitExitCode(err))
+			reports = append(reports, &fitIVReport{File: p, Error: err.Error()})
+			continue
+		}
+		if r.TemperatureSource == fit.SourceAssumed {
+			fmt.Fprintf(stderr, "junco fit iv: %s: no temperature given; 300 K assumed (use --temp)\n", p)
+		}
+		if wantCard {
+			r.ModelCard, err = fitIVCard(card, r)
+			if err != nil {
+				fmt.Fprintf(stderr, "junco fit iv: %s: model card: %v\n", p, err)
+				code = max(code, exitFailure)
+			} else if r.fit.Model == extract.ModelDouble || !math.IsInf(r.fit.Single.ShuntResistanceOhm, 1) {
+				fmt.Fprintf(stderr, "junco fit iv: %s: the model card holds one diode with IS, N, RS; shunt and recombination paths are not in it\n", p)
+			}
+		}
+		reports = append(reports, r)
+	}
+	if c.json {
+		var v any = reports
+		if len(reports) == 1 {
+			v = reports[0]
+		}
+		if err := fitWriteJSON(stdout, v); err != nil {
+			fmt.Fprintf(stderr, "junco fit iv: %v\n", err)
+			return exitFailure
+		}
+	} else {
+		for k, r := range reports {
+			if k > 0 {
+				fmt.Fprintln(stdout)
+			}
+			fitIVText(stdout, r, c.ascii)
+			if r.fitIVCompare != nil {
+				fitCompareText(stdout, r.fitIVCompare, c.ascii)
+			}
+		}
+	}
+	if wantSave {
+		var items []fitSaveItem
+		for _, r := range reports {
+			if r.res != nil {
+				items = append(items, fitSaveItem{prefix: "iv", ds: r.res.DataSet, records: []fit.Record{fit.IVRecord(r.res)}})
+			}
+		}
+		dir, _ := a.str("data")
+		code = max(code, fitSaveReport("iv", dir, saveTo, items, stderr))
+	}
+	return code
+}
+
+func fitIVCard(name string, r *fitIVReport) (string, error) {
+	f := r.fit
+	p := extract.CardParams{TNOM: f.TemperatureK - 273.15}
+	if f.Model == extract.ModelDouble {
+		p.IS, p.N, p.RS = f.Double.DiffusionCurrentA, 1, f.Double.SeriesResistanceOhm
+	} else {
+		p.IS, p.N, p.RS = f.Single.SaturationCurrentA, f.Single.IdealityFactor, f.Single.SeriesResistanceOhm
+	}
+	if p.TNOM == 0 {
+		p.TNOM = math.NaN()
+	}
+	return extract.ModelCard(name, p)
+}
+
+func fitIVText(w io.Writer, r *fitIVReport, ascii bool) {
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintf(tw, "file\t%s\n", r.File)
+	if r.Error != "" {
+		fmt.Fprintf(tw, "error\t%s\n", r.Error)
+		tw.Flush()
+		return
+	}
+	f := r.fit
+	fmt.Fprintf(tw, "model\t%s diode, T = %s (%s)\n", r.Model, model.Format(model.Temperature, f.TemperatureK, 4, ascii), r.TemperatureSource)
+	fmt.Fprintf(tw, "window\t%s .. %s, %d points (%d skipped)\n", model.Format(model.Voltage, f.UsedWindow.MinV, 3, ascii),
+		model.Format(model.Voltage, f.UsedWindow.MaxV, 3, ascii), f.Points, f.Skipped)
+	if f.Model == extract.ModelDouble {
+		d, s := f.Double, f.DoubleStdErr
+		fmt.Fprintf(tw, "diffusion current (n = 1)\tIs1\t%s\n", fitPM(model.Current, d.DiffusionCurrentA, s.DiffusionCurrentA, ascii))
+		fmt.Fprintf(tw, "recombination current (n = 2)\tIs2\t%s\n", fitPM(model.Current, d.RecombinationCurrentA, s.RecombinationCurrentA, ascii))
+		fmt.Fprintf(tw, "series resistance\tRs\t%s\n", fitPM(model.Resistance, d.SeriesResistanceOhm, s.SeriesResistanceOhm, ascii))
+		fmt.Fprintf(tw, "shunt resistance\tRsh\t%s\n", fitPM(model.Resistance, d.ShuntResistanceOhm, s.ShuntResistanceOhm, ascii))
+	} else {
+		d, s := f.Single, f.SingleStdErr
+		fmt.Fprintf(tw, "saturation current\tIs\t%s\n", fitPM(model.Current, d.SaturationCurrentA, s.SaturationCurrentA, ascii))
+		fmt.Fprintf(tw, "ideality factor\tn\t%s\n", fitPM(model.Dimensionless, d.IdealityFactor, s.IdealityFactor, ascii))
+		fmt.Fprintf(tw, "series resistance\tRs\t%s\n", fitPM(model.Resistance, d.SeriesResistanceOhm, s.SeriesResistanceOhm, ascii))
+		fmt.Fprintf(tw, "shunt resistance\tRsh\t%s\n", fitPM(model.Resistance, d.ShuntResistanceOhm, s.ShuntResistanceOhm, ascii))
+	}
+	fmt.Fprintf(tw, "rms log residual\t\t%.4f\n", f.RMSLogResidual)
+	if r.LeakageCurrentA != nil {
+		fmt.Fprintf(tw, "leakage at %s\t\t%s\n", model.Format(model.Voltage, *r.LeakageBiasV, 3, ascii), model.Format(model.Current, *r.LeakageCurrentA, 4, ascii))
+	}
+	if r.ZeroBiasResistanceOhm != nil {
+		fmt.Fprintf(tw, "zero-bias resistance\tR0\t%s\n", model.Format(model.Resistance, *r.ZeroBiasResistanceOhm, 4, ascii))
+	}
+	fitTextTail(tw, r.Correlations, r.Notes, r.ModelCard)
+	tw.Flush()
+}
