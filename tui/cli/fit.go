@@ -37,7 +37,7 @@ func runFit(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	var code int
 	switch sub {
 	case "iv":
-		code = fitRunIV(rest, stdout, stderr)
+		code = fitRunIV(ctx, rest, stdout, stderr)
 	case "cv":
 		code = fitRunCV(rest, stdout, stderr)
 	case "arrhenius":
@@ -407,13 +407,13 @@ func fitCorrelations(c []extract.Correlation) []fitCorrelation {
 }
 
 // fitIVFile imports one file and fits it.
-func fitIVFile(path string, c fitCommon, leakAt *float64) (*fitIVReport, error) {
+func fitIVFile(ctx context.Context, path string, c fitCommon, leakAt *float64) (*fitIVReport, error) {
 	ds, err := fitImport(path, measure.KindIV)
 	if err != nil {
 		return nil, err
 	}
 	t, src := fitTemperature(ds, c)
-	f, err := extract.FitIV(ds.VoltageV, ds.CurrentA, extract.IVOptions{TemperatureK: t, Window: c.window, Model: c.model})
+	f, err := extract.FitIVContext(ctx, ds.VoltageV, ds.CurrentA, extract.IVOptions{TemperatureK: t, Window: c.window, Model: c.model})
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
@@ -452,7 +452,7 @@ func fitIVFile(path string, c fitCommon, leakAt *float64) (*fitIVReport, error) 
 	return r, nil
 }
 
-func fitRunIV(args []string, stdout, stderr io.Writer) int {
+func fitRunIV(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	a, err := fitParseArgs("iv", args, []string{"temp", "window", "model", "model-card", "leakage-at", "compare", "data", "save-to"}, []string{"json", "ascii"})
 	if err != nil {
 		fmt.Fprintln(stderr, err)
@@ -508,7 +508,12 @@ func fitRunIV(args []string, stdout, stderr io.Writer) int {
 	code := exitOK
 	var reports []*fitIVReport
 	for _, p := range a.pos {
-		r, err := fitIVFile(p, c, leakAt)
+		r, err := fitIVFile(ctx, p, c, leakAt)
+		if ctx.Err() != nil {
+			// SIGINT or SIGTERM: the fit stopped within milliseconds.
+			fmt.Fprintln(stderr, "junco fit iv: interrupted")
+			return exitInterrupted
+		}
 		if err == nil && cmpSpec != nil {
 			r.fitIVCompare = fitCompareIV(p, cmpName, *cmpSpec, c)
 			if r.CompareError != "" {
@@ -1189,7 +1194,7 @@ func fitRunBatch(ctx context.Context, args []string, stdout, stderr io.Writer) i
 		}
 	}
 	res, runErr := extract.RunBatch(ctx, files, extract.BatchOptions{Jobs: jobs, Progress: progress},
-		func(ctx context.Context, p string) (fitBatchRow, error) { return fitBatchOne(p, c) })
+		func(ctx context.Context, p string) (fitBatchRow, error) { return fitBatchOne(ctx, p, c) })
 	if showProgress && runErr != nil {
 		fmt.Fprintln(stderr)
 	}
@@ -1266,7 +1271,7 @@ func fitRunBatch(ctx context.Context, args []string, stdout, stderr io.Writer) i
 	return code
 }
 
-func fitBatchOne(path string, c fitCommon) (fitBatchRow, error) {
+func fitBatchOne(ctx context.Context, path string, c fitCommon) (fitBatchRow, error) {
 	row := fitBatchRow{File: path}
 	ds, err := measure.ImportFile(path, measure.Options{Kind: measure.KindIV})
 	if err != nil {
@@ -1274,7 +1279,7 @@ func fitBatchOne(path string, c fitCommon) (fitBatchRow, error) {
 	}
 	t, src := fitTemperature(ds, c)
 	row.TemperatureK, row.TemperatureSource = t, src
-	f, err := extract.FitIV(ds.VoltageV, ds.CurrentA, extract.IVOptions{TemperatureK: t, Window: c.window, Model: c.model})
+	f, err := extract.FitIVContext(ctx, ds.VoltageV, ds.CurrentA, extract.IVOptions{TemperatureK: t, Window: c.window, Model: c.model})
 	if err != nil {
 		return row, fmt.Errorf("%s: %w", path, err)
 	}
