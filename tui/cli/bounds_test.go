@@ -3,6 +3,8 @@ package cli
 import (
 	"bytes"
 	"context"
+	"flag"
+	"io"
 	"strings"
 	"testing"
 
@@ -62,6 +64,79 @@ func TestLongLoopsStopOnCancel(t *testing.T) {
 		code := run(ctx, args, strings.NewReader(""), &out, &errb)
 		if code != exitInterrupted || out.Len() != 0 || !strings.Contains(errb.String(), "interrupted") {
 			t.Errorf("%v: exit %d, stdout %d bytes, stderr %q; want 130, nothing, \"interrupted\"", args, code, out.Len(), errb.String())
+		}
+	}
+}
+
+// Every boolean flag of every command reads --name=false as false,
+// --name=true and --name alone as true, and refuses any other value
+// (--ascii=false used to be taken as true over SSH and refused by the
+// workbench).
+func TestBoolFlagsReadTheirValue(t *testing.T) {
+	// Commands on the flag package: every bool flag they define.
+	sets := map[string]func() *flag.FlagSet{
+		"calc":  func() *flag.FlagSet { return newCalcFlags(&calcOptions{}, io.Discard) },
+		"solve": func() *flag.FlagSet { return newSolveFlags(&solveOptions{}, io.Discard) },
+		"sessions show": func() *flag.FlagSet {
+			return newSessionFlagSet("show", &sessionFlags{}, io.Discard, "rev", "ascii")
+		},
+		"sessions export": func() *flag.FlagSet {
+			return newSessionFlagSet("export", &sessionFlags{}, io.Discard, "rev", "format", "out", "ascii")
+		},
+	}
+	for cmd, mk := range sets {
+		n := 0
+		mk().VisitAll(func(f *flag.Flag) {
+			if bf, ok := f.Value.(interface{ IsBoolFlag() bool }); !ok || !bf.IsBoolFlag() {
+				return
+			}
+			n++
+			for arg, want := range map[string]string{"--" + f.Name + "=false": "false", "--" + f.Name + "=true": "true", "--" + f.Name: "true"} {
+				fs := mk()
+				if err := fs.Parse([]string{arg}); err != nil || fs.Lookup(f.Name).Value.String() != want {
+					t.Errorf("%s %s: %v, value %s; want %s", cmd, arg, err, fs.Lookup(f.Name).Value, want)
+				}
+			}
+			if err := mk().Parse([]string{"--" + f.Name + "=maybe"}); err == nil {
+				t.Errorf("%s --%s=maybe accepted", cmd, f.Name)
+			}
+		})
+		if n == 0 {
+			t.Errorf("%s: no boolean flag found", cmd)
+		}
+	}
+	// The workbench's own parser.
+	for arg, want := range map[string]bool{"--ascii=false": false, "--ascii=true": true, "--ascii": true, "-ascii=0": false} {
+		o, _, err := parseWorkbenchArgs([]string{arg})
+		if err != nil || o.ascii != want || !o.asciiSet {
+			t.Errorf("workbench %s: ascii %v, %v; want %v", arg, o.ascii, err, want)
+		}
+	}
+	// An explicit --ascii=false wins over the locale (no UTF-8 locale set).
+	o, _, _ := parseWorkbenchArgs([]string{"--ascii=false"})
+	if o.drawASCII(func(string) string { return "" }) {
+		t.Error("--ascii=false drew ASCII because the locale is unset")
+	}
+	if _, _, err := parseWorkbenchArgs([]string{"--ascii=maybe"}); err == nil {
+		t.Error("workbench --ascii=maybe accepted")
+	}
+	// The SSH command filter passes --ascii on only when true.
+	for arg, want := range map[string]bool{"--ascii=false": false, "--ascii=true": true, "--ascii": true} {
+		out, err := sshSessionFlags("show", []string{arg})
+		if err != nil || containsFlag(out, "--ascii") != want {
+			t.Errorf("ssh show %s: %v, %v; want --ascii passed %v", arg, out, err, want)
+		}
+	}
+	if _, err := sshSessionFlags("show", []string{"--ascii=maybe"}); err == nil {
+		t.Error("ssh show --ascii=maybe accepted")
+	}
+	// fit's parser: every boolean option of iv, cv, arrhenius and batch.
+	for _, name := range []string{"json", "ascii", "profile"} {
+		for arg, want := range map[string]bool{"--" + name + "=false": false, "--" + name + "=true": true, "--" + name: true} {
+			a, err := fitParseArgs("iv", []string{arg}, nil, []string{"json", "ascii", "profile"})
+			if err != nil || a.bools[name] != want {
+				t.Errorf("fit %s: %v, %v; want %v", arg, a, err, want)
+			}
 		}
 	}
 }
