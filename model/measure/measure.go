@@ -24,6 +24,7 @@ package measure
 import (
 	"bufio"
 	"bytes"
+	"context"
 	"errors"
 	"fmt"
 	"io"
@@ -168,22 +169,34 @@ type Options struct {
 
 // ImportFile opens path and imports it; see Import.
 func ImportFile(path string, opt Options) (*DataSet, error) {
+	return ImportFileContext(context.Background(), path, opt)
+}
+
+// ImportFileContext is ImportFile with cancellation (see ImportContext).
+func ImportFileContext(ctx context.Context, path string, opt Options) (*DataSet, error) {
 	f, err := os.Open(path)
 	if err != nil {
 		return nil, err
 	}
 	defer f.Close()
-	return Import(f, path, opt)
+	return ImportContext(ctx, f, path, opt)
 }
 
 // Import reads a delimited text sweep from r; name is used in errors and
 // recorded as the source file. On error it returns no data set.
 func Import(r io.Reader, name string, opt Options) (*DataSet, error) {
+	return ImportContext(context.Background(), r, name, opt)
+}
+
+// ImportContext is Import with cancellation: ctx is checked before every
+// read from r (every 64 KiB), and a cancelled import returns an error
+// wrapping ctx.Err().
+func ImportContext(ctx context.Context, r io.Reader, name string, opt Options) (*DataSet, error) {
 	im := importer{file: name, opt: opt}
 	if err := im.checkOptions(); err != nil {
 		return nil, err
 	}
-	im.lr.br = bufio.NewReaderSize(&capReader{r: r, max: MaxBytes}, 64<<10)
+	im.lr.br = bufio.NewReaderSize(&capReader{r: r, max: MaxBytes, ctx: ctx}, 64<<10)
 	ds, err := im.run()
 	if err != nil {
 		return nil, err

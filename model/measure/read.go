@@ -2,6 +2,7 @@ package measure
 
 import (
 	"bufio"
+	"context"
 	"io"
 )
 
@@ -15,14 +16,18 @@ const MaxRows = 1_000_000
 const MaxBytes = 256 << 20
 
 // capReader reads from r until more than max bytes have come, then
-// returns ErrTooLarge.
+// returns ErrTooLarge; it returns ctx.Err() once ctx is cancelled.
 type capReader struct {
 	r      io.Reader
 	n, max int64
+	ctx    context.Context
 }
 
 // Read implements io.Reader.
 func (c *capReader) Read(p []byte) (int, error) {
+	if err := c.ctx.Err(); err != nil {
+		return 0, err
+	}
 	if c.n > c.max {
 		return 0, ErrTooLarge
 	}

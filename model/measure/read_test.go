@@ -1,6 +1,7 @@
 package measure
 
 import (
+	"context"
 	"errors"
 	"io"
 	"strings"
@@ -84,5 +85,17 @@ func TestImportByteCap(t *testing.T) {
 	}
 	if r.read > MaxBytes+1+64<<10 {
 		t.Errorf("read %d bytes past the cap of %d", r.read, MaxBytes)
+	}
+}
+
+// A cancelled import stops at its next read and says why (errors.Is
+// context.Canceled), however long the file.
+func TestImportContextCancelled(t *testing.T) {
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	r := &endless{head: "V,I\n", line: "0.5,1e-3\n", n: 10_000_000}
+	ds, err := ImportContext(ctx, r, "huge.csv", Options{})
+	if ds != nil || !errors.Is(err, context.Canceled) || r.read != 0 {
+		t.Fatalf("cancelled import: %v after %d bytes; want context.Canceled before any read", err, r.read)
 	}
 }

@@ -39,9 +39,9 @@ func runFit(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	case "iv":
 		code = fitRunIV(ctx, rest, stdout, stderr)
 	case "cv":
-		code = fitRunCV(rest, stdout, stderr)
+		code = fitRunCV(ctx, rest, stdout, stderr)
 	case "arrhenius":
-		code = fitRunArrhenius(rest, stdout, stderr)
+		code = fitRunArrhenius(ctx, rest, stdout, stderr)
 	case "batch":
 		code = fitRunBatch(ctx, rest, stdout, stderr)
 	case "help", "-h", "--help":
@@ -103,8 +103,12 @@ func (e *fitUsageError) Error() string { return e.msg }
 
 func fitBad(format string, a ...any) error { return &fitUsageError{fmt.Sprintf(format, a...)} }
 
-// fitExitCode maps an error to the exit code: bad input gives 2.
+// fitExitCode maps an error to the exit code: bad input gives 2, an
+// interruption (SIGINT, SIGTERM) 130.
 func fitExitCode(err error) int {
+	if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
+		return exitInterrupted
+	}
 	var ue *fitUsageError
 	var pe *measure.ParseError
 	var ce *measure.ColumnError
@@ -276,11 +280,11 @@ func fitTemperature(ds *measure.DataSet, c fitCommon) (float64, string) {
 	return 300, "assumed"
 }
 
-func fitImport(path string, kind measure.Kind) (*measure.DataSet, error) {
+func fitImport(ctx context.Context, path string, kind measure.Kind) (*measure.DataSet, error) {
 	if st, err := os.Stat(path); err == nil && st.IsDir() {
 		return nil, fitBad("%s: is a directory (fit batch takes directories)", path)
 	}
-	return measure.ImportFile(path, measure.Options{Kind: kind})
+	return measure.ImportFileContext(ctx, path, measure.Options{Kind: kind})
 }
 
 // fitNum returns a pointer to v for JSON, nil (null) when not finite.
@@ -349,9 +353,9 @@ type fitIVCompare struct {
 }
 
 // fitCompareIV compares the data set of path with spec over the window.
-func fitCompareIV(path, session string, spec model.Spec, c fitCommon) *fitIVCompare {
+func fitCompareIV(ctx context.Context, path, session string, spec model.Spec, c fitCommon) *fitIVCompare {
 	out := &fitIVCompare{CompareSession: session}
-	ds, err := fitImport(path, measure.KindIV)
+	ds, err := fitImport(ctx, path, measure.KindIV)
 	if err != nil {
 		out.CompareError = err.Error()
 		return out
@@ -359,7 +363,7 @@ func fitCompareIV(path, session string, spec model.Spec, c fitCommon) *fitIVComp
 	if c.haveTemp {
 		ds.TemperatureK, ds.StatedTemperatureK = nil, c.temp
 	}
-	cmp, err := model.CompareIV(spec, ds, c.window.MinV, c.window.MaxV)
+	cmp, err := model.CompareIVContext(ctx, spec, ds, c.window.MinV, c.window.MaxV)
 	if cmp != nil {
 		out.PredictionRMSLogRatio = fitNum(cmp.RMSLogRatio)
 		out.ModelDiffusionIsA = fitNum(cmp.ModelIsA)
@@ -408,7 +412,7 @@ func fitCorrelations(c []extract.Correlation) []fitCorrelation {
 
 // fitIVFile imports one file and fits it.
 func fitIVFile(ctx context.Context, path string, c fitCommon, leakAt *float64) (*fitIVReport, error) {
-	ds, err := fitImport(path, measure.KindIV)
+	ds, err := fitImport(ctx, path, measure.KindIV)
 	if err != nil {
 		return nil, err
 	}
@@ -515,7 +519,11 @@ func fitRunIV(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 			return exitInterrupted
 		}
 		if err == nil && cmpSpec != nil {
-			r.fitIVCompare = fitCompareIV(p, cmpName, *cmpSpec, c)
+			r.fitIVCompare = fitCompareIV(ctx, p, cmpName, *cmpSpec, c)
+			if ctx.Err() != nil {
+				fmt.Fprintln(stderr, "junco fit iv: interrupted")
+				return exitInterrupted
+			}
 			if r.CompareError != "" {
 				fmt.Fprintf(stderr, "junco fit iv: %s: --compare %s: %s\n", p, cmpName, r.CompareError)
 				code = max(code, exitFailure)
@@ -696,7 +704,7 @@ type fitCVReport struct {
 	Notes              []string         `json:"notes,omitempty"`
 }
 
-func fitRunCV(args []string, stdout, stderr io.Writer) int {
+func fitRunCV(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	a, err := fitParseArgs("cv", args, []string{"area", "material", "window", "smooth", "model-card", "save-to", "data"}, []string{"json", "ascii", "profile"})
 	if err != nil {
 		fmt.Fprintln(stderr, err)
@@ -761,7 +769,7 @@ func fitRunCV(args []string, stdout, stderr io.Writer) int {
 	}
 	ascii := a.bools["ascii"]
 	path := a.pos[0]
-	ds, err := fitImport(path, measure.KindCV)
+	ds, err := fitImport(ctx, path, measure.KindCV)
 	if err != nil {
 		fmt.Fprintf(stderr, "junco fit cv: %v\n", err)
 		return fitExitCode(err)
@@ -919,7 +927,7 @@ type fitArrheniusReport struct {
 	Notes                []string          `json:"notes,omitempty"`
 }
 
-func fitRunArrhenius(args []string, stdout, stderr io.Writer) int {
+func fitRunArrhenius(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	a, err := fitParseArgs("arrhenius", args, []string{"temp", "window", "gamma", "current"}, []string{"json", "ascii"})
 	if err != nil {
 		fmt.Fprintln(stderr, err)
@@ -975,7 +983,7 @@ func fitRunArrhenius(args []string, stdout, stderr io.Writer) int {
 	var curves []extract.IVCurve
 	nsum := 0.0
 	for k, p := range files {
-		ds, err := fitImport(p, measure.KindIV)
+		ds, err := fitImport(ctx, p, measure.KindIV)
 		if err != nil {
 			fmt.Fprintf(stderr, "junco fit arrhenius: %v\n", err)
 			return fitExitCode(err)
@@ -989,7 +997,7 @@ func fitRunArrhenius(args []string, stdout, stderr io.Writer) int {
 			fmt.Fprintf(stderr, "junco fit arrhenius: %s: no temperature (no column, no \"# temperature:\" comment); give --temp T1,T2,... in file order\n", p)
 			return exitUsage
 		}
-		f, err := extract.FitIV(ds.VoltageV, ds.CurrentA, extract.IVOptions{TemperatureK: t, Window: c.window})
+		f, err := extract.FitIVContext(ctx, ds.VoltageV, ds.CurrentA, extract.IVOptions{TemperatureK: t, Window: c.window})
 		if err != nil {
 			fmt.Fprintf(stderr, "junco fit arrhenius: %s: %v\n", p, err)
 			return fitExitCode(err)
@@ -1273,7 +1281,7 @@ func fitRunBatch(ctx context.Context, args []string, stdout, stderr io.Writer) i
 
 func fitBatchOne(ctx context.Context, path string, c fitCommon) (fitBatchRow, error) {
 	row := fitBatchRow{File: path}
-	ds, err := measure.ImportFile(path, measure.Options{Kind: measure.KindIV})
+	ds, err := measure.ImportFileContext(ctx, path, measure.Options{Kind: measure.KindIV})
 	if err != nil {
 		return row, err
 	}
