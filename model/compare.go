@@ -1,6 +1,7 @@
 package model
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -92,6 +93,12 @@ type IVComparison struct {
 // diffusion lifetime is meaningless) or when the fitted Is lies outside the
 // range of IsDiff over the lifetime range (naming the limit).
 func CompareIV(spec Spec, ds *measure.DataSet, v1, v2 float64) (*IVComparison, error) {
+	return CompareIVContext(context.Background(), spec, ds, v1, v2)
+}
+
+// CompareIVContext is CompareIV with cancellation: the fits stop soon
+// after ctx is cancelled and the error wraps ctx.Err().
+func CompareIVContext(ctx context.Context, spec Spec, ds *measure.DataSet, v1, v2 float64) (*IVComparison, error) {
 	if ds == nil {
 		return nil, errors.New("compare: no data set given")
 	}
@@ -136,7 +143,7 @@ func CompareIV(spec Spec, ds *measure.DataSet, v1, v2 float64) (*IVComparison, e
 	c.RMSLogRatio = math.Sqrt(sum2 / float64(n))
 	c.Window = extract.Window{MinV: lo, MaxV: hi}
 
-	fit, err := extract.FitIV(ds.VoltageV, ds.CurrentA, extract.IVOptions{TemperatureK: c.TemperatureK, Window: w})
+	fit, err := extract.FitIVContext(ctx, ds.VoltageV, ds.CurrentA, extract.IVOptions{TemperatureK: c.TemperatureK, Window: w})
 	if err != nil {
 		return nil, fmt.Errorf("compare: fitting %q: %w", ds.SourceFile, err)
 	}
@@ -156,7 +163,7 @@ func CompareIV(spec Spec, ds *measure.DataSet, v1, v2 float64) (*IVComparison, e
 	// recombination current and overstate it. Fall back to the single
 	// diode only when the double-diode fit fails.
 	c.MeasuredIsA, c.IsSource = fit.Single.SaturationCurrentA, "single-diode fit (the double-diode fit failed: "
-	if dd, err := extract.FitIV(ds.VoltageV, ds.CurrentA, extract.IVOptions{TemperatureK: c.TemperatureK, Window: w, Model: extract.ModelDouble}); err == nil && dd.Double.DiffusionCurrentA > 0 {
+	if dd, err := extract.FitIVContext(ctx, ds.VoltageV, ds.CurrentA, extract.IVOptions{TemperatureK: c.TemperatureK, Window: w, Model: extract.ModelDouble}); err == nil && dd.Double.DiffusionCurrentA > 0 {
 		c.Double, c.MeasuredIsA, c.IsSource = dd, dd.Double.DiffusionCurrentA, "n = 1 part of a double-diode fit"
 	} else {
 		if err == nil {

@@ -2,6 +2,7 @@ package model
 
 import (
 	"bufio"
+	"context"
 	"fmt"
 	"io"
 	"math"
@@ -48,30 +49,14 @@ type Range struct {
 	From, To, Step float64
 }
 
-// maxSweepPoints bounds a sweep so that no request exhausts memory.
-const maxSweepPoints = 100001
+// Points returns the sweep values, at most MaxSweepPoints of them; a
+// *SweepError names the problem when the range is empty, the step has the
+// wrong sign or there are too many points.
+func (r Range) Points() ([]float64, error) { return r.PointsUpTo(MaxSweepPoints) }
 
-// Points returns the sweep values; an error names the problem when the
-// range is empty, the step has the wrong sign or there are too many points.
-func (r Range) Points() ([]float64, error) {
-	for _, v := range []float64{r.From, r.To, r.Step} {
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, fmt.Errorf("sweep %g:%g:%g: values must be finite", r.From, r.To, r.Step)
-		}
-	}
-	if r.Step == 0 || (r.To-r.From)*r.Step < 0 {
-		return nil, fmt.Errorf("sweep %g:%g:%g: the step must be non-zero and point from the start to the end", r.From, r.To, r.Step)
-	}
-	n := int(math.Floor((r.To-r.From)/r.Step+1e-9)) + 1
-	if n > maxSweepPoints {
-		return nil, fmt.Errorf("sweep %g:%g:%g has %d points; at most %d are allowed", r.From, r.To, r.Step, n, maxSweepPoints)
-	}
-	out := make([]float64, n)
-	for i := range out {
-		out[i] = r.From + float64(i)*r.Step
-	}
-	return out, nil
-}
+// sweepCancelEvery is how many points an analytic sweep computes between
+// checks of its context (about a millisecond of work or less).
+const sweepCancelEvery = 64
 
 // DefaultIVRange is the bias sweep the workbench starts with.
 func DefaultIVRange() Range { return Range{From: -1, To: 0.8, Step: 0.01} }
@@ -152,7 +137,9 @@ func sweepFlags(s Spec, pmax, vmax float64) []physics.Flag {
 // effect and the small-signal quantities (physics.Static.At): the rows of
 // `junco calc --sweep`. The flags are those of the sweep as a whole
 // (power limit, caution) followed by the distinct flags of its points.
-func IVSweep(s Spec, r Range) ([]physics.Point, []physics.Flag, error) {
+// The context is checked every sweepCancelEvery points; a cancelled sweep
+// returns ctx.Err().
+func IVSweep(ctx context.Context, s Spec, r Range) ([]physics.Point, []physics.Flag, error) {
 	st, err := prepare(s)
 	if err != nil {
 		return nil, nil, err
@@ -170,6 +157,11 @@ func IVSweep(s Spec, r Range) ([]physics.Point, []physics.Flag, error) {
 		flags = append(flags, f)
 	}
 	for i, v := range vs {
+		if i%sweepCancelEvery == 0 {
+			if err := ctx.Err(); err != nil {
+				return nil, nil, err
+			}
+		}
 		pts[i] = st.At(v)
 		if pts[i].Power > pmax {
 			pmax, vmax = pts[i].Power, v
@@ -399,14 +391,21 @@ type TemperatureRow struct {
 
 // TemperatureSweep evaluates the spec at every temperature of r (K): Is(T),
 // the forward voltage at forward current iF (A) VF(T) and dVF/dT (central
-// difference over +-0.5 K), and the breakdown voltage.
-func TemperatureSweep(s Spec, r Range, iF float64) ([]TemperatureRow, error) {
+// difference over +-0.5 K), and the breakdown voltage. The context is
+// checked every sweepCancelEvery temperatures; a cancelled sweep returns
+// ctx.Err().
+func TemperatureSweep(ctx context.Context, s Spec, r Range, iF float64) ([]TemperatureRow, error) {
 	ts, err := r.Points()
 	if err != nil {
 		return nil, err
 	}
 	rows := make([]TemperatureRow, len(ts))
 	for i, t := range ts {
+		if i%sweepCancelEvery == 0 {
+			if err := ctx.Err(); err != nil {
+				return nil, err
+			}
+		}
 		s2 := s
 		s2.Temperature = t
 		st, e := prepare(s2)
@@ -445,7 +444,7 @@ func WriteTemperatureCSV(w io.Writer, rows []TemperatureRow, iF float64) error {
 // forward current iF (A) against T, with every enabled effect
 // (TemperatureSweep).
 func TemperatureCurves(s Spec, r Range, iF float64) (isCurve, vfCurve Curve, err error) {
-	rows, err := TemperatureSweep(s, r, iF)
+	rows, err := TemperatureSweep(context.Background(), s, r, iF)
 	if err != nil {
 		return
 	}

@@ -2,6 +2,7 @@ package model
 
 import (
 	"bytes"
+	"context"
 	"encoding/json"
 	"errors"
 	"math"
@@ -172,7 +173,7 @@ func TestIVCurveComponents(t *testing.T) {
 // dVF/dT near -2 mV/K for silicon (common practice).
 func TestSweepCSV(t *testing.T) {
 	s := DefaultSpec()
-	pts, flags, err := IVSweep(s, Range{-2, 0.9, 0.01})
+	pts, flags, err := IVSweep(context.Background(), s, Range{-2, 0.9, 0.01})
 	if err != nil || len(pts) != 291 || len(flags) == 0 {
 		t.Fatalf("sweep: %v %d", err, len(pts))
 	}
@@ -184,7 +185,7 @@ func TestSweepCSV(t *testing.T) {
 	if len(lines) != 292 || !strings.HasPrefix(lines[0], "bias_V,junction_voltage_V,current_A,") || !strings.Contains(lines[0], "ideality_factor") {
 		t.Errorf("CSV header %q, %d lines", lines[0], len(lines))
 	}
-	rows, err := TemperatureSweep(s, Range{250, 400, 50}, 1e-3)
+	rows, err := TemperatureSweep(context.Background(), s, Range{250, 400, 50}, 1e-3)
 	if err != nil || len(rows) != 4 {
 		t.Fatal(err)
 	}

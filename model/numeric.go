@@ -129,7 +129,6 @@ const (
 	maxProjectedRange                = 100e-6                // m
 	minStraggle, maxStraggle         = 1e-10, 100e-6         // m
 	minDiffLength, maxDiffLength     = 1e-10, 1e-3           // m
-	maxNumericSweepPoints            = 5001
 	// longRegionDiffusionLengths is how many minority diffusion lengths a
 	// "long" region is given beyond its depletion edge: the hole or
 	// electron current of a region of width W with an ohmic contact is
@@ -1236,14 +1235,11 @@ func NumericCurves(r *NumericResult) []Curve {
 
 // numericBiases returns the validated points of a numeric sweep.
 func numericBiases(r Range, field string) ([]float64, error) {
-	vs, err := r.Points()
+	vs, err := r.PointsUpTo(MaxNumericSweepPoints)
 	if err != nil {
 		return nil, &ValidationError{Fields: []FieldError{{Field: field, Value: fmt.Sprintf("%g:%g:%g V", r.From, r.To, r.Step),
-			Allowed: "FROM:TO:STEP with a non-zero step pointing from FROM to TO", Why: err.Error()}}}
-	}
-	if len(vs) > maxNumericSweepPoints {
-		return nil, &ValidationError{Fields: []FieldError{{Field: field, Value: fmt.Sprintf("%d points", len(vs)),
-			Allowed: fmt.Sprintf("at most %d points", maxNumericSweepPoints), Why: "every point is a full drift-diffusion solve"}}}
+			Allowed: fmt.Sprintf("FROM:TO:STEP with a non-zero step pointing from FROM to TO, at most %d points (MaxNumericSweepPoints)", MaxNumericSweepPoints),
+			Why:     err.Error()}}}
 	}
 	for _, v := range vs {
 		if v < -maxReverse || v > maxForward {
@@ -1340,7 +1336,7 @@ func NumericIV(ctx context.Context, spec Spec, num NumericSpec, r Range, progres
 	for i := range analytic {
 		analytic[i] = math.NaN()
 	}
-	if pts, _, aerr := IVSweep(spec, r); aerr == nil && len(pts) == len(vs) {
+	if pts, _, aerr := IVSweep(ctx, spec, r); aerr == nil && len(pts) == len(vs) {
 		for i, p := range pts {
 			analytic[i] = p.Current
 		}

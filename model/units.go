@@ -149,7 +149,14 @@ func (e *UnitError) Error() string {
 // or "-5V" as a quantity of kind k and returns its SI value. A bare number
 // takes the kind's default unit. NaN and infinities are rejected.
 // Range checks are the caller's (see Spec.Validate).
-func ParseValue(k Kind, text string) (float64, error) {
+func ParseValue(k Kind, text string) (float64, error) { return parseValue(k, text, false) }
+
+// ParseDifference parses a difference of two values of kind k, such as a
+// sweep step: like ParseValue, but a unit's offset is not added, so
+// "10C" is a difference of 10 K (not the temperature 283.15 K).
+func ParseDifference(k Kind, text string) (float64, error) { return parseValue(k, text, true) }
+
+func parseValue(k Kind, text string, difference bool) (float64, error) {
 	s := strings.TrimSpace(text)
 	if s == "" {
 		return 0, &UnitError{Text: text, Kind: k, Why: "empty"}
@@ -174,7 +181,10 @@ func ParseValue(k Kind, text string) (float64, error) {
 	for _, u := range units {
 		for _, n := range u.names {
 			if unitEqual(n, unit) {
-				v := num*u.factor + u.offset
+				v := num * u.factor
+				if !difference {
+					v += u.offset
+				}
 				if math.IsInf(v, 0) {
 					return 0, &UnitError{Text: text, Kind: k, Why: "too large"}
 				}

@@ -23,7 +23,7 @@ const (
 
 // maxChartPoints bounds the sweeps the workbench draws, to keep every
 // keystroke quick.
-const maxChartPoints = 2001
+const maxChartPoints = model.MaxChartPoints
 
 // chartKind is one chart of the charts panel.
 type chartKind struct {
@@ -292,23 +292,22 @@ func (c chartModel) updateEditing(km tea.KeyMsg) (chartModel, tea.Cmd) {
 // applySweep parses and checks the sweep inputs and puts them in force.
 func (c *chartModel) applySweep() error {
 	labels, kinds, _ := c.sweepFields()
-	vals := make([]float64, len(kinds))
-	for i, kd := range kinds {
-		v, err := model.ParseValue(kd, c.eds[i].value())
-		if err != nil {
-			return fmt.Errorf("sweep %s: %v", labels[i], err)
-		}
-		vals[i] = v
-	}
-	r := model.Range{From: vals[0], To: vals[1], Step: vals[2]}
-	pts, err := r.Points()
+	// One sweep parser for the command line and the workbench; the step is
+	// a difference (10 C is 10 K) and the points are counted before any
+	// memory is taken.
+	r, err := model.ParseSweepParts(kinds[0], c.eds[0].value(), c.eds[1].value(), c.eds[2].value(), maxChartPoints)
 	if err != nil {
 		return err
 	}
-	if len(pts) > maxChartPoints {
-		return fmt.Errorf("the sweep has %d points; the workbench draws at most %d: choose a larger step", len(pts), maxChartPoints)
+	vals := []float64{r.From, r.To, r.Step}
+	for i := 3; i < len(kinds); i++ {
+		v, err := model.ParseValue(kinds[i], c.eds[i].value())
+		if err != nil {
+			return fmt.Errorf("sweep %s: %v", labels[i], err)
+		}
+		vals = append(vals, v)
 	}
-	if len(pts) < 2 {
+	if n, _ := r.Count(maxChartPoints); n < 2 {
 		return errors.New("the sweep needs at least two points: widen it or choose a smaller step")
 	}
 	// The ends must be values the junction accepts.

@@ -83,14 +83,14 @@ func Batch(ctx context.Context, files []string, opt BatchOptions) (*BatchResult,
 		if err := ctx.Err(); err != nil {
 			return row, err
 		}
-		ds, err := Import(opt.Files, p, measure.KindIV, nil)
+		ds, err := ImportContext(ctx, opt.Files, p, measure.KindIV, nil)
 		if err != nil {
 			return row, err
 		}
 		if err := ctx.Err(); err != nil {
 			return row, err
 		}
-		r, err := IV(ds, opt.IV)
+		r, err := IVContext(ctx, ds, opt.IV)
 		if err != nil {
 			return row, fmt.Errorf("%s: %w", p, err)
 		}

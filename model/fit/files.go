@@ -1,6 +1,7 @@
 package fit
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"io"
@@ -35,6 +36,11 @@ func (e *FileError) Error() string { return e.Path + ": " + e.Why }
 // typed errors (file, line, column) and the errors of files (a missing
 // file wraps fs.ErrNotExist) come through unchanged.
 func Import(files model.Files, path string, kind measure.Kind, now func() time.Time) (*measure.DataSet, error) {
+	return ImportContext(context.Background(), files, path, kind, now)
+}
+
+// ImportContext is Import that stops, with ctx's error, when ctx is done.
+func ImportContext(ctx context.Context, files model.Files, path string, kind measure.Kind, now func() time.Time) (*measure.DataSet, error) {
 	if files == nil {
 		files = model.LocalFiles{}
 		if strings.TrimSpace(path) == "" {
@@ -58,7 +64,7 @@ func Import(files model.Files, path string, kind measure.Kind, now func() time.T
 	case fi.Size() > MaxFileBytes:
 		return nil, &FileError{Path: path, Why: fmt.Sprintf("has %d bytes; at most %d (64 MiB) are imported for a fit", fi.Size(), MaxFileBytes)}
 	}
-	return measure.Import(io.LimitReader(f, MaxFileBytes), path, measure.Options{Kind: kind, Now: now})
+	return measure.ImportContext(ctx, io.LimitReader(f, MaxFileBytes), path, measure.Options{Kind: kind, Now: now})
 }
 
 // dataExtensions are the file name endings a batch takes from a directory

@@ -1,6 +1,7 @@
 package fit
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -30,11 +31,16 @@ type IVResult struct {
 // IV fits an I-V data set (extract.FitIV) at the temperature the rule
 // chooses.
 func IV(ds *measure.DataSet, opt IVOptions) (*IVResult, error) {
+	return IVContext(context.Background(), ds, opt)
+}
+
+// IVContext is IV that stops, with ctx's error, when ctx is done.
+func IVContext(ctx context.Context, ds *measure.DataSet, opt IVOptions) (*IVResult, error) {
 	if ds == nil || ds.Kind != measure.KindIV || len(ds.CurrentA) != len(ds.VoltageV) {
 		return nil, errors.New("the data set is not an I-V sweep")
 	}
 	t, tnote := opt.Temperature.Choose(ds)
-	f, err := extract.FitIV(ds.VoltageV, ds.CurrentA, extract.IVOptions{TemperatureK: t.K, Window: opt.Window, Model: opt.Model})
+	f, err := extract.FitIVContext(ctx, ds.VoltageV, ds.CurrentA, extract.IVOptions{TemperatureK: t.K, Window: opt.Window, Model: opt.Model})
 	if err != nil {
 		return nil, err
 	}

@@ -34,6 +34,10 @@ var (
 	ErrEncoding = errors.New("unsupported encoding")
 	// ErrLineTooLong means a line exceeds MaxLineBytes.
 	ErrLineTooLong = errors.New("line too long")
+	// ErrTooManyRows means the file holds more than MaxRows data rows.
+	ErrTooManyRows = errors.New("too many data rows")
+	// ErrTooLarge means the file is longer than MaxBytes.
+	ErrTooLarge = errors.New("file too large")
 )
 
 // ParseError reports a problem at one place of the file: the file name,

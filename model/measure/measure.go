@@ -15,12 +15,17 @@
 // error naming file, line and column; an error returns no data set.
 //
 // The importer streams: one pass, no per-row allocation beyond the growth
-// of the output columns.
+// of the output columns. It reads at most MaxBytes bytes and MaxRows data
+// rows; a longer file is refused (ErrTooLarge, ErrTooManyRows) before it
+// can take more memory or time, so an import holds at most a few tens of
+// MB whatever the file.
 package measure
 
 import (
 	"bufio"
 	"bytes"
+	"context"
+	"errors"
 	"fmt"
 	"io"
 	"math"
@@ -164,70 +169,39 @@ type Options struct {
 
 // ImportFile opens path and imports it; see Import.
 func ImportFile(path string, opt Options) (*DataSet, error) {
+	return ImportFileContext(context.Background(), path, opt)
+}
+
+// ImportFileContext is ImportFile with cancellation (see ImportContext).
+func ImportFileContext(ctx context.Context, path string, opt Options) (*DataSet, error) {
 	f, err := os.Open(path)
 	if err != nil {
 		return nil, err
 	}
 	defer f.Close()
-	return Import(f, path, opt)
+	return ImportContext(ctx, f, path, opt)
 }
 
 // Import reads a delimited text sweep from r; name is used in errors and
 // recorded as the source file. On error it returns no data set.
 func Import(r io.Reader, name string, opt Options) (*DataSet, error) {
+	return ImportContext(context.Background(), r, name, opt)
+}
+
+// ImportContext is Import with cancellation: ctx is checked before every
+// read from r (every 64 KiB), and a cancelled import returns an error
+// wrapping ctx.Err().
+func ImportContext(ctx context.Context, r io.Reader, name string, opt Options) (*DataSet, error) {
 	im := importer{file: name, opt: opt}
 	if err := im.checkOptions(); err != nil {
 		return nil, err
 	}
-	im.lr.br = bufio.NewReaderSize(r, 64<<10)
+	im.lr.br = bufio.NewReaderSize(&capReader{r: r, max: MaxBytes, ctx: ctx}, 64<<10)
 	ds, err := im.run()
 	if err != nil {
 		return nil, err
 	}
 	return ds, nil
-}
-
-// lineReader yields lines without the line end.
-type lineReader struct {
-	br   *bufio.Reader
-	long []byte
-	line int
-}
-
-func (lr *lineReader) next() ([]byte, error) {
-	lr.long = lr.long[:0]
-	for {
-		b, err := lr.br.ReadSlice('\n')
-		if err == bufio.ErrBufferFull {
-			lr.long = append(lr.long, b...)
-			if len(lr.long) > MaxLineBytes {
-				lr.line++
-				return nil, ErrLineTooLong
-			}
-			continue
-		}
-		if len(lr.long) > 0 {
-			lr.long = append(lr.long, b...)
-			b = lr.long
-		}
-		if err == io.EOF && len(b) == 0 {
-			return nil, io.EOF
-		}
-		if err != nil && err != io.EOF {
-			return nil, err
-		}
-		lr.line++
-		if len(b) > MaxLineBytes {
-			return nil, ErrLineTooLong
-		}
-		if n := len(b); n > 0 && b[n-1] == '\n' {
-			b = b[:n-1]
-		}
-		if n := len(b); n > 0 && b[n-1] == '\r' {
-			b = b[:n-1]
-		}
-		return b, nil
-	}
 }
 
 // colPlan is how one quantity is read from a row.
@@ -440,6 +414,10 @@ func (im *importer) run() (*DataSet, error) {
 func (im *importer) readErr(err error) error {
 	if err == ErrLineTooLong {
 		return &ParseError{File: im.file, Line: im.lr.line, Err: ErrLineTooLong, Expected: fmt.Sprintf("lines of at most %d bytes", MaxLineBytes)}
+	}
+	if errors.Is(err, ErrTooLarge) {
+		return &ParseError{File: im.file, Line: im.lr.line + 1, Err: ErrTooLarge,
+			Expected: fmt.Sprintf("at most %d bytes (MaxBytes, 256 MiB) per file, to bound memory and time; split the file", MaxBytes)}
 	}
 	return fmt.Errorf("%s: line %d: read: %w", im.file, im.lr.line+1, err)
 }
@@ -828,8 +806,12 @@ func (im *importer) dataLine(line []byte) error {
 	if bytes.IndexByte(line, 0) >= 0 {
 		return &ParseError{File: im.file, Line: ln, Err: ErrEncoding, Expected: "text without NUL bytes (is this a binary file?)"}
 	}
-	f := im.split(line)
 	im.ds.DataRows++
+	if im.ds.DataRows > MaxRows {
+		return &ParseError{File: im.file, Line: ln, Err: ErrTooManyRows,
+			Expected: fmt.Sprintf("at most %d data rows (MaxRows) per file, to bound memory and time; split the file", MaxRows)}
+	}
+	f := im.split(line)
 	if len(f) <= im.maxIdx {
 		// Name the first required column that is missing.
 		for _, p := range im.plans {

@@ -1,6 +1,7 @@
 package extract
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"sort"
@@ -391,7 +392,7 @@ func FitJunctionCV(v, c []float64, opt CVOptions) (*CVFit, error) {
 		}
 		return true
 	}
-	lr, err := levenberg(lmProblem{m: len(xs), p: p, eval: eval}, theta, 300)
+	lr, err := levenberg(context.Background(), lmProblem{m: len(xs), p: p, eval: eval}, theta, 300)
 	if err != nil {
 		return nil, fmt.Errorf("junction C-V fit: %w", err)
 	}

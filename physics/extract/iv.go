@@ -1,6 +1,7 @@
 package extract
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"sort"
@@ -171,6 +172,14 @@ func unobservable(effect, value, se float64) string {
 // kT/q; points with V <= 0 or I <= 0 are skipped (see AnalyzeReverse for
 // reverse bias).
 func FitIV(v, i []float64, opt IVOptions) (*IVFit, error) {
+	return FitIVContext(context.Background(), v, i, opt)
+}
+
+// FitIVContext is FitIV with cancellation: the start-value search and every
+// Levenberg-Marquardt evaluation check ctx (every few thousand points), so
+// a cancelled fit returns ctx.Err() (wrapped; test with errors.Is) within
+// milliseconds whatever the number of points.
+func FitIVContext(ctx context.Context, v, i []float64, opt IVOptions) (*IVFit, error) {
 	if len(v) != len(i) {
 		return nil, inputErr("current", fmt.Sprintf("%d values", len(i)), fmt.Sprintf("%d values (one per voltage)", len(v)), "voltage and current columns must have the same length")
 	}
@@ -202,7 +211,7 @@ func FitIV(v, i []float64, opt IVOptions) (*IVFit, error) {
 	if len(pts.v) < need {
 		return nil, tooFew("window", len(pts.v), need, fmt.Sprintf("the fit needs forward points (V > 0, I > 0) inside the window; %d were skipped", skipped))
 	}
-	de, err := directEstimates(pts.v, pts.i, vt)
+	de, err := directEstimates(ctx, pts.v, pts.i, vt)
 	if err != nil {
 		return nil, err
 	}
@@ -237,7 +246,7 @@ func FitIV(v, i []float64, opt IVOptions) (*IVFit, error) {
 	if math.IsInf(sd.ShuntResistanceOhm, 1) && free[3] {
 		sd.ShuntResistanceOhm = 1e3 * maxRatio(pts.v, pts.i)
 	}
-	sf, err := fitSingle(pts, w, vt, sd, free, maxIter)
+	sf, err := fitSingle(ctx, pts, w, vt, sd, free, maxIter)
 	if err != nil {
 		return nil, err
 	}
@@ -258,7 +267,7 @@ func FitIV(v, i []float64, opt IVOptions) (*IVFit, error) {
 		if !changed {
 			break
 		}
-		if sf, err = fitSingle(pts, w, vt, sf.d, sf.free, maxIter); err != nil {
+		if sf, err = fitSingle(ctx, pts, w, vt, sf.d, sf.free, maxIter); err != nil {
 			return nil, err
 		}
 	}
@@ -285,7 +294,7 @@ func FitIV(v, i []float64, opt IVOptions) (*IVFit, error) {
 	} else if math.IsInf(dd.ShuntResistanceOhm, 1) {
 		dd.ShuntResistanceOhm = 1e3 * maxRatio(pts.v, pts.i)
 	}
-	df, err := fitDouble(pts, w, vt, dd, dfree, maxIter)
+	df, err := fitDouble(ctx, pts, w, vt, dd, dfree, maxIter)
 	if err != nil {
 		return nil, err
 	}
@@ -312,7 +321,7 @@ func FitIV(v, i []float64, opt IVOptions) (*IVFit, error) {
 		if !changed {
 			break
 		}
-		if df, err = fitDouble(pts, w, vt, df.d, df.free, maxIter); err != nil {
+		if df, err = fitDouble(ctx, pts, w, vt, df.d, df.free, maxIter); err != nil {
 			return nil, err
 		}
 	}
@@ -461,7 +470,7 @@ func (d *DoubleDiode) slot(k int) *float64 {
 // r = w ln(I_model / I_measured), each parameter as its logarithm (so it
 // stays positive); standard errors come from the covariance (J^T J)^-1 s^2
 // scaled to the parameter (se = value * sigma(ln value)).
-func fitLog[D any, P fourParams[D]](pts ivPoints, w []float64, vt float64, d0 D, free [4]bool, maxIter int,
+func fitLog[D any, P fourParams[D]](ctx context.Context, pts ivPoints, w []float64, vt float64, d0 D, free [4]bool, maxIter int,
 	grad func(D, float64, float64, *[4]float64) float64, names [4]string) (fitResult[D], error) {
 	var idx []int
 	for k := 0; k < 4; k++ {
@@ -482,6 +491,9 @@ func fitLog[D any, P fourParams[D]](pts ivPoints, w []float64, vt float64, d0 D,
 		}
 		var g [4]float64
 		for n := 0; n < m; n++ {
+			if n&(cancelCheckEvery-1) == 0 && ctx.Err() != nil {
+				return false
+			}
 			c := grad(d, pts.v[n], vt, &g)
 			if !(c > 0) || math.IsInf(c, 0) {
 				return false
@@ -495,7 +507,7 @@ func fitLog[D any, P fourParams[D]](pts ivPoints, w []float64, vt float64, d0 D,
 		}
 		return true
 	}
-	lr, err := levenberg(lmProblem{m: m, p: p, eval: eval}, theta, maxIter)
+	lr, err := levenberg(ctx, lmProblem{m: m, p: p, eval: eval}, theta, maxIter)
 	if err != nil {
 		return fitResult[D]{}, err
 	}
@@ -524,8 +536,8 @@ func doubleNames() [4]string { return [4]string{"Is1", "Is2", "Rs", "Rsh"} }
 func singleName(k int) string { return singleNames()[k] }
 func doubleName(k int) string { return doubleNames()[k] }
 
-func fitSingle(pts ivPoints, w []float64, vt float64, d0 SingleDiode, free [4]bool, maxIter int) (singleResult, error) {
-	r, err := fitLog[SingleDiode](pts, w, vt, d0, free, maxIter, SingleDiode.grad, singleNames())
+func fitSingle(ctx context.Context, pts ivPoints, w []float64, vt float64, d0 SingleDiode, free [4]bool, maxIter int) (singleResult, error) {
+	r, err := fitLog[SingleDiode](ctx, pts, w, vt, d0, free, maxIter, SingleDiode.grad, singleNames())
 	if err != nil {
 		return r, fmt.Errorf("single-diode fit: %w (start Is=%g A, n=%g, Rs=%g ohm, Rsh=%g ohm)", err,
 			d0.SaturationCurrentA, d0.IdealityFactor, d0.SeriesResistanceOhm, d0.ShuntResistanceOhm)
@@ -533,8 +545,8 @@ func fitSingle(pts ivPoints, w []float64, vt float64, d0 SingleDiode, free [4]bo
 	return r, nil
 }
 
-func fitDouble(pts ivPoints, w []float64, vt float64, d0 DoubleDiode, free [4]bool, maxIter int) (doubleResult, error) {
-	r, err := fitLog[DoubleDiode](pts, w, vt, d0, free, maxIter, DoubleDiode.grad, doubleNames())
+func fitDouble(ctx context.Context, pts ivPoints, w []float64, vt float64, d0 DoubleDiode, free [4]bool, maxIter int) (doubleResult, error) {
+	r, err := fitLog[DoubleDiode](ctx, pts, w, vt, d0, free, maxIter, DoubleDiode.grad, doubleNames())
 	if err != nil {
 		return r, fmt.Errorf("double-diode fit: %w", err)
 	}
@@ -581,148 +593,4 @@ func median(x []float64) float64 {
 		return y[n/2]
 	}
 	return 0.5 * (y[n/2-1] + y[n/2])
-}
-
-// LinearRegion finds the most nearly ideal part of a forward I-V curve: it
-// slides a window of max(5, N/8) consecutive points (sorted by V) along
-// ln I vs V, fits a straight line to each, and keeps the steepest one. The
-// line ln I = ln Is + V/(n Vt) gives
-//
-//	n = 1/(Vt slope),  Is = exp(intercept).
-//
-// The "-1" of exp(V/(n Vt)) - 1 is taken out by dividing I by
-// 1 - exp(-V/(n Vt)) with the current estimate of n (a few passes), so
-// low-bias points are not mistaken for a steeper slope.
-// Units: v in V (sorted ascending, V > 0), i in A (> 0), vt in V; returns
-// Is in A, n, and the bias window of the chosen points. Valid where the
-// steepest part of the curve is neither shunt- nor Rs-limited (the usual
-// "linear region" of the semilog plot).
-// Source: Schroder, Semiconductor Material and Device Characterization, 3rd
-// ed. (2006), sec. 4.2 (ideality factor and saturation current from the
-// semilog plot).
-func LinearRegion(v, i []float64, vt float64) (is, n float64, win Window, err error) {
-	m := len(v)
-	if m != len(i) {
-		return 0, 0, Window{}, inputErr("current", len(i), fmt.Sprintf("%d values", m), "one current per voltage")
-	}
-	k := max(5, m/8)
-	if m < k {
-		return 0, 0, Window{}, tooFew("points", m, 5, "the linear region needs at least 5 forward points")
-	}
-	y := make([]float64, m)
-	for j := range i {
-		if !(i[j] > 0) || !(v[j] > 0) {
-			return 0, 0, Window{}, inputErr(fmt.Sprintf("point %d", j), fmt.Sprintf("V=%g, I=%g", v[j], i[j]), "V > 0 and I > 0", "the semilog plot needs positive forward current")
-		}
-		y[j] = math.Log(i[j])
-	}
-	yc := make([]float64, m)
-	copy(yc, y)
-	var bf lineFit
-	bs := 0
-	for pass := 0; pass < 4; pass++ {
-		best := math.Inf(-1)
-		for s := 0; s+k <= m; s++ {
-			f, ok := fitLine(v[s:s+k], yc[s:s+k], nil)
-			if ok && f.b > best {
-				best, bf, bs = f.b, f, s
-			}
-		}
-		if !(best > 0) {
-			return 0, 0, Window{}, inputErr("current", "not increasing", "ln I rising with V", "no part of the curve rises with bias; is this forward data?")
-		}
-		// Remove the "-1" of exp(V/(n Vt)) - 1, which steepens the curve
-		// below a few n Vt: ln(I/(1 - exp(-V/(n Vt)))) = ln Is + V/(n Vt).
-		a := 1 / bf.b
-		for j := range yc {
-			yc[j] = y[j] - math.Log(-math.Expm1(-v[j]/a))
-		}
-	}
-	return math.Exp(bf.a), 1 / (vt * bf.b), Window{v[bs], v[bs+k-1]}, nil
-}
-
-// CheungResult holds the Cheung-Cheung estimates.
-type CheungResult struct {
-	SeriesResistanceOhm, IdealityFactor float64 // Rs in ohm, n
-	StdErrRs, StdErrN                   float64 // standard errors from the line fit
-	Points                              int     // points on the Cheung-Cheung line
-}
-
-// CheungCheung estimates the series resistance from the high-current part
-// of a forward I-V curve using
-//
-//	dV/d(ln I) = I Rs + n Vt,
-//
-// a straight line in I whose slope is Rs and intercept n Vt. The derivative
-// is a local least-squares slope of V against ln I over +-h neighbours
-// (h = max(2, N/40)). Units: v in V, i in A (sorted by V, I > 0), vt in V.
-// Valid where the shunt current is negligible (upper part of the curve).
-// Source: S. K. Cheung and N. W. Cheung, Appl. Phys. Lett. 49, 85 (1986),
-// eq. (4).
-func CheungCheung(v, i []float64, vt float64) (CheungResult, error) {
-	m := len(v)
-	if m != len(i) {
-		return CheungResult{}, inputErr("current", len(i), fmt.Sprintf("%d values", m), "one current per voltage")
-	}
-	h := max(2, m/40)
-	if m < 2*h+3 {
-		return CheungResult{}, tooFew("points", m, 2*h+3, "the Cheung-Cheung derivative needs a few points on each side")
-	}
-	y := make([]float64, m)
-	for j := range i {
-		if !(i[j] > 0) {
-			return CheungResult{}, inputErr(fmt.Sprintf("point %d", j), i[j], "I > 0", "ln I needs positive current")
-		}
-		y[j] = math.Log(i[j])
-	}
-	var xs, hs []float64
-	for j := h; j < m-h; j++ {
-		f, ok := fitLine(y[j-h:j+h+1], v[j-h:j+h+1], nil)
-		if !ok {
-			continue
-		}
-		xs = append(xs, i[j])
-		hs = append(hs, f.b)
-	}
-	f, ok := fitLine(xs, hs, nil)
-	if !ok || len(xs) < 3 {
-		return CheungResult{}, tooFew("points", len(xs), 3, "the Cheung-Cheung line needs distinct currents")
-	}
-	return CheungResult{SeriesResistanceOhm: f.b, IdealityFactor: f.a / vt,
-		StdErrRs: math.Sqrt(f.vb), StdErrN: math.Sqrt(f.va) / vt, Points: len(xs)}, nil
-}
-
-// directEstimates combines LinearRegion, CheungCheung (on the points above
-// the linear region) and the low-bias excess current into start values.
-func directEstimates(v, i []float64, vt float64) (DirectEstimates, error) {
-	is, n, win, err := LinearRegion(v, i, vt)
-	if err != nil {
-		return DirectEstimates{}, err
-	}
-	de := DirectEstimates{SaturationCurrentA: is, IdealityFactor: n, LinearWindow: win,
-		SeriesResistanceOhm: math.NaN(), ShuntResistanceOhm: math.Inf(1)}
-	// Cheung-Cheung on the points from the middle of the linear window up.
-	mid := 0.5 * (win.MinV + win.MaxV)
-	lo := sort.SearchFloat64s(v, mid)
-	if len(v)-lo >= 7 {
-		if c, err := CheungCheung(v[lo:], i[lo:], vt); err == nil && c.SeriesResistanceOhm > 0 {
-			de.SeriesResistanceOhm = c.SeriesResistanceOhm
-		}
-	}
-	// Shunt from the excess current below the linear window.
-	a := n * vt
-	var r []float64
-	for k := range v {
-		if v[k] >= win.MinV {
-			break
-		}
-		ex := i[k] - is*math.Expm1(v[k]/a)
-		if ex > 0.5*i[k] {
-			r = append(r, v[k]/ex)
-		}
-	}
-	if len(r) >= 3 {
-		de.ShuntResistanceOhm = median(r)
-	}
-	return de, nil
 }

@@ -1,6 +1,13 @@
 package extract
 
-import "math"
+import (
+	"context"
+	"math"
+)
+
+// cancelCheckEvery is how many points a model evaluation computes between
+// checks of its context (a power of two).
+const cancelCheckEvery = 4096
 
 // lmProblem is a nonlinear least-squares problem min sum r_i(theta)^2 with
 // m residuals and p parameters. eval fills r (length m) and, when jac is not
@@ -27,8 +34,10 @@ type lmResult struct {
 // (parameters are logarithms here, so this bounds each factor change).
 // Source: Levenberg, Q. Appl. Math. 2, 164 (1944); Marquardt, J. SIAM 11,
 // 431 (1963); Nocedal & Wright, Numerical Optimization, 2nd ed. (2006),
-// sec. 10.3.
-func levenberg(pr lmProblem, theta0 []float64, maxIter int) (lmResult, error) {
+// sec. 10.3. The context is checked before every evaluation; a cancelled
+// context ends the iteration with ctx.Err() (eval may also return false
+// when it sees the cancellation part-way).
+func levenberg(ctx context.Context, pr lmProblem, theta0 []float64, maxIter int) (lmResult, error) {
 	m, p := pr.m, pr.p
 	theta := append([]float64(nil), theta0...)
 	trial := make([]float64, p)
@@ -40,7 +49,13 @@ func levenberg(pr lmProblem, theta0 []float64, maxIter int) (lmResult, error) {
 	aa := make([]float64, p*p)
 	g := make([]float64, p)
 	d := make([]float64, p)
+	if err := ctx.Err(); err != nil {
+		return lmResult{}, err
+	}
 	if !pr.eval(theta, r, jac) {
+		if err := ctx.Err(); err != nil {
+			return lmResult{}, err
+		}
 		return lmResult{}, ErrNoConvergence
 	}
 	cost := sumSq(r)
@@ -81,6 +96,9 @@ func levenberg(pr lmProblem, theta0 []float64, maxIter int) (lmResult, error) {
 			}
 			for j := range trial {
 				trial[j] = theta[j] + d[j]
+			}
+			if err := ctx.Err(); err != nil {
+				return lmResult{}, err
 			}
 			if pr.eval(trial, rt, jt) {
 				ct := sumSq(rt)

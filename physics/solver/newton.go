@@ -1,6 +1,7 @@
 package solver
 
 import (
+	"context"
 	"errors"
 	"math"
 )
@@ -44,6 +45,10 @@ func (s *Solver) applyContacts(st *state) {
 
 // work holds the buffers of one solve sequence.
 type work struct {
+	// ctx, when set, is checked at every Newton iteration and Gummel
+	// sweep, so that a cancelled continuation step stops within one
+	// iteration (milliseconds even on the finest mesh).
+	ctx            context.Context
 	n, p           []float64
 	band           *bandLU
 	f              []float64
@@ -334,6 +339,9 @@ const slowAfter = 12
 func (s *Solver) newton(st *state, w *work) (iters int, upd, res float64, err error) {
 	tol := s.opt.Tolerance
 	for it := 1; it <= s.opt.MaxIterations; it++ {
+		if w.ctx != nil && w.ctx.Err() != nil {
+			return it, upd, res, w.ctx.Err()
+		}
 		res = s.assemble(st, w)
 		if math.IsNaN(res) || math.IsInf(res, 0) {
 			return it, upd, res, errors.New("non-finite residual (overflow in the carrier densities)")
@@ -390,6 +398,9 @@ func (s *Solver) newton(st *state, w *work) (iters int, upd, res float64, err er
 			if spread := s.currentSpread(st, w); spread > 1e-10 {
 				best, bestSpread := st.clone(), spread
 				for extra := 0; extra < 6; extra++ {
+					if w.ctx != nil && w.ctx.Err() != nil {
+						break
+					}
 					if s.polishCarrier(st, w, true) != nil || s.polishCarrier(st, w, false) != nil {
 						break
 					}
@@ -640,6 +651,9 @@ func (s *Solver) gummelCarrier(st *state, w *work, electrons bool) error {
 // iteration, which decides convergence.
 func (s *Solver) gummel(st *state, w *work) {
 	for k := 0; k < s.opt.GummelIterations; k++ {
+		if w.ctx != nil && w.ctx.Err() != nil {
+			return
+		}
 		save := st.clone()
 		_, _, _, err := s.poisson(st, w, 1e-8, 30)
 		if err == nil {

@@ -140,6 +140,8 @@ func (tr *tracker) advance(ctx context.Context, targetV float64) error {
 	target := targetV / s.vt
 	minStep := s.opt.MinBiasStep / s.vt
 	step := 0.0
+	tr.w.ctx = ctx
+	defer func() { tr.w.ctx = nil }()
 	for tr.cur.v != target {
 		if err := ctx.Err(); err != nil {
 			return err
@@ -164,6 +166,9 @@ func (tr *tracker) advance(ctx context.Context, targetV float64) error {
 				step *= 2
 			}
 			continue
+		}
+		if err := ctx.Err(); err != nil {
+			return err
 		}
 		step /= 2
 		if math.Abs(step) < minStep {

@@ -185,9 +185,9 @@ func runCalc(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintln(stderr, "junco calc: give --sweep or --tsweep, not both")
 		return exitUsage
 	case o.sweep != "":
-		return runSweep(o, stdout, stderr)
+		return runSweep(ctx, o, stdout, stderr)
 	case o.tsweep != "":
-		return runTSweep(o, stdout, stderr)
+		return runTSweep(ctx, o, stdout, stderr)
 	case o.csv:
 		fmt.Fprintln(stderr, "junco calc: --csv needs --sweep or --tsweep")
 		return exitUsage
@@ -233,39 +233,14 @@ func reportError(stderr io.Writer, err error) int {
 	return exitUsage
 }
 
-// parseRange parses FROM:TO:STEP with units of kind k.
-func parseRange(flagName, text string, k model.Kind) (model.Range, error) {
-	parts := strings.Split(text, ":")
-	if len(parts) != 3 {
-		return model.Range{}, fmt.Errorf("--%s %q: want FROM:TO:STEP, e.g. -2V:0.9V:10mV", flagName, text)
-	}
-	var v [3]float64
-	for i, p := range parts {
-		x, err := model.ParseValue(k, p)
-		if err != nil {
-			return model.Range{}, fmt.Errorf("--%s %q: %v", flagName, text, err)
-		}
-		v[i] = x
-	}
-	if k == model.Temperature {
-		// A step is a difference: undo the offset of a Celsius step.
-		if d, err := model.ParseValue(k, parts[2]); err == nil {
-			if z, err2 := model.ParseValue(k, "0"+unitSuffix(parts[2])); err2 == nil {
-				v[2] = d - z
-			}
-		}
-	}
-	r := model.Range{From: v[0], To: v[1], Step: v[2]}
-	if _, err := r.Points(); err != nil {
+// parseRange parses a sweep flag FROM:TO:STEP with units of kind k, at
+// most limit points (model.ParseSweep, the one sweep parser).
+func parseRange(flagName, text string, k model.Kind, limit int) (model.Range, error) {
+	r, err := model.ParseSweep(k, text, limit)
+	if err != nil {
 		return model.Range{}, fmt.Errorf("--%s: %v", flagName, err)
 	}
 	return r, nil
-}
-
-// unitSuffix returns the non-numeric tail of a value such as "10K".
-func unitSuffix(s string) string {
-	i := strings.LastIndexAny(s, "0123456789.")
-	return s[i+1:]
 }
 
 // printFlags writes the distinct flags of a sweep to stderr.
@@ -275,13 +250,26 @@ func printFlags(stderr io.Writer, flags []physics.Flag) {
 	}
 }
 
-func runSweep(o calcOptions, stdout, stderr io.Writer) int {
-	r, err := parseRange("sweep", o.sweep, model.Voltage)
+// interrupted reports a sweep stopped by SIGINT or SIGTERM (the context)
+// and returns exitInterrupted; it returns -1 for any other error.
+func interrupted(stderr io.Writer, err error) int {
+	if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
+		fmt.Fprintln(stderr, "junco calc: interrupted; nothing was written")
+		return exitInterrupted
+	}
+	return -1
+}
+
+func runSweep(ctx context.Context, o calcOptions, stdout, stderr io.Writer) int {
+	r, err := parseRange("sweep", o.sweep, model.Voltage, model.MaxSweepPoints)
 	if err != nil {
 		fmt.Fprintln(stderr, "junco calc:", err)
 		return exitUsage
 	}
-	pts, flags, err := model.IVSweep(o.spec, r)
+	pts, flags, err := model.IVSweep(ctx, o.spec, r)
+	if code := interrupted(stderr, err); code >= 0 {
+		return code
+	}
 	if err != nil {
 		return reportError(stderr, err)
 	}
@@ -304,14 +292,17 @@ func runSweep(o calcOptions, stdout, stderr io.Writer) int {
 	return exitOK
 }
 
-func runTSweep(o calcOptions, stdout, stderr io.Writer) int {
-	r, err := parseRange("tsweep", o.tsweep, model.Temperature)
+func runTSweep(ctx context.Context, o calcOptions, stdout, stderr io.Writer) int {
+	r, err := parseRange("tsweep", o.tsweep, model.Temperature, model.MaxSweepPoints)
 	if err != nil {
 		fmt.Fprintln(stderr, "junco calc:", err)
 		return exitUsage
 	}
 	iF := o.spec.ForwardCurrentOrDefault()
-	rows, err := model.TemperatureSweep(o.spec, r, iF)
+	rows, err := model.TemperatureSweep(ctx, o.spec, r, iF)
+	if code := interrupted(stderr, err); code >= 0 {
+		return code
+	}
 	if err != nil {
 		return reportError(stderr, err)
 	}

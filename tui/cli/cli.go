@@ -8,6 +8,7 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"strconv"
 	"strings"
 )
 
@@ -51,6 +52,21 @@ func run(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.
 	fmt.Fprintf(stderr, "junco: unknown command %q\n\n", args[0])
 	usage(stderr)
 	return exitUsage
+}
+
+// boolFlag reads a boolean flag given as --name (true) or --name=VALUE,
+// VALUE one of those strconv.ParseBool accepts (true, false, 1, 0, t, f):
+// the one reading of a boolean flag for the parsers that do not use the
+// flag package (the workbench's, the SSH command filter).
+func boolFlag(name, val string, hasVal bool) (bool, error) {
+	if !hasVal {
+		return true, nil
+	}
+	b, err := strconv.ParseBool(val)
+	if err != nil {
+		return false, fmt.Errorf("--%s=%q: allowed true or false (the flag alone means true)", name, val)
+	}
+	return b, nil
 }
 
 // Version is the tool version written into sessions and reports.

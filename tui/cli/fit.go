@@ -30,11 +30,11 @@ func runFit(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	var code int
 	switch sub {
 	case "iv":
-		code = fitRunIV(rest, stdout, stderr)
+		code = fitRunIV(ctx, rest, stdout, stderr)
 	case "cv":
-		code = fitRunCV(rest, stdout, stderr)
+		code = fitRunCV(ctx, rest, stdout, stderr)
 	case "arrhenius":
-		code = fitRunArrhenius(rest, stdout, stderr)
+		code = fitRunArrhenius(ctx, rest, stdout, stderr)
 	case "batch":
 		code = fitRunBatch(ctx, rest, stdout, stderr)
 	case "help", "-h", "--help":
@@ -99,8 +99,12 @@ func (e *fitUsageError) Error() string { return e.msg }
 
 func fitBad(format string, a ...any) error { return &fitUsageError{fmt.Sprintf(format, a...)} }
 
-// fitExitCode maps an error to the exit code: bad input gives 2.
+// fitExitCode maps an error to the exit code: bad input gives 2, an
+// interruption (SIGINT, SIGTERM) 130.
 func fitExitCode(err error) int {
+	if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
+		return exitInterrupted
+	}
 	var ue *fitUsageError
 	var pe *measure.ParseError
 	var ce *measure.ColumnError
@@ -314,8 +318,8 @@ func (c fitCommon) ivOptions() fit.IVOptions {
 
 // fitImport imports one data file for a fit (fit.Import: regular files of
 // at most 64 MiB).
-func fitImport(path string, kind measure.Kind) (*measure.DataSet, error) {
-	return fit.Import(nil, path, kind, nil)
+func fitImport(ctx context.Context, path string, kind measure.Kind) (*measure.DataSet, error) {
+	return fit.ImportContext(ctx, nil, path, kind, nil)
 }
 
 // fitNum returns a pointer to v for JSON, nil (null) when not finite.

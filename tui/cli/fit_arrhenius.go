@@ -1,6 +1,7 @@
 package cli
 
 import (
+	"context"
 	"fmt"
 	"io"
 	"math"
@@ -40,7 +41,7 @@ type fitArrheniusReport struct {
 	Notes                []string          `json:"notes,omitempty"`
 }
 
-func fitRunArrhenius(args []string, stdout, stderr io.Writer) int {
+func fitRunArrhenius(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	a, c, code, done := fitStartCommon("arrhenius", args, []string{"temp", "window", "gamma", "current"}, []string{"json", "ascii"}, stdout, stderr)
 	if done {
 		return code
@@ -87,7 +88,7 @@ func fitRunArrhenius(args []string, stdout, stderr io.Writer) int {
 	var curves []extract.IVCurve
 	nsum := 0.0
 	for k, p := range files {
-		ds, err := fitImport(p, measure.KindIV)
+		ds, err := fitImport(ctx, p, measure.KindIV)
 		if err != nil {
 			fmt.Fprintf(stderr, "junco fit arrhenius: %v\n", err)
 			return fitExitCode(err)
@@ -100,7 +101,7 @@ func fitRunArrhenius(args []string, stdout, stderr io.Writer) int {
 			fmt.Fprintf(stderr, "junco fit arrhenius: %s: no temperature (no column, no \"# temperature:\" comment); give --temp T1,T2,... in file order\n", p)
 			return exitUsage
 		}
-		res, err := fit.IV(ds, opt)
+		res, err := fit.IVContext(ctx, ds, opt)
 		if err != nil {
 			fmt.Fprintf(stderr, "junco fit arrhenius: %s: %v\n", p, err)
 			return fitExitCode(err)

@@ -1,6 +1,7 @@
 package cli
 
 import (
+	"context"
 	"fmt"
 	"io"
 	"strconv"
@@ -48,7 +49,7 @@ type fitCVReport struct {
 	Notes              []string         `json:"notes,omitempty"`
 }
 
-func fitRunCV(args []string, stdout, stderr io.Writer) int {
+func fitRunCV(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	a, code, done := fitStart("cv", args, []string{"area", "material", "window", "smooth", "model-card", "save-to", "data"}, []string{"json", "ascii", "profile"}, stdout, stderr)
 	if done {
 		return code
@@ -109,7 +110,7 @@ func fitRunCV(args []string, stdout, stderr io.Writer) int {
 	}
 	ascii := a.bools["ascii"]
 	path := a.pos[0]
-	ds, err := fitImport(path, measure.KindCV)
+	ds, err := fitImport(ctx, path, measure.KindCV)
 	if err != nil {
 		fmt.Fprintf(stderr, "junco fit cv: %v\n", err)
 		return fitExitCode(err)

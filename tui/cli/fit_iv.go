@@ -1,6 +1,7 @@
 package cli
 
 import (
+	"context"
 	"fmt"
 	"io"
 	"math"
@@ -55,13 +56,13 @@ type fitIVCompare struct {
 
 // fitCompareIV compares the data set of a fit with spec over the window,
 // at the fit's temperature when the file states none and --temp gave one.
-func fitCompareIV(r *fitIVReport, session string, spec model.Spec, c fitCommon) *fitIVCompare {
+func fitCompareIV(ctx context.Context, r *fitIVReport, session string, spec model.Spec, c fitCommon) *fitIVCompare {
 	out := &fitIVCompare{CompareSession: session}
 	ds := *r.res.DataSet
 	if t := r.res.Temperature; t.Source == fit.SourceOption {
 		ds.TemperatureK, ds.StatedTemperatureK = nil, t.K
 	}
-	cmp, err := model.CompareIV(spec, &ds, c.window.MinV, c.window.MaxV)
+	cmp, err := model.CompareIVContext(ctx, spec, &ds, c.window.MinV, c.window.MaxV)
 	if cmp != nil {
 		out.PredictionRMSLogRatio = fitNum(cmp.RMSLogRatio)
 		out.ModelDiffusionIsA = fitNum(cmp.ModelIsA)
@@ -101,12 +102,12 @@ func fitCompareText(w io.Writer, r *fitIVCompare, ascii bool) {
 }
 
 // fitIVFile imports one file and fits it.
-func fitIVFile(path string, c fitCommon, leakAt *float64) (*fitIVReport, error) {
-	ds, err := fitImport(path, measure.KindIV)
+func fitIVFile(ctx context.Context, path string, c fitCommon, leakAt *float64) (*fitIVReport, error) {
+	ds, err := fitImport(ctx, path, measure.KindIV)
 	if err != nil {
 		return nil, err
 	}
-	res, err := fit.IV(ds, c.ivOptions())
+	res, err := fit.IVContext(ctx, ds, c.ivOptions())
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", path, err)
 	}
@@ -139,7 +140,7 @@ func fitIVFile(path string, c fitCommon, leakAt *float64) (*fitIVReport, error) 
 	return r, nil
 }
 
-func fitRunIV(args []string, stdout, stderr io.Writer) int {
+func fitRunIV(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	a, c, code, done := fitStartCommon("iv", args, []string{"temp", "window", "model", "model-card", "leakage-at", "compare", "data", "save-to"}, []string{"json", "ascii"}, stdout, stderr)
 	if done {
 		return code
@@ -185,9 +186,17 @@ func fitRunIV(args []string, stdout, stderr io.Writer) int {
 	code = exitOK
 	var reports []*fitIVReport
 	for _, p := range a.pos {
-		r, err := fitIVFile(p, c, leakAt)
+		r, err := fitIVFile(ctx, p, c, leakAt)
+		if ctx.Err() != nil {
+			fmt.Fprintln(stderr, "junco fit iv: interrupted")
+			return exitInterrupted
+		}
 		if err == nil && cmpSpec != nil {
-			r.fitIVCompare = fitCompareIV(r, cmpName, *cmpSpec, c)
+			r.fitIVCompare = fitCompareIV(ctx, r, cmpName, *cmpSpec, c)
+			if ctx.Err() != nil {
+				fmt.Fprintln(stderr, "junco fit iv: interrupted")
+				return exitInterrupted
+			}
 			if r.CompareError != "" {
 				fmt.Fprintf(stderr, "junco fit iv: %s: --compare %s: %s\n", p, cmpName, r.CompareError)
 				code = max(code, exitFailure)

@@ -1,6 +1,7 @@
 package cli
 
 import (
+	"context"
 	"io"
 	"math"
 	"os"
@@ -147,7 +148,7 @@ func TestFitSaveToSessionAppends(t *testing.T) {
 	files, store := t.TempDir(), t.TempDir()
 	d := extract.SingleDiode{SaturationCurrentA: 1e-12, IdealityFactor: 1.2, ShuntResistanceOhm: math.Inf(1)}
 	p := fitWriteIV(t, files, "invented.csv", d, 300, 0.1, 0.7, 40, 1)
-	r, err := fitIVFile(p, fitCommon{}, nil)
+	r, err := fitIVFile(context.Background(), p, fitCommon{}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}

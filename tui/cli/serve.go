@@ -270,7 +270,13 @@ func sshSessionFlags(cmd string, args []string) ([]string, error) {
 		}
 		switch name {
 		case "ascii":
-			out = append(out, "--ascii")
+			on, err := boolFlag(name, val, hasVal)
+			if err != nil {
+				return nil, err
+			}
+			if on {
+				out = append(out, "--ascii")
+			}
 			continue
 		case "rev", "format":
 		default:

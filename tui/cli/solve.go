@@ -612,7 +612,7 @@ func (o *solveOptions) sweepEnd(stderr io.Writer, err error, done, total int) in
 
 // runIV runs --sweep.
 func (o *solveOptions) runIV(ctx context.Context, stdout, stderr io.Writer) int {
-	rng, err := parseRange("sweep", o.calc.sweep, model.Voltage)
+	rng, err := parseRange("sweep", o.calc.sweep, model.Voltage, model.MaxNumericSweepPoints)
 	if err != nil {
 		fmt.Fprintln(stderr, "junco solve:", err)
 		return exitUsage
@@ -647,7 +647,7 @@ func (o *solveOptions) runIV(ctx context.Context, stdout, stderr io.Writer) int 
 
 // runCV runs --cv.
 func (o *solveOptions) runCV(ctx context.Context, stdout, stderr io.Writer) int {
-	rng, err := parseRange("cv", o.cv, model.Voltage)
+	rng, err := parseRange("cv", o.cv, model.Voltage, model.MaxNumericSweepPoints)
 	if err != nil {
 		fmt.Fprintln(stderr, "junco solve:", err)
 		return exitUsage

@@ -25,12 +25,25 @@ import (
 // `junco open`.
 type workbenchOptions struct {
 	ascii bool
-	data  string // --data DIR ("" = the default location)
-	rev   int    // --rev N (0 = the newest)
+	// asciiSet records that --ascii or --ascii=BOOL was given: it then
+	// overrides the detection from the locale (--ascii=false forces
+	// Unicode drawing).
+	asciiSet bool
+	data     string // --data DIR ("" = the default location)
+	rev      int    // --rev N (0 = the newest)
 	// target is the session name or session file to open ("" = the demo).
 	target string
 	// notices receives what opening the store changed (nil: not told).
 	notices io.Writer
+}
+
+// drawASCII is --ascii[=BOOL] when given, else what the locale calls for
+// (tui.DetectASCII).
+func (o workbenchOptions) drawASCII(getenv func(string) string) bool {
+	if o.asciiSet {
+		return o.ascii
+	}
+	return tui.DetectASCII(getenv)
 }
 
 // parseWorkbenchArgs reads the workbench's arguments: --ascii, --data
@@ -59,8 +72,11 @@ func parseWorkbenchArgs(args []string) (o workbenchOptions, help bool, err error
 				o.target = p
 			}
 			return o, help, nil
-		case isFlag && name == "ascii" && !hasVal:
-			o.ascii = true
+		case isFlag && name == "ascii":
+			if o.ascii, err = boolFlag(name, val, hasVal); err != nil {
+				return o, false, err
+			}
+			o.asciiSet = true
 		case isFlag && (name == "h" || name == "help"):
 			help = true
 		case isFlag && name == "data":
@@ -107,7 +123,8 @@ or a path). A file is stored as a new session only when you save it, under
 the name you choose. Press ? inside for the guide and every key.
 
   --ascii      draw with plain ASCII characters (also chosen automatically
-               when the locale has no UTF-8; NO_COLOR turns colour off)
+               when the locale has no UTF-8; --ascii=false draws Unicode
+               whatever the locale; NO_COLOR turns colour off)
   --data DIR   the session store (default $XDG_DATA_HOME/junco, else
                ~/.local/share/junco); saves are signed with $USER
   --rev N      open revision N of session NAME instead of the newest
@@ -208,7 +225,7 @@ func runWorkbench(ctx context.Context, args []string, stdout, stderr io.Writer) 
 	o.notices = stderr // shown before the workbench takes the screen, and after it
 	m, err := workbenchModel(o, tui.Options{
 		Renderer: r,
-		ASCII:    o.ascii || tui.DetectASCII(os.Getenv),
+		ASCII:    o.drawASCII(os.Getenv),
 		NoColor:  noColor,
 		Width:    w,
 		Height:   h,

@@ -21,7 +21,7 @@ func TestParseWorkbenchArgs(t *testing.T) {
 		err  string
 	}{
 		{nil, workbenchOptions{}, ""},
-		{[]string{"--ascii", "--data", "d"}, workbenchOptions{ascii: true, data: "d"}, ""},
+		{[]string{"--ascii", "--data", "d"}, workbenchOptions{ascii: true, asciiSet: true, data: "d"}, ""},
 		{[]string{"d7", "--rev=2", "--data=d"}, workbenchOptions{target: "d7", rev: 2, data: "d"}, ""},
 		{[]string{"runs/d7.json"}, workbenchOptions{target: "runs/d7.json"}, ""},
 		{[]string{"a", "b"}, workbenchOptions{}, `unexpected argument "b"`},
