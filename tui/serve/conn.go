@@ -15,10 +15,14 @@ import (
 )
 
 // Terminal size limits: a client may announce any size, the workbench is
-// drawn at most this large (the client shows the top-left part).
+// drawn at most this large (the client shows the top-left part). The
+// workbench holds about 0.7 kB per cell while it draws (measured: a
+// connection at 1000x500 raised the server's resident memory by 350 MB,
+// at 500x250 by 80 MB), so the limits keep one connection under 100 MB
+// while leaving more than any real screen shows.
 const (
-	MaxColumns = 1000
-	MaxRows    = 500
+	MaxColumns = 500
+	MaxRows    = 250
 )
 
 // clampWindow bounds a terminal size to MaxColumns x MaxRows.

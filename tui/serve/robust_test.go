@@ -191,9 +191,9 @@ func TestStalledClientIsClosed(t *testing.T) {
 	if err := s.Shell(); err != nil {
 		t.Fatal(err)
 	}
-	// Each key redraws the whole 1000x500 screen (0.5 MB): far beyond the
-	// client's 2 MB window.
-	for range 20 {
+	// Each key redraws the whole screen (MaxColumns x MaxRows, 125 kB):
+	// 40 of them overflow the client's 2 MB window.
+	for range 40 {
 		fmt.Fprint(in, "f")
 		time.Sleep(20 * time.Millisecond)
 	}

@@ -402,6 +402,11 @@ func (s *Server) appMiddleware(next ssh.Handler) ssh.Handler {
 			return
 		}
 		pty, winCh, ok := sess.Pty()
+		if !ok && a.opts.noPTY {
+			fmt.Fprintln(sess, "junco: this key is for commands only (no-pty in the authorized-keys file): run e.g. `sessions list`")
+			_ = sess.Exit(1)
+			return
+		}
 		if !ok {
 			fmt.Fprintln(sess, "junco: the workbench needs a terminal: connect with `ssh -t`, or run `sessions list` as a command")
 			_ = sess.Exit(1)
