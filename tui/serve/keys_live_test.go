@@ -134,6 +134,15 @@ func TestForcedCommand(t *testing.T) {
 	if err := s.RequestSubsystem("sftp"); err == nil {
 		t.Error("a key with a forced command got a subsystem")
 	}
+	s, err = cl.NewSession()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var errb bytes.Buffer
+	s.Stderr = &errb
+	if err := s.Run("scp -t ."); err == nil || !strings.Contains(errb.String(), "no file transfer") {
+		t.Errorf("legacy scp with a forced command: %v %q", err, errb.String())
+	}
 }
 
 // A removed key ends its live connection, after its program got the

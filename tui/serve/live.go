@@ -19,6 +19,7 @@ type liveConn struct {
 	key     gossh.PublicKey
 	addr    netip.Addr
 	terms   string // authorizedKey.terms of the line that admitted it
+	conn    *gossh.ServerConn
 	revoked bool
 }
 
@@ -69,9 +70,13 @@ func (s *Server) sessionRequest(sess ssh.Session, kind string) bool {
 	}
 	s.mu.Lock()
 	if _, ok := s.conns[ctx]; !ok {
-		s.conns[ctx] = &liveConn{user: a.user, key: sess.PublicKey(), addr: addrOf(ctx.RemoteAddr()), terms: a.terms()}
+		conn, _ := ctx.Value(ssh.ContextKeyConn).(*gossh.ServerConn)
+		s.conns[ctx] = &liveConn{user: a.user, key: sess.PublicKey(), addr: addrOf(ctx.RemoteAddr()), terms: a.terms(), conn: conn}
+		// Done is taken here, in the request loop: a handler may replace
+		// the context's value chain (SetValue) while it runs.
+		done := ctx.Done()
 		go func() {
-			<-ctx.Done()
+			<-done
 			s.mu.Lock()
 			delete(s.conns, ctx)
 			s.mu.Unlock()
@@ -107,6 +112,7 @@ func (s *Server) revalidate() {
 	now := time.Now()
 	s.mu.Lock()
 	gone := map[ssh.Context]bool{}
+	var conns []*gossh.ServerConn
 	for ctx, c := range s.conns {
 		reason := ""
 		a, err := s.keys.authorise(c.key, c.user, c.addr, now)
@@ -120,6 +126,7 @@ func (s *Server) revalidate() {
 		}
 		c.revoked = true
 		gone[ctx] = true
+		conns = append(conns, c.conn)
 		s.log.Warn("closing connection: key no longer authorised as it was", "user", c.user, "remote", c.addr.String(), "key", gossh.FingerprintSHA256(c.key), "reason", reason)
 	}
 	s.mu.Unlock()
@@ -127,8 +134,10 @@ func (s *Server) revalidate() {
 		return
 	}
 	s.stopPrograms(context.Background(), func(c ssh.Context) bool { return gone[c] })
-	for ctx := range gone {
-		closeConnection(ctx)
+	for _, c := range conns {
+		if c != nil {
+			_ = c.Close()
+		}
 	}
 }
 

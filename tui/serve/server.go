@@ -317,9 +317,16 @@ func (s *Server) authMiddleware(next ssh.Handler) ssh.Handler {
 			wish.Fatalln(sess, "junco: public-key authentication is required")
 			return
 		}
-		if _, err := s.authorise(sess.Context(), key); err != nil {
+		a, err := s.authorise(sess.Context(), key)
+		if err != nil {
 			s.log.Warn("session refused: "+err.Error(), "login", sess.User(), "key", gossh.FingerprintSHA256(key))
 			wish.Fatalln(sess, "junco: this key is not authorised for "+sess.User())
+			return
+		}
+		if args := sess.Command(); a.opts.command != nil && len(args) > 0 && args[0] == "scp" {
+			// The scp middleware would answer before the forced command.
+			s.log.Warn("scp refused: the key has a forced command", "user", a.user, "line", a.line)
+			wish.Fatalln(sess, "junco: this key runs one fixed command (command= in the authorized-keys file); no file transfer")
 			return
 		}
 		next(sess)
