@@ -5,12 +5,16 @@ import (
 	"bytes"
 	"crypto/ed25519"
 	"crypto/rand"
+	"crypto/sha256"
 	"encoding/pem"
 	"errors"
 	"fmt"
+	"io"
+	"net/netip"
 	"os"
 	"path/filepath"
 	"regexp"
+	"sort"
 	"strings"
 	"sync"
 	"time"
@@ -33,59 +37,104 @@ type authorizedKey struct {
 	user        string
 	key         gossh.PublicKey
 	fingerprint string
+	line        int // 1-based line number in the file, for log lines
+	opts        keyOptions
 }
 
-// keyring holds the parsed authorized-keys file and re-reads it when it
-// changes on disk (checked at every login) or on Reload.
-type keyring struct {
-	path string
-	logf func(format string, args ...any)
+// terms describes what a live session of this line may do; a reload that
+// changes them for a connected key closes that connection.
+func (a authorizedKey) terms() string {
+	return fmt.Sprintf("pty=%t command=%q", !a.opts.noPTY, a.opts.command)
+}
 
-	mu      sync.Mutex
-	modTime time.Time
-	size    int64
-	keys    []authorizedKey
-	loaded  bool
+// maxKeysFileBytes bounds the authorized-keys file read into memory.
+const maxKeysFileBytes = 4 << 20
+
+// keyring holds the parsed authorized-keys file. It re-reads the file when
+// its content changes (compared by SHA-256, never by size or modification
+// time) and calls changed after every reload that changed the keys.
+type keyring struct {
+	path    string
+	logf    func(format string, args ...any)
+	loc     *time.Location
+	changed func()
+
+	mu     sync.Mutex
+	sum    [sha256.Size]byte
+	keys   []authorizedKey
+	loaded bool
 }
 
 func newKeyring(path string, logf func(string, ...any)) (*keyring, error) {
-	k := &keyring{path: path, logf: logf}
+	k := &keyring{path: path, logf: logf, loc: time.Local}
 	if err := k.reload(true); err != nil {
 		return nil, err
 	}
 	return k, nil
 }
 
-// reload re-reads the file when force is set or its size or modification
-// time changed. A file that cannot be read locks everyone out (and says so
-// in the log) rather than keeping stale keys.
+// reload re-reads the file; unless force is set, it parses and logs only
+// when the content differs from the last read. A file that cannot be read
+// (or is larger than maxKeysFileBytes) locks everyone out, and says so in
+// the log, rather than keeping stale keys.
 func (k *keyring) reload(force bool) error {
+	data, err := readBounded(k.path, maxKeysFileBytes)
 	k.mu.Lock()
-	defer k.mu.Unlock()
-	st, err := os.Stat(k.path)
 	if err != nil {
-		if k.loaded || force {
+		wasLoaded := k.loaded && k.keys != nil
+		if wasLoaded || force {
 			k.logf("authorized keys %s unreadable (%v): refusing every login until it is fixed", k.path, err)
 		}
-		k.keys, k.loaded = nil, true
-		k.modTime, k.size = time.Time{}, -1
+		// Live connections are left alone: a file being replaced may be
+		// missing for a moment, and closing them needs a readable file
+		// that no longer lists their key.
+		k.keys, k.loaded, k.sum = nil, true, [sha256.Size]byte{}
+		k.mu.Unlock()
 		return fmt.Errorf("authorized keys: %w", err)
 	}
-	if !force && k.loaded && st.ModTime().Equal(k.modTime) && st.Size() == k.size {
+	sum := sha256.Sum256(data)
+	if !force && k.loaded && k.keys != nil && sum == k.sum {
+		k.mu.Unlock()
 		return nil
 	}
-	data, err := os.ReadFile(k.path)
-	if err != nil {
-		k.keys, k.loaded = nil, true
-		return fmt.Errorf("authorized keys: %w", err)
-	}
-	keys, problems := parseAuthorizedKeys(data)
+	keys, problems := parseAuthorizedKeys(data, k.loc)
 	for _, p := range problems {
 		k.logf("authorized keys %s: %s", k.path, p)
 	}
-	k.keys, k.loaded, k.modTime, k.size = keys, true, st.ModTime(), st.Size()
+	changed := k.loaded && sum != k.sum
+	if keys == nil {
+		keys = []authorizedKey{}
+	}
+	k.keys, k.loaded, k.sum = keys, true, sum
 	k.logf("authorized keys %s: %d key(s) for %d user(s)", k.path, len(keys), countUsers(keys))
+	k.mu.Unlock()
+	if changed {
+		k.notify()
+	}
 	return nil
+}
+
+func (k *keyring) notify() {
+	if k.changed != nil {
+		k.changed()
+	}
+}
+
+// readBounded reads a whole file of at most limit bytes.
+func readBounded(path string, limit int64) ([]byte, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	data, err := io.ReadAll(io.LimitReader(f, limit+1))
+	if err != nil {
+		return nil, err
+	}
+	if int64(len(data)) > limit {
+		return nil, fmt.Errorf("larger than the limit of %d bytes", limit)
+	}
+	return data, nil
 }
 
 func countUsers(keys []authorizedKey) int {
@@ -97,10 +146,12 @@ func countUsers(keys []authorizedKey) int {
 }
 
 // parseAuthorizedKeys reads the OpenSSH authorized-keys format. Each usable
-// line's comment names the key's user. Lines that do not parse, or whose
-// comment is not a valid user name, are skipped and reported; they never
-// lock out the other users.
-func parseAuthorizedKeys(data []byte) ([]authorizedKey, []string) {
+// line's comment names the key's user; its options are those of
+// parseKeyOptions. Lines that do not parse, whose comment is not a valid
+// user name or that carry an option the server does not implement are
+// refused and reported with their line number; they never lock out the
+// other users.
+func parseAuthorizedKeys(data []byte, loc *time.Location) ([]authorizedKey, []string) {
 	var keys []authorizedKey
 	var problems []string
 	sc := bufio.NewScanner(bytes.NewReader(data))
@@ -112,37 +163,59 @@ func parseAuthorizedKeys(data []byte) ([]authorizedKey, []string) {
 		if text == "" || strings.HasPrefix(text, "#") {
 			continue
 		}
-		pub, comment, _, _, err := gossh.ParseAuthorizedKey([]byte(text))
+		pub, comment, options, _, err := gossh.ParseAuthorizedKey([]byte(text))
 		if err != nil {
-			problems = append(problems, fmt.Sprintf("line %d skipped: %v", line, err))
+			problems = append(problems, fmt.Sprintf("line %d refused: %v", line, err))
 			continue
 		}
 		user := strings.TrimSpace(comment)
 		if !ValidUserName(user) {
-			problems = append(problems, fmt.Sprintf("line %d skipped: the comment %q must name the user (letters, digits, '.', '_', '-')", line, user))
+			problems = append(problems, fmt.Sprintf("line %d refused: the comment %q must name the user (letters, digits, '.', '_', '-')", line, user))
 			continue
 		}
-		keys = append(keys, authorizedKey{user: user, key: pub, fingerprint: gossh.FingerprintSHA256(pub)})
+		opts, err := parseKeyOptions(options, loc)
+		if err != nil {
+			problems = append(problems, fmt.Sprintf("line %d (%s) refused: %v", line, user, err))
+			continue
+		}
+		keys = append(keys, authorizedKey{user: user, key: pub, fingerprint: gossh.FingerprintSHA256(pub), line: line, opts: opts})
 	}
 	if err := sc.Err(); err != nil {
-		problems = append(problems, err.Error())
+		problems = append(problems, fmt.Sprintf("after line %d: %v (lines are limited to 1 MiB)", line, err))
 	}
 	return keys, problems
 }
 
-// lookup returns the user a key belongs to, re-reading the file first if it
-// changed.
-func (k *keyring) lookup(key gossh.PublicKey) (string, bool) {
-	_ = k.reload(false)
+// errNotAuthorised is wrapped by every refusal of authorise.
+var errNotAuthorised = errors.New("not authorised")
+
+// authorise returns the first line that lets key log in as login from addr
+// at now: the key is listed, its comment names login, its from= list
+// admits addr and it has not expired. It does not re-read the file.
+func (k *keyring) authorise(key gossh.PublicKey, login string, addr netip.Addr, now time.Time) (authorizedKey, error) {
 	k.mu.Lock()
 	defer k.mu.Unlock()
 	m := key.Marshal()
+	var why error
 	for _, a := range k.keys {
-		if bytes.Equal(a.key.Marshal(), m) {
-			return a.user, true
+		if !bytes.Equal(a.key.Marshal(), m) {
+			continue
+		}
+		switch {
+		case a.user != login:
+			why = fmt.Errorf("%w: key belongs to another user (line %d names %s)", errNotAuthorised, a.line, a.user)
+		case !a.opts.permitsFrom(addr):
+			why = fmt.Errorf("%w: from= on line %d does not admit %s", errNotAuthorised, a.line, addr)
+		case !a.opts.expiry.IsZero() && !now.Before(a.opts.expiry):
+			why = fmt.Errorf("%w: key on line %d expired at %s", errNotAuthorised, a.line, a.opts.expiry.UTC().Format(time.RFC3339))
+		default:
+			return a, nil
 		}
 	}
-	return "", false
+	if why == nil {
+		why = fmt.Errorf("%w: unknown key", errNotAuthorised)
+	}
+	return authorizedKey{}, why
 }
 
 // users returns the sorted distinct user names currently authorised.
@@ -158,6 +231,7 @@ func (k *keyring) users() []string {
 			out = append(out, a.user)
 		}
 	}
+	sort.Strings(out)
 	return out
 }
 

@@ -101,12 +101,22 @@ func (s *syncBuffer) String() string { s.mu.Lock(); defer s.mu.Unlock(); return 
 
 func startServer(t *testing.T, dir string, lines ...string) *fixture {
 	t.Helper()
+	return startServerWith(t, dir, nil, lines...)
+}
+
+// startServerWith is startServer with a hook to change the configuration.
+func startServerWith(t *testing.T, dir string, configure func(*Config), lines ...string) *fixture {
+	t.Helper()
 	f := &fixture{dir: dir, hostKey: filepath.Join(dir, "host", "ed25519"), authKeys: filepath.Join(dir, "authorized_keys"), logs: &syncBuffer{}}
 	if _, err := os.Stat(f.authKeys); os.IsNotExist(err) {
 		writeKeys(t, f.authKeys, lines...)
 	}
-	srv, err := New(Config{Listen: "127.0.0.1:0", HostKeyPath: f.hostKey, AuthorizedKeysPath: f.authKeys,
-		App: testApp{}, Logger: slog.New(slog.NewTextHandler(f.logs, nil)), Grace: time.Second})
+	cfg := Config{Listen: "127.0.0.1:0", HostKeyPath: f.hostKey, AuthorizedKeysPath: f.authKeys,
+		App: testApp{}, Logger: slog.New(slog.NewTextHandler(f.logs, nil)), Grace: time.Second}
+	if configure != nil {
+		configure(&cfg)
+	}
+	srv, err := New(cfg)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -59,8 +59,15 @@ type Config struct {
 	// AuthorizedKeysPath is the OpenSSH authorized-keys file whose
 	// comments name the users.
 	AuthorizedKeysPath string
-	// IdleTimeout closes a connection with no traffic for this long (0 = none).
+	// IdleTimeout closes a connection with no traffic for this long (0 = none),
+	// a connection stuck on its own flow control included.
 	IdleTimeout time.Duration
+	// WriteTimeout closes a connection whose client does not take the
+	// workbench's output for this long (0 = 30 s).
+	WriteTimeout time.Duration
+	// KeysPoll is how often the authorized-keys file is checked for changes
+	// besides each login and Reload (0 = 5 s, negative = never).
+	KeysPoll time.Duration
 	// MaxConnections caps concurrent connections (0 = 32).
 	MaxConnections int
 	// ShutdownMsg, if set, is sent to every running program at shutdown
@@ -90,9 +97,14 @@ type Server struct {
 
 	mu       sync.Mutex
 	active   int
-	programs map[*tea.Program]struct{}
+	programs map[*tea.Program]program
+	conns    map[ssh.Context]*liveConn
 	failures map[string]int // by remote host
 	closing  bool
+
+	revalMu  sync.Mutex // one revalidation at a time
+	stop     chan struct{}
+	stopOnce sync.Once
 }
 
 // New builds a server: loads or creates the host key, reads the authorized
@@ -113,11 +125,18 @@ func New(cfg Config) (*Server, error) {
 	if cfg.Grace <= 0 {
 		cfg.Grace = 5 * time.Second
 	}
+	if cfg.WriteTimeout <= 0 {
+		cfg.WriteTimeout = 30 * time.Second
+	}
+	if cfg.KeysPoll == 0 {
+		cfg.KeysPoll = 5 * time.Second
+	}
 	lg := cfg.Logger
 	if lg == nil {
 		lg = slog.New(slog.NewTextHandler(io.Discard, nil))
 	}
-	s := &Server{cfg: cfg, log: lg, programs: map[*tea.Program]struct{}{}, failures: map[string]int{}}
+	s := &Server{cfg: cfg, log: lg, programs: map[*tea.Program]program{}, conns: map[ssh.Context]*liveConn{},
+		failures: map[string]int{}, stop: make(chan struct{})}
 	signer, created, err := loadOrCreateHostKey(cfg.HostKeyPath)
 	if err != nil {
 		return nil, err
@@ -128,6 +147,7 @@ func New(cfg Config) (*Server, error) {
 	if err != nil {
 		return nil, err
 	}
+	s.keys.changed = func() { go s.revalidate() }
 	srv, err := wish.NewServer(
 		// The host key goes in first: without one, wish would write a new
 		// key into the working directory.
@@ -136,6 +156,7 @@ func New(cfg Config) (*Server, error) {
 		wish.WithVersion("junco"),
 		wish.WithPublicKeyAuth(s.publicKeyHandler),
 		wish.WithIdleTimeout(cfg.IdleTimeout),
+		s.connectionPolicy,
 		// Middlewares: the last listed runs first.
 		wish.WithMiddleware(
 			s.appMiddleware,     // 4. the workbench or an allowed command
@@ -173,8 +194,29 @@ func (s *Server) Users() []string { return s.keys.users() }
 // Reload re-reads the authorized-keys file now (for SIGHUP).
 func (s *Server) Reload() error { return s.keys.reload(true) }
 
+// connectionPolicy sets the callbacks every connection passes through:
+// key options at terminal and session requests, forwarding requests
+// refused, and the idle watchdog.
+func (s *Server) connectionPolicy(srv *ssh.Server) error {
+	srv.PtyCallback = s.ptyRequest
+	srv.SessionRequestCallback = s.sessionRequest
+	srv.ChannelHandlers = map[string]ssh.ChannelHandler{"session": s.sessionChannel}
+	if idle := s.cfg.IdleTimeout; idle > 0 {
+		srv.ConnCallback = func(ctx ssh.Context, c net.Conn) net.Conn {
+			return watchIdle(c, idle, func() {
+				s.log.Info("connection closed: idle", "remote", remoteHost(c.RemoteAddr()), "idle", idle.String())
+				s.cancelPrograms(ctx)
+			})
+		}
+	}
+	return nil
+}
+
 // Serve accepts connections on l until Shutdown or Close.
 func (s *Server) Serve(l net.Listener) error {
+	if s.cfg.KeysPoll > 0 {
+		go s.pollKeys(s.cfg.KeysPoll, s.stop)
+	}
 	err := s.ssh.Serve(l)
 	if errors.Is(err, ssh.ErrServerClosed) {
 		return nil
@@ -196,35 +238,9 @@ func (s *Server) ListenAndServe() error {
 func (s *Server) Shutdown(ctx context.Context) error {
 	s.mu.Lock()
 	s.closing = true
-	progs := make([]*tea.Program, 0, len(s.programs))
-	for p := range s.programs {
-		progs = append(progs, p)
-	}
 	s.mu.Unlock()
-	for _, p := range progs {
-		if s.cfg.ShutdownMsg != nil {
-			go p.Send(s.cfg.ShutdownMsg)
-		} else {
-			p.Quit()
-		}
-	}
-	deadline := time.Now().Add(s.cfg.Grace)
-	for time.Now().Before(deadline) {
-		s.mu.Lock()
-		n := len(s.programs)
-		s.mu.Unlock()
-		if n == 0 {
-			break
-		}
-		select {
-		case <-ctx.Done():
-			deadline = time.Now()
-		case <-time.After(20 * time.Millisecond):
-		}
-	}
-	for _, p := range progs {
-		p.Kill()
-	}
+	s.stopOnce.Do(func() { close(s.stop) })
+	s.stopPrograms(ctx, func(ssh.Context) bool { return true })
 	sctx, cancel := context.WithTimeout(ctx, time.Second)
 	defer cancel()
 	if err := s.ssh.Shutdown(sctx); err != nil && !errors.Is(err, ssh.ErrServerClosed) {
@@ -234,21 +250,19 @@ func (s *Server) Shutdown(ctx context.Context) error {
 }
 
 // Close stops the server at once.
-func (s *Server) Close() error { return s.ssh.Close() }
+func (s *Server) Close() error {
+	s.stopOnce.Do(func() { close(s.stop) })
+	return s.ssh.Close()
+}
 
 // publicKeyHandler admits a key only when the authorized-keys file lists
 // it and the login name equals the user its comment names. Failures are
 // logged with the key's fingerprint and slowed down per remote host.
 func (s *Server) publicKeyHandler(ctx ssh.Context, key ssh.PublicKey) bool {
 	host := remoteHost(ctx.RemoteAddr())
-	fp := gossh.FingerprintSHA256(key)
-	user, ok := s.keys.lookup(key)
-	switch {
-	case !ok:
-		s.fail(host, "unknown key", "login", ctx.User(), "key", fp)
-		return false
-	case user != ctx.User():
-		s.fail(host, "key belongs to another user", "login", ctx.User(), "key_user", user, "key", fp)
+	_ = s.keys.reload(false)
+	if _, err := s.authorise(ctx, key); err != nil {
+		s.fail(host, strings.TrimPrefix(err.Error(), errNotAuthorised.Error()+": "), "login", ctx.User(), "key", gossh.FingerprintSHA256(key))
 		return false
 	}
 	s.mu.Lock()
@@ -303,9 +317,16 @@ func (s *Server) authMiddleware(next ssh.Handler) ssh.Handler {
 			wish.Fatalln(sess, "junco: public-key authentication is required")
 			return
 		}
-		if user, ok := s.keys.lookup(key); !ok || user != sess.User() {
-			s.log.Warn("session refused: key no longer authorised for this user", "login", sess.User(), "key", gossh.FingerprintSHA256(key))
+		a, err := s.authorise(sess.Context(), key)
+		if err != nil {
+			s.log.Warn("session refused: "+err.Error(), "login", sess.User(), "key", gossh.FingerprintSHA256(key))
 			wish.Fatalln(sess, "junco: this key is not authorised for "+sess.User())
+			return
+		}
+		if args := sess.Command(); a.opts.command != nil && len(args) > 0 && args[0] == "scp" {
+			// The scp middleware would answer before the forced command.
+			s.log.Warn("scp refused: the key has a forced command", "user", a.user, "line", a.line)
+			wish.Fatalln(sess, "junco: this key runs one fixed command (command= in the authorized-keys file); no file transfer")
 			return
 		}
 		next(sess)
@@ -321,6 +342,7 @@ func (s *Server) limitMiddleware(next ssh.Handler) ssh.Handler {
 			if closing {
 				wish.Fatalln(sess, "junco: the server is shutting down")
 			} else {
+				s.log.Warn("connection refused: at the connection cap", "user", sess.User(), "remote", remoteHost(sess.RemoteAddr()), "max_conn", s.cfg.MaxConnections)
 				wish.Fatalln(sess, fmt.Sprintf("junco: the server is at its limit of %d connections; try again later", s.cfg.MaxConnections))
 			}
 			return
@@ -365,7 +387,17 @@ const commandHelp = "junco: over SSH you can open the workbench (ssh -t; `ssh -t
 func (s *Server) appMiddleware(next ssh.Handler) ssh.Handler {
 	return func(sess ssh.Session) {
 		defer next(sess)
+		a, err := s.authorise(sess.Context(), sess.PublicKey())
+		if err != nil {
+			wish.Fatalln(sess, "junco: this key is not authorised for "+sess.User())
+			return
+		}
 		args := sess.Command()
+		if a.opts.command != nil {
+			// A forced command (command= on the key's line) replaces what
+			// the client asked for, as in sshd.
+			args = a.opts.command
+		}
 		if (len(args) > 0 && !InteractiveCommand(args)) || sess.Subsystem() != "" {
 			if !AllowedCommand(args) {
 				fmt.Fprintln(sess.Stderr(), commandHelp)
@@ -377,6 +409,11 @@ func (s *Server) appMiddleware(next ssh.Handler) ssh.Handler {
 			return
 		}
 		pty, winCh, ok := sess.Pty()
+		if !ok && a.opts.noPTY {
+			fmt.Fprintln(sess, "junco: this key is for commands only (no-pty in the authorized-keys file): run e.g. `sessions list`")
+			_ = sess.Exit(1)
+			return
+		}
 		if !ok {
 			fmt.Fprintln(sess, "junco: the workbench needs a terminal: connect with `ssh -t`, or run `sessions list` as a command")
 			_ = sess.Exit(1)
@@ -395,43 +432,34 @@ func (s *Server) runProgram(sess ssh.Session, pty ssh.Pty, winCh <-chan ssh.Wind
 	r.SetHasDarkBackground(true)
 	ctx, cancel := context.WithCancel(sess.Context())
 	defer cancel()
-	model, err := s.cfg.App.Model(ctx, Conn{User: sess.User(), Renderer: r, Width: pty.Window.Width, Height: pty.Window.Height, Term: pty.Term, Environ: sess.Environ(), Args: args})
+	w, h := clampWindow(pty.Window.Width, pty.Window.Height)
+	model, err := s.cfg.App.Model(ctx, Conn{User: sess.User(), Renderer: r, Width: w, Height: h, Term: pty.Term, Environ: sess.Environ(), Args: args})
 	if err != nil {
 		fmt.Fprintf(sess.Stderr(), "junco: %v\n", err)
 		return 1
 	}
-	guarded := &guard{inner: model, user: sess.User(), log: s.log}
-	p := tea.NewProgram(guarded, tea.WithInput(sess), tea.WithOutput(sess), tea.WithoutSignalHandler(),
+	out := &outWriter{w: sess, ctx: ctx, timeout: s.cfg.WriteTimeout, stuck: func() {
+		s.log.Warn("connection closed: the client took no output", "user", sess.User(), "remote", remoteHost(sess.RemoteAddr()), "write_timeout", s.cfg.WriteTimeout.String())
+		cancel()
+		closeConnection(sess.Context())
+	}}
+	guarded := &guard{inner: model, user: sess.User(), log: s.log, ctx: ctx}
+	p := tea.NewProgram(guarded, tea.WithInput(sess), tea.WithOutput(out), tea.WithoutSignalHandler(),
 		tea.WithContext(ctx), tea.WithAltScreen())
 	s.mu.Lock()
-	s.programs[p] = struct{}{}
+	s.programs[p] = program{conn: sess.Context(), cancel: cancel}
 	s.mu.Unlock()
 	defer func() {
 		s.mu.Lock()
 		delete(s.programs, p)
 		s.mu.Unlock()
 	}()
-	go func() {
-		w, h := pty.Window.Width, pty.Window.Height
-		if w > 0 && h > 0 {
-			p.Send(tea.WindowSizeMsg{Width: w, Height: h})
-		}
-		for {
-			select {
-			case <-ctx.Done():
-				return
-			case win, ok := <-winCh:
-				if !ok {
-					return
-				}
-				if win.Width > 0 && win.Height > 0 {
-					p.Send(tea.WindowSizeMsg{Width: win.Width, Height: win.Height})
-				}
-			}
-		}
-	}()
+	forwardResizes(ctx, winCh, p, pty.Window)
 	_, err = p.Run()
 	p.Kill()
+	if s.revoked(sess.Context()) {
+		fmt.Fprintln(sess.Stderr(), "\r\njunco: this key is no longer authorised on the server; the connection is closed")
+	}
 	switch {
 	case guarded.panicked:
 		return 1
@@ -462,6 +490,7 @@ type guard struct {
 	inner    tea.Model
 	user     string
 	log      *slog.Logger
+	ctx      context.Context // the connection's: once it ends, nothing is drawn
 	panicked bool
 }
 
@@ -502,7 +531,7 @@ func (g *guard) Update(msg tea.Msg) (m tea.Model, cmd tea.Cmd) {
 		g.panicked = true
 		return g, tea.Quit
 	}
-	if g.panicked {
+	if g.panicked || g.ctx.Err() != nil {
 		return g, tea.Quit
 	}
 	defer func() {
@@ -518,6 +547,9 @@ func (g *guard) Update(msg tea.Msg) (m tea.Model, cmd tea.Cmd) {
 func (g *guard) View() (v string) {
 	if g.panicked {
 		return "junco: internal error; this connection is closing.\n"
+	}
+	if g.ctx.Err() != nil {
+		return ""
 	}
 	defer func() {
 		if r := recover(); r != nil {
