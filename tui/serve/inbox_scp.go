@@ -20,14 +20,9 @@ import (
 // confinement policy; folders (-r) are refused, a glob (`host:'*.csv'`)
 // matches the inbox's files.
 
-// inboxKey keeps the connection's inbox in its context for the handler.
-type inboxKey struct{}
-
 // scpMiddleware serves `scp -t` (upload) and `scp -f` (download) commands
 // from the user's inbox; anything else goes on to next.
 func (s *Server) scpMiddleware(next ssh.Handler) ssh.Handler {
-	h := inboxSCP{}
-	inner := scp.Middleware(h, h)(next)
 	return func(sess ssh.Session) {
 		args := sess.Command()
 		if len(args) == 0 || args[0] != "scp" {
@@ -44,21 +39,23 @@ func (s *Server) scpMiddleware(next ssh.Handler) ssh.Handler {
 			return
 		}
 		defer in.Close()
-		sess.Context().SetValue(inboxKey{}, in)
 		s.log.Info("scp", "user", sess.User(), "command", sess.RawCommand())
-		inner(sess)
+		// A handler of this session's own: the inbox is not shared through
+		// the connection's context, which other sessions of the same
+		// connection could read at the same time.
+		h := inboxSCP{in: in}
+		scp.Middleware(h, h)(next)(sess)
 	}
 }
 
-// inboxSCP is the scp handler on the session's inbox.
-type inboxSCP struct{}
+// inboxSCP is the scp handler on one session's inbox.
+type inboxSCP struct{ in *sessions.Inbox }
 
-func (inboxSCP) inbox(sess ssh.Session) (*sessions.Inbox, error) {
-	in, ok := sess.Context().Value(inboxKey{}).(*sessions.Inbox)
-	if !ok {
+func (h inboxSCP) inbox(ssh.Session) (*sessions.Inbox, error) {
+	if h.in == nil {
 		return nil, errors.New("file transfer is not served here")
 	}
-	return in, nil
+	return h.in, nil
 }
 
 // scpTarget is the name an upload is stored under: the file's own name
