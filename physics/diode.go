@@ -39,6 +39,10 @@ type Device struct {
 	// ShuntResistance is a resistance across the junction, ohm; 0 or +Inf
 	// means none. It applies whatever the Effects.
 	ShuntResistance float64
+	// Light illuminates the junction (the zero value: dark). Its
+	// photocurrent (JunctionPhotocurrent) is subtracted from the dark
+	// current at every bias, whatever the Effects.
+	Light Light
 	// PThickness and NThickness are the layer thicknesses from the
 	// metallurgical junction to the contacts used for a long region's
 	// series resistance and for punch-through, m; 0 assumes 300 um
@@ -125,6 +129,10 @@ type Static struct {
 	// PEff and NEff are the regions as the diffusion model with the effects
 	// sees them (majority density after ionisation, ni_eff).
 	PEff, NEff DiffusionSide
+	// Photo is the photocurrent under the Device's light by where its
+	// pairs were generated, and IL its total, A (zero in the dark).
+	Photo Photocurrent
+	IL    float64
 	// IsDiffN, IsDiffP and IsDiff are the low-injection diffusion
 	// saturation currents with band-gap narrowing and ionisation, A.
 	IsDiffN, IsDiffP, IsDiff float64
@@ -229,6 +237,13 @@ func (d Device) Prepare() (*Static, error) {
 	if err := s.prepareEffects(); err != nil {
 		return nil, err
 	}
+	if d.Light.Lit() {
+		pc, err := JunctionPhotocurrent(s.PEff.QuasiNeutral, s.NEff.QuasiNeutral, s.DepletionAt(0).W, d.Area, d.Light)
+		if err != nil {
+			return nil, err
+		}
+		s.Photo, s.IL = pc, pc.Total()
+	}
 	return s, nil
 }
 
@@ -294,6 +309,10 @@ type Point struct {
 	DiffusionN, DiffusionP, Diffusion float64
 	Recombination, Generation         float64
 	Shunt                             float64
+	// Photo is the photocurrent taken from the total, A (0 in the dark),
+	// so that Diffusion + Recombination + Generation + Shunt - Photo =
+	// Current. It is not multiplied by the avalanche.
+	Photo float64
 	// Mn, Mp and Mgen are the avalanche multiplication factors of electrons
 	// injected from the p side, holes from the n side and pairs generated
 	// in the depletion region (1 in forward bias or with Breakdown off).

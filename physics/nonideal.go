@@ -320,6 +320,7 @@ type jstate struct {
 	scr, gscr        float64 // depletion-region SRH current (A) and its derivative
 	mn, mp, mg       float64 // avalanche multiplication factors
 	sh               float64 // shunt current, A
+	ph               float64 // photocurrent, A (taken from the total)
 	i, g             float64 // total current and derivative
 	beyond           bool    // at or beyond breakdown
 }
@@ -410,7 +411,8 @@ func (s *Static) junction(vj float64) jstate {
 	if !math.IsInf(s.Rsh, 1) {
 		st.sh = vj / s.Rsh
 	}
-	st.i = st.mn*st.dn + st.mp*st.dp + st.mg*st.scr + st.sh
+	st.ph = s.IL
+	st.i = st.mn*st.dn + st.mp*st.dp + st.mg*st.scr + st.sh - st.ph
 	// dM/dVj = -dM/dVr.
 	st.g = st.mn*st.gdn + st.mp*st.gdp + st.mg*st.gscr - (dm[0]*st.dn + dm[1]*st.dp + dm[2]*st.scr)
 	if !math.IsInf(s.Rsh, 1) {
@@ -440,7 +442,8 @@ func (s *Static) SolveFrom(v, guess float64) Point {
 	p.IdealCurrent = s.Is * e
 	if !s.Effects.Any() && math.IsInf(s.Rsh, 1) {
 		p.Vj = v
-		p.Current = p.IdealCurrent
+		p.Photo = s.IL
+		p.Current = p.IdealCurrent - s.IL
 		p.DiffusionN, p.DiffusionP, p.Diffusion = p.IdealN, p.IdealP, p.IdealCurrent
 		p.Converged = true
 		p.Power = math.Abs(v * p.Current)
@@ -460,14 +463,14 @@ func (s *Static) SolveFrom(v, guess float64) Point {
 		}
 		if math.IsNaN(guess) {
 			guess = v
-			if v > 0 && s.IsDiff > 0 {
+			if v > 0 && s.IsDiff > 0 && s.IL == 0 {
 				guess = lambertGuess(s.IsDiff, rs, s.Vt, v)
 			}
 		}
 		var it int
 		var last jstate
 		lastX := math.NaN()
-		vj, it, p.Converged = solveJunction(v, rs, vmin, guess, func(x float64) (float64, float64) {
+		vj, it, p.Converged = solveJunction(v, rs, vmin, s.IL, guess, func(x float64) (float64, float64) {
 			last, lastX = s.junction(x), x
 			return last.i, last.g
 		})
@@ -484,7 +487,7 @@ func (s *Static) SolveFrom(v, guess float64) Point {
 			if !math.IsInf(s.Rsh, 1) {
 				gsh = 1 / s.Rsh
 			}
-			if den := st.i - st.sh; den != 0 && !math.IsInf(den, 0) {
+			if den := st.i - st.sh + st.ph; den != 0 && !math.IsInf(den, 0) {
 				k := 1 + (st.g-gsh)*dx/den
 				st.dn *= k
 				st.dp *= k
@@ -519,14 +522,15 @@ func (s *Static) SolveFrom(v, guess float64) Point {
 			p.Generation = scr
 		}
 		p.Shunt = st.sh
+		p.Photo = st.ph
 		p.Current = st.i
 		// Near breakdown or at high current the terminal form (V - Vj)/Rs
 		// is the accurate one (the junction current is then extremely
 		// sensitive to Vj); rescale the components to it.
 		if rs > 0 && math.Abs(v-vj) > 1e-6*math.Max(1, math.Abs(v)) {
 			it := (v - vj) / rs
-			if den := st.i - st.sh; den != 0 && !math.IsInf(den, 0) {
-				k := (it - st.sh) / den
+			if den := st.i - st.sh + st.ph; den != 0 && !math.IsInf(den, 0) {
+				k := (it - st.sh + st.ph) / den
 				p.DiffusionN *= k
 				p.DiffusionP *= k
 				p.Diffusion *= k

@@ -34,15 +34,17 @@ func lambertGuess(i0, rs, vt, v float64) float64 {
 }
 
 // solveJunction finds the junction voltage vj with vj + rs i(vj) = v for a
-// junction branch current i(vj) that is monotone increasing with i(0) = 0,
-// by Newton iteration safeguarded by bisection on a bracket that always
-// contains the root ([0, v] or [max(v, vmin), 0]), starting from guess.
+// junction branch current i(vj) = dark(vj) - il that is monotone increasing
+// with dark(0) = 0 and a bias-independent photocurrent il >= 0, by Newton
+// iteration safeguarded by bisection on a bracket that always contains the
+// root ([min(v, 0), max(v, 0) + rs il], cut below at vmin: at its upper end
+// i >= -il, at its lower end i <= -il <= 0), starting from guess.
 // jf returns the current and an estimate of its derivative. It returns the
 // root, the number of iterations and whether it converged within 200
 // steps. Bisection halves the bracket whenever Newton leaves it or meets a
 // non-finite value, so it converges for any rs >= 0 and any bias.
-func solveJunction(v, rs, vmin, guess float64, jf func(float64) (float64, float64)) (float64, int, bool) {
-	lo, hi := math.Min(v, 0), math.Max(v, 0)
+func solveJunction(v, rs, vmin, il, guess float64, jf func(float64) (float64, float64)) (float64, int, bool) {
+	lo, hi := math.Min(v, 0), math.Max(v, 0)+rs*il
 	if lo < vmin {
 		lo = vmin
 	}
