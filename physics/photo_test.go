@@ -7,7 +7,7 @@ import (
 )
 
 // collectedByFiniteDifference solves the minority-carrier diffusion
-// equation with generation, D p'' - p/tau + gen(x) = 0, on [0, h] by
+// equation with generation, D p” - p/tau + gen(x) = 0, on [0, h] by
 // second-order finite differences (an independent numerical solution of
 // the equation the closed forms solve), with p = 0 at the depletion edge
 // and D |p'| = S p at the other end, and returns the current density
