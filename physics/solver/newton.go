@@ -19,6 +19,9 @@ import (
 type state struct {
 	v               float64
 	psi, phin, phip []float64
+	// fix, when not nil, is a frozen ionised net doping per node (m^-3)
+	// that replaces the carrier-dependent occupation (high-frequency C-V).
+	fix []float64
 }
 
 func (s *Solver) newState(v float64) *state {
@@ -27,8 +30,25 @@ func (s *Solver) newState(v float64) *state {
 }
 
 func (st *state) clone() *state {
-	return &state{v: st.v, psi: append([]float64(nil), st.psi...),
+	c := &state{v: st.v, psi: append([]float64(nil), st.psi...),
 		phin: append([]float64(nil), st.phin...), phip: append([]float64(nil), st.phip...)}
+	if st.fix != nil {
+		c.fix = append([]float64(nil), st.fix...)
+	}
+	return c
+}
+
+// copyFrom copies src into st without allocating (same mesh).
+func (st *state) copyFrom(src *state) {
+	st.v = src.v
+	copy(st.psi, src.psi)
+	copy(st.phin, src.phin)
+	copy(st.phip, src.phip)
+	if src.fix == nil {
+		st.fix = nil
+	} else {
+		st.fix = append(st.fix[:0], src.fix...)
+	}
 }
 
 // applyContacts imposes the ohmic boundary values: charge neutrality and
@@ -258,10 +278,14 @@ func (s *Solver) assemble(st *state, w *work) float64 {
 	for i := 1; i < nn-1; i++ {
 		r := 3 * i
 		d := s.d[i]
-		f[r] += d * (p[i] - n[i] + s.c[i])
-		b.add(r, r, -d*(n[i]+p[i]))
-		b.add(r, r+1, d*n[i])
-		b.add(r, r+2, d*p[i])
+		// Ionised doping c(n, p): dc/dpsi = c_n n - c_p p, dc/dphin =
+		// -c_n n, dc/dphip = c_p p (n = n_ie e^(psi - phin), p = n_ie
+		// e^(phip + v - psi)).
+		c, cn, cp := s.ionised(i, st, n[i], p[i])
+		f[r] += d * (p[i] - n[i] + c)
+		b.add(r, r, -d*(n[i]+p[i]-cn*n[i]+cp*p[i]))
+		b.add(r, r+1, d*(n[i]-cn*n[i]))
+		b.add(r, r+2, d*(p[i]+cp*p[i]))
 		rr, rpsi, rn, rp := s.recombination(i, st, n[i], p[i])
 		f[r+1] -= d * rr
 		f[r+2] -= d * rr
@@ -538,9 +562,10 @@ func (s *Solver) poisson(st *state, w *work, tol float64, maxIter int) (iters in
 		res = 0
 		for i := 1; i < nn-1; i++ {
 			gl, gr := s.lam/s.h[i-1], s.lam/s.h[i]
-			fi := gr*(st.psi[i+1]-st.psi[i]) - gl*(st.psi[i]-st.psi[i-1]) + s.d[i]*(p[i]-n[i]+s.c[i])
+			ci, cn, cp := s.ionised(i, st, n[i], p[i])
+			fi := gr*(st.psi[i+1]-st.psi[i]) - gl*(st.psi[i]-st.psi[i-1]) + s.d[i]*(p[i]-n[i]+ci)
 			a[i], c[i] = gl, gr
-			b[i] = -gl - gr - s.d[i]*(n[i]+p[i])
+			b[i] = -gl - gr - s.d[i]*(n[i]+p[i]-cn*n[i]+cp*p[i])
 			d[i] = -fi
 			// |b| exceeds gl and gr (the diagonal dominates the stencil).
 			if r := math.Abs(fi) / -b[i]; r > res || r != r {

@@ -292,8 +292,8 @@ func (s *Solver) result(st *state, w *work, iters int, upd, res float64) *Result
 		r.Ev[i] = vt * (-(st.psi[i] - s.theta[i]) - lnv)
 		r.Efn[i] = -vt * st.phin[i]
 		r.Efp[i] = -vt * (st.phip[i] + st.v)
-		r.NetDoping[i] = s.c[i]
-		r.Charge[i] = physics.Q * (p[i] - n[i] + s.c[i])
+		r.NetDoping[i], _, _ = s.ionised(i, st, n[i], p[i])
+		r.Charge[i] = physics.Q * (p[i] - n[i] + r.NetDoping[i])
 		r.Recombination[i], _, _, _ = s.recombination(i, st, n[i], p[i])
 	}
 	r.Field, r.Jn, r.Jp = make([]float64, nn-1), make([]float64, nn-1), make([]float64, nn-1)
