@@ -16,6 +16,8 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"junco/physics/solver"
 )
 
 // Numeric profile bases: the doping the shapes of a NumericSpec are added
@@ -80,6 +82,7 @@ const (
 	FieldNumericFile    = "profile-file" // NumericSpec.File
 	FieldNumericSweep   = "sweep"        // the bias range of NumericIV
 	FieldNumericCV      = "cv"           // the bias range of NumericCV
+	FieldNumericCVMode  = "cv-mode"      // NumericSpec.CVMode
 )
 
 // Flag codes added by the numeric adapter (the solver's own codes, such as
@@ -175,6 +178,24 @@ type NumericSpec struct {
 	File *DepthProfile `json:"depth_profile,omitempty"`
 	// Nodes is the mesh node count (0 = automatic).
 	Nodes int `json:"nodes,omitempty"`
+	// CVMode is the small-signal assumption of the capacitance with
+	// incomplete ionisation: CVLowFrequency ("" means it; the dopant
+	// occupation follows the signal) or CVHighFrequency (frozen).
+	CVMode string `json:"cv_mode,omitempty"`
+}
+
+// C-V modes of a NumericSpec (the solver's CVMode labels).
+const (
+	CVLowFrequency  = "low-frequency"
+	CVHighFrequency = "high-frequency"
+)
+
+// solverCVMode returns the solver's mode for a validated CVMode.
+func solverCVMode(m string) solver.CVMode {
+	if m == CVHighFrequency {
+		return solver.CVHighFrequency
+	}
+	return solver.CVLowFrequency
 }
 
 // DopingShape is one dopant distribution of a NumericSpec, with depths
@@ -313,6 +334,10 @@ func (n NumericSpec) Validate() error {
 	if n.Nodes != 0 && (n.Nodes < minNumericNodes || n.Nodes > maxNumericNodes) {
 		add(FieldNumericNodes, strconv.Itoa(n.Nodes), fmt.Sprintf("0 (automatic) or %d to %d", minNumericNodes, maxNumericNodes),
 			"fewer nodes cannot resolve a depletion region; more only cost time")
+	}
+	if n.CVMode != "" && n.CVMode != CVLowFrequency && n.CVMode != CVHighFrequency {
+		add(FieldNumericCVMode, n.CVMode, fmt.Sprintf("%q (default) or %q", CVLowFrequency, CVHighFrequency),
+			"whether the dopant occupation follows the small signal")
 	}
 	if len(n.Shapes) > maxNumericShapes {
 		add("shapes", strconv.Itoa(len(n.Shapes)), fmt.Sprintf("at most %d", maxNumericShapes), "a profile is a sum of a few shapes")

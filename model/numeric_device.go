@@ -38,13 +38,13 @@ type NumericDevice struct {
 // options (node count; a refined depletion zone up to |vmin|, at least
 // 0.5 V, widened for the ionised fraction when ionisation is incomplete).
 //
-// Hooks. Incomplete ionisation (Effects.Ionisation): at each node the
-// dopants compensated by the other species are taken ionised and the
-// remainder follows the Fermi-Dirac occupation of a neutral region doped
-// with the net amount, physics.IonisedDensity with the level
-// physics.Material.EffectiveDopantLevel of the majority species at its
-// own concentration (the neutral-region approximation the solver asks
-// for: in a depletion region the true ionisation is more complete).
+// Hooks. Incomplete ionisation (Effects.Ionisation): the dopant
+// occupation follows the local carrier densities inside the solver,
+// Nd+ = Nd [1 - b n/(n + n1)] and alike for acceptors
+// (solver.DopantOccupation, with the level
+// physics.Material.EffectiveDopantLevel of each species at its own
+// concentration): neutral regions freeze out as in the analytic model,
+// while the dopants in a depletion region are fully ionised.
 // Band-gap narrowing (Effects.BGN): n_ie = ni exp(dEg/(2 kT)) with dEg =
 // physics.BandGapNarrowing of the node's total doping Nd + Na, split
 // equally between the bands by the solver (Slotboom & de Graaff 1976).
@@ -183,7 +183,11 @@ func BuildNumericDevice(spec Spec, num NumericSpec, vmin float64) (*NumericDevic
 	}
 	e := spec.Effects.Physics()
 	if e.Ionisation {
-		dev.Ionisation = ionisationHook(m, t, st.Device.DonorSpecies, st.Device.AcceptorSpecies)
+		occ, err := solver.DopantOccupation(m, t, st.Device.DonorSpecies, st.Device.AcceptorSpecies)
+		if err != nil {
+			return nil, err
+		}
+		dev.Occupation = occ
 	}
 	if e.BGN {
 		if hook, ok := narrowingHook(m, t, e.BGNModel); ok {
@@ -203,23 +207,11 @@ func BuildNumericDevice(spec Spec, num NumericSpec, vmin float64) (*NumericDevic
 	}
 	out.Device = dev
 	// The solver sizes its refined depletion zone from the chemical
-	// doping. With incomplete ionisation (fractions fa, fd) the depletion
-	// edges of a step at total voltage V = Vbi + VR lie at xp = sqrt(2 eps
-	// V NdI/(q NaI (NaI + NdI))) and xn alike (Sze & Ng 2007, eqs.
-	// 2.10-2.11 with the ionised densities), while the zone estimate uses
-	// Na, Nd: the zone covers both edges when its voltage is V times the
-	// larger of (fd/fa)(Na + Nd)/(fa Na + fd Nd) and (fa/fd)(Na +
-	// Nd)/(fa Na + fd Nd).
+	// doping, which is the depletion charge also with incomplete
+	// ionisation (the occupation follows the carriers, and the depletion
+	// region is fully ionised).
 	vr := math.Max(-vmin, 0.5)
-	if e.Ionisation {
-		fa, fd := st.NaIonised/pd.Na, st.NdIonised/pd.Nd
-		if fa > 0 && fd > 0 && (fa < 1 || fd < 1) {
-			k := (pd.Na + pd.Nd) / (fa*pd.Na + fd*pd.Nd)
-			scale := math.Max(1, k*math.Max(fd/fa, fa/fd))
-			vr = math.Min((st.Vbi+vr)*scale-st.Vbi, 1e5)
-		}
-	}
-	out.Options = solver.Options{Mesh: solver.MeshOptions{Nodes: num.Nodes, MaxReverseBias: vr}}
+	out.Options = solver.Options{Mesh: solver.MeshOptions{Nodes: num.Nodes, MaxReverseBias: vr}, CVMode: solverCVMode(num.CVMode)}
 	return out, nil
 }
 
@@ -282,25 +274,6 @@ func (s DopingShape) shape(length float64) solver.Shape {
 		return solver.Mirrored{Shape: sh, Surface: length}
 	}
 	return sh
-}
-
-// ionisationHook returns the solver's ionisation hook for the material at
-// temperature t (see BuildNumericDevice).
-func ionisationHook(m *physics.Material, t float64, donor, acceptor string) func(x, nd, na float64) (float64, float64) {
-	dd, _ := m.Dopant(donor)
-	da, _ := m.Dopant(acceptor)
-	nc, nv, ni := m.Nc(t), m.Nv(t), m.Ni(t)
-	return func(_, nd, na float64) (float64, float64) {
-		switch {
-		case nd > na:
-			_, ion := physics.IonisedDensity(nd-na, m.EffectiveDopantLevel(dd, nd), nc, ni, t)
-			return na + ion, na
-		case na > nd:
-			_, ion := physics.IonisedDensity(na-nd, m.EffectiveDopantLevel(da, na), nv, ni, t)
-			return nd, nd + ion
-		}
-		return nd, na
-	}
 }
 
 // narrowingHook returns the solver's effective-intrinsic-density hook, and

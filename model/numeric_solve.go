@@ -291,7 +291,9 @@ func Compare(analytic *Result, numeric *NumericResult) []Difference {
 
 // NumericJSON encodes a numeric result as one JSON object: every
 // NumericQuantities key (SI, null where not applicable),
-// "depletion_valid", "junctions_m" (the metallurgical junctions), "flags"
+// "depletion_valid", "cv_mode" (the capacitance's small-signal
+// assumption, CVLowFrequency or CVHighFrequency), "junctions_m" (the
+// metallurgical junctions), "flags"
 // (code, message), and, when analytic is not nil, "analytic" (the
 // compared quantities under their `junco calc` keys) and "difference"
 // (the relative differences of Compare).
@@ -302,6 +304,7 @@ func NumericJSON(r *NumericResult, analytic *Result) []byte {
 		fmt.Fprintf(&b, "  %q: %s,\n", q.Key, jsonNumber(q.Value))
 	}
 	fmt.Fprintf(&b, "  \"depletion_valid\": %t,\n", r.Solution.Depletion.Valid)
+	fmt.Fprintf(&b, "  \"cv_mode\": %q,\n", r.Device.Options.CVMode.String())
 	b.WriteString("  \"junctions_m\": [")
 	for i, x := range r.Junctions {
 		if i > 0 {

@@ -173,6 +173,10 @@ type NumericCVResult struct {
 	BuiltInPotential float64          // equilibrium barrier, V
 	Points           []NumericCVPoint // the points finished, in sweep order
 	Flags            []physics.Flag   // distinct flags of the device
+	// Mode is CVLowFrequency (the dopant occupation follows the signal)
+	// or CVHighFrequency (frozen); the two agree with complete
+	// ionisation.
+	Mode string
 }
 
 // NumericCV computes the quasi-static depletion capacitance at each bias
@@ -187,7 +191,8 @@ func NumericCV(ctx context.Context, spec Spec, num NumericSpec, r Range, progres
 		return nil, err
 	}
 	vs, vmin, nd, s, vbi := sw.vs, sw.vmin, sw.nd, sw.s, sw.vbi
-	out := &NumericCVResult{Spec: spec, Device: nd, Range: r, Requested: len(vs), Nodes: len(s.Nodes()), BuiltInPotential: vbi}
+	out := &NumericCVResult{Spec: spec, Device: nd, Range: r, Requested: len(vs), Nodes: len(s.Nodes()), BuiltInPotential: vbi,
+		Mode: nd.Options.CVMode.String()}
 	var fs flagSet
 	fs.add(nd.Flags...)
 	fs.add(breakdownFlags(nd.Static, vmin)...)
@@ -339,24 +344,31 @@ func (r *NumericIVResult) JSON() []byte {
 		rows[i] = []float64{p.Bias, p.Current, p.CurrentDensity, p.AnalyticCurrent, relDiff(p.Current, p.AnalyticCurrent),
 			p.Barrier, p.DepletionWidth, p.PeakField, float64(p.Iterations), p.CurrentSpread}
 	}
-	return sweepJSON(r.Nodes, r.BuiltInPotential, r.Requested, strings.Split(NumericIVCSVHeader, ","), rows, r.Flags)
+	return sweepJSON(r.Nodes, r.BuiltInPotential, r.Requested, "", strings.Split(NumericIVCSVHeader, ","), rows, r.Flags)
 }
 
 // JSON encodes a numeric C-V sweep like NumericIVResult.JSON, with the
-// columns of WriteNumericCVCSV.
+// columns of WriteNumericCVCSV and "cv_mode" (CVLowFrequency or
+// CVHighFrequency).
 func (r *NumericCVResult) JSON() []byte {
 	rows := make([][]float64, len(r.Points))
 	for i, p := range r.Points {
 		rows[i] = []float64{p.Bias, p.Capacitance, p.CapacitancePerArea, p.AnalyticCapacitance, relDiff(p.Capacitance, p.AnalyticCapacitance),
 			p.DepletionWidth, p.AnalyticDepletionWidth, p.Charge, p.Current}
 	}
-	return sweepJSON(r.Nodes, r.BuiltInPotential, r.Requested, strings.Split(NumericCVCSVHeader, ","), rows, r.Flags)
+	return sweepJSON(r.Nodes, r.BuiltInPotential, r.Requested, r.Mode, strings.Split(NumericCVCSVHeader, ","), rows, r.Flags)
 }
 
-func sweepJSON(nodes int, vbi float64, requested int, keys []string, rows [][]float64, flags []physics.Flag) []byte {
+// sweepJSON writes a sweep; mode, when not empty, is written as
+// "cv_mode".
+func sweepJSON(nodes int, vbi float64, requested int, mode string, keys []string, rows [][]float64, flags []physics.Flag) []byte {
 	var b bytes.Buffer
-	fmt.Fprintf(&b, "{\n  \"nodes\": %d,\n  \"built_in_potential_V\": %s,\n  \"requested_points\": %d,\n  \"complete\": %t,\n  \"points\": [",
+	fmt.Fprintf(&b, "{\n  \"nodes\": %d,\n  \"built_in_potential_V\": %s,\n  \"requested_points\": %d,\n  \"complete\": %t,\n",
 		nodes, jsonNumber(vbi), requested, len(rows) == requested)
+	if mode != "" {
+		fmt.Fprintf(&b, "  \"cv_mode\": %q,\n", mode)
+	}
+	b.WriteString("  \"points\": [")
 	for i, row := range rows {
 		if i > 0 {
 			b.WriteString(",")
