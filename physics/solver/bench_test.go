@@ -7,7 +7,7 @@ import (
 )
 
 // benchDevice is a silicon 1e16/1e15 cm^-3 step diode, 10 + 20 um.
-func benchDevice(b *testing.B) Device {
+func benchDevice(b testing.TB) Device {
 	return stepDiode(material(b, "si"), 300, 1e16*cm3, 1e15*cm3, 10*um, 20*um)
 }
 
@@ -97,6 +97,31 @@ func BenchmarkNewtonStep(b *testing.B) {
 				w.band.solve(w.dlt)
 			}
 			b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(n), "ns/node")
+		})
+	}
+}
+
+// A 41-point forward sweep 0 to 0.8 V in 20 mV steps on 1k to 16k nodes
+// (the automatic spacing scaled): the ns/node/point metric must stay flat
+// (linear cost, including the final polishing of the carriers).
+func BenchmarkSweepNodes(b *testing.B) {
+	biases := make([]float64, 41)
+	for i := range biases {
+		biases[i] = 0.02 * float64(i)
+	}
+	for _, n := range []int{1000, 2000, 4000, 8000, 16000} {
+		b.Run(fmt.Sprintf("nodes=%d", n), func(b *testing.B) {
+			s := newSolver(b, benchDevice(b), Options{Mesh: MeshOptions{Nodes: n}})
+			if _, err := s.Equilibrium(); err != nil {
+				b.Fatal(err)
+			}
+			b.ResetTimer()
+			for range b.N {
+				if _, err := s.Sweep(context.Background(), biases, nil); err != nil {
+					b.Fatal(err)
+				}
+			}
+			b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(n*len(biases)), "ns/node/point")
 		})
 	}
 }

@@ -60,9 +60,12 @@
 // above 1e-2 kT/q after 12 iterations) is halved; below
 // Options.MinBiasStep a *ConvergenceError reports the bias, the last
 // converged bias, iterations, update and residual. After
-// convergence a few decoupled continuity steps with psi frozen polish the
-// quasi-Fermi potentials until the total current is constant along the
-// device to 1e-11 relative (Result.CurrentSpread reports it).
+// convergence, when Jn + Jp varies along the device by more than ten
+// times max(1e-11, 20 N eps) relative (N nodes, eps the double-precision
+// epsilon: the rounding floor of the discrete current grows with N), up
+// to six decoupled continuity steps with psi frozen polish the
+// quasi-Fermi potentials, stopping at that target or when a step no
+// longer halves the spread (Result.CurrentSpread reports it).
 //
 // # Contacts
 //
