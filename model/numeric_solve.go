@@ -197,8 +197,9 @@ func frame(sol *solver.Result) (xj, orient float64, ia int) {
 // NumericQuantities returns the numeric result as quantities under the
 // JSON keys of `junco calc` where they mean the same (SI values): bias,
 // built-in potential (equilibrium electrostatic barrier), barrier at the
-// bias, depletion width and its parts (half-density edges,
-// solver.Depletion), peak field, capacitance (also per area), current
+// bias, depletion width and its parts (space-charge edges,
+// solver.Depletion), peak field (numericPeakField) and the largest field
+// of the solution (solver.Result.PeakField), capacitance (also per area), current
 // (also density), the minority/majority ratio at the depletion edges, the
 // lengths, node count, Newton iterations of the last bias step and the
 // current-conservation error max|Jn + Jp - J|/|J|.
@@ -222,7 +223,8 @@ func NumericQuantities(r *NumericResult) []Quantity {
 		{"depletion_width_m", g, "depletion width", "W", Length, w, nil},
 		{"depletion_width_n_m", g, "  into n side", "xn", Length, xn, nil},
 		{"depletion_width_p_m", g, "  into p side", "xp", Length, xp, nil},
-		{"peak_field_V_per_m", g, "peak field", "Emax", Field, sol.PeakField, nil},
+		{"peak_field_V_per_m", g, "peak field", "Emax", Field, numericPeakField(sol), nil},
+		{"peak_field_total_V_per_m", g, "  largest field incl. junction dipole", "Emax,tot", Field, sol.PeakField, nil},
 		{"junction_capacitance_F", GroupCapacitance, "depletion capacitance", "Cj", Capacitance, r.Capacitance, nil},
 		{"junction_capacitance_per_area_F_per_m2", GroupCapacitance, "  per area", "Cj/A", CapacitancePerArea, r.CapacitancePerArea, nil},
 		{"current_A", GroupCurrents, "total current at bias", "I", Current, r.Current, nil},
@@ -235,6 +237,18 @@ func NumericQuantities(r *NumericResult) []Quantity {
 		{"newton_iterations", GroupNumeric, "Newton iterations (last bias step)", "it", Dimensionless, float64(sol.Iterations), nil},
 		{"current_conservation_error", GroupNumeric, "current conservation error", "dJ/J", Dimensionless, sol.CurrentSpread, nil},
 	}
+}
+
+// numericPeakField returns the peak field that compares with the analytic
+// one, V/m: the field of the depletion charge (solver.Depletion.Field,
+// Gauss's law), which leaves out the majority-carrier dipole an ideally
+// abrupt asymmetric step holds within a Debye length of its heavy side;
+// the largest field of the solution when no region is depleted.
+func numericPeakField(sol *solver.Result) float64 {
+	if sol.Depletion.Valid {
+		return sol.Depletion.Field
+	}
+	return sol.PeakField
 }
 
 // GroupNumeric is the display group of the numeric solution's own

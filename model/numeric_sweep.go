@@ -43,7 +43,8 @@ type NumericIVPoint struct {
 	// Barrier is the electrostatic barrier Vbi - V, V.
 	Barrier float64
 	// DepletionWidth (m, NaN when no region is depleted) and PeakField
-	// (V/m) describe the junction.
+	// (V/m, numericPeakField: the field of the depletion charge) describe
+	// the junction.
 	DepletionWidth, PeakField float64
 	// Iterations is the Newton iteration count of the last step and
 	// CurrentSpread the current-conservation error.
@@ -137,7 +138,7 @@ func NumericIV(ctx context.Context, spec Spec, num NumericSpec, r Range, progres
 			w = x.Depletion.W
 		}
 		out.Points = append(out.Points, NumericIVPoint{Bias: x.Bias, Current: x.Current * spec.Area, CurrentDensity: x.Current,
-			AnalyticCurrent: analytic[i], Barrier: x.Barrier, DepletionWidth: w, PeakField: x.PeakField,
+			AnalyticCurrent: analytic[i], Barrier: x.Barrier, DepletionWidth: w, PeakField: numericPeakField(x),
 			Iterations: x.Iterations, CurrentSpread: x.CurrentSpread})
 		fs.addPoint(x.Flags...)
 	}
@@ -155,7 +156,7 @@ type NumericCVPoint struct {
 	// the same bias, F (NaN at or above the built-in potential).
 	AnalyticCapacitance float64
 	// DepletionWidth and AnalyticDepletionWidth are the numeric
-	// (half-density) and depletion-approximation widths, m.
+	// (space-charge, solver.Depletion) and depletion-approximation widths, m.
 	DepletionWidth, AnalyticDepletionWidth float64
 	// Charge is the dipole charge per area, C/m^2; Current the terminal
 	// current, A.

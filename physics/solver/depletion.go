@@ -141,6 +141,7 @@ func (s *Solver) depletion(st *state, n, p []float64) Depletion {
 		return dep
 	}
 	dep.Valid = true
+	dep.Field = physics.Q * math.Min(qL, qR) / s.eps
 	if s.anodeLeft {
 		dep.XAnode, dep.XCathode = xl, xh
 	} else {
