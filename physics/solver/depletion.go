@@ -22,20 +22,10 @@ func (s *Solver) sideCharge(st *state, n, p []float64, m, dir int, sigma float64
 	}
 	nn := len(s.x)
 	// The junction node's part on this side.
-	c, _, _ := s.ionised(m, st, n[m], p[m])
-	lo, hi := s.x[m], s.x[m]
-	if m > 0 {
-		lo = s.xm[m-1]
-	}
-	if m < nn-1 {
-		hi = s.xm[m]
-	}
-	leftLen, leftDop := s.jPart, s.jPartDoping // [lo, xj]
-	var part, dop float64
-	if dir < 0 {
-		part, dop = leftLen, leftDop
-	} else {
-		part, dop = hi-lo-leftLen, c*(hi-lo)-leftDop
+	leftDop, rightDop := s.junctionSplit(st, n[m], p[m])
+	part, dop := s.jPart, leftDop // [xm[m-1], xj]
+	if dir > 0 {
+		part, dop = s.d[m]-s.jPart, rightDop
 	}
 	if part > 0 {
 		sd := sigma * dop

@@ -206,7 +206,8 @@ type Solver struct {
 	jNode       int     // node nearest the main metallurgical junction
 	xj          float64 // the main metallurgical junction, m
 	jPart       float64 // length from the left edge midpoint of jNode's box to xj, m
-	jPartDoping float64 // ionised net doping integrated over that length, m^-2
+	jPartNd     float64 // donors integrated over that length, m^-2
+	jPartNa     float64 // acceptors integrated over that length, m^-2
 	zones       []zone
 	meshCapped  int // nodes the automatic mesh wanted when MaxNodes capped it
 	flags       []physics.Flag
@@ -550,23 +551,14 @@ func (s *Solver) setupNodes() error {
 		s.jEdge = s.jNode
 		s.xj = xj
 		// Part of the node's box between its left edge midpoint and the
-		// junction, and its ionised net doping (profile integral scaled by
-		// the node's ionised fraction), for the field at the junction.
+		// junction, and its chemical dopant counts, for the field at the
+		// junction and the split of the node's charge between the sides.
 		m = s.jNode
 		a := s.xm[m-1]
 		s.jPart = math.Max(xj-a, 0)
 		if s.jPart > 0 {
 			nd, na := boxAverage(dev.Profile, knots, a, xj)
-			fd, fa := 1.0, 1.0
-			// With carrier-dependent occupation the dopants next to the
-			// junction are fully ionised (depleted).
-			if s.nd[m] > 0 && s.occ == nil {
-				fd = s.ndi[m] / s.nd[m]
-			}
-			if s.na[m] > 0 && s.occ == nil {
-				fa = s.nai[m] / s.na[m]
-			}
-			s.jPartDoping = (fd*nd - fa*na) * s.jPart
+			s.jPartNd, s.jPartNa = nd*s.jPart, na*s.jPart
 		}
 	}
 	return nil

@@ -158,7 +158,40 @@ func (s *Solver) junctionField(st *state, n, p float64) float64 {
 	}
 	k := s.jNode - 1
 	e := -(st.psi[k+1] - st.psi[k]) * s.vt / s.h[k]
-	return e + physics.Q/s.eps*(s.jPartDoping+(p-n)*s.jPart)
+	left, _ := s.junctionSplit(st, n, p)
+	return e + physics.Q/s.eps*(left+(p-n)*s.jPart)
+}
+
+// junctionSplit returns the ionised net doping (m^-2) of the junction
+// node's box left and right of the metallurgical junction: the profile's
+// dopant counts of each part times the node's ionised fractions (from
+// its carriers n, p with Device.Occupation, else the node's fixed ones).
+func (s *Solver) junctionSplit(st *state, n, p float64) (left, right float64) {
+	m := s.jNode
+	fd, fa := 1.0, 1.0
+	switch {
+	case st != nil && st.fix != nil:
+		// Frozen occupation: scale the node's frozen net doping.
+		chem := s.nd[m] - s.na[m]
+		if chem != 0 {
+			fd = st.fix[m] / chem
+			fa = fd
+		}
+	case s.occ != nil:
+		o := s.occ[m]
+		fd, _ = occupied(n, o.DonorN1, o.DonorBound)
+		fa, _ = occupied(p, o.AcceptorP1, o.AcceptorBound)
+	default:
+		if s.nd[m] > 0 {
+			fd = s.ndi[m] / s.nd[m]
+		}
+		if s.na[m] > 0 {
+			fa = s.nai[m] / s.na[m]
+		}
+	}
+	left = fd*s.jPartNd - fa*s.jPartNa
+	right = fd*(s.nd[m]*s.d[m]-s.jPartNd) - fa*(s.na[m]*s.d[m]-s.jPartNa)
+	return left, right
 }
 
 // junctionCharge returns the charge per area between edge k and the
