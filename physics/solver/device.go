@@ -198,19 +198,19 @@ type Solver struct {
 	augN, augP, brad   float64
 	srh                bool
 
-	anodeLeft   bool
-	ia, ic      int     // anode and cathode node indices
-	psiA, psiC  float64 // equilibrium contact potentials, kT/q
-	junctions   []float64
-	jEdge       int     // -1 when the profile has no junction
-	jNode       int     // node nearest the main metallurgical junction
-	xj          float64 // the main metallurgical junction, m
-	jPart       float64 // length from the left edge midpoint of jNode's box to xj, m
-	jPartNd     float64 // donors integrated over that length, m^-2
-	jPartNa     float64 // acceptors integrated over that length, m^-2
-	zones       []zone
-	meshCapped  int // nodes the automatic mesh wanted when MaxNodes capped it
-	flags       []physics.Flag
+	anodeLeft  bool
+	ia, ic     int     // anode and cathode node indices
+	psiA, psiC float64 // equilibrium contact potentials, kT/q
+	junctions  []float64
+	jEdge      int     // -1 when the profile has no junction
+	jNode      int     // node nearest the main metallurgical junction
+	xj         float64 // the main metallurgical junction, m
+	jPart      float64 // length from the left edge midpoint of jNode's box to xj, m
+	jPartNd    float64 // donors integrated over that length, m^-2
+	jPartNa    float64 // acceptors integrated over that length, m^-2
+	zones      []zone
+	meshCapped int // nodes the automatic mesh wanted when MaxNodes capped it
+	flags      []physics.Flag
 
 	eqOnce sync.Once
 	eq     *state
