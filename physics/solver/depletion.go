@@ -11,8 +11,10 @@ import (
 // side's net doping: q^-1 int max(0, sigma N - majority) dx, box by box
 // (the junction node's box is split at xj with the profile's doping),
 // from the junction to the first quasi-neutral node or stop (m). It
-// returns the charge (m^-2) and, for the edge search, the dopant count of
-// each box in the walking order with its span.
+// returns the charge (m^-2) and, for the edge search, the chemical dopant
+// count of each box in the walking order with its span (the edge is that
+// of a fully ionised layer holding the charge, so that eps/W is the
+// depletion capacitance also with incomplete ionisation).
 func (s *Solver) sideCharge(st *state, n, p []float64, m, dir int, sigma float64, stop float64) (q float64, boxes []depBox) {
 	maj := func(i int) float64 {
 		if sigma > 0 {
@@ -30,8 +32,12 @@ func (s *Solver) sideCharge(st *state, n, p []float64, m, dir int, sigma float64
 	if part > 0 {
 		sd := sigma * dop
 		q += math.Max(0, sd-maj(m)*part)
+		chem := s.jPartNd - s.jPartNa
+		if dir > 0 {
+			chem = (s.nd[m]-s.na[m])*s.d[m] - chem
+		}
 		a, b := s.xj, s.xj+float64(dir)*part
-		boxes = append(boxes, depBox{from: a, to: b, dopant: math.Max(sd, 0), node: m})
+		boxes = append(boxes, depBox{from: a, to: b, dopant: math.Max(sigma*chem, 0), node: m})
 	}
 	for i := m + dir; i >= 0 && i < nn; i += dir {
 		if (dir > 0 && s.x[i] > stop) || (dir < 0 && s.x[i] < stop) {
@@ -55,7 +61,7 @@ func (s *Solver) sideCharge(st *state, n, p []float64, m, dir int, sigma float64
 		if dir < 0 {
 			a, b = b, a
 		}
-		boxes = append(boxes, depBox{from: a, to: b, dopant: math.Max(sd, 0), node: i})
+		boxes = append(boxes, depBox{from: a, to: b, dopant: math.Max(sigma*(s.nd[i]-s.na[i])*s.d[i], 0), node: i})
 	}
 	return q, boxes
 }
@@ -70,7 +76,7 @@ const neutralStop = 1e-3
 // depBox is one control volume on the walk away from the junction.
 type depBox struct {
 	from, to float64 // entry and exit positions, m
-	dopant   float64 // sigma N integrated over the box, m^-2 (>= 0)
+	dopant   float64 // sigma (Nd - Na) (chemical) integrated over the box, m^-2 (>= 0)
 	node     int
 }
 

@@ -88,9 +88,9 @@ type Result struct {
 // charge of each side of the metallurgical junction xj, counting the
 // ionised doping and that side's majority carriers (the other carrier is
 // the minority there: injected, or spilled over from the other side's
-// Debye tail), Q = q int max(0, |N| - majority) dx, is placed as a fully
-// depleted layer against xj: the edge is where the dopant count from xj
-// reaches Q/q. For a step junction in reverse bias this is the
+// Debye tail), Q = q int max(0, |N| - majority) dx (N the ionised net
+// doping), is placed as a fully depleted and fully ionised layer against
+// xj: the edge is where the chemical dopant count from xj reaches Q/q. For a step junction in reverse bias this is the
 // depletion-approximation edge with Vbi - V - 2kT/q (one kT/q per side,
 // from the Poisson-Boltzmann first integral E^2 = (2 q N/eps)(V - kT/q
 // (1 - e^(-qV/kT))) of each side; Sze & Ng 2007, section 2.2). Unlike a
