@@ -200,7 +200,7 @@ func frame(sol *solver.Result) (xj, orient float64, ia int) {
 // bias, depletion width and its parts (space-charge edges,
 // solver.Depletion), peak field (numericPeakField) and the largest field
 // of the solution (solver.Result.PeakField), capacitance (also per area), current
-// (also density), the minority/majority ratio at the depletion edges, the
+// (also density), the minority/majority ratio at the quasi-neutral edges, the
 // lengths, node count, Newton iterations of the last bias step and the
 // current-conservation error max|Jn + Jp - J|/|J|.
 func NumericQuantities(r *NumericResult) []Quantity {
@@ -229,7 +229,7 @@ func NumericQuantities(r *NumericResult) []Quantity {
 		{"junction_capacitance_per_area_F_per_m2", GroupCapacitance, "  per area", "Cj/A", CapacitancePerArea, r.CapacitancePerArea, nil},
 		{"current_A", GroupCurrents, "total current at bias", "I", Current, r.Current, nil},
 		{"current_density_A_per_m2", GroupCurrents, "  density", "J", CurrentDensity, r.CurrentDensity, nil},
-		{"minority_injection_ratio", GroupCurrents, "minority/majority at depletion edges", "inj", Dimensionless, d.MinorityRatio, nil},
+		{"minority_injection_ratio", GroupCurrents, "minority/majority at quasi-neutral edges", "inj", Dimensionless, d.MinorityRatio, nil},
 		{"p_length_m", GroupNumeric, "p region length", "Lp,dev", Length, pl, nil},
 		{"n_length_m", GroupNumeric, "n region length", "Ln,dev", Length, nl, nil},
 		{"device_length_m", GroupNumeric, "device length", "L", Length, r.Device.Length, nil},

@@ -424,7 +424,7 @@ func FuzzParseDepthProfile(f *testing.F) {
 
 // Bad numeric inputs give one FieldError per bad field, naming it.
 func TestNumericSpecValidate(t *testing.T) {
-	n := NumericSpec{Nodes: 5, PLength: -1, Base: "oxide", Shapes: []DopingShape{
+	n := NumericSpec{Nodes: 5, PLength: -1, Base: "oxide", CVMode: "medium-frequency", Shapes: []DopingShape{
 		{Kind: ShapeGaussian, Species: SpeciesAcceptor, Dose: 1e30, Range: 0.1 * um, Straggle: 0},
 		{Kind: "wedge", Species: "boron"},
 		{Kind: ShapeUniform, Species: SpeciesDonor, Concentration: 1e16 * perCm3, From: 2 * um, To: 1 * um, Face: "top"},
@@ -436,7 +436,7 @@ func TestNumericSpecValidate(t *testing.T) {
 	if !errors.As(err, &ve) {
 		t.Fatalf("Validate: %v", err)
 	}
-	for _, f := range []string{FieldNumericNodes, FieldNumericPLength, FieldNumericBase, "shape[0].dose", "shape[0].straggle",
+	for _, f := range []string{FieldNumericNodes, FieldNumericPLength, FieldNumericBase, FieldNumericCVMode, "shape[0].dose", "shape[0].straggle",
 		"shape[1].kind", "shape[1].species", "shape[2].to", "shape[2].face", "shape[3].gradient", "shape[4].diffusion-length", "profile-file.net"} {
 		fe, ok := ve.For(f)
 		if !ok {

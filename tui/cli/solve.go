@@ -517,7 +517,7 @@ func writeComparison(w io.Writer, r *model.NumericResult, a *model.Result, ascii
 	labels := map[string]string{
 		"barrier_V": "electrostatic barrier at bias", "depletion_width_n_m": "depletion width into n side",
 		"depletion_width_p_m": "depletion width into p side", "current_density_A_per_m2": "current density",
-		"minority_injection_ratio": "minority/majority at depletion edges", "nodes": "mesh nodes",
+		"minority_injection_ratio": "minority/majority at quasi-neutral edges", "nodes": "mesh nodes",
 		"newton_iterations": "Newton iterations (last bias step)", "current_conservation_error": "current conservation error",
 	}
 	for _, q := range model.NumericQuantities(r) {
