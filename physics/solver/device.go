@@ -35,10 +35,9 @@ type Device struct {
 	TauN, TauP float64
 	// Ionisation, if set, returns the ionised donor and acceptor densities
 	// (m^-3) at position x for the chemical densities nd, na (box averages
-	// over the node's cell). nil means complete ionisation. This is where
-	// an incomplete-ionisation model plugs in (evaluated once per node
-	// from the doping; a carrier-dependent model would need its
-	// derivatives in the Jacobian).
+	// over the node's cell). nil means complete ionisation. It is
+	// evaluated once per node from the doping and fixed: it cannot tell a
+	// depletion region from a neutral one (use Occupation for that).
 	Ionisation func(x, nd, na float64) (ndIonised, naIonised float64)
 	// Occupation, if set, returns the dopant levels at position x for the
 	// chemical densities nd, na (box averages): the ionised densities then
@@ -568,7 +567,7 @@ func (s *Solver) setupNodes() error {
 // temperature and degeneracy).
 const (
 	// FlagHighInjection: a minority density exceeds 10 % of the majority
-	// density at a depletion edge; low-injection formulas do not apply.
+	// density at a quasi-neutral edge; low-injection formulas do not apply.
 	FlagHighInjection = "high-injection"
 	// FlagNoDepletion: no depleted region was found (forward bias near or
 	// beyond flat band, or high injection).

@@ -295,11 +295,11 @@ func (s *Solver) result(st *state, w *work, iters int, upd, res float64) *Result
 	switch {
 	case !d.Valid:
 		r.Flags = append(r.Flags, physics.Flag{Code: FlagNoDepletion, Quantities: []string{"depletion width"},
-			Message: fmt.Sprintf("no depleted region (n + p < |N|/2) at %.4g V", r.Bias)})
+			Message: fmt.Sprintf("no depleted region (the space charge of a side is below a Debye length of doping) at %.4g V", r.Bias)})
 	default:
 		if d.MinorityRatio > 0.1 {
 			r.Flags = append(r.Flags, physics.Flag{Code: FlagHighInjection, Quantities: []string{"current"},
-				Message: fmt.Sprintf("minority density %.3g of the majority density at a depletion edge: low-injection formulas do not apply", d.MinorityRatio)})
+				Message: fmt.Sprintf("minority density %.3g of the majority density at a quasi-neutral edge: low-injection formulas do not apply", d.MinorityRatio)})
 		}
 		if d.ReachThrough {
 			r.Flags = append(r.Flags, physics.Flag{Code: FlagReachThrough, Quantities: []string{"depletion width", "capacitance"},
