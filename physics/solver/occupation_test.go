@@ -175,3 +175,37 @@ func TestOccupationErrors(t *testing.T) {
 		t.Errorf("bad CV mode: %v", err)
 	}
 }
+
+// The derivatives of the ionised doping that enter the Newton Jacobian
+// equal central finite differences of the occupation formula (an
+// identity check of dNd+/dn and dNa-/dp), at densities below, near and
+// above the levels n1 and p1.
+func TestOccupationDerivatives(t *testing.T) {
+	d := occupationDiode(t, "4h-sic", 300, 1e18*cm3, 1e18*cm3, 1*um, 1*um)
+	s := newSolver(t, d, Options{Mesh: MeshOptions{Nodes: 50}})
+	for _, i := range []int{1, 48} { // one species per node: no cancellation in the difference
+		o := s.occ[i]
+		for _, f := range []float64{1e-3, 0.5, 1, 3, 1e3} {
+			for _, carrier := range []string{"n", "p"} {
+				n, p := f*o.DonorN1, f*o.AcceptorP1
+				_, cn, cp := s.ionised(i, nil, n, p)
+				var num, ana float64
+				if carrier == "n" {
+					h := 1e-6 * n
+					c1, _, _ := s.ionised(i, nil, n+h, p)
+					c0, _, _ := s.ionised(i, nil, n-h, p)
+					num, ana = (c1-c0)/(2*h), cn
+				} else {
+					h := 1e-6 * p
+					c1, _, _ := s.ionised(i, nil, n, p+h)
+					c0, _, _ := s.ionised(i, nil, n, p-h)
+					num, ana = (c1-c0)/(2*h), cp
+				}
+				scale := math.Max(math.Abs(num), 1e-12*(s.nd[i]+s.na[i])/math.Min(o.DonorN1, o.AcceptorP1))
+				if math.Abs(num-ana) > 1e-5*scale {
+					t.Errorf("node %d, %s = %g level: derivative %.6g, finite difference %.6g", i, carrier, f, ana, num)
+				}
+			}
+		}
+	}
+}
