@@ -134,6 +134,10 @@ func (s *Solver) depletion(st *state, n, p []float64) Depletion {
 	nLight := math.Min(math.Abs(s.c[nl]), math.Abs(s.c[nh]))
 	ld := math.Sqrt(s.eps * s.vt / (physics.Q * math.Max(nLight, s.ni)))
 	if !(qL > 0 && qR > 0 && w > ld) {
+		// No depleted region (flat band, high injection): the injection
+		// is still read at the quasi-neutral edges, walking out from the
+		// junction.
+		dep.MinorityRatio = math.Max(s.injection(st, n, p, m, -1), s.injection(st, n, p, m, +1))
 		return dep
 	}
 	dep.Valid = true

@@ -61,3 +61,32 @@ func TestDepletionForwardBias(t *testing.T) {
 		t.Logf("%.2f V: W %.2f nm, corrected %.2f nm; injection %.4g, law %.4g", r.Bias, d.W*1e9, corr.W*1e9, d.MinorityRatio, law)
 	}
 }
+
+// High injection is reported where the law of the junction puts the
+// minority density above a tenth of the doping (Si 1e17/1e16 at 0.8 V:
+// ni^2 exp(qV/kT)/Nd^2 > 0.1; Shockley 1949), also when the depletion
+// region has vanished, and not at 0.5 V (2e-4).
+func TestHighInjectionFlag(t *testing.T) {
+	m := material(t, "si")
+	s := newSolver(t, stepDiode(m, 300, 1e17*cm3, 1e16*cm3, 5*um, 10*um), Options{})
+	res, err := s.Sweep(context.Background(), []float64{0.5, 0.8, 0.95}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	has := func(r *Result) bool {
+		for _, f := range r.Flags {
+			if f.Code == FlagHighInjection {
+				return true
+			}
+		}
+		return false
+	}
+	for _, r := range res {
+		law := math.Pow(m.Ni(300)/(1e16*cm3), 2) * math.Exp(r.Bias/s.vt)
+		want := law > 0.1
+		if has(r) != want || (want && !(r.Depletion.MinorityRatio > 0.1)) {
+			t.Errorf("%.2f V: high-injection flag %t (ratio %.3g, valid %t), law of the junction %.3g", r.Bias, has(r), r.Depletion.MinorityRatio, r.Depletion.Valid, law)
+		}
+		t.Logf("%.2f V: ratio %.3g (law %.3g), depletion valid %t", r.Bias, r.Depletion.MinorityRatio, law, r.Depletion.Valid)
+	}
+}

@@ -125,8 +125,9 @@ type Depletion struct {
 	Field float64
 	// MinorityRatio is the larger of the minority/majority density ratios
 	// at the two quasi-neutral edges, the first node beyond each depletion
-	// edge where the space charge is below 1 % of the local doping (> 0.1
-	// means high injection).
+	// edge (from the junction when no region is Valid) where the space
+	// charge is below 1 % of the local doping (> 0.1 means high
+	// injection). It is set also when the region is not Valid.
 	MinorityRatio float64
 }
 
@@ -292,15 +293,15 @@ func (s *Solver) result(st *state, w *work, iters int, upd, res float64) *Result
 			Message: fmt.Sprintf("Jn + Jp varies by %.2g relative along the device: the current (%.3g A/m^2) is below what the solver resolves", r.CurrentSpread, r.Current)})
 	}
 	d := r.Depletion
+	if d.MinorityRatio > 0.1 {
+		r.Flags = append(r.Flags, physics.Flag{Code: FlagHighInjection, Quantities: []string{"current"},
+			Message: fmt.Sprintf("minority density %.3g of the majority density at a quasi-neutral edge: low-injection formulas do not apply", d.MinorityRatio)})
+	}
 	switch {
 	case !d.Valid:
 		r.Flags = append(r.Flags, physics.Flag{Code: FlagNoDepletion, Quantities: []string{"depletion width"},
-			Message: fmt.Sprintf("no depleted region (the space charge of a side is below a Debye length of doping) at %.4g V", r.Bias)})
+			Message: fmt.Sprintf("no depleted region (the space-charge width is below the Debye length of the lighter side) at %.4g V", r.Bias)})
 	default:
-		if d.MinorityRatio > 0.1 {
-			r.Flags = append(r.Flags, physics.Flag{Code: FlagHighInjection, Quantities: []string{"current"},
-				Message: fmt.Sprintf("minority density %.3g of the majority density at a quasi-neutral edge: low-injection formulas do not apply", d.MinorityRatio)})
-		}
 		if d.ReachThrough {
 			r.Flags = append(r.Flags, physics.Flag{Code: FlagReachThrough, Quantities: []string{"depletion width", "capacitance"},
 				Message: "the depletion region reaches a contact"})
