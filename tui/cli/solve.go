@@ -505,14 +505,14 @@ func writeComparison(w io.Writer, r *model.NumericResult, a *model.Result, ascii
 		diff, mark := "n/a", ""
 		if !math.IsNaN(x.Relative) {
 			diff = fmt.Sprintf("%+.2f %%", 100*x.Relative)
-			if math.Abs(x.Relative) > 0.05 {
+			if x.Flagged {
 				mark, marked = "  *", true
 			}
 		}
 		fmt.Fprintf(w, "  %-28s %-6s %16s %16s %11s%s\n", x.Label, x.Symbol, f(x.Kind, x.Analytic), f(x.Kind, x.Numeric), diff, mark)
 	}
 	if marked {
-		fmt.Fprintln(w, "  * differs by more than 5 %: the analytic model is not to be trusted here (or describes another device)")
+		fmt.Fprintln(w, "  * differs by more than its tolerance (built-in potential 1 %, the others 5 %): the analytic model is not to be trusted here (or describes another device)")
 	}
 	fmt.Fprintln(w, model.GroupNumeric)
 	labels := map[string]string{
