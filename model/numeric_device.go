@@ -41,8 +41,8 @@ type NumericDevice struct {
 // Hooks. Incomplete ionisation (Effects.Ionisation): the dopant
 // occupation follows the local carrier densities inside the solver,
 // Nd+ = Nd [1 - b n/(n + n1)] and alike for acceptors
-// (solver.DopantOccupation, with the level
-// physics.Material.EffectiveDopantLevel of each species at its own
+// (solver.DopantOccupation, with the level of the Spec's ionisation model,
+// physics.Material.DopantLevelFor, of each species at its own
 // concentration): neutral regions freeze out as in the analytic model,
 // while the dopants in a depletion region are fully ionised.
 // Band-gap narrowing (Effects.BGN): n_ie = ni exp(dEg/(2 kT)) with dEg =
@@ -183,7 +183,7 @@ func BuildNumericDevice(spec Spec, num NumericSpec, vmin float64) (*NumericDevic
 	}
 	e := spec.Effects.Physics()
 	if e.Ionisation {
-		occ, err := solver.DopantOccupation(m, t, st.Device.DonorSpecies, st.Device.AcceptorSpecies)
+		occ, err := solver.DopantOccupation(m, t, st.Device.DonorSpecies, st.Device.AcceptorSpecies, e.IonisationModel)
 		if err != nil {
 			return nil, err
 		}

@@ -29,7 +29,7 @@ func (c matrixCell) String() string {
 // symmetric 1e15 and 1e17 cm^-3 and one-sided 1e19/1e15 (p+n) and
 // 1e16/1e18 (n+p) cm^-3; 0 V, -2 V and a low forward bias, the bias at
 // which the minority density at the lighter side's edge reaches 1e-3 of
-// its doping by the law of the junction (at most Vbi - 10 kT/q).
+// its doping by the law of the junction (at most 0.6 Vbi).
 func matrixCells(t *testing.T) []matrixCell {
 	var out []matrixCell
 	for _, mt := range []struct {
@@ -46,7 +46,7 @@ func matrixCells(t *testing.T) []matrixCell {
 				light := math.Min(na, nd)
 				ni, vt := m.Ni(temp), physics.ThermalVoltage(temp)
 				vbi := physics.BuiltInPotential(na, nd, ni, temp)
-				vf := math.Min(vt*math.Log(1e-3*light*light/(ni*ni)), vbi-10*vt)
+				vf := math.Min(vt*math.Log(1e-3*light*light/(ni*ni)), 0.6*vbi)
 				one := math.Max(na, nd)/light >= 100
 				for _, b := range []struct {
 					v    float64
@@ -77,42 +77,38 @@ func matrixBGN(m *physics.Material, na, nd float64) float64 {
 // Cells outside the analytic model's validity are listed, not asserted.
 //
 //   - Vbi: within 2 mV plus half the band-gap narrowing of the two sides
-//     (Sze & Ng 2007, eq. 2.8 with n_i,eff; `calc` leaves the narrowing
-//     out of its electrostatic Vbi: pending analytic fix, issue item 5;
-//     tighten to 2 mV after it). With every effect off the two agree to 1
-//     mV (TestMatrixIdealBuiltIn).
-//   - W and Cj at 0 V (doping ratio below 100) and at -2 V: the depletion
-//     approximation against the solver's space-charge width and dQ/dV,
-//     within the 2kT/q majority-tail correction (Sze & Ng 2007, section
-//     2.2: a factor sqrt(1 - 2kT/(q(Vbi - V)))) plus 2 %, plus 2 % for
-//     one-sided steps, whose heavy side spills majority carriers over an
-//     ideally abrupt junction (not in the depletion approximation; the
-//     solver's value is mesh-converged, TestPeakFieldMeshRefinement). The
-//     correction is pending in `calc` (issue item 6): tighten to 2 % after
-//     it. One-sided junctions at 0 V are outside the approximation (the
-//     spill-over changes Cj by 5-40 %) and only listed.
+//     (Sze & Ng 2007, eq. 2.8 with n_i,eff; `calc` still leaves the
+//     narrowing out of its electrostatic Vbi: pending analytic fix, issue
+//     item 5; tighten to 2 mV after it). With every effect off the two
+//     agree to 1 mV (TestMatrixIdealBuiltIn).
+//   - W, Cj and the peak field at -2 V: within 1 % for symmetric
+//     junctions (the depletion approximation with its 2kT/q tail
+//     correction, Sze & Ng 2007 section 2.2) and 4 % for one-sided ones,
+//     whose heavy side spills majority carriers over an ideally abrupt
+//     junction (not in the approximation; the solver's value is
+//     mesh-converged, TestPeakFieldMeshRefinement). At 0 V: W and the
+//     peak field within 1 % and Cj within 2 % for symmetric junctions
+//     where ni < 0.01 N (above it the depletion region's own carriers,
+//     n = p ~ ni, add to dQ/dV: Ge 1e15 cm^-3 at 300 K, 5.7 %);
+//     one-sided junctions at 0 V are outside the approximation (the
+//     spill-over changes Cj by 5-33 %) and only listed.
 //   - Current at the low forward bias (minority density 1e-3 of the
-//     doping): Si and Ge, where it is the diffusion current, within 3 %
-//     (symmetric) and 7 % (doping ratio 100); GaAs and 4H-SiC, where
-//     depletion-region recombination is a large share, within 20 % and 30
-//     % (`calc` uses the Sah-Noyce-Shockley current with its maximum-rate
-//     approximation: a model difference). At doping ratio 1e4 the
-//     recombination current of `calc` uses the heavy side's lifetime
-//     across the depletion region, which lies in the light side (pending
-//     analytic fix, issue item 3): within 80 %, the numeric current below
-//     the analytic one; tighten to the ratio-100 tolerances after it.
-//   - Reverse (generation) current at -2 V: symmetric within 10 % (Si
-//     1e17 cm^-3: 8.4 %, the Sah-Noyce-Shockley integral against the
-//     solver's full SRH rate); one-sided within 80 % (the numeric
-//     magnitude down to a fifth of the analytic one: Si 1e19/1e15 gives a
-//     factor 4.2, the figure of issue item 3) for the same pending
-//     lifetime fix.
+//     doping, at most 0.6 Vbi): Si and Ge, where it is the diffusion
+//     current, within 5 %; GaAs and 4H-SiC, where depletion-region
+//     recombination is a large share, within 15 % (`calc` uses the
+//     Sah-Noyce-Shockley current with its maximum-rate approximation: a
+//     model difference).
+//   - Reverse (generation) current at -2 V: within 10 % (symmetric Si
+//     1e17 cm^-3 differs by 8.4 % at 300 K and 7.8 % at 400 K, the other
+//     cells by at most 3 %; the 8 % is not explained yet).
 //
-// Measured on this branch before the analytic fixes (largest |difference|
-// per group): Vbi 0.0 % (no narrowing) to 4.5 % (Si 1e19/1e15, the
-// narrowing); W, Cj and peak field at -2 V 0.5-4.5 %; forward current
-// Si/Ge symmetric 1.8 %, GaAs/4H-SiC symmetric 17.6 %, ratio 1e4 -75 %;
-// reverse current symmetric 8.4 %, one-sided +76 % (factor 4.2).
+// Measured on this branch after rebasing onto the analytic fixes of main
+// (2kT/q tail in W and Cj, local lifetime in the SNS integral), largest
+// |difference| per group: Vbi 4.5 % (Si 1e19/1e15 at 400 K, the
+// narrowing); W, Cj, peak field at -2 V 0.3 % symmetric, 2.6 % one-sided;
+// forward current Si/Ge 3.2 %, GaAs/4H-SiC 12.3 %; reverse current 8.4 %
+// (Si 1e17), 3 % elsewhere. Before those fixes the one-sided reverse
+// current differed by a factor 4.2 and W at 0 V by the 2kT/q term.
 func TestAnalyticNumericMatrix(t *testing.T) {
 	if testing.Short() {
 		t.Skip("the matrix solves ~90 devices")
@@ -131,7 +127,6 @@ func TestAnalyticNumericMatrix(t *testing.T) {
 			continue
 		}
 		m := a.Static.Device.Material
-		vt := a.Static.Vt
 		diffs := map[string]Difference{}
 		for _, d := range Compare(a, r) {
 			diffs[d.Key] = d
@@ -145,40 +140,34 @@ func TestAnalyticNumericMatrix(t *testing.T) {
 		// Vbi.
 		vbiTol := (2e-3 + matrixBGN(m, c.na, c.nd)/2) / diffs["built_in_potential_V"].Analytic
 		check("built_in_potential_V", vbiTol, "2 mV + half the narrowing, pending in calc")
-		// W and Cj.
-		if c.kind != "forward" && !(c.kind == "zero" && c.oneSided) {
-			barrier := r.BuiltInPotential - c.bias
-			corr := 1/math.Sqrt(1-2*vt/barrier) - 1
-			tol := corr + 0.02
+		// W, Cj and the peak field.
+		ni := m.Ni(c.temp)
+		light := math.Min(c.na, c.nd)
+		switch {
+		case c.kind == "reverse":
+			tol := 0.01
 			if c.oneSided {
-				tol += 0.02
+				tol = 0.04
 			}
-			check("depletion_width_m", tol, "2kT/q correction pending in calc")
-			check("junction_capacitance_F", tol, "2kT/q correction pending in calc")
-			check("peak_field_V_per_m", tol, "2kT/q correction pending in calc")
+			for _, k := range []string{"depletion_width_m", "junction_capacitance_F", "peak_field_V_per_m"} {
+				check(k, tol, "depletion approximation with the 2kT/q tail; one-sided: majority spill-over")
+			}
+		case c.kind == "zero" && !c.oneSided:
+			check("depletion_width_m", 0.01, "depletion approximation with the 2kT/q tail")
+			check("peak_field_V_per_m", 0.01, "depletion approximation with the 2kT/q tail")
+			if ni < 0.01*light {
+				check("junction_capacitance_F", 0.02, "depletion approximation with the 2kT/q tail")
+			}
 		}
 		// Currents.
-		ratio := math.Max(c.na, c.nd) / math.Min(c.na, c.nd)
 		wide := c.mat == "gaas" || c.mat == "4h-sic"
 		switch {
-		case c.kind == "forward" && ratio >= 1e3:
-			check("current_A", 0.8, "depletion-region recombination with the emitter's lifetime in calc, local lifetime pending")
 		case c.kind == "forward" && wide:
-			tol := 0.20
-			if ratio >= 100 {
-				tol = 0.30
-			}
-			check("current_A", tol, "recombination share, SNS maximum-rate approximation in calc")
+			check("current_A", 0.15, "recombination share, SNS maximum-rate approximation in calc")
 		case c.kind == "forward":
-			tol := 0.03
-			if ratio >= 100 {
-				tol = 0.07
-			}
-			check("current_A", tol, "low-injection diffusion current")
-		case c.kind == "reverse" && !c.oneSided:
-			check("current_A", 0.10, "generation current")
+			check("current_A", 0.05, "low-injection diffusion current")
 		case c.kind == "reverse":
-			check("current_A", 0.8, "generation current, local lifetime pending in calc")
+			check("current_A", 0.10, "generation current")
 		}
 		line := ""
 		for _, k := range compareKeys {
@@ -265,5 +254,35 @@ func TestCompareFlagsRealDisagreements(t *testing.T) {
 		if d.Key == "depletion_width_m" && !d.Flagged {
 			t.Errorf("0.7 V: width %+.2f %% not flagged", 100*d.Relative)
 		}
+	}
+}
+
+// The solver's neutral regions follow the Spec's dopant-level model: at
+// the contacts of a Si diode at 77 K the numeric ionised densities equal
+// the analytic model's neutral-region values (physics.Static NdIonised,
+// NaIonised; the same Fermi-Dirac occupation, an identity) for both the
+// single-level and the lowered model, which differ there by more than 10 %.
+func TestNumericIonisationModelFollowsSpec(t *testing.T) {
+	var prev float64
+	for _, im := range []string{"single-level", "lowered"} {
+		s := DefaultSpec()
+		s.Temperature, s.AcceptorDensity, s.DonorDensity, s.Bias = 77, 1e16*perCm3, 1e17*perCm3, 0
+		s.Effects = IdealEffects()
+		s.Effects.NoIonisation = false
+		s.Effects.IonisationModel = im
+		a := evaluateOK(t, s)
+		r := solveOK(t, s, NumericSpec{PLength: 3 * um, NLength: 3 * um})
+		nd := r.Solution.NetDoping
+		cath, an := nd[len(nd)-1], nd[0]
+		if e := rel(cath, a.Static.NdIonised); e > 1e-4 {
+			t.Errorf("%s: cathode Nd+ %.6g, analytic %.6g", im, cath, a.Static.NdIonised)
+		}
+		if e := rel(-an, a.Static.NaIonised); e > 1e-4 {
+			t.Errorf("%s: anode Na- %.6g, analytic %.6g", im, -an, a.Static.NaIonised)
+		}
+		if prev != 0 && rel(cath, prev) < 0.1 {
+			t.Errorf("the two models give Nd+ %.4g and %.4g: not a test of the choice", prev, cath)
+		}
+		prev = cath
 	}
 }

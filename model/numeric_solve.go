@@ -301,10 +301,11 @@ func CompareTolerance(key string) float64 {
 // states every tolerance and its reason): the built-in potential within 2
 // mV plus half the band-gap narrowing (which calc leaves out of its
 // electrostatic Vbi); width, capacitance and peak field in reverse bias
-// within the 2kT/q majority-tail correction (Sze & Ng 2007, section 2.2)
-// plus 2-4 %; the low-injection forward current within 3-7 % where it is
-// a diffusion current. Larger differences mark where the analytic model
-// is not to be trusted.
+// within 1 % (symmetric) and 4 % (one-sided: the heavy side's majority
+// spill-over); the low-injection forward current within 5 % where it is a
+// diffusion current and 15 % where depletion-region recombination is a
+// large share. Larger differences mark where the analytic model is not to
+// be trusted (Difference.Flagged, at CompareTolerance).
 func Compare(analytic *Result, numeric *NumericResult) []Difference {
 	if analytic == nil || numeric == nil {
 		return nil

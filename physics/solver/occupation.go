@@ -115,11 +115,11 @@ func (s *Solver) neutralPotential(i int) (psi, c float64) {
 
 // DopantOccupation returns an Occupation hook for material m at
 // temperature t (K) with the named donor and acceptor species ("" = the
-// material's defaults): each species' level is
-// physics.Material.EffectiveDopantLevel at its own chemical density, and
-// n1 = (Nc/g) exp(-E/kT), p1 = (Nv/g) exp(-E/kT) (Sze & Ng 2007, eqs. 1.33
-// and 1.36). An unknown species is an error naming it.
-func DopantOccupation(m *physics.Material, t float64, donor, acceptor string) (func(x, nd, na float64) Occupation, error) {
+// material's defaults) under the dopant-level model im: each species'
+// level is physics.Material.DopantLevelFor at its own chemical density,
+// and n1 = (Nc/g) exp(-E/kT), p1 = (Nv/g) exp(-E/kT) (Sze & Ng 2007, eqs.
+// 1.33 and 1.36). An unknown species is an error naming it.
+func DopantOccupation(m *physics.Material, t float64, donor, acceptor string, im physics.IonisationModel) (func(x, nd, na float64) Occupation, error) {
 	if m == nil {
 		return nil, &ParamError{Field: "Device.Material", Value: "nil", Allowed: "a material", Why: "the dopant levels come from it"}
 	}
@@ -143,7 +143,7 @@ func DopantOccupation(m *physics.Material, t float64, donor, acceptor string) (f
 		if !(dens > 0) {
 			return math.Inf(1), 0
 		}
-		lv := m.EffectiveDopantLevel(d, dens)
+		lv := m.DopantLevelFor(d, dens, im)
 		return nb / lv.Degeneracy * math.Exp(-lv.Energy/kt), lv.Localised
 	}
 	return func(_, nd, na float64) Occupation {

@@ -26,7 +26,7 @@ func occupationDiode(t *testing.T, mat string, temp, na, nd, lp, ln float64) Dev
 	t.Helper()
 	m := material(t, mat)
 	d := stepDiode(m, temp, na, nd, lp, ln)
-	hook, err := DopantOccupation(m, temp, "", "")
+	hook, err := DopantOccupation(m, temp, "", "", physics.IonisationSingleLevel)
 	if err != nil {
 		t.Fatal(err)
 	}
