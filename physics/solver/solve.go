@@ -324,7 +324,10 @@ func (s *Solver) CV(ctx context.Context, biases []float64, progress ProgressFunc
 			if k == 0 && s.opt.CVMode == CVHighFrequency && s.occ != nil {
 				// Frozen occupation: the second point is solved from this
 				// one with the ionised doping held at its present value.
-				g, err := s.frozenStep(tr, (v+dv/2)/s.vt)
+				g, err := s.frozenStep(ctx, tr, (v+dv/2)/s.vt)
+				if cerr := ctx.Err(); cerr != nil {
+					return out, cerr
+				}
 				if err != nil {
 					return out, &ConvergenceError{Stage: "high-frequency capacitance", Bias: v + dv/2, Reached: tr.cur.v * s.vt,
 						Step: dv, Reason: err.Error()}
@@ -347,7 +350,9 @@ func (s *Solver) CV(ctx context.Context, biases []float64, progress ProgressFunc
 // frozenStep returns the solution at bias v (kT/q) reached by one Newton
 // solve from the tracker's present state with the ionised doping frozen
 // at that state's values; the tracker itself is not moved.
-func (s *Solver) frozenStep(tr *tracker, v float64) (*state, error) {
+func (s *Solver) frozenStep(ctx context.Context, tr *tracker, v float64) (*state, error) {
+	tr.w.ctx = ctx
+	defer func() { tr.w.ctx = nil }()
 	g := tr.cur.clone()
 	n, p := tr.w.n, tr.w.p
 	s.carriers(g, n, p)
