@@ -22,10 +22,6 @@ import (
 // solveTimeout bounds one drift-diffusion solution.
 const solveTimeout = 30 * time.Second
 
-// distrust is the relative difference beyond which the readout marks a
-// quantity: the depletion approximation is not to be trusted there.
-const distrust = 0.05
-
 // carriersKind is the solver-only chart, listed in solver mode only.
 func carriersKind() chartKind {
 	return chartKind{"carriers", "carrier densities (solver)", sweepNone, true}
@@ -250,7 +246,7 @@ func (c chartModel) readout(w int) []string {
 	for _, d := range n.diffs {
 		if a := math.Abs(d.Relative); finite(a) {
 			worst = math.Max(worst, a)
-			if a > distrust {
+			if d.Flagged {
 				bad++
 			}
 		}
@@ -258,7 +254,7 @@ func (c chartModel) readout(w int) []string {
 	if c.h < 26 {
 		l := fmt.Sprintf("analytic vs numeric: largest difference %s", relText(worst))
 		if bad > 0 {
-			return []string{st.warn.Paint(cut(fmt.Sprintf("%s %s, %d over 5 %%: the depletion approximation is not to be trusted here", g.bad, l, bad), w, g.ellipsis))}
+			return []string{st.warn.Paint(cut(fmt.Sprintf("%s %s, %d beyond tolerance: the depletion approximation is not to be trusted here", g.bad, l, bad), w, g.ellipsis))}
 		}
 		return []string{st.ok.Paint(cut(g.good+" "+l, w, g.ellipsis))}
 	}
@@ -266,7 +262,7 @@ func (c chartModel) readout(w int) []string {
 	out := []string{st.muted.Paint(cut(head, w, g.ellipsis))}
 	for _, d := range n.diffs {
 		mark := " "
-		if a := math.Abs(d.Relative); finite(a) && a > distrust {
+		if d.Flagged {
 			mark = g.bad
 		}
 		name := d.Label
@@ -281,9 +277,9 @@ func (c chartModel) readout(w int) []string {
 			out = append(out, cut(l, w, g.ellipsis))
 		}
 	}
-	note := g.good + " within 5 %: the depletion approximation holds here"
+	note := g.good + " within 1 % (Vbi) and 5 %: the depletion approximation holds"
 	if bad > 0 {
-		note = g.bad + " over 5 %: the depletion approximation is not to be trusted here"
+		note = g.bad + " not to be trusted here: Vbi over 1 %, others over 5 %"
 	}
 	return append(out, st.faint.Paint(cut(note, w, g.ellipsis)))
 }

@@ -7,7 +7,7 @@ import (
 )
 
 // benchDevice is a silicon 1e16/1e15 cm^-3 step diode, 10 + 20 um.
-func benchDevice(b *testing.B) Device {
+func benchDevice(b testing.TB) Device {
 	return stepDiode(material(b, "si"), 300, 1e16*cm3, 1e15*cm3, 10*um, 20*um)
 }
 
@@ -97,6 +97,44 @@ func BenchmarkNewtonStep(b *testing.B) {
 				w.band.solve(w.dlt)
 			}
 			b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(n), "ns/node")
+		})
+	}
+}
+
+// A 40-point forward sweep 20 mV to 0.8 V in 20 mV steps of a silicon p+n
+// diode (1e19/1e16 cm^-3, 5 + 100 um) on 1k to 16k nodes (the automatic
+// spacing scaled): the ns/node/point metric must stay flat
+// (linear cost, including the final polishing of the carriers). The
+// Newton iterations and polishing sweeps per point are reported too: they
+// do not depend on the load of the machine.
+func BenchmarkSweepNodes(b *testing.B) {
+	for _, n := range []int{1000, 2000, 4000, 8000, 16000} {
+		b.Run(fmt.Sprintf("nodes=%d", n), func(b *testing.B) {
+			d := stepDiode(material(b, "si"), 300, 1e19*cm3, 1e16*cm3, 5*um, 100*um)
+			s := newSolver(b, d, Options{Mesh: MeshOptions{Nodes: n}})
+			if _, err := s.Equilibrium(); err != nil {
+				b.Fatal(err)
+			}
+			const points = 40
+			iters, polish := 0, 0
+			b.ResetTimer()
+			for range b.N {
+				tr, err := s.newTracker()
+				if err != nil {
+					b.Fatal(err)
+				}
+				for k := 1; k <= points; k++ {
+					if err := tr.advance(context.Background(), 0.02*float64(k)); err != nil {
+						b.Fatal(err)
+					}
+					s.result(tr.cur, tr.w, tr.iters, tr.upd, tr.res)
+				}
+				iters += tr.totalIters
+				polish += tr.w.polishSweeps
+			}
+			b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(n*points), "ns/node/point")
+			b.ReportMetric(float64(iters)/float64(b.N*points), "newton/point")
+			b.ReportMetric(float64(polish)/float64(b.N*points), "polish/point")
 		})
 	}
 }

@@ -35,11 +35,17 @@ type Device struct {
 	TauN, TauP float64
 	// Ionisation, if set, returns the ionised donor and acceptor densities
 	// (m^-3) at position x for the chemical densities nd, na (box averages
-	// over the node's cell). nil means complete ionisation. This is where
-	// an incomplete-ionisation model plugs in (evaluated once per node
-	// from the doping; a carrier-dependent model would need its
-	// derivatives in the Jacobian).
+	// over the node's cell). nil means complete ionisation. It is
+	// evaluated once per node from the doping and fixed: it cannot tell a
+	// depletion region from a neutral one (use Occupation for that).
 	Ionisation func(x, nd, na float64) (ndIonised, naIonised float64)
+	// Occupation, if set, returns the dopant levels at position x for the
+	// chemical densities nd, na (box averages): the ionised densities then
+	// follow the local carrier densities (see Occupation), with their
+	// derivatives in the Newton Jacobian, so that dopants in a depletion
+	// region are fully ionised and those of a neutral region frozen out.
+	// Ionisation and Occupation exclude each other.
+	Occupation func(x, nd, na float64) Occupation
 	// IntrinsicDensity, if set, returns the effective intrinsic density
 	// n_ie(x) in m^-3 (for band-gap narrowing: n_ie = ni exp(dEg/2kT)).
 	// nil means Material.Ni(T). The narrowing is split equally between the
@@ -88,6 +94,33 @@ type Options struct {
 	// CVStep is the bias difference dV used for C = -dQ/dV, V; 0 means
 	// 5e-3.
 	CVStep float64
+	// CVMode chooses whether the dopant occupation follows the small
+	// signal (CVLowFrequency, the default) or is frozen at its
+	// steady-state value (CVHighFrequency). It matters only with
+	// Device.Occupation.
+	CVMode CVMode
+}
+
+// CVMode is the small-signal assumption of a C-V point.
+type CVMode int
+
+// The C-V modes.
+const (
+	// CVLowFrequency: quasi-static; the dopant occupation follows the
+	// signal (both solutions of dQ/dV are full steady states).
+	CVLowFrequency CVMode = iota
+	// CVHighFrequency: the dopant occupation is frozen at its value at V
+	// - dV/2 when the second solution of dQ/dV is taken (deep levels that
+	// cannot follow the signal).
+	CVHighFrequency
+)
+
+// String returns the label of the mode as written in outputs.
+func (m CVMode) String() string {
+	if m == CVHighFrequency {
+		return "high-frequency"
+	}
+	return "low-frequency"
 }
 
 func (o Options) withDefaults() Options {
@@ -123,6 +156,8 @@ func (o Options) validate() error {
 		return paramErr("Options.MaxBiasStep", o.MaxBiasStep, "in (0, 1] V", "continuation needs moderate steps")
 	case !finite(o.MinBiasStep) || o.MinBiasStep > o.MaxBiasStep:
 		return paramErr("Options.MinBiasStep", o.MinBiasStep, fmt.Sprintf("in (0, MaxBiasStep = %s] V", fv(o.MaxBiasStep)), "the step is halved down to it")
+	case o.CVMode != CVLowFrequency && o.CVMode != CVHighFrequency:
+		return &ParamError{Field: "Options.CVMode", Value: fmt.Sprint(int(o.CVMode)), Allowed: "CVLowFrequency (0) or CVHighFrequency (1)", Why: "the small-signal assumption of C-V"}
 	case !finite(o.CVStep) || o.CVStep > 0.1:
 		return paramErr("Options.CVStep", o.CVStep, "in (0, 0.1] V", "dQ/dV needs a small bias difference")
 	case !finite(o.Mesh.MaxReverseBias) || o.Mesh.MaxReverseBias > 1e5:
@@ -150,28 +185,31 @@ type Solver struct {
 	nc, nv                 float64
 	donor                  string
 
-	x, h, d            []float64 // nodes, spacings, box widths (m)
-	xm                 []float64 // midpoints
-	nd, na, ndi, nai   []float64 // chemical and ionised doping at nodes (m^-3)
-	c                  []float64 // ionised net doping (m^-3)
-	theta, lnNie, nie2 []float64 // ln(n_ie/ni), ln n_ie, n_ie^2
-	tauN, tauP, n1, p1 []float64 // SRH parameters per node
-	dn, dp             []float64 // diffusivities on edges (m^2/s)
+	x, h, d            []float64    // nodes, spacings, box widths (m)
+	xm                 []float64    // midpoints
+	nd, na, ndi, nai   []float64    // chemical and ionised doping at nodes (m^-3)
+	c                  []float64    // ionised net doping (m^-3; with occupation, that of local neutrality)
+	occ                []Occupation // dopant levels per node; nil for fixed ionisation
+	psiNeutral         []float64    // locally neutral equilibrium potential per node (kT/q)
+	theta, lnNie, nie2 []float64    // ln(n_ie/ni), ln n_ie, n_ie^2
+	tauN, tauP, n1, p1 []float64    // SRH parameters per node
+	dn, dp             []float64    // diffusivities on edges (m^2/s)
 	augN, augP, brad   float64
 	srh                bool
 
-	anodeLeft   bool
-	ia, ic      int     // anode and cathode node indices
-	psiA, psiC  float64 // equilibrium contact potentials, kT/q
-	junctions   []float64
-	jEdge       int     // -1 when the profile has no junction
-	jNode       int     // node nearest the main metallurgical junction
-	xj          float64 // the main metallurgical junction, m
-	jPart       float64 // length from the left edge midpoint of jNode's box to xj, m
-	jPartDoping float64 // ionised net doping integrated over that length, m^-2
-	zones       []zone
-	meshCapped  int // nodes the automatic mesh wanted when MaxNodes capped it
-	flags       []physics.Flag
+	anodeLeft  bool
+	ia, ic     int     // anode and cathode node indices
+	psiA, psiC float64 // equilibrium contact potentials, kT/q
+	junctions  []float64
+	jEdge      int     // -1 when the profile has no junction
+	jNode      int     // node nearest the main metallurgical junction
+	xj         float64 // the main metallurgical junction, m
+	jPart      float64 // length from the left edge midpoint of jNode's box to xj, m
+	jPartNd    float64 // donors integrated over that length, m^-2
+	jPartNa    float64 // acceptors integrated over that length, m^-2
+	zones      []zone
+	meshCapped int // nodes the automatic mesh wanted when MaxNodes capped it
+	flags      []physics.Flag
 
 	eqOnce sync.Once
 	eq     *state
@@ -232,6 +270,9 @@ func New(dev Device, opt Options) (*Solver, error) {
 	}
 	if !finitePos(dev.Length) || dev.Length > 1 {
 		return nil, paramErr("Device.Length", dev.Length, "in (0, 1] m", "the device length")
+	}
+	if dev.Ionisation != nil && dev.Occupation != nil {
+		return nil, &ParamError{Field: "Device.Occupation", Value: "set together with Device.Ionisation", Allowed: "at most one of the two", Why: "both set the ionised dopant densities"}
 	}
 	if err := dev.Profile.Validate(); err != nil {
 		if pe, ok := err.(*ParamError); ok && pe.Field != "Profile" {
@@ -399,7 +440,7 @@ func (s *Solver) setupNodes() error {
 	s.d = make([]float64, n)
 	mk := func() []float64 { return make([]float64, n) }
 	s.nd, s.na, s.ndi, s.nai, s.c = mk(), mk(), mk(), mk(), mk()
-	s.theta, s.lnNie, s.nie2 = mk(), mk(), mk()
+	s.theta, s.lnNie, s.nie2, s.psiNeutral = mk(), mk(), mk(), mk()
 	s.tauN, s.tauP, s.n1, s.p1 = mk(), mk(), mk(), mk()
 	mun, mup := mk(), mk()
 	knots := dev.Profile.Knots()
@@ -429,7 +470,6 @@ func (s *Solver) setupNodes() error {
 			}
 			s.ndi[i], s.nai[i] = p, q
 		}
-		s.c[i] = s.ndi[i] - s.nai[i]
 		s.lnNie[i] = s.lnNi
 		if dev.IntrinsicDensity != nil {
 			v := dev.IntrinsicDensity(s.x[i], s.nd[i], s.na[i])
@@ -437,6 +477,23 @@ func (s *Solver) setupNodes() error {
 				return &ParamError{Field: "Device.IntrinsicDensity", Value: fmt.Sprintf("%s at x = %s m", fv(v), fv(s.x[i])), Allowed: "> 0 and finite (m^-3)", Why: "an effective intrinsic density"}
 			}
 			s.lnNie[i] = math.Log(v)
+		}
+		s.c[i] = s.ndi[i] - s.nai[i]
+		s.psiNeutral[i] = math.Asinh(s.c[i] / (2 * math.Exp(s.lnNie[i])))
+		if dev.Occupation != nil {
+			o := dev.Occupation(s.x[i], s.nd[i], s.na[i])
+			if err := o.validate(s.x[i]); err != nil {
+				return err
+			}
+			if s.occ == nil {
+				s.occ = make([]Occupation, n)
+			}
+			s.occ[i] = o
+			s.psiNeutral[i], s.c[i] = s.neutralPotential(i)
+			// The neutral-region ionised densities (for mobility, flags).
+			fd, _ := occupied(math.Exp(s.lnNie[i]+s.psiNeutral[i]), o.DonorN1, o.DonorBound)
+			fa, _ := occupied(math.Exp(s.lnNie[i]-s.psiNeutral[i]), o.AcceptorP1, o.AcceptorBound)
+			s.ndi[i], s.nai[i] = s.nd[i]*fd, s.na[i]*fa
 		}
 		s.theta[i] = s.lnNie[i] - s.lnNi
 		s.nie2[i] = math.Exp(2 * s.lnNie[i])
@@ -474,8 +531,7 @@ func (s *Solver) setupNodes() error {
 	if sign(s.c[0])*sign(s.c[n-1]) >= 0 {
 		return &ParamError{Field: "Device.Ionisation", Value: "same sign at both contacts", Allowed: "p-type at one contact and n-type at the other", Why: "a diode needs a pn junction"}
 	}
-	s.psiA = math.Asinh(s.c[s.ia] / (2 * math.Exp(s.lnNie[s.ia])))
-	s.psiC = math.Asinh(s.c[s.ic] / (2 * math.Exp(s.lnNie[s.ic])))
+	s.psiA, s.psiC = s.psiNeutral[s.ia], s.psiNeutral[s.ic]
 	// The main junction (the first seen from the anode) and the node
 	// nearest to it, where the search for the electrical junction starts.
 	s.jEdge = -1
@@ -494,21 +550,14 @@ func (s *Solver) setupNodes() error {
 		s.jEdge = s.jNode
 		s.xj = xj
 		// Part of the node's box between its left edge midpoint and the
-		// junction, and its ionised net doping (profile integral scaled by
-		// the node's ionised fraction), for the field at the junction.
+		// junction, and its chemical dopant counts, for the field at the
+		// junction and the split of the node's charge between the sides.
 		m = s.jNode
 		a := s.xm[m-1]
 		s.jPart = math.Max(xj-a, 0)
 		if s.jPart > 0 {
 			nd, na := boxAverage(dev.Profile, knots, a, xj)
-			fd, fa := 1.0, 1.0
-			if s.nd[m] > 0 {
-				fd = s.ndi[m] / s.nd[m]
-			}
-			if s.na[m] > 0 {
-				fa = s.nai[m] / s.na[m]
-			}
-			s.jPartDoping = (fd*nd - fa*na) * s.jPart
+			s.jPartNd, s.jPartNa = nd*s.jPart, na*s.jPart
 		}
 	}
 	return nil
@@ -518,7 +567,7 @@ func (s *Solver) setupNodes() error {
 // temperature and degeneracy).
 const (
 	// FlagHighInjection: a minority density exceeds 10 % of the majority
-	// density at a depletion edge; low-injection formulas do not apply.
+	// density at a quasi-neutral edge; low-injection formulas do not apply.
 	FlagHighInjection = "high-injection"
 	// FlagNoDepletion: no depleted region was found (forward bias near or
 	// beyond flat band, or high injection).

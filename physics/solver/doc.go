@@ -60,9 +60,12 @@
 // above 1e-2 kT/q after 12 iterations) is halved; below
 // Options.MinBiasStep a *ConvergenceError reports the bias, the last
 // converged bias, iterations, update and residual. After
-// convergence a few decoupled continuity steps with psi frozen polish the
-// quasi-Fermi potentials until the total current is constant along the
-// device to 1e-11 relative (Result.CurrentSpread reports it).
+// convergence, when Jn + Jp varies along the device by more than ten
+// times max(1e-11, 20 N eps) relative (N nodes, eps the double-precision
+// epsilon: the rounding floor of the discrete current grows with N), up
+// to six decoupled continuity steps with psi frozen polish the
+// quasi-Fermi potentials, stopping at that target or when a step no
+// longer halves the spread (Result.CurrentSpread reports it).
 //
 // # Contacts
 //
@@ -73,15 +76,22 @@
 //
 // # Plug-in points for incomplete ionisation and band-gap narrowing
 //
-// Device.Ionisation maps the chemical densities of a node to ionised
-// densities, and Device.IntrinsicDensity gives the effective n_ie(x); both
-// are evaluated once per node (box-averaged doping) in New. The narrowing
-// enters the Scharfetter-Gummel fluxes as the band potentials psi +
-// ln(n_ie/ni) (electrons) and psi - ln(n_ie/ni) (holes), split equally
-// between the bands, and shifts Ec and Ev in the results. A
-// carrier-dependent ionisation (Nd+ depending on n) would need its
-// derivative in the Poisson row of assemble; the solver does not do that
-// yet, so such a model must be fed as its neutral-region approximation.
+// Device.Occupation gives the dopant levels of a node (n1 = (Nc/gD)
+// exp(-(Ec - Ed)/kT), p1 alike, and the bound fraction); the ionised
+// densities then follow the local carriers, Nd+ = Nd [1 - bD n/(n + n1)],
+// Na- = Na [1 - bA p/(p + p1)], with their derivatives with respect to psi
+// and the quasi-Fermi potentials in the Poisson rows of the Jacobian:
+// dopants in a depletion region are fully ionised, those of a neutral
+// region frozen out (DopantOccupation builds the hook from the
+// material's dopant levels). C-V is low-frequency by default (the
+// occupation follows dQ/dV); Options.CVMode = CVHighFrequency freezes it
+// for the second solution of dQ/dV and CVPoint.Mode says which.
+// Device.Ionisation is the older fixed map from chemical to ionised
+// densities (evaluated once per node); Device.IntrinsicDensity gives the
+// effective n_ie(x). The narrowing enters the Scharfetter-Gummel fluxes
+// as the band potentials psi + ln(n_ie/ni) (electrons) and psi -
+// ln(n_ie/ni) (holes), split equally between the bands, and shifts Ec
+// and Ev in the results.
 //
 // # Validity
 //

@@ -56,7 +56,16 @@ type Result struct {
 	// xp; at low bias it also holds the majority tail that a heavily doped
 	// side spills across the junction.
 	JunctionCharge float64
-	// PeakField is the largest |E|, V/m.
+	// PeakField is the largest |E|, V/m: of the edge fields and the field
+	// reconstructed at the metallurgical junction. For an
+	// ideally abrupt asymmetric step it includes the dipole of the heavy
+	// side's majority carriers spilling over the junction (a real feature
+	// of the Poisson-Boltzmann solution of a zero-width step, converged
+	// under mesh refinement: Si 1e19/1e16 at -5 V gives 2.04e7 V/m
+	// against 1.31e7 V/m of the depletion charge, the first integral
+	// E^2 = 2 q Na (kT/q)(e^-u - 1 + u)/eps at u = 1 + (Nd/Na)(w - 1) kT/q
+	// on the heavy side; own derivation). Depletion.Field is the field of
+	// the depletion charge alone.
 	PeakField float64
 	// Barrier is psi(cathode) - psi(anode), V: the built-in potential at
 	// equilibrium, Vbi - V under bias.
@@ -75,18 +84,21 @@ type Result struct {
 // Depletion is the depleted region of the main junction (the first
 // junction seen from the anode) as the solver sees it.
 //
-// Definition: a node is depleted when n + p < |Nd+ - Na-| / 2. Each edge is
-// found by walking from the neutral side of the junction's refined zone
-// toward the junction (or away from it when that point is itself
-// depleted) to the first change of state, and interpolating ln((n + p) /
-// (|N|/2)) linearly to zero between the two nodes. A side without any
-// depleted node (thinner than a cell, or crossed by a carrier tail from
-// the other side) has its edge at the metallurgical junction; with no
-// depleted node on either side the region is not Valid. For a step junction the
-// edges lie about 0.16 Debye lengths inside the depletion-approximation
-// edges computed with Vbi - V - 2kT/q (from the one-sided Poisson
-// integral (du/dxi)^2/2 = e^u - 1 - u in Debye lengths xi; own
-// derivation, from memory).
+// Definition (Gauss's law, valid in reverse and forward bias): the space
+// charge of each side of the metallurgical junction xj, counting the
+// ionised doping and that side's majority carriers (the other carrier is
+// the minority there: injected, or spilled over from the other side's
+// Debye tail), Q = q int max(0, |N| - majority) dx (N the ionised net
+// doping), is placed as a fully depleted and fully ionised layer against
+// xj: the edge is where the chemical dopant count from xj reaches Q/q. For a step junction in reverse bias this is the
+// depletion-approximation edge with Vbi - V - 2kT/q (one kT/q per side,
+// from the Poisson-Boltzmann first integral E^2 = (2 q N/eps)(V - kT/q
+// (1 - e^(-qV/kT))) of each side; Sze & Ng 2007, section 2.2). Unlike a
+// carrier-density threshold it keeps working when the carriers in the
+// depletion region exceed the doping's half in forward bias. The region
+// is Valid when both sides hold space charge and W exceeds the Debye
+// length of the lighter side (else only Debye tails remain: flat band,
+// high injection).
 type Depletion struct {
 	// Valid is false when no depleted node exists between the edges'
 	// search limits (forward bias near flat band, high injection).
@@ -102,8 +114,20 @@ type Depletion struct {
 	ReachThrough bool
 	// OutsideZone is true when an edge lies outside the refined mesh zone.
 	OutsideZone bool
+	// Field is the field at the junction of the depletion charge alone,
+	// V/m: q min(Q_anode, Q_cathode)/eps with each side's charge counted
+	// as in the definition above (Gauss's law). The side without the
+	// other side's spilled carriers gives it, so it leaves out the
+	// majority-carrier dipole that an ideally abrupt asymmetric step holds
+	// within a Debye length of its heavy side (see Result.PeakField). It
+	// is the peak field of the depletion approximation, q Nd xn / eps
+	// with Vbi - V - 2kT/q, and the one that sets the avalanche margin.
+	Field float64
 	// MinorityRatio is the larger of the minority/majority density ratios
-	// at the two edges (> 0.1 means high injection).
+	// at the two quasi-neutral edges, the first node beyond each depletion
+	// edge (from the junction when no region is Valid) where the space
+	// charge is below 1 % of the local doping (> 0.1 means high
+	// injection). It is set also when the region is not Valid.
 	MinorityRatio float64
 }
 
@@ -135,7 +159,40 @@ func (s *Solver) junctionField(st *state, n, p float64) float64 {
 	}
 	k := s.jNode - 1
 	e := -(st.psi[k+1] - st.psi[k]) * s.vt / s.h[k]
-	return e + physics.Q/s.eps*(s.jPartDoping+(p-n)*s.jPart)
+	left, _ := s.junctionSplit(st, n, p)
+	return e + physics.Q/s.eps*(left+(p-n)*s.jPart)
+}
+
+// junctionSplit returns the ionised net doping (m^-2) of the junction
+// node's box left and right of the metallurgical junction: the profile's
+// dopant counts of each part times the node's ionised fractions (from
+// its carriers n, p with Device.Occupation, else the node's fixed ones).
+func (s *Solver) junctionSplit(st *state, n, p float64) (left, right float64) {
+	m := s.jNode
+	fd, fa := 1.0, 1.0
+	switch {
+	case st != nil && st.fix != nil:
+		// Frozen occupation: scale the node's frozen net doping.
+		chem := s.nd[m] - s.na[m]
+		if chem != 0 {
+			fd = st.fix[m] / chem
+			fa = fd
+		}
+	case s.occ != nil:
+		o := s.occ[m]
+		fd, _ = occupied(n, o.DonorN1, o.DonorBound)
+		fa, _ = occupied(p, o.AcceptorP1, o.AcceptorBound)
+	default:
+		if s.nd[m] > 0 {
+			fd = s.ndi[m] / s.nd[m]
+		}
+		if s.na[m] > 0 {
+			fa = s.nai[m] / s.na[m]
+		}
+	}
+	left = fd*s.jPartNd - fa*s.jPartNa
+	right = fd*(s.nd[m]*s.d[m]-s.jPartNd) - fa*(s.na[m]*s.d[m]-s.jPartNa)
+	return left, right
 }
 
 // junctionCharge returns the charge per area between edge k and the
@@ -150,113 +207,13 @@ func (s *Solver) junctionCharge(st *state, k int) float64 {
 	return -q
 }
 
-// depletion finds the depletion edges (see Depletion).
-func (s *Solver) depletion(n, p []float64) Depletion {
-	dep := Depletion{W: math.NaN(), XAnode: math.NaN(), XCathode: math.NaN()}
-	if s.jEdge < 0 {
-		return dep
-	}
-	zi := 0
-	if !s.anodeLeft {
-		zi = len(s.junctions) - 1
-	}
-	z := s.zones[zi]
-	dep.Junction = s.junctions[zi]
-	nn := len(s.x)
-	logRatio := func(i int) float64 {
-		h := 0.5 * math.Abs(s.c[i])
-		if h == 0 {
-			return math.Inf(1)
-		}
-		return math.Log((n[i] + p[i]) / h)
-	}
-	nearest := func(x float64) int {
-		best, bd := 0, math.Inf(1)
-		for i, v := range s.x {
-			if d := math.Abs(v - x); d < bd {
-				best, bd = i, d
-			}
-		}
-		return best
-	}
-	type edgeRes struct {
-		x                     float64
-		empty, reach, outside bool
-		node                  int // the undepleted node next to the edge
-	}
-	// edge searches one side from the zone limit start; dir is +1 when the
-	// contact of that side lies at larger x.
-	edge := func(start, jNode, dir int) edgeRes {
-		i := start
-		if logRatio(i) >= 0 {
-			// Walk toward the junction until the first depleted node.
-			for i != jNode {
-				nx := i - dir
-				if logRatio(nx) < 0 {
-					return edgeRes{x: interpEdge(s.x[i], s.x[nx], logRatio(i), logRatio(nx)), node: i}
-				}
-				i = nx
-			}
-			// No depleted node on this side (the side is thinner than a
-			// cell, or a carrier tail spills over the junction): the edge
-			// is the metallurgical junction itself.
-			return edgeRes{x: dep.Junction, empty: true, node: i}
-		}
-		// The zone limit is itself depleted: walk toward the contact.
-		for {
-			nx := i + dir
-			if nx < 0 || nx >= nn {
-				return edgeRes{x: s.x[i], reach: true, outside: true, node: i}
-			}
-			if logRatio(nx) >= 0 {
-				return edgeRes{x: interpEdge(s.x[nx], s.x[i], logRatio(nx), logRatio(i)), outside: true, node: nx}
-			}
-			i = nx
-		}
-	}
-	jNode := nearest(dep.Junction)
-	lo := edge(nearest(z.lo), jNode, -1)
-	hi := edge(nearest(z.hi), jNode, +1)
-	if lo.empty && hi.empty {
-		return dep
-	}
-	xl, xh, nl, nh := lo.x, hi.x, lo.node, hi.node
-	dep.Valid = true
-	if s.anodeLeft {
-		dep.XAnode, dep.XCathode = xl, xh
-	} else {
-		dep.XAnode, dep.XCathode = xh, xl
-	}
-	dep.W = math.Abs(xh - xl)
-	dep.ReachThrough = lo.reach || hi.reach
-	dep.OutsideZone = (lo.outside && !lo.reach) || (hi.outside && !hi.reach)
-	ratio := func(i int) float64 {
-		if s.c[i] > 0 {
-			return p[i] / n[i]
-		}
-		return n[i] / p[i]
-	}
-	dep.MinorityRatio = math.Max(ratio(nl), ratio(nh))
-	return dep
-}
-
-// interpEdge returns the position where the log-ratio, linear between an
-// undepleted point (xu, lu >= 0) and a depleted point (xd, ld < 0), is 0.
-func interpEdge(xu, xd, lu, ld float64) float64 {
-	if math.IsInf(lu, 1) {
-		return xu
-	}
-	t := lu / (lu - ld)
-	return xu + t*(xd-xu)
-}
-
 // summary returns the depletion width (m), terminal current density
 // (A/m^2) and dipole charge (C/m^2) of a state as result would, without
 // building the arrays (used by CV).
 func (s *Solver) summary(st *state, w *work) (width, current, charge float64) {
 	n, p := w.n, w.p
 	s.carriers(st, n, p)
-	width = s.depletion(n, p).W
+	width = s.depletion(st, n, p).W
 	peak, mean := 0.0, 0.0
 	for k := range s.h {
 		peak = absMax(peak, (st.psi[k+1]-st.psi[k])*s.vt/s.h[k])
@@ -292,8 +249,8 @@ func (s *Solver) result(st *state, w *work, iters int, upd, res float64) *Result
 		r.Ev[i] = vt * (-(st.psi[i] - s.theta[i]) - lnv)
 		r.Efn[i] = -vt * st.phin[i]
 		r.Efp[i] = -vt * (st.phip[i] + st.v)
-		r.NetDoping[i] = s.c[i]
-		r.Charge[i] = physics.Q * (p[i] - n[i] + s.c[i])
+		r.NetDoping[i], _, _ = s.ionised(i, st, n[i], p[i])
+		r.Charge[i] = physics.Q * (p[i] - n[i] + r.NetDoping[i])
 		r.Recombination[i], _, _, _ = s.recombination(i, st, n[i], p[i])
 	}
 	r.Field, r.Jn, r.Jp = make([]float64, nn-1), make([]float64, nn-1), make([]float64, nn-1)
@@ -321,23 +278,30 @@ func (s *Solver) result(st *state, w *work, iters int, upd, res float64) *Result
 		r.Current = -mean
 	}
 	r.Barrier = (st.psi[s.ic] - st.psi[s.ia]) * vt
-	r.JunctionCharge = s.eps * math.Max(r.PeakField, math.Abs(s.junctionField(st, n[s.jNode], p[s.jNode])))
-	r.Depletion = s.depletion(n, p)
+	// The edge fields live at the midpoints; the peak of a step junction
+	// sits at the metallurgical junction, half a cell away, where the
+	// field is reconstructed from the charge of the junction node's box
+	// (junctionField): without it the peak converges only as O(h).
+	if s.jEdge >= 0 {
+		r.PeakField = math.Max(r.PeakField, math.Abs(s.junctionField(st, n[s.jNode], p[s.jNode])))
+	}
+	r.JunctionCharge = s.eps * r.PeakField
+	r.Depletion = s.depletion(st, n, p)
 	r.Flags = append(r.Flags, s.flags...)
 	if r.CurrentSpread > 1e-6 {
 		r.Flags = append(r.Flags, physics.Flag{Code: FlagCurrentUnresolved, Quantities: []string{"current"},
 			Message: fmt.Sprintf("Jn + Jp varies by %.2g relative along the device: the current (%.3g A/m^2) is below what the solver resolves", r.CurrentSpread, r.Current)})
 	}
 	d := r.Depletion
+	if d.MinorityRatio > 0.1 {
+		r.Flags = append(r.Flags, physics.Flag{Code: FlagHighInjection, Quantities: []string{"current"},
+			Message: fmt.Sprintf("minority density %.3g of the majority density at a quasi-neutral edge: low-injection formulas do not apply", d.MinorityRatio)})
+	}
 	switch {
 	case !d.Valid:
 		r.Flags = append(r.Flags, physics.Flag{Code: FlagNoDepletion, Quantities: []string{"depletion width"},
-			Message: fmt.Sprintf("no depleted region (n + p < |N|/2) at %.4g V", r.Bias)})
+			Message: fmt.Sprintf("no depleted region (the space-charge width is below the Debye length of the lighter side) at %.4g V", r.Bias)})
 	default:
-		if d.MinorityRatio > 0.1 {
-			r.Flags = append(r.Flags, physics.Flag{Code: FlagHighInjection, Quantities: []string{"current"},
-				Message: fmt.Sprintf("minority density %.3g of the majority density at a depletion edge: low-injection formulas do not apply", d.MinorityRatio)})
-		}
 		if d.ReachThrough {
 			r.Flags = append(r.Flags, physics.Flag{Code: FlagReachThrough, Quantities: []string{"depletion width", "capacitance"},
 				Message: "the depletion region reaches a contact"})

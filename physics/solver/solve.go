@@ -11,9 +11,7 @@ import (
 // asinh(N / (2 n_ie)).
 func (s *Solver) solveEquilibrium() (*state, *Result, error) {
 	st := s.newState(0)
-	for i := range st.psi {
-		st.psi[i] = math.Asinh(s.c[i] / (2 * math.Exp(s.lnNie[i])))
-	}
+	copy(st.psi, s.psiNeutral)
 	s.applyContacts(st)
 	w := s.newWork()
 	it, upd, res, err := s.poisson(st, w, s.opt.Tolerance, 60+s.opt.MaxIterations)
@@ -286,6 +284,10 @@ type CVPoint struct {
 	Width float64
 	// Current is the terminal current density, A/m^2 (mean).
 	Current float64
+	// Mode says whether the dopant occupation followed the signal
+	// (low-frequency) or was frozen (high-frequency); without
+	// Device.Occupation the two are the same.
+	Mode CVMode
 }
 
 // CV computes the capacitance at each bias (V) in order, by continuation,
@@ -319,13 +321,49 @@ func (s *Solver) CV(ctx context.Context, biases []float64, progress ProgressFunc
 			}
 			q[k] = s.junctionCharge(tr.cur, plane)
 			wd[k], cur[k], qd[k] = s.summary(tr.cur, tr.w)
+			if k == 0 && s.opt.CVMode == CVHighFrequency && s.occ != nil {
+				// Frozen occupation: the second point is solved from this
+				// one with the ionised doping held at its present value.
+				g, err := s.frozenStep(ctx, tr, (v+dv/2)/s.vt)
+				if cerr := ctx.Err(); cerr != nil {
+					return out, cerr
+				}
+				if err != nil {
+					return out, &ConvergenceError{Stage: "high-frequency capacitance", Bias: v + dv/2, Reached: tr.cur.v * s.vt,
+						Step: dv, Reason: err.Error()}
+				}
+				q[1] = s.junctionCharge(g, plane)
+				wd[1], cur[1], qd[1] = s.summary(g, tr.w)
+				break
+			}
 		}
 		p := CVPoint{Bias: v, Capacitance: -(q[1] - q[0]) / dv, Charge: 0.5 * (qd[0] + qd[1]),
-			Width: 0.5 * (wd[0] + wd[1]), Current: 0.5 * (cur[0] + cur[1])}
+			Width: 0.5 * (wd[0] + wd[1]), Current: 0.5 * (cur[0] + cur[1]), Mode: s.opt.CVMode}
 		out = append(out, p)
 		if progress != nil {
 			progress(Progress{Done: i + 1, Total: len(biases), Bias: v, Current: p.Capacitance})
 		}
 	}
 	return out, nil
+}
+
+// frozenStep returns the solution at bias v (kT/q) reached by one Newton
+// solve from the tracker's present state with the ionised doping frozen
+// at that state's values; the tracker itself is not moved.
+func (s *Solver) frozenStep(ctx context.Context, tr *tracker, v float64) (*state, error) {
+	tr.w.ctx = ctx
+	defer func() { tr.w.ctx = nil }()
+	g := tr.cur.clone()
+	n, p := tr.w.n, tr.w.p
+	s.carriers(g, n, p)
+	g.fix = make([]float64, len(g.psi))
+	for i := range g.fix {
+		g.fix[i], _, _ = s.ionised(i, nil, n[i], p[i])
+	}
+	g.v = v
+	s.applyContacts(g)
+	if _, _, _, err := s.newton(g, tr.w); err != nil {
+		return nil, err
+	}
+	return g, nil
 }
