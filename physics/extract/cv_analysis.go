@@ -127,7 +127,7 @@ func AnalyzeCV(v, c []float64, opt CVAnalysisOptions) (*CVAnalysis, error) {
 	a.GradingCoefficient = quantity(p.GradingCoefficient, se.GradingCoefficient, st.Grading)
 	a.ParasiticCapacitanceF = quantity(p.ParasiticCapacitanceF, se.ParasiticCapacitanceF, st.Parasitic)
 	if !jf.Converged {
-		a.Notes = append(a.Notes, fmt.Sprintf("the junction fit did not converge in %d iterations: no parameter is determined", jf.Iterations))
+		a.Notes = append(a.Notes, "the junction fit did not converge (iteration limit reached): no parameter is determined")
 	}
 
 	// The Mott-Schottky line of C - Cpar (m = 1/2).
@@ -164,7 +164,7 @@ func AnalyzeCV(v, c []float64, opt CVAnalysisOptions) (*CVAnalysis, error) {
 
 	a.DopingM3 = a.doping(opt, haveArea)
 	if a.DopingM3.Determined && a.Line != nil && a.Line.Flagged {
-		a.DopingM3.Reason = "reported, but the Mott-Schottky line is flagged: the doping is an average over a non-uniform profile"
+		a.Notes = append(a.Notes, "the doping is reported because m is near 1/2, but the Mott-Schottky line is flagged: it is an average over a non-uniform profile")
 	}
 
 	if opt.ProfileHalfWindow > 0 {

@@ -250,11 +250,10 @@ func TestAnalyzeCVProfileCorrected(t *testing.T) {
 
 // Item 6: a sweep far from the built-in potential (-20 to -15 V) with Cpar
 // free cannot pin Vbi or m down; the result says so with a reason and
-// withholds the doping. A sweep over 0.5 V at 1 % noise runs Vbi to its
-// bound.
+// withholds the doping. The two narrow sweeps run Vbi to its upper bound.
 func TestAnalyzeCVNotDetermined(t *testing.T) {
 	j := JunctionCV{30e-12, 0.8, 0.5, 5e-12} // Sze & Ng 2007, sec. 2.2 form
-	for _, r := range []struct{ v0, v1, rel float64 }{{-20, -15, 0.005}, {-3, -2.5, 0.01}, {-20, -18, 0.001}} {
+	for i, r := range []struct{ v0, v1, rel float64 }{{-20, -15, 0.005}, {-3, -2.5, 0.01}, {-20, -18, 0.001}} {
 		rng := rand.New(rand.NewPCG(3, 3))
 		v, c := cvSweep(j.Capacitance, r.v0, r.v1, 40, r.rel, 0, rng)
 		a, err := AnalyzeCV(v, c, CVAnalysisOptions{Geometry: cvGeom})
@@ -265,6 +264,9 @@ func TestAnalyzeCVNotDetermined(t *testing.T) {
 			if q.Determined || q.Reason == "" {
 				t.Errorf("%g..%g V: %s = %+v must be not determined, with a reason", r.v0, r.v1, name, q)
 			}
+		}
+		if i > 0 && !strings.Contains(a.BuiltInPotentialV.Reason, "upper bound") {
+			t.Errorf("%g..%g V: Vbi reason %q, want the upper bound", r.v0, r.v1, a.BuiltInPotentialV.Reason)
 		}
 	}
 }
@@ -347,4 +349,46 @@ func TestAnalyzeCVCalibration(t *testing.T) {
 	if frac < 0.85 || worst > 5 {
 		t.Errorf("|z| <= 2 for %.0f %% of Vbi and m, worst |z| %.2f", 100*frac, worst)
 	}
+}
+
+// Forward bias beyond the depletion region: a diffusion capacitance
+// tau I/Vt = C1 exp(V/Vt) (Sze & Ng 2007, sec. 2.3; from memory) rises on
+// top of the junction capacitance above 0.5 V. Fitted up to 0.7 V, the
+// junction fit runs Vbi to the largest bias and says so; restricted to the
+// depletion biases it recovers Vbi.
+func TestAnalyzeCVForwardDiffusion(t *testing.T) {
+	j := JunctionCV{30e-12, 0.8, 0.5, 2e-12}
+	vt := physics.ThermalVoltage(300)
+	rng := rand.New(rand.NewPCG(1, 1))
+	v, c := cvSweep(func(x float64) float64 { return j.Capacitance(x) + 5e-12*math.Exp((x-0.5)/vt) }, -5, 0.7, 60, 0.002, 0, rng)
+	a, err := AnalyzeCV(v, c, CVAnalysisOptions{Fit: CVOptions{NoiseRel: 0.002}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if b := a.BuiltInPotentialV; b.Determined || !strings.Contains(b.Reason, "narrow the window") {
+		t.Errorf("forward data: Vbi %+v must be not determined (bound)", b)
+	}
+	a, err = AnalyzeCV(v, c, CVAnalysisOptions{Fit: CVOptions{NoiseRel: 0.002, Window: Window{MinV: -5, MaxV: 0.3}}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	checkRecovered(t, "window to 0.3 V", a, 0.8, 0.5, 0)
+}
+
+// BenchmarkAnalyzeCV times the whole analysis of a 61-point sweep with
+// 5 pF of fixture capacitance (two junction fits of three starts each, and
+// the profile).
+func BenchmarkAnalyzeCV(b *testing.B) {
+	j := JunctionCV{30e-12, 0.8, 0.5, 5e-12}
+	v, c := cvSweep(j.Capacitance, -10, 0.3, 60, 0.002, 0, rand.New(rand.NewPCG(1, 2)))
+	b.ReportAllocs()
+	var sink *CVAnalysis
+	for i := 0; i < b.N; i++ {
+		a, err := AnalyzeCV(v, c, CVAnalysisOptions{Geometry: cvGeom, Fit: CVOptions{NoiseRel: 0.002}, ProfileHalfWindow: 2})
+		if err != nil {
+			b.Fatal(err)
+		}
+		sink = a
+	}
+	_ = sink
 }

@@ -261,7 +261,7 @@ func junctionStatus(f *CVFit, opt CVOptions, vmax, cmin float64, singular bool) 
 	free := func(val, s float64, unit string, bound func() string) ParamStatus {
 		var why []string
 		if !f.Converged {
-			why = append(why, fmt.Sprintf("the fit did not converge in %d iterations", f.Iterations))
+			why = append(why, "the fit did not converge (iteration limit reached)")
 		}
 		if b := bound(); b != "" {
 			why = append(why, b)
@@ -285,7 +285,7 @@ func junctionStatus(f *CVFit, opt CVOptions, vmax, cmin float64, singular bool) 
 			case p.BuiltInPotentialV >= 0.99*CVMaxBuiltInV:
 				return fmt.Sprintf("the fit ran to the upper bound Vbi = %g V", CVMaxBuiltInV)
 			case p.BuiltInPotentialV-math.Max(vmax, 0) < 1e-3:
-				return fmt.Sprintf("the fit ran to the lower bound, the largest bias in the data or 0 V (%.4g V)", math.Max(vmax, 0))
+				return fmt.Sprintf("the fit ran to the lower bound, the largest bias in the data or 0 V (%.4g V): forward points beyond the depletion region (diffusion capacitance) pull it there; narrow the window", math.Max(vmax, 0))
 			}
 			return ""
 		}),
