@@ -96,7 +96,9 @@ type CVAnalysis struct {
 //     follows from the covariance of (ln Cj0, ln Vbi) by the delta method,
 //     ln N = const - 2 ln Cj0 - ln Vbi, so it includes the uncertainty of
 //     Cpar;
-//  4. optionally, the differential doping profile of C - Cpar.
+//  4. optionally, the differential doping profile of C - Cpar, with the
+//     line's Cpar when the doping is reported (m consistent with 1/2),
+//     else the junction fit's.
 //
 // Units: v in V (forward positive), c in F, doping in m^-3 with SI
 // geometry. Errors: those of FitJunctionCV, and an invalid Geometry when
@@ -172,9 +174,15 @@ func AnalyzeCV(v, c []float64, opt CVAnalysisOptions) (*CVAnalysis, error) {
 		case !haveArea:
 			a.Notes = append(a.Notes, "doping profile: no area given")
 		default:
+			// With m consistent with 1/2 the line's Cpar (m held) is the
+			// better-determined estimate; otherwise the junction fit's.
+			cpar, det := p.ParasiticCapacitanceF, a.ParasiticCapacitanceF.Determined
+			if a.DopingM3.Determined {
+				cpar, det = a.Line.ParasiticF, a.Line.Fit.Status.Parasitic.Determined
+			}
 			cc := make([]float64, len(c))
 			for k := range c {
-				cc[k] = c[k] - p.ParasiticCapacitanceF
+				cc[k] = c[k] - cpar
 			}
 			vv, cw := windowed(v, cc, opt.Fit.Window)
 			prof, err := DopingProfile(vv, cw, opt.Geometry, opt.ProfileHalfWindow)
@@ -182,7 +190,7 @@ func AnalyzeCV(v, c []float64, opt CVAnalysisOptions) (*CVAnalysis, error) {
 				a.Notes = append(a.Notes, "doping profile failed: "+err.Error())
 			}
 			a.Profile = prof
-			if !a.ParasiticCapacitanceF.Determined {
+			if !det {
 				a.Notes = append(a.Notes, "doping profile: Cpar is not determined, so the profile of C - Cpar is uncertain")
 			}
 			if !a.DopingM3.Determined {
