@@ -1,6 +1,7 @@
 package fit
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -48,6 +49,11 @@ func (r *CVResult) HasArea() bool { return r.Geometry.AreaM2 > 0 }
 // the fit's bounds; an unknown material and a failed junction fit are
 // errors.
 func CV(ds *measure.DataSet, opt CVOptions) (*CVResult, error) {
+	return CVContext(context.Background(), ds, opt)
+}
+
+// CVContext is CV that stops, with ctx's error, when ctx is done.
+func CVContext(ctx context.Context, ds *measure.DataSet, opt CVOptions) (*CVResult, error) {
 	if ds == nil || ds.Kind != measure.KindCV || len(ds.CapacitanceF) != len(ds.VoltageV) {
 		return nil, errors.New("the data set is not a C-V sweep")
 	}
@@ -70,7 +76,7 @@ func CV(ds *measure.DataSet, opt CVOptions) (*CVResult, error) {
 	if opt.Parasitic != nil {
 		ao.Fit.FixParasitic, ao.Fit.ParasiticF = true, *opt.Parasitic
 	}
-	a, err := extract.AnalyzeCV(ds.VoltageV, ds.CapacitanceF, ao)
+	a, err := extract.AnalyzeCVContext(ctx, ds.VoltageV, ds.CapacitanceF, ao)
 	if err != nil {
 		return nil, fmt.Errorf("junction-capacitance fit: %w", err)
 	}

@@ -1,6 +1,7 @@
 package extract
 
 import (
+	"context"
 	"fmt"
 	"math"
 )
@@ -109,6 +110,12 @@ type CVAnalysis struct {
 // Schroder, Semiconductor Material and Device Characterization, 3rd ed.
 // (2006), ch. 2 (profiling; parasitic capacitance must be removed first).
 func AnalyzeCV(v, c []float64, opt CVAnalysisOptions) (*CVAnalysis, error) {
+	return AnalyzeCVContext(context.Background(), v, c, opt)
+}
+
+// AnalyzeCVContext is AnalyzeCV with cancellation (see
+// FitJunctionCVContext): a cancelled analysis returns ctx.Err() (wrapped).
+func AnalyzeCVContext(ctx context.Context, v, c []float64, opt CVAnalysisOptions) (*CVAnalysis, error) {
 	haveArea := opt.Geometry != (CVGeometry{})
 	if haveArea {
 		if _, err := opt.Geometry.check(); err != nil {
@@ -118,7 +125,7 @@ func AnalyzeCV(v, c []float64, opt CVAnalysisOptions) (*CVAnalysis, error) {
 	if opt.ProfileHalfWindow < 0 {
 		return nil, inputErr("ProfileHalfWindow", opt.ProfileHalfWindow, "0 (no profile) or 1..1000 points", "the derivative window of the doping profile")
 	}
-	jf, err := FitJunctionCV(v, c, opt.Fit)
+	jf, err := FitJunctionCVContext(ctx, v, c, opt.Fit)
 	if err != nil {
 		return nil, err
 	}
@@ -137,7 +144,10 @@ func AnalyzeCV(v, c []float64, opt CVAnalysisOptions) (*CVAnalysis, error) {
 	if !(opt.Fit.FixGrading && opt.Fit.Grading == 0.5) {
 		lo := opt.Fit
 		lo.FixGrading, lo.Grading = true, 0.5
-		lf, err = FitJunctionCV(v, c, lo)
+		lf, err = FitJunctionCVContext(ctx, v, c, lo)
+		if cerr := ctx.Err(); cerr != nil {
+			return nil, fmt.Errorf("Mott-Schottky line: %w", cerr)
+		}
 		if err != nil {
 			lf = nil
 			a.Notes = append(a.Notes, "Mott-Schottky line (m = 1/2) failed: "+err.Error())

@@ -1,11 +1,13 @@
 package extract
 
 import (
+	"context"
 	"errors"
 	"math"
 	"math/rand/v2"
 	"strings"
 	"testing"
+	"time"
 
 	"junco/physics"
 )
@@ -391,4 +393,22 @@ func BenchmarkAnalyzeCV(b *testing.B) {
 		sink = a
 	}
 	_ = sink
+}
+
+// A cancelled context stops the analysis with the context's error, before
+// and during the fits (a 200 000-point sweep takes long enough to cancel
+// part-way).
+func TestAnalyzeCVCancel(t *testing.T) {
+	j := JunctionCV{30e-12, 0.8, 0.5, 5e-12}
+	v, c := cvSweep(j.Capacitance, -10, 0.3, 200000, 0.002, 0, rand.New(rand.NewPCG(1, 3)))
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	if _, err := AnalyzeCVContext(ctx, v, c, CVAnalysisOptions{}); !errors.Is(err, context.Canceled) {
+		t.Errorf("cancelled before: %v", err)
+	}
+	ctx, cancel = context.WithTimeout(context.Background(), 5*time.Millisecond)
+	defer cancel()
+	if _, err := AnalyzeCVContext(ctx, v, c, CVAnalysisOptions{}); !errors.Is(err, context.DeadlineExceeded) {
+		t.Errorf("cancelled part-way: %v", err)
+	}
 }

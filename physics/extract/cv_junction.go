@@ -96,6 +96,14 @@ type CVFit struct {
 // power law is the SPICE junction-capacitance form (CJO, VJ, M), common
 // practice; fitting method as FitIV.
 func FitJunctionCV(v, c []float64, opt CVOptions) (*CVFit, error) {
+	return FitJunctionCVContext(context.Background(), v, c, opt)
+}
+
+// FitJunctionCVContext is FitJunctionCV with cancellation: the start grid
+// and every model evaluation check ctx, so a cancelled fit returns
+// ctx.Err() (wrapped; test with errors.Is) promptly whatever the number of
+// points.
+func FitJunctionCVContext(ctx context.Context, v, c []float64, opt CVOptions) (*CVFit, error) {
 	if len(v) != len(c) {
 		return nil, inputErr("capacitance", fmt.Sprintf("%d values", len(c)), fmt.Sprintf("%d values", len(v)), "one capacitance per voltage")
 	}
@@ -146,7 +154,10 @@ func FitJunctionCV(v, c []float64, opt CVOptions) (*CVFit, error) {
 	if vmax >= CVMaxBuiltInV {
 		return nil, inputErr("voltage", fmt.Sprintf("%g V (largest bias)", vmax), fmt.Sprintf("below %g V", CVMaxBuiltInV), "depletion capacitance exists only below the built-in potential; narrow the window")
 	}
-	starts := cvStarts(xs, ys, sig, vmax, opt)
+	starts, err := cvStarts(ctx, xs, ys, sig, vmax, opt)
+	if err != nil {
+		return nil, fmt.Errorf("junction C-V fit: %w", err)
+	}
 	freeM, freeP := !opt.FixGrading, !opt.FixParasitic
 	names := []string{"Cj0", "Vbi"}
 	if freeM {
@@ -178,6 +189,9 @@ func FitJunctionCV(v, c []float64, opt CVOptions) (*CVFit, error) {
 			return false
 		}
 		for n := range xs {
+			if n&(cancelCheckEvery-1) == 0 && ctx.Err() != nil {
+				return false
+			}
 			u := 1 - xs[n]/j.BuiltInPotentialV
 			if !(u > 0) {
 				return false
@@ -211,7 +225,10 @@ func FitJunctionCV(v, c []float64, opt CVOptions) (*CVFit, error) {
 		if freeP {
 			th = append(th, s.ParasiticCapacitanceF/cs)
 		}
-		r, err := levenberg(context.Background(), lmProblem{m: len(xs), p: p, eval: eval}, th, 300)
+		r, err := levenberg(ctx, lmProblem{m: len(xs), p: p, eval: eval}, th, 300)
+		if cerr := ctx.Err(); cerr != nil {
+			return nil, fmt.Errorf("junction C-V fit: %w", cerr)
+		}
 		if err != nil {
 			lastErr = err
 			continue
@@ -321,7 +338,7 @@ func junctionStatus(f *CVFit, opt CVOptions, vmax, cmin float64, singular bool) 
 
 // cvStarts returns up to three start points for FitJunctionCV, the best of
 // a grid over (Vbi, m) with (Cj0, Cpar) solved linearly at each node.
-func cvStarts(xs, ys, sig []float64, vmax float64, opt CVOptions) []JunctionCV {
+func cvStarts(ctx context.Context, xs, ys, sig []float64, vmax float64, opt CVOptions) ([]JunctionCV, error) {
 	vbis := []float64{0.3, 0.5, 0.7, 0.9, 1.2, 1.6, 2.2, 3.0, 4.0, 5.5}
 	for _, d := range []float64{0.02, 0.05, 0.1, 0.2, 0.4} {
 		vbis = append(vbis, vmax+d)
@@ -343,6 +360,9 @@ func cvStarts(xs, ys, sig []float64, vmax float64, opt CVOptions) []JunctionCV {
 			continue
 		}
 		for _, m := range ms {
+			if err := ctx.Err(); err != nil {
+				return nil, err
+			}
 			j, cost := linearCj(xs, ys, sig, vb, m, opt)
 			if j.ZeroBiasCapacitanceF > 0 && !math.IsInf(cost, 0) && !math.IsNaN(cost) {
 				nodes = append(nodes, node{j, cost})
@@ -367,7 +387,7 @@ func cvStarts(xs, ys, sig []float64, vmax float64, opt CVOptions) []JunctionCV {
 		}
 		out = append(out, j)
 	}
-	return out
+	return out, nil
 }
 
 // linearCj solves the weighted linear least-squares problem for (Cj0, Cpar)

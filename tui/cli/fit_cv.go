@@ -171,7 +171,7 @@ func fitRunCV(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 		fmt.Fprintf(stderr, "junco fit cv: %v\n", err)
 		return fitExitCode(err)
 	}
-	res, err := fit.CV(ds, opt)
+	res, err := fit.CVContext(ctx, ds, opt)
 	if err != nil {
 		fmt.Fprintf(stderr, "junco fit cv: %s: %v\n", path, err)
 		return fitExitCode(err)
