@@ -3,6 +3,7 @@ package tui
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
@@ -186,9 +187,9 @@ func (m *Model) renderCVFit() {
 	if !m.e.ascii {
 		dotMark = "•"
 	}
-	items := []string{st.series[1].Paint(dotMark) + " measured 1/C²"}
+	items := []string{st.series[1].Paint(dotMark) + " measured 1/(C − Cpar)²"}
 	if m.e.ascii {
-		items[0] = st.series[1].Paint(dotMark) + " measured 1/C^2"
+		items[0] = st.series[1].Paint(dotMark) + " measured 1/(C - Cpar)^2"
 	}
 	type src struct {
 		xs, ys []float64
@@ -236,7 +237,7 @@ func (m *Model) renderCVFit() {
 		}
 		lines = append(lines, ln)
 	}
-	f.yTitle = fmt.Sprintf("1/C^2 (1e%d F^-2)", exp)
+	f.yTitle = fmt.Sprintf("1/(C - Cpar)^2 (1e%d F^-2)", exp)
 	f.plot = renderPlot(lines, xs, ys, cw, ph, m.e)
 }
 
@@ -258,14 +259,20 @@ func (m Model) cvFitTable(w int, compact bool) []string {
 	if m.e.ascii {
 		pm = "+/-"
 	}
-	out = append(out, st.strong.Paint(cut("Mott-Schottky, one-sided abrupt", w, g.ellipsis)))
+	out = append(out, st.strong.Paint(cut("C = Cj0/(1 - V/Vbi)^m + Cpar", w, g.ellipsis)))
 	var pair string
+	var why []string
 	for i, r := range v.Rows {
-		if i == 2 && !compact {
-			out = append(out, st.strong.Paint(cut("C = Cj0/(1 - V/Vj)^m + Cpar", w, g.ellipsis)))
+		if i == 4 && !compact {
+			out = append(out, st.strong.Paint(cut("Mott-Schottky line of C - Cpar (m = 1/2)", w, g.ellipsis)))
 		}
 		l := fmt.Sprintf("  %-4s %-12s %s %s", r.Name, r.Value, pm, r.StdErr)
-		if r.Remark != "" {
+		switch {
+		case r.Value == "" && strings.HasPrefix(r.Remark, "not determined"):
+			// The data do not pin it down: no number, the reason below.
+			l = fmt.Sprintf("  %-4s not determined", r.Name)
+			why = append(why, r.Name+": "+strings.TrimPrefix(r.Remark, "not determined: "))
+		case r.Remark != "":
 			l = fmt.Sprintf("  %-4s %-12s %s", r.Name, r.Value, r.Remark)
 		}
 		if compact {
@@ -280,17 +287,24 @@ func (m Model) cvFitTable(w int, compact bool) []string {
 		}
 		out = append(out, cut(l, w, g.ellipsis))
 	}
-	r := v.MottSchottky
-	win := fmt.Sprintf("  %d points, window used %s to %s", r.Points,
-		model.Format(model.Voltage, r.UsedWindow.MinV, 4, m.e.ascii), model.Format(model.Voltage, r.UsedWindow.MaxV, 4, m.e.ascii))
+	j := v.Analysis.Junction
+	win := fmt.Sprintf("  %d points, window used %s to %s", j.Points,
+		model.Format(model.Voltage, j.UsedWindow.MinV, 4, m.e.ascii), model.Format(model.Voltage, j.UsedWindow.MaxV, 4, m.e.ascii))
 	out = append(out, cut(win, w, g.ellipsis),
-		cut(fmt.Sprintf("  RMS relative residual %.4f", r.RMSRelResidual), w, g.ellipsis))
-	if v.JunctionNote != "" {
-		out = append(out, wrapped(v.JunctionNote, w, st.muted, "  ")...)
+		cut(fmt.Sprintf("  RMS relative residual %.4f", j.RMSRelResidual), w, g.ellipsis))
+	for _, x := range why {
+		out = append(out, wrapped(x, w, st.muted, "  ")...)
 	}
 	if !compact {
-		out = append(out, wrapped(fmt.Sprintf("N is the lightly doped side's doping, from the area %s and the permittivity of %s.",
-			model.Format(model.Area, v.AreaM2, 4, m.e.ascii), v.Material), w, st.muted, "  ")...)
+		for _, n := range v.Analysis.Notes {
+			out = append(out, wrapped(n, w, st.muted, "  ")...)
+		}
+		if v.AreaM2 > 0 {
+			out = append(out, wrapped(fmt.Sprintf("N is the lightly doped side's doping, from the area %s and the permittivity of %s.",
+				model.Format(model.Area, v.AreaM2, 4, m.e.ascii), v.Material), w, st.muted, "  ")...)
+		} else {
+			out = append(out, wrapped("No doping: the junction has no area set.", w, st.muted, "  ")...)
+		}
 	}
 	if v.PredictionErr != "" {
 		out = append(out, wrapped("no prediction: "+v.PredictionErr, w, st.muted, "  ")...)

@@ -75,32 +75,30 @@ func TestCVFitRoundTrip(t *testing.T) {
 		if m.screen != screenCVFit || m.cvfit.view == nil {
 			t.Fatalf("%v: f must add and show the C-V fit: %q\n%s", size, m.cvfit.err, plain(m))
 		}
-		ms := m.cvfit.view.MottSchottky
-		if r := ms.DopingM3 / s.DonorDensity; math.Abs(r-1) > 0.05 {
-			t.Errorf("%v: doping %g, want %g (ratio %.4f)", size, ms.DopingM3, s.DonorDensity, r)
+		an := m.cvfit.view.Analysis
+		n, b := an.DopingM3, an.BuiltInPotentialV
+		if r := n.Value / s.DonorDensity; !n.Determined || math.Abs(r-1) > 0.05 {
+			t.Errorf("%v: doping %+v, want %g (ratio %.4f)", size, n, s.DonorDensity, r)
 		}
-		if d := ms.BuiltInV - vbi; math.Abs(d) > 0.05 {
-			t.Errorf("%v: Vbi %.4f V, want %.4f V", size, ms.BuiltInV, vbi)
+		if d := b.Value - vbi; !b.Determined || math.Abs(d) > 0.05 {
+			t.Errorf("%v: Vbi %+v, want %.4f V", size, b, vbi)
 		}
-		if !(ms.StdErrM3 > 0) || !(ms.StdErrV > 0) {
-			t.Errorf("%v: standard errors %g %g", size, ms.StdErrM3, ms.StdErrV)
+		if !(n.StdErr > 0) || !(b.StdErr > 0) {
+			t.Errorf("%v: standard errors %g %g", size, n.StdErr, b.StdErr)
 		}
 		v := plain(m)
-		for _, want := range []string{"C-V fit cv-1", "Vbi", "N ", "cm^-3", "measured 1/C", "Mott-Schottky line", "prediction", "1/C^2 (1e", "window"} {
+		for _, want := range []string{"C-V fit cv-1", "Vbi", "N ", "cm^-3", "Cj0", "Cpar", "measured 1/(C", "Mott-Schottky line", "prediction", "1/(C - Cpar)^2 (1e", "window"} {
 			if !strings.Contains(v, want) {
 				t.Errorf("%v: the C-V screen lacks %q:\n%s", size, want, v)
 			}
 		}
-		if m.cvfit.view.Junction != nil && !strings.Contains(v, "Cj0") {
-			t.Errorf("%v: the general fit converged but is not shown:\n%s", size, v)
-		}
 		// A window narrows the points used; a bad one is refused.
-		before := ms.Points
+		before := an.Junction.Points
 		m = press(m, "ctrl+u")
 		m.cvfit.eds[0].set("-3")
 		m.cvfit.eds[1].set("-1")
 		m = press(m, "enter")
-		if m.cvfit.view == nil || m.cvfit.view.MottSchottky.Points >= before {
+		if m.cvfit.view == nil || m.cvfit.view.Analysis.Junction.Points >= before {
 			t.Fatalf("%v: window not applied: %+v %q", size, m.cvfit.win, m.cvfit.err)
 		}
 		m.cvfit.eds[1].set("-4")
@@ -116,9 +114,9 @@ func TestCVFitRoundTrip(t *testing.T) {
 }
 
 // ctrl+k keeps the C-V fit as the command line stores it (fit.CVRecords):
-// a Mott-Schottky extraction (Vbi, N) and, when the junction fit
-// converged, a junction-capacitance extraction (Cj0, Vbi, m, Cpar); the
-// document validates.
+// the junction-capacitance extraction (Cj0, Vbi, m, Cpar), the headline,
+// and the Mott-Schottky extraction of C - Cpar (Vbi, N); the document
+// validates.
 func TestKeepCVFit(t *testing.T) {
 	st := newStore(t, "alice")
 	m := start(New(opts(st, "alice", 120, 40)))
@@ -134,21 +132,16 @@ func TestKeepCVFit(t *testing.T) {
 		t.Fatalf("pgdn must reach the C-V data set: %q\n%s", m.cvfit.err, plain(m))
 	}
 	m = press(m, "ctrl+k")
-	want := 1
-	if m.cvfit.view.Junction != nil {
-		want = 2
-	}
+	want := 2
 	if len(m.sess.extr) != want || !m.Dirty() {
 		t.Fatalf("kept %d fits (want %d), dirty %v", len(m.sess.extr), want, m.Dirty())
 	}
-	if want == 2 {
-		j := m.sess.extr[1]
-		if j.Method != "cv-junction-capacitance" || len(j.Parameters) != 4 || j.Parameters[1].Name != "Vbi" || j.ID == m.sess.extr[0].ID {
-			t.Errorf("junction extraction %+v", j)
-		}
+	j := m.sess.extr[0]
+	if j.Method != "cv-junction-capacitance" || !strings.HasPrefix(j.Measurement, "cv-") || len(j.Parameters) != 4 || j.Parameters[1].Name != "Vbi" || j.ID == m.sess.extr[1].ID {
+		t.Errorf("junction extraction %+v", j)
 	}
-	x := m.sess.extr[0]
-	if x.Method != "mott-schottky" || !strings.HasPrefix(x.Measurement, "cv-") || len(x.Parameters) < 2 ||
+	x := m.sess.extr[1]
+	if x.Method != "mott-schottky" || len(x.Parameters) < 2 ||
 		x.Parameters[0].Name != "Vbi" || x.Parameters[1].Name != "N" || x.Parameters[1].StdError == nil {
 		t.Fatalf("extraction %+v", x)
 	}

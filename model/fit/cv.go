@@ -1,46 +1,59 @@
 package fit
 
 import (
+	"context"
 	"errors"
 	"fmt"
+	"math"
 
 	"junco/model/measure"
 	"junco/physics"
 	"junco/physics/extract"
 )
 
-// ErrNotConverged marks a junction-capacitance fit that did not converge
-// (its numbers are not reported).
-var ErrNotConverged = errors.New("the junction-capacitance fit did not converge")
-
-// CVOptions configures a C-V analysis: the bias window (zero: every
-// point), the junction area in m^2 and the material (its permittivity
-// turns the Mott-Schottky slope into a doping).
+// CVOptions configures a C-V analysis (extract.AnalyzeCV).
 type CVOptions struct {
-	Window   extract.Window
+	Window extract.Window // bias window; zero = every point
+	// AreaM2 is the junction area in m^2; 0 = none given. Cj0, Vbi, m
+	// and Cpar need no area; the doping and the profile do.
 	AreaM2   float64
-	Material string
+	Material string // its permittivity turns the slope into a doping
+	// Grading and Parasitic, when not nil, hold m or Cpar (F) at the
+	// value given instead of fitting it.
+	Grading, Parasitic *float64
+	// ProfileHalfWindow > 0 asks for the differential doping profile of
+	// C - Cpar over 2 ProfileHalfWindow + 1 points; 0 = none.
+	ProfileHalfWindow int
 }
 
-// CVResult is the C-V analysis of one data set: the Mott-Schottky line
-// (built-in potential and doping of the lightly doped side, for a
-// one-sided abrupt junction) and the junction-capacitance fit
-// C = Cj0/(1 - V/Vbi)^m + Cpar when it converged (Junction nil otherwise,
-// JunctionErr and a note say why).
+// CVResult is the C-V analysis of one data set. The headline is the
+// junction fit C = Cj0/(1 - V/Vbi)^m + Cpar (Analysis.BuiltInPotentialV
+// etc., each with whether the data determine it); the doping comes from
+// the Mott-Schottky line of C - Cpar only when m is consistent with 1/2
+// and an area is given.
 type CVResult struct {
-	DataSet      *measure.DataSet
-	Material     *physics.Material
-	Geometry     extract.CVGeometry
-	MottSchottky *extract.MottSchottkyResult
-	Junction     *extract.CVFit
-	JunctionErr  error
-	Notes        []string
+	DataSet  *measure.DataSet
+	Material *physics.Material
+	// Geometry has AreaM2 = 0 when no area was given.
+	Geometry extract.CVGeometry
+	Analysis *extract.CVAnalysis
+	Notes    []string
 }
 
-// CV analyses a C-V data set. An area that is not a positive finite number
-// below 1 m^2, an unknown material and a failed Mott-Schottky line are
-// errors; a failed junction fit is a note.
+// HasArea reports whether an area was given (so the doping could be
+// derived).
+func (r *CVResult) HasArea() bool { return r.Geometry.AreaM2 > 0 }
+
+// CV analyses a C-V data set with extract.AnalyzeCV. An area that is
+// given must be positive, finite and below 1 m^2; a held m must lie within
+// the fit's bounds; an unknown material and a failed junction fit are
+// errors.
 func CV(ds *measure.DataSet, opt CVOptions) (*CVResult, error) {
+	return CVContext(context.Background(), ds, opt)
+}
+
+// CVContext is CV that stops, with ctx's error, when ctx is done.
+func CVContext(ctx context.Context, ds *measure.DataSet, opt CVOptions) (*CVResult, error) {
 	if ds == nil || ds.Kind != measure.KindCV || len(ds.CapacitanceF) != len(ds.VoltageV) {
 		return nil, errors.New("the data set is not a C-V sweep")
 	}
@@ -48,51 +61,72 @@ func CV(ds *measure.DataSet, opt CVOptions) (*CVResult, error) {
 	if err != nil {
 		return nil, fmt.Errorf("material: %w", err)
 	}
-	if !(opt.AreaM2 > 0 && opt.AreaM2 < 1) {
-		return nil, fmt.Errorf("area %g m^2: allowed above 0 and below 1 m^2 (the doping follows from C per unit area)", opt.AreaM2)
+	if opt.AreaM2 != 0 && !(opt.AreaM2 > 0 && opt.AreaM2 < 1) {
+		return nil, fmt.Errorf("area %g m^2: allowed above 0 and below 1 m^2 (the doping follows from C per unit area), or none", opt.AreaM2)
 	}
-	g := extract.CVGeometry{AreaM2: opt.AreaM2, PermittivityFm: mat.Permittivity()}
-	ms, err := extract.MottSchottky(ds.VoltageV, ds.CapacitanceF, g, opt.Window)
+	g := extract.CVGeometry{PermittivityFm: mat.Permittivity()}
+	ao := extract.CVAnalysisOptions{Fit: extract.CVOptions{Window: opt.Window}, ProfileHalfWindow: opt.ProfileHalfWindow}
+	if opt.AreaM2 > 0 {
+		g.AreaM2 = opt.AreaM2
+		ao.Geometry = g
+	}
+	if opt.Grading != nil {
+		ao.Fit.FixGrading, ao.Fit.Grading = true, *opt.Grading
+	}
+	if opt.Parasitic != nil {
+		ao.Fit.FixParasitic, ao.Fit.ParasiticF = true, *opt.Parasitic
+	}
+	a, err := extract.AnalyzeCVContext(ctx, ds.VoltageV, ds.CapacitanceF, ao)
 	if err != nil {
-		return nil, fmt.Errorf("Mott-Schottky: %w", err)
+		return nil, fmt.Errorf("junction-capacitance fit: %w", err)
 	}
-	r := &CVResult{DataSet: ds, Material: mat, Geometry: g, MottSchottky: ms}
-	switch j, err := extract.FitJunctionCV(ds.VoltageV, ds.CapacitanceF, extract.CVOptions{Window: opt.Window}); {
-	case err != nil:
-		r.JunctionErr = err
-		r.Notes = append(r.Notes, "junction-capacitance fit failed: "+err.Error())
-	case !j.Converged:
-		r.JunctionErr = ErrNotConverged
-		r.Notes = append(r.Notes, "junction-capacitance fit did not converge: not reported")
-	default:
-		r.Junction = j
+	r := &CVResult{DataSet: ds, Material: mat, Geometry: g, Analysis: a}
+	r.Notes = append(r.Notes, a.Notes...)
+	if d := a.DopingM3; !d.Determined && r.HasArea() {
+		r.Notes = append(r.Notes, "doping not determined: "+d.Reason)
 	}
 	r.Notes = append(r.Notes, RowNotes(ds)...)
 	return r, nil
 }
 
-// MottSchottkyParams are the line's Vbi (V) and N (m^-3).
-func (r *CVResult) MottSchottkyParams() []Param {
-	ms := r.MottSchottky
-	return []Param{
-		{"Vbi", "V", ms.BuiltInV, ms.StdErrV},
-		{"N", "m^-3", ms.DopingM3, ms.StdErrM3},
+// shown is the value of q when the data determine it (or it is held),
+// else NaN, so that a value the data do not pin down is never stored or
+// printed as if it were known.
+func shown(q extract.CVQuantity) Param {
+	p := Param{Value: q.Value, StdErr: q.StdErr}
+	if !q.Determined {
+		p.Value, p.StdErr = math.NaN(), math.NaN()
 	}
+	return p
 }
 
-// JunctionParams are the junction fit's Cj0 (F), Vbi (V), m and Cpar (F);
-// none when the fit failed.
+// JunctionParams are the headline junction fit's Cj0 (F), Vbi (V), m and
+// Cpar (F); a value the data do not determine is NaN (see shown), a held
+// one has standard error NaN.
 func (r *CVResult) JunctionParams() []Param {
-	if r.Junction == nil {
+	a := r.Analysis
+	out := []Param{shown(a.ZeroBiasCapacitanceF), shown(a.BuiltInPotentialV), shown(a.GradingCoefficient), shown(a.ParasiticCapacitanceF)}
+	for k, n := range [][2]string{{"Cj0", "F"}, {"Vbi", "V"}, {"m", ""}, {"Cpar", "F"}} {
+		out[k].Name, out[k].Unit = n[0], n[1]
+	}
+	return out
+}
+
+// MottSchottkyParams are the Mott-Schottky line of C - Cpar (m = 1/2):
+// its Vbi (V) and the doping N (m^-3, NaN when not determined); nil when
+// the line could not be fitted.
+func (r *CVResult) MottSchottkyParams() []Param {
+	l := r.Analysis.Line
+	if l == nil {
 		return nil
 	}
-	p, s := r.Junction.Params, r.Junction.StdErr
-	return []Param{
-		{"Cj0", "F", p.ZeroBiasCapacitanceF, s.ZeroBiasCapacitanceF},
-		{"Vbi", "V", p.BuiltInPotentialV, s.BuiltInPotentialV},
-		{"m", "", p.GradingCoefficient, s.GradingCoefficient},
-		{"Cpar", "F", p.ParasiticCapacitanceF, s.ParasiticCapacitanceF},
+	n := shown(r.Analysis.DopingM3)
+	n.Name, n.Unit = "N", "m^-3"
+	vbi := Param{"Vbi", "V", l.BuiltInV, l.StdErrV}
+	if !l.Fit.Status.BuiltInPotential.Determined {
+		vbi.Value, vbi.StdErr = math.NaN(), math.NaN()
 	}
+	return []Param{vbi, n}
 }
 
 // Windowed keeps the points of v, y inside w (all for the zero window).

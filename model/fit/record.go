@@ -14,7 +14,7 @@ import (
 const (
 	MethodIVSingle     = "iv-single-diode"         // Is, n, Rs, Rsh
 	MethodIVDouble     = "iv-double-diode"         // Is1, Is2, Rs, Rsh
-	MethodMottSchottky = "mott-schottky"           // Vbi, N
+	MethodMottSchottky = "mott-schottky"           // Vbi, N of the line of C - Cpar
 	MethodCVJunction   = "cv-junction-capacitance" // Cj0, Vbi, m, Cpar
 )
 
@@ -67,23 +67,41 @@ func IVRecord(r *IVResult) Record {
 	return newRecord(method, r.Params(), notes, r.Notes)
 }
 
-// CVRecords are the records of a C-V analysis: the Mott-Schottky line,
-// and the junction-capacitance fit when it converged.
+// CVRecords are the records of a C-V analysis: the junction fit (the
+// headline) and the Mott-Schottky line of C - Cpar when it was fitted.
+// Values the data do not determine are left out with a note.
 func CVRecords(r *CVResult) []Record {
-	common := fmt.Sprintf("area %g m^2, material %s (permittivity %.4g F/m)", r.Geometry.AreaM2, r.Material.Key, r.Geometry.PermittivityFm)
-	ms := r.MottSchottky
-	out := []Record{newRecord(MethodMottSchottky, r.MottSchottkyParams(), []string{
-		fmt.Sprintf("window %g V to %g V, %d points used", ms.UsedWindow.MinV, ms.UsedWindow.MaxV, ms.Points),
-		fmt.Sprintf("rms relative residual %.4g (of 1/C^2)", ms.RMSRelResidual),
+	common := fmt.Sprintf("material %s (permittivity %.4g F/m)", r.Material.Key, r.Geometry.PermittivityFm)
+	if r.HasArea() {
+		common = fmt.Sprintf("area %g m^2, ", r.Geometry.AreaM2) + common
+	}
+	a := r.Analysis
+	j := a.Junction
+	notes := []string{
+		"C = Cj0/(1 - V/Vbi)^m + Cpar",
+		fmt.Sprintf("window %g V to %g V, %d points used", j.UsedWindow.MinV, j.UsedWindow.MaxV, j.Points),
+		fmt.Sprintf("rms relative residual %.4g", j.RMSRelResidual),
 		common,
-	}, r.Notes)}
-	if j := r.Junction; j != nil {
-		out = append(out, newRecord(MethodCVJunction, r.JunctionParams(), []string{
-			"C = Cj0/(1 - V/Vbi)^m + Cpar",
-			fmt.Sprintf("window %g V to %g V, %d points used", j.UsedWindow.MinV, j.UsedWindow.MaxV, j.Points),
-			fmt.Sprintf("rms relative residual %.4g", j.RMSRelResidual),
+	}
+	for _, q := range []struct {
+		name string
+		q    extract.CVQuantity
+	}{{"Cj0", a.ZeroBiasCapacitanceF}, {"Vbi", a.BuiltInPotentialV}, {"m", a.GradingCoefficient}, {"Cpar", a.ParasiticCapacitanceF}} {
+		if q.q.Fixed || !q.q.Determined {
+			notes = append(notes, q.name+": "+q.q.Reason)
+		}
+	}
+	out := []Record{newRecord(MethodCVJunction, r.JunctionParams(), notes, r.Notes)}
+	if l := a.Line; l != nil {
+		ln := []string{
+			"1/(C - Cpar)^2 against V with m = 1/2, Cpar fitted jointly",
+			fmt.Sprintf("misfit %.3g times the junction fit's", l.MisfitRatio),
 			common,
-		}, nil))
+		}
+		if !a.DopingM3.Determined {
+			ln = append(ln, "N: "+a.DopingM3.Reason)
+		}
+		out = append(out, newRecord(MethodMottSchottky, r.MottSchottkyParams(), ln, nil))
 	}
 	return out
 }

@@ -58,11 +58,14 @@ func fitUsage(w io.Writer) {
       ln(measured/predicted) over the window, and the minority lifetime of
       the lightly doped side for which the model's diffusion Is equals the
       measured one (with its diffusion length and the assumptions).
-  junco fit cv FILE --area A [--material si|ge|gaas|4h-sic] [--window V1:V2]
-                       [--profile] [--smooth N] [--model-card NAME] [--json] [--ascii]
-                       [--save-to NAME] [--data DIR]
-      Mott-Schottky line (built-in potential, doping), doping profile and the
-      junction-capacitance fit C = Cj0/(1 - V/Vbi)^m + Cpar.
+  junco fit cv FILE [--area A] [--material si|ge|gaas|4h-sic] [--window V1:V2]
+                       [--grading M] [--parasitic C] [--profile] [--smooth N]
+                       [--model-card NAME] [--json] [--ascii] [--save-to NAME] [--data DIR]
+      Junction-capacitance fit C = Cj0/(1 - V/Vbi)^m + Cpar (the headline:
+      Vbi, m, Cj0, Cpar; "not determined" when the data cannot pin one
+      down); --grading and --parasitic hold m and Cpar. With --area: the
+      doping from the Mott-Schottky line of C - Cpar (only when m is within
+      0.05 of 1/2) and, with --profile, the doping profile of C - Cpar.
   junco fit arrhenius FILE... [--temp T1,T2,...] [--gamma G] [--current I]
                        [--window V1:V2] [--json] [--ascii]
       Saturation current against temperature: activation energy; with
@@ -87,7 +90,7 @@ fF). The temperature is the file's own (a temperature column, else a
 "# temperature: 300 K" comment), else --temp, else 300 K assumed (fit iv
 and batch; said in a note); every result gives its temperature source.
 Values take units: --temp 300K or 27C (bare: K), --area 1mm2, 1e-4cm2 or
-100um2 (bare: cm^2), --window 0.1:0.7 or 100mV:700mV (bare: V), --current
+100um2 (bare: cm^2), --parasitic 2pF (bare: F), --window 0.1:0.7 or 100mV:700mV (bare: V), --current
 1mA (bare: A).
 `)
 }

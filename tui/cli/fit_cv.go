@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"math"
 	"strconv"
 	"text/tabwriter"
 
@@ -14,14 +15,37 @@ import (
 	"junco/physics/extract"
 )
 
-// fitCVValues are the C-V results in SI units.
+// fitCVValues are the C-V results in SI units; a value the data do not
+// determine is null (its status says why).
 type fitCVValues struct {
-	BuiltInPotentialV         *float64 `json:"built_in_potential_V"`
-	DopingPerM3               *float64 `json:"doping_per_m3"`
-	ZeroBiasCapacitanceF      *float64 `json:"zero_bias_capacitance_F"`
-	GradingCoefficient        *float64 `json:"grading_coefficient"`
-	ParasiticCapacitanceF     *float64 `json:"parasitic_capacitance_F"`
-	JunctionBuiltInPotentialV *float64 `json:"junction_fit_built_in_potential_V"`
+	BuiltInPotentialV     *float64 `json:"built_in_potential_V"`
+	ZeroBiasCapacitanceF  *float64 `json:"zero_bias_capacitance_F"`
+	GradingCoefficient    *float64 `json:"grading_coefficient"`
+	ParasiticCapacitanceF *float64 `json:"parasitic_capacitance_F"`
+	DopingPerM3           *float64 `json:"doping_per_m3"`
+}
+
+// fitCVState says whether the data determine a value, or it was held.
+type fitCVState struct {
+	Determined bool   `json:"determined"`
+	Held       bool   `json:"held,omitempty"`
+	Reason     string `json:"reason,omitempty"`
+}
+
+type fitCVStatus struct {
+	BuiltInPotentialV     fitCVState `json:"built_in_potential_V"`
+	ZeroBiasCapacitanceF  fitCVState `json:"zero_bias_capacitance_F"`
+	GradingCoefficient    fitCVState `json:"grading_coefficient"`
+	ParasiticCapacitanceF fitCVState `json:"parasitic_capacitance_F"`
+	DopingPerM3           fitCVState `json:"doping_per_m3"`
+}
+
+// fitCVLine is the Mott-Schottky line of C - Cpar (m held at 1/2).
+type fitCVLine struct {
+	BuiltInPotentialV     *float64 `json:"built_in_potential_V"`
+	ParasiticCapacitanceF *float64 `json:"parasitic_capacitance_F"`
+	MisfitRatio           *float64 `json:"misfit_ratio"`
+	Flagged               bool     `json:"flagged"`
 }
 
 type fitProfileRow struct {
@@ -34,23 +58,32 @@ type fitProfileRow struct {
 type fitCVReport struct {
 	File              string    `json:"file"`
 	Material          string    `json:"material"`
-	AreaM2            float64   `json:"area_m2"`
+	AreaM2            *float64  `json:"area_m2"`
 	PermittivityFPerM float64   `json:"permittivity_F_per_m"`
 	WindowV           []float64 `json:"window_V,omitempty"`
+	Points            int       `json:"points"`
 	fitCVValues
-	Points             int              `json:"points"`
-	MottSchottkyRMSRel *float64         `json:"mott_schottky_rms_rel_residual,omitempty"`
-	JunctionFitRMSRel  *float64         `json:"junction_fit_rms_rel_residual,omitempty"`
-	RowProblems        int              `json:"row_problems,omitempty"`
-	StdErr             fitCVValues      `json:"stderr"`
-	Correlations       []fitCorrelation `json:"correlations,omitempty"`
-	Profile            []fitProfileRow  `json:"doping_profile,omitempty"`
-	ModelCard          string           `json:"model_card,omitempty"`
-	Notes              []string         `json:"notes,omitempty"`
+	StdErr       fitCVValues      `json:"stderr"`
+	Status       fitCVStatus      `json:"status"`
+	RMSRel       *float64         `json:"rms_rel_residual"`
+	Line         *fitCVLine       `json:"mott_schottky_line,omitempty"`
+	RowProblems  int              `json:"row_problems,omitempty"`
+	Correlations []fitCorrelation `json:"correlations,omitempty"`
+	Profile      []fitProfileRow  `json:"doping_profile,omitempty"`
+	ModelCard    string           `json:"model_card,omitempty"`
+	Notes        []string         `json:"notes,omitempty"`
+}
+
+// fitCVPut fills the value, standard error and status of one quantity.
+func fitCVPut(q extract.CVQuantity, val, se **float64, st *fitCVState) {
+	*st = fitCVState{Determined: q.Determined, Held: q.Fixed, Reason: q.Reason}
+	if q.Determined {
+		*val, *se = fitNum(q.Value), fitNum(q.StdErr)
+	}
 }
 
 func fitRunCV(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	a, code, done := fitStart("cv", args, []string{"area", "material", "window", "smooth", "model-card", "save-to", "data"}, []string{"json", "ascii", "profile"}, stdout, stderr)
+	a, code, done := fitStart("cv", args, []string{"area", "material", "window", "smooth", "model-card", "save-to", "data", "grading", "parasitic"}, []string{"json", "ascii", "profile"}, stdout, stderr)
 	if done {
 		return code
 	}
@@ -60,18 +93,34 @@ func fitRunCV(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 		return exitUsage
 	}
 	if len(a.pos) != 1 {
-		return bad("expected exactly one data file, got %d (junco fit cv FILE --area A)", len(a.pos))
+		return bad("expected exactly one data file, got %d (junco fit cv FILE [--area A])", len(a.pos))
 	}
-	as, ok := a.str("area")
-	if !ok {
-		return bad("--area is required (e.g. --area 1mm2): the doping follows from C per unit area")
+	var area float64
+	if as, ok := a.str("area"); ok {
+		if area, err = model.ParseValue(model.Area, as); err != nil {
+			return bad("--area: %v", err)
+		}
+		if !(area > 0 && area < 1) {
+			return bad("--area %s = %g m^2: allowed above 0 and below 1 m^2", as, area)
+		}
 	}
-	area, err := model.ParseValue(model.Area, as)
-	if err != nil {
-		return bad("--area: %v", err)
+	opt := fit.CVOptions{AreaM2: area}
+	if s, ok := a.str("grading"); ok {
+		m, err := strconv.ParseFloat(s, 64)
+		if err != nil || !(m >= extract.CVMinGrading && m <= extract.CVMaxGrading) {
+			return bad("--grading %q: expected a grading coefficient m from %g to %g (1/2 abrupt, 1/3 linearly graded)", s, extract.CVMinGrading, extract.CVMaxGrading)
+		}
+		opt.Grading = &m
 	}
-	if !(area > 0 && area < 1) {
-		return bad("--area %s = %g m^2: allowed above 0 and below 1 m^2", as, area)
+	if s, ok := a.str("parasitic"); ok {
+		c, err := model.ParseValue(model.Capacitance, s)
+		if err != nil {
+			return bad("--parasitic: %v", err)
+		}
+		if math.IsNaN(c) || math.IsInf(c, 0) || math.Abs(c) > 1e-6 {
+			return bad("--parasitic %s = %g F: allowed from -1 uF to 1 uF (a fixture capacitance, e.g. 2pF)", s, c)
+		}
+		opt.Parasitic = &c
 	}
 	matName := "si"
 	if s, ok := a.str("material"); ok {
@@ -81,18 +130,25 @@ func fitRunCV(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 	if err != nil {
 		return bad("--material: %v", err)
 	}
-	eps := mat.Permittivity()
-	var win extract.Window
+	opt.Material = mat.Key
 	if s, ok := a.str("window"); ok {
-		if win, err = fitWindowFlag("cv", s); err != nil {
+		if opt.Window, err = fitWindowFlag("cv", s); err != nil {
 			fmt.Fprintln(stderr, err)
 			return exitUsage
 		}
 	}
-	smooth := 2
+	if a.bools["profile"] {
+		if area == 0 {
+			return bad("--profile needs --area: the doping profile follows from C per unit area")
+		}
+		opt.ProfileHalfWindow = 2
+	}
 	if s, ok := a.str("smooth"); ok {
-		if smooth, err = strconv.Atoi(s); err != nil || smooth < 1 || smooth > 100 {
+		if opt.ProfileHalfWindow, err = strconv.Atoi(s); err != nil || opt.ProfileHalfWindow < 1 || opt.ProfileHalfWindow > 100 {
 			return bad("--smooth %q: expected a whole number of neighbouring points, 1..100", s)
+		}
+		if !a.bools["profile"] {
+			opt.ProfileHalfWindow = 0
 		}
 	}
 	card, wantCard := a.str("model-card")
@@ -115,46 +171,55 @@ func fitRunCV(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 		fmt.Fprintf(stderr, "junco fit cv: %v\n", err)
 		return fitExitCode(err)
 	}
-	res, err := fit.CV(ds, fit.CVOptions{Window: win, AreaM2: area, Material: mat.Key})
+	res, err := fit.CVContext(ctx, ds, opt)
 	if err != nil {
 		fmt.Fprintf(stderr, "junco fit cv: %s: %v\n", path, err)
 		return fitExitCode(err)
 	}
-	ms, g := res.MottSchottky, res.Geometry
-	r := &fitCVReport{File: path, Material: mat.Key, AreaM2: area, PermittivityFPerM: eps,
-		WindowV: []float64{ms.UsedWindow.MinV, ms.UsedWindow.MaxV}, Points: ms.Points,
-		MottSchottkyRMSRel: fitNum(ms.RMSRelResidual), RowProblems: ds.ProblemRows, Notes: res.Notes}
-	r.BuiltInPotentialV, r.DopingPerM3 = fitNum(ms.BuiltInV), fitNum(ms.DopingM3)
-	r.StdErr.BuiltInPotentialV, r.StdErr.DopingPerM3 = fitNum(ms.StdErrV), fitNum(ms.StdErrM3)
-	code = exitOK
-	if jf := res.Junction; jf == nil {
-		fmt.Fprintf(stderr, "junco fit cv: %s: junction-capacitance fit: %v\n", path, res.JunctionErr)
-		code = fitExitCode(res.JunctionErr)
-	} else {
-		p, s := jf.Params, jf.StdErr
-		r.ZeroBiasCapacitanceF, r.GradingCoefficient = fitNum(p.ZeroBiasCapacitanceF), fitNum(p.GradingCoefficient)
-		r.ParasiticCapacitanceF, r.JunctionBuiltInPotentialV = fitNum(p.ParasiticCapacitanceF), fitNum(p.BuiltInPotentialV)
-		r.StdErr.ZeroBiasCapacitanceF, r.StdErr.GradingCoefficient = fitNum(s.ZeroBiasCapacitanceF), fitNum(s.GradingCoefficient)
-		r.StdErr.ParasiticCapacitanceF, r.StdErr.JunctionBuiltInPotentialV = fitNum(s.ParasiticCapacitanceF), fitNum(s.BuiltInPotentialV)
-		r.JunctionFitRMSRel = fitNum(jf.RMSRelResidual)
-		r.Correlations = fitCorrelations(jf.Correlations)
-		if wantCard {
-			r.ModelCard, err = extract.ModelCard(card, extract.CardParams{CJO: p.ZeroBiasCapacitanceF, VJ: p.BuiltInPotentialV, M: p.GradingCoefficient})
-			if err != nil {
-				fmt.Fprintf(stderr, "junco fit cv: model card: %v\n", err)
-				code = max(code, exitFailure)
-			}
+	an, jf := res.Analysis, res.Analysis.Junction
+	r := &fitCVReport{File: path, Material: mat.Key, PermittivityFPerM: res.Geometry.PermittivityFm,
+		WindowV: []float64{jf.UsedWindow.MinV, jf.UsedWindow.MaxV}, Points: jf.Points,
+		RMSRel:      fitNum(jf.RMSRelResidual),
+		RowProblems: ds.ProblemRows, Notes: res.Notes, Correlations: fitCorrelations(jf.Correlations)}
+	if res.HasArea() {
+		r.AreaM2 = fitNum(area)
+	}
+	fitCVPut(an.BuiltInPotentialV, &r.BuiltInPotentialV, &r.StdErr.BuiltInPotentialV, &r.Status.BuiltInPotentialV)
+	fitCVPut(an.ZeroBiasCapacitanceF, &r.ZeroBiasCapacitanceF, &r.StdErr.ZeroBiasCapacitanceF, &r.Status.ZeroBiasCapacitanceF)
+	fitCVPut(an.GradingCoefficient, &r.GradingCoefficient, &r.StdErr.GradingCoefficient, &r.Status.GradingCoefficient)
+	fitCVPut(an.ParasiticCapacitanceF, &r.ParasiticCapacitanceF, &r.StdErr.ParasiticCapacitanceF, &r.Status.ParasiticCapacitanceF)
+	fitCVPut(an.DopingM3, &r.DopingPerM3, &r.StdErr.DopingPerM3, &r.Status.DopingPerM3)
+	if l := an.Line; l != nil {
+		r.Line = &fitCVLine{ParasiticCapacitanceF: fitNum(l.ParasiticF), MisfitRatio: fitNum(l.MisfitRatio), Flagged: l.Flagged}
+		if l.Fit.Status.BuiltInPotential.Determined {
+			r.Line.BuiltInPotentialV = fitNum(l.BuiltInV)
 		}
 	}
-	if a.bools["profile"] {
-		vv, cc := fit.Windowed(ds.VoltageV, ds.CapacitanceF, win)
-		prof, err := extract.DopingProfile(vv, cc, g, smooth)
-		if err != nil {
-			fmt.Fprintf(stderr, "junco fit cv: %s: doping profile: %v\n", path, err)
-			code = max(code, fitExitCode(err))
+	code = exitOK
+	if wantCard {
+		// Only what the data determine goes on the card (0 = left out).
+		var cp extract.CardParams
+		for _, x := range []struct {
+			q   extract.CVQuantity
+			dst *float64
+		}{{an.ZeroBiasCapacitanceF, &cp.CJO}, {an.BuiltInPotentialV, &cp.VJ}, {an.GradingCoefficient, &cp.M}} {
+			if x.q.Determined {
+				*x.dst = x.q.Value
+			}
 		}
-		for _, p := range prof {
+		r.ModelCard, err = extract.ModelCard(card, cp)
+		if err != nil {
+			fmt.Fprintf(stderr, "junco fit cv: model card: %v\n", err)
+			code = max(code, exitFailure)
+		}
+	}
+	if opt.ProfileHalfWindow > 0 {
+		for _, p := range an.Profile {
 			r.Profile = append(r.Profile, fitProfileRow{p.VoltageV, p.DepthM, p.DopingM3, p.StdErrM3})
+		}
+		if len(r.Profile) == 0 {
+			fmt.Fprintf(stderr, "junco fit cv: %s: no doping profile (see the notes)\n", path)
+			code = max(code, exitUsage)
 		}
 	}
 	if a.bools["json"] {
@@ -173,26 +238,50 @@ func fitRunCV(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 	return code
 }
 
+// fitCVValue is a value with its standard error, "held at ..." or "not
+// determined: why".
+func fitCVValue(k model.Kind, v, se *float64, st fitCVState, ascii bool) string {
+	switch {
+	case !st.Determined:
+		return "not determined: " + st.Reason
+	case st.Held:
+		return model.Format(k, fitVal(v), 4, ascii) + "  (" + st.Reason + ")"
+	}
+	return fitPM(k, fitVal(v), fitVal(se), ascii)
+}
+
 func fitCVText(w io.Writer, r *fitCVReport, ascii bool) {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintf(tw, "file\t\t%s\n", r.File)
-	fmt.Fprintf(tw, "material, area\t\t%s (eps = %.4g F/m), %s\n", r.Material, r.PermittivityFPerM, model.Format(model.Area, r.AreaM2, 4, ascii))
+	area := "no area given (no doping)"
+	if r.AreaM2 != nil {
+		area = model.Format(model.Area, *r.AreaM2, 4, ascii)
+	}
+	fmt.Fprintf(tw, "material, area\t\t%s (eps = %.4g F/m), %s\n", r.Material, r.PermittivityFPerM, area)
 	fmt.Fprintf(tw, "window\t\t%s .. %s, %d points\n", model.Format(model.Voltage, r.WindowV[0], 3, ascii), model.Format(model.Voltage, r.WindowV[1], 3, ascii), r.Points)
-	fmt.Fprintf(tw, "Mott-Schottky\t\t\n")
-	fmt.Fprintf(tw, "  built-in potential\tVbi\t%s\n", fitPM(model.Voltage, fitVal(r.BuiltInPotentialV), fitVal(r.StdErr.BuiltInPotentialV), ascii))
-	fmt.Fprintf(tw, "  doping\tN\t%s\n", fitPM(model.Density, fitVal(r.DopingPerM3), fitVal(r.StdErr.DopingPerM3), ascii))
-	if r.ZeroBiasCapacitanceF != nil {
-		fmt.Fprintf(tw, "junction fit\t\tC = Cj0/(1 - V/Vbi)^m + Cpar\n")
-		fmt.Fprintf(tw, "  zero-bias capacitance\tCj0\t%s\n", fitPM(model.Capacitance, fitVal(r.ZeroBiasCapacitanceF), fitVal(r.StdErr.ZeroBiasCapacitanceF), ascii))
-		fmt.Fprintf(tw, "  built-in potential\tVbi\t%s\n", fitPM(model.Voltage, fitVal(r.JunctionBuiltInPotentialV), fitVal(r.StdErr.JunctionBuiltInPotentialV), ascii))
-		fmt.Fprintf(tw, "  grading coefficient\tm\t%s\n", fitPM(model.Dimensionless, fitVal(r.GradingCoefficient), fitVal(r.StdErr.GradingCoefficient), ascii))
-		fmt.Fprintf(tw, "  parasitic capacitance\tCpar\t%s\n", fitPM(model.Capacitance, fitVal(r.ParasiticCapacitanceF), fitVal(r.StdErr.ParasiticCapacitanceF), ascii))
-		fmt.Fprintf(tw, "  rms relative residual\t\t%.4f\n", fitVal(r.JunctionFitRMSRel))
+	s, e := r.Status, r.StdErr
+	fmt.Fprintf(tw, "junction fit\t\tC = Cj0/(1 - V/Vbi)^m + Cpar\n")
+	fmt.Fprintf(tw, "  built-in potential\tVbi\t%s\n", fitCVValue(model.Voltage, r.BuiltInPotentialV, e.BuiltInPotentialV, s.BuiltInPotentialV, ascii))
+	fmt.Fprintf(tw, "  grading coefficient\tm\t%s\n", fitCVValue(model.Dimensionless, r.GradingCoefficient, e.GradingCoefficient, s.GradingCoefficient, ascii))
+	fmt.Fprintf(tw, "  zero-bias capacitance\tCj0\t%s\n", fitCVValue(model.Capacitance, r.ZeroBiasCapacitanceF, e.ZeroBiasCapacitanceF, s.ZeroBiasCapacitanceF, ascii))
+	fmt.Fprintf(tw, "  parasitic capacitance\tCpar\t%s\n", fitCVValue(model.Capacitance, r.ParasiticCapacitanceF, e.ParasiticCapacitanceF, s.ParasiticCapacitanceF, ascii))
+	fmt.Fprintf(tw, "  rms relative residual\t\t%.4f\n", fitVal(r.RMSRel))
+	if l := r.Line; l != nil {
+		fmt.Fprintf(tw, "Mott-Schottky line\t\t1/(C - Cpar)^2 against V, m = 1/2\n")
+		if l.BuiltInPotentialV != nil {
+			fmt.Fprintf(tw, "  its intercept\tVbi\t%s\n", model.Format(model.Voltage, *l.BuiltInPotentialV, 4, ascii))
+		}
+		fmt.Fprintf(tw, "  doping\tN\t%s\n", fitCVValue(model.Density, r.DopingPerM3, e.DopingPerM3, s.DopingPerM3, ascii))
+		flag := ""
+		if l.Flagged {
+			flag = fmt.Sprintf(" (flagged: above %g)", extract.CVLineMisfitLimit)
+		}
+		fmt.Fprintf(tw, "  misfit / junction fit's\t\t%.3g%s\n", fitVal(l.MisfitRatio), flag)
 	}
 	fitTextTail(tw, r.Correlations, r.Notes, r.ModelCard)
 	tw.Flush()
 	if len(r.Profile) > 0 {
-		fmt.Fprintln(w, "\ndoping profile (differential C-V)")
+		fmt.Fprintln(w, "\ndoping profile (differential C-V of C - Cpar)")
 		tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 		fmt.Fprintf(tw, "bias\tdepth\tdoping\t\n")
 		for _, p := range r.Profile {

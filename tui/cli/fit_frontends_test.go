@@ -206,7 +206,7 @@ func TestFrontEndsCVRecords(t *testing.T) {
 	}
 	wb, _ := sessions.AppendFitRecords(nil, "cv-1", time.Now(), fit.CVRecords(res)...)
 	if len(doc.Extractions) != 2 || len(wb) != 2 {
-		t.Fatalf("command line %d extractions, workbench %d; want 2 (line and junction fit)", len(doc.Extractions), len(wb))
+		t.Fatalf("command line %d extractions, workbench %d; want 2 (junction fit and line)", len(doc.Extractions), len(wb))
 	}
 	for k := range wb {
 		c, w := doc.Extractions[k], wb[k]
@@ -219,8 +219,8 @@ func TestFrontEndsCVRecords(t *testing.T) {
 			}
 		}
 	}
-	if wb[0].Method != fit.MethodMottSchottky || wb[1].Method != fit.MethodCVJunction || wb[1].Parameters[1].Name != "Vbi" {
-		t.Errorf("record shape %s %s %s", wb[0].Method, wb[1].Method, wb[1].Parameters[1].Name)
+	if wb[0].Method != fit.MethodCVJunction || wb[1].Method != fit.MethodMottSchottky || wb[0].Parameters[1].Name != "Vbi" {
+		t.Errorf("record shape %s %s %s", wb[0].Method, wb[1].Method, wb[0].Parameters[1].Name)
 	}
 }
 

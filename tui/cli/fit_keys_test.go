@@ -140,6 +140,7 @@ func TestReadmeDocumentsEveryFitKey(t *testing.T) {
 		"cv": {
 			{"cv", "testdata/fit/cv.tsv", "--area", "1mm2", "--profile", "--model-card", "CJ1", "--json"},
 			{"cv", fitKeysCVFile(t, dir), "--area", "1mm2", "--json"},
+			{"cv", "testdata/fit/cv.tsv", "--grading", "0.5", "--parasitic", "1pF", "--json"},
 		},
 		"arrhenius": {
 			append([]string{"arrhenius", "--current", "1mA", "--json"}, arr...),

@@ -187,7 +187,10 @@ func TestFitCVSaveTo(t *testing.T) {
 	if len(doc.Measurements) != 1 || doc.Measurements[0].ID != "cv-1" || len(doc.Extractions) < 1 {
 		t.Fatalf("%d measurements, %d extractions", len(doc.Measurements), len(doc.Extractions))
 	}
-	x := doc.Extractions[0]
+	if len(doc.Extractions) != 2 || doc.Extractions[0].Method != "cv-junction-capacitance" {
+		t.Fatalf("extractions %+v: want the junction fit first, then the line", doc.Extractions)
+	}
+	x := doc.Extractions[1]
 	nd, ok := fitSaveParamByName(x, "N")
 	if x.Method != "mott-schottky" || !ok || nd.Unit != "m^-3" || math.Abs(nd.Value/2e22-1) > 0.05 || nd.StdError == nil {
 		t.Errorf("extraction %s: N = %+v", x.Method, nd)

@@ -247,6 +247,81 @@ func TestFitCVCommand(t *testing.T) {
 	if code != 0 || !strings.Contains(out, "Mott-Schottky") || !strings.Contains(out, "cm^-3") || !strings.Contains(out, "doping profile") {
 		t.Errorf("text (exit %d):\n%s", code, out)
 	}
+	// Without an area: the junction fit, no doping, and the status says why.
+	code, out, errs = fitCall("cv", p, "--json")
+	if code != 0 {
+		t.Fatalf("no area: exit %d: %s", code, errs)
+	}
+	m = fitJSONMap(t, out)
+	st := m["status"].(map[string]any)
+	if m["doping_per_m3"] != nil || m["area_m2"] != nil || !strings.Contains(st["doping_per_m3"].(map[string]any)["reason"].(string), "no area") {
+		t.Errorf("no area: doping %v, area %v, status %v", m["doping_per_m3"], m["area_m2"], st["doping_per_m3"])
+	}
+	if v := m["built_in_potential_V"].(float64); math.Abs(v-0.78) > 0.05 || st["built_in_potential_V"].(map[string]any)["determined"] != true {
+		t.Errorf("no area: Vbi = %g, status %v", v, st["built_in_potential_V"])
+	}
+	// Holding m and Cpar: marked held, doping still within 5 %.
+	code, out, errs = fitCall("cv", p, "--area", "1mm2", "--grading", "0.5", "--parasitic", "0pF", "--json")
+	if code != 0 {
+		t.Fatalf("held: exit %d: %s", code, errs)
+	}
+	m = fitJSONMap(t, out)
+	fitNear(t, m, "doping_per_m3", 2e22, 0.05)
+	st = m["status"].(map[string]any)
+	for _, k := range []string{"grading_coefficient", "parasitic_capacitance_F"} {
+		if x := st[k].(map[string]any); x["held"] != true || !strings.Contains(x["reason"].(string), "held at") {
+			t.Errorf("held %s: %v", k, x)
+		}
+	}
+	code, out, _ = fitCall("cv", p, "--area", "1mm2", "--grading", "0.5")
+	if code != 0 || !strings.Contains(out, "held at 0.5") {
+		t.Errorf("held, text (exit %d):\n%s", code, out)
+	}
+}
+
+// A linearly graded junction with 5 pF of fixture capacitance, C = A (q a
+// eps^2/(12 (Vbi - V)))^(1/3) + Cpar (Sze & Ng 2007, sec. 2.2), 0.2 %
+// noise: the headline Vbi is the junction fit's (within 50 mV, m within
+// 0.03 of 1/3), and the doping is withheld with the reason, in JSON
+// (null) and in the text ("not determined").
+func TestFitCVGradedParasitic(t *testing.T) {
+	si, _ := physics.MaterialByName("si")
+	eps := si.Permittivity()
+	rng := rand.New(rand.NewPCG(12, 12))
+	var b strings.Builder
+	b.WriteString("V [V]\tC [pF]\n")
+	for k := 0; k <= 80; k++ {
+		v := -10 + 10.3*float64(k)/80
+		c := 1e-7*math.Cbrt(physics.Q*1e28*eps*eps/(12*(0.7-v))) + 5e-12
+		fmt.Fprintf(&b, "%.4f\t%.6g\n", v, c*(1+0.002*rng.NormFloat64())*1e12)
+	}
+	p := filepath.Join(t.TempDir(), "graded.tsv")
+	if err := os.WriteFile(p, []byte(b.String()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	code, out, errs := fitCall("cv", p, "--area", "0.1mm2", "--json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	m := fitJSONMap(t, out)
+	if v := m["built_in_potential_V"].(float64); math.Abs(v-0.7) > 0.05 {
+		t.Errorf("Vbi = %g, truth 0.7", v)
+	}
+	if g := m["grading_coefficient"].(float64); math.Abs(g-1.0/3) > 0.03 {
+		t.Errorf("m = %g, truth 1/3", g)
+	}
+	fitNear(t, m, "parasitic_capacitance_F", 5e-12, 0.2)
+	st := m["status"].(map[string]any)["doping_per_m3"].(map[string]any)
+	if m["doping_per_m3"] != nil || st["determined"] != false || !strings.Contains(st["reason"].(string), "not consistent with 1/2") {
+		t.Errorf("doping %v, status %v", m["doping_per_m3"], st)
+	}
+	if l := m["mott_schottky_line"].(map[string]any); l["flagged"] != true {
+		t.Errorf("line %v must be flagged", l)
+	}
+	code, out, _ = fitCall("cv", p, "--area", "0.1mm2")
+	if code != 0 || !strings.Contains(out, "not determined: m = 0.3") {
+		t.Errorf("text (exit %d):\n%s", code, out)
+	}
 }
 
 // Arrhenius through the command: Is(T) = C T^3 exp(-Eg/kT) with Eg =
@@ -389,7 +464,10 @@ func TestFitBadInput(t *testing.T) {
 		{"no file", []string{"iv"}, exitUsage, "no data file"},
 		{"missing file", []string{"iv", filepath.Join(dir, "nope.csv")}, exitUsage, "nope.csv"},
 		{"directory to iv", []string{"iv", dir}, exitUsage, "is a directory"},
-		{"cv without area", []string{"cv", cv}, exitUsage, "--area is required"},
+		{"cv profile without area", []string{"cv", cv, "--profile"}, exitUsage, "--profile needs --area"},
+		{"cv bad grading", []string{"cv", cv, "--grading", "7"}, exitUsage, "--grading"},
+		{"cv bad parasitic", []string{"cv", cv, "--parasitic", "2 farad"}, exitUsage, "--parasitic"},
+		{"cv huge parasitic", []string{"cv", cv, "--parasitic", "1F"}, exitUsage, "allowed from -1 uF to 1 uF"},
 		{"cv bad area", []string{"cv", cv, "--area", "1 acre"}, exitUsage, "not a valid area"},
 		{"cv zero area", []string{"cv", cv, "--area", "0"}, exitUsage, "above 0"},
 		{"cv bad material", []string{"cv", cv, "--area", "1mm2", "--material", "unobtainium"}, exitUsage, "unknown material"},
