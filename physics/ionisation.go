@@ -107,6 +107,16 @@ type DopantLevel struct {
 	MottDensity float64
 }
 
+// BandDensity returns n1 = (Nb/g) exp(-E/kT), m^-3: the majority density at
+// which the level is half occupied (for g = 1), for band effective density
+// of states nb (Nc for donors, Nv for acceptors, m^-3) at temperature t (K).
+//
+// Source: Sze & Ng 2007, section 1.4.2 (the occupation of a donor level
+// written with n1); Neamen 4th ed., section 4.5.
+func (lv DopantLevel) BandDensity(nb, t float64) float64 {
+	return nb / lv.Degeneracy * math.Exp(-lv.Energy/ThermalVoltage(t))
+}
+
 // EffectiveDopantLevel returns the level of dopant d at density n (m^-3)
 // under the default ionisation model (IonisationSingleLevel; see
 // DopantLevelFor).
@@ -153,8 +163,7 @@ func (m *Material) LoweredDopantLevel(d Dopant, n float64) DopantLevel {
 // Neamen 4th ed., section 4.5). Valid for non-degenerate doping (flagged by
 // FlagDegenerate) and one dominant species per region.
 func IonisedDensity(n float64, lv DopantLevel, nb, ni, t float64) (majority, ionised float64) {
-	kt := ThermalVoltage(t)
-	n1 := nb / lv.Degeneracy * math.Exp(-lv.Energy/kt)
+	n1 := lv.BandDensity(nb, t)
 	b := lv.Localised
 	ion := func(x float64) float64 { return n * (1 - b*x/(n1+x)) }
 	f := func(x float64) float64 { return x - ion(x) - ni*ni/x }

@@ -137,14 +137,13 @@ func DopantOccupation(m *physics.Material, t float64, donor, acceptor string, im
 	if !ok || da.Donor {
 		return nil, &ParamError{Field: "Device.AcceptorSpecies", Value: fmt.Sprintf("%q", acceptor), Allowed: fmt.Sprintf("an acceptor of %s: %v", m.Name, m.DopantNames(false)), Why: "its level sets the acceptor occupation"}
 	}
-	kt := physics.ThermalVoltage(t)
 	nc, nv := m.Nc(t), m.Nv(t)
 	level := func(d physics.Dopant, dens, nb float64) (float64, float64) {
 		if !(dens > 0) {
 			return math.Inf(1), 0
 		}
 		lv := m.DopantLevelFor(d, dens, im)
-		return nb / lv.Degeneracy * math.Exp(-lv.Energy/kt), lv.Localised
+		return lv.BandDensity(nb, t), lv.Localised
 	}
 	return func(_, nd, na float64) Occupation {
 		var o Occupation
