@@ -22,6 +22,7 @@ const (
 	GroupTemperature    = "Temperature"
 	GroupSwitching      = "Switching"
 	GroupBreakdown      = "Breakdown"
+	GroupLight          = "Light"
 )
 
 // Caution is the safety note shown wherever a breakdown voltage or a
@@ -191,6 +192,7 @@ func resultAt(s Spec, st *physics.Static, v float64) *Result {
 		{"tunnelling_limit_V", GroupBreakdown, "Zener limit 4Eg/q (breakdown)", "4Eg/q", Voltage, bd.TunnellingLimit, nil},
 		{"breakdown_sze_gibbons_V", GroupBreakdown, "Sze-Gibbons breakdown estimate", "VB,SG", Voltage, bd.SzeGibbons, nil},
 	}
+	r.Quantities = append(r.Quantities, litQuantities(s, st)...)
 	r.Flags = append(r.Flags, cautionFlag())
 	r.Cautions = []string{Caution}
 	if lim := s.PowerLimitOrDefault(); p.Power > lim {

@@ -58,6 +58,12 @@ func Format(k Kind, v float64, sig int, ascii bool) string {
 		return fixed(v*1e5, sig) + " nF/cm^2"
 	case Dimensionless:
 		return fixed(v, sig)
+	case GenerationRate:
+		return sci(v/1e6, sig) + " cm^-3 s^-1"
+	case PowerDensity:
+		return fixed(v/10, sig) + " mW/cm^2"
+	case Absorption:
+		return sci(v/100, sig) + " 1/cm"
 	}
 	return strconv.FormatFloat(v, 'g', sig, 64)
 }

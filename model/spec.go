@@ -61,6 +61,44 @@ type Spec struct {
 	// diode is switched to, A (0 = equal to ForwardCurrent).
 	ForwardCurrent float64 `json:"reference_forward_current_A,omitempty"`
 	ReverseCurrent float64 `json:"switching_reverse_current_A,omitempty"`
+
+	// Light illuminates the junction (the zero value: dark).
+	Light Light `json:"light,omitzero"`
+}
+
+// Light is the illumination of a junction: a uniform generation rate, and
+// monochromatic light entering one surface, absorbed by Beer-Lambert.
+type Light struct {
+	// Generation is a pair-generation rate uniform through the device,
+	// m^-3 s^-1 (0 = none).
+	Generation float64 `json:"generation_per_m3_s,omitempty"`
+	// Wavelength (m) and PowerDensity (W/m^2, entering the surface, after
+	// any reflection) of monochromatic light; Absorption is its
+	// absorption coefficient in the semiconductor, 1/m. PowerDensity 0
+	// means none.
+	Wavelength   float64 `json:"wavelength_m,omitempty"`
+	PowerDensity float64 `json:"power_density_W_per_m2,omitempty"`
+	Absorption   float64 `json:"absorption_per_m,omitempty"`
+	// Side is the illuminated surface: "p" (default, also "") or "n".
+	Side string `json:"illuminated_side,omitempty"`
+	// Irradiance is the incident power density the efficiency refers to,
+	// W/m^2 (0 = PowerDensity, the monochromatic light's).
+	Irradiance float64 `json:"irradiance_W_per_m2,omitempty"`
+}
+
+// Lit reports whether the light generates carriers.
+func (l Light) Lit() bool { return l.Generation > 0 || l.PowerDensity > 0 }
+
+// IrradianceOrDefault is the power density an efficiency refers to, W/m^2
+// (NaN when none is known).
+func (l Light) IrradianceOrDefault() float64 {
+	switch {
+	case l.Irradiance > 0:
+		return l.Irradiance
+	case l.PowerDensity > 0:
+		return l.PowerDensity
+	}
+	return math.NaN()
 }
 
 // Effects switches junco's non-ideal effects off (each field true turns
@@ -177,6 +215,12 @@ const (
 	FieldReverseCurrent    = "ir"
 	FieldBGNModel          = "bgn-model"
 	FieldIonisationModel   = "ion-model"
+	FieldGeneration        = "generation"
+	FieldWavelength        = "wavelength"
+	FieldLightPower        = "light-power"
+	FieldAbsorption        = "absorption"
+	FieldIlluminatedSide   = "lit-side"
+	FieldIrradiance        = "irradiance"
 )
 
 // FieldError reports one bad field: which, the offending value as the user
@@ -232,6 +276,10 @@ const (
 	minThickness, maxThickness     = 1e-7, 1e-2             // m
 	minPower, maxPower             = 1e-9, 1e6              // W
 	minRefCurrent, maxRefCurrent   = 1e-15, 1e4             // A
+	maxGeneration                  = 1e30                   // m^-3 s^-1 (1e24 cm^-3 s^-1)
+	minWavelength, maxWavelength   = 100e-9, 20e-6          // m
+	maxPowerDensity                = 1e8                    // W/m^2 (10 kW/cm^2)
+	maxAbsorption                  = 1e9                    // 1/m (1e7 1/cm)
 )
 
 // Validate checks every field and returns nil or a *ValidationError with one
@@ -332,6 +380,7 @@ func (s Spec) Validate() error {
 	if _, err := physics.ParseIonisationModel(s.Effects.IonisationModel); err != nil {
 		add(FieldIonisationModel, fmt.Sprintf("%q", s.Effects.IonisationModel), "single-level, lowered", "the dopant-level descriptions junco knows")
 	}
+	errs = append(errs, s.Light.problems()...)
 	if len(errs) == 0 {
 		return nil
 	}
@@ -372,5 +421,6 @@ func (s Spec) Device() (physics.Device, error) {
 	if s.NContactVelocity != nil {
 		d.Sn = *s.NContactVelocity
 	}
+	d.Light = s.Light.Physics()
 	return d, nil
 }

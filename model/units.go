@@ -33,6 +33,9 @@ const (
 	Energy                         // eV
 	CapacitancePerArea             // SI F/m^2, shown in nF/cm^2
 	Dimensionless                  // plain number
+	GenerationRate                 // SI m^-3 s^-1, default cm^-3 s^-1
+	PowerDensity                   // SI W/m^2, default mW/cm^2 (irradiance)
+	Absorption                     // SI 1/m, default 1/cm (absorption coefficient)
 )
 
 type unitDef struct {
@@ -114,6 +117,18 @@ func kindInfo(k Kind) (name, si, def string, units []unitDef) {
 		return "capacitance per area", "F/m^2", "nF/cm^2", []unitDef{{[]string{"nf/cm2", "nf/cm^2"}, 1e-5, 0}, {[]string{"f/m2", "f/m^2"}, 1, 0}}
 	case Dimensionless:
 		return "number", "", "", []unitDef{{[]string{""}, 1, 0}}
+	case GenerationRate:
+		return "generation rate", "m^-3 s^-1", "cm^-3s^-1", []unitDef{
+			{[]string{"cm-3s-1", "cm^-3s^-1", "cm-3/s", "/cm3/s", "/cm^3/s", "cm^-3/s"}, 1e6, 0},
+			{[]string{"m-3s-1", "m^-3s^-1", "m-3/s", "/m3/s", "/m^3/s", "m^-3/s"}, 1, 0}}
+	case PowerDensity:
+		return "power density", "W/m^2", "mW/cm^2", []unitDef{
+			{[]string{"mw/cm2", "mw/cm^2"}, 10, 0}, {[]string{"w/cm2", "w/cm^2"}, 1e4, 0},
+			{[]string{"w/m2", "w/m^2"}, 1, 0}, {[]string{"kw/m2", "kw/m^2"}, 1e3, 0}}
+	case Absorption:
+		return "absorption coefficient", "1/m", "1/cm", []unitDef{
+			{[]string{"1/cm", "cm-1", "cm^-1", "/cm"}, 100, 0}, {[]string{"1/um", "um-1", "um^-1", "/um"}, 1e6, 0},
+			{[]string{"1/m", "m-1", "m^-1", "/m"}, 1, 0}}
 	}
 	return "quantity", "", "", nil
 }

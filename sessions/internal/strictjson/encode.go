@@ -196,6 +196,7 @@ type field struct {
 	name      string
 	index     []int
 	omitEmpty bool
+	omitZero  bool // omitzero: left out when it is its type's zero value (as encoding/json, Go 1.24)
 }
 
 // fieldsOf lists the JSON members of struct type t in declaration order,
@@ -228,7 +229,8 @@ func fieldsOf(t reflect.Type) []field {
 			if name == "" {
 				name = sf.Name
 			}
-			out = append(out, field{name: name, index: idx, omitEmpty: strings.Contains(","+opts+",", ",omitempty,")})
+			out = append(out, field{name: name, index: idx, omitEmpty: strings.Contains(","+opts+",", ",omitempty,"),
+				omitZero: strings.Contains(","+opts+",", ",omitzero,")})
 		}
 	}
 	walk(t, nil)
@@ -282,7 +284,7 @@ func (e *encoder) object(v reflect.Value, indent int, path *jpath) error {
 	first := true
 	for _, f := range fieldsOf(v.Type()) {
 		fv, ok := fieldByIndex(v, f.index)
-		if !ok || (f.omitEmpty && isEmpty(fv)) {
+		if !ok || (f.omitEmpty && isEmpty(fv)) || (f.omitZero && fv.IsZero()) {
 			continue
 		}
 		if first {

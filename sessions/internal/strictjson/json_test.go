@@ -72,3 +72,29 @@ func TestReaderTakesOneMember(t *testing.T) {
 		t.Errorf("schema %d, err %v", v, err)
 	}
 }
+
+type withZero struct {
+	Name  string `json:"name"`
+	Inner struct {
+		X float64 `json:"x,omitempty"`
+	} `json:"inner,omitzero"`
+}
+
+// omitzero leaves a zero struct out, as encoding/json does since Go 1.24,
+// and writes it when any member is set.
+func TestOmitZero(t *testing.T) {
+	b, err := Encode(withZero{Name: "a"})
+	if err != nil || strings.Contains(string(b), "inner") {
+		t.Errorf("zero struct written: %s (%v)", b, err)
+	}
+	w := withZero{Name: "a"}
+	w.Inner.X = 2
+	b, err = Encode(w)
+	if err != nil || !strings.Contains(string(b), `"x": 2`) {
+		t.Errorf("set struct: %s (%v)", b, err)
+	}
+	var back withZero
+	if err := Decode(b, &back); err != nil || back.Inner.X != 2 {
+		t.Errorf("round trip %+v (%v)", back, err)
+	}
+}

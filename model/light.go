@@ -1,0 +1,86 @@
+package model
+
+import (
+	"fmt"
+	"math"
+
+	"junco/physics"
+)
+
+// problems checks the light's fields the way Spec.Validate checks the
+// others: zero means "none", anything else must lie in range, and
+// monochromatic light needs its wavelength and absorption coefficient.
+func (l Light) problems() []FieldError {
+	var errs []FieldError
+	rng := func(field string, k Kind, v, lo, hi float64, why string) {
+		if v == 0 {
+			return
+		}
+		if math.IsNaN(v) || math.IsInf(v, 0) || v < lo || v > hi {
+			errs = append(errs, FieldError{Field: field, Value: Format(k, v, 3, true),
+				Allowed: "0 or " + Format(k, lo, 3, true) + " to " + Format(k, hi, 3, true), Why: why})
+		}
+	}
+	rng(FieldGeneration, GenerationRate, l.Generation, 1, maxGeneration, "0 means none; far above 1e24 cm^-3 s^-1 no low-injection model applies")
+	rng(FieldWavelength, Length, l.Wavelength, minWavelength, maxWavelength, "from the far ultraviolet to the mid infrared")
+	rng(FieldLightPower, PowerDensity, l.PowerDensity, 1e-9, maxPowerDensity, "0 means no monochromatic light; 10 kW/cm^2 is far beyond low injection")
+	rng(FieldAbsorption, Absorption, l.Absorption, 1e-6, maxAbsorption, "the absorption coefficient of the light in the semiconductor")
+	rng(FieldIrradiance, PowerDensity, l.Irradiance, 1e-9, maxPowerDensity, "0 takes the monochromatic light's power density")
+	switch l.Side {
+	case "", "p", "n":
+	default:
+		errs = append(errs, FieldError{Field: FieldIlluminatedSide, Value: fmt.Sprintf("%q", l.Side), Allowed: "p, n", Why: "the surface the light enters"})
+	}
+	if l.PowerDensity > 0 {
+		if l.Wavelength == 0 {
+			errs = append(errs, FieldError{Field: FieldWavelength, Value: "none", Allowed: Format(Length, minWavelength, 3, true) + " to " + Format(Length, maxWavelength, 3, true),
+				Why: "monochromatic light (a light power) needs its wavelength"})
+		}
+		if l.Absorption == 0 {
+			errs = append(errs, FieldError{Field: FieldAbsorption, Value: "none", Allowed: "above 0", Why: "monochromatic light needs its absorption coefficient in the semiconductor (no table ships with junco)"})
+		}
+	}
+	return errs
+}
+
+// Physics converts the light into the physics description: the photon flux
+// of the monochromatic light from its power density and wavelength.
+func (l Light) Physics() physics.Light {
+	pl := physics.Light{Generation: l.Generation, FromN: l.Side == "n"}
+	if l.PowerDensity > 0 && l.Wavelength > 0 && l.Absorption > 0 {
+		pl.PhotonFlux = physics.PhotonFluxOf(l.PowerDensity, l.Wavelength)
+		pl.Absorption = l.Absorption
+	}
+	return pl
+}
+
+// litQuantities are the results of a lit junction (none in the dark): the
+// photocurrent by region, and the figures of merit of the lit I-V curve
+// (physics.Static.LitFigures); the efficiency needs an irradiance.
+func litQuantities(s Spec, st *physics.Static) []Quantity {
+	if !(st.IL > 0) {
+		return nil
+	}
+	nan := math.NaN()
+	f, err := st.LitFigures()
+	if err != nil {
+		f = physics.LitFigures{Isc: nan, Voc: nan, Pmax: nan, Vmp: nan, Imp: nan, FF: nan}
+	}
+	eff := nan
+	if irr := s.Light.IrradianceOrDefault(); irr > 0 && err == nil {
+		eff = f.Pmax / (irr * s.Area)
+	}
+	return []Quantity{
+		{"photocurrent_A", GroupLight, "photocurrent", "IL", Current, st.IL, nil},
+		{"photocurrent_p_region_A", GroupLight, "  collected from the p region", "IL,p", Current, st.Photo.P, nil},
+		{"photocurrent_depletion_A", GroupLight, "  from the depletion region", "IL,dep", Current, st.Photo.Depletion, nil},
+		{"photocurrent_n_region_A", GroupLight, "  collected from the n region", "IL,n", Current, st.Photo.N, nil},
+		{"short_circuit_current_A", GroupLight, "short-circuit current", "Isc", Current, f.Isc, nil},
+		{"open_circuit_voltage_V", GroupLight, "open-circuit voltage", "Voc", Voltage, f.Voc, nil},
+		{"max_power_W", GroupLight, "maximum power delivered", "Pmax", Power, f.Pmax, nil},
+		{"max_power_voltage_V", GroupLight, "  at voltage", "Vmp", Voltage, f.Vmp, nil},
+		{"max_power_current_A", GroupLight, "  at current", "Imp", Current, f.Imp, nil},
+		{"fill_factor", GroupLight, "fill factor", "FF", Dimensionless, f.FF, nil},
+		{"efficiency", GroupLight, "power conversion efficiency", "eta", Dimensionless, eff, nil},
+	}
+}
