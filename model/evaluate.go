@@ -37,13 +37,13 @@ const (
 
 // cautionFlag is the flag carrying Caution.
 func cautionFlag() physics.Flag {
-	return physics.Flag{Code: FlagCaution, Quantities: []string{"breakdown", "punch-through", "power"}, Message: Caution}
+	return physics.Flag{Code: FlagCaution, Affects: []physics.Class{physics.ClassBreakdown, physics.ClassPunchThrough, physics.ClassPower}, Message: Caution}
 }
 
 // powerFlag returns the power-limit flag for power p (W) against limit (W)
 // at the bias or sweep described by where.
 func powerFlag(p, limit float64, where string) physics.Flag {
-	return physics.Flag{Code: FlagPowerLimit, Quantities: []string{"power", "total current"},
+	return physics.Flag{Code: FlagPowerLimit, Affects: []physics.Class{physics.ClassPower, physics.ClassCurrent},
 		Message: fmt.Sprintf("%s dissipates %s, above the power limit of %s: the device may heat or fail; check its rated limits", where, Format(Power, p, 3, true), Format(Power, limit, 3, true))}
 }
 
@@ -202,26 +202,18 @@ func resultAt(s Spec, st *physics.Static, v float64) *Result {
 	return r
 }
 
-// attachFlags marks each quantity with the codes of flags that concern it,
-// matching a flag's quantity names against the quantity labels.
+// attachFlags marks each quantity with the codes of the flags that
+// concern its classes (QuantityClasses).
 func (r *Result) attachFlags() {
 	if len(r.Flags) == 0 {
 		return
 	}
-	parent := ""
 	for i := range r.Quantities {
 		q := &r.Quantities[i]
-		sub := strings.HasPrefix(q.Label, "  ")
-		if !sub {
-			parent = q.Label
-		}
-		label := strings.TrimSpace(q.Label)
+		classes := QuantityClasses(q.Key)
 		for _, f := range r.Flags {
-			for _, name := range f.Quantities {
-				if name == "all" || strings.Contains(label, name) || (sub && strings.Contains(parent, name)) {
-					q.Flags = append(q.Flags, f.Code)
-					break
-				}
+			if f.Concerns(classes) {
+				q.Flags = append(q.Flags, f.Code)
 			}
 		}
 	}

@@ -72,8 +72,8 @@ func BuildNumericDevice(spec Spec, num NumericSpec, vmin float64) (*NumericDevic
 	m := pd.Material
 	t := pd.Temperature
 	out := &NumericDevice{Base: num.base(), Static: st}
-	flag := func(code string, q []string, msg string) {
-		out.Flags = append(out.Flags, physics.Flag{Code: code, Quantities: q, Message: msg})
+	flag := func(code string, q []physics.Class, msg string) {
+		out.Flags = append(out.Flags, physics.Flag{Code: code, Affects: q, Message: msg})
 	}
 	var dev solver.Device
 	switch out.Base {
@@ -85,12 +85,12 @@ func BuildNumericDevice(spec Spec, num NumericSpec, vmin float64) (*NumericDevic
 				return given
 			case width > 0:
 				l := width + edge
-				flag(FlagNumericLength, []string{"all"}, fmt.Sprintf("%s region length %s: the quasi-neutral width plus the depletion edge at %s (give --lengths to choose)",
+				flag(FlagNumericLength, []physics.Class{physics.ClassAll}, fmt.Sprintf("%s region length %s: the quasi-neutral width plus the depletion edge at %s (give --lengths to choose)",
 					name, Format(Length, l, 3, true), Format(Voltage, vmin, 3, true)))
 				return l
 			}
 			l := math.Min(edge+longRegionDiffusionLengths*diffLen, maxWidth)
-			flag(FlagNumericLength, []string{"all"}, fmt.Sprintf("the %s region is long: simulated as %s, the depletion edge at %s plus %d minority diffusion lengths (%s each; give --lengths to choose)",
+			flag(FlagNumericLength, []physics.Class{physics.ClassAll}, fmt.Sprintf("the %s region is long: simulated as %s, the depletion edge at %s plus %d minority diffusion lengths (%s each; give --lengths to choose)",
 				name, Format(Length, l, 3, true), Format(Voltage, vmin, 3, true), longRegionDiffusionLengths, Format(Length, diffLen, 3, true)))
 			return l
 		}
@@ -111,7 +111,7 @@ func BuildNumericDevice(spec Spec, num NumericSpec, vmin float64) (*NumericDevic
 			if num.File != nil {
 				out.Length = math.Max(out.Length, num.File.Depth[len(num.File.Depth)-1])
 			}
-			flag(FlagNumericLength, []string{"all"}, fmt.Sprintf("device length %s: the deepest profile feature (%s) plus %s, or the depth of the imported profile (give --length to choose)",
+			flag(FlagNumericLength, []physics.Class{physics.ClassAll}, fmt.Sprintf("device length %s: the deepest profile feature (%s) plus %s, or the depth of the imported profile (give --length to choose)",
 				Format(Length, out.Length, 3, true), Format(Length, deep, 3, true), Format(Length, profileMargin, 3, true)))
 		}
 		dev = solver.Device{Material: m, Temperature: t, Length: out.Length,
@@ -122,14 +122,14 @@ func BuildNumericDevice(spec Spec, num NumericSpec, vmin float64) (*NumericDevic
 		case BaseAcceptor:
 			dev.Profile.Acceptors = []solver.Shape{solver.Uniform{Concentration: spec.AcceptorDensity, From: math.Inf(-1), To: math.Inf(1)}}
 		}
-		flag(FlagNumericReference, []string{"all"}, "the analytic values are those of the Spec's step or graded junction, not of this doping profile: read the differences as a comparison with that reference")
+		flag(FlagNumericReference, []physics.Class{physics.ClassAll}, "the analytic values are those of the Spec's step or graded junction, not of this doping profile: read the differences as a comparison with that reference")
 	}
 	for i, s := range num.Shapes {
 		sh := s.shape(out.Length)
 		if s.Kind == ShapeGaussian {
 			// Share of the Gaussian above the surface: 1/2 erfc(Rp/(sqrt(2) dRp)).
 			if lost := 0.5 * math.Erfc(s.Range/(math.Sqrt2*s.Straggle)); lost > 0.01 {
-				flag(FlagNumericDoseOutside, []string{"all"}, fmt.Sprintf("shape %d: %.1f %% of the implanted dose lies above the surface (projected range %s < 2.3 straggles) and is not in the device",
+				flag(FlagNumericDoseOutside, []physics.Class{physics.ClassAll}, fmt.Sprintf("shape %d: %.1f %% of the implanted dose lies above the surface (projected range %s < 2.3 straggles) and is not in the device",
 					i+1, 100*lost, Format(Length, s.Range, 3, true)))
 			}
 		}
@@ -160,7 +160,7 @@ func BuildNumericDevice(spec Spec, num NumericSpec, vmin float64) (*NumericDevic
 			if name == "" {
 				name = "the depth profile"
 			}
-			flag(FlagNumericProfileHeld, []string{"all"}, fmt.Sprintf("%s covers depths %s to %s of a %s device: its end values are held beyond",
+			flag(FlagNumericProfileHeld, []physics.Class{physics.ClassAll}, fmt.Sprintf("%s covers depths %s to %s of a %s device: its end values are held beyond",
 				name, Format(Length, f.Depth[0], 3, true), Format(Length, last, 3, true), Format(Length, out.Length, 3, true)))
 		}
 	}
@@ -193,17 +193,17 @@ func BuildNumericDevice(spec Spec, num NumericSpec, vmin float64) (*NumericDevic
 		if hook, ok := narrowingHook(m, t, e.BGNModel); ok {
 			dev.IntrinsicDensity = hook
 		} else {
-			flag(FlagNumericBGN, []string{"current"}, fmt.Sprintf("no band-gap narrowing parameters for %s: the solver uses ni everywhere", m.Name))
+			flag(FlagNumericBGN, []physics.Class{physics.ClassCurrent}, fmt.Sprintf("no band-gap narrowing parameters for %s: the solver uses ni everywhere", m.Name))
 		}
 	}
 	if spec.PContactVelocity != nil || spec.NContactVelocity != nil {
-		flag(FlagNumericContacts, []string{"current"}, "the solver's contacts are ohmic: the contact recombination velocities of the Spec apply to the analytic values only")
+		flag(FlagNumericContacts, []physics.Class{physics.ClassCurrent}, "the solver's contacts are ohmic: the contact recombination velocities of the Spec apply to the analytic values only")
 	}
 	if spec.ContactResistance > 0 || spec.ShuntResistance > 0 {
-		flag(FlagNumericExternal, []string{"current"}, "the contact and shunt resistances are outside the simulated device: the numeric current is that of the device alone")
+		flag(FlagNumericExternal, []physics.Class{physics.ClassCurrent}, "the contact and shunt resistances are outside the simulated device: the numeric current is that of the device alone")
 	}
 	if spec.Effects.NoSRH || spec.Effects.NoHighInjection || spec.Effects.NoSeriesResistance {
-		flag(FlagNumericEffects, []string{"current"}, "the drift-diffusion model always contains recombination in the depletion region, high injection and the resistance of the simulated regions: the switches that turn them off apply to the analytic values only")
+		flag(FlagNumericEffects, []physics.Class{physics.ClassCurrent}, "the drift-diffusion model always contains recombination in the depletion region, high injection and the resistance of the simulated regions: the switches that turn them off apply to the analytic values only")
 	}
 	out.Device = dev
 	// The solver sizes its refined depletion zone from the chemical

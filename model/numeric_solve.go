@@ -149,7 +149,7 @@ func Solve(ctx context.Context, spec Spec, num NumericSpec, progress NumericProg
 	case ctx.Err() != nil:
 		return nil, ctx.Err()
 	case cerr != nil || len(cv) == 0:
-		r.Flags = append(r.Flags, physics.Flag{Code: FlagNumericCapacitance, Quantities: []string{"capacitance"},
+		r.Flags = append(r.Flags, physics.Flag{Code: FlagNumericCapacitance, Affects: []physics.Class{physics.ClassCapacitance},
 			Message: fmt.Sprintf("the capacitance could not be computed: %v", cerr)})
 	default:
 		r.CapacitancePerArea = cv[0].Capacitance
@@ -173,7 +173,7 @@ func breakdownFlags(st *physics.Static, vmin float64) []physics.Flag {
 	if !(vb > 0) || !(-vmin >= vb) {
 		return nil
 	}
-	return []physics.Flag{{Code: FlagNumericBreakdown, Quantities: []string{"current"},
+	return []physics.Flag{{Code: FlagNumericBreakdown, Affects: []physics.Class{physics.ClassCurrent},
 		Message: fmt.Sprintf("%s is beyond the analytic avalanche breakdown voltage (%s): the solver has no impact ionisation and shows no breakdown",
 			Format(Voltage, vmin, 4, true), Format(Voltage, -vb, 4, true))}, cautionFlag()}
 }

@@ -62,12 +62,12 @@ const (
 	FlagIntrinsic         = "intrinsic"          // ni above a tenth of a side's doping
 )
 
-// Flag is a validity warning attached to a result, naming the quantities
-// it affects.
+// Flag is a validity warning attached to a result, naming the classes of
+// results it concerns.
 type Flag struct {
-	Code       string   // one of the Flag* codes
-	Quantities []string // the result quantities the flag concerns
-	Message    string   // a sentence fit to show a user
+	Code    string  // one of the Flag* codes
+	Affects []Class // the classes of results the flag concerns
+	Message string  // a sentence fit to show a user
 }
 
 // Static holds the bias-independent part of a device evaluation.
@@ -251,27 +251,27 @@ func (s *Static) staticFlags() []Flag {
 	m, d, t := s.Device.Material, s.Device, s.Device.Temperature
 	var f []Flag
 	if t < m.TMin || t > m.TMax {
-		f = append(f, Flag{FlagTemperatureRange, []string{"all"},
+		f = append(f, Flag{FlagTemperatureRange, []Class{ClassAll},
 			fmt.Sprintf("%g K is outside %g-%g K, the range %s's parameters are trusted over", t, m.TMin, m.TMax, m.Name)})
 	}
 	if t < m.MobilityTMin || t > m.MobilityTMax {
-		f = append(f, Flag{FlagMobilityRange, []string{"mobility", "diffusivity", "diffusion length", "saturation current"},
+		f = append(f, Flag{FlagMobilityRange, []Class{ClassTransport, ClassSaturation, ClassDiffusionCurrent},
 			fmt.Sprintf("mobility model used outside its %g-%g K range", m.MobilityTMin, m.MobilityTMax)})
 	}
 	if m.NiFit != nil && (t < m.NiFit.TMin || t > m.NiFit.TMax) {
-		f = append(f, Flag{FlagNiFitRange, []string{"intrinsic density", "built-in potential", "saturation current"},
+		f = append(f, Flag{FlagNiFitRange, []Class{ClassIntrinsic, ClassBuiltIn, ClassSaturation, ClassDiffusionCurrent},
 			fmt.Sprintf("intrinsic density extrapolated: the fit of %s covers %g-%g K", m.NiFit.Source, m.NiFit.TMin, m.NiFit.TMax)})
 	}
 	if d.Na > 0.1*m.Nv(t) || d.Nd > 0.1*m.Nc(t) {
-		f = append(f, Flag{FlagDegenerate, []string{"built-in potential", "saturation current"},
+		f = append(f, Flag{FlagDegenerate, []Class{ClassBuiltIn, ClassIonisation, ClassSaturation, ClassDiffusionCurrent},
 			"doping above a tenth of the effective density of states: Boltzmann statistics and full ionisation are doubtful"})
 	}
 	if s.Ni > 0.1*math.Min(d.Na, d.Nd) {
-		f = append(f, Flag{FlagIntrinsic, []string{"intrinsic density", "built-in potential", "majority", "saturation current", "depletion width", "capacitance"},
+		f = append(f, Flag{FlagIntrinsic, []Class{ClassIntrinsic, ClassBuiltIn, ClassIonisation, ClassSaturation, ClassDepletion, ClassCapacitance},
 			fmt.Sprintf("intrinsic regime: ni = %.3g cm^-3 exceeds a tenth of a side's doping (Na %.3g, Nd %.3g cm^-3); majority densities from n0 = N/2 + sqrt(N^2/4 + ni^2), and the junction fades as ni approaches the doping", s.Ni/perCm3, d.Na/perCm3, d.Nd/perCm3)})
 	}
 	if (!math.IsInf(d.Wp, 1) && d.Wp < 0.1*s.LN) || (!math.IsInf(d.Wn, 1) && d.Wn < 0.1*s.LP) {
-		f = append(f, Flag{FlagShortDiffusion, []string{"saturation current"},
+		f = append(f, Flag{FlagShortDiffusion, []Class{ClassSaturation},
 			"a quasi-neutral region is much shorter than its diffusion length: the contact sets the current (short base)"})
 	}
 	return f
@@ -354,9 +354,9 @@ func (s *Static) At(v float64) Point {
 	s.smallSignal(&p)
 	switch {
 	case !p.Depletion.Valid:
-		p.Flags = append(p.Flags, Flag{FlagDepletionFails, []string{"depletion width", "peak field", "capacitance"}, p.Depletion.Problem})
+		p.Flags = append(p.Flags, Flag{FlagDepletionFails, []Class{ClassDepletion, ClassCapacitance}, p.Depletion.Problem})
 	case p.Depletion.Drop() < 3*s.Vt:
-		p.Flags = append(p.Flags, Flag{FlagDepletionMarginal, []string{"depletion width", "peak field", "capacitance"},
+		p.Flags = append(p.Flags, Flag{FlagDepletionMarginal, []Class{ClassDepletion, ClassCapacitance},
 			fmt.Sprintf("the depleted region holds less than 3 kT/q (built-in potential %.3f V less %.3g V in the majority-carrier tails): the depletion approximation is rough here", s.Vbi, s.Tail)})
 	}
 	return p

@@ -40,13 +40,13 @@ func (s *Static) prepareEffects() error {
 				if c.n >= c.lv.MottDensity {
 					what = "the dopants are taken as a band, fully ionised"
 				}
-				s.Flags = append(s.Flags, Flag{FlagMottTransition, []string{"ionised", "majority", "built-in potential"},
+				s.Flags = append(s.Flags, Flag{FlagMottTransition, []Class{ClassIonisation, ClassBuiltIn},
 					fmt.Sprintf("%s at %.3g cm^-3 is near or above its Mott density %.3g cm^-3: %s", c.sp, c.n/perCm3, c.lv.MottDensity/perCm3, what)})
 			}
 		}
 		fa, fd := s.NaIonised/d.Na, s.NdIonised/d.Nd
 		if fa < 0.9 || fd < 0.9 {
-			s.Flags = append(s.Flags, Flag{FlagIncompleteIon, []string{"built-in potential", "ionised", "majority", "diffusion current", "series resistance"},
+			s.Flags = append(s.Flags, Flag{FlagIncompleteIon, []Class{ClassBuiltIn, ClassIonisation, ClassDiffusionCurrent, ClassSeriesResistance},
 				fmt.Sprintf("incomplete ionisation: %.0f%% of the acceptors and %.0f%% of the donors are ionised at %g K (Fermi-Dirac occupation of the dopant levels, %s model)", 100*fa, 100*fd, t, e.IonisationModel)})
 		}
 	}
@@ -60,10 +60,10 @@ func (s *Static) prepareEffects() error {
 		s.NiEffN = s.Ni * math.Exp(s.DEgN/(2*s.Vt))
 		switch {
 		case !ok && math.Max(d.Na, d.Nd) > 1e17*perCm3:
-			s.Flags = append(s.Flags, Flag{FlagBGNModel, []string{"diffusion current", "narrowing", "effective ni", "BGN"},
+			s.Flags = append(s.Flags, Flag{FlagBGNModel, []Class{ClassDiffusionCurrent, ClassNarrowing, ClassSaturation},
 				fmt.Sprintf("no band-gap narrowing parameters for %s: heavy doping is treated with ni_eff = ni", m.Name)})
 		case ok && (t < bgnTMin || t > bgnTMax):
-			s.Flags = append(s.Flags, Flag{FlagBGNModel, []string{"diffusion current", "narrowing", "effective ni", "BGN"},
+			s.Flags = append(s.Flags, Flag{FlagBGNModel, []Class{ClassDiffusionCurrent, ClassNarrowing, ClassSaturation},
 				fmt.Sprintf("band-gap narrowing fitted near 300 K is applied unchanged at %g K (trusted %g-%g K)", t, bgnTMin, bgnTMax)})
 		}
 	}
@@ -126,7 +126,7 @@ func (s *Static) prepareEffects() error {
 	}
 	s.SCR = SCRParams{Ni: s.Ni, P0: s.P0, N0: n0, TauN: tn, TauP: tp, Vt: s.Vt, Local: s.localLifetimes()}
 	if e.SRH && (t < 200 || t > 400) {
-		s.Flags = append(s.Flags, Flag{FlagLifetimeTemp, []string{"recombination", "generation", "lifetime"},
+		s.Flags = append(s.Flags, Flag{FlagLifetimeTemp, []Class{ClassSCRCurrent, ClassLifetime},
 			fmt.Sprintf("lifetimes are taken as temperature independent; at %g K they are an extrapolation of room-temperature values (trusted 200-400 K)", t)})
 	}
 
@@ -145,7 +145,7 @@ func (s *Static) prepareEffects() error {
 		s.Rs = s.RP + s.RN + s.RContact
 	}
 	if (e.SeriesResistance || e.Breakdown) && (assumedP || assumedN) {
-		s.Flags = append(s.Flags, Flag{FlagAssumedThickness, []string{"series resistance", "punch-through"},
+		s.Flags = append(s.Flags, Flag{FlagAssumedThickness, []Class{ClassSeriesResistance, ClassPunchThrough, ClassForwardVoltage},
 			fmt.Sprintf("a long region is taken as %.0f um thick for its resistance and punch-through (set the thickness to change it)", defaultLayerThickness*1e6)})
 	}
 
@@ -217,7 +217,7 @@ func (s *Static) computeBreakdown() {
 	b := &s.Breakdown
 	im, ok := ImpactModelFor(m)
 	if !ok {
-		s.Flags = append(s.Flags, Flag{FlagBreakdownNotFound, []string{"breakdown"}, "no impact-ionisation model for " + m.Name})
+		s.Flags = append(s.Flags, Flag{FlagBreakdownNotFound, []Class{ClassBreakdown}, "no impact-ionisation model for " + m.Name})
 		return
 	}
 	b.Model = im.Source
@@ -251,7 +251,7 @@ func (s *Static) computeBreakdown() {
 	e0, it, conv := a.searchBreakdown(guess)
 	b.Iterations, b.Converged = it, conv
 	if !conv || math.IsNaN(e0) {
-		s.Flags = append(s.Flags, Flag{FlagBreakdownNotFound, []string{"breakdown"}, "the breakdown search did not converge"})
+		s.Flags = append(s.Flags, Flag{FlagBreakdownNotFound, []Class{ClassBreakdown}, "the breakdown search did not converge"})
 		return
 	}
 	vr, w, up, un := a.reverse(e0)
@@ -262,7 +262,7 @@ func (s *Static) computeBreakdown() {
 		if vt, _, _, _ := a.reverse(et); vt > 0 {
 			b.TunnellingVoltage = vt
 			b.Effective = math.Min(vr, vt)
-			s.Flags = append(s.Flags, Flag{FlagTunnelling, []string{"breakdown"},
+			s.Flags = append(s.Flags, Flag{FlagTunnelling, []Class{ClassBreakdown},
 				fmt.Sprintf("the peak field reaches the tunnelling field %.3g V/cm at %.3g V reverse, before avalanche at %.3g V: Zener breakdown comes first", et/100, vt, vr)})
 		} else {
 			b.TunnellingVoltage, b.Effective = 0, 0
@@ -286,28 +286,28 @@ func (s *Static) computeBreakdown() {
 		if (b.AssumedP && up >= b.ThicknessP) || (b.AssumedN && un >= b.ThicknessN) {
 			msg += fmt.Sprintf(" (with the assumed %.0f um layer)", defaultLayerThickness*1e6)
 		}
-		s.Flags = append(s.Flags, Flag{FlagPunchThrough, []string{"breakdown", "punch-through"}, msg})
+		s.Flags = append(s.Flags, Flag{FlagPunchThrough, []Class{ClassBreakdown, ClassPunchThrough}, msg})
 	}
 	switch {
 	case vr < 4*s.Eg:
 		b.Tunnelling = true
-		s.Flags = append(s.Flags, Flag{FlagTunnelling, []string{"breakdown"},
+		s.Flags = append(s.Flags, Flag{FlagTunnelling, []Class{ClassBreakdown},
 			fmt.Sprintf("avalanche estimate %.3g V is below 4 Eg/q = %.3g V: Zener tunnelling dominates and sets a lower breakdown voltage (Sze & Ng 2007)", vr, 4*s.Eg)})
 	case vr < 6*s.Eg:
 		b.Mixed = true
-		s.Flags = append(s.Flags, Flag{FlagTunnelling, []string{"breakdown"},
+		s.Flags = append(s.Flags, Flag{FlagTunnelling, []Class{ClassBreakdown},
 			fmt.Sprintf("breakdown %.3g V lies between 4 and 6 Eg/q: tunnelling and avalanche both contribute and the avalanche estimate is an upper bound (Sze & Ng 2007)", vr)})
 	}
 	if im.TempLawCheck == "" && math.Abs(t-300) > 10 {
-		s.Flags = append(s.Flags, Flag{FlagBreakdownTemperature, []string{"breakdown", "multiplication"},
+		s.Flags = append(s.Flags, Flag{FlagBreakdownTemperature, []Class{ClassBreakdown, ClassMultiplication},
 			fmt.Sprintf("breakdown at %g K: the temperature law of the %s impact-ionisation coefficients is not checked against measured breakdown voltages (for Si it gives about +0.2 %%/K, perhaps twice the measured coefficient)", t, m.Name)})
 	}
 	if t < im.TMin || t > im.TMax {
-		s.Flags = append(s.Flags, Flag{FlagImpactRange, []string{"breakdown", "multiplication"},
+		s.Flags = append(s.Flags, Flag{FlagImpactRange, []Class{ClassBreakdown, ClassMultiplication},
 			fmt.Sprintf("impact-ionisation coefficients extrapolated to %g K (trusted %g-%g K)", t, im.TMin, im.TMax)})
 	}
 	if e0 < im.EMin || e0 > im.EMax {
-		s.Flags = append(s.Flags, Flag{FlagImpactRange, []string{"breakdown", "multiplication"},
+		s.Flags = append(s.Flags, Flag{FlagImpactRange, []Class{ClassBreakdown, ClassMultiplication},
 			fmt.Sprintf("peak field at breakdown %.3g V/cm lies outside the %.3g-%.3g V/cm of the impact-ionisation data", e0/100, im.EMin/100, im.EMax/100)})
 	}
 }
@@ -506,7 +506,7 @@ func (s *Static) SolveFrom(v, guess float64) Point {
 		if rs > 0 {
 			p.Current = (v - vj) / rs
 		}
-		p.Flags = append(p.Flags, Flag{FlagBeyondBreakdown, []string{"total current", "power"},
+		p.Flags = append(p.Flags, Flag{FlagBeyondBreakdown, []Class{ClassCurrent, ClassPower},
 			fmt.Sprintf("reverse bias at or beyond the avalanche breakdown (%.4g V): the current is set by the external circuit", s.Breakdown.Voltage)})
 		p.Diffusion, p.DiffusionN, p.DiffusionP = math.NaN(), math.NaN(), math.NaN()
 		p.Recombination, p.Generation, p.Shunt = math.NaN(), math.NaN(), math.NaN()
@@ -545,7 +545,7 @@ func (s *Static) SolveFrom(v, guess float64) Point {
 	p.InjectionP = st.pen / s.P0
 	p.InjectionN = st.pep / s.N0
 	if !p.Converged {
-		p.Flags = append(p.Flags, Flag{FlagNotConverged, []string{"total current", "junction voltage"},
+		p.Flags = append(p.Flags, Flag{FlagNotConverged, []Class{ClassCurrent, ClassJunctionVoltage},
 			fmt.Sprintf("the series-resistance solution did not converge at %.4g V", v)})
 	}
 	if inj := math.Max(p.InjectionP, p.InjectionN); inj > 0.1 {
@@ -553,18 +553,18 @@ func (s *Static) SolveFrom(v, guess float64) Point {
 		if !s.Effects.HighInjection {
 			what = "not modelled (high injection is off): the current is overestimated"
 		}
-		p.Flags = append(p.Flags, Flag{FlagHighInjection, []string{"total current", "diffusion current", "ideality"},
+		p.Flags = append(p.Flags, Flag{FlagHighInjection, []Class{ClassCurrent, ClassDiffusionCurrent, ClassIdeality},
 			fmt.Sprintf("high injection: the injected minority density is %.2g of the doping at a depletion edge, %s", inj, what)})
 	}
 	if !st.beyond && s.aval != nil && s.Effects.Breakdown && v <= -s.Breakdown.Voltage {
-		p.Flags = append(p.Flags, Flag{FlagBeyondBreakdown, []string{"total current", "power"},
+		p.Flags = append(p.Flags, Flag{FlagBeyondBreakdown, []Class{ClassCurrent, ClassPower},
 			fmt.Sprintf("reverse bias beyond the avalanche breakdown (%.4g V): the junction clamps there and the series resistance and external circuit set the current", s.Breakdown.Voltage)})
 	} else if m := math.Max(p.Mn, p.Mp); m > 1.1 && !st.beyond {
-		p.Flags = append(p.Flags, Flag{FlagNearBreakdown, []string{"total current", "multiplication"},
+		p.Flags = append(p.Flags, Flag{FlagNearBreakdown, []Class{ClassCurrent, ClassMultiplication},
 			fmt.Sprintf("near breakdown: avalanche multiplication %.3g", m)})
 	}
 	if rs > 0 && math.Abs(p.SeriesDrop) > 0.1*math.Abs(v) && v > 0 {
-		p.Flags = append(p.Flags, Flag{FlagSeriesDominates, []string{"total current", "ideality", "series-resistance drop"},
+		p.Flags = append(p.Flags, Flag{FlagSeriesDominates, []Class{ClassCurrent, ClassIdeality, ClassJunctionVoltage},
 			fmt.Sprintf("the series resistance drops %.3g V of the %.3g V bias", p.SeriesDrop, v)})
 	}
 	return p

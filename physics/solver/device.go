@@ -590,24 +590,24 @@ func (s *Solver) staticFlags() []physics.Flag {
 	m, t := s.dev.Material, s.dev.Temperature
 	var f []physics.Flag
 	if t < m.TMin || t > m.TMax {
-		f = append(f, physics.Flag{Code: physics.FlagTemperatureRange, Quantities: []string{"all"},
+		f = append(f, physics.Flag{Code: physics.FlagTemperatureRange, Affects: []physics.Class{physics.ClassAll},
 			Message: fmt.Sprintf("%g K is outside %g-%g K, the range %s's parameters are trusted over", t, m.TMin, m.TMax, m.Name)})
 	}
 	if t < m.MobilityTMin || t > m.MobilityTMax {
-		f = append(f, physics.Flag{Code: physics.FlagMobilityRange, Quantities: []string{"current"},
+		f = append(f, physics.Flag{Code: physics.FlagMobilityRange, Affects: []physics.Class{physics.ClassCurrent},
 			Message: fmt.Sprintf("mobility model used outside its %g-%g K range", m.MobilityTMin, m.MobilityTMax)})
 	}
 	if m.NiFit != nil && (t < m.NiFit.TMin || t > m.NiFit.TMax) {
-		f = append(f, physics.Flag{Code: physics.FlagNiFitRange, Quantities: []string{"built-in potential", "current"},
+		f = append(f, physics.Flag{Code: physics.FlagNiFitRange, Affects: []physics.Class{physics.ClassBuiltIn, physics.ClassCurrent},
 			Message: fmt.Sprintf("intrinsic density extrapolated: the fit of %s covers %g-%g K", m.NiFit.Source, m.NiFit.TMin, m.NiFit.TMax)})
 	}
 	if s.meshCapped > 0 {
-		f = append(f, physics.Flag{Code: FlagMeshCapped, Quantities: []string{"all"},
+		f = append(f, physics.Flag{Code: FlagMeshCapped, Affects: []physics.Class{physics.ClassAll},
 			Message: fmt.Sprintf("the profile asks for %d nodes; the mesh was capped at %d (Options.Mesh.MaxNodes): results are less accurate", s.meshCapped, len(s.x))})
 	}
 	for i := range s.x {
 		if s.ndi[i] > 0.1*s.nc || s.nai[i] > 0.1*s.nv {
-			f = append(f, physics.Flag{Code: physics.FlagDegenerate, Quantities: []string{"potential", "current"},
+			f = append(f, physics.Flag{Code: physics.FlagDegenerate, Affects: []physics.Class{physics.ClassBuiltIn, physics.ClassCurrent},
 				Message: fmt.Sprintf("doping above a tenth of the effective density of states near x = %.4g um: the solver's Boltzmann statistics and complete ionisation are doubtful there", s.x[i]*1e6)})
 			break
 		}

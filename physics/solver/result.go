@@ -289,25 +289,25 @@ func (s *Solver) result(st *state, w *work, iters int, upd, res float64) *Result
 	r.Depletion = s.depletion(st, n, p)
 	r.Flags = append(r.Flags, s.flags...)
 	if r.CurrentSpread > 1e-6 {
-		r.Flags = append(r.Flags, physics.Flag{Code: FlagCurrentUnresolved, Quantities: []string{"current"},
+		r.Flags = append(r.Flags, physics.Flag{Code: FlagCurrentUnresolved, Affects: []physics.Class{physics.ClassCurrent},
 			Message: fmt.Sprintf("Jn + Jp varies by %.2g relative along the device: the current (%.3g A/m^2) is below what the solver resolves", r.CurrentSpread, r.Current)})
 	}
 	d := r.Depletion
 	if d.MinorityRatio > 0.1 {
-		r.Flags = append(r.Flags, physics.Flag{Code: FlagHighInjection, Quantities: []string{"current"},
+		r.Flags = append(r.Flags, physics.Flag{Code: FlagHighInjection, Affects: []physics.Class{physics.ClassCurrent},
 			Message: fmt.Sprintf("minority density %.3g of the majority density at a quasi-neutral edge: low-injection formulas do not apply", d.MinorityRatio)})
 	}
 	switch {
 	case !d.Valid:
-		r.Flags = append(r.Flags, physics.Flag{Code: FlagNoDepletion, Quantities: []string{"depletion width"},
+		r.Flags = append(r.Flags, physics.Flag{Code: FlagNoDepletion, Affects: []physics.Class{physics.ClassDepletion},
 			Message: fmt.Sprintf("no depleted region (the space-charge width is below the Debye length of the lighter side) at %.4g V", r.Bias)})
 	default:
 		if d.ReachThrough {
-			r.Flags = append(r.Flags, physics.Flag{Code: FlagReachThrough, Quantities: []string{"depletion width", "capacitance"},
+			r.Flags = append(r.Flags, physics.Flag{Code: FlagReachThrough, Affects: []physics.Class{physics.ClassDepletion, physics.ClassCapacitance},
 				Message: "the depletion region reaches a contact"})
 		}
 		if d.OutsideZone {
-			r.Flags = append(r.Flags, physics.Flag{Code: FlagMeshZone, Quantities: []string{"depletion width", "capacitance"},
+			r.Flags = append(r.Flags, physics.Flag{Code: FlagMeshZone, Affects: []physics.Class{physics.ClassDepletion, physics.ClassCapacitance},
 				Message: "a depletion edge lies outside the refined mesh zone: raise Options.Mesh.MaxReverseBias"})
 		}
 	}
