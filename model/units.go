@@ -39,6 +39,8 @@ const (
 )
 
 type unitDef struct {
+	// names are the accepted spellings; the first, in its proper case,
+	// is the one error messages list.
 	names  []string
 	factor float64 // SI value of one unit
 	offset float64 // added after scaling (degrees Celsius)
@@ -59,8 +61,8 @@ func kindInfo(k Kind) (name, si, def string, units []unitDef) {
 			{[]string{"m-4", "m^-4", "/m4", "/m^4"}, 1, 0}}
 	case Temperature:
 		return "temperature", "K", "K", []unitDef{
-			{[]string{"k"}, 1, 0},
-			{[]string{"c", "°c", "degc", "celsius"}, 1, 273.15}}
+			{[]string{"K"}, 1, 0},
+			{[]string{"degC", "c", "°c", "celsius"}, 1, 273.15}}
 	case Area:
 		return "area", "m^2", "cm^2", []unitDef{
 			{[]string{"cm2", "cm^2", "cm²"}, 1e-4, 0},
@@ -82,7 +84,7 @@ func kindInfo(k Kind) (name, si, def string, units []unitDef) {
 			{[]string{"ps"}, 1e-12, 0}}
 	case Voltage:
 		return "voltage", "V", "V", []unitDef{
-			{[]string{"v"}, 1, 0}, {[]string{"mv"}, 1e-3, 0}, {[]string{"kv"}, 1e3, 0}}
+			{[]string{"V"}, 1, 0}, {[]string{"mV"}, 1e-3, 0}, {[]string{"kV"}, 1e3, 0}}
 	case Velocity:
 		return "velocity", "m/s", "cm/s", []unitDef{
 			{[]string{"cm/s"}, 1e-2, 0}, {[]string{"m/s"}, 1, 0}}
@@ -92,29 +94,29 @@ func kindInfo(k Kind) (name, si, def string, units []unitDef) {
 			{[]string{"kohm", "kΩ", "k"}, 1e3, 0}, {[]string{"megohm", "MΩ", "Mohm"}, 1e6, 0}}
 	case Current:
 		return "current", "A", "A", []unitDef{
-			{[]string{"a"}, 1, 0}, {[]string{"ma"}, 1e-3, 0}, {[]string{"ua", "µa", "μa"}, 1e-6, 0},
-			{[]string{"na"}, 1e-9, 0}, {[]string{"pa"}, 1e-12, 0}}
+			{[]string{"A"}, 1, 0}, {[]string{"mA"}, 1e-3, 0}, {[]string{"uA", "µa", "μa"}, 1e-6, 0},
+			{[]string{"nA"}, 1e-9, 0}, {[]string{"pA"}, 1e-12, 0}}
 	case Power:
 		return "power", "W", "W", []unitDef{
-			{[]string{"w"}, 1, 0}, {[]string{"mw"}, 1e-3, 0}, {[]string{"uw", "µw"}, 1e-6, 0}, {[]string{"kw"}, 1e3, 0}}
+			{[]string{"W"}, 1, 0}, {[]string{"mW"}, 1e-3, 0}, {[]string{"uW", "µw"}, 1e-6, 0}, {[]string{"kW"}, 1e3, 0}}
 	case Capacitance:
 		return "capacitance", "F", "F", []unitDef{
-			{[]string{"f"}, 1, 0}, {[]string{"uf", "µf"}, 1e-6, 0}, {[]string{"nf"}, 1e-9, 0},
-			{[]string{"pf"}, 1e-12, 0}, {[]string{"ff"}, 1e-15, 0}}
+			{[]string{"F"}, 1, 0}, {[]string{"uF", "µf"}, 1e-6, 0}, {[]string{"nF"}, 1e-9, 0},
+			{[]string{"pF"}, 1e-12, 0}, {[]string{"fF"}, 1e-15, 0}}
 	case CurrentDensity:
 		return "current density", "A/m^2", "A/cm^2", []unitDef{
-			{[]string{"a/cm2", "a/cm^2"}, 1e4, 0}, {[]string{"a/m2", "a/m^2"}, 1, 0},
-			{[]string{"ma/cm2", "ma/cm^2"}, 10, 0}}
+			{[]string{"A/cm2", "a/cm^2"}, 1e4, 0}, {[]string{"A/m2", "a/m^2"}, 1, 0},
+			{[]string{"mA/cm2", "ma/cm^2"}, 10, 0}}
 	case Mobility:
-		return "mobility", "m^2/(V s)", "cm^2/Vs", []unitDef{{[]string{"cm2/vs", "cm^2/vs", "cm^2/(v s)"}, 1e-4, 0}, {[]string{"m2/vs", "m^2/vs"}, 1, 0}}
+		return "mobility", "m^2/(V s)", "cm^2/Vs", []unitDef{{[]string{"cm2/Vs", "cm^2/vs", "cm^2/(v s)"}, 1e-4, 0}, {[]string{"m2/Vs", "m^2/vs"}, 1, 0}}
 	case Diffusivity:
 		return "diffusivity", "m^2/s", "cm^2/s", []unitDef{{[]string{"cm2/s", "cm^2/s"}, 1e-4, 0}, {[]string{"m2/s", "m^2/s"}, 1, 0}}
 	case Field:
-		return "field", "V/m", "V/cm", []unitDef{{[]string{"v/cm"}, 100, 0}, {[]string{"kv/cm"}, 1e5, 0}, {[]string{"mv/cm"}, 1e8, 0}, {[]string{"v/m"}, 1, 0}}
+		return "field", "V/m", "V/cm", []unitDef{{[]string{"V/cm"}, 100, 0}, {[]string{"kV/cm"}, 1e5, 0}, {[]string{"MV/cm"}, 1e8, 0}, {[]string{"V/m"}, 1, 0}}
 	case Energy:
-		return "energy", "eV", "eV", []unitDef{{[]string{"ev"}, 1, 0}, {[]string{"mev"}, 1e-3, 0}}
+		return "energy", "eV", "eV", []unitDef{{[]string{"eV"}, 1, 0}, {[]string{"meV"}, 1e-3, 0}}
 	case CapacitancePerArea:
-		return "capacitance per area", "F/m^2", "nF/cm^2", []unitDef{{[]string{"nf/cm2", "nf/cm^2"}, 1e-5, 0}, {[]string{"f/m2", "f/m^2"}, 1, 0}}
+		return "capacitance per area", "F/m^2", "nF/cm^2", []unitDef{{[]string{"nF/cm2", "nf/cm^2"}, 1e-5, 0}, {[]string{"F/m2", "f/m^2"}, 1, 0}}
 	case Dimensionless:
 		return "number", "", "", []unitDef{{[]string{""}, 1, 0}}
 	case GenerationRate:

@@ -152,3 +152,30 @@ func FuzzParseValue(f *testing.F) {
 		}
 	})
 }
+
+// Error messages list units as they are written (K and degC, not k and c).
+func TestUnitErrorListsUnitsInProperCase(t *testing.T) {
+	cases := []struct {
+		k    Kind
+		text string
+		want string
+	}{
+		{Temperature, "80F", "units: K, degC;"},
+		{Voltage, "5 furlongs", "units: V, mV, kV;"},
+		{Current, "1 parsec", "units: A, mA, uA, nA, pA;"},
+		{Field, "3 bananas", "units: V/cm, kV/cm, MV/cm, V/m;"},
+	}
+	for _, c := range cases {
+		_, err := ParseValue(c.k, c.text)
+		if err == nil || !strings.Contains(err.Error(), c.want) {
+			t.Errorf("ParseValue(%v, %q) error %v, want it to list %q", c.k, c.text, err, c.want)
+		}
+	}
+	// Millivolt per centimetre is not megavolt per centimetre.
+	if v, err := ParseValue(Field, "1MV/cm"); err != nil || v != 1e8 {
+		t.Errorf("1MV/cm = %g, %v; want 1e8 V/m", v, err)
+	}
+	if v, err := ParseValue(Field, "1mV/cm"); err == nil {
+		t.Errorf("1mV/cm accepted as %g V/m; no such unit is offered", v)
+	}
+}

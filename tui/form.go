@@ -17,6 +17,9 @@ import (
 type fieldState struct {
 	text string
 	err  string
+	// kept is set when the value in force is the one from before the
+	// text was edited (the text typed is not accepted).
+	kept bool
 }
 
 // formModel is the guided definition: steps of fields that edit a
@@ -219,8 +222,21 @@ func (f formModel) updateTyping(km tea.KeyMsg) formModel {
 	_, changed := f.ed.handle(km)
 	if changed {
 		f.tryNumber(i, f.ed.value())
+		f.keepBefore()
 	}
 	return f
+}
+
+// keepBefore puts the value from before the typing back in force while the
+// text typed so far is not accepted: a valid prefix met on the way (the
+// "80" of "80F", the "-200" of "-200kV") never stays in force.
+func (f *formModel) keepBefore() {
+	f.fs[f.cur].kept = f.fs[f.cur].err != ""
+	if f.fs[f.cur].err == "" || reflect.DeepEqual(f.spec, f.beforeSp) {
+		return
+	}
+	f.spec, f.res = f.beforeSp, f.beforeRes
+	f.rev++
 }
 
 // finishTyping ends text entry. Text that is not accepted stays on screen,
@@ -228,10 +244,7 @@ func (f formModel) updateTyping(km tea.KeyMsg) formModel {
 // prefix met on the way (the "2" of "2 furlongs") never stays in force.
 func (f *formModel) finishTyping() {
 	f.typing = false
-	if f.fs[f.cur].err != "" && !reflect.DeepEqual(f.spec, f.beforeSp) {
-		f.spec, f.res = f.beforeSp, f.beforeRes
-		f.rev++
-	}
+	f.keepBefore()
 }
 
 func (f *formModel) gotoStep(n int) {
@@ -513,7 +526,11 @@ func (f formModel) lines() []string {
 		}
 		body = append(body, mark+" "+label+" "+val+" "+nowP)
 		if fs.err != "" {
-			for _, l := range wrapText(fs.err+". In force: "+now+".", max(w-4, 8)) {
+			inForce := ". In force: " + now + "."
+			if fs.kept {
+				inForce = ". In force: " + now + ", the value from before editing."
+			}
+			for _, l := range wrapText(fs.err+inForce, max(w-4, 8)) {
 				body = append(body, "    "+st.err.Paint(l))
 			}
 		}
