@@ -10,7 +10,7 @@ import (
 func guideText(g glyphs) []string {
 	return []string{
 		"The workbench has three panels: Define (the junction, step by step), Results (every computed value with its unit) and Charts. Tab and shift+tab move between them; a wide terminal shows them side by side.",
-		"1. In Define, the keys 1 to 5 choose a step: 1 Material, 2 Doping, 3 Geometry, 4 Lifetimes, 5 Conditions. Up and down (or k and j) choose a field.",
+		"1. The keys 1 to 5 choose a step of Define from any panel: 1 Material, 2 Doping, 3 Geometry, 4 Lifetimes, 5 Conditions. Up and down (or k and j) choose a field.",
 		"2. On a number field press enter and type the value, with a unit or without one (a bare number is in the unit named under the field): 1e17, 1e23 m-3, 250um, 27C, -5V. The results follow as you type; enter applies and moves on; esc puts the old value back; x restores the default.",
 		"3. On a choice (semiconductor, profile, species, the effect switches) left and right or space change it; enter moves on.",
 		"4. A value that is not accepted is marked " + g.bad + " with the allowed range and the reason. The last good value stays in force, and the results say they come from the last valid input.",
@@ -28,8 +28,28 @@ func guideText(g glyphs) []string {
 	}
 }
 
+// helpPage is how far pgdn and space move the help: its height less two
+// lines kept for context.
+func (m Model) helpPage() int { return max(m.h-2-2, 1) }
+
+// helpEnd is the scroll that shows the end of the help.
+func (m Model) helpEnd() int { return max(len(m.helpLines(m.w))-(m.h-2), 0) }
+
 // helpScreen draws the guide and every key, scrolled by helpOf.
 func (m Model) helpScreen(w, h int) []string {
+	st, g := m.e.st, m.e.g
+	out := m.helpLines(w)
+	off := min(m.helpOf, max(len(out)-h, 0))
+	out = out[off:]
+	res := block(out, w, h, g.ellipsis)
+	if len(out) > h && h > 0 {
+		res[h-1] = padRight(st.faint.Paint("  "+g.arrow+" more below (j, space or pgdn; G or end for the end)"), w, "")
+	}
+	return res
+}
+
+// helpLines is the whole help for width w.
+func (m Model) helpLines(w int) []string {
 	st, g := m.e.st, m.e.g
 	var out []string
 	out = append(out, rule("Help and guide", w, glyphs{hbar: g.hbarHeavy}, st.heading), "")
@@ -73,13 +93,7 @@ func (m Model) helpScreen(w, h int) []string {
 		out = append(out, "")
 		cols = cols[n:]
 	}
-	off := min(m.helpOf, max(len(out)-h, 0))
-	out = out[off:]
-	res := block(out, w, h, g.ellipsis)
-	if len(out) > h && h > 0 {
-		res[h-1] = padRight(st.faint.Paint("  "+g.arrow+" more below (j or pgdn)"), w, "")
-	}
-	return res
+	return out
 }
 
 func colWidth(lines []string) int {

@@ -126,8 +126,8 @@ func DefaultKeyMap() KeyMap {
 		ScrollDown: b([]string{"down", "j"}, "↓/j", "scroll down"),
 		PageUp:     b([]string{"pgup"}, "pgup", "page up"),
 		PageDown:   b([]string{"pgdown", " "}, "pgdn", "page down"),
-		Top:        b([]string{"home", "g"}, "home", "top"),
-		Bottom:     b([]string{"end", "G"}, "end", "bottom"),
+		Top:        b([]string{"home", "g"}, "home/g", "top"),
+		Bottom:     b([]string{"end", "G"}, "end/G", "bottom"),
 
 		PrevChart: b([]string{"left", "h", "["}, "←/h", "previous chart"),
 		NextChart: b([]string{"right", "l", "]"}, "→/l", "next chart"),

@@ -25,6 +25,10 @@ type importState struct {
 	ed  lineEditor
 	ds  *measure.DataSet
 	err string
+	// choices are the names the last tab completion found (more: how
+	// many more were left out).
+	choices []string
+	more    int
 }
 
 // fitState is the fit screen: the I-V data set fitted, the window fields
@@ -54,7 +58,13 @@ func (m *Model) openImport() {
 		m.note = "read-only review: measurements cannot be added; ctrl+s copies the session to your sessions"
 		return
 	}
-	m.imp = importState{ed: newLineEditorN(m.imp.ed.value(), maxPathRunes)}
+	// The folder of the last path is offered again; what is typed goes
+	// after it (ctrl+u clears it).
+	dir := ""
+	if last := m.imp.ed.value(); strings.Contains(last, "/") {
+		dir = last[:strings.LastIndex(last, "/")+1]
+	}
+	m.imp = importState{ed: newLineEditorN(dir, maxPathRunes)}
 	m.screen = screenImport
 }
 
@@ -93,8 +103,17 @@ func (m Model) importKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		m.imp.ds = ds
 		return m, nil
 	}
+	if km.Type == tea.KeyTab {
+		out, choices, more, err := completePath(m.sess.files, m.imp.ed.value())
+		m.imp.choices, m.imp.more, m.imp.err = choices, more, ""
+		if err != nil {
+			m.imp.err = "no completion: " + err.Error()
+		}
+		m.imp.ed.set(out)
+		return m, nil
+	}
 	if _, changed := m.imp.ed.handle(km); changed {
-		m.imp.err = ""
+		m.imp.err, m.imp.choices, m.imp.more = "", nil, 0
 	}
 	return m, nil
 }
@@ -104,29 +123,19 @@ func (m Model) importKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 func (m *Model) acceptImport() int {
 	ds := *m.imp.ds
 	ds.SourceFile = filepath.Base(ds.SourceFile)
-	id := m.newMeasurementID(string(ds.Kind))
+	id := measurementID(ds.SourceFile, string(ds.Kind), func(id string) bool {
+		for _, x := range m.sess.meas {
+			if x.ID == id {
+				return true
+			}
+		}
+		return false
+	})
 	m.sess.meas = append(m.sess.meas, sessions.Measurement{ID: id, DataSet: ds})
 	m.imp = importState{ed: m.imp.ed}
 	m.screen = screenMain
 	m.note = fmt.Sprintf("added %s (%d points) to the session; ctrl+s saves it", id, ds.Len())
 	return len(m.sess.meas) - 1
-}
-
-// newMeasurementID returns kind-1, kind-2, ... : the first not in use.
-func (m Model) newMeasurementID(kind string) string {
-	if kind == "" {
-		kind = "data"
-	}
-	used := map[string]bool{}
-	for _, x := range m.sess.meas {
-		used[x.ID] = true
-	}
-	for n := 1; ; n++ {
-		id := kind + "-" + strconv.Itoa(n)
-		if !used[id] {
-			return id
-		}
-	}
 }
 
 // importScreen draws the path and the preview or the error.
@@ -138,7 +147,14 @@ func (m Model) importScreen(w, h int) []string {
 	if m.sess.filesNote != "" {
 		body = append(body, wrapped(m.sess.filesNote, fw, st.muted, "")...)
 	}
-	body = append(body, "", "file  "+st.text.Paint(m.imp.ed.view(max(fw-6, 1), st.selected, " ")))
+	body = append(body, "", "file ["+st.text.Paint(m.imp.ed.view(max(fw-7, 1), st.selected, " "))+"]")
+	if len(m.imp.choices) > 0 {
+		list := strings.Join(m.imp.choices, "  ")
+		if m.imp.more > 0 {
+			list += fmt.Sprintf("  (%d more)", m.imp.more)
+		}
+		body = append(body, wrapped(list, fw, st.muted, "      ")...)
+	}
 	switch {
 	case m.imp.err != "":
 		body = append(body, "")
@@ -650,7 +666,8 @@ func (h importHelp) ShortHelp() []key.Binding {
 	if h.preview {
 		return []key.Binding{h.k.AddData, h.k.AddFit, h.k.EditPath, h.k.Dismiss}
 	}
-	return []key.Binding{key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "read and preview")), h.k.Dismiss}
+	return []key.Binding{key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "read and preview")),
+		key.NewBinding(key.WithKeys("tab"), key.WithHelp("tab", "complete the name")), h.k.Dismiss}
 }
 func (h importHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
 

@@ -87,7 +87,7 @@ func TestCVFitRoundTrip(t *testing.T) {
 			t.Errorf("%v: standard errors %g %g", size, n.StdErr, b.StdErr)
 		}
 		v := plain(m)
-		for _, want := range []string{"C-V fit cv-1", "Vbi", "N ", "cm^-3", "Cj0", "Cpar", "measured 1/(C", "Mott-Schottky line", "prediction", "1/(C - Cpar)^2 (1e", "window"} {
+		for _, want := range []string{"C-V fit cv", "Vbi", "N ", "cm^-3", "Cj0", "Cpar", "measured 1/(C", "Mott-Schottky line", "prediction", "1/(C - Cpar)^2 (1e", "window"} {
 			if !strings.Contains(v, want) {
 				t.Errorf("%v: the C-V screen lacks %q:\n%s", size, want, v)
 			}

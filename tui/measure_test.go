@@ -66,7 +66,7 @@ func TestImportPreviewAndAccept(t *testing.T) {
 		t.Fatal("a preview must add nothing")
 	}
 	m = press(m, "enter")
-	if m.screen != screenMain || len(m.sess.meas) != 1 || m.sess.meas[0].ID != "iv-1" {
+	if m.screen != screenMain || len(m.sess.meas) != 1 || m.sess.meas[0].ID != "diode" {
 		t.Fatalf("accept: screen %d, %d measurements", m.screen, len(m.sess.meas))
 	}
 	if !m.Dirty() || !strings.Contains(plain(m), "unsaved") {
@@ -78,7 +78,7 @@ func TestImportPreviewAndAccept(t *testing.T) {
 	}
 	m = importInto(t, m, writeIV(t, "second.csv"))
 	m = press(m, "enter")
-	if len(m.sess.meas) != 2 || m.sess.meas[1].ID != "iv-2" {
+	if len(m.sess.meas) != 2 || m.sess.meas[1].ID != "second" {
 		t.Fatalf("second import: %+v", len(m.sess.meas))
 	}
 }

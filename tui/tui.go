@@ -583,13 +583,22 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		switch {
 		case km.String() == "ctrl+c":
 			return m.quit()
-		case keyIs(km, k.ScrollDown), keyIs(km, k.PageDown):
+		case keyIs(km, k.ScrollDown):
 			m.helpOf++
-		case keyIs(km, k.ScrollUp), keyIs(km, k.PageUp):
-			m.helpOf = max(m.helpOf-1, 0)
+		case keyIs(km, k.ScrollUp):
+			m.helpOf--
+		case keyIs(km, k.PageDown):
+			m.helpOf += m.helpPage()
+		case keyIs(km, k.PageUp):
+			m.helpOf -= m.helpPage()
+		case keyIs(km, k.Top):
+			m.helpOf = 0
+		case keyIs(km, k.Bottom):
+			m.helpOf = m.helpEnd()
 		case keyIs(km, k.Help), km.String() == "esc", km.String() == "q", km.String() == "enter":
 			m.screen = screenMain
 		}
+		m.helpOf = min(max(m.helpOf, 0), m.helpEnd())
 		return m, nil
 	}
 	if km.String() == "ctrl+c" {
@@ -660,6 +669,12 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		case keyIs(km, k.Help):
 			m.screen, m.helpOf = screenHelp, 0
 			return m, nil
+		case keyIs(km, k.Step):
+			// The steps answer in every panel: the key shows Define at
+			// that step.
+			cmd := m.setFocus(panelDefine)
+			m.form, _ = m.form.Update(km)
+			return m, cmd
 		case keyIs(km, k.Quit):
 			return m.quit()
 		case keyIs(km, k.Pin):
@@ -1042,6 +1057,6 @@ func (h dialogHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortH
 type helpScreenHelp struct{ k KeyMap }
 
 func (h helpScreenHelp) ShortHelp() []key.Binding {
-	return []key.Binding{h.k.ScrollDown, h.k.ScrollUp, key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc/?", "back"))}
+	return []key.Binding{h.k.ScrollDown, h.k.ScrollUp, h.k.PageDown, h.k.Bottom, h.k.Top, key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc/?", "back"))}
 }
 func (h helpScreenHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }

@@ -1,0 +1,55 @@
+package tui
+
+import (
+	"strings"
+	"testing"
+)
+
+// In the help, space and pgdn move a page, G and end go to the end, g and
+// home back to the top.
+func TestHelpPagesAndEnds(t *testing.T) {
+	for _, size := range [][2]int{{80, 24}, {120, 40}} {
+		m := press(newTest(t, size[0], size[1]), "?")
+		page := m.h - 4
+		end := len(m.helpLines(m.w)) - (m.h - 2)
+		if m = press(m, "space"); m.helpOf != page {
+			t.Errorf("%v: space moved the help to %d, want a page (%d)", size, m.helpOf, page)
+		}
+		if m = press(m, "pgdown"); m.helpOf != min(2*page, end) {
+			t.Errorf("%v: pgdn moved the help to %d, want %d", size, m.helpOf, min(2*page, end))
+		}
+		m = press(m, "g", "G")
+		if m.helpOf != end || end <= 0 {
+			t.Errorf("%v: G moved the help to %d, want its end %d", size, m.helpOf, end)
+		}
+		if v := plain(m); strings.Contains(v, "more below") {
+			t.Errorf("%v: at the end the help still says there is more below", size)
+		}
+		if m = press(m, "j", "j"); m.helpOf != end {
+			t.Errorf("%v: j past the end scrolled to %d", size, m.helpOf)
+		}
+		if m = press(m, "home"); m.helpOf != 0 {
+			t.Errorf("%v: home left the help at %d", size, m.helpOf)
+		}
+		if m = press(m, "end", "k"); m.helpOf != end-1 {
+			t.Errorf("%v: end then k is at %d, want %d", size, m.helpOf, end-1)
+		}
+	}
+}
+
+// The step keys answer in every panel: from Results or Charts they show
+// Define at that step, and the keys after them act there.
+func TestStepKeysFromEveryPanel(t *testing.T) {
+	for _, from := range []string{"tab", "tab tab"} {
+		m := newTest(t, 80, 24)
+		m = press(m, strings.Fields(from)...)
+		m = press(m, "2")
+		if m.focus != panelDefine || m.form.step != 1 {
+			t.Fatalf("after %s, 2: focus %d step %d, want Define step 2", from, m.focus, m.form.step+1)
+		}
+		m = press(m, "down", "enter")
+		if !m.form.typing || m.chart.editing {
+			t.Errorf("after %s, 2, down, enter: typing %v in Define, sweep editor open %v", from, m.form.typing, m.chart.editing)
+		}
+	}
+}
