@@ -20,6 +20,7 @@
 package sessions
 
 import (
+	"strings"
 	"time"
 
 	"junco/model"
@@ -75,6 +76,21 @@ type Meta struct {
 	// Origin says where this revision came from when it was not edited:
 	// "imported from FILE", "restored from revision N".
 	Origin string `json:"origin,omitempty"`
+	// Note is the note given with this save (it is also among the
+	// document's Notes, dated and signed); "" when none was given.
+	Note string `json:"note,omitempty"`
+}
+
+// Remark is what a list of revisions shows for one: the note given with
+// its save and where it came from, joined by "; " ("" when neither).
+func (m Meta) Remark() string {
+	var parts []string
+	for _, p := range []string{m.Note, m.Origin} {
+		if p = strings.TrimSpace(p); p != "" {
+			parts = append(parts, p)
+		}
+	}
+	return strings.Join(parts, "; ")
 }
 
 // Sweeps are the user's chart and sweep choices.

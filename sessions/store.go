@@ -717,5 +717,6 @@ func (s *Store) RestoreRevision(name string, rev int) (Revision, error) {
 		return Revision{}, err
 	}
 	doc.Meta.Origin = fmt.Sprintf("restored from revision %d", rev)
+	doc.Meta.Note = "" // the note of the old save is not this one's
 	return s.SaveNext(name, doc, rev)
 }

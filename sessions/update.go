@@ -53,6 +53,11 @@ func (s *Store) Update(name string, change func(newest *Document, rev int) (*Doc
 		default:
 			return Revision{}, err
 		}
+		if newest != nil {
+			// Where the newest revision came from and the note of its
+			// save describe it, not the revision made from it.
+			newest.Meta.Origin, newest.Meta.Note = "", ""
+		}
 		doc, err = change(newest, base)
 		if err != nil {
 			return Revision{}, err

@@ -203,6 +203,7 @@ func (m Meta) problems() []FieldProblem {
 	text("$.meta.saved_by", m.SavedBy, maxAuthorRunes, false, false)
 	text("$.meta.tool_version", m.ToolVersion, 64, false, false)
 	text("$.meta.origin", m.Origin, maxLineRunes, false, false)
+	text("$.meta.note", m.Note, maxLineRunes, false, false)
 	if m.BasedOn < 0 {
 		add("$.meta.based_on_revision", fmt.Sprint(m.BasedOn), "0 or more", "0 means none")
 	}

@@ -522,7 +522,7 @@ func (m Model) historyScreen(w, h int) []string {
 		return padLeft(rev, revW) + " " + padRight(saved, savedW, g.ellipsis) + " " + padRight(by, byW, g.ellipsis) + " " +
 			padLeft(from, fromW) + " " + cut(what, titleW, g.ellipsis)
 	}
-	out = append(out, "    "+st.muted.Paint(row("REV", "SAVED", "BY", "FROM", "TITLE / ORIGIN")))
+	out = append(out, "    "+st.muted.Paint(row("REV", "SAVED", "BY", "FROM", "NOTE / ORIGIN / TITLE")))
 	var list []string
 	for i, r := range b.hist {
 		from := "-"
@@ -530,8 +530,8 @@ func (m Model) historyScreen(w, h int) []string {
 			from = strconv.Itoa(r.Meta.BasedOn)
 		}
 		what := r.Meta.Title
-		if r.Meta.Origin != "" {
-			what = r.Meta.Origin + " " + g.dot + " " + what
+		if rm := r.Meta.Remark(); rm != "" {
+			what = rm + " " + g.dot + " " + what
 		}
 		l := row(strconv.Itoa(r.Number), stamp(r.Meta.Modified), dashed(r.Meta.SavedBy), from, what)
 		mark := " "

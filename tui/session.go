@@ -581,8 +581,10 @@ func (m *Model) save(req saveRequest, next bool) error {
 	if req.asNew && m.demo && m.sess.name == "" {
 		doc.Notes = append([]string{"Started from the built-in demo junction of junco: invented demo data."}, doc.Notes...)
 	}
+	doc.Meta.Note = ""
 	if strings.TrimSpace(req.note) != "" {
 		doc.Notes = append(doc.Notes, m.noteLine(req.note))
+		doc.Meta.Note = strings.TrimSpace(req.note)
 	}
 	var rev sessions.Revision
 	switch {

@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"os/user"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -122,14 +123,32 @@ func storeText(st *sessions.Store, msg string) string {
 	return sessions.Printable(msg, 0, "")
 }
 
-// currentUser names who saves, from the environment.
-func currentUser() string {
+// currentUser names who saves: $USER, $LOGNAME or $USERNAME, else the
+// name of the account junco runs under; "" when none is known.
+func currentUser() string { return userName(os.Getenv, accountName) }
+
+// userName is currentUser with its sources given (for tests).
+func userName(getenv func(string) string, account func() (string, error)) string {
 	for _, k := range []string{"USER", "LOGNAME", "USERNAME"} {
-		if v := os.Getenv(k); v != "" {
+		if v := strings.TrimSpace(getenv(k)); v != "" {
 			return v
 		}
 	}
+	if account != nil {
+		if n, err := account(); err == nil {
+			return strings.TrimSpace(n)
+		}
+	}
 	return ""
+}
+
+// accountName is the name of the account of this process (os/user).
+func accountName() (string, error) {
+	u, err := user.Current()
+	if err != nil {
+		return "", err
+	}
+	return u.Username, nil
 }
 
 // runSessions implements `junco sessions`.
@@ -354,7 +373,7 @@ func sessionsHistory(st *sessions.Store, name string, stdout, stderr io.Writer) 
 		if r.Meta.BasedOn > 0 {
 			from = strconv.Itoa(r.Meta.BasedOn)
 		}
-		rows = append(rows, []string{strconv.Itoa(r.Number), when(r.Meta.Modified), dash(r.Meta.SavedBy), from, dash(r.Meta.ToolVersion), strconv.FormatInt(r.Size, 10), dash(r.Meta.Origin)})
+		rows = append(rows, []string{strconv.Itoa(r.Number), when(r.Meta.Modified), dash(r.Meta.SavedBy), from, dash(r.Meta.ToolVersion), strconv.FormatInt(r.Size, 10), dash(r.Meta.Remark())})
 	}
 	table(stdout, rows)
 	return exitOK

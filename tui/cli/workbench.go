@@ -126,13 +126,13 @@ the name you choose. Press ? inside for the guide and every key.
                when the locale has no UTF-8; --ascii=false draws Unicode
                whatever the locale; NO_COLOR turns colour off)
   --data DIR   the session store (default $XDG_DATA_HOME/junco, else
-               ~/.local/share/junco); saves are signed with $USER
+               ~/.local/share/junco); saves are signed with $USER, else the account name
   --rev N      open revision N of session NAME instead of the newest
 `
 
-// workbenchUser names who saves: $USER, else "unknown".
+// workbenchUser names who saves (currentUser), else "unknown".
 func workbenchUser() string {
-	if u := strings.TrimSpace(os.Getenv("USER")); u != "" {
+	if u := currentUser(); u != "" {
 		return u
 	}
 	return "unknown"
