@@ -6,6 +6,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"junco/physics"
 )
@@ -168,7 +169,7 @@ func resultAt(s Spec, st *physics.Static, v float64) *Result {
 		{"avalanche_multiplication", GroupCurrents, "avalanche multiplication Mp", "Mp", Dimensionless, p.Mp, nil},
 		{"current_A", GroupCurrents, "total current at bias", "I", Current, p.Current, nil},
 		{"ideality_factor", GroupCurrents, "local ideality factor", "n", Dimensionless, p.Ideality, nil},
-		{"conductance_S", GroupCurrents, "conductance dI/dV (S)", "G", Dimensionless, p.Conductance, nil},
+		{"conductance_S", GroupCurrents, "conductance dI/dV", "G", Conductance, p.Conductance, nil},
 		{"small_signal_resistance_ohm", GroupCurrents, "small-signal resistance", "r", Resistance, res, nil},
 		{"dissipated_power_W", GroupCurrents, "dissipated power", "P", Power, p.Power, nil},
 		{"series_resistance_ohm", GroupResistance, "series resistance", "Rs", Resistance, st.Rs, nil},
@@ -179,7 +180,7 @@ func resultAt(s Spec, st *physics.Static, v float64) *Result {
 		{"series_voltage_drop_V", GroupResistance, "series-resistance drop", "I Rs", Voltage, p.SeriesDrop, nil},
 		{"forward_voltage_reference_current_A", GroupTemperature, "reference forward current", "IF", Current, iF, nil},
 		{"forward_voltage_V", GroupTemperature, "forward voltage at IF", "VF", Voltage, vf, nil},
-		{"forward_voltage_temperature_coefficient_V_per_K", GroupTemperature, "dVF/dT at IF (V/K)", "dVF/dT", Dimensionless, dvf, nil},
+		{"forward_voltage_temperature_coefficient_V_per_K", GroupTemperature, "dVF/dT at IF", "dVF/dT", TemperatureCoefficient, dvf, nil},
 		{"switching_reverse_current_A", GroupSwitching, "switching reverse current", "IR", Current, iR, nil},
 		{"storage_time_s", GroupSwitching, "storage time (IF to IR)", "ts", Time, sw.StorageTime, nil},
 		{"storage_time_constant_s", GroupSwitching, "  time constant used", "tau_s", Time, sw.Lifetime, nil},
@@ -291,6 +292,20 @@ func jsonNumber(v float64) string {
 // validity flags beside the values they affect.
 func (r *Result) Text(ascii bool) string {
 	var b strings.Builder
+	// The columns are as wide as their longest entry.
+	labelW, symW, valW := 0, 0, 0
+	for _, q := range r.Quantities {
+		labelW = max(labelW, utf8.RuneCountInString(q.Label))
+		symW = max(symW, utf8.RuneCountInString(q.Symbol))
+		valW = max(valW, utf8.RuneCountInString(q.Text(4, ascii)))
+	}
+	pad := func(s string, w int, left bool) string {
+		fill := strings.Repeat(" ", max(w-utf8.RuneCountInString(s), 0))
+		if left {
+			return fill + s
+		}
+		return s + fill
+	}
 	for _, g := range r.Groups() {
 		fmt.Fprintf(&b, "%s\n", g)
 		for _, q := range r.Quantities {
@@ -301,7 +316,7 @@ func (r *Result) Text(ascii bool) string {
 			if len(q.Flags) > 0 {
 				mark = "  [" + strings.Join(q.Flags, ", ") + "]"
 			}
-			fmt.Fprintf(&b, "  %-30s %-8s %16s%s\n", q.Label, q.Symbol, q.Text(4, ascii), mark)
+			fmt.Fprintf(&b, "  %s %s %s%s\n", pad(q.Label, labelW, false), pad(q.Symbol, symW, false), pad(q.Text(4, ascii), valW, true), mark)
 		}
 	}
 	if len(r.Flags) > 0 {

@@ -40,8 +40,17 @@ func Format(k Kind, v float64, sig int, ascii bool) string {
 		}
 	case Length:
 		return Engineering(v, sig, "m", ascii)
-	case Time, Voltage, Resistance, Current, Power, Capacitance:
+	case Resistance, Conductance:
 		return Engineering(v, sig, SIUnitSymbol(k), ascii)
+	case Time, Voltage, Current, Power, Capacitance:
+		// Mega and above read like milli beside them (MA, mA) and are not
+		// trade units for these: powers of ten instead.
+		if r, _ := strconv.ParseFloat(strconv.FormatFloat(v, 'g', max(sig, 1), 64), 64); math.Abs(r) >= 1e6 {
+			return sci(v, sig) + " " + SIUnitSymbol(k)
+		}
+		return Engineering(v, sig, SIUnitSymbol(k), ascii)
+	case TemperatureCoefficient:
+		return fixed(v*1e3, sig) + " mV/K"
 	case Velocity:
 		return sci(v*100, sig) + " cm/s"
 	case CurrentDensity:
@@ -152,6 +161,9 @@ func sci(v float64, sig int) string {
 	n, err := strconv.Atoi(exp)
 	if err != nil {
 		return s
+	}
+	if n == 0 {
+		return mant // "-5.00", not "-5.00e0"
 	}
 	return fmt.Sprintf("%se%d", mant, n)
 }

@@ -36,6 +36,8 @@ const (
 	GenerationRate                 // SI m^-3 s^-1, default cm^-3 s^-1
 	PowerDensity                   // SI W/m^2, default mW/cm^2 (irradiance)
 	Absorption                     // SI 1/m, default 1/cm (absorption coefficient)
+	Conductance                    // SI S, shown with an SI prefix (mS, µS)
+	TemperatureCoefficient         // SI V/K, shown in mV/K
 )
 
 type unitDef struct {
@@ -125,12 +127,18 @@ func kindInfo(k Kind) (name, si, def string, units []unitDef) {
 			{[]string{"m-3s-1", "m^-3s^-1", "m-3/s", "/m3/s", "/m^3/s", "m^-3/s"}, 1, 0}}
 	case PowerDensity:
 		return "power density", "W/m^2", "mW/cm^2", []unitDef{
-			{[]string{"mw/cm2", "mw/cm^2"}, 10, 0}, {[]string{"w/cm2", "w/cm^2"}, 1e4, 0},
-			{[]string{"w/m2", "w/m^2"}, 1, 0}, {[]string{"kw/m2", "kw/m^2"}, 1e3, 0}}
+			{[]string{"mW/cm2", "mw/cm^2"}, 10, 0}, {[]string{"W/cm2", "w/cm^2"}, 1e4, 0},
+			{[]string{"W/m2", "w/m^2"}, 1, 0}, {[]string{"kW/m2", "kw/m^2"}, 1e3, 0}}
 	case Absorption:
 		return "absorption coefficient", "1/m", "1/cm", []unitDef{
 			{[]string{"1/cm", "cm-1", "cm^-1", "/cm"}, 100, 0}, {[]string{"1/um", "um-1", "um^-1", "/um"}, 1e6, 0},
 			{[]string{"1/m", "m-1", "m^-1", "/m"}, 1, 0}}
+	case Conductance:
+		return "conductance", "S", "S", []unitDef{{[]string{"S"}, 1, 0}, {[]string{"mS"}, 1e-3, 0},
+			{[]string{"uS", "µS", "μS"}, 1e-6, 0}, {[]string{"nS"}, 1e-9, 0}}
+	case TemperatureCoefficient:
+		return "temperature coefficient", "V/K", "mV/K", []unitDef{{[]string{"mV/K"}, 1e-3, 0},
+			{[]string{"V/K"}, 1, 0}, {[]string{"uV/K", "µV/K"}, 1e-6, 0}}
 	}
 	return "quantity", "", "", nil
 }
@@ -221,7 +229,7 @@ func parseValue(k Kind, text string, difference bool) (float64, error) {
 func prefixed(k Kind, num float64, unit string) (float64, bool) {
 	var base string
 	switch k {
-	case Length, Time, Voltage, Current, Capacitance, Power:
+	case Length, Time, Voltage, Current, Capacitance, Power, Conductance:
 		base = SIUnitSymbol(k)
 	case Resistance:
 		base = "ohm"

@@ -554,7 +554,7 @@ func (s *Static) SolveFrom(v, guess float64) Point {
 			what = "not modelled (high injection is off): the current is overestimated"
 		}
 		p.Flags = append(p.Flags, Flag{FlagHighInjection, []Class{ClassCurrent, ClassDiffusionCurrent, ClassIdeality},
-			fmt.Sprintf("high injection: the injected minority density is %.2g of the doping at a depletion edge, %s", inj, what)})
+			fmt.Sprintf("high injection: the injected minority density is %.2g times the doping at a depletion edge, %s", inj, what)})
 	}
 	if !st.beyond && s.aval != nil && s.Effects.Breakdown && v <= -s.Breakdown.Voltage {
 		p.Flags = append(p.Flags, Flag{FlagBeyondBreakdown, []Class{ClassCurrent, ClassPower},

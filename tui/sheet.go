@@ -253,7 +253,7 @@ func (s sheetModel) allLines() []string {
 	if len(r.Flags) > 0 {
 		out = append(out, "", st.heading.Paint("Warnings"))
 		for i, f := range r.Flags {
-			msg := fmt.Sprintf("[%d] %s: %s", i+1, f.Code, f.Message)
+			msg := fmt.Sprintf("[%d] %s", i+1, flagText(f.Code, f.Message))
 			for j, l := range wrapText(msg, w-6) {
 				if j > 0 {
 					l = "    " + l

@@ -135,3 +135,14 @@ func rule(title string, w int, g glyphs, paint ink) string {
 	}
 	return paint.Paint(t + strings.Repeat(g.hbar, w-width(t)))
 }
+
+// flagText is a flag as a screen shows it: "code: message", or only the
+// message when it already begins with the code's words ("high injection:
+// ..." for high-injection), so that no label is read twice.
+func flagText(code, msg string) string {
+	words := strings.ReplaceAll(code, "-", " ")
+	if len(msg) >= len(words) && strings.EqualFold(msg[:len(words)], words) {
+		return msg
+	}
+	return code + ": " + msg
+}
