@@ -14,30 +14,30 @@ type Kind int
 // Quantity kinds. Each has an SI unit (used inside) and a trade default unit
 // (taken by a bare number on input).
 const (
-	Density            Kind = iota // SI m^-3, default cm^-3
-	Gradient                       // SI m^-4, default cm^-4
-	Temperature                    // SI K, default K
-	Area                           // SI m^2, default cm^2
-	Length                         // SI m, default um
-	Time                           // SI s, default s
-	Voltage                        // SI V, default V
-	Velocity                       // SI m/s, default cm/s
-	Resistance                     // SI ohm, default ohm
-	Current                        // SI A, default A
-	Power                          // SI W, default W
-	Capacitance                    // SI F, default F
-	CurrentDensity                 // SI A/m^2, default A/cm^2
-	Mobility                       // SI m^2/(V s), shown in cm^2/(V s)
-	Diffusivity                    // SI m^2/s, shown in cm^2/s
-	Field                          // SI V/m, shown in V/cm
-	Energy                         // eV
-	CapacitancePerArea             // SI F/m^2, shown in nF/cm^2
-	Dimensionless                  // plain number
-	GenerationRate                 // SI m^-3 s^-1, default cm^-3 s^-1
-	PowerDensity                   // SI W/m^2, default mW/cm^2 (irradiance)
-	Absorption                     // SI 1/m, default 1/cm (absorption coefficient)
-	Conductance                    // SI S, shown with an SI prefix (mS, µS)
-	TemperatureCoefficient         // SI V/K, shown in mV/K
+	Density                Kind = iota // SI m^-3, default cm^-3
+	Gradient                           // SI m^-4, default cm^-4
+	Temperature                        // SI K, default K
+	Area                               // SI m^2, default cm^2
+	Length                             // SI m, default um
+	Time                               // SI s, default s
+	Voltage                            // SI V, default V
+	Velocity                           // SI m/s, default cm/s
+	Resistance                         // SI ohm, default ohm
+	Current                            // SI A, default A
+	Power                              // SI W, default W
+	Capacitance                        // SI F, default F
+	CurrentDensity                     // SI A/m^2, default A/cm^2
+	Mobility                           // SI m^2/(V s), shown in cm^2/(V s)
+	Diffusivity                        // SI m^2/s, shown in cm^2/s
+	Field                              // SI V/m, shown in V/cm
+	Energy                             // eV
+	CapacitancePerArea                 // SI F/m^2, shown in nF/cm^2
+	Dimensionless                      // plain number
+	GenerationRate                     // SI m^-3 s^-1, default cm^-3 s^-1
+	PowerDensity                       // SI W/m^2, default mW/cm^2 (irradiance)
+	Absorption                         // SI 1/m, default 1/cm (absorption coefficient)
+	Conductance                        // SI S, shown with an SI prefix (mS, µS)
+	TemperatureCoefficient             // SI V/K, shown in mV/K
 )
 
 type unitDef struct {
