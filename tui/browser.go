@@ -562,38 +562,67 @@ func (m Model) historyScreen(w, h int) []string {
 }
 
 // changeLines lays out changes as a table grouped by section: quantity,
-// old, new, change.
+// old, new, change. The value columns are as wide as their longest entry
+// and the quantity takes the rest, its name wrapping under itself when
+// longer; a change whose values are long texts (a title), or every change
+// when the quantity column would be too narrow, takes two lines: the
+// quantity, then its values. No name or value is cut.
 func (m Model) changeLines(changes []sessions.Change, w int) []string {
 	st, g := m.e.st, m.e.g
 	if len(changes) == 0 {
 		return []string{st.muted.Paint("  no differences in inputs, results, data or notes")}
 	}
-	qW, oW, nW, cW := 8, 3, 3, 6
-	for _, c := range changes {
-		qW = max(qW, width(c.Quantity))
-		oW = max(oW, width(c.Old))
-		nW = max(nW, width(c.New))
-		cW = max(cW, width(c.Delta))
-	}
-	oW, nW, cW = min(oW, 22), min(nW, 22), min(cW, 16)
+	const longValue, minQuantityW = 24, 14
 	arrow := " " + g.arrow + " "
-	fixed := 4 + oW + width(arrow) + nW + 2 + cW
-	qW = min(qW, max(w-fixed, 12))
-	if over := 4 + qW + oW + width(arrow) + nW + 2 + cW - w; over > 0 {
-		cut := (over + 1) / 2
-		oW, nW = max(oW-cut, 6), max(nW-cut, 6)
+	aw := width(arrow)
+	regular := func(c sessions.Change) bool { return width(c.Old) <= longValue && width(c.New) <= longValue }
+	qNeed, oW, nW, cW := 8, 3, 3, 6
+	for _, c := range changes {
+		qNeed = max(qNeed, width(c.Quantity))
+		if regular(c) {
+			oW, nW, cW = max(oW, width(c.Old)), max(nW, width(c.New)), max(cW, width(c.Delta))
+		}
+	}
+	qW := min(qNeed, w-(2+2+oW+aw+nW+2+cW))
+	table := qW >= minQuantityW
+	// twoLines draws a change as its quantity, then its values below.
+	twoLines := func(c sessions.Change) []string {
+		var out []string
+		for _, l := range wrapText(c.Quantity, max(w-2, 8)) {
+			out = append(out, "  "+l)
+		}
+		vals := wrapText(c.Old+" "+g.arrow+" "+c.New, max(w-6, 8))
+		for i, l := range vals {
+			if i == len(vals)-1 && width(l)+2+width(c.Delta) <= w-6 {
+				out = append(out, "      "+st.strong.Paint(l)+"  "+st.pinned.Paint(c.Delta))
+				return out
+			}
+			out = append(out, "      "+st.strong.Paint(l))
+		}
+		return append(out, "      "+st.pinned.Paint(c.Delta))
 	}
 	var out []string
+	if table {
+		out = append(out, "  "+st.muted.Paint(padRight("quantity", qW, "")+"  "+padRight("old", oW, "")+strings.Repeat(" ", aw)+padRight("new", nW, "")+"  change"))
+	} else {
+		out = append(out, "  "+st.muted.Paint("quantity, then old "+g.arrow+" new  change"))
+	}
 	sec := ""
-	out = append(out, "  "+st.muted.Paint(padRight("quantity", qW, "")+"  "+padRight("old", oW, "")+strings.Repeat(" ", width(arrow))+padRight("new", nW, "")+"  change"))
 	for _, c := range changes {
 		if c.Section != sec {
 			sec = c.Section
 			out = append(out, st.heading.Paint(sec))
 		}
-		l := "  " + padRight(c.Quantity, qW, g.ellipsis) + "  " + padLeft(cut(c.Old, oW, g.ellipsis), oW) + st.faint.Paint(arrow) +
-			st.strong.Paint(padLeft(cut(c.New, nW, g.ellipsis), nW)) + "  " + st.pinned.Paint(cut(c.Delta, cW, g.ellipsis))
-		out = append(out, l)
+		if !table || !regular(c) {
+			out = append(out, twoLines(c)...)
+			continue
+		}
+		names := wrapText(c.Quantity, qW)
+		out = append(out, "  "+padRight(names[0], qW, g.ellipsis)+"  "+padLeft(c.Old, oW)+st.faint.Paint(arrow)+
+			st.strong.Paint(padLeft(c.New, nW))+"  "+st.pinned.Paint(c.Delta))
+		for _, l := range names[1:] {
+			out = append(out, "    "+l)
+		}
 	}
 	return out
 }

@@ -472,9 +472,7 @@ func (f formModel) lines() []string {
 	}
 	head = append(head, "")
 
-	labelW := max(12, min(25, w-35))
-	inputW := min(22, max(8, (w-labelW-4)/2))
-	nowW := max(0, w-labelW-inputW-5)
+	labelW, inputW, nowW := f.cols(w)
 
 	var body []string
 	focusLine, focusEnd := 0, 0
@@ -499,10 +497,15 @@ func (f formModel) lines() []string {
 		case d.choice:
 			shown := choiceLabel(d, f.spec)
 			if focused {
-				val = " " + padRight(g.left+" "+shown+" "+g.right, inputW, g.ellipsis) + " "
-			} else {
-				val = " " + padRight(shown, inputW, g.ellipsis) + " "
+				shown = g.left + " " + shown + " " + g.right
 			}
+			// A choice with no value in force beside it may use that
+			// column too.
+			cw := inputW
+			if f.nowText(i) == "" {
+				cw = inputW + nowW
+			}
+			val = " " + padRight(shown, cw, g.ellipsis) + " "
 		default:
 			t := fs.text
 			if t == "" && d.optWord != "" {
@@ -578,6 +581,64 @@ func (f formModel) lines() []string {
 		body = body[off:]
 	}
 	return block(append(head, body...), w, h, g.ellipsis)
+}
+
+// Widths of the definition's columns: the text box, and the floors the
+// input and the value in force shrink to in a narrow panel.
+const (
+	formInputW    = 18
+	formInputMinW = 10
+	formNowMinW   = 8
+)
+
+// labelWidth is the width of the longest field label: the label column is
+// that wide in every step, so that no label is cut and the columns stay put.
+func (f formModel) labelWidth() int {
+	n := 0
+	for _, d := range f.defs {
+		n = max(n, width(d.label))
+	}
+	return n
+}
+
+// nowWidth is the width of the widest value in force of every step (so
+// that the panel keeps its width from step to step). A value kept while
+// the text is not accepted is marked in this column too, and given whole
+// in the error line under the field.
+func (f formModel) nowWidth() int {
+	n := formNowMinW
+	for i, d := range f.defs {
+		if d.visible(f.spec) {
+			n = max(n, width(f.nowText(i)))
+		}
+	}
+	return n
+}
+
+// need is the width at which the panel shows every label, a full text box
+// and every value in force.
+func (f formModel) need() int { return 6 + f.labelWidth() + formInputW + f.nowWidth() }
+
+// formMinW is the narrowest the definition panel is made beside a focused
+// panel: labels then cut, and the value in force gives way to the text.
+const formMinW = 28
+
+// cols sizes the label, input and value columns for width w (a row is
+// 6 + labelW + inputW + nowW cells): the labels whole, the input box then
+// the value narrowed in a narrow panel; when even that does not fit, the
+// value in force is left out (the error line under a field still gives it)
+// and only then are labels cut.
+func (f formModel) cols(w int) (labelW, inputW, nowW int) {
+	labelW = f.labelWidth()
+	avail := w - 6 - labelW // room for the input and the value
+	inputW = min(formInputW, max(formInputMinW, avail-f.nowWidth()))
+	nowW = avail - inputW
+	if nowW >= formNowMinW {
+		return labelW, inputW, nowW
+	}
+	inputW = min(formInputW, max(formInputMinW, avail))
+	labelW = min(labelW, max(8, w-6-inputW))
+	return labelW, inputW, max(0, w-6-labelW-inputW)
 }
 
 // stepBar draws the numbered steps, the current one marked, steps with a

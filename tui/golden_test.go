@@ -52,9 +52,12 @@ func TestGolden(t *testing.T) {
 		{"chart-bands-ascii", Options{ASCII: true}, []string{"tab", "tab", "l", "l", "l", "l", "l", "l", "l", "l"}},
 		{"pinned-results", Options{}, []string{"p", "5", "down", "enter", "ctrl+u", "0", ".", "6", "enter", "tab"}},
 		{"help", Options{}, []string{"?"}},
+		{"help-end", Options{}, []string{"?", "G"}},
+		{"define-lifetimes", Options{}, []string{"4"}},
+		{"conditions-from-charts", Options{}, []string{"tab", "tab", "5", "down", "down"}},
 		{"quit-question", Options{}, []string{"5", "enter", "ctrl+u", "3", "1", "0", "enter", "q"}},
 	}
-	for _, size := range [][2]int{{80, 24}, {120, 40}} {
+	for _, size := range goldenSizes {
 		for _, s := range screens {
 			name := fmt.Sprintf("%s-%dx%d", s.name, size[0], size[1])
 			t.Run(name, func(t *testing.T) {
@@ -64,6 +67,10 @@ func TestGolden(t *testing.T) {
 		}
 	}
 }
+
+// goldenSizes are the terminal sizes every golden screen is drawn at: the
+// smallest usual terminal, a laptop's, a wide monitor's.
+var goldenSizes = [][2]int{{80, 24}, {120, 40}, {200, 60}}
 
 // A real program (curves computed in commands) shows the chart after the
 // keys that open it, and quits through its own keys.
@@ -134,8 +141,17 @@ func TestGoldenSessions(t *testing.T) {
 			var a, c []string
 			return reviewOpts(&a, &c, newStore(t, "bob"))
 		}, []string{"tab"}},
+		{"history-notes", func(t *testing.T) Options {
+			return Options{Store: diffStore(t), User: "alice", Now: ticking()}
+		}, []string{"ctrl+o", "tab"}},
+		{"diff", func(t *testing.T) Options {
+			return Options{Store: diffStore(t), User: "alice", Now: ticking()}
+		}, []string{"ctrl+o", "tab", "d"}},
+		{"draft-offer", func(t *testing.T) Options {
+			return Options{Store: draftStore(t), User: "alice", Now: ticking()}
+		}, nil},
 	}
-	for _, size := range [][2]int{{80, 24}, {120, 40}} {
+	for _, size := range goldenSizes {
 		for _, s := range screens {
 			name := fmt.Sprintf("%s-%dx%d", s.name, size[0], size[1])
 			t.Run(name, func(t *testing.T) {
@@ -144,4 +160,33 @@ func TestGoldenSessions(t *testing.T) {
 			})
 		}
 	}
+}
+
+// diffStore is a store with one session of two revisions: the second
+// changes the doping and the temperature and adds a note, saved with it.
+func diffStore(t *testing.T) *sessions.Store {
+	t.Helper()
+	st := newStore(t, "alice")
+	doc := storeSession(t, st, "d7-lot417", "test diode D7, lot 417, as probed", model.DemoJunction().Spec)
+	doc.Spec.AcceptorDensity, doc.Spec.Temperature = 2e24, 320
+	doc.Notes = append(doc.Notes, "2025-03-14 10:00 UTC, alice: warmer chuck, heavier p+ implant")
+	doc.Meta.Note = "warmer chuck, heavier p+ implant"
+	if _, err := st.Save("d7-lot417", doc, 1); err != nil {
+		t.Fatal(err)
+	}
+	return st
+}
+
+// draftStore is a store with a recovery draft of an unnamed junction whose
+// acceptor doping and electron lifetime were changed.
+func draftStore(t *testing.T) *sessions.Store {
+	t.Helper()
+	st := newStore(t, "alice")
+	spec := model.DemoJunction().Spec
+	spec.AcceptorDensity, spec.ElectronLifetime = 1e23, 2e-6
+	doc := sessions.NewDocument("test diode D7", "alice", spec, t0)
+	if err := st.SaveDraft(sessions.UnnamedDraft, sessions.DraftKey{Editor: sessions.EditorID("alice")}, 0, doc); err != nil {
+		t.Fatal(err)
+	}
+	return st
 }

@@ -30,9 +30,25 @@ type sheetModel struct {
 	reviews []sessions.ReviewNote
 	scroll  int
 	w, h    int
-	// built is the whole sheet at width w, rebuilt in Update (rebuild)
-	// whenever the result, pin, width or drawing mode changes.
+	// head is the sheet's status (live or not, the pin), which stays in
+	// view; built is the rest of the sheet, which scrolls. Both are for
+	// width w, rebuilt (rebuild) whenever the result, pin, width or
+	// drawing mode changes.
+	head  []string
 	built []string
+	// whole is set while the sheet has the focus: long labels then wrap
+	// rather than being cut. Beside a focused panel the sheet is a glance
+	// and keeps one line per value.
+	whole bool
+}
+
+// setFocused tells the sheet whether it has the focus.
+func (s *sheetModel) setFocused(on bool) {
+	if s.whole != on {
+		s.whole = on
+		s.rebuild()
+		s.clamp()
+	}
 }
 
 func (s *sheetModel) SetSize(w, h int) {
@@ -61,12 +77,15 @@ func (s *sheetModel) setNotes(notes []string, reviews []sessions.ReviewNote) {
 	s.clamp()
 }
 
-func (s *sheetModel) rebuild() { s.built = s.allLines() }
+func (s *sheetModel) rebuild() { s.head, s.built = s.headLines(), s.allLines() }
+
+// room is the height the scrolling part of the sheet has.
+func (s sheetModel) room() int { return max(s.h-len(s.head), 1) }
 
 func (s *sheetModel) clamp() {
 	n := len(s.built)
-	if s.scroll > n-s.h {
-		s.scroll = n - s.h
+	if s.scroll > n-s.room() {
+		s.scroll = n - s.room()
 	}
 	if s.scroll < 0 {
 		s.scroll = 0
@@ -86,9 +105,9 @@ func (s sheetModel) Update(msg tea.Msg) (sheetModel, tea.Cmd) {
 	case keyIs(km, k.ScrollUp):
 		s.scroll--
 	case keyIs(km, k.PageDown):
-		s.scroll += max(s.h-2, 1)
+		s.scroll += max(s.room()-2, 1)
 	case keyIs(km, k.PageUp):
-		s.scroll -= max(s.h-2, 1)
+		s.scroll -= max(s.room()-2, 1)
 	case keyIs(km, k.Top):
 		s.scroll = 0
 	case keyIs(km, k.Bottom):
@@ -141,12 +160,45 @@ func (s sheetModel) lines() []string {
 	if s.scroll > 0 && s.scroll < len(all) {
 		all = all[s.scroll:]
 	}
-	out := block(all, s.w, s.h, s.e.g.ellipsis)
-	if s.h > 0 && len(all) > s.h {
+	head := s.head
+	if len(head) >= s.h {
+		head = head[:max(s.h-1, 0)]
+	}
+	out := block(append(append([]string(nil), head...), all...), s.w, s.h, s.e.g.ellipsis)
+	if s.h > 0 && len(head)+len(all) > s.h {
 		more := s.e.st.faint.Paint(cut(fmt.Sprintf("  %s more below (%s)", s.e.g.arrow, "j or pgdn"), s.w, ""))
 		out[s.h-1] = padRight(more, s.w, "")
 	}
 	return out
+}
+
+// need is the width at which the sheet shows every label, symbol and
+// value whole.
+func (s sheetModel) need() int { return s.naturalCols().total() }
+
+// headLines is the sheet's status: from the last valid input or live, and
+// the pinned reference. It stays in view when the sheet scrolls.
+func (s sheetModel) headLines() []string {
+	st, g := s.e.st, s.e.g
+	w := s.w
+	if w < 10 || s.res == nil {
+		return nil
+	}
+	var out []string
+	if len(s.stale) > 0 {
+		msg := g.bad + " From the last valid input: not in force " + strings.Join(s.stale, ", ") + " (see Define)"
+		for _, l := range wrapText(msg, w) {
+			out = append(out, st.err.Paint(l))
+		}
+	} else {
+		out = append(out, st.ok.Paint(cut(g.good+" live: follows every accepted change", w, g.ellipsis)))
+	}
+	if s.pin != nil {
+		for _, l := range wrapText(g.delta+" change against the pinned reference: "+specSummary(s.pin.Spec, s.e.ascii), w) {
+			out = append(out, st.pinned.Paint(l))
+		}
+	}
+	return append(out, "")
 }
 
 // layoutCols reports the columns of the quantity table for width w.
@@ -154,7 +206,7 @@ type sheetCols struct {
 	label, sym, val, marks, delta, pct int
 }
 
-func (s sheetModel) cols(w int) sheetCols {
+func (s sheetModel) naturalCols() sheetCols {
 	c := sheetCols{label: 20, sym: 6, val: 14, marks: 6}
 	if s.res != nil {
 		for _, q := range s.res.Quantities {
@@ -166,18 +218,39 @@ func (s sheetModel) cols(w int) sheetCols {
 	if s.pin != nil {
 		c.delta, c.pct = 14, 9
 	}
-	// Too wide: shorten long labels first, then the symbols, then labels
-	// again down to a floor.
-	if over := c.total() - w; over > 0 {
-		c.label -= min(over, max(c.label-24, 0))
+	return c
+}
+
+func (s sheetModel) cols(w int) sheetCols {
+	c := s.naturalCols()
+	// Too wide: the label column narrows first (long labels then wrap
+	// onto a second line), then the symbols, then the labels down to a
+	// floor; the values and changes are never cut.
+	if over := c.total() - w; over > 0 && s.whole {
+		c.label -= min(over, max(c.label-sheetLabelWrapW, 0))
 	}
 	if over := c.total() - w; over > 0 {
-		c.sym -= min(over, max(c.sym-7, 0))
+		c.sym -= min(over, max(c.sym-sheetSymMinW, 0))
 	}
 	if over := c.total() - w; over > 0 {
-		c.label = max(14, c.label-over)
+		c.label -= min(over, max(c.label-sheetLabelMinW, 0))
 	}
 	return c
+}
+
+// sheetLabelWrapW is the label column the sheet narrows to, wrapping long
+// labels, before it shortens symbols.
+const sheetLabelWrapW = 18
+
+// Floors of the sheet's label and symbol columns in a narrow panel.
+const sheetLabelMinW, sheetSymMinW = 10, 7
+
+// minNeed is the narrowest width at which the sheet shows every value
+// whole (labels and symbols cut to their floors).
+func (s sheetModel) minNeed() int {
+	c := s.naturalCols()
+	c.label, c.sym = min(c.label, sheetLabelMinW), min(c.sym, sheetSymMinW)
+	return c.total()
 }
 
 func (c sheetCols) total() int { return 2 + c.label + c.sym + c.val + c.marks + c.delta + c.pct }
@@ -191,18 +264,6 @@ func (s sheetModel) allLines() []string {
 	}
 	r := s.res
 	var out []string
-	if len(s.stale) > 0 {
-		msg := g.bad + " From the last valid input: not in force " + strings.Join(s.stale, ", ") + " (see Define)"
-		for _, l := range wrapText(msg, w) {
-			out = append(out, st.err.Paint(l))
-		}
-	} else {
-		out = append(out, st.ok.Paint(cut(g.good+" live: follows every accepted change", w, g.ellipsis)))
-	}
-	if s.pin != nil {
-		out = append(out, st.pinned.Paint(cut(g.delta+" change against the pinned reference: "+specSummary(s.pin.Spec, s.e.ascii), w, g.ellipsis)))
-	}
-	out = append(out, "")
 	out = append(out, s.noteLines(w)...)
 
 	// Number the flags so that marks beside values point into the list.
@@ -316,9 +377,16 @@ func (s sheetModel) group(grp string, c sheetCols, flagNo map[string]int) []stri
 		if q.Group != grp {
 			continue
 		}
+		// A label longer than its column wraps under itself, keeping its
+		// indent; only a single word wider than the column is cut.
+		indent := q.Label[:len(q.Label)-len(strings.TrimLeft(q.Label, " "))]
+		labelLines := []string{strings.TrimLeft(q.Label, " ")}
+		if s.whole {
+			labelLines = wrapText(labelLines[0], max(c.label-1-len(indent), 4))
+		}
 		var b strings.Builder
 		b.WriteString("  ")
-		b.WriteString(padRight(q.Label, c.label-1, g.ellipsis) + " ")
+		b.WriteString(padRight(indent+labelLines[0], c.label-1, g.ellipsis) + " ")
 		b.WriteString(st.muted.Paint(padRight(q.Symbol, c.sym-1, g.ellipsis) + " "))
 		b.WriteString(st.strong.Paint(padLeft(q.Text(4, ascii), c.val)))
 		var marks []string
@@ -338,6 +406,9 @@ func (s sheetModel) group(grp string, c sheetCols, flagNo map[string]int) []stri
 			b.WriteString(st.pinned.Paint(padLeft(p, c.pct)))
 		}
 		out = append(out, b.String())
+		for _, l := range labelLines[1:] {
+			out = append(out, "  "+padRight(indent+"  "+l, c.label-1, g.ellipsis))
+		}
 	}
 	return out
 }

@@ -410,7 +410,7 @@ func (m Model) geometry() (fw, fh, sw, sh, cw, ch int) {
 	}
 	switch pickLayout(m.w, m.h) {
 	case layoutTrio:
-		lw := 62
+		lw := min(max(62, m.form.need()), w-1-m.sheet.minNeed())
 		rw := w - lw - 1
 		fw, fh = lw, bodyH-1
 		need := m.sheetNeed(rw)
@@ -418,7 +418,15 @@ func (m Model) geometry() (fw, fh, sw, sh, cw, ch int) {
 		sw, sh = rw, sheetH-1
 		cw, ch = rw, bodyH-sheetH-1
 	case layoutPair:
+		// The focused panel gets the width it needs, the other keeps at
+		// least sideMinW.
 		lw := min(64, max(54, w*48/100))
+		switch m.focus {
+		case panelDefine:
+			lw = min(max(lw, m.form.need()), w-1-m.sheet.minNeed())
+		case panelResults:
+			lw = w - 1 - min(max(w-1-lw, m.sheet.need()), w-1-formMinW)
+		}
 		rw := w - lw - 1
 		fw, fh = lw, bodyH-1
 		if m.rightPanel() == panelCharts {
@@ -441,11 +449,11 @@ func (m Model) geometry() (fw, fh, sw, sh, cw, ch int) {
 
 func (m Model) sheetNeed(w int) int {
 	if m.sheet.w == w && m.sheet.built != nil {
-		return len(m.sheet.built) // built for this width by the last change
+		return len(m.sheet.head) + len(m.sheet.built) // built for this width by the last change
 	}
 	s := m.sheet
 	s.w = w
-	return len(s.allLines())
+	return len(s.headLines()) + len(s.allLines())
 }
 
 // relayout hands every panel its size; the charts redraw when theirs
@@ -454,6 +462,7 @@ func (m *Model) relayout() tea.Cmd {
 	fw, fh, sw, sh, cw, ch := m.geometry()
 	m.geo = [6]int{fw, fh, sw, sh, cw, ch}
 	m.form.SetSize(fw, fh)
+	m.sheet.setFocused(m.focus == panelResults)
 	m.sheet.SetSize(sw, sh)
 	m.help.Width = max(m.w, 0)
 	return m.chart.SetSize(cw, ch)
