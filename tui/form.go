@@ -587,7 +587,7 @@ func (f formModel) lines() []string {
 // input and the value in force shrink to in a narrow panel.
 const (
 	formInputW    = 18
-	formInputMinW = 10
+	formInputMinW = 12
 	formNowMinW   = 8
 )
 
@@ -631,7 +631,7 @@ const formMinW = 28
 func (f formModel) cols(w int) (labelW, inputW, nowW int) {
 	labelW = f.labelWidth()
 	avail := w - 6 - labelW // room for the input and the value
-	inputW = min(formInputW, max(formInputMinW, avail-f.nowWidth()))
+	inputW = min(formInputW, max(formInputMinW, avail-min(f.nowWidth(), avail/2)))
 	nowW = avail - inputW
 	if nowW >= formNowMinW {
 		return labelW, inputW, nowW

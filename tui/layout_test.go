@@ -16,7 +16,9 @@ func TestFocusedPanelCutsNoWord(t *testing.T) {
 		m := newTest(t, size[0], size[1])
 		for step := 1; step <= 5; step++ {
 			m = press(m, string(rune('0'+step)))
-			v := ansi.Strip(m.form.View())
+			f := m.form
+			f.SetSize(f.w, 400) // every field in view: this checks widths
+			v := ansi.Strip(f.View())
 			for _, i := range m.form.stepFields(m.form.step) {
 				d := m.form.defs[i]
 				if !strings.Contains(v, d.label) {
@@ -36,7 +38,11 @@ func TestFocusedPanelCutsNoWord(t *testing.T) {
 		}
 		all := ansi.Strip(strings.Join(append(append([]string(nil), m.sheet.head...), m.sheet.built...), "\n"))
 		if strings.Contains(all, m.e.g.ellipsis) {
-			t.Errorf("%v: the focused results cut something:\n%s", size, all)
+			for _, l := range strings.Split(all, "\n") {
+				if strings.Contains(l, m.e.g.ellipsis) {
+					t.Errorf("%v: the focused results cut %q", size, l)
+				}
+			}
 		}
 		for _, q := range m.Result().Quantities {
 			d, p := deltaText(q, m.pin, false)

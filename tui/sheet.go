@@ -382,7 +382,8 @@ func (s sheetModel) group(grp string, c sheetCols, flagNo map[string]int) []stri
 		indent := q.Label[:len(q.Label)-len(strings.TrimLeft(q.Label, " "))]
 		labelLines := []string{strings.TrimLeft(q.Label, " ")}
 		if s.whole {
-			labelLines = wrapText(labelLines[0], max(c.label-1-len(indent), 4))
+			// Continuation lines are indented two more.
+			labelLines = wrapText(labelLines[0], max(c.label-1-len(indent)-2, 4))
 		}
 		var b strings.Builder
 		b.WriteString("  ")
