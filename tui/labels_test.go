@@ -34,3 +34,18 @@ func TestWarningReadsItsLabelOnce(t *testing.T) {
 		t.Errorf("a message that does not start with its code keeps it: %q", got)
 	}
 }
+
+// A change of more than a hundredfold reads as a plain power of ten and
+// keeps a gap from the absolute change beside it.
+func TestLargePercentChange(t *testing.T) {
+	q := model.Quantity{Key: "k", Kind: model.Voltage, Value: 0.1521}
+	pin := &model.Result{Quantities: []model.Quantity{{Key: "k", Kind: model.Voltage, Value: 1.2e-6}}}
+	abs, pct := deltaText(q, pin, true)
+	if abs != "+152 mV" || pct != "+1.3e7%" {
+		t.Errorf("delta %q %q, want +152 mV and +1.3e7%%", abs, pct)
+	}
+	c := sheetCols{delta: 14, pct: 10}
+	if len(pct) >= c.pct {
+		t.Errorf("%q leaves no gap in a %d-wide column", pct, c.pct)
+	}
+}

@@ -216,7 +216,7 @@ func (s sheetModel) naturalCols() sheetCols {
 		}
 	}
 	if s.pin != nil {
-		c.delta, c.pct = 14, 9
+		c.delta, c.pct = 14, 10 // "+2.37 nF/cm^2", " +1.2e5%" and gaps
 	}
 	return c
 }
@@ -436,7 +436,8 @@ func deltaText(q model.Quantity, pin *model.Result, ascii bool) (abs, pct string
 		p := 100 * d / math.Abs(ref)
 		switch {
 		case math.Abs(p) >= 1e4:
-			pct = fmt.Sprintf("%+.1e%%", p)
+			// +1.2e5%, not +1.2e+05%
+			pct = strings.Replace(strings.Replace(fmt.Sprintf("%+.1e%%", p), "e+0", "e", 1), "e+", "e", 1)
 		case math.Abs(p) >= 100:
 			pct = fmt.Sprintf("%+.0f%%", p)
 		default:
