@@ -210,9 +210,9 @@ func (s sheetModel) naturalCols() sheetCols {
 	c := sheetCols{label: 20, sym: 6, val: 14, marks: 6}
 	if s.res != nil {
 		for _, q := range s.res.Quantities {
-			c.label = max(c.label, min(width(q.Label)+1, 36))
-			c.sym = max(c.sym, min(width(q.Symbol)+1, 12))
-			c.val = max(c.val, min(width(q.Text(4, s.e.ascii))+1, 18))
+			c.label = max(c.label, width(q.Label)+1)
+			c.sym = max(c.sym, width(q.Symbol)+1)
+			c.val = max(c.val, width(q.Text(4, s.e.ascii))+1)
 		}
 	}
 	if s.pin != nil {
