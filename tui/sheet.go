@@ -381,7 +381,7 @@ func (s sheetModel) group(grp string, c sheetCols, flagNo map[string]int) []stri
 		// indent; only a single word wider than the column is cut.
 		indent := q.Label[:len(q.Label)-len(strings.TrimLeft(q.Label, " "))]
 		labelLines := []string{strings.TrimLeft(q.Label, " ")}
-		if s.whole {
+		if s.whole && width(q.Label) > c.label-1 {
 			// Continuation lines are indented two more.
 			labelLines = wrapText(labelLines[0], max(c.label-1-len(indent)-2, 4))
 		}
