@@ -235,8 +235,18 @@ func (s sheetModel) cols(w int) sheetCols {
 	if over := c.total() - w; over > 0 {
 		c.label -= min(over, max(c.label-sheetLabelMinW, 0))
 	}
+	// Beside a focused panel the sheet is a glance: rather than labels cut
+	// to a few letters it shows symbols and values only.
+	if nat := s.naturalCols(); !s.whole && c.label < sheetGlanceLabelW && c.label < nat.label {
+		c.label = 0
+		c.sym = min(nat.sym, max(c.sym, w-(c.total()-c.sym)))
+	}
 	return c
 }
+
+// sheetGlanceLabelW is the narrowest label column a glance at the sheet
+// shows; narrower, the labels are left out.
+const sheetGlanceLabelW = 18
 
 // sheetLabelWrapW is the label column the sheet narrows to, wrapping long
 // labels, before it shortens symbols.
@@ -387,7 +397,9 @@ func (s sheetModel) group(grp string, c sheetCols, flagNo map[string]int) []stri
 		}
 		var b strings.Builder
 		b.WriteString("  ")
-		b.WriteString(padRight(indent+labelLines[0], c.label-1, g.ellipsis) + " ")
+		if c.label > 0 {
+			b.WriteString(padRight(indent+labelLines[0], c.label-1, g.ellipsis) + " ")
+		}
 		b.WriteString(st.muted.Paint(padRight(q.Symbol, c.sym-1, g.ellipsis) + " "))
 		b.WriteString(st.strong.Paint(padLeft(q.Text(4, ascii), c.val)))
 		var marks []string
