@@ -15,7 +15,6 @@ import (
 	"fmt"
 	"math"
 	"strconv"
-	"strings"
 
 	"junco/physics/solver"
 )
@@ -262,35 +261,12 @@ func (n NumericSpec) base() string {
 }
 
 // FormatDose writes an areal density (dose, m^-2) in the trade unit cm^-2.
-func FormatDose(v float64) string {
-	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return Format(Dimensionless, v, 3, true)
-	}
-	return sci(v/1e4, 3) + " cm^-2"
-}
+func FormatDose(v float64) string { return Format(Dose, v, 3, true) }
 
 // ParseDose parses an implant dose such as "1e14cm-2", "5e12 /cm2" or
 // "1e18 m^-2" and returns it in m^-2. A bare number is in cm^-2 (the trade
 // unit). Range checks are NumericSpec.Validate's.
-func ParseDose(text string) (float64, error) {
-	s := strings.TrimSpace(text)
-	end := numberPrefix(s)
-	if end == 0 {
-		return 0, fmt.Errorf("%q is not a valid dose: no number (units: cm-2, m-2; a bare number is in cm^-2)", text)
-	}
-	num, err := strconv.ParseFloat(s[:end], 64)
-	if err != nil || math.IsInf(num, 0) || math.IsNaN(num) {
-		return 0, fmt.Errorf("%q is not a valid dose: not a finite number", text)
-	}
-	unit := strings.ToLower(strings.ReplaceAll(strings.TrimSpace(s[end:]), " ", ""))
-	switch unit {
-	case "", "cm-2", "cm^-2", "/cm2", "/cm^2", "cm⁻²":
-		return num * 1e4, nil
-	case "m-2", "m^-2", "/m2", "/m^2", "m⁻²":
-		return num, nil
-	}
-	return 0, fmt.Errorf("%q is not a valid dose: unknown unit %q (units: cm-2, m-2; a bare number is in cm^-2)", text, unit)
-}
+func ParseDose(text string) (float64, error) { return ParseValue(Dose, text) }
 
 func isFinite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 

@@ -6,6 +6,7 @@ import (
 	"bytes"
 	"fmt"
 	"io"
+	"junco/model/units"
 	"math"
 	"strconv"
 	"strings"
@@ -197,8 +198,7 @@ func ParseDepthProfile(name string, r io.Reader, species string) (*DepthProfile,
 				}
 				f, uerr := ParseValue(k, "1 "+unit)
 				if uerr != nil || !(f > 0) {
-					_, _, def, _ := kindInfo(k)
-					return nil, fail(ln, c+1, cn, "unit %q is not a %s unit (for example %s)", unit, KindName(k), def)
+					return nil, fail(ln, c+1, cn, "unit %q is not a %s unit (for example %s)", unit, KindName(k), DefaultUnit(k))
 				}
 				cols = append(cols, col{role: role, factor: f, header: cn})
 			}
@@ -231,7 +231,7 @@ func ParseDepthProfile(name string, r io.Reader, species string) (*DepthProfile,
 			if s == "" {
 				return nil, fail(ln, c+1, cl.header, "empty field")
 			}
-			if numberPrefix(s) != len(s) {
+			if units.NumberPrefix(s) != len(s) {
 				hint := ""
 				if strings.Contains(s, ",") {
 					hint = " (use a decimal point, not a comma)"

@@ -317,7 +317,8 @@ func TestParseUnit(t *testing.T) {
 	}{
 		{QuantityCurrent, "uA", 1e-6, 0, true}, {QuantityCurrent, "µA", 1e-6, 0, true}, {QuantityCurrent, "ua", 1e-6, 0, true},
 		{QuantityCurrent, "pA", 1e-12, 0, true}, {QuantityVoltage, "mV", 1e-3, 0, true}, {QuantityCapacitance, "fF", 1e-15, 0, true},
-		{QuantityFrequency, "MHz", 1e6, 0, true}, {QuantityFrequency, "mhz", 1e6, 0, true}, {QuantityTemperature, "°C", 1, 273.15, true},
+		{QuantityFrequency, "MHz", 1e6, 0, true}, {QuantityFrequency, "mhz", 1e-3, 0, true}, // the SI prefix case decides (m milli, M mega), as everywhere in junco
+		{QuantityFrequency, "kHz", 1e3, 0, true}, {QuantityCurrent, "MA", 1e6, 0, true}, {QuantityTemperature, "°C", 1, 273.15, true},
 		{QuantityTemperature, "degC", 1, 273.15, true}, {QuantityTemperature, "K", 1, 0, true}, {QuantityVoltage, "volts", 1, 0, true},
 		{QuantityCurrent, "mV", 0, 0, false}, {QuantityCurrent, "A/cm2", 0, 0, false}, {QuantityCurrent, "", 0, 0, false},
 	} {

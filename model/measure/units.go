@@ -1,6 +1,9 @@
 package measure
 
-import "strings"
+import (
+	"junco/model/units"
+	"strings"
+)
 
 // Quantity is the physical quantity of a column.
 type Quantity int
@@ -34,97 +37,54 @@ func (q Quantity) String() string {
 	return "unknown"
 }
 
-// unit is a known unit: value_SI = scale*value + offset.
+// unit is a known unit of a quantity: value_SI = scale*value + offset.
 type unit struct {
-	symbol        string
 	q             Quantity
 	scale, offset float64
 }
 
-// unitTable lists the accepted unit spellings (SI prefixes as used on
-// instruments; micro as u, the micro sign or Greek mu, normalised to u).
-func unitTable() []unit {
-	return []unit{
-		{"V", QuantityVoltage, 1, 0}, {"mV", QuantityVoltage, 1e-3, 0}, {"uV", QuantityVoltage, 1e-6, 0}, {"kV", QuantityVoltage, 1e3, 0},
-		{"A", QuantityCurrent, 1, 0}, {"mA", QuantityCurrent, 1e-3, 0}, {"uA", QuantityCurrent, 1e-6, 0},
-		{"nA", QuantityCurrent, 1e-9, 0}, {"pA", QuantityCurrent, 1e-12, 0}, {"fA", QuantityCurrent, 1e-15, 0},
-		{"F", QuantityCapacitance, 1, 0}, {"mF", QuantityCapacitance, 1e-3, 0}, {"uF", QuantityCapacitance, 1e-6, 0},
-		{"nF", QuantityCapacitance, 1e-9, 0}, {"pF", QuantityCapacitance, 1e-12, 0}, {"fF", QuantityCapacitance, 1e-15, 0},
-		{"Hz", QuantityFrequency, 1, 0}, {"kHz", QuantityFrequency, 1e3, 0}, {"MHz", QuantityFrequency, 1e6, 0}, {"GHz", QuantityFrequency, 1e9, 0},
-		// 273.15 K offset of the Celsius scale (SI Brochure, 9th ed., 2019).
-		{"K", QuantityTemperature, 1, 0}, {"C", QuantityTemperature, 1, 273.15},
+// kindOf is the unit kind (package units) of each quantity the importer
+// reads.
+func kindOf(q Quantity) (units.Kind, bool) {
+	switch q {
+	case QuantityVoltage:
+		return units.Voltage, true
+	case QuantityCurrent:
+		return units.Current, true
+	case QuantityCapacitance:
+		return units.Capacitance, true
+	case QuantityFrequency:
+		return units.Frequency, true
+	case QuantityTemperature:
+		return units.Temperature, true
 	}
+	return 0, false
 }
 
-// unitWord maps spelled-out unit names to symbols.
-func unitWord(s string) string {
-	switch s {
-	case "volt", "volts":
-		return "V"
-	case "amp", "amps", "ampere", "amperes":
-		return "A"
-	case "farad", "farads":
-		return "F"
-	case "hertz":
-		return "Hz"
-	case "kelvin":
-		return "K"
-	case "celsius", "degc", "deg c", "°c", "℃", "oc":
-		return "C"
-	}
-	return ""
-}
-
-// allowedUnits lists the symbols for a quantity, for error messages.
+// allowedUnits lists the unit names for a quantity, for error messages.
 func allowedUnits(q Quantity) string {
-	var s []string
-	for _, u := range unitTable() {
-		if u.q == q {
-			s = append(s, u.symbol)
-		}
+	k, ok := kindOf(q)
+	if !ok {
+		return ""
 	}
-	if q == QuantityCurrent || q == QuantityVoltage || q == QuantityCapacitance {
-		s = append(s, "(µ also as u)")
+	s := units.Names(k)
+	if q == QuantityCurrent || q == QuantityVoltage || q == QuantityCapacitance || q == QuantityFrequency {
+		s = append(s, "(any SI prefix; µ also as u)")
 	}
 	return strings.Join(s, ", ")
 }
 
-// lookupUnit resolves a unit text: exact symbol first, then a
-// case-insensitive match when it is unique, then unit words.
+// lookupUnit resolves a unit text to the quantity it measures, by the one
+// unit system (units.Symbol): the first quantity whose units accept it.
 func lookupUnit(s string) (unit, bool) {
 	s = strings.TrimSpace(s)
-	s = strings.ReplaceAll(s, "µ", "u") // micro sign U+00B5
-	s = strings.ReplaceAll(s, "μ", "u") // Greek mu U+03BC
 	if s == "" {
 		return unit{}, false
 	}
-	table := unitTable()
-	for _, u := range table {
-		if u.symbol == s {
-			return u, true
-		}
-	}
-	var found unit
-	n := 0
-	for _, u := range table {
-		if strings.EqualFold(u.symbol, s) {
-			found = u
-			n++
-		}
-	}
-	if n == 1 {
-		return found, true
-	}
-	if w := unitWord(strings.ToLower(s)); w != "" {
-		return lookupUnit(w)
-	}
-	if strings.HasPrefix(s, "°") || strings.HasPrefix(s, "deg") {
-		t := strings.TrimSpace(strings.TrimPrefix(strings.TrimPrefix(s, "°"), "deg"))
-		if strings.EqualFold(t, "C") {
-			return lookupUnit("C")
-		}
-		if strings.EqualFold(t, "K") {
-			return lookupUnit("K")
+	for _, q := range []Quantity{QuantityVoltage, QuantityCurrent, QuantityCapacitance, QuantityFrequency, QuantityTemperature} {
+		k, _ := kindOf(q)
+		if f, off, ok := units.Symbol(k, s); ok {
+			return unit{q: q, scale: f, offset: off}, true
 		}
 	}
 	return unit{}, false
@@ -134,9 +94,9 @@ func lookupUnit(s string) (unit, bool) {
 // e.g. "mA" for QuantityCurrent. Micro may be written u, µ or μ; the
 // Celsius scale as C, °C or degC.
 func ParseUnit(q Quantity, s string) (scale, offset float64, ok bool) {
-	u, found := lookupUnit(s)
-	if !found || u.q != q {
+	k, known := kindOf(q)
+	if !known {
 		return 0, 0, false
 	}
-	return u.scale, u.offset, true
+	return units.Symbol(k, s)
 }

@@ -1,4 +1,4 @@
-package model
+package units
 
 import (
 	"fmt"
@@ -65,6 +65,10 @@ func Format(k Kind, v float64, sig int, ascii bool) string {
 		return fixed(v, sig) + " eV"
 	case CapacitancePerArea:
 		return fixed(v*1e5, sig) + " nF/cm^2"
+	case Dose:
+		return sci(v/1e4, sig) + " cm^-2"
+	case Frequency:
+		return Engineering(v, sig, "Hz", ascii)
 	case Dimensionless:
 		return fixed(v, sig)
 	case GenerationRate:
