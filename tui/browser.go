@@ -132,8 +132,6 @@ func (m Model) browseKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	k := m.e.keys
 	b := &m.br
 	switch {
-	case km.String() == "ctrl+c":
-		return m.quit()
 	case keyIs(km, k.Close):
 		m.screen = screenMain
 		return m, nil
@@ -192,8 +190,6 @@ func (m Model) historyKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	}
 	r, ok := sel()
 	switch {
-	case km.String() == "ctrl+c":
-		return m.quit()
 	case keyIs(km, k.Back):
 		m.loadList()
 		m.screen = screenBrowse
@@ -324,8 +320,6 @@ func (m Model) diffKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	b := &m.br
 	page := max(m.h-8, 1)
 	switch {
-	case km.String() == "ctrl+c":
-		return m.quit()
 	case keyIs(km, k.Back), km.String() == "q":
 		m.screen = b.dback
 	case keyIs(km, k.ScrollDown):

@@ -207,8 +207,6 @@ func (m Model) dialogKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	k := m.e.keys
 	d := &m.dlg
 	switch {
-	case km.String() == "ctrl+c":
-		return m.quit()
 	case keyIs(km, k.Dismiss):
 		m.screen = screenMain
 		m.quitAfterSave = false
@@ -340,8 +338,6 @@ func (m Model) afterSave(req saveRequest, err error) (tea.Model, tea.Cmd) {
 func (m Model) staleKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	k := m.e.keys
 	switch {
-	case km.String() == "ctrl+c":
-		return m.quit()
 	case keyIs(km, k.SaveNext):
 		req := m.stale.req
 		req.name = m.stale.info.Session
@@ -384,8 +380,6 @@ func (m Model) confirmKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	k := m.e.keys
 	c := m.conf
 	switch {
-	case km.String() == "ctrl+c":
-		return m.quit()
 	case keyIs(km, k.Yes):
 		m.conf = confirmState{}
 		switch c.kind {
@@ -419,7 +413,7 @@ func (m Model) draftKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 			}
 		}
 		m.nextOffer()
-	case keyIs(km, k.DraftLater), km.String() == "ctrl+c":
+	case keyIs(km, k.DraftLater):
 		return m, tea.Quit
 	}
 	return m, nil

@@ -70,9 +70,6 @@ func (m *Model) openImport() {
 
 func (m Model) importKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	k := m.e.keys
-	if km.String() == "ctrl+c" {
-		return m.quit()
-	}
 	if keyIs(km, k.Dismiss) {
 		m.screen, m.imp.ds, m.imp.err = screenMain, nil, ""
 		m.note = "import cancelled: nothing was added"
@@ -345,8 +342,6 @@ func (m Model) fitKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	k := m.e.keys
 	f := &m.fit
 	switch {
-	case km.String() == "ctrl+c":
-		return m.quit()
 	case keyIs(km, k.Dismiss):
 		m.screen = screenMain
 		return m, nil

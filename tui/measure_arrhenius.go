@@ -76,8 +76,6 @@ func (m *Model) applyGamma() {
 func (m Model) arrheniusKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	k := m.e.keys
 	switch {
-	case km.String() == "ctrl+c":
-		return m.quit()
 	case keyIs(km, k.Dismiss):
 		m.screen = screenMain
 		return m, nil

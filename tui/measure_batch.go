@@ -145,11 +145,6 @@ func (m Model) batchKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	k := m.e.keys
 	b := &m.bat
 	switch {
-	case km.String() == "ctrl+c":
-		if b.cancel != nil {
-			b.cancel()
-		}
-		return m.quit()
 	case keyIs(km, k.Dismiss):
 		if b.running {
 			b.cancel()

@@ -149,8 +149,6 @@ func (m Model) cvFitKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	k := m.e.keys
 	f := &m.cvfit
 	switch {
-	case km.String() == "ctrl+c":
-		return m.quit()
 	case keyIs(km, k.Dismiss):
 		m.screen = screenMain
 		return m, nil

@@ -440,14 +440,33 @@ func (m Model) update(msg tea.Msg) (tea.Model, tea.Cmd) {
 
 func keyIs(km tea.KeyMsg, b key.Binding) bool { return key.Matches(km, b) }
 
+// interrupt is ctrl+c, on every screen: it stops a running batch (keeping
+// the finished rows), leaves a pending draft for the next start, quits at
+// once from the quit question (writing the draft), and otherwise asks to
+// quit as q does.
+func (m Model) interrupt() (tea.Model, tea.Cmd) {
+	switch m.screen {
+	case screenQuit:
+		return m.shutdown()
+	case screenDraft:
+		return m, tea.Quit
+	case screenBatch:
+		if m.bat.cancel != nil {
+			m.bat.cancel()
+		}
+	}
+	return m.quit()
+}
+
 func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	k := m.e.keys
 	m.note = ""
+	if km.Type == tea.KeyCtrlC {
+		return m.interrupt()
+	}
 	switch m.screen {
 	case screenQuit:
 		switch {
-		case km.String() == "ctrl+c":
-			return m.shutdown()
 		case keyIs(km, k.Yes):
 			m.discardDraft()
 			return m, tea.Quit
@@ -485,8 +504,6 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		return m.batchKey(km)
 	case screenHelp:
 		switch {
-		case km.String() == "ctrl+c":
-			return m.quit()
 		case keyIs(km, k.ScrollDown):
 			m.helpOf++
 		case keyIs(km, k.ScrollUp):
@@ -504,9 +521,6 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		}
 		m.helpOf = min(max(m.helpOf, 0), m.helpEnd())
 		return m, nil
-	}
-	if km.String() == "ctrl+c" {
-		return m.quit()
 	}
 	typing := (m.focus == panelDefine && m.form.typing) || (m.focus == panelCharts && m.chart.editing)
 	if typing && (keyIs(km, k.Save) || keyIs(km, k.Browse) || keyIs(km, k.CopyOwn)) && km.Type != tea.KeyRunes {
