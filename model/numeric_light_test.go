@@ -157,3 +157,19 @@ func TestQuantumEfficiencyBadInput(t *testing.T) {
 		}
 	}
 }
+
+// BenchmarkNumericLitFigures times the search for Isc, Voc and the
+// maximum-power point on the solver's lit I-V (about 80 solves along one
+// continuation path).
+func BenchmarkNumericLitFigures(b *testing.B) {
+	spec := litStep(Light{Generation: 1e24})
+	_, s, err := numericBuild(spec, NumericSpec{}, 0)
+	if err != nil {
+		b.Fatal(err)
+	}
+	for b.Loop() {
+		if _, err := numericLitFigures(context.Background(), s, spec.Area); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

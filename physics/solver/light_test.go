@@ -311,3 +311,46 @@ func TestLitBadInput(t *testing.T) {
 		}
 	}
 }
+
+// Strong light (high injection: the excess reaches the doping) still
+// converges, by continuation in the light level, at short circuit and in
+// forward bias; the charge identity of TestLitChargeConservation holds
+// there too, and the high-injection flag is raised (low-injection
+// formulas do not apply).
+func TestLitStrongLight(t *testing.T) {
+	for _, l := range []physics.Light{{Generation: 1e31}, {PhotonFlux: 1e27, Absorption: 1e5}} {
+		c := litCase{na: 1e16 * cm3, nd: 1e16 * cm3, lp: 3 * um, ln: 200 * um, tau: 1e-6, light: l}
+		s := newSolver(t, c.device(t), Options{})
+		p, err := s.NewPath()
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, v := range []float64{0, 0.6} {
+			r, err := p.Solve(context.Background(), v)
+			if err != nil {
+				t.Fatalf("%+v at %g V: %v", l, v, err)
+			}
+			net := 0.0
+			for i := 1; i < len(r.X)-1; i++ {
+				net += s.d[i] * (r.Generation[i] - r.Recombination[i])
+			}
+			ident := r.Jn[0] + r.Jp[len(r.Jp)-1] - physics.Q*net
+			if e := relErr(r.Current, ident); !(e <= 1e-8) {
+				t.Errorf("%+v at %g V: J %.10g, identity %.10g A/m^2", l, v, r.Current, ident)
+			}
+			if v == 0 && !hasCode(r.Flags, FlagHighInjection) {
+				t.Errorf("%+v: no high-injection flag at short circuit (minority ratio %.3g)", l, r.Depletion.MinorityRatio)
+			}
+			t.Logf("%+v at %g V: J %.5g A/m^2, minority ratio %.3g", l, v, r.Current, r.Depletion.MinorityRatio)
+		}
+	}
+}
+
+func hasCode(fl []physics.Flag, code string) bool {
+	for _, f := range fl {
+		if f.Code == code {
+			return true
+		}
+	}
+	return false
+}
