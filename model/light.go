@@ -67,8 +67,8 @@ func litQuantities(s Spec, st *physics.Static) []Quantity {
 		f = physics.LitFigures{Isc: nan, Voc: nan, Pmax: nan, Vmp: nan, Imp: nan, FF: nan}
 	}
 	eff := nan
-	if irr := s.Light.IrradianceOrDefault(); irr > 0 && err == nil {
-		eff = f.Pmax / (irr * s.Area)
+	if err == nil {
+		eff = efficiencyOf(s, f.Pmax)
 	}
 	return []Quantity{
 		{"photocurrent_A", GroupLight, "photocurrent", "IL", Current, st.IL, nil},
@@ -83,4 +83,13 @@ func litQuantities(s Spec, st *physics.Static) []Quantity {
 		{"fill_factor", GroupLight, "fill factor", "FF", Dimensionless, f.FF, nil},
 		{"efficiency", GroupLight, "power conversion efficiency", "eta", Dimensionless, eff, nil},
 	}
+}
+
+// efficiencyOf returns the power conversion efficiency Pmax / (irradiance
+// area) of the Spec's light (NaN without an irradiance).
+func efficiencyOf(s Spec, pmax float64) float64 {
+	if irr := s.Light.IrradianceOrDefault(); irr > 0 {
+		return pmax / (irr * s.Area)
+	}
+	return math.NaN()
 }

@@ -205,6 +205,9 @@ func BuildNumericDevice(spec Spec, num NumericSpec, vmin float64) (*NumericDevic
 	if spec.Effects.NoSRH || spec.Effects.NoHighInjection || spec.Effects.NoSeriesResistance {
 		flag(FlagNumericEffects, []physics.Class{physics.ClassCurrent}, "the drift-diffusion model always contains recombination in the depletion region, high injection and the resistance of the simulated regions: the switches that turn them off apply to the analytic values only")
 	}
+	// The Spec's light illuminates the biased solutions (the p side's
+	// contact is the anode, the n side's the cathode: solver.Device.Light).
+	dev.Light = spec.Light.Physics()
 	out.Device = dev
 	// The solver sizes its refined depletion zone from the chemical
 	// doping, which is the depletion charge also with incomplete

@@ -56,6 +56,11 @@ type NumericResult struct {
 	// Junctions are the metallurgical junctions (zero crossings of the
 	// net doping), m from the left contact.
 	Junctions []float64
+	// Lit says whether the Spec is lit; LitFigures are then the figures
+	// of merit of the solver's lit I-V (A, V, W; NaN when they could not
+	// be computed, with FlagNumericLight).
+	Lit        bool
+	LitFigures physics.LitFigures
 	// Flags are the adapter's flags followed by the solver's.
 	Flags []physics.Flag
 }
@@ -122,9 +127,13 @@ func Solve(ctx context.Context, spec Spec, num NumericSpec, progress NumericProg
 	if err != nil {
 		return nil, err
 	}
+	total := 3
+	if spec.Light.Lit() {
+		total = 4
+	}
 	report := func(stage string, done int, v, val float64) {
 		if progress != nil {
-			progress(NumericProgress{Stage: stage, Done: done, Total: 3, Bias: v, Value: val})
+			progress(NumericProgress{Stage: stage, Done: done, Total: total, Bias: v, Value: val})
 		}
 	}
 	vbi, err := s.BuiltInPotential()
@@ -156,6 +165,20 @@ func Solve(ctx context.Context, spec Spec, num NumericSpec, progress NumericProg
 		r.Capacitance = cv[0].Capacitance * spec.Area
 	}
 	report("capacitance", 3, spec.Bias, r.Capacitance)
+	if spec.Light.Lit() {
+		r.Lit = true
+		f, err := numericLitFigures(ctx, s, spec.Area)
+		if cerr := ctx.Err(); cerr != nil {
+			return nil, cerr
+		}
+		if err != nil {
+			f = litFiguresNaN()
+			r.Flags = append(r.Flags, physics.Flag{Code: FlagNumericLight, Affects: []physics.Class{physics.ClassLight},
+				Message: fmt.Sprintf("the figures of the lit curve could not be computed: %v", err)})
+		}
+		r.LitFigures = f
+		report("light", 4, f.Voc, f.Pmax)
+	}
 	r.Junctions = s.Junctions()
 	r.Donors, r.Acceptors = make([]float64, len(sol.X)), make([]float64, len(sol.X))
 	for i, x := range sol.X {
@@ -202,7 +225,8 @@ func frame(sol *solver.Result) (xj, orient float64, ia int) {
 // of the solution (solver.Result.PeakField), capacitance (also per area), current
 // (also density), the minority/majority ratio at the quasi-neutral edges, the
 // lengths, node count, Newton iterations of the last bias step and the
-// current-conservation error max|Jn + Jp - J|/|J|.
+// current-conservation error max|Jn + Jp - J|/|J|; for a lit Spec the
+// lit figures (numericLitQuantities).
 func NumericQuantities(r *NumericResult) []Quantity {
 	sol := r.Solution
 	d := sol.Depletion
@@ -216,7 +240,7 @@ func NumericQuantities(r *NumericResult) []Quantity {
 		pl, nl = math.NaN(), math.NaN()
 	}
 	g := GroupElectrostatics
-	return []Quantity{
+	q := []Quantity{
 		{"bias_V", GroupConditions, "bias", "V", Voltage, sol.Bias, nil},
 		{"built_in_potential_V", g, "built-in potential", "Vbi", Voltage, r.BuiltInPotential, nil},
 		{"barrier_V", g, "electrostatic barrier at bias", "Vbi-V", Voltage, sol.Barrier, nil},
@@ -237,6 +261,7 @@ func NumericQuantities(r *NumericResult) []Quantity {
 		{"newton_iterations", GroupNumeric, "Newton iterations (last bias step)", "it", Dimensionless, float64(sol.Iterations), nil},
 		{"current_conservation_error", GroupNumeric, "current conservation error", "dJ/J", Dimensionless, sol.CurrentSpread, nil},
 	}
+	return append(q, numericLitQuantities(r)...)
 }
 
 // numericPeakField returns the peak field that compares with the analytic
@@ -282,9 +307,20 @@ var compareKeys = [...]string{"built_in_potential_V", "depletion_width_m", "peak
 // model difference such as band-gap narrowing), 5 % for the others (the
 // solver's readouts are mesh-converged to 0.5 %; the rest is the
 // depletion approximation and the analytic current formulas).
+//
+// Lit figures: 5 % for the short-circuit current and the maximum power
+// (the solver's photocurrent is within 0.3 % of the closed forms in low
+// injection, TestLitShortCircuitAgainstClosedForms; the rest is the
+// analytic collection model), 2 % for the open-circuit voltage and the
+// fill factor, which depend on the currents only through their logarithm
+// (a 5 % current difference moves Voc by kT/q ln 1.05 = 1.3 mV, 0.3 % of
+// 0.5 V).
 func CompareTolerance(key string) float64 {
-	if key == "built_in_potential_V" {
+	switch key {
+	case "built_in_potential_V":
 		return 0.01
+	case "open_circuit_voltage_V", "fill_factor":
+		return 0.02
 	}
 	return 0.05
 }
@@ -305,7 +341,9 @@ func CompareTolerance(key string) float64 {
 // spill-over); the low-injection forward current within 5 % where it is a
 // diffusion current and 15 % where depletion-region recombination is a
 // large share. Larger differences mark where the analytic model is not to
-// be trusted (Difference.Flagged, at CompareTolerance).
+// be trusted (Difference.Flagged, at CompareTolerance). A lit Spec adds
+// the short-circuit current, open-circuit voltage, maximum power and fill
+// factor of the lit I-V (physics.LitFiguresOf on each model's curve).
 func Compare(analytic *Result, numeric *NumericResult) []Difference {
 	if analytic == nil || numeric == nil {
 		return nil
@@ -314,8 +352,12 @@ func Compare(analytic *Result, numeric *NumericResult) []Difference {
 	for _, q := range NumericQuantities(numeric) {
 		nq[q.Key] = q
 	}
-	out := make([]Difference, 0, len(compareKeys))
-	for _, k := range compareKeys {
+	keys := compareKeys[:]
+	if numeric.Lit {
+		keys = append(keys, litCompareKeys[:]...)
+	}
+	out := make([]Difference, 0, len(keys))
+	for _, k := range keys {
 		q := nq[k]
 		a, _ := analytic.Get(k)
 		rel := math.NaN()

@@ -248,21 +248,29 @@ type LitFigures struct {
 	FF   float64 // fill factor Pmax / (Isc Voc)
 }
 
-// LitFigures computes the figures of merit of the lit junction: Isc = -I(0),
-// Voc from I(Voc) = 0 by bisection on the terminal voltage (the current
-// rises monotonically with bias), and the maximum of the delivered power
-// -V I(V) on [0, Voc] by golden-section search (the power is unimodal
-// there for a diode with series and shunt resistance), each to 1e-9 V.
-// It returns an error in the dark, and when no open-circuit voltage below
-// 100 V exists.
-//
-// Definitions: Sze & Ng 2007, ch. 13 (short-circuit current, open-circuit
-// voltage, fill factor FF = Im Vm / (Isc Voc)).
+// LitFigures computes the figures of merit of the lit junction with
+// LitFiguresOf on its current s.Solve(v).Current. It returns an error in
+// the dark.
 func (s *Static) LitFigures() (LitFigures, error) {
 	if !(s.IL > 0) {
 		return LitFigures{}, errors.New("the junction is not lit: no photocurrent")
 	}
-	cur := func(v float64) float64 { return s.Solve(v).Current }
+	return LitFiguresOf(func(v float64) float64 { return s.Solve(v).Current })
+}
+
+// LitFiguresOf computes the figures of merit of a lit I-V curve given as
+// its terminal current cur(V) (A, forward positive): Isc = -I(0), Voc
+// from I(Voc) = 0 by bisection on the terminal voltage (the current
+// rises monotonically with bias), and the maximum of the delivered power
+// -V I(V) on [0, Voc] by golden-section search (the power is unimodal
+// there for a diode with series and shunt resistance), each to 1e-9 V.
+// It returns an error when no open-circuit voltage below 100 V exists.
+// cur may be an analytic model or a numerical solution (it is called
+// about 80 times, in a sequence of nearby voltages).
+//
+// Definitions: Sze & Ng 2007, ch. 13 (short-circuit current, open-circuit
+// voltage, fill factor FF = Im Vm / (Isc Voc)).
+func LitFiguresOf(cur func(v float64) float64) (LitFigures, error) {
 	f := LitFigures{Isc: -cur(0)}
 	lo, hi := 0.0, 0.1
 	for cur(hi) < 0 {

@@ -52,6 +52,11 @@ type Device struct {
 	// bands: electrons drift in psi + ln(n_ie/ni), holes in psi -
 	// ln(n_ie/ni) (the Slotboom band-gap-narrowing form).
 	IntrinsicDensity func(x, nd, na float64) float64
+	// Light illuminates the biased solutions (the zero value: dark). Its
+	// pairs enter both continuity equations as the generation G(x) (see
+	// Generation); the equilibrium stays dark. PhotonFlux enters through
+	// the anode's contact (the p side), or the cathode's with FromN.
+	Light physics.Light
 }
 
 // Recombination selects the recombination terms. The zero value enables
@@ -210,6 +215,8 @@ type Solver struct {
 	zones      []zone
 	meshCapped int // nodes the automatic mesh wanted when MaxNodes capped it
 	flags      []physics.Flag
+	gen        []float64 // optical generation integrated over each node's box, m^-2 s^-1 (nil in the dark)
+	genTotal   float64   // optical generation integrated over the device, m^-2 s^-1
 
 	eqOnce sync.Once
 	eq     *state
@@ -253,7 +260,8 @@ func (s *Solver) Flags() []physics.Flag { return append([]physics.Flag(nil), s.f
 // min(W0/50, 0.25 L_D) with W0 the zero-bias width and L_D = sqrt(eps kT /
 // (q^2 |N|)) the local Debye length. h is then limited to grow by 15 % per
 // cell (and kept above L/(4 MaxNodes)), and the nodes are placed by
-// equidistributing 1/h; when more than MaxNodes nodes would be needed the
+// equidistributing 1/h; under monochromatic light (Device.Light) h is also
+// kept below 0.1 (1/alpha + depth) from the illuminated contact; when more than MaxNodes nodes would be needed the
 // count is capped and flagged (FlagMeshCapped).
 func New(dev Device, opt Options) (*Solver, error) {
 	if err := opt.validate(); err != nil {
@@ -280,6 +288,9 @@ func New(dev Device, opt Options) (*Solver, error) {
 			pe2.Field = "Device." + pe.Field
 			return nil, &pe2
 		}
+		return nil, err
+	}
+	if err := validateLight(dev.Light); err != nil {
 		return nil, err
 	}
 	for _, c := range []struct {
@@ -338,6 +349,12 @@ func New(dev Device, opt Options) (*Solver, error) {
 	env := &meshEnv{length: dev.Length, prof: dev.Profile, eps: s.eps, vt: s.vt, ni: s.ni, temp: t,
 		junctions: s.junctions, vr: opt.Mesh.MaxReverseBias, lDiff: s.diffusionLength,
 		floor: meshFloor(dev.Length, opt.Mesh)}
+	if l := dev.Light; l.PhotonFlux > 0 && l.Absorption > 0 {
+		env.absorb = l.Absorption
+		if s.anodeLeft == l.FromN { // the illuminated contact is at x = Length
+			env.surface = dev.Length
+		}
+	}
 	s.zones = env.zones()
 	if len(opt.Mesh.Positions) > 0 {
 		if err := checkPositions(opt.Mesh.Positions, dev.Length); err != nil {
@@ -355,6 +372,7 @@ func New(dev Device, opt Options) (*Solver, error) {
 	if err := s.setupNodes(); err != nil {
 		return nil, err
 	}
+	s.setupGeneration()
 	s.flags = s.staticFlags()
 	return s, nil
 }

@@ -10,7 +10,7 @@
 // Steady state, SI units, V_t = kT/q:
 //
 //	-d/dx(eps dpsi/dx) = q (p - n + Nd+ - Na-)
-//	 dJn/dx = q R,   dJp/dx = -q R
+//	 dJn/dx = q (R - G),   dJp/dx = -q (R - G)
 //	 Jn = q mu_n n E + q Dn dn/dx,   Jp = q mu_p p E - q Dp dp/dx,   D = mu kT/q
 //
 // with Boltzmann statistics n = n_ie exp((psi - phi_n)/V_t), p = n_ie
@@ -18,6 +18,21 @@
 // doping-dependent low-field mobility of the material
 // (physics.Material.Mobility; no field dependence) and SRH lifetimes of
 // the Scharfetter form (physics.SRHLifetime) or user values.
+//
+// # Light
+//
+// Device.Light adds the optical generation G(x), m^-3 s^-1, to both
+// continuity equations: a uniform rate, and monochromatic light entering
+// the anode's (p) contact, or the cathode's with FromN, at G = alpha Phi
+// exp(-alpha depth) (Beer-Lambert, one pair per absorbed photon). G is
+// integrated exactly over each box, so that the box counts the photons
+// absorbed in it on any mesh, and the automatic mesh keeps cells below
+// 0.1 (1/alpha + depth) near the illuminated contact. The equilibrium
+// stays dark; the biased solves switch the light on at zero bias first,
+// by continuation in the light level when one step does not converge.
+// Path follows a bias path under light (Voc and maximum-power searches).
+// Checked against the closed forms of Sze & Ng 2007 (ch. 13) and Hovel
+// 1975 (light_test.go).
 //
 // # Variables and scaling
 //

@@ -46,6 +46,7 @@ const (
 	meshJunction    = 50   // at least 50 cells across the zero-bias depletion width
 	meshGrading     = 0.15 // neighbouring cells differ by <= ~15 %
 	meshMarginDebye = 6    // zone margin beyond the depletion edge, in L_D
+	meshAbsorption  = 0.1  // spacing <= 0.1 (1/alpha + depth) under monochromatic light
 )
 
 // Bisect returns the mesh with a node added at the middle of every
@@ -72,6 +73,8 @@ type meshEnv struct {
 	junctions []float64
 	vr        float64
 	floor     float64 // smallest spacing the auxiliary grid resolves, m
+	absorb    float64 // absorption coefficient of the monochromatic light, 1/m (0 = none)
+	surface   float64 // position of the illuminated contact, m
 }
 
 // debye returns the extrinsic Debye length sqrt(eps kT/(q^2 |N|)) in m
@@ -316,6 +319,13 @@ func (e *meshEnv) target(x float64, zs []zone) float64 {
 		if x >= z.lo && x <= z.hi {
 			h = math.Min(h, math.Min(z.h, meshDebye*ld))
 		}
+	}
+	if e.absorb > 0 {
+		// The minority carriers generated within a few absorption lengths
+		// of an ohmic contact diffuse to it or to the junction: their
+		// profile needs cells of a fraction of 1/alpha near the surface,
+		// growing with the depth as the generation fades.
+		h = math.Min(h, meshAbsorption*(1/e.absorb+math.Abs(x-e.surface)))
 	}
 	return math.Max(h, e.floor)
 }

@@ -19,6 +19,9 @@ import (
 type state struct {
 	v               float64
 	psi, phin, phip []float64
+	// lit is the light level, 0 (dark) to 1 (Device.Light in full): the
+	// generation of the continuity equations is lit times the device's.
+	lit float64
 	// fix, when not nil, is a frozen ionised net doping per node (m^-3)
 	// that replaces the carrier-dependent occupation (high-frequency C-V).
 	fix []float64
@@ -30,7 +33,7 @@ func (s *Solver) newState(v float64) *state {
 }
 
 func (st *state) clone() *state {
-	c := &state{v: st.v, psi: append([]float64(nil), st.psi...),
+	c := &state{v: st.v, lit: st.lit, psi: append([]float64(nil), st.psi...),
 		phin: append([]float64(nil), st.phin...), phip: append([]float64(nil), st.phip...)}
 	if st.fix != nil {
 		c.fix = append([]float64(nil), st.fix...)
@@ -40,7 +43,7 @@ func (st *state) clone() *state {
 
 // copyFrom copies src into st without allocating (same mesh).
 func (st *state) copyFrom(src *state) {
-	st.v = src.v
+	st.v, st.lit = src.v, src.lit
 	copy(st.psi, src.psi)
 	copy(st.phin, src.phin)
 	copy(st.phip, src.phip)
@@ -212,9 +215,13 @@ func (s *Solver) edgeFluxes(k int, st *state, n, p []float64) (fn, fp float64) {
 // box width d_i = (h_{i-1} + h_i)/2:
 //
 //	Poisson:   (eps kT/q^2)[(psi_{i+1}-psi_i)/h_i - (psi_i-psi_{i-1})/h_{i-1}] + d_i (p - n + N) = 0
-//	electrons: Jn/q|_{i+1/2} - Jn/q|_{i-1/2} - d_i R = 0
-//	holes:     -(Jp/q|_{i+1/2} - Jp/q|_{i-1/2}) - d_i R = 0
+//	electrons: Jn/q|_{i+1/2} - Jn/q|_{i-1/2} - (d_i R - G_i) = 0
+//	holes:     -(Jp/q|_{i+1/2} - Jp/q|_{i-1/2}) - (d_i R - G_i) = 0
 //
+// with G_i the optical generation integrated over the box (m^-2 s^-1,
+// setupGeneration; the rows are particle fluxes per area, like d_i R). G
+// does not depend on the state, so the Jacobian is that of the dark
+// device.
 // Contact rows are identities (Dirichlet values already in the state).
 func (s *Solver) assemble(st *state, w *work) float64 {
 	nn := len(s.x)
@@ -290,8 +297,9 @@ func (s *Solver) assemble(st *state, w *work) float64 {
 		b.add(r, r+1, d*(n[i]-cn*n[i]))
 		b.add(r, r+2, d*(p[i]+cp*p[i]))
 		rr, rpsi, rn, rp := s.recombination(i, st, n[i], p[i])
-		f[r+1] -= d * rr
-		f[r+2] -= d * rr
+		net := d*rr - s.generation(st, i)
+		f[r+1] -= net
+		f[r+2] -= net
 		for q := 1; q <= 2; q++ {
 			b.add(r+q, r, -d*rpsi)
 			b.add(r+q, r+1, -d*rn)
@@ -517,7 +525,7 @@ func (s *Solver) polishCarrier(st *state, w *work, electrons bool) error {
 	}
 	for i := 1; i < nn-1; i++ {
 		r, _, rn, rp := s.recombination(i, st, n[i], p[i])
-		d[i] -= s.d[i] * r
+		d[i] -= s.d[i]*r - s.generation(st, i)
 		if electrons {
 			b[i] -= s.d[i] * rn
 		} else {
@@ -641,8 +649,9 @@ func (s *Solver) poisson(st *state, w *work, tol float64, maxIter int) (iters in
 // decoupled Gummel step; H. K. Gummel, IEEE Trans. Electron Devices ED-11,
 // 455 (1964)). The Scharfetter-Gummel equation is linear in the density;
 // the recombination is linearised as R = K (n p - n_ie^2) with K frozen,
-// which keeps the matrix an M-matrix with a non-negative right-hand side,
-// so the density stays positive. The result is stored back as a
+// which keeps the matrix an M-matrix with a non-negative right-hand side
+// (the optical generation only adds to it), so the density stays
+// positive. The result is stored back as a
 // quasi-Fermi potential.
 func (s *Solver) gummelCarrier(st *state, w *work, electrons bool) error {
 	nn := len(s.x)
@@ -673,7 +682,7 @@ func (s *Solver) gummelCarrier(st *state, w *work, electrons bool) error {
 			c[i] = ar * Bernoulli(-dr)
 			b[i] = -ar*br - al*Bernoulli(-dl) - s.d[i]*k*n[i]
 		}
-		d[i] = -s.d[i] * k * s.nie2[i]
+		d[i] = -s.d[i]*k*s.nie2[i] - s.generation(st, i)
 	}
 	for _, i := range []int{0, nn - 1} {
 		a[i], b[i], c[i] = 0, 1, 0

@@ -37,6 +37,11 @@ type Result struct {
 	Charge []float64
 	// Recombination is the net recombination rate, m^-3 s^-1.
 	Recombination []float64
+	// Generation is the optical generation rate (Device.Light), m^-3
+	// s^-1: the exact integral over each node's box divided by its width
+	// (zero in the dark and at equilibrium). The continuity equations
+	// carry R - G.
+	Generation []float64
 	// Jn and Jp are the electron and hole current densities on the edges
 	// along +x, A/m^2 (q times the Scharfetter-Gummel fluxes).
 	Jn, Jp []float64
@@ -241,7 +246,7 @@ func (s *Solver) result(st *state, w *work, iters int, upd, res float64) *Result
 	r.N, r.P = n, p
 	mk := func() []float64 { return make([]float64, nn) }
 	r.Potential, r.Ec, r.Ev, r.Efn, r.Efp = mk(), mk(), mk(), mk(), mk()
-	r.NetDoping, r.Charge, r.Recombination = mk(), mk(), mk()
+	r.NetDoping, r.Charge, r.Recombination, r.Generation = mk(), mk(), mk(), mk()
 	lnc, lnv := math.Log(s.nc/s.ni), math.Log(s.nv/s.ni)
 	for i := 0; i < nn; i++ {
 		r.Potential[i] = st.psi[i] * vt
@@ -252,6 +257,9 @@ func (s *Solver) result(st *state, w *work, iters int, upd, res float64) *Result
 		r.NetDoping[i], _, _ = s.ionised(i, st, n[i], p[i])
 		r.Charge[i] = physics.Q * (p[i] - n[i] + r.NetDoping[i])
 		r.Recombination[i], _, _, _ = s.recombination(i, st, n[i], p[i])
+		if s.d[i] > 0 {
+			r.Generation[i] = s.generation(st, i) / s.d[i]
+		}
 	}
 	r.Field, r.Jn, r.Jp = make([]float64, nn-1), make([]float64, nn-1), make([]float64, nn-1)
 	mean := 0.0
@@ -321,7 +329,7 @@ func (r *Result) clone() *Result {
 	c.X, c.XMid, c.Potential, c.Field = cp(r.X), cp(r.XMid), cp(r.Potential), cp(r.Field)
 	c.Ec, c.Ev, c.Efn, c.Efp = cp(r.Ec), cp(r.Ev), cp(r.Efn), cp(r.Efp)
 	c.N, c.P, c.NetDoping, c.Charge = cp(r.N), cp(r.P), cp(r.NetDoping), cp(r.Charge)
-	c.Recombination, c.Jn, c.Jp = cp(r.Recombination), cp(r.Jn), cp(r.Jp)
+	c.Recombination, c.Generation, c.Jn, c.Jp = cp(r.Recombination), cp(r.Generation), cp(r.Jn), cp(r.Jp)
 	c.Flags = append([]physics.Flag(nil), r.Flags...)
 	return &c
 }

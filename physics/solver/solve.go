@@ -135,6 +135,9 @@ func (tr *tracker) maxStep(v, target float64) float64 {
 // halving on failure.
 func (tr *tracker) advance(ctx context.Context, targetV float64) error {
 	s := tr.s
+	if err := tr.illuminate(ctx); err != nil {
+		return err
+	}
 	target := targetV / s.vt
 	minStep := s.opt.MinBiasStep / s.vt
 	step := 0.0
@@ -203,7 +206,7 @@ func (s *Solver) SolveContext(ctx context.Context, v float64) (*Result, error) {
 	if err := checkBias(v, "bias"); err != nil {
 		return nil, err
 	}
-	if v == 0 {
+	if v == 0 && s.gen == nil {
 		return s.Equilibrium()
 	}
 	tr, err := s.newTracker()
@@ -248,7 +251,7 @@ func (s *Solver) Sweep(ctx context.Context, biases []float64, progress ProgressF
 			return out, err
 		}
 		var r *Result
-		if tr.cur.v == 0 && tr.prev == nil {
+		if tr.cur.v == 0 && tr.prev == nil && tr.cur.lit == 0 {
 			_, eq, _ := s.equilibrium()
 			r = eq.clone()
 		} else {
