@@ -249,3 +249,13 @@ func failsLimitOf(r BatchRow, j int, limits []Limit) bool {
 	}
 	return false
 }
+
+// HasLimitOn reports whether one of limits is on column j.
+func HasLimitOn(limits []Limit, j int) bool {
+	for _, l := range limits {
+		if l.Param == j {
+			return true
+		}
+	}
+	return false
+}

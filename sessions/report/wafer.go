@@ -79,11 +79,12 @@ func (s swatch) Thumbnail(c *draw.Canvas) {
 	c.FillPolygon(color.RGBA(s), []vg.Point{r.Min, {X: r.Max.X, Y: r.Min.Y}, r.Max, {X: r.Min.X, Y: r.Max.Y}})
 }
 
-// dieTicks marks whole die numbers, at most about ten.
-type dieTicks struct{}
+// dieTicks marks the whole die numbers from lo to hi (the grid's, not
+// the padding's), at most about ten labelled.
+type dieTicks struct{ lo, hi int }
 
-func (dieTicks) Ticks(lo, hi float64) []plot.Tick {
-	a, b := int(math.Ceil(lo)), int(math.Floor(hi))
+func (d dieTicks) Ticks(lo, hi float64) []plot.Tick {
+	a, b := max(int(math.Ceil(lo)), d.lo), min(int(math.Floor(hi)), d.hi)
 	step := max(1, (b-a+1+9)/10)
 	var out []plot.Tick
 	for v := a; v <= b; v++ {
@@ -121,7 +122,7 @@ func WaferMapSVG(res *fit.BatchResult, param int, wafer string, limits []fit.Lim
 	}
 	p.X.Label.Text, p.Y.Label.Text = "die x", "die y"
 	p.Y.Scale = plot.InvertedScale{Normalizer: plot.LinearScale{}}
-	p.X.Tick.Marker, p.Y.Tick.Marker = dieTicks{}, dieTicks{}
+	p.X.Tick.Marker, p.Y.Tick.Marker = dieTicks{g.X0, g.X1}, dieTicks{g.Y0, g.Y1}
 	wp := waferPlotter{rows: res.Rows, grid: g, param: param, sc: fit.NewShadeScale(res.Rows, res.Stats, param),
 		out: fit.OutlierSet(res.Stats[param]), limits: limits, label: p.X.Tick.Label}
 	wp.label.XAlign, wp.label.YAlign = draw.XCenter, draw.YCenter
@@ -134,7 +135,10 @@ func WaferMapSVG(res *fit.BatchResult, param int, wafer string, limits []fit.Lim
 
 	leg := plot.NewLegend()
 	leg.Top, leg.Left = true, true
-	f := func(v float64) string { return model.Format(bp.Kind, v, 3, true) }
+	leg.TextStyle.Font.Size = vg.Points(9)
+	leg.Padding = vg.Points(3)
+	leg.ThumbnailWidth = vg.Points(14)
+	f := func(v float64) string { return model.Format(bp.Kind, v, 4, true) }
 	sc := wp.sc
 	switch {
 	case sc.OK && sc.Hi == sc.Lo:
@@ -148,7 +152,7 @@ func WaferMapSVG(res *fit.BatchResult, param int, wafer string, limits []fit.Lim
 		cls  fit.DieClass
 		what string
 	}{{fit.DieOutlier, "O outlier"}, {fit.DieFailed, "X fit failed"}, {fit.DieOutOfLimits, "! out of limits"}, {fit.DieNotRun, "? not run"}, {fit.DieUndetermined, "~ not determined"}} {
-		if m.cls == fit.DieOutOfLimits && len(limits) == 0 {
+		if m.cls == fit.DieOutOfLimits && !fit.HasLimitOn(limits, param) {
 			continue
 		}
 		leg.Add(m.what, swatch(dieColors[m.cls]))

@@ -183,7 +183,7 @@ func legend(sc fit.ShadeScale, p fit.BatchParam, o Options, marks map[fit.DieCla
 		cls  fit.DieClass
 		what string
 	}{{fit.DieOutlier, "outlier"}, {fit.DieFailed, "fit failed"}, {fit.DieOutOfLimits, "out of limits"}, {fit.DieNotRun, "not run"}, {fit.DieUndetermined, "not determined"}} {
-		if c.cls == fit.DieOutOfLimits && len(o.Limits) == 0 {
+		if c.cls == fit.DieOutOfLimits && !fit.HasLimitOn(o.Limits, o.Param) {
 			continue
 		}
 		items = append(items, paint(c.cls, marks[c.cls])+" "+c.what)
