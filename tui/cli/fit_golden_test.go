@@ -31,7 +31,7 @@ var fitGoldenCases = []struct {
 	{"batch-text", []string{"batch", "testdata/fit/wafer", "--jobs", "2"}},
 	{"batch-json", []string{"batch", "testdata/fit/wafer", "--jobs", "2", "--json"}},
 	{"batch-csv", []string{"batch", "testdata/fit/wafer", "--jobs", "2", "--csv", "-"}},
-	{"batch-map-text", []string{"batch", "testdata/fit/wafermap", "--jobs", "2", "--map", "Is", "--limit", "n:1.3:1.42", "--limit", "Rs::8.2ohm"}},
+	{"batch-map-text", []string{"batch", "testdata/fit/wafermap", "--jobs", "2", "--map", "Is", "--limit", "n:1.3:1.42", "--limit", "Rs::8.2ohm", "--limit", "Is::1.25pA"}},
 	{"batch-map-ascii", []string{"batch", "testdata/fit/wafermap", "--jobs", "2", "--map", "n", "--ascii"}},
 	{"batch-map-json", []string{"batch", "testdata/fit/wafermap", "--jobs", "2", "--json", "--limit", "n:1.3:1.42", "--limit", "Rs::8.2ohm"}},
 	{"batch-map-csv", []string{"batch", "testdata/fit/wafermap", "--jobs", "2", "--csv", "-", "--limit", "n:1.3:1.42"}},
