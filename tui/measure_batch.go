@@ -293,6 +293,7 @@ func (h batchHelp) ShortHelp() []key.Binding {
 		key.NewBinding(key.WithKeys("tab"), key.WithHelp("tab", "directory/map")),
 		key.NewBinding(key.WithKeys("up", "down", "left", "right"), key.WithHelp("arrows", "walk dies")),
 		key.NewBinding(key.WithKeys("[", "]"), key.WithHelp("[ ]", "parameter")),
+		key.NewBinding(key.WithKeys("w"), key.WithHelp("w", "wafer")),
 		key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "cancel or close"))}
 }
 func (h batchHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }

@@ -151,6 +151,7 @@ func (m *Model) addDieToSession() {
 	ds.SourceFile = filepath.Base(ds.SourceFile)
 	id := m.newMeasurementID(string(ds.Kind))
 	m.sess.meas = append(m.sess.meas, sessions.Measurement{ID: id, DataSet: ds})
+	m.bat.wm.die = nil // B comes back to the map
 	m.openFit(len(m.sess.meas) - 1)
 	m.note = fmt.Sprintf("added %s (%s) to the session; ctrl+s saves it; B returns to the batch", id, dieLabel(m.bat.view.Rows[d.row].Die))
 }

@@ -104,4 +104,8 @@ func TestBatchMapWalk(t *testing.T) {
 	if m.screen != screenFit || len(m.sess.meas) != before+1 {
 		t.Errorf("f must add the die to the session and open the fit: screen %v, %d data sets (before %d)", m.screen, len(m.sess.meas), before)
 	}
+	m = press(m, "esc", "B")
+	if m.screen != screenBatch || m.bat.wm.die != nil || m.bat.view == nil {
+		t.Error("B must come back to the batch's map")
+	}
 }
