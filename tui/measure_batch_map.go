@@ -206,7 +206,15 @@ func (m Model) waferMapLines(w, h int) []string {
 		}
 		return t
 	}
-	out := wafermap.Render(rows, b.view.Stats, wafermap.Options{Param: s.param, Wafer: wafer, ASCII: m.e.ascii, Width: w, Cursor: s.cursor, Paint: paint})
+	// The grid takes the room the title and legend leave (at least 3
+	// rows, scrolled to the cursor); the cursor's die comes below when
+	// there is room.
+	o := wafermap.Options{Param: s.param, Wafer: wafer, ASCII: m.e.ascii, Width: w, Rows: h, Cursor: s.cursor, Paint: paint}
+	out := wafermap.Render(rows, b.view.Stats, o)
+	for i := 0; i < 3 && len(out) > h && o.Rows > 3; i++ {
+		o.Rows = max(o.Rows-(len(out)-h), 3)
+		out = wafermap.Render(rows, b.view.Stats, o)
+	}
 	if s.cursor >= 0 && s.cursor < len(rows) {
 		r := rows[s.cursor]
 		p := fit.BatchParams()[s.param]

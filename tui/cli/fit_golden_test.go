@@ -87,4 +87,13 @@ func TestFitBatchSameWhateverTheWorkers(t *testing.T) {
 			t.Errorf("%s: 1 worker and 8 workers differ:\n%s\n---\n%s", form, one, eight)
 		}
 	}
+	// The wafer map, the yield and the die columns too.
+	for _, form := range [][]string{{"--json"}, {"--map", "n"}, {"--csv", "-"}} {
+		args := append([]string{"batch", "testdata/fit/wafermap", "--limit", "Is::1.25pA"}, form...)
+		one := fitGoldenRun(append(args, "--jobs", "1"))
+		eight := fitGoldenRun(append(args, "--jobs", "8"))
+		if one != eight {
+			t.Errorf("%v: 1 worker and 8 workers differ:\n%s\n---\n%s", form, one, eight)
+		}
+	}
 }

@@ -48,6 +48,9 @@ type Options struct {
 	// Width is the room in columns (0: no limit); a grid wider is cut to
 	// the columns around the cursor (or the first ones) with a note.
 	Width int
+	// Rows is the most grid rows drawn (0: up to MaxRows); a taller grid
+	// shows the rows around the cursor (or the first ones) with a note.
+	Rows int
 	// Cursor is the index of the row whose die is framed [ ], -1 for none.
 	Cursor int
 	// Paint wraps text of a class in colour; nil paints nothing.
@@ -128,11 +131,18 @@ func Render(rows []fit.BatchRow, stats [5]extract.Summary, o Options) []string {
 	}
 	copy(lab[max(ylab-1, 0):], "x")
 	out = append(out, paint(Text, strings.TrimRight(string(lab), " ")))
-	y1, cut := g.Y1, false
-	if y1-g.Y0+1 > MaxRows {
-		y1, cut = g.Y0+MaxRows-1, true
+	nrows, room := g.Y1-g.Y0+1, MaxRows
+	if o.Rows > 0 {
+		room = min(o.Rows, MaxRows)
 	}
-	for y := g.Y0; y <= y1; y++ {
+	y0, y1 := g.Y0, g.Y1
+	if nrows > room {
+		y1 = g.Y0 + room - 1
+		if cy != math.MinInt && cy > y1 {
+			y0, y1 = cy-room+1, cy
+		}
+	}
+	for y := y0; y <= y1; y++ {
 		var b strings.Builder
 		b.WriteString(paint(Text, fmt.Sprintf("%*d", ylab, y)))
 		b.WriteString(" ")
@@ -157,8 +167,8 @@ func Render(rows []fit.BatchRow, stats [5]extract.Summary, o Options) []string {
 		}
 		out = append(out, strings.TrimRight(b.String(), " "))
 	}
-	if cut {
-		out = append(out, paint(Text, fmt.Sprintf("(rows after y=%d cut: at most %d are drawn)", y1, MaxRows)))
+	if nrows > room {
+		out = append(out, paint(Text, fmt.Sprintf("(y %d to %d of %d to %d shown)", y0, y1, g.Y0, g.Y1)))
 	}
 	if shown < ncols {
 		out = append(out, paint(Text, fmt.Sprintf("(x %d to %d of %d to %d shown: widen the terminal)", g.X0+first, g.X0+first+shown-1, g.X0, g.X1)))

@@ -43,6 +43,7 @@ func TestRenderGolden(t *testing.T) {
 		{Param: 1, ASCII: false, Cursor: 4},
 		{Param: 1, ASCII: true, Cursor: 5, Limits: lim, Width: 40},
 		{Param: 1, ASCII: true, Cursor: 5, Width: 10},
+		{Param: 1, ASCII: true, Cursor: 10, Rows: 2},
 	} {
 		for _, l := range Render(res.Rows, res.Stats, o) {
 			b.WriteString(l + "\n")
