@@ -178,10 +178,15 @@ func readManifest(r io.Reader, p string) (manifest, error) {
 		if errors.Is(err, io.EOF) {
 			break
 		}
-		line, _ := cr.FieldPos(0)
 		if err != nil {
+			var pe *csv.ParseError
+			line := 0
+			if errors.As(err, &pe) {
+				line, err = pe.Line, pe.Err
+			}
 			return nil, &ManifestError{Path: p, Line: line, Why: err.Error()}
 		}
+		line, _ := cr.FieldPos(0)
 		if len(out) >= MaxBatchFiles {
 			return nil, &ManifestError{Path: p, Line: line, Why: fmt.Sprintf("more than %d rows: at most %d files are fitted in one batch", MaxBatchFiles, MaxBatchFiles)}
 		}

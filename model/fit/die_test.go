@@ -123,6 +123,7 @@ func TestManifestErrors(t *testing.T) {
 		{"file,x,y\nsub/a.csv,1,1\n", "directory part"},
 		{"file,x,x,y\n", `column "x" appears twice`},
 		{"file,x,y\n,1,1\n", "file column is empty"},
+		{"file,x,y\na.csv,1,1\nb\"c.csv,2,2\n", ":3: bare \" in non-quoted-field"},
 	}
 	for _, c := range cases {
 		dir := t.TempDir()

@@ -27,6 +27,25 @@ const (
 	DieGap          // no die at this position
 )
 
+// DieMark is the letter a map writes for a marked class ("" for a shade
+// or a gap): O outlier, X failed, ! out of limits, ? not run, ~ not
+// determined.
+func DieMark(c DieClass) string {
+	switch c {
+	case DieOutlier:
+		return "O"
+	case DieFailed:
+		return "X"
+	case DieOutOfLimits:
+		return "!"
+	case DieNotRun:
+		return "?"
+	case DieUndetermined:
+		return "~"
+	}
+	return ""
+}
+
 // ShadeLevels is the number of shades of a wafer map.
 const ShadeLevels = 4
 

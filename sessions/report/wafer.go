@@ -33,10 +33,6 @@ var dieColors = map[fit.DieClass]color.RGBA{
 	fit.DieUndetermined: {0xbb, 0xbb, 0xbb, 255},
 }
 
-// dieMarks are the letters written on the marked classes (the same as
-// the text map's).
-var dieMarks = map[fit.DieClass]string{fit.DieOutlier: "O", fit.DieFailed: "X", fit.DieOutOfLimits: "!", fit.DieNotRun: "?", fit.DieUndetermined: "~"}
-
 // waferPlotter draws the dies of one wafer as squares, filled by class.
 type waferPlotter struct {
 	rows   []fit.BatchRow
@@ -56,7 +52,7 @@ func (w waferPlotter) Plot(c draw.Canvas, p *plot.Plot) {
 		x0, x1 := trX(x-0.45), trX(x+0.45)
 		y0, y1 := trY(y-0.45), trY(y+0.45)
 		c.FillPolygon(dieColors[cls], []vg.Point{{X: x0, Y: y0}, {X: x1, Y: y0}, {X: x1, Y: y1}, {X: x0, Y: y1}})
-		if m := dieMarks[cls]; m != "" {
+		if m := fit.DieMark(cls); m != "" {
 			st := w.label
 			st.Color = color.White
 			if cls == fit.DieNotRun || cls == fit.DieUndetermined {
@@ -151,11 +147,11 @@ func WaferMapSVG(res *fit.BatchResult, param int, wafer string, limits []fit.Lim
 	for _, m := range []struct {
 		cls  fit.DieClass
 		what string
-	}{{fit.DieOutlier, "O outlier"}, {fit.DieFailed, "X fit failed"}, {fit.DieOutOfLimits, "! out of limits"}, {fit.DieNotRun, "? not run"}, {fit.DieUndetermined, "~ not determined"}} {
+	}{{fit.DieOutlier, "outlier"}, {fit.DieFailed, "fit failed"}, {fit.DieOutOfLimits, "out of limits"}, {fit.DieNotRun, "not run"}, {fit.DieUndetermined, "not determined"}} {
 		if m.cls == fit.DieOutOfLimits && !fit.HasLimitOn(limits, param) {
 			continue
 		}
-		leg.Add(m.what, swatch(dieColors[m.cls]))
+		leg.Add(fit.DieMark(m.cls)+" "+m.what, swatch(dieColors[m.cls]))
 	}
 	scale := "linear"
 	if sc.Log {

@@ -26,7 +26,10 @@ const MaxRows = 200
 
 // Marks are the characters of the die classes, Unicode or ASCII.
 func Marks(ascii bool) map[fit.DieClass]string {
-	m := map[fit.DieClass]string{fit.DieOutlier: "O", fit.DieFailed: "X", fit.DieOutOfLimits: "!", fit.DieNotRun: "?", fit.DieUndetermined: "~", fit.DieGap: " "}
+	m := map[fit.DieClass]string{fit.DieGap: " "}
+	for _, c := range []fit.DieClass{fit.DieOutlier, fit.DieFailed, fit.DieOutOfLimits, fit.DieNotRun, fit.DieUndetermined} {
+		m[c] = fit.DieMark(c)
+	}
 	shades := []string{"░", "▒", "▓", "█"}
 	if ascii {
 		shades = []string{".", "-", "+", "#"}
