@@ -324,7 +324,7 @@ func fitBatchText(w io.Writer, rows []fit.BatchRow, sums [5]extract.Summary, ok,
 				names = append(names, fmt.Sprintf("... %d more", len(s.Outliers)-3))
 				break
 			}
-			names = append(names, filepath.Base(rows[k].File))
+			names = append(names, filepath.Base(rows[k].File)+fitDieText(rows[k].Die))
 		}
 		o := strconv.Itoa(len(s.Outliers))
 		if len(names) > 0 {
@@ -343,7 +343,7 @@ func fitBatchText(w io.Writer, rows []fit.BatchRow, sums [5]extract.Summary, ok,
 					fmt.Fprintf(w, "  ... %d more (see --csv)\n", failed-20)
 					break
 				}
-				fmt.Fprintf(w, "  %s\n", fitErrText(r.Err))
+				fmt.Fprintf(w, "  %s%s\n", fitErrText(r.Err), fitDieText(r.Die))
 				shown++
 			}
 		}

@@ -171,3 +171,16 @@ func fitBatchReport(o fitWaferOpts, res *fit.BatchResult, c fitCommon) ([]string
 	}
 	return sessions.WriteNew(filepath.Dir(o.report), files)
 }
+
+// fitDieText is " at x3 y7" (with the wafer when stated) for a die with a
+// position, "" otherwise: the die of a file named in the text summary.
+func fitDieText(d fit.Die) string {
+	if !d.Known() {
+		return ""
+	}
+	s := fmt.Sprintf(" at x%d y%d", d.X, d.Y)
+	if k := fit.WaferKey(d); k != "" {
+		s += " wafer " + k
+	}
+	return s
+}
