@@ -11,7 +11,6 @@ import (
 	"junco/model"
 	"junco/model/fit"
 	"junco/model/measure"
-	"junco/sessions"
 	"junco/tui/wafermap"
 )
 
@@ -139,21 +138,20 @@ func (m *Model) openDieFit() {
 	d.view = v
 }
 
-// addDieToSession adds the open die's data set to the session (as the
-// import screen does) and opens the fit screen on it; refused in review.
+// addDieToSession adds the open die's data set to the session through
+// the import screen's acceptImport (its ID policy) and opens the fit
+// screen on it; refused in review.
 func (m *Model) addDieToSession() {
 	if m.sess.readOnly {
 		m.note = "read-only review: measurements cannot be added; ctrl+s copies the session to your sessions"
 		return
 	}
 	d := m.bat.wm.die
-	ds := *d.ds
-	ds.SourceFile = filepath.Base(ds.SourceFile)
-	id := m.newMeasurementID(string(ds.Kind))
-	m.sess.meas = append(m.sess.meas, sessions.Measurement{ID: id, DataSet: ds})
+	m.imp.ds = d.ds // added as the import screen adds (its ID policy)
+	i := m.acceptImport()
 	m.bat.wm.die = nil // B comes back to the map
-	m.openFit(len(m.sess.meas) - 1)
-	m.note = fmt.Sprintf("added %s (%s) to the session; ctrl+s saves it; B returns to the batch", id, dieLabel(m.bat.view.Rows[d.row].Die))
+	m.openFit(i)
+	m.note = fmt.Sprintf("added %s (%s) to the session; ctrl+s saves it; B returns to the batch", m.sess.meas[i].ID, dieLabel(m.bat.view.Rows[d.row].Die))
 }
 
 // dieLabel names a die's position: "x3 y7" (with its wafer when stated).
