@@ -30,6 +30,9 @@ type batchState struct {
 	view     *fit.BatchResult
 	err      string
 	dir      string // the directory of the run shown
+	// wm is the wafer map of the run shown: focus, die cursor, column,
+	// wafer and the die's fit when one is open.
+	wm waferMapState
 }
 
 // batchProgressMsg reports n of total files finished in run seq.
@@ -129,6 +132,7 @@ func (m *Model) applyBatchDone(msg batchDoneMsg) {
 	}
 	b.running, b.cancel, b.prog, b.done = false, nil, nil, nil
 	b.view = msg.view
+	b.wm = newWaferMapState(msg.view)
 	if v := msg.view; v != nil {
 		b.n, b.total = v.Fitted+v.Failed, len(v.Rows)
 	}
@@ -145,6 +149,9 @@ func (m Model) batchKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	k := m.e.keys
 	b := &m.bat
 	switch {
+	case keyIs(km, k.Dismiss) && b.wm.die != nil:
+		b.wm.die = nil
+		return m, nil
 	case keyIs(km, k.Dismiss):
 		if b.running {
 			b.cancel()
@@ -152,6 +159,11 @@ func (m Model) batchKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 			return m, nil
 		}
 		m.screen = screenMain
+		return m, nil
+	case !b.running && b.wm.onMap(b.view):
+		return m.waferMapKey(km)
+	case km.Type == tea.KeyTab && !b.running && b.wm.hasDies:
+		b.wm.focus = true
 		return m, nil
 	case keyIs(km, k.Submit):
 		if b.running {
@@ -193,6 +205,9 @@ func (m Model) batchScreen(w, h int) []string {
 	if v == nil {
 		return block(out, w, h, g.ellipsis)
 	}
+	if b.wm.die != nil {
+		return block(append(out, m.dieFitView(w, h-len(out))...), w, h, g.ellipsis)
+	}
 	out = append(out, "", c(fmt.Sprintf("%d fitted, %d failed, %d not run", v.Fitted, v.Failed, v.NotRun)))
 	out = append(out, st.strong.Paint(c(fmt.Sprintf("  %-4s %-11s %-11s %-11s %s", "", "median", "Q1", "Q3", "outliers"))))
 	params := fit.BatchParams()
@@ -201,32 +216,65 @@ func (m Model) batchScreen(w, h int) []string {
 		f := func(x float64) string { return model.Format(p.Kind, x, 3, ascii) }
 		out = append(out, c(fmt.Sprintf("  %-4s %-11s %-11s %-11s %d of %d", p.Symbol, f(sm.Median), f(sm.Q1), f(sm.Q3), len(sm.Outliers), sm.N)))
 	}
-	out = append(out, "", st.strong.Paint(c(fmt.Sprintf("  %-20s %-11s %-7s %s", "file", "Is", "n", "Rs"))))
-	var rows []fit.BatchRow
-	for _, r := range v.Rows {
+	out = append(out, "")
+	room := h - len(out)
+	if !b.wm.hasDies {
+		return block(append(out, m.batchTable(w, room, 20, -1)...), w, h, g.ellipsis)
+	}
+	tw := batchTableWidth(w)
+	table := block(m.dieTable(tw, room), tw, room, g.ellipsis)
+	right := block(m.waferMapLines(w-tw-3, room), w-tw-3, room, g.ellipsis)
+	return block(append(out, joinColumns(" "+st.faint.Paint(g.vbar)+" ", table, right)...), w, h, g.ellipsis)
+}
+
+// batchTable is the file table of the batch screen in w columns and at
+// most room lines: file names cut to nameW, then Is, n and Rs or the
+// error. The cursor's row (an index of the batch's rows, -1: none) is
+// highlighted and kept in view.
+func (m Model) batchTable(w, room, nameW, cursor int) []string {
+	st, g := m.e.st, m.e.g
+	b := m.bat
+	ascii := m.e.ascii
+	c := func(s string) string { return cut(s, w, g.ellipsis) }
+	nameW = max(nameW, 8)
+	out := []string{st.strong.Paint(c(fmt.Sprintf("  %-*s %-9s %-6s %s", nameW, "file", "Is", "n", "Rs")))}
+	var idx []int
+	for k, r := range b.view.Rows {
 		if r.Status != fit.StatusNotRun {
-			rows = append(rows, r)
+			idx = append(idx, k)
 		}
 	}
-	room := h - len(out)
-	for i, r := range rows {
-		if i >= room-1 && len(rows) > room {
-			out = append(out, st.muted.Paint(c(fmt.Sprintf("  ... %d more", len(rows)-i))))
+	room--
+	first := 0
+	for i, k := range idx {
+		if k == cursor && i >= room-1 {
+			first = i - room + 2
+		}
+	}
+	for i := first; i < len(idx); i++ {
+		if i-first >= room-1 && len(idx)-first > room {
+			out = append(out, st.muted.Paint(c(fmt.Sprintf("  ... %d more", len(idx)-i))))
 			break
 		}
+		r := b.view.Rows[idx[i]]
 		file := r.File
 		if rel, err := filepath.Rel(b.dir, r.File); err == nil {
 			file = rel
 		}
-		name := cut(file, 20, g.ellipsis)
+		name := cut(file, nameW, g.ellipsis)
+		mark, paint := "  ", st.text
+		if idx[i] == cursor {
+			mark, paint = g.cursor+" ", st.selected
+		}
 		if r.Err != nil {
-			out = append(out, st.err.Paint(c(fmt.Sprintf("  %-20s %s %s", name, g.bad, oneLine(r.Err.Error())))))
+			out = append(out, mark+st.err.Paint(cut(fmt.Sprintf("%-*s %s %s", nameW, name, g.bad, oneLine(r.Err.Error())), w-2, g.ellipsis)))
 			continue
 		}
-		out = append(out, c(fmt.Sprintf("  %-20s %-11s %-7.3f %s", name, model.Format(model.Current, r.Values[0], 3, ascii), r.Values[1],
-			model.Format(model.Resistance, r.Values[2], 3, ascii))))
+		line := fmt.Sprintf("%-*s %-9s %-6.3f %s", nameW, name, model.Format(model.Current, r.Values[0], 3, ascii), r.Values[1],
+			model.Format(model.Resistance, r.Values[2], 3, ascii))
+		out = append(out, mark+paint.Paint(cut(line, w-2, g.ellipsis)))
 	}
-	return block(out, w, h, g.ellipsis)
+	return out
 }
 
 // oneLine joins the words of s on one line.
@@ -236,7 +284,11 @@ func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
 type batchHelp struct{ k KeyMap }
 
 func (h batchHelp) ShortHelp() []key.Binding {
-	return []key.Binding{key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "fit the files")),
+	return []key.Binding{key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "fit the files / open the die")),
+		key.NewBinding(key.WithKeys("tab"), key.WithHelp("tab", "directory/map")),
+		key.NewBinding(key.WithKeys("up", "down", "left", "right"), key.WithHelp("arrows", "walk dies")),
+		key.NewBinding(key.WithKeys("[", "]"), key.WithHelp("[ ]", "parameter")),
+		key.NewBinding(key.WithKeys("w"), key.WithHelp("w", "wafer")),
 		key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "cancel or close"))}
 }
 func (h batchHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }

@@ -43,6 +43,7 @@ func BatchParams() [5]BatchParam {
 // diode; NaN otherwise), in SI units.
 type BatchRow struct {
 	File           string
+	Die            Die
 	Status         string
 	Err            error
 	Temperature    Temperature
@@ -76,8 +77,14 @@ type BatchOptions struct {
 // the number of files by a row each, never by their points. A file that
 // fails is a row with its error and never stops the batch. When ctx is
 // cancelled no new file starts, the finished rows are kept, the others are
-// "not_run", and the error is ctx.Err() (with the result).
+// "not_run", and the error is ctx.Err() (with the result). Every row
+// carries its die (Dies); a manifest that cannot be used stops the batch
+// before any fit, with a nil result.
 func Batch(ctx context.Context, files []string, opt BatchOptions) (*BatchResult, error) {
+	dies, err := Dies(opt.Files, files)
+	if err != nil {
+		return nil, err
+	}
 	one := func(ctx context.Context, p string) (BatchRow, error) {
 		row := BatchRow{File: p}
 		if err := ctx.Err(); err != nil {
@@ -124,6 +131,7 @@ func Batch(ctx context.Context, files []string, opt BatchOptions) (*BatchResult,
 			row.Status = StatusOK
 			out.Fitted++
 		}
+		row.Die = dies[k]
 		out.Rows[k] = row
 	}
 	out.Stats = Statistics(out.Rows)

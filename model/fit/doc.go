@@ -16,6 +16,11 @@
 //     and files ending .csv, .tsv, .txt or .dat (any case) are taken, in
 //     sorted order; one row per file in that order, whatever the number of
 //     workers.
+//   - Dies: a die's position comes from the dies.csv manifest of the
+//     file's folder, else from the file name (x03_y07, X3Y7, r07c03 forms;
+//     x/y wins over row/column); the manifest wins over the name. Limits
+//     pass a fitted finite value within the band; the yield counts a
+//     failed fit as failing every limit and leaves out files not run.
 //   - Statistics: median, quartiles and Tukey fences, on log10 for the
 //     quantities that span decades and are positive by nature (Is, Is2,
 //     Rsh), linear for n and Rs (a fitted Rs of 0 is a value, not a gap).

@@ -20,11 +20,15 @@ import (
 )
 
 func fitRunBatch(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	a, c, code, done := fitStartCommon("batch", args, []string{"jobs", "csv", "temp", "window", "model"}, []string{"json", "ascii"}, stdout, stderr)
+	a, c, code, done := fitStartCommon("batch", args, []string{"jobs", "csv", "temp", "window", "model", "map", "limit", "report"}, []string{"json", "ascii"}, stdout, stderr)
 	if done {
 		return code
 	}
-	var err error
+	wo, err := fitParseWafer(a)
+	if err != nil {
+		fmt.Fprintln(stderr, err)
+		return exitUsage
+	}
 	jobs := runtime.NumCPU()
 	if s, ok := a.str("jobs"); ok {
 		if jobs, err = strconv.Atoi(s); err != nil || jobs < 1 || jobs > 1024 {
@@ -72,6 +76,10 @@ func fitRunBatch(ctx context.Context, args []string, stdout, stderr io.Writer) i
 		}
 	}
 	res, runErr := fit.Batch(ctx, files, fit.BatchOptions{IV: c.ivOptions(), Jobs: jobs, Progress: progress})
+	if res == nil { // a die manifest that cannot be used: nothing was fitted
+		fmt.Fprintf(stderr, "junco fit batch: %v\n", runErr)
+		return exitUsage
+	}
 	if showProgress && runErr != nil {
 		fmt.Fprintln(stderr)
 	}
@@ -103,8 +111,19 @@ func fitRunBatch(ctx context.Context, args []string, stdout, stderr io.Writer) i
 	case ok == 0:
 		code = exitFailure
 	}
+	if n := fitDieNotes(rows); n != "" {
+		fmt.Fprintln(stderr, "junco fit batch: "+n)
+	}
+	if wo.report != "" {
+		paths, err := fitBatchReport(wo, res, c)
+		if err != nil {
+			fmt.Fprintf(stderr, "junco fit batch: --report: %v\n", err)
+			return exitFailure
+		}
+		fmt.Fprintf(stderr, "junco fit batch: wrote %s\n", strings.Join(paths, ", "))
+	}
 	if csvOut != nil {
-		if err := fitBatchCSV(csvOut, rows, sums); err != nil {
+		if err := fitBatchCSV(csvOut, rows, sums, wo.limits); err != nil {
 			fmt.Fprintf(stderr, "junco fit batch: --csv: %v\n", err)
 			return exitFailure
 		}
@@ -113,13 +132,14 @@ func fitRunBatch(ctx context.Context, args []string, stdout, stderr io.Writer) i
 		}
 	}
 	if c.json {
-		if err := fitWriteJSON(stdout, fitBatchJSON(rows, sums, ok, failed, notRun, runErr != nil)); err != nil {
+		if err := fitWriteJSON(stdout, fitBatchJSON(rows, sums, ok, failed, notRun, runErr != nil, wo.limits)); err != nil {
 			fmt.Fprintf(stderr, "junco fit batch: %v\n", err)
 			return exitFailure
 		}
 		return code
 	}
 	fitBatchText(stdout, rows, sums, ok, failed, notRun, jobs, elapsed, c)
+	fitWaferText(stdout, res, wo, c.ascii)
 	return code
 }
 
@@ -164,13 +184,18 @@ func fitOutlierSet(sums [5]extract.Summary) map[int][]string {
 	return m
 }
 
-func fitBatchCSV(w io.Writer, rows []fit.BatchRow, sums [5]extract.Summary) error {
+func fitBatchCSV(w io.Writer, rows []fit.BatchRow, sums [5]extract.Summary, limits []fit.Limit) error {
 	cw := csv.NewWriter(w)
 	head := []string{"file", "status", "error", "temperature_K", "temperature_source"}
 	for _, p := range fit.BatchParams() {
 		head = append(head, p.Key, p.Key+"_stderr")
 	}
 	head = append(head, "rms_log_residual", "points", "outlier_in")
+	fitted := len(head)
+	head = append(head, "die_x", "die_y", "wafer", "lot")
+	if len(limits) > 0 {
+		head = append(head, "out_of_limits")
+	}
 	if err := cw.Write(head); err != nil {
 		return err
 	}
@@ -180,7 +205,7 @@ func fitBatchCSV(w io.Writer, rows []fit.BatchRow, sums [5]extract.Summary) erro
 		rec = rec[:0]
 		rec = append(rec, r.File, r.Status, fitErrText(r.Err))
 		if r.Status != fit.StatusOK {
-			for len(rec) < len(head) {
+			for len(rec) < fitted {
 				rec = append(rec, "")
 			}
 		} else {
@@ -189,6 +214,15 @@ func fitBatchCSV(w io.Writer, rows []fit.BatchRow, sums [5]extract.Summary) erro
 				rec = append(rec, fitCSVNum(r.Values[j]), fitCSVNum(r.StdErr[j]))
 			}
 			rec = append(rec, fitCSVNum(r.RMS), strconv.Itoa(r.Points), strings.Join(out[k], " "))
+		}
+		if r.Die.Known() {
+			rec = append(rec, strconv.Itoa(r.Die.X), strconv.Itoa(r.Die.Y))
+		} else {
+			rec = append(rec, "", "")
+		}
+		rec = append(rec, r.Die.Wafer, r.Die.Lot)
+		if len(limits) > 0 {
+			rec = append(rec, strings.Join(fit.OutOfLimits(r, limits), " "))
 		}
 		if err := cw.Write(rec); err != nil {
 			return err
@@ -211,6 +245,13 @@ type fitSummaryJSON struct {
 
 type fitBatchRowJSON struct {
 	File              string   `json:"file"`
+	DieX              *int     `json:"die_x,omitempty"`
+	DieY              *int     `json:"die_y,omitempty"`
+	Wafer             string   `json:"wafer,omitempty"`
+	Lot               string   `json:"lot,omitempty"`
+	DieSource         string   `json:"die_source,omitempty"`
+	DieNote           string   `json:"die_note,omitempty"`
+	OutOfLimits       []string `json:"out_of_limits,omitempty"`
 	Status            string   `json:"status"`
 	Error             string   `json:"error,omitempty"`
 	TemperatureK      *float64 `json:"temperature_K,omitempty"`
@@ -221,7 +262,7 @@ type fitBatchRowJSON struct {
 	StdErr         *fitIVValues `json:"stderr,omitempty"`
 }
 
-func fitBatchJSON(rows []fit.BatchRow, sums [5]extract.Summary, ok, failed, notRun int, interrupted bool) any {
+func fitBatchJSON(rows []fit.BatchRow, sums [5]extract.Summary, ok, failed, notRun int, interrupted bool, limits []fit.Limit) any {
 	summary := map[string]fitSummaryJSON{}
 	for j, s := range sums {
 		if s.N == 0 {
@@ -236,7 +277,12 @@ func fitBatchJSON(rows []fit.BatchRow, sums [5]extract.Summary, ok, failed, notR
 	}
 	var out []fitBatchRowJSON
 	for _, r := range rows {
-		rj := fitBatchRowJSON{File: r.File, Status: r.Status, Error: fitErrText(r.Err)}
+		rj := fitBatchRowJSON{File: r.File, Status: r.Status, Error: fitErrText(r.Err),
+			Wafer: r.Die.Wafer, Lot: r.Die.Lot, DieSource: r.Die.Source, DieNote: r.Die.Note, OutOfLimits: fit.OutOfLimits(r, limits)}
+		if r.Die.Known() {
+			x, y := r.Die.X, r.Die.Y
+			rj.DieX, rj.DieY = &x, &y
+		}
 		if r.Status == fit.StatusOK {
 			rj.TemperatureK, rj.TemperatureSource = fitNum(r.Temperature.K), r.Temperature.Source
 			v, s := r.Values, r.StdErr
@@ -253,8 +299,9 @@ func fitBatchJSON(rows []fit.BatchRow, sums [5]extract.Summary, ok, failed, notR
 		NotRun      int                       `json:"not_run"`
 		Interrupted bool                      `json:"interrupted"`
 		Summary     map[string]fitSummaryJSON `json:"summary"`
+		Yield       *fitYieldJSON             `json:"yield,omitempty"`
 		Results     []fitBatchRowJSON         `json:"results"`
-	}{len(rows), ok, failed, notRun, interrupted, summary, out}
+	}{len(rows), ok, failed, notRun, interrupted, summary, fitYieldOf(rows, limits), out}
 }
 
 func fitBatchText(w io.Writer, rows []fit.BatchRow, sums [5]extract.Summary, ok, failed, notRun, jobs int, elapsed time.Duration, c fitCommon) {
@@ -277,7 +324,7 @@ func fitBatchText(w io.Writer, rows []fit.BatchRow, sums [5]extract.Summary, ok,
 				names = append(names, fmt.Sprintf("... %d more", len(s.Outliers)-3))
 				break
 			}
-			names = append(names, filepath.Base(rows[k].File))
+			names = append(names, filepath.Base(rows[k].File)+fitDieText(rows[k].Die))
 		}
 		o := strconv.Itoa(len(s.Outliers))
 		if len(names) > 0 {
@@ -296,7 +343,7 @@ func fitBatchText(w io.Writer, rows []fit.BatchRow, sums [5]extract.Summary, ok,
 					fmt.Fprintf(w, "  ... %d more (see --csv)\n", failed-20)
 					break
 				}
-				fmt.Fprintf(w, "  %s\n", fitErrText(r.Err))
+				fmt.Fprintf(w, "  %s%s\n", fitErrText(r.Err), fitDieText(r.Die))
 				shown++
 			}
 		}

@@ -31,6 +31,12 @@ var fitGoldenCases = []struct {
 	{"batch-text", []string{"batch", "testdata/fit/wafer", "--jobs", "2"}},
 	{"batch-json", []string{"batch", "testdata/fit/wafer", "--jobs", "2", "--json"}},
 	{"batch-csv", []string{"batch", "testdata/fit/wafer", "--jobs", "2", "--csv", "-"}},
+	{"batch-map-text", []string{"batch", "testdata/fit/wafermap", "--jobs", "2", "--map", "Is", "--limit", "n:1.3:1.42", "--limit", "Rs::8.2ohm", "--limit", "Is::1.25pA"}},
+	{"batch-map-ascii", []string{"batch", "testdata/fit/wafermap", "--jobs", "2", "--map", "n", "--ascii"}},
+	{"batch-map-json", []string{"batch", "testdata/fit/wafermap", "--jobs", "2", "--json", "--limit", "n:1.3:1.42", "--limit", "Rs::8.2ohm"}},
+	{"batch-map-csv", []string{"batch", "testdata/fit/wafermap", "--jobs", "2", "--csv", "-", "--limit", "n:1.3:1.42"}},
+	{"batch-manifest-text", []string{"batch", "testdata/fit/wafermap-manifest", "--jobs", "2", "--map", "Rs", "--ascii"}},
+	{"batch-manifest-csv", []string{"batch", "testdata/fit/wafermap-manifest", "--jobs", "2", "--csv", "-"}},
 }
 
 // fitGoldenVolatile matches what differs between runs of the same batch:
@@ -79,6 +85,15 @@ func TestFitBatchSameWhateverTheWorkers(t *testing.T) {
 		eight := fitGoldenRun([]string{"batch", "testdata/fit/wafer", "--jobs", "8", form})
 		if one != eight {
 			t.Errorf("%s: 1 worker and 8 workers differ:\n%s\n---\n%s", form, one, eight)
+		}
+	}
+	// The wafer map, the yield and the die columns too.
+	for _, form := range [][]string{{"--json"}, {"--map", "n"}, {"--csv", "-"}} {
+		args := append([]string{"batch", "testdata/fit/wafermap", "--limit", "Is::1.25pA"}, form...)
+		one := fitGoldenRun(append(args, "--jobs", "1"))
+		eight := fitGoldenRun(append(args, "--jobs", "8"))
+		if one != eight {
+			t.Errorf("%v: 1 worker and 8 workers differ:\n%s\n---\n%s", form, one, eight)
 		}
 	}
 }

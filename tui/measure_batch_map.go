@@ -1,0 +1,373 @@
+package tui
+
+import (
+	"fmt"
+	"math"
+	"path/filepath"
+
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/lipgloss"
+
+	"junco/model"
+	"junco/model/fit"
+	"junco/model/measure"
+	"junco/tui/wafermap"
+)
+
+// waferMapState is the wafer map of a finished batch: whether keys walk
+// the map (focus) or edit the directory, the die under the cursor (an
+// index of the batch's rows, -1: none), the column mapped, the wafer
+// shown, and the die's fit when one is open.
+type waferMapState struct {
+	hasDies bool
+	focus   bool
+	cursor  int
+	param   int
+	wafer   int
+	die     *dieFit
+}
+
+// dieFit is one die's fit opened from the map: the row, the data set
+// read again from its file and the fit (or why there is none).
+type dieFit struct {
+	row  int
+	ds   *measure.DataSet
+	view *fit.IVView
+	err  string
+}
+
+// newWaferMapState starts the map of a batch on its first die, with the
+// keys on the map when some file has a die position.
+func newWaferMapState(v *fit.BatchResult) waferMapState {
+	s := waferMapState{cursor: -1, param: 0}
+	if v == nil {
+		return s
+	}
+	ws := fit.Wafers(v.Rows)
+	if len(ws) == 0 {
+		return s
+	}
+	s.hasDies, s.focus = true, true
+	s.cursor = fit.FirstDie(v.Rows, ws[0])
+	return s
+}
+
+// onMap reports whether keys go to the map (or the die's fit).
+func (s waferMapState) onMap(v *fit.BatchResult) bool {
+	return v != nil && s.hasDies && (s.focus || s.die != nil)
+}
+
+// waferMapKey handles the keys of the map: arrows walk the dies (also
+// from a die's fit, which then follows), enter opens the die's fit, [ and
+// ] change the column, w the wafer, tab gives the keys to the directory;
+// f in a die's fit adds its data set to the session and opens the fit
+// screen.
+func (m Model) waferMapKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
+	b := &m.bat
+	s := &b.wm
+	rows := b.view.Rows
+	step := func(dx, dy int) {
+		s.cursor = fit.StepDie(rows, s.cursor, dx, dy)
+		if s.die != nil {
+			m.openDieFit()
+		}
+	}
+	switch km.String() {
+	case "left", "h":
+		step(-1, 0)
+	case "right", "l":
+		step(1, 0)
+	case "up", "k":
+		step(0, -1)
+	case "down", "j":
+		step(0, 1)
+	case "enter":
+		if s.die == nil {
+			m.openDieFit()
+		}
+	case "]", "[":
+		d := 1
+		if km.String() == "[" {
+			d = len(fit.BatchParams()) - 1
+		}
+		for i := 0; i < len(fit.BatchParams()); i++ {
+			s.param = (s.param + d) % len(fit.BatchParams())
+			if b.view.Stats[s.param].N > 0 {
+				break
+			}
+		}
+	case "w":
+		if ws := fit.Wafers(rows); len(ws) > 1 {
+			s.wafer = (s.wafer + 1) % len(ws)
+			s.cursor = fit.FirstDie(rows, ws[s.wafer])
+			s.die = nil
+		}
+	case "tab", "shift+tab":
+		if s.die == nil {
+			s.focus = false
+		}
+	case "f":
+		if s.die != nil && s.die.ds != nil {
+			m.addDieToSession()
+		}
+	}
+	return m, nil
+}
+
+// openDieFit reads the cursor's file again and fits it with the batch's
+// options (the fit layer's, as the batch did): the die's fit screen.
+func (m *Model) openDieFit() {
+	s := &m.bat.wm
+	if m.bat.view == nil || s.cursor < 0 || s.cursor >= len(m.bat.view.Rows) {
+		return
+	}
+	r := m.bat.view.Rows[s.cursor]
+	d := &dieFit{row: s.cursor}
+	s.die = d
+	ds, err := fit.Import(m.sess.files, r.File, measure.KindIV, m.sess.now)
+	if err != nil {
+		d.err = err.Error()
+		return
+	}
+	d.ds = ds
+	v, err := fit.NewIVView(ds, fit.IVOptions{Temperature: fit.TemperatureRule{FallbackK: m.form.spec.Temperature, FallbackSource: fit.SourceJunction}})
+	if err != nil {
+		d.err = err.Error()
+		return
+	}
+	d.view = v
+}
+
+// addDieToSession adds the open die's data set to the session through
+// the import screen's acceptImport (its ID policy) and opens the fit
+// screen on it; refused in review.
+func (m *Model) addDieToSession() {
+	if m.sess.readOnly {
+		m.note = "read-only review: measurements cannot be added; ctrl+s copies the session to your sessions"
+		return
+	}
+	d := m.bat.wm.die
+	m.imp.ds = d.ds // added as the import screen adds (its ID policy)
+	i := m.acceptImport()
+	m.bat.wm.die = nil // B comes back to the map
+	m.openFit(i)
+	m.note = fmt.Sprintf("added %s (%s) to the session; ctrl+s saves it; B returns to the batch", m.sess.meas[i].ID, dieLabel(m.bat.view.Rows[d.row].Die))
+}
+
+// dieLabel names a die's position: "x3 y7" (with its wafer when stated).
+func dieLabel(d fit.Die) string {
+	if !d.Known() {
+		return "no position"
+	}
+	s := fmt.Sprintf("x%d y%d", d.X, d.Y)
+	if k := fit.WaferKey(d); k != "" {
+		s += " wafer " + k
+	}
+	return s
+}
+
+// batchTableWidth is the width of the file table beside the map.
+func batchTableWidth(w int) int { return min(max(w/2-2, 30), 56) }
+
+// waferInks paints the map's classes: a cool-to-warm scale for the
+// shades, the workbench's error, warning and pinned colours for the
+// marks. Built from the session's renderer; without colour, nothing.
+func (m Model) waferInks() map[fit.DieClass]ink {
+	if !m.e.color {
+		return nil
+	}
+	r := m.e.r
+	fg := func(c string) ink { return inkOf(r.NewStyle().Foreground(lipgloss.Color(c))) }
+	return map[fit.DieClass]ink{
+		fit.Shade0: fg("39"), fit.Shade1: fg("43"), fit.Shade2: fg("148"), fit.Shade3: fg("220"),
+		fit.DieOutlier: m.e.st.pinned, fit.DieFailed: m.e.st.err, fit.DieOutOfLimits: m.e.st.caution,
+		fit.DieNotRun: m.e.st.muted, fit.DieUndetermined: m.e.st.muted, wafermap.Text: m.e.st.muted,
+	}
+}
+
+// waferMapLines is the right side of the batch screen: the map of the
+// column chosen with the cursor's die framed, and the cursor's die.
+func (m Model) waferMapLines(w, h int) []string {
+	st, g := m.e.st, m.e.g
+	b := m.bat
+	s := b.wm
+	rows := b.view.Rows
+	ws := fit.Wafers(rows)
+	wafer := ""
+	if s.wafer < len(ws) {
+		wafer = ws[s.wafer]
+	}
+	inks := m.waferInks()
+	paint := func(c fit.DieClass, t string) string {
+		if k, ok := inks[c]; ok {
+			return k.Paint(t)
+		}
+		return t
+	}
+	// The grid takes the room the title and legend leave (at least 3
+	// rows, scrolled to the cursor); the cursor's die comes below when
+	// there is room.
+	o := wafermap.Options{Param: s.param, Wafer: wafer, ASCII: m.e.ascii, Width: w, Rows: h, Cursor: s.cursor, Paint: paint}
+	out := wafermap.Render(rows, b.view.Stats, o)
+	for i := 0; i < 3 && len(out) > h && o.Rows > 3; i++ {
+		o.Rows = max(o.Rows-(len(out)-h), 3)
+		out = wafermap.Render(rows, b.view.Stats, o)
+	}
+	if s.cursor >= 0 && s.cursor < len(rows) {
+		r := rows[s.cursor]
+		p := fit.BatchParams()[s.param]
+		val := g.bad + " " + oneLine(fmt.Sprint(r.Err))
+		if r.Status == fit.StatusOK {
+			val = p.Symbol + " " + model.Format(p.Kind, r.Values[s.param], 4, m.e.ascii)
+		}
+		out = append(out, "", st.strong.Paint(cut(g.cursor+" "+dieLabel(r.Die)+"  "+filepath.Base(r.File), w, g.ellipsis)))
+		out = append(out, cut("  "+val, w, g.ellipsis))
+		if r.Die.Note != "" {
+			out = append(out, wrapped(r.Die.Note, w, st.muted, "  ")...)
+		}
+	}
+	if !s.focus {
+		out = append(out, st.muted.Paint(cut("tab: keys to the map", w, g.ellipsis)))
+	}
+	return block(out, w, h, g.ellipsis)
+}
+
+// dieFitView draws the open die's fit: its position and file, the chart
+// of the measured and fitted current (log scale) and the parameters with
+// standard errors.
+func (m Model) dieFitView(w, h int) []string {
+	st, g := m.e.st, m.e.g
+	d := m.bat.wm.die
+	r := m.bat.view.Rows[d.row]
+	out := []string{rule("Die "+dieLabel(r.Die)+" "+g.dot+" "+filepath.Base(r.File), w, glyphs{hbar: g.hbar}, st.heading)}
+	if d.err != "" {
+		out = append(out, wrapped(g.bad+" "+d.err, w, st.err, "")...)
+		out = append(out, st.muted.Paint(cut("arrows: next die  esc: back to the map", w, g.ellipsis)))
+		return out
+	}
+	v := d.view
+	pm := "±"
+	if m.e.ascii {
+		pm = "+/-"
+	}
+	var table []string
+	table = append(table, st.strong.Paint(fmt.Sprintf("single diode at %s (%s)", model.Format(model.Temperature, v.TemperatureK, 4, m.e.ascii), v.TemperatureFrom)))
+	for _, row := range v.Rows {
+		l := fmt.Sprintf("  %-4s %-12s %s %s", row.Name, row.Value, pm, row.StdErr)
+		if row.Remark != "" {
+			l = fmt.Sprintf("  %-4s %-12s %s", row.Name, row.Value, row.Remark)
+		}
+		table = append(table, l)
+	}
+	table = append(table, fmt.Sprintf("  RMS log residual %.4f", v.Fit.RMSLogResidual), fmt.Sprintf("  points used %d", v.Fit.Points),
+		"", st.muted.Paint("arrows: next die"), st.muted.Paint("f: add to the session and fit"), st.muted.Paint("esc: back to the map"))
+	tw := 40
+	if w < 80 {
+		chart := m.dieChart(d, w, max(h-len(out)-len(table)-1, 0))
+		return append(append(out, chart...), table...)
+	}
+	chart := m.dieChart(d, w-tw-3, h-len(out))
+	return append(out, joinColumns(" "+st.faint.Paint(g.vbar)+" ", block(chart, w-tw-3, h-len(out), g.ellipsis), table)...)
+}
+
+// dieChart draws log |I| of the die's data (dots) and fit (line) in w x h
+// cells, with the axis titles.
+func (m Model) dieChart(d *dieFit, w, h int) []string {
+	st, g := m.e.st, m.e.g
+	meas := fit.MeasuredCurve(d.ds)
+	if len(meas.Series) == 0 || h < 7 || w < 20 {
+		return nil
+	}
+	dot := "+"
+	if !m.e.ascii {
+		dot = "•"
+	}
+	srcs := []plotLine{
+		{label: "fit", xs: d.view.Curve.Xs, ys: d.view.Curve.Series[0].Y, paint: st.series[0], marker: g.markers[0]},
+		{label: "measured", xs: meas.Xs, ys: meas.Series[0].Y, paint: st.series[1], marker: dot, dots: true},
+	}
+	var all []float64
+	for _, s := range srcs {
+		for _, y := range s.ys {
+			if y != 0 {
+				all = append(all, y)
+			}
+		}
+	}
+	lo, hi, ok := decadeRange(all, 1, 16)
+	if !ok {
+		return nil
+	}
+	ph := h - 3
+	ys := decadeScale(lo, hi, max(1, int(math.Ceil(3*float64(hi-lo)/float64(max(ph-2, 1))))))
+	floor := math.Pow(10, float64(lo))
+	for i := range srcs {
+		logs := make([]float64, len(srcs[i].ys))
+		for j, y := range srcs[i].ys {
+			logs[j] = math.NaN()
+			if !math.IsNaN(y) && y != 0 {
+				logs[j] = math.Log10(math.Max(math.Abs(y), floor))
+			}
+		}
+		srcs[i].ys = logs
+	}
+	xlo, xhi := minMax(meas.Xs, 1)
+	xs := exactScale(xlo, xhi, max(2, w/12))
+	out := []string{st.series[1].Paint(dot) + " measured  " + st.series[0].Paint(g.markers[0]) + " fit", st.muted.Paint("|current I| (A, log scale)")}
+	out = append(out, renderPlot(srcs, xs, ys, w, ph, m.e)...)
+	return append(out, st.muted.Paint(padLeft("bias V (V)", w)))
+}
+
+// dieTable is the file table beside the map, in w columns and at most
+// room lines: file, die position and the value of the column mapped (or
+// the error); the cursor's row is highlighted and kept in view.
+func (m Model) dieTable(w, room int) []string {
+	st, g := m.e.st, m.e.g
+	b := m.bat
+	p := fit.BatchParams()[b.wm.param]
+	valW := 11
+	nameW := max(w-2-1-9-1-valW, 8)
+	out := []string{st.strong.Paint(cut(fmt.Sprintf("  %-*s %-9s %s", nameW, "file", "die", p.Symbol), w, g.ellipsis))}
+	var idx []int
+	for k, r := range b.view.Rows {
+		if r.Status != fit.StatusNotRun {
+			idx = append(idx, k)
+		}
+	}
+	room--
+	first := 0
+	for i, k := range idx {
+		if k == b.wm.cursor && i >= room-1 {
+			first = i - room + 2
+		}
+	}
+	for i := first; i < len(idx); i++ {
+		if i-first >= room-1 && len(idx)-first > room {
+			out = append(out, st.muted.Paint(cut(fmt.Sprintf("  ... %d more", len(idx)-i), w, g.ellipsis)))
+			break
+		}
+		r := b.view.Rows[idx[i]]
+		file := r.File
+		if rel, err := filepath.Rel(b.dir, r.File); err == nil {
+			file = rel
+		}
+		pos := "-"
+		if r.Die.Known() {
+			pos = fmt.Sprintf("x%d y%d", r.Die.X, r.Die.Y)
+		}
+		val, paint := "", st.text
+		switch {
+		case r.Err != nil:
+			val, paint = g.bad+" "+oneLine(r.Err.Error()), st.err
+		default:
+			val = model.Format(p.Kind, r.Values[b.wm.param], 4, m.e.ascii)
+		}
+		mark := "  "
+		if idx[i] == b.wm.cursor {
+			mark, paint = g.cursor+" ", st.selected
+		}
+		line := fmt.Sprintf("%-*s %-9s %s", nameW, cut(file, nameW, g.ellipsis), cut(pos, 9, g.ellipsis), val)
+		out = append(out, mark+paint.Paint(cut(line, w-2, g.ellipsis)))
+	}
+	return out
+}

@@ -1,0 +1,140 @@
+package tui
+
+import (
+	"fmt"
+	"math/rand/v2"
+	"strings"
+	"testing"
+
+	tea "github.com/charmbracelet/bubbletea"
+	"github.com/charmbracelet/x/exp/golden"
+
+	"junco/model/fit"
+)
+
+// waferDir is the invented wafer of the command line's tests (files
+// named by die position; see its README).
+const waferDir = "cli/testdata/fit/wafermap"
+
+// The batch screen with the wafer map beside the table, at 80x24 and
+// 120x40: after the run, after walking two dies right and one down, and
+// with a die's fit open.
+func TestGoldenBatchMap(t *testing.T) {
+	cases := []struct {
+		name string
+		keys []string
+	}{
+		{"map", nil},
+		{"walked", []string{"right", "down", "]"}},
+		{"die", []string{"right", "down", "enter"}},
+	}
+	for _, size := range [][2]int{{80, 24}, {120, 40}} {
+		for _, c := range cases {
+			t.Run(fmt.Sprintf("batch-%s-%dx%d", c.name, size[0], size[1]), func(t *testing.T) {
+				m := newTest(t, size[0], size[1])
+				m = press(m, "B")
+				m = typeText(m, waferDir)
+				m = press(m, "enter")
+				m = press(m, c.keys...)
+				golden.RequireEqual(t, []byte(plain(m)))
+			})
+		}
+	}
+}
+
+// Arrows walk the dies of the map, enter opens the die's fit (the same
+// values as its batch row), esc returns to the map, tab gives the keys
+// back to the directory field.
+func TestBatchMapWalk(t *testing.T) {
+	m := newTest(t, 120, 40)
+	m = press(m, "B")
+	m = typeText(m, waferDir)
+	m = press(m, "enter")
+	wm := m.bat.wm
+	rows := m.bat.view.Rows
+	if !wm.hasDies || !wm.focus {
+		t.Fatalf("the map must take the keys after a run with die positions: %+v", wm)
+	}
+	die := func(m Model) fit.Die { return m.bat.view.Rows[m.bat.wm.cursor].Die }
+	if d := die(m); d.X != 1 || d.Y != 0 {
+		t.Fatalf("first die %+v, want x1 y0 (reading order)", d)
+	}
+	m = press(m, "right")
+	if d := die(m); d.X != 2 || d.Y != 0 {
+		t.Errorf("right: %+v, want x2 y0", d)
+	}
+	m = press(m, "down", "down", "right")
+	if d := die(m); d.X != 3 || d.Y != 2 {
+		t.Errorf("down down right: %+v, want x3 y2", d)
+	}
+	m = press(m, "right") // nothing further right: stays
+	if d := die(m); d.X != 3 || d.Y != 2 {
+		t.Errorf("right at the edge: %+v, want x3 y2", d)
+	}
+	m = press(m, "enter")
+	d := m.bat.wm.die
+	if d == nil || d.view == nil {
+		t.Fatalf("enter must open the die's fit: %+v", d)
+	}
+	row := rows[m.bat.wm.cursor]
+	// The die's fit is the batch's fit of the same file (one fit layer).
+	if got, want := d.view.Fit.Single.SaturationCurrentA, row.Values[0]; got != want {
+		t.Errorf("die fit Is %g, batch row %g", got, want)
+	}
+	if !strings.Contains(plain(m), "Die x3 y2") {
+		t.Errorf("die view lacks its title:\n%s", plain(m))
+	}
+	m = press(m, "left")
+	if d := m.bat.wm.die; d == nil || rows[d.row].Die.X != 2 {
+		t.Errorf("left in the die's fit must follow to x2: %+v", d)
+	}
+	m = press(m, "esc")
+	if m.bat.wm.die != nil || m.screen != screenBatch {
+		t.Error("esc must close the die's fit, not the screen")
+	}
+	m = press(m, "tab")
+	if m.bat.wm.focus {
+		t.Error("tab must give the keys to the directory")
+	}
+	m = press(m, "tab")
+	if !m.bat.wm.focus {
+		t.Error("tab must give the keys back to the map")
+	}
+	m = press(m, "down", "down", "down", "enter") // x2 y3: die_x02_y03
+	before := len(m.sess.meas)
+	m = press(m, "f")
+	if m.screen != screenFit || len(m.sess.meas) != before+1 {
+		t.Errorf("f must add the die to the session and open the fit: screen %v, %d data sets (before %d)", m.screen, len(m.sess.meas), before)
+	}
+	m = press(m, "esc", "B")
+	if m.screen != screenBatch || m.bat.wm.die != nil || m.bat.view == nil {
+		t.Error("B must come back to the batch's map")
+	}
+}
+
+// Random keys on the map and in a die's fit (arrows, enter, [ ], w, tab,
+// letters, sizes) never panic, keep the screen and always draw.
+func TestBatchMapRandomKeys(t *testing.T) {
+	m := newTest(t, 100, 30)
+	m = press(m, "B")
+	m = typeText(m, waferDir)
+	m = press(m, "enter")
+	rng := rand.New(rand.NewPCG(9, 4))
+	keys := []string{"up", "down", "left", "right", "enter", "[", "]", "w", "tab", "h", "j", "k", "l", "x", "1"}
+	sizes := [][2]int{{0, 0}, {1, 1}, {20, 5}, {40, 12}, {80, 24}, {200, 60}}
+	for step := 0; step < 500; step++ {
+		var msg tea.Msg = keyMsg(keys[rng.IntN(len(keys))])
+		if rng.IntN(20) == 0 {
+			s := sizes[rng.IntN(len(sizes))]
+			msg = tea.WindowSizeMsg{Width: s[0], Height: s[1]}
+		}
+		tm, cmd := m.Update(msg)
+		m = drain(tm.(Model), cmd)
+		if m.screen != screenBatch {
+			t.Fatalf("step %d: left the screen", step)
+		}
+		if m.w > 0 && m.h > 0 && m.View() == "" {
+			t.Fatalf("step %d: empty view", step)
+		}
+	}
+}
