@@ -141,7 +141,7 @@ func fitIVFile(ctx context.Context, path string, c fitCommon, leakAt *float64) (
 }
 
 func fitRunIV(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	a, c, code, done := fitStartCommon("iv", args, []string{"temp", "window", "model", "model-card", "leakage-at", "compare", "data", "save-to"}, []string{"json", "ascii"}, stdout, stderr)
+	a, c, code, done := fitStartCommon("iv", args, []string{"temp", "window", "model", "model-card", "leakage-at", "compare", "data", "save-to", "compliance", "floor"}, []string{"json", "ascii"}, stdout, stderr)
 	if done {
 		return code
 	}
