@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strings"
 )
 
 // ComplianceResolution is the relative resolution to which clipped
@@ -112,19 +113,26 @@ func (c Clip) Note() string {
 		len(c.Indices), c.MinV, c.MaxV, rowList(c.Indices), c.CurrentA, how)
 }
 
-// rowList gives 1-based point numbers, "3, 4, 5" or "3..40" when long.
+// rowList gives 1-based point numbers as runs, "3, 5-9, 12" (sorted idx),
+// the first eight runs and a count of the rest.
 func rowList(idx []int) string {
-	if len(idx) > 6 {
-		return fmt.Sprintf("%d..%d", idx[0]+1, idx[len(idx)-1]+1)
-	}
-	s := ""
-	for k, j := range idx {
-		if k > 0 {
-			s += ", "
+	var runs []string
+	for k := 0; k < len(idx); {
+		j := k
+		for j+1 < len(idx) && idx[j+1] == idx[j]+1 {
+			j++
 		}
-		s += fmt.Sprint(j + 1)
+		if j > k {
+			runs = append(runs, fmt.Sprintf("%d-%d", idx[k]+1, idx[j]+1))
+		} else {
+			runs = append(runs, fmt.Sprint(idx[k]+1))
+		}
+		k = j + 1
 	}
-	return s
+	if len(runs) > 8 {
+		return strings.Join(runs[:8], ", ") + fmt.Sprintf(" and %d more runs", len(runs)-8)
+	}
+	return strings.Join(runs, ", ")
 }
 
 // NoiseFloor is an estimate of the absolute current noise of a sweep.
