@@ -67,10 +67,16 @@ func fitUsage(w io.Writer) {
       down); --grading and --parasitic hold m and Cpar. With --area: the
       doping from the Mott-Schottky line of C - Cpar (only when m is within
       0.05 of 1/2) and, with --profile, the doping profile of C - Cpar.
-  junco fit arrhenius FILE... [--temp T1,T2,...] [--gamma G] [--current I]
+  junco fit arrhenius FILE... [--temp T1,T2,...] [--dtau-exponent G] [--current I]
                        [--window V1:V2] [--json] [--ascii]
-      Saturation current against temperature: activation energy; with
-      --current also dVF/dT at that current.
+      Saturation current against temperature: activation energy from
+      Is = C T^(3+G/2) exp(-Ea/kT); with --current also dVF/dT at that
+      current. --dtau-exponent G (default 0) is the exponent of the
+      temperature dependence of D/tau (D/tau ~ T^G), not the prefactor's
+      exponent: the prefactor is T^(3+G/2), printed as "prefactor
+      exponent". --gamma is its deprecated old name. The standard error of
+      Ea is widened by sqrt(reduced chi-square) when the points scatter
+      more than their errors.
   junco fit batch DIR|FILE... [--jobs N] [--csv OUT] [--temp T] [--window V1:V2]
                        [--model single|double] [--compliance I] [--floor I]
                        [--json] [--ascii]
