@@ -119,8 +119,8 @@ func fitRunArrhenius(ctx context.Context, args []string, stdout, stderr io.Write
 	rep.ActivationEnergyEV, rep.StdErr.ActivationEnergyEV = af.ActivationEnergyEV, af.StdErrEV
 	rep.PrefactorExponent, rep.Points, rep.RMSLnResidual = af.Exponent, af.Points, af.RMSResidual
 	rep.ReducedChiSquare = fitNum(af.ReducedChiSquare)
-	if af.ReducedChiSquare > 4 {
-		rep.Notes = append(rep.Notes, fmt.Sprintf("the saturation currents scatter about the line %.3g times their standard errors (reduced chi-square %.3g): the standard error of Ea is widened by that; check that the files are one device", math.Sqrt(af.ReducedChiSquare), af.ReducedChiSquare))
+	if n := fit.ArrheniusScatterNote(af); n != "" {
+		rep.Notes = append(rep.Notes, n)
 	}
 	if n := nsum / float64(len(files)); n > 1.3 {
 		rep.Notes = append(rep.Notes, fmt.Sprintf("mean ideality factor %.2f: Is mixes diffusion and recombination, so Ea lies between Eg/2 and Eg", n))
