@@ -116,6 +116,9 @@ type DataSet struct {
 	// StatedTemperatureK is the temperature given in a comment line
 	// ("# temperature: 300 K"), 0 if none.
 	StatedTemperatureK float64 `json:"stated_temperature_K,omitempty"`
+	// TemperatureTyped says StatedTemperatureK was typed by the user at
+	// import because the file states none (not read from a comment).
+	TemperatureTyped bool `json:"temperature_typed,omitempty"`
 	// DataRows counts all data rows read, kept or not.
 	DataRows int `json:"data_rows"`
 	// Problems lists rows left out (at most MaxProblems); ProblemRows
