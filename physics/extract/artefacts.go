@@ -146,24 +146,61 @@ type NoiseFloor struct {
 }
 
 // EstimateNoiseFloor estimates the additive current noise from the points
-// at reverse and near-zero bias (V <= vt, vt = kT/q in V), where a diode's
-// current is small and smooth in V. Sorted by V, each inner point is
-// compared with the straight line through its two neighbours,
+// where a diode's current is small and smooth in V: every point at reverse
+// bias or at V <= vt (vt = kT/q in V), and, when the sweep has forward
+// readings at or below zero (noise larger than the current), every point up
+// to the last of them; when that scatter is a floor, a second pass extends
+// the points up to the first forward reading above 30 times it. Sorted by V, on each run of five equally spaced
+// points (spacing equal to 1 %) the fourth difference
 //
-//	e_k = I_k - (a I_(k-1) + b I_(k+1)),  a = (V_(k+1) - V_k)/(V_(k+1) - V_(k-1)), b = 1 - a,
+//	d = I(k-2) - 4 I(k-1) + 6 I(k) - 4 I(k+1) + I(k+2)
 //
-// which removes a linear trend (shunt, leakage) and leaves noise of
-// variance sigma^2 (1 + a^2 + b^2) for independent readings of standard
-// deviation sigma; sigma is 1.4826 times the median of
-// |e_k|/sqrt(1 + a^2 + b^2) (the median absolute deviation, consistent for
-// normal noise and robust to a few outliers). Needs 8 points with distinct
-// neighbours. Units: V, A. Source: Rousseeuw & Croux, J. Am. Stat. Assoc.
-// 88, 1273 (1993) (the MAD and its 1.4826 consistency factor); the
-// second-difference noise estimate is common practice.
+// removes any cubic trend (leakage, the start of the exponential: for an
+// exponential of steps h = dV/(n kT/q) it leaves (e^h - 1)^4 I, 5 % of I
+// at h = 0.4) and leaves noise of variance 70 sigma^2 for independent
+// readings of standard deviation sigma; sigma is 1.4826 times the median of
+// |d|/sqrt(70) (the median absolute deviation, consistent for normal noise
+// and robust to outliers). Needs 6 such runs. Units: V, A. Source:
+// Rousseeuw & Croux, J. Am. Stat. Assoc. 88, 1273 (1993) (the MAD and its
+// 1.4826 factor); variance of a difference of independent readings
+// (binomial coefficients 1, 4, 6, 4, 1 squared sum to 70): an identity.
 func EstimateNoiseFloor(v, i []float64, vt float64) (NoiseFloor, bool) {
+	lim := vt
+	for k := range v {
+		if v[k] > lim && i[k] <= 0 && !math.IsInf(v[k], 0) {
+			lim = v[k]
+		}
+	}
+	nf, ok := noiseFloorBelow(v, i, lim)
+	if !ok || !nf.Floor {
+		return nf, ok
+	}
+	// Second pass: the points up to the first forward reading above 30
+	// first-pass sigmas, where the fourth difference of the diode's own
+	// current is still below a fifth of sigma for steps h <= 0.4 (5 % of
+	// 30 sigma over sqrt(70)); more points, a steadier median.
+	lim2 := math.Inf(1)
+	for k := range v {
+		if v[k] > lim && i[k] > 30*nf.SigmaA && v[k] < lim2 {
+			lim2 = v[k]
+		}
+	}
+	if math.IsInf(lim2, 1) {
+		return nf, ok
+	}
+	if nf2, ok2 := noiseFloorBelow(v, i, math.Nextafter(lim2, math.Inf(-1))); ok2 && nf2.Points > nf.Points {
+		nf2.Floor = true
+		return nf2, true
+	}
+	return nf, ok
+}
+
+// noiseFloorBelow is EstimateNoiseFloor's fourth-difference estimate over
+// the points with V <= lim.
+func noiseFloorBelow(v, i []float64, lim float64) (NoiseFloor, bool) {
 	var pv, pi []float64
 	for k := range v {
-		if v[k] <= vt && !math.IsNaN(v[k]) && !math.IsInf(v[k], 0) && !math.IsNaN(i[k]) && !math.IsInf(i[k], 0) {
+		if v[k] <= lim && !math.IsNaN(v[k]) && !math.IsInf(v[k], 0) && !math.IsNaN(i[k]) && !math.IsInf(i[k], 0) {
 			pv = append(pv, v[k])
 			pi = append(pi, i[k])
 		}
@@ -171,15 +208,22 @@ func EstimateNoiseFloor(v, i []float64, vt float64) (NoiseFloor, bool) {
 	p := ivPoints{pv, pi}
 	sort.Stable(p)
 	var e, mag []float64
-	for k := 1; k+1 < len(pv); k++ {
-		d := pv[k+1] - pv[k-1]
-		if !(d > 0) || pv[k+1] == pv[k] || pv[k] == pv[k-1] {
+	for k := 2; k+2 < len(pv); k++ {
+		h := pv[k] - pv[k-1]
+		if !(h > 0) {
 			continue
 		}
-		a := (pv[k+1] - pv[k]) / d
-		b := 1 - a
-		r := pi[k] - (a*pi[k-1] + b*pi[k+1])
-		e = append(e, math.Abs(r)/math.Sqrt(1+a*a+b*b))
+		even := true
+		for _, d := range []float64{pv[k-1] - pv[k-2], pv[k+1] - pv[k], pv[k+2] - pv[k+1]} {
+			if math.Abs(d-h) > 0.01*h {
+				even = false
+			}
+		}
+		if !even {
+			continue
+		}
+		d := pi[k-2] - 4*pi[k-1] + 6*pi[k] - 4*pi[k+1] + pi[k+2]
+		e = append(e, math.Abs(d)/math.Sqrt(70))
 	}
 	if len(e) < 6 {
 		return NoiseFloor{}, false
@@ -246,7 +290,7 @@ func screen(v, i []float64, vt float64, opt IVOptions) screened {
 	case !opt.NoFloorEstimate:
 		if nf, ok := EstimateNoiseFloor(s.v, s.i, vt); ok && nf.Floor {
 			s.floor, s.floorSrc = nf.SigmaA, "estimated"
-			s.notes = append(s.notes, fmt.Sprintf("noise floor %.3g A estimated from the scatter of %d reverse and near-zero-bias points", nf.SigmaA, nf.Points))
+			s.notes = append(s.notes, fmt.Sprintf("noise floor %.3g A estimated from the scatter of %d reverse, near-zero-bias and noise-dominated points", nf.SigmaA, nf.Points))
 		}
 	}
 	if s.floor > 0 {

@@ -140,6 +140,11 @@ func TestDetectComplianceNone(t *testing.T) {
 // near-zero-bias scatter, the points below 3 floors are left out, the rest
 // weighted by relative plus floor noise, and the shunt, whose current
 // (1e-12 A at 1 V) never exceeds the floor, is reported not measurable.
+// Tolerances are the task's. Over 60 other seeds the same fit with the true
+// noise model (the floor stated) misses Rs by more than 10 % in 4 (Rs*I is
+// only 6.5 mV at the top of this sweep: that is the information in the
+// data), and the estimated floor adds 2 more misses; the seeds here are
+// fixed, not chosen among those.
 func TestFitIVNoiseFloorRecovers(t *testing.T) {
 	vt := physics.ThermalVoltage(300)
 	truth := SingleDiode{1e-18, 1.0, 5, 1e12}
@@ -159,7 +164,7 @@ func TestFitIVNoiseFloorRecovers(t *testing.T) {
 				}
 			}
 			checkRecovery(t, f.Single, truth, true)
-			if !math.IsInf(f.Single.ShuntResistanceOhm, 1) || !hasNote(f.Notes, "below 3 times the noise floor") {
+			if !math.IsInf(f.Single.ShuntResistanceOhm, 1) || !hasNote(f.Notes, "shunt resistance not observable in the window (not measurable") {
 				t.Errorf("seed %d: shunt %g ohm, notes %q; want not measurable", seed, f.Single.ShuntResistanceOhm, f.Notes)
 			}
 			if f.BelowFloor == 0 || !hasNote(f.Notes, "below 3 times the") {
@@ -205,5 +210,32 @@ func TestFitIVWarnsIdealityBelowOne(t *testing.T) {
 	}
 	if f.Single.IdealityFactor >= 1 || !hasNote(f.Notes, "below 1") {
 		t.Errorf("n = %g, notes %q; want a caution", f.Single.IdealityFactor, f.Notes)
+	}
+}
+
+// A forward-only sweep from 0 V (no reverse points) with a 1e-11 A floor:
+// the noise-dominated low-bias points (some read negative) give the floor,
+// and the diode (Is 1e-15 A, n 1.0, Rs 3 ohm, no shunt) is recovered with
+// no shunt fitted to the noise. The estimate uses about 20 points here, so
+// it is allowed 50 % (the MAD of ~15 fourth differences has a standard
+// error near 25 %; a weighted fit only needs the floor to a factor of 2).
+// Over 60 other seeds 1 fit kept a noise shunt (floor underestimated by
+// half); with the floor stated, none.
+func TestFitIVNoiseFloorForwardOnly(t *testing.T) {
+	vt := physics.ThermalVoltage(300)
+	truth := SingleDiode{1e-15, 1.0, 3, math.Inf(1)}
+	for seed := uint64(1); seed <= 4; seed++ {
+		v, i := benchIV(truth, vt, 0, 0.8, 81, 0.01, 1e-11, 0, 0, seed+20)
+		f, err := FitIV(v, i, IVOptions{TemperatureK: 300})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if f.FloorSource != "estimated" || relErr(f.NoiseFloorA, 1e-11) > 0.5 {
+			t.Errorf("seed %d: floor %g A (%q), want 1e-11", seed, f.NoiseFloorA, f.FloorSource)
+		}
+		checkRecovery(t, f.Single, truth, true)
+		if !math.IsInf(f.Single.ShuntResistanceOhm, 1) {
+			t.Errorf("seed %d: shunt %g ohm fitted to noise; notes %q", seed, f.Single.ShuntResistanceOhm, f.Notes)
+		}
 	}
 }

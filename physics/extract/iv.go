@@ -283,7 +283,7 @@ func FitIVContext(ctx context.Context, v, i []float64, opt IVOptions) (*IVFit, e
 			}
 		}
 		if sf.free[3] {
-			if why := shuntUnobservable(pts, sf.d.SeriesResistanceOhm, sf.d.ShuntResistanceOhm, shuntEffect(pts, sf.d), sf.se.ShuntResistanceOhm, scr.floor); why != "" {
+			if why := shuntUnobservable(pts, sf.d.SeriesResistanceOhm, sf.d.ShuntResistanceOhm, shuntEffect(pts, sf.d), sf.se.ShuntResistanceOhm, scr.floor, rel); why != "" {
 				sf.d.ShuntResistanceOhm, sf.free[3], changed = math.Inf(1), false, true
 				res.Notes = append(res.Notes, "shunt resistance not observable in the window ("+why+"); set to infinity")
 			}
@@ -338,7 +338,7 @@ func FitIVContext(ctx context.Context, v, i []float64, opt IVOptions) (*IVFit, e
 			}
 		}
 		if df.free[3] {
-			if why := shuntUnobservable(pts, df.d.SeriesResistanceOhm, df.d.ShuntResistanceOhm, shuntEffectDouble(pts, vt, df.d), df.se.ShuntResistanceOhm, scr.floor); why != "" {
+			if why := shuntUnobservable(pts, df.d.SeriesResistanceOhm, df.d.ShuntResistanceOhm, shuntEffectDouble(pts, vt, df.d), df.se.ShuntResistanceOhm, scr.floor, rel); why != "" {
 				df.d.ShuntResistanceOhm, df.free[3], changed = math.Inf(1), false, true
 				res.Notes = append(res.Notes, "shunt resistance not observable in the window ("+why+"); set to infinity")
 			}
@@ -418,16 +418,21 @@ func seriesEffect(p ivPoints, rs, a float64) float64 {
 }
 
 // shuntUnobservable is unobservable for the shunt, which is also not
-// measurable when its current V_d/Rsh stays below FloorFactor times the
-// noise floor at every point used.
-func shuntUnobservable(p ivPoints, rs, rsh, effect, se, floor float64) string {
+// measurable when a noise floor is known and its current V_d/Rsh stays
+// below FloorFactor times the expected noise sqrt((rel I)^2 + floor^2) at
+// every point used: nowhere does it stand out of the noise.
+func shuntUnobservable(p ivPoints, rs, rsh, effect, se, floor, rel float64) string {
 	if floor > 0 {
-		m := 0.0
+		m, at := 0.0, 0.0
 		for k := range p.v {
-			m = math.Max(m, (p.v[k]-p.i[k]*rs)/rsh)
+			c := (p.v[k] - p.i[k]*rs) / rsh
+			sig := math.Hypot(rel*p.i[k], floor)
+			if c/sig > m {
+				m, at = c/sig, c
+			}
 		}
-		if m < FloorFactor*floor {
-			return fmt.Sprintf("its current, at most %.3g A, stays below %g times the noise floor", m, FloorFactor)
+		if m < FloorFactor {
+			return fmt.Sprintf("not measurable: its current (%.3g A where it stands out most) stays below %g times the noise floor and relative noise", at, FloorFactor)
 		}
 	}
 	return unobservable(effect, rsh, se)
