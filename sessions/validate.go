@@ -297,6 +297,9 @@ func (m Measurement) problems(p string, ids map[string]bool) []FieldProblem {
 	if !finite(m.StatedTemperatureK) || m.StatedTemperatureK < 0 || m.StatedTemperatureK > 2000 {
 		add(p+".stated_temperature_K", fmt.Sprint(m.StatedTemperatureK), "0 (none) to 2000 K", "a measurement temperature")
 	}
+	if m.TemperatureTyped && !(m.StatedTemperatureK > 0) {
+		add(p+".temperature_typed", "true", "false when stated_temperature_K is 0", "a typed temperature needs its value")
+	}
 	n := len(m.VoltageV)
 	if n == 0 {
 		add(p+".voltage_V", "no values", "at least one point", "a sweep has a bias column")

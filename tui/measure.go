@@ -29,6 +29,11 @@ type importState struct {
 	// many more were left out).
 	choices []string
 	more    int
+	// temp is the temperature field of the preview (t), typing while
+	// editing; tErr says why a typed value was refused.
+	temp    lineEditor
+	editing bool
+	tErr    string
 }
 
 // fitState is the fit screen: the I-V data set fitted, the window fields
@@ -75,8 +80,15 @@ func (m Model) importKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		m.note = "import cancelled: nothing was added"
 		return m, nil
 	}
+	if m.imp.ds != nil && m.imp.editing {
+		m.importTemperatureKey(km)
+		return m, nil
+	}
 	if m.imp.ds != nil {
 		switch {
+		case km.String() == "t":
+			m.startImportTemperature()
+			return m, nil
 		case keyIs(km, k.AddData):
 			m.acceptImport()
 			return m, nil
@@ -160,6 +172,7 @@ func (m Model) importScreen(w, h int) []string {
 	case m.imp.ds != nil:
 		body = append(body, "")
 		body = append(body, previewLines(m.imp.ds, fw, m.e)...)
+		body = append(body, m.importTemperatureLines(fw)...)
 	}
 	return m.frame("Import a measurement", body, w, h)
 }
@@ -193,9 +206,6 @@ func previewLines(ds *measure.DataSet, w int, e env) []string {
 	col("frequency", ds.Columns.Frequency, ds.Units.Frequency)
 	col("temperature", ds.Columns.Temperature, ds.Units.Temperature)
 	col("compliance", ds.Columns.Compliance, "")
-	if t, ok := ds.Temperature(); ok {
-		out = append(out, "  temperature  "+model.Format(model.Temperature, t, 4, e.ascii))
-	}
 	if ds.ProblemRows == 0 {
 		out = append(out, "  no rows left out")
 	} else {
@@ -659,7 +669,8 @@ type importHelp struct {
 
 func (h importHelp) ShortHelp() []key.Binding {
 	if h.preview {
-		return []key.Binding{h.k.AddData, h.k.AddFit, h.k.EditPath, h.k.Dismiss}
+		return []key.Binding{h.k.AddData, h.k.AddFit, h.k.EditPath,
+			key.NewBinding(key.WithKeys("t"), key.WithHelp("t", "type the temperature")), h.k.Dismiss}
 	}
 	return []key.Binding{key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "read and preview")),
 		key.NewBinding(key.WithKeys("tab"), key.WithHelp("tab", "complete the name")), h.k.Dismiss}

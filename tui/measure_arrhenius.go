@@ -3,6 +3,7 @@ package tui
 import (
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 
 	"github.com/charmbracelet/bubbles/key"
@@ -14,14 +15,19 @@ import (
 
 // arrheniusState is the temperature screen: the I-V data sets at several
 // temperatures, fitted one by one, and the activation energy of their
-// saturation currents. gamma is the exponent typed for the prefactor
-// T^(3+gamma/2).
+// saturation currents. gamma is the exponent of D/tau in T typed by the
+// user (the prefactor is T^(3+gamma/2)); the user picks the data sets
+// that enter the fit.
 type arrheniusState struct {
 	ed       lineEditor
 	gamma    float64
 	gammaErr string
 	view     *fit.ArrheniusView
 	err      string
+	// cursor is the data set under the cursor (index into the session's
+	// I-V data sets); off holds the IDs the user left out (space).
+	cursor int
+	off    map[string]bool
 }
 
 // openArrhenius fits the session's I-V data sets and shows the screen.
@@ -30,7 +36,7 @@ func (m *Model) openArrhenius() {
 		m.note = "no I-V data set in the session: i imports one (two or more temperatures are needed)"
 		return
 	}
-	m.arr = arrheniusState{ed: newLineEditor("0")}
+	m.arr = arrheniusState{ed: newLineEditor("0"), off: map[string]bool{}}
 	m.screen = screenArrhenius
 	m.refitArrhenius()
 }
@@ -40,6 +46,9 @@ func (m *Model) refitArrhenius() {
 	a := &m.arr
 	var in []fit.ArrheniusInput
 	for _, i := range m.ivMeasurements() {
+		if a.off[m.sess.meas[i].ID] {
+			continue
+		}
 		in = append(in, fit.ArrheniusInput{ID: m.sess.meas[i].ID, DataSet: &m.sess.meas[i].DataSet})
 	}
 	a.view, a.err = nil, ""
@@ -57,12 +66,12 @@ func (m *Model) applyGamma() {
 	s := strings.TrimSpace(a.ed.value())
 	g := 0.0
 	if s != "" {
-		v, err := model.ParseValue(model.Dimensionless, s)
+		v, err := strconv.ParseFloat(s, 64)
 		switch {
-		case err != nil:
-			a.gammaErr = "gamma: " + err.Error()
+		case err != nil || math.IsNaN(v):
+			a.gammaErr = fmt.Sprintf("g (exponent of D/tau): %q is not a number", s)
 		case math.Abs(v) > 20:
-			a.gammaErr = "gamma: between -20 and 20"
+			a.gammaErr = "g (exponent of D/tau): between -20 and 20"
 		}
 		if a.gammaErr != "" {
 			return
@@ -82,6 +91,22 @@ func (m Model) arrheniusKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	case keyIs(km, k.Submit):
 		m.applyGamma()
 		return m, nil
+	case keyIs(km, k.ListUp):
+		m.arr.cursor = max(0, m.arr.cursor-1)
+		return m, nil
+	case keyIs(km, k.ListDown):
+		m.arr.cursor = min(len(m.ivMeasurements())-1, m.arr.cursor+1)
+		return m, nil
+	case km.Type == tea.KeySpace || km.String() == " ":
+		if ids := m.ivMeasurements(); m.arr.cursor < len(ids) {
+			id := m.sess.meas[ids[m.arr.cursor]].ID
+			if m.arr.off == nil {
+				m.arr.off = map[string]bool{}
+			}
+			m.arr.off[id] = !m.arr.off[id]
+			m.refitArrhenius()
+		}
+		return m, nil
 	}
 	m.arr.ed.handle(km)
 	return m, nil
@@ -96,8 +121,8 @@ func (m Model) arrheniusScreen(w, h int) []string {
 	st, g := m.e.st, m.e.g
 	a := m.arr
 	out := []string{rule("Activation energy of Is from the I-V data sets", w, glyphs{hbar: g.hbarHeavy}, st.heading)}
-	out = append(out, "prefactor T^(3+gamma/2), gamma "+st.text.Paint("["+a.ed.view(7, st.selected, " ")+"]")+
-		st.muted.Paint(fmt.Sprintf("  (in force %g, exponent %g)", a.gamma, 3+a.gamma/2)))
+	out = append(out, "D/tau ~ T^g, g "+st.text.Paint("["+a.ed.view(7, st.selected, " ")+"]")+
+		st.muted.Paint(fmt.Sprintf("  (in force %g: prefactor T^(3+g/2) = T^%g)", a.gamma, 3+a.gamma/2)))
 	if a.gammaErr != "" {
 		out = append(out, st.err.Paint(cut(g.bad+" "+a.gammaErr, w, g.ellipsis)))
 	} else {
@@ -176,7 +201,11 @@ func (m Model) arrheniusTable(w int) []string {
 		f := v.Fit
 		out = append(out, st.strong.Paint(cut(fmt.Sprintf("Ea  %.3f eV %s %.2g eV", f.ActivationEnergyEV, pm, f.StdErrEV), w, g.ellipsis)),
 			cut(fmt.Sprintf("  prefactor T^%g, ln C %.4g %s %.2g", f.Exponent, f.LnPrefactor, pm, f.StdErrLn), w, g.ellipsis),
-			cut(fmt.Sprintf("  %d temperatures, RMS ln residual %.3g", f.Points, f.RMSResidual), w, g.ellipsis), "")
+			cut(fmt.Sprintf("  %d temperatures, RMS ln residual %.3g", f.Points, f.RMSResidual), w, g.ellipsis))
+		if !math.IsNaN(f.ReducedChiSquare) {
+			out = append(out, cut(fmt.Sprintf("  reduced chi-square %.3g (se widened by its root when above 1)", f.ReducedChiSquare), w, g.ellipsis))
+		}
+		out = append(out, "")
 	}
 	if a.err != "" {
 		out = append(out, st.err.Paint(g.bad+" no activation energy:"))
@@ -184,14 +213,32 @@ func (m Model) arrheniusTable(w int) []string {
 		out = append(out, "")
 	}
 	if a.view != nil {
-		out = append(out, st.strong.Paint(cut(fmt.Sprintf("  %-10s %-9s %-11s %s", "data set", "T", "Is", "n"), w, g.ellipsis)))
+		rows := map[string]fit.ArrheniusRow{}
 		for _, r := range a.view.Rows {
-			if r.Skip != "" {
-				out = append(out, st.muted.Paint(cut(fmt.Sprintf("  %-10s left out: %s", r.ID, r.Skip), w, g.ellipsis)))
-				continue
+			rows[r.ID] = r
+		}
+		out = append(out, st.strong.Paint(cut(fmt.Sprintf("    %-10s %-9s %-11s %s", "data set", "T", "Is", "n"), w, g.ellipsis)))
+		for k, i := range m.ivMeasurements() {
+			id := m.sess.meas[i].ID
+			box, cur := "[x]", " "
+			if a.off[id] {
+				box = "[ ]"
 			}
-			out = append(out, cut(fmt.Sprintf("  %-10s %-9s %-11s %.3f", cut(r.ID, 10, g.ellipsis), model.Format(model.Temperature, r.TemperatureK, 4, m.e.ascii),
-				model.Format(model.Current, r.SaturationCurrentA, 3, m.e.ascii), r.IdealityFactor), w, g.ellipsis))
+			if k == a.cursor {
+				cur = ">"
+			}
+			head := cur + box + " " + fmt.Sprintf("%-10s", cut(id, 10, g.ellipsis))
+			r, ok := rows[id]
+			switch {
+			case a.off[id]:
+				out = append(out, st.muted.Paint(cut(head+" not selected", w, g.ellipsis)))
+			case !ok:
+			case r.Skip != "":
+				out = append(out, st.muted.Paint(cut(head+" left out: "+r.Skip, w, g.ellipsis)))
+			default:
+				out = append(out, cut(fmt.Sprintf("%s %-9s %-11s %.3f", head, model.Format(model.Temperature, r.TemperatureK, 4, m.e.ascii),
+					model.Format(model.Current, r.SaturationCurrentA, 3, m.e.ascii), r.IdealityFactor), w, g.ellipsis))
+			}
 		}
 		for _, n := range a.view.Notes {
 			out = append(out, "")
@@ -205,6 +252,8 @@ func (m Model) arrheniusTable(w int) []string {
 type arrheniusHelp struct{ k KeyMap }
 
 func (h arrheniusHelp) ShortHelp() []key.Binding {
-	return []key.Binding{key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "apply gamma")), h.k.Close}
+	return []key.Binding{key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "apply g")),
+		key.NewBinding(key.WithKeys("up", "down"), key.WithHelp("↑/↓", "data set")),
+		key.NewBinding(key.WithKeys(" "), key.WithHelp("space", "use or leave out")), h.k.Close}
 }
 func (h arrheniusHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }

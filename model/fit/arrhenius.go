@@ -144,5 +144,21 @@ func Arrhenius(sets []ArrheniusInput, gamma float64) (*ArrheniusView, error) {
 	v.Notes = []string{
 		fmt.Sprintf("Is = C T^%.3g exp(-Ea/kT); diffusion-limited current gives Ea near the band gap, recombination in the depletion region about half of it (Sze & Ng 2007, sec. 2.3)", x),
 	}
+	if n := ArrheniusScatterNote(fit); n != "" {
+		v.Notes = append(v.Notes, n)
+	}
 	return v, nil
+}
+
+// ArrheniusScatterNote warns when the saturation currents scatter about
+// the Arrhenius line more than 2 times their standard errors (reduced
+// chi-square above 4): the standard error of Ea has been widened to match
+// (extract.FitArrhenius), and the data sets are likely not one device or
+// one mechanism. "" otherwise.
+func ArrheniusScatterNote(f *extract.ArrheniusFit) string {
+	if f == nil || !(f.ReducedChiSquare > 4) {
+		return ""
+	}
+	return fmt.Sprintf("the saturation currents scatter about the line %.3g times their standard errors (reduced chi-square %.3g): the standard error of Ea is widened by that; check that the data sets are one device",
+		math.Sqrt(f.ReducedChiSquare), f.ReducedChiSquare)
 }

@@ -11,11 +11,15 @@ import (
 )
 
 // IVOptions configures an I-V fit: the bias window (zero: every forward
-// point), the diode model (single or double) and the temperature rule.
+// point), the diode model (single or double), the temperature rule, and
+// the instrument's compliance and noise floor in A (0: detected or
+// estimated from the data, extract.IVOptions).
 type IVOptions struct {
 	Window      extract.Window
 	Model       extract.DiodeModel
 	Temperature TemperatureRule
+	ComplianceA float64
+	FloorA      float64
 }
 
 // IVResult is an I-V fit of one data set: the fit, its temperature with
@@ -40,7 +44,8 @@ func IVContext(ctx context.Context, ds *measure.DataSet, opt IVOptions) (*IVResu
 		return nil, errors.New("the data set is not an I-V sweep")
 	}
 	t, tnote := opt.Temperature.Choose(ds)
-	f, err := extract.FitIVContext(ctx, ds.VoltageV, ds.CurrentA, extract.IVOptions{TemperatureK: t.K, Window: opt.Window, Model: opt.Model})
+	f, err := extract.FitIVContext(ctx, ds.VoltageV, ds.CurrentA, extract.IVOptions{TemperatureK: t.K, Window: opt.Window, Model: opt.Model,
+		ComplianceA: opt.ComplianceA, CurrentFloorA: opt.FloorA})
 	if err != nil {
 		return nil, err
 	}

@@ -11,7 +11,7 @@ import (
 const (
 	SourceColumn   = "column"   // the mean of the file's temperature column
 	SourceComment  = "comment"  // a "# temperature: 300 K" comment in the file
-	SourceOption   = "option"   // given by the user (--temp, a typed value)
+	SourceOption   = "option"   // given by the user (--temp, a value typed at import)
 	SourceJunction = "junction" // the session junction's temperature (workbench)
 	SourceAssumed  = "assumed"  // nothing given: AssumedTemperatureK
 )
@@ -55,8 +55,12 @@ func (r TemperatureRule) Choose(ds *measure.DataSet) (t Temperature, note string
 	if ds != nil {
 		if k, ok := ds.Temperature(); ok && k > 0 {
 			src := SourceComment
-			if len(ds.TemperatureK) > 0 {
+			switch {
+			case len(ds.TemperatureK) > 0:
 				src = SourceColumn
+			case ds.TemperatureTyped:
+				// Typed by the user at import (the file states none).
+				src = SourceOption
 			}
 			t = Temperature{K: k, Source: src}
 			if r.OptionK > 0 && r.OptionK != k {

@@ -116,6 +116,9 @@ type DataSet struct {
 	// StatedTemperatureK is the temperature given in a comment line
 	// ("# temperature: 300 K"), 0 if none.
 	StatedTemperatureK float64 `json:"stated_temperature_K,omitempty"`
+	// TemperatureTyped says StatedTemperatureK was typed by the user at
+	// import because the file states none (not read from a comment).
+	TemperatureTyped bool `json:"temperature_typed,omitempty"`
 	// DataRows counts all data rows read, kept or not.
 	DataRows int `json:"data_rows"`
 	// Problems lists rows left out (at most MaxProblems); ProblemRows
@@ -420,49 +423,6 @@ func (im *importer) readErr(err error) error {
 			Expected: fmt.Sprintf("at most %d bytes (MaxBytes, 256 MiB) per file, to bound memory and time; split the file", MaxBytes)}
 	}
 	return fmt.Errorf("%s: line %d: read: %w", im.file, im.lr.line+1, err)
-}
-
-// comment reads "# temperature: 300 K", "# T = 27 C", "# temp=300" (the
-// first such comment wins).
-func (im *importer) comment(t []byte) {
-	if im.tempOK {
-		return
-	}
-	s := strings.TrimSpace(string(t[1:]))
-	k := strings.IndexAny(s, ":=")
-	if k < 0 {
-		return
-	}
-	key := normName(s[:k])
-	switch key {
-	case "temperature", "temp", "t", "tsample", "tchuck", "devicetemperature", "sampletemperature":
-	default:
-		return
-	}
-	val := strings.TrimSpace(s[k+1:])
-	num := val
-	u := ""
-	if j := strings.IndexFunc(val, func(r rune) bool {
-		return !(r >= '0' && r <= '9' || r == '.' || r == '-' || r == '+' || r == 'e' || r == 'E')
-	}); j >= 0 {
-		num, u = strings.TrimSpace(val[:j]), strings.TrimSpace(val[j:])
-	}
-	x, err := strconv.ParseFloat(num, 64)
-	if err != nil {
-		return
-	}
-	scale, offset := 1.0, 0.0
-	if u != "" {
-		var ok bool
-		if scale, offset, ok = ParseUnit(QuantityTemperature, u); !ok {
-			return
-		}
-	}
-	kt := scale*x + offset
-	if kt > 0 && kt < 5000 {
-		im.ds.StatedTemperatureK = kt
-		im.tempOK = true
-	}
 }
 
 // unitRow reports whether line is a row of units under the header (every

@@ -78,11 +78,19 @@ type IVOptions struct {
 	// Model selects the single- or double-diode model.
 	Model DiodeModel
 	// RelativeNoise is the relative current noise (fraction, default 0.01)
-	// and CurrentFloorA the absolute noise floor in A (default 0). Point i
-	// gets the weight 1/sqrt(RelativeNoise^2 + (CurrentFloorA/I_i)^2) on the
-	// log-current residual (propagation of additive plus multiplicative
-	// noise to ln I; common practice). With no floor all weights are equal.
+	// and CurrentFloorA the absolute noise floor in A (0: estimated from
+	// the reverse and near-zero-bias scatter, EstimateNoiseFloor, unless
+	// NoFloorEstimate). Point i gets the weight
+	// 1/sqrt(RelativeNoise^2 + (floor/I_i)^2) on the log-current residual
+	// (propagation of additive plus multiplicative noise to ln I; common
+	// practice); forward points below FloorFactor times the floor are left
+	// out. With no floor all weights are equal.
 	RelativeNoise, CurrentFloorA float64
+	NoFloorEstimate              bool
+	// ComplianceA is the instrument's compliance current in A (> 0): the
+	// points whose |I| reaches it are left out. 0: a plateau at the top of
+	// the sweep is detected (DetectCompliance) and left out.
+	ComplianceA float64
 	// FixRs holds Rs at RsOhm (>= 0) instead of fitting it; FixRsh holds
 	// Rsh at RshOhm (> 0, +Inf = no shunt).
 	FixRs, FixRsh bool
@@ -127,6 +135,15 @@ type IVFit struct {
 	UsedWindow Window
 	Iterations int  // Levenberg-Marquardt iterations of the last fit
 	Converged  bool // false when the iteration limit was hit
+	// Clip is the forward run clipped at the compliance (no Indices when
+	// none); those points are not in Points or Skipped.
+	Clip Clip
+	// NoiseFloorA is the absolute current noise used in the weights (0:
+	// none), FloorSource "stated" or "estimated"; BelowFloor counts the
+	// forward points in the window left out below FloorFactor times it.
+	NoiseFloorA float64
+	FloorSource string
+	BelowFloor  int
 	// Notes explain decisions such as dropping an unobservable parameter.
 	Notes []string
 }
@@ -190,8 +207,12 @@ func FitIVContext(ctx context.Context, v, i []float64, opt IVOptions) (*IVFit, e
 	if err := opt.Window.check("Window"); err != nil {
 		return nil, err
 	}
-	if opt.RelativeNoise < 0 || opt.CurrentFloorA < 0 || math.IsNaN(opt.RelativeNoise) || math.IsNaN(opt.CurrentFloorA) {
-		return nil, inputErr("noise", fmt.Sprintf("%g, %g A", opt.RelativeNoise, opt.CurrentFloorA), ">= 0", "noise levels cannot be negative")
+	if opt.RelativeNoise < 0 || opt.CurrentFloorA < 0 || math.IsNaN(opt.RelativeNoise) || math.IsNaN(opt.CurrentFloorA) ||
+		math.IsInf(opt.RelativeNoise, 0) || math.IsInf(opt.CurrentFloorA, 0) {
+		return nil, inputErr("noise", fmt.Sprintf("%g, %g A", opt.RelativeNoise, opt.CurrentFloorA), ">= 0 and finite", "noise levels cannot be negative")
+	}
+	if !(opt.ComplianceA >= 0) || math.IsInf(opt.ComplianceA, 0) {
+		return nil, inputErr("ComplianceA", opt.ComplianceA, "0 (detect) or a finite current > 0 A", "the compliance is the instrument's current limit")
 	}
 	if opt.FixRs && !(opt.RsOhm >= 0 && !math.IsInf(opt.RsOhm, 0)) {
 		return nil, inputErr("RsOhm", opt.RsOhm, "0 <= Rs < Inf", "a fixed series resistance must be finite and not negative")
@@ -200,7 +221,8 @@ func FitIVContext(ctx context.Context, v, i []float64, opt IVOptions) (*IVFit, e
 		return nil, inputErr("RshOhm", opt.RshOhm, "Rsh > 0 (+Inf = no shunt)", "a fixed shunt resistance must be positive")
 	}
 	vt := physics.ThermalVoltage(t)
-	pts, skipped := forwardPoints(v, i, opt.Window)
+	scr := screen(v, i, vt, opt)
+	pts, skipped := forwardPoints(scr.v, scr.i, opt.Window)
 	need := 5
 	if opt.FixRs {
 		need--
@@ -209,7 +231,8 @@ func FitIVContext(ctx context.Context, v, i []float64, opt IVOptions) (*IVFit, e
 		need--
 	}
 	if len(pts.v) < need {
-		return nil, tooFew("window", len(pts.v), need, fmt.Sprintf("the fit needs forward points (V > 0, I > 0) inside the window; %d were skipped", skipped))
+		return nil, tooFew("window", len(pts.v), need, fmt.Sprintf("the fit needs forward points (V > 0, I > 0) inside the window; %d were skipped, %d clipped at the compliance, %d below %g times the noise floor",
+			skipped, len(scr.clip.Indices), scr.belowFloor, FloorFactor))
 	}
 	de, err := directEstimates(ctx, pts.v, pts.i, vt)
 	if err != nil {
@@ -221,7 +244,7 @@ func FitIVContext(ctx context.Context, v, i []float64, opt IVOptions) (*IVFit, e
 	}
 	w := make([]float64, len(pts.v))
 	for k, c := range pts.i {
-		f := opt.CurrentFloorA / (rel * c)
+		f := scr.floor / (rel * c)
 		w[k] = 1 / math.Sqrt(1+f*f)
 	}
 	maxIter := opt.MaxIterations
@@ -229,7 +252,8 @@ func FitIVContext(ctx context.Context, v, i []float64, opt IVOptions) (*IVFit, e
 		maxIter = 200
 	}
 	res := &IVFit{Model: opt.Model, TemperatureK: t, Start: de, Points: len(pts.v), Skipped: skipped,
-		UsedWindow: Window{pts.v[0], pts.v[len(pts.v)-1]}}
+		UsedWindow: Window{pts.v[0], pts.v[len(pts.v)-1]}, Clip: scr.clip, NoiseFloorA: scr.floor, FloorSource: scr.floorSrc,
+		BelowFloor: scr.belowFloor, Notes: scr.notes}
 
 	// Single-diode fit (also the start of the double-diode fit).
 	sd := SingleDiode{de.SaturationCurrentA, de.IdealityFactor, de.SeriesResistanceOhm, de.ShuntResistanceOhm}
@@ -259,7 +283,7 @@ func FitIVContext(ctx context.Context, v, i []float64, opt IVOptions) (*IVFit, e
 			}
 		}
 		if sf.free[3] {
-			if why := unobservable(shuntEffect(pts, sf.d), sf.d.ShuntResistanceOhm, sf.se.ShuntResistanceOhm); why != "" {
+			if why := shuntUnobservable(pts, sf.d.SeriesResistanceOhm, sf.d.ShuntResistanceOhm, shuntEffect(pts, sf.d), sf.se.ShuntResistanceOhm, scr.floor, rel); why != "" {
 				sf.d.ShuntResistanceOhm, sf.free[3], changed = math.Inf(1), false, true
 				res.Notes = append(res.Notes, "shunt resistance not observable in the window ("+why+"); set to infinity")
 			}
@@ -277,6 +301,13 @@ func FitIVContext(ctx context.Context, v, i []float64, opt IVOptions) (*IVFit, e
 		res.RMSLogResidual = rmsLog(pts, func(x float64) float64 { return sf.d.Current(x, vt) })
 		if !sf.converged {
 			res.Notes = append(res.Notes, "iteration limit reached before convergence")
+		}
+		if n, se := sf.d.IdealityFactor, sf.se.IdealityFactor; n < 1 {
+			how := "which a pn junction cannot give: check the temperature, a noise floor or clipped points"
+			if n+2*se >= 1 {
+				how = "though within 2 standard errors of 1"
+			}
+			res.Notes = append(res.Notes, fmt.Sprintf("caution: ideality factor n = %.5f below 1, %s", n, how))
 		}
 		return res, nil
 	}
@@ -307,7 +338,7 @@ func FitIVContext(ctx context.Context, v, i []float64, opt IVOptions) (*IVFit, e
 			}
 		}
 		if df.free[3] {
-			if why := unobservable(shuntEffectDouble(pts, vt, df.d), df.d.ShuntResistanceOhm, df.se.ShuntResistanceOhm); why != "" {
+			if why := shuntUnobservable(pts, df.d.SeriesResistanceOhm, df.d.ShuntResistanceOhm, shuntEffectDouble(pts, vt, df.d), df.se.ShuntResistanceOhm, scr.floor, rel); why != "" {
 				df.d.ShuntResistanceOhm, df.free[3], changed = math.Inf(1), false, true
 				res.Notes = append(res.Notes, "shunt resistance not observable in the window ("+why+"); set to infinity")
 			}
@@ -384,6 +415,27 @@ func seriesEffect(p ivPoints, rs, a float64) float64 {
 		m = math.Max(m, c*rs/a)
 	}
 	return m
+}
+
+// shuntUnobservable is unobservable for the shunt, which is also not
+// measurable when a noise floor is known and its current V_d/Rsh stays
+// below FloorFactor times the expected noise sqrt((rel I)^2 + floor^2) at
+// every point used: nowhere does it stand out of the noise.
+func shuntUnobservable(p ivPoints, rs, rsh, effect, se, floor, rel float64) string {
+	if floor > 0 {
+		m, at := 0.0, 0.0
+		for k := range p.v {
+			c := (p.v[k] - p.i[k]*rs) / rsh
+			sig := math.Hypot(rel*p.i[k], floor)
+			if c/sig > m {
+				m, at = c/sig, c
+			}
+		}
+		if m < FloorFactor {
+			return fmt.Sprintf("not measurable: its current (%.3g A where it stands out most) stays below %g times the noise floor and relative noise", at, FloorFactor)
+		}
+	}
+	return unobservable(effect, rsh, se)
 }
 
 func shuntEffect(p ivPoints, d SingleDiode) float64 {

@@ -34,6 +34,11 @@ type ArrheniusFit struct {
 	Exponent              float64 // x = 3 + gamma/2
 	Points                int     // temperatures used
 	RMSResidual           float64 // rms of the ln residuals
+	// ReducedChiSquare is sum((r_k/sigma_k)^2)/(N - 2) with sigma_k =
+	// se(Is_k)/Is_k, the scatter of the points about the line in units of
+	// their own standard errors (about 1 when the errors explain it); NaN
+	// when the points carry no standard errors (unit weights).
+	ReducedChiSquare float64
 }
 
 // FitArrhenius fits the temperature dependence of the saturation current,
@@ -42,7 +47,15 @@ type ArrheniusFit struct {
 //
 // as a straight line of y = ln(Is/T^(3+gamma/2)) against 1/T: the slope is
 // -Ea/k, so Ea = -slope k/q in eV, with its standard error from the
-// regression. For an ideal diffusion-limited diode Ea is the band gap Eg
+// regression. When every point carries the standard error of its Is, ln Is
+// is weighted by (Is/se)^2 and the standard errors of the line are those
+// the point errors propagate, multiplied by sqrt(max(1, chi2/(N - 2)))
+// (the Birge ratio: when the points scatter more than their errors allow,
+// the errors are widened to match; they are never narrowed below the
+// propagated ones). Source: R. T. Birge, Phys. Rev. 40, 207 (1932); the
+// same scale factor as the Particle Data Group's (from memory). Without
+// point errors the regression's residual variance gives them.
+// For an ideal diffusion-limited diode Ea is the band gap Eg
 // (extrapolated to 0 K); a recombination-limited current gives about Eg/2.
 // Units: T in K, Is in A. Valid over the range where one mechanism
 // dominates (a bend in the plot means two).
@@ -84,8 +97,17 @@ func FitArrhenius(pts []ArrheniusPoint, opt ArrheniusOptions) (*ArrheniusFit, er
 	if !ok {
 		return nil, inputErr("points", "one temperature", "at least two distinct temperatures", "the slope needs a temperature range")
 	}
-	res := &ArrheniusFit{ActivationEnergyEV: -f.b * physics.KB / physics.Q, StdErrEV: math.Sqrt(f.vb) * physics.KB / physics.Q,
-		LnPrefactor: f.a, StdErrLn: math.Sqrt(f.va), Exponent: x, Points: len(pts)}
+	vb, va, chi2 := f.vb, f.va, math.NaN()
+	if weighted && f.s2 > 0 {
+		// fitLine scales its covariance by s2 = chi2/(N-2); the propagated
+		// one is that divided by s2, and the Birge ratio restores s2 only
+		// when above 1.
+		chi2 = f.s2
+		sc := math.Max(1, chi2) / chi2
+		vb, va = vb*sc, va*sc
+	}
+	res := &ArrheniusFit{ActivationEnergyEV: -f.b * physics.KB / physics.Q, StdErrEV: math.Sqrt(vb) * physics.KB / physics.Q,
+		LnPrefactor: f.a, StdErrLn: math.Sqrt(va), Exponent: x, Points: len(pts), ReducedChiSquare: chi2}
 	ss := 0.0
 	for k := range xs {
 		r := ys[k] - f.a - f.b*xs[k]

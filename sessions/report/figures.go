@@ -32,7 +32,13 @@ type Figure struct {
 	Curve model.Curve
 	// LogY draws |y| on a logarithmic axis (I-V, Is(T), minority density).
 	LogY bool
+	// Dots, when set for a series (by index), draws it as separate
+	// points (measured data) instead of a line.
+	Dots []bool
 }
+
+// dots reports whether series si is drawn as points.
+func (f Figure) dots(si int) bool { return si < len(f.Dots) && f.Dots[si] }
 
 // Figures computes every curve of a document with the model: I-V (log
 // |I|), ideality, C-V, 1/C^2, the junction profiles (charge, field,
@@ -371,6 +377,9 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 	palette := []color.RGBA{{0, 0x5a, 0xb5, 255}, {0xdc, 0x32, 0x20, 255}, {0x1b, 0x9e, 0x3e, 255}, {0x8e, 0x44, 0xad, 255}, {0x7f, 0x7f, 0x7f, 255}}
 	for si, s := range c.Series {
 		col := palette[si%len(palette)]
+		if f.dots(si) {
+			continue
+		}
 		var seg plotter.XYs
 		legend := false
 		flush := func() {
@@ -384,8 +393,8 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 			}
 			l.Color = col
 			l.Width = vg.Points(1.2)
-			if si > 0 {
-				l.Dashes = []vg.Length{vg.Points(4 + float64(si)), vg.Points(2)}
+			if dashed := si - len(dotted(f)); dashed > 0 {
+				l.Dashes = []vg.Length{vg.Points(4 + float64(dashed)), vg.Points(2)}
 			}
 			p.Add(l)
 			if !legend && len(c.Series) > 1 {
@@ -409,9 +418,60 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 		}
 		flush()
 	}
+	// Points go on top of the lines, so that a fit through them leaves
+	// them visible.
+	for _, si := range dotted(f) {
+		addDots(p, f, si, palette[si%len(palette)])
+	}
 	p.Legend.Top = true
 	p.Legend.Left = true
 	return p, nil
+}
+
+// dotted lists the series drawn as points.
+func dotted(f Figure) []int {
+	var out []int
+	for si := range f.Curve.Series {
+		if f.dots(si) {
+			out = append(out, si)
+		}
+	}
+	return out
+}
+
+// addDots draws series si of f as open circles (scaled to the axes'
+// display units like the lines), with a legend entry.
+func addDots(p *plot.Plot, f Figure, si int, col color.RGBA) {
+	c := f.Curve
+	xlo, xhi, _ := xExtent(c)
+	ylo, yhi, _ := yExtent(f)
+	_, xf := displayUnit(c.X, math.Max(math.Abs(xlo), math.Abs(xhi)))
+	_, yf := displayUnit(c.Y, math.Max(math.Abs(ylo), math.Abs(yhi)))
+	var pts plotter.XYs
+	for i, x := range c.Xs {
+		if i >= len(c.Series[si].Y) {
+			break
+		}
+		y := c.Series[si].Y[i]
+		if f.LogY {
+			y = math.Abs(y)
+		}
+		if isFinite(x) && isFinite(y) && (!f.LogY || y > 0) {
+			pts = append(pts, plotter.XY{X: x * xf, Y: y * yf})
+		}
+	}
+	if len(pts) == 0 {
+		return
+	}
+	sc, err := plotter.NewScatter(pts)
+	if err != nil {
+		return
+	}
+	sc.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(1.5), Shape: draw.CircleGlyph{}}
+	p.Add(sc)
+	if len(c.Series) > 1 {
+		p.Legend.Add(c.Series[si].Label, sc)
+	}
 }
 
 // decadeTicks marks a logarithmic axis at every decade, labelled 1e-9.
@@ -508,7 +568,7 @@ func TextChart(f Figure, width, height int) string {
 				continue
 			}
 			cc, rr := col(x*xf), row(ty(y))
-			if prevOK {
+			if prevOK && !f.dots(si) {
 				n := max(abs(cc-pc), abs(rr-pr))
 				for k := 1; k < n; k++ {
 					ic := pc + (cc-pc)*k/n

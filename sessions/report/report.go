@@ -51,9 +51,11 @@ func (o ExportOptions) prefix() string {
 }
 
 // Export returns the files of one export of doc: for md the report
-// NAME-rN.md (and NAME-rN-ID.svg figures when o.Figures), for csv one
-// NAME-rN-ID.csv per curve and NAME-rN-data-ID.csv per measured data set,
-// for json NAME-rN.json.
+// NAME-rN.md (and NAME-rN-ID.svg figures when o.Figures, NAME-rN-fit-ID.svg
+// for each kept fit drawn against its data), for csv one NAME-rN-ID.csv per
+// curve, NAME-rN-data-ID.csv per measured data set, NAME-rN-fit-ID.csv per
+// kept fit with a data set (bias, measured and fitted values) and
+// NAME-rN-fits.csv with the parameters of every fit, for json NAME-rN.json.
 func Export(doc *sessions.Document, f ExportFormat, o ExportOptions) ([]File, error) {
 	if err := sessions.ValidateName(o.Session); err != nil {
 		return nil, err
@@ -76,6 +78,12 @@ func Export(doc *sessions.Document, f ExportFormat, o ExportOptions) ([]File, er
 		}
 		for _, m := range doc.Measurements {
 			out = append(out, File{Name: o.prefix() + "-data-" + m.ID + ".csv", Data: MeasurementCSV(m)})
+		}
+		for _, ff := range FitFigures(doc) {
+			out = append(out, File{Name: o.prefix() + "-fit-" + ff.Extraction.ID + ".csv", Data: CurveCSV(ff.Data)})
+		}
+		if len(doc.Extractions) > 0 {
+			out = append(out, File{Name: o.prefix() + "-fits.csv", Data: FitParametersCSV(doc)})
 		}
 		return out, nil
 	case FormatMarkdown:
@@ -253,6 +261,30 @@ func Report(doc *sessions.Document, o ExportOptions) ([]File, error) {
 	}
 	for _, s := range skipped {
 		p("Not drawn: %s.\n\n", md(s))
+	}
+	if ffs := FitFigures(doc); len(ffs) > 0 {
+		p("\n## Fits against their data\n\nEach kept fit: the measured points (dots), the fitted model and the prediction of this session's junction at the data set's temperature.\n\n")
+		for _, ff := range ffs {
+			fg := ff.Figure
+			p("### %s\n\n", md(fg.Curve.Title))
+			if o.Figures {
+				svg, err := FigureSVG(fg)
+				if err != nil {
+					p("SVG figure not drawn: %s.\n\n", md(err.Error()))
+				} else {
+					name := o.prefix() + "-" + fg.Curve.ID + ".svg"
+					files = append(files, File{Name: name, Data: svg})
+					p("![%s](%s)\n\n", md(fg.Curve.Title), name)
+				}
+			}
+			p("```text\n%s```\n\n", TextChart(fg, 64, 16))
+			for _, n := range ff.Notes {
+				p("- %s\n", md(n))
+			}
+			if len(ff.Notes) > 0 {
+				p("\n")
+			}
+		}
 	}
 	report := File{Name: o.prefix() + ".md", Data: []byte(b.String())}
 	return append([]File{report}, files...), nil

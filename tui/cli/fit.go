@@ -51,6 +51,7 @@ func runFit(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 func fitUsage(w io.Writer) {
 	fmt.Fprint(w, `Usage:
   junco fit iv FILE... [--temp T] [--window V1:V2] [--model single|double]
+                       [--compliance I] [--floor I]
                        [--leakage-at V] [--model-card NAME] [--json] [--ascii]
                        [--compare SESSION|FILE] [--save-to NAME] [--data DIR]
       Fit the diode equation to forward I-V data (one result per file).
@@ -66,12 +67,19 @@ func fitUsage(w io.Writer) {
       down); --grading and --parasitic hold m and Cpar. With --area: the
       doping from the Mott-Schottky line of C - Cpar (only when m is within
       0.05 of 1/2) and, with --profile, the doping profile of C - Cpar.
-  junco fit arrhenius FILE... [--temp T1,T2,...] [--gamma G] [--current I]
+  junco fit arrhenius FILE... [--temp T1,T2,...] [--dtau-exponent G] [--current I]
                        [--window V1:V2] [--json] [--ascii]
-      Saturation current against temperature: activation energy; with
-      --current also dVF/dT at that current.
+      Saturation current against temperature: activation energy from
+      Is = C T^(3+G/2) exp(-Ea/kT); with --current also dVF/dT at that
+      current. --dtau-exponent G (default 0) is the exponent of the
+      temperature dependence of D/tau (D/tau ~ T^G), not the prefactor's
+      exponent: the prefactor is T^(3+G/2), printed as "prefactor
+      exponent". --gamma is its deprecated old name. The standard error of
+      Ea is widened by sqrt(reduced chi-square) when the points scatter
+      more than their errors.
   junco fit batch DIR|FILE... [--jobs N] [--csv OUT] [--temp T] [--window V1:V2]
-                       [--model single|double] [--json] [--ascii]
+                       [--model single|double] [--compliance I] [--floor I]
+                       [--json] [--ascii]
                        [--map PARAM] [--limit PARAM:MIN:MAX]... [--report FILE.md]
       Fit many I-V files in parallel: the files named and every .csv,
       .tsv, .txt and .dat file under each directory (subdirectories too,
@@ -95,6 +103,12 @@ capacitance) columns, units in the header (V, mV; A, mA, uA, nA, pA; F, pF,
 fF). The temperature is the file's own (a temperature column, else a
 "# temperature: 300 K" comment), else --temp, else 300 K assumed (fit iv
 and batch; said in a note); every result gives its temperature source.
+Bench artefacts (fit iv and batch): points clipped at the instrument's
+compliance are left out, the compliance being --compliance, else a run of
+equal current at the top of the sweep; the noise floor is --floor, else
+estimated from the reverse and near-zero-bias scatter; forward points below
+3 floors are left out and the rest weighted by 1 % relative plus floor
+noise; each such step is said in a note.
 Values take units: --temp 300K or 27C (bare: K), --area 1mm2, 1e-4cm2 or
 100um2 (bare: cm^2), --parasitic 2pF (bare: F), --window 0.1:0.7 or 100mV:700mV (bare: V), --current
 1mA (bare: A).
@@ -290,6 +304,9 @@ type fitCommon struct {
 	model    extract.DiodeModel
 	json     bool
 	ascii    bool
+	// compliance and floor are --compliance and --floor in A (0: found
+	// in the data).
+	compliance, floor float64
 }
 
 func fitParseCommon(cmd string, a *fitArgs) (fitCommon, error) {
@@ -312,13 +329,25 @@ func fitParseCommon(cmd string, a *fitArgs) (fitCommon, error) {
 		}
 	}
 	c.json, c.ascii = a.bools["json"], a.bools["ascii"]
+	for _, f := range []struct {
+		name string
+		to   *float64
+	}{{"compliance", &c.compliance}, {"floor", &c.floor}} {
+		if s, ok := a.str(f.name); ok {
+			v, err := model.ParseValue(model.Current, s)
+			if err != nil || !(v > 0) || math.IsInf(v, 0) {
+				return c, fitBad("junco fit %s: --%s %q: expected a current above 0, e.g. 100mA or 20pA", cmd, f.name, s)
+			}
+			*f.to = v
+		}
+	}
 	return c, nil
 }
 
 // fitIVOptions are the fit layer's options for the I-V subcommands: the
 // file's temperature, else --temp, else 300 K assumed (fit.TemperatureRule).
 func (c fitCommon) ivOptions() fit.IVOptions {
-	o := fit.IVOptions{Window: c.window, Model: c.model}
+	o := fit.IVOptions{Window: c.window, Model: c.model, ComplianceA: c.compliance, FloorA: c.floor}
 	if c.haveTemp {
 		o.Temperature.OptionK = c.temp
 	}

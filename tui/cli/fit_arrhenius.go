@@ -35,6 +35,7 @@ type fitArrheniusReport struct {
 	Gamma                float64           `json:"gamma"`
 	Points               int               `json:"points"`
 	RMSLnResidual        float64           `json:"rms_ln_residual"`
+	ReducedChiSquare     *float64          `json:"reduced_chi_square,omitempty"`
 	VFCurrentA           *float64          `json:"vf_current_A,omitempty"`
 	VFTemperatureCoeffVK *float64          `json:"vf_temperature_coefficient_V_per_K,omitempty"`
 	Temperatures         []fitArrheniusRow `json:"temperatures"`
@@ -42,7 +43,7 @@ type fitArrheniusReport struct {
 }
 
 func fitRunArrhenius(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	a, c, code, done := fitStartCommon("arrhenius", args, []string{"temp", "window", "gamma", "current"}, []string{"json", "ascii"}, stdout, stderr)
+	a, c, code, done := fitStartCommon("arrhenius", args, []string{"temp", "window", "dtau-exponent", "gamma", "current"}, []string{"json", "ascii"}, stdout, stderr)
 	if done {
 		return code
 	}
@@ -67,12 +68,9 @@ func fitRunArrhenius(ctx context.Context, args []string, stdout, stderr io.Write
 		fmt.Fprintf(stderr, "junco fit arrhenius: --temp gives %d temperatures for %d files; give one per file, in file order\n", len(temps), len(files))
 		return exitUsage
 	}
-	gamma := 0.0
-	if s, ok := a.str("gamma"); ok {
-		if gamma, err = strconv.ParseFloat(s, 64); err != nil || math.Abs(gamma) > 20 {
-			fmt.Fprintf(stderr, "junco fit arrhenius: --gamma %q: expected a number in -20..20 (exponent of D/tau against T)\n", s)
-			return exitUsage
-		}
+	gamma, code, done := fitDTauExponent(a, stderr)
+	if done {
+		return code
 	}
 	var atI *float64
 	if s, ok := a.str("current"); ok {
@@ -120,6 +118,10 @@ func fitRunArrhenius(ctx context.Context, args []string, stdout, stderr io.Write
 	}
 	rep.ActivationEnergyEV, rep.StdErr.ActivationEnergyEV = af.ActivationEnergyEV, af.StdErrEV
 	rep.PrefactorExponent, rep.Points, rep.RMSLnResidual = af.Exponent, af.Points, af.RMSResidual
+	rep.ReducedChiSquare = fitNum(af.ReducedChiSquare)
+	if n := fit.ArrheniusScatterNote(af); n != "" {
+		rep.Notes = append(rep.Notes, n)
+	}
 	if n := nsum / float64(len(files)); n > 1.3 {
 		rep.Notes = append(rep.Notes, fmt.Sprintf("mean ideality factor %.2f: Is mixes diffusion and recombination, so Ea lies between Eg/2 and Eg", n))
 	}
@@ -148,7 +150,12 @@ func fitRunArrhenius(ctx context.Context, args []string, stdout, stderr io.Write
 	ascii := c.ascii
 	tw := tabwriter.NewWriter(stdout, 0, 0, 2, ' ', 0)
 	fmt.Fprintf(tw, "activation energy\tEa\t%s\n", fitPM(model.Energy, rep.ActivationEnergyEV, rep.StdErr.ActivationEnergyEV, ascii))
-	fmt.Fprintf(tw, "plot\t\tln(Is/T^%g) against 1/T, %d temperatures, rms %.3g\n", rep.PrefactorExponent, rep.Points, rep.RMSLnResidual)
+	fmt.Fprintf(tw, "prefactor exponent\tx\t%g = 3 + g/2, g = %g the exponent of D/tau in T (Is = C T^x exp(-Ea/kT))\n", rep.PrefactorExponent, rep.Gamma)
+	fmt.Fprintf(tw, "plot\t\tln(Is/T^%g) against 1/T, %d temperatures, rms %.3g", rep.PrefactorExponent, rep.Points, rep.RMSLnResidual)
+	if rep.ReducedChiSquare != nil {
+		fmt.Fprintf(tw, ", reduced chi-square %.3g", *rep.ReducedChiSquare)
+	}
+	fmt.Fprintln(tw)
 	if atI != nil {
 		fmt.Fprintf(tw, "dVF/dT at %s\t\t%.4g mV/K  %s %.2g mV/K\n", model.Format(model.Current, *atI, 3, ascii), 1e3*fitVal(rep.VFTemperatureCoeffVK),
 			map[bool]string{true: "+-", false: "±"}[ascii], 1e3*fitVal(rep.StdErr.VFTemperatureCoeffVK))
@@ -166,4 +173,27 @@ func fitRunArrhenius(ctx context.Context, args []string, stdout, stderr io.Write
 	}
 	tw.Flush()
 	return exitOK
+}
+
+// fitDTauExponent reads --dtau-exponent G (or its deprecated alias
+// --gamma, with a note on stderr): D/tau proportional to T^G, so the
+// prefactor of Is is T^(3 + G/2); -20..20, default 0.
+func fitDTauExponent(a *fitArgs, stderr io.Writer) (g float64, code int, done bool) {
+	s, ok := a.str("dtau-exponent")
+	name := "dtau-exponent"
+	if old, isOld := a.str("gamma"); isOld {
+		fmt.Fprintln(stderr, "junco fit arrhenius: --gamma is deprecated, use --dtau-exponent (the same value: the exponent of D/tau in T, not the prefactor's; --gamma 3 means T^4.5)")
+		if !ok {
+			s, ok, name = old, true, "gamma"
+		}
+	}
+	if !ok {
+		return 0, exitOK, false
+	}
+	g, err := strconv.ParseFloat(s, 64)
+	if err != nil || math.Abs(g) > 20 {
+		fmt.Fprintf(stderr, "junco fit arrhenius: --%s %q: expected a number in -20..20 (the exponent g of D/tau against T; the prefactor is T^(3+g/2))\n", name, s)
+		return 0, exitUsage, true
+	}
+	return g, exitOK, false
 }

@@ -20,7 +20,7 @@ import (
 )
 
 func fitRunBatch(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	a, c, code, done := fitStartCommon("batch", args, []string{"jobs", "csv", "temp", "window", "model", "map", "limit", "report"}, []string{"json", "ascii"}, stdout, stderr)
+	a, c, code, done := fitStartCommon("batch", args, []string{"jobs", "csv", "temp", "window", "model", "compliance", "floor", "map", "limit", "report"}, []string{"json", "ascii"}, stdout, stderr)
 	if done {
 		return code
 	}

@@ -16,7 +16,6 @@ import (
 // fitIVReport is the JSON object of one I-V fit.
 type fitIVReport struct {
 	File              string    `json:"file"`
-	Error             string    `json:"error,omitempty"`
 	Model             string    `json:"model,omitempty"`
 	TemperatureK      *float64  `json:"temperature_K,omitempty"`
 	TemperatureSource string    `json:"temperature_source,omitempty"`
@@ -26,6 +25,11 @@ type fitIVReport struct {
 	Points                *int             `json:"points,omitempty"`
 	SkippedPoints         int              `json:"skipped_points,omitempty"`
 	RowProblems           int              `json:"row_problems,omitempty"`
+	ComplianceA           *float64         `json:"compliance_A,omitempty"`
+	ClippedPoints         int              `json:"clipped_points,omitempty"`
+	NoiseFloorA           *float64         `json:"noise_floor_A,omitempty"`
+	NoiseFloorSource      string           `json:"noise_floor_source,omitempty"`
+	BelowFloorPoints      int              `json:"below_floor_points,omitempty"`
 	StdErr                *fitIVValues     `json:"stderr,omitempty"`
 	Correlations          []fitCorrelation `json:"correlations,omitempty"`
 	LeakageCurrentA       *float64         `json:"leakage_current_A,omitempty"`
@@ -116,6 +120,12 @@ func fitIVFile(ctx context.Context, path string, c fitCommon, leakAt *float64) (
 		WindowV: []float64{f.UsedWindow.MinV, f.UsedWindow.MaxV}, RMSLogResidual: fitNum(f.RMSLogResidual),
 		Points: &f.Points, SkippedPoints: f.Skipped, RowProblems: ds.ProblemRows, Correlations: fitCorrelations(f.Correlations),
 		Notes: res.Notes, fit: f, res: res}
+	if f.Clip.CurrentA != 0 {
+		r.ComplianceA, r.ClippedPoints = fitNum(f.Clip.CurrentA), len(f.Clip.Indices)
+	}
+	if f.NoiseFloorA > 0 {
+		r.NoiseFloorA, r.NoiseFloorSource, r.BelowFloorPoints = fitNum(f.NoiseFloorA), f.FloorSource, f.BelowFloor
+	}
 	if c.model == extract.ModelDouble {
 		d, s := f.Double, f.DoubleStdErr
 		r.fitIVValues = &fitIVValues{fitNum(d.DiffusionCurrentA), fitNum(1), fitNum(d.SeriesResistanceOhm), fitNum(d.ShuntResistanceOhm), fitNum(d.RecombinationCurrentA)}
@@ -141,7 +151,7 @@ func fitIVFile(ctx context.Context, path string, c fitCommon, leakAt *float64) (
 }
 
 func fitRunIV(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	a, c, code, done := fitStartCommon("iv", args, []string{"temp", "window", "model", "model-card", "leakage-at", "compare", "data", "save-to"}, []string{"json", "ascii"}, stdout, stderr)
+	a, c, code, done := fitStartCommon("iv", args, []string{"temp", "window", "model", "model-card", "leakage-at", "compare", "data", "save-to", "compliance", "floor"}, []string{"json", "ascii"}, stdout, stderr)
 	if done {
 		return code
 	}
@@ -205,7 +215,6 @@ func fitRunIV(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 		if err != nil {
 			fmt.Fprintf(stderr, "junco fit iv: %v\n", err)
 			code = max(code, fitExitCode(err))
-			reports = append(reports, &fitIVReport{File: p, Error: err.Error()})
 			continue
 		}
 		if r.TemperatureSource == fit.SourceAssumed {
@@ -222,16 +231,18 @@ func fitRunIV(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 		}
 		reports = append(reports, r)
 	}
-	if c.json {
+	// A file that fails is reported on standard error only; standard
+	// output holds the fits (an array when several files were named).
+	if c.json && len(reports) > 0 {
 		var v any = reports
-		if len(reports) == 1 {
+		if len(a.pos) == 1 {
 			v = reports[0]
 		}
 		if err := fitWriteJSON(stdout, v); err != nil {
 			fmt.Fprintf(stderr, "junco fit iv: %v\n", err)
 			return exitFailure
 		}
-	} else {
+	} else if !c.json {
 		for k, r := range reports {
 			if k > 0 {
 				fmt.Fprintln(stdout)
@@ -272,11 +283,6 @@ func fitIVCard(name string, r *fitIVReport) (string, error) {
 func fitIVText(w io.Writer, r *fitIVReport, ascii bool) {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintf(tw, "file\t%s\n", r.File)
-	if r.Error != "" {
-		fmt.Fprintf(tw, "error\t%s\n", r.Error)
-		tw.Flush()
-		return
-	}
 	f := r.fit
 	fmt.Fprintf(tw, "model\t%s diode, T = %s (%s)\n", r.Model, model.Format(model.Temperature, f.TemperatureK, 4, ascii), r.TemperatureSource)
 	fmt.Fprintf(tw, "window\t%s .. %s, %d points (%d skipped)\n", model.Format(model.Voltage, f.UsedWindow.MinV, 3, ascii),

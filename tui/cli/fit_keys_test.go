@@ -135,6 +135,7 @@ func TestReadmeDocumentsEveryFitKey(t *testing.T) {
 			{"iv", "testdata/fit/iv.csv", filepath.Join(dir, "missing.csv"), "--json"},
 			{"iv", ivAll, "--json", "--leakage-at", "-1V", "--model", "double", "--model-card", "D1", "--compare", sess},
 			{"iv", ivAll, "--json", "--window", "0.3:0.6", "--compare", sess},
+			{"iv", ivAll, "--json", "--compliance", "1uA", "--floor", "10nA"},
 			{"iv", "testdata/fit/wafer/die00.csv", "--json", "--compare", sess},
 		},
 		"cv": {
