@@ -437,7 +437,7 @@ func FitLitContext(ctx context.Context, v, i []float64, opt LitOptions) (*LitFit
 		res.Notes = append(res.Notes, "the data do not reach open circuit: Voc, and so the fill factor, from the data are not given")
 	}
 	if res.StartsAtBest < res.StartsTried {
-		res.Notes = append(res.Notes, fmt.Sprintf("%d of %d start points reached the best fit; the others ended in worse minima", res.StartsAtBest, res.StartsTried))
+		res.Notes = append(res.Notes, fmt.Sprintf("%d of %d start points reached the best fit; the others ended elsewhere (a worse minimum, or the iteration limit in a flat valley)", res.StartsAtBest, res.StartsTried))
 	}
 	return res, nil
 }
