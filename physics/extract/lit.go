@@ -227,8 +227,8 @@ type LitOptions struct {
 	// Starts, when not empty, replaces the fit's own start points (for
 	// tests and for users who know better); each must be physical.
 	Starts []LitDiode
-	// MaxIterations bounds the Levenberg-Marquardt iterations of each
-	// start (default 300).
+	// MaxIterations bounds the Levenberg-Marquardt iterations of the
+	// final refinement (default 300; each start runs at most 100).
 	MaxIterations int
 }
 
@@ -266,6 +266,15 @@ type LitFit struct {
 	Converged       bool // false when the best start hit the iteration limit
 	Notes           []string
 }
+
+// litStartPoints bounds the points each start point's fit runs on (the
+// best is refined on all points).
+const litStartPoints = 400
+
+// litStartIterations bounds the iterations of each start (a start in a
+// flat valley would otherwise spend the whole budget); the best start is
+// then refined with LitOptions.MaxIterations.
+const litStartIterations = 100
 
 // litNames are the parameter names in correlation reports.
 func litNames() [5]string { return [5]string{"Iph", "Is", "n", "Rs", "Rsh"} }
@@ -306,7 +315,9 @@ func (d LitDiode) physical() bool {
 // slopes at short and open circuit and the maximum-power point; a grid of
 // n over 1..2 with Is from Voc, and the explicit method of Phang, Chan &
 // Phillips, Electron. Lett. 20, 406 (1984)) and keeps the lowest sum of
-// squares; the result says how many starts reached it.
+// squares; the result says how many starts reached it. Each start runs at
+// most 100 iterations, on at most 400 points spread over the sweep; the
+// best is then refined on all points.
 //
 // Standard errors: s^2 (J^T J)^-1 with s^2 = sum r^2/(N - 5) and the delta
 // method for the log parametrisation (Bates & Watts 1988, ch. 2). Units: v
@@ -381,10 +392,20 @@ func FitLitContext(ctx context.Context, v, i []float64, opt LitOptions) (*LitFit
 	if maxIter <= 0 {
 		maxIter = 300
 	}
+	// On a long sweep the starts run on at most litStartPoints points
+	// spread over it, and the best is then refined on all of them.
+	sub := load
+	if n := len(load.v); n > litStartPoints {
+		sub = ivPoints{}
+		for k := 0; k < litStartPoints; k++ {
+			j := k * (n - 1) / (litStartPoints - 1)
+			sub.v, sub.i = append(sub.v, load.v[j]), append(sub.i, load.i[j])
+		}
+	}
 	var best *lmResult
 	var costs []float64
 	for _, s := range starts {
-		lr, err := fitLitFrom(ctx, load, vt, s, maxIter)
+		lr, err := fitLitFrom(ctx, sub, vt, s, min(maxIter, litStartIterations))
 		if err != nil {
 			if ctx.Err() != nil {
 				return nil, err
@@ -404,11 +425,23 @@ func FitLitContext(ctx context.Context, v, i []float64, opt LitOptions) (*LitFit
 	// A start reached the best when its RMS residual is within 1e-4 of
 	// the best one's, or both are at the floor of the arithmetic (1e-12
 	// of the short-circuit current).
-	bestRMS := math.Sqrt(best.cost / float64(len(load.v)))
+	bestRMS := math.Sqrt(best.cost / float64(len(sub.v)))
 	for _, c := range costs {
-		if math.Sqrt(c/float64(len(load.v))) <= bestRMS*(1+1e-4)+1e-12*sv.IscA {
+		if math.Sqrt(c/float64(len(sub.v))) <= bestRMS*(1+1e-4)+1e-12*sv.IscA {
 			res.StartsAtBest++
 		}
+	}
+	{
+		// Refine the best on all points with the full iteration budget.
+		var d LitDiode
+		for k := 0; k < 5; k++ {
+			*d.litSlot(k) = math.Exp(best.theta[k])
+		}
+		lr, err := fitLitFrom(ctx, load, vt, d, maxIter)
+		if err != nil {
+			return nil, fmt.Errorf("lit fit on all %d points: %w", len(load.v), err)
+		}
+		best = &lr
 	}
 	nan := math.NaN()
 	for k := 0; k < 5; k++ {
