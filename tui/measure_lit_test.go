@@ -69,5 +69,8 @@ func TestFitScreenLitCurve(t *testing.T) {
 		if len(m.sess.extr) != 1 || m.sess.extr[0].Method != "iv-lit-single-diode" || m.sess.extr[0].Parameters[0].Name != "Iph" {
 			t.Fatalf("%v: kept %+v", c, m.sess.extr)
 		}
+		if doc, err := m.document("lit"); err != nil || doc.Validate() != nil {
+			t.Errorf("%v: the saved document would be invalid: %v", c, err)
+		}
 	}
 }

@@ -96,3 +96,28 @@ func TestFitIVLitCurve(t *testing.T) {
 		t.Errorf("--light on a dark forward sweep: exit %d, %s", code, errs)
 	}
 }
+
+// --save-to stores a lit fit as iv-lit-single-diode with Iph first, and
+// the data set; the document is valid.
+func TestFitIVLitSaveTo(t *testing.T) {
+	files, store := t.TempDir(), t.TempDir()
+	p := fitWriteLit(t, files, true)
+	if code, _, errs := fitCall("iv", p, "--save-to", "cells", "--data", store); code != exitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	doc, _, err := fitSaveStore(t, store).Open("cells", 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(doc.Extractions) != 1 || len(doc.Measurements) != 1 {
+		t.Fatalf("%d extractions, %d measurements", len(doc.Extractions), len(doc.Measurements))
+	}
+	x := doc.Extractions[0]
+	iph, ok := fitSaveParamByName(x, "Iph")
+	if x.Method != "iv-lit-single-diode" || !ok || math.Abs(iph.Value/fitLitTruth.PhotocurrentA-1) > 0.005 || len(x.Parameters) != 5 {
+		t.Errorf("extraction %+v", x)
+	}
+	if err := doc.Validate(); err != nil {
+		t.Errorf("invalid document: %v", err)
+	}
+}
