@@ -84,11 +84,11 @@ func fitLitText(w io.Writer, r *fitIVReport, ascii bool) {
 	fmt.Fprintf(tw, "current sign\t%s (%s)\n", f.Sign, f.SignWhy)
 	fmt.Fprintf(tw, "window\t%s .. %s, %d points (%d skipped)\n", model.Format(model.Voltage, f.UsedWindow.MinV, 3, ascii),
 		model.Format(model.Voltage, f.UsedWindow.MaxV, 3, ascii), f.Points, f.Skipped)
-	fmt.Fprintf(tw, "photocurrent\tIph\t%s\n", fitPM(model.Current, d.PhotocurrentA, s.PhotocurrentA, ascii))
-	fmt.Fprintf(tw, "saturation current\tIs\t%s\n", fitPM(model.Current, d.SaturationCurrentA, s.SaturationCurrentA, ascii))
-	fmt.Fprintf(tw, "ideality factor\tn\t%s\n", fitPM(model.Dimensionless, d.IdealityFactor, s.IdealityFactor, ascii))
-	fmt.Fprintf(tw, "series resistance\tRs\t%s\n", fitPM(model.Resistance, d.SeriesResistanceOhm, s.SeriesResistanceOhm, ascii))
-	fmt.Fprintf(tw, "shunt resistance\tRsh\t%s\n", fitPM(model.Resistance, d.ShuntResistanceOhm, s.ShuntResistanceOhm, ascii))
+	fmt.Fprintf(tw, "photocurrent\tIph\t%s\n", fitLitPM(model.Current, d.PhotocurrentA, s.PhotocurrentA, ascii))
+	fmt.Fprintf(tw, "saturation current\tIs\t%s\n", fitLitPM(model.Current, d.SaturationCurrentA, s.SaturationCurrentA, ascii))
+	fmt.Fprintf(tw, "ideality factor\tn\t%s\n", fitLitPM(model.Dimensionless, d.IdealityFactor, s.IdealityFactor, ascii))
+	fmt.Fprintf(tw, "series resistance\tRs\t%s\n", fitLitPM(model.Resistance, d.SeriesResistanceOhm, s.SeriesResistanceOhm, ascii))
+	fmt.Fprintf(tw, "shunt resistance\tRsh\t%s\n", fitLitPM(model.Resistance, d.ShuntResistanceOhm, s.ShuntResistanceOhm, ascii))
 	fmt.Fprintf(tw, "rms residual\t\t%s\n", model.Format(model.Current, f.RMSResidualA, 4, ascii))
 	fmt.Fprintf(tw, "start points\t\t%d of %d reached the best fit\n", f.StartsAtBest, f.StartsTried)
 	fig := func(name string, k model.Kind, a, b float64) {
@@ -116,4 +116,14 @@ func fitLitNum(k model.Kind, x float64, ascii bool) string {
 		return "n/a"
 	}
 	return model.Format(k, x, 4, ascii)
+}
+
+// fitLitPM formats "value ± se", or the value "(not determined)" when the
+// standard error could not be estimated (every lit parameter is fitted,
+// none is held fixed).
+func fitLitPM(k model.Kind, v, se float64, ascii bool) string {
+	if fitNum(se) == nil {
+		return model.Format(k, v, 4, ascii) + "  (not determined)"
+	}
+	return fitPM(k, v, se, ascii)
 }
