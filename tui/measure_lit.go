@@ -104,6 +104,9 @@ func (m *Model) renderLitFit() {
 		{label: "measured", xs: v.Power.Xs, ys: conv(v.Power.Series[0].Y, pdiv, pys), paint: st.series[1], marker: dotMark, dots: true},
 		{label: "maximum power", xs: []float64{v.MaxPowerV}, ys: []float64{clip(v.MaxPowerW, pdiv, pys)}, paint: st.accent, marker: mpp, dots: true},
 	}
+	// The same label width on both charts keeps their bias axes aligned.
+	alignLabels(&iys, &pys)
+	plot = renderPlot(ilines, xs, iys, cw, ih, m.e)
 	plot = append(plot, st.muted.Paint("delivered power P ("+punit+", linear scale)"))
 	f.plot = append(plot, renderPlot(plines, xs, pys, cw, ph, m.e)...)
 }
@@ -171,4 +174,25 @@ func (m Model) litTable(w int, compact bool) []string {
 		}
 	}
 	return out
+}
+
+// alignLabels pads the tick labels of two axes to the same width (on the
+// left), so that charts drawn one above the other share their plot area.
+func alignLabels(a, b *axisScale) {
+	w := 0
+	for _, x := range []*axisScale{a, b} {
+		for _, t := range x.ticks {
+			w = max(w, len([]rune(x.label(t))))
+		}
+	}
+	for _, x := range []*axisScale{a, b} {
+		lab := x.label
+		x.label = func(v float64) string {
+			s := lab(v)
+			if n := len([]rune(s)); n < w {
+				s = strings.Repeat(" ", w-n) + s
+			}
+			return s
+		}
+	}
 }
