@@ -45,6 +45,7 @@ type fitState struct {
 	win    fit.Window
 	winErr string
 	view   *fit.IVView
+	lit    *fit.LitView // a lit data set's fit (measure_lit.go)
 	err    string
 	pred   *model.Curve
 	pErr   string
@@ -270,13 +271,22 @@ func (m *Model) openFit(i int) {
 // prediction and redraws.
 func (m *Model) refit() {
 	f := &m.fit
-	f.view, f.err, f.pred, f.pErr = nil, "", nil, ""
+	f.view, f.lit, f.err, f.pred, f.pErr = nil, nil, "", nil, ""
 	if f.idx < 0 || f.idx >= len(m.sess.meas) {
 		f.err = "the data set is gone"
 		m.renderFit()
 		return
 	}
 	ds := &m.sess.meas[f.idx].DataSet
+	if fit.IsLit(ds) {
+		lv, err := fit.NewLitView(ds, fit.LitOptions{Window: f.win, Temperature: fit.TemperatureRule{FallbackK: m.form.spec.Temperature, FallbackSource: fit.SourceJunction}})
+		if err != nil {
+			f.err = err.Error()
+		}
+		f.lit = lv
+		m.renderFit()
+		return
+	}
 	v, err := fit.NewIVView(ds, fit.IVOptions{Window: f.win, Temperature: fit.TemperatureRule{FallbackK: m.form.spec.Temperature, FallbackSource: fit.SourceJunction}})
 	if err != nil {
 		f.err = err.Error()
@@ -298,6 +308,9 @@ func (m *Model) keepFit() {
 	switch {
 	case m.sess.readOnly:
 		m.note = "read-only review: fits cannot be kept here"
+		return
+	case f.lit != nil && f.idx >= 0 && f.idx < len(m.sess.meas):
+		m.keepRecords(m.sess.meas[f.idx].ID, fit.LitRecord(f.lit.Result))
 		return
 	case f.view == nil || f.idx < 0 || f.idx >= len(m.sess.meas):
 		m.note = "no fit to keep"
@@ -398,6 +411,10 @@ func (m *Model) renderFit() {
 	st, g := m.e.st, m.e.g
 	f.w, f.h = m.w, m.h
 	f.legend, f.yTitle, f.plot = nil, "", nil
+	if f.lit != nil {
+		m.renderLitFit()
+		return
+	}
 	cw, ch, _ := fitGeometry(m.w, m.h-2)
 	if f.idx < 0 || f.idx >= len(m.sess.meas) || cw < 16 {
 		return
@@ -499,6 +516,9 @@ func (m *Model) renderFit() {
 func (m Model) fitTable(w int, compact bool) []string {
 	st, g := m.e.st, m.e.g
 	f := m.fit
+	if f.lit != nil {
+		return m.litTable(w, compact)
+	}
 	var out []string
 	if f.err != "" {
 		out = append(out, st.err.Paint(g.bad+" the fit failed:"))
@@ -656,8 +676,12 @@ func (m Model) drawFit(l fitLayout, w, h int) []string {
 // fitScreen draws the I-V fit.
 func (m Model) fitScreen(w, h int) []string {
 	f := m.fit
+	empty := "every forward point"
+	if f.lit != nil {
+		empty = "every point"
+	}
 	return m.drawFit(fitLayout{prefix: "Fit", idx: f.idx, eds: f.eds, row: f.row, win: f.win, winErr: f.winErr,
-		emptyWindow: "every forward point", noChart: "(no chart: enlarge the terminal, or nothing to draw on a log axis)",
+		emptyWindow: empty, noChart: "(no chart: enlarge the terminal, or nothing to draw on a log axis)",
 		legend: f.legend, yTitle: f.yTitle, plot: f.plot, table: m.fitTable}, w, h)
 }
 

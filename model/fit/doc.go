@@ -24,6 +24,10 @@
 //   - Statistics: median, quartiles and Tukey fences, on log10 for the
 //     quantities that span decades and are positive by nature (Is, Is2,
 //     Rsh), linear for n and Rs (a fitted Rs of 0 is a value, not a gap).
+//   - Lit curves: an I-V data set whose current has one sign at zero bias
+//     and changes sign at open circuit (IsLit, in either sign convention)
+//     is fitted with the lit single-diode model (LitIV), not the dark one;
+//     the result says which sign convention was assumed.
 //   - Records: one method name and one parameter set per model; values
 //     that are not finite are left out with a note; record IDs are
 //     MEASUREMENT-fit-K with the smallest free K.

@@ -1,10 +1,6 @@
 package extract
 
-import (
-	"math"
-
-	"junco/physics"
-)
+import "math"
 
 // SingleDiode holds the parameters of the single-diode model with series and
 // shunt resistance,
@@ -40,24 +36,10 @@ type SingleDiode struct {
 //
 // The W argument is passed in logarithmic form to physics.LambertW0Exp, so
 // large forward bias does not overflow. Returns NaN for non-physical
-// parameters (Is <= 0, n <= 0, Rs < 0, Rsh <= 0, vt <= 0).
+// parameters (Is <= 0, n <= 0, Rs < 0, Rsh <= 0, vt <= 0). It is the lit
+// model's current (lambertCurrent, LitDiode) with no photocurrent.
 func (d SingleDiode) Current(v, vt float64) float64 {
-	is, rs, rsh := d.SaturationCurrentA, d.SeriesResistanceOhm, d.ShuntResistanceOhm
-	a := d.IdealityFactor * vt
-	if !(is > 0) || !(a > 0) || !(rs >= 0) || !(rsh > 0) {
-		return math.NaN()
-	}
-	switch {
-	case rs == 0:
-		return is*math.Expm1(v/a) + v/rsh
-	case math.IsInf(rsh, 1):
-		y := math.Log(is*rs/a) + (v+is*rs)/a
-		return a/rs*physics.LambertW0Exp(y) - is
-	default:
-		s := rs + rsh
-		y := math.Log(is*rs*rsh/(a*s)) + rsh*(v+is*rs)/(a*s)
-		return a/rs*physics.LambertW0Exp(y) + (v-is*rsh)/s
-	}
+	return lambertCurrent(d.SaturationCurrentA, d.IdealityFactor*vt, d.SeriesResistanceOhm, d.ShuntResistanceOhm, 0, v)
 }
 
 // grad returns I(V) and the derivatives dI/dln(p) for p = Is, n, Rs, Rsh

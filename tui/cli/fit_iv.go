@@ -38,6 +38,7 @@ type fitIVReport struct {
 	Notes                 []string         `json:"notes,omitempty"`
 	ModelCard             string           `json:"model_card,omitempty"`
 	*fitIVCompare
+	*fitLitFields // lit curves (fit_lit.go)
 
 	fit *extract.IVFit
 	res *fit.IVResult
@@ -105,11 +106,20 @@ func fitCompareText(w io.Writer, r *fitIVCompare, ascii bool) {
 	tw.Flush()
 }
 
-// fitIVFile imports one file and fits it.
+// fitIVFile imports one file and fits it (a lit curve with the lit model).
 func fitIVFile(ctx context.Context, path string, c fitCommon, leakAt *float64) (*fitIVReport, error) {
+	return fitIVFileLit(ctx, path, c, leakAt, false)
+}
+
+// fitIVFileLit is fitIVFile that fits a lit curve (fit.IsLit, or any
+// curve when light) with the lit model.
+func fitIVFileLit(ctx context.Context, path string, c fitCommon, leakAt *float64, light bool) (*fitIVReport, error) {
 	ds, err := fitImport(ctx, path, measure.KindIV)
 	if err != nil {
 		return nil, err
+	}
+	if light || fit.IsLit(ds) {
+		return fitLitFile(ctx, path, ds, c, leakAt)
 	}
 	res, err := fit.IVContext(ctx, ds, c.ivOptions())
 	if err != nil {
@@ -151,7 +161,7 @@ func fitIVFile(ctx context.Context, path string, c fitCommon, leakAt *float64) (
 }
 
 func fitRunIV(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	a, c, code, done := fitStartCommon("iv", args, []string{"temp", "window", "model", "model-card", "leakage-at", "compare", "data", "save-to", "compliance", "floor"}, []string{"json", "ascii"}, stdout, stderr)
+	a, c, code, done := fitStartCommon("iv", args, []string{"temp", "window", "model", "model-card", "leakage-at", "compare", "data", "save-to", "compliance", "floor"}, []string{"json", "ascii", "light"}, stdout, stderr)
 	if done {
 		return code
 	}
@@ -196,12 +206,14 @@ func fitRunIV(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 	code = exitOK
 	var reports []*fitIVReport
 	for _, p := range a.pos {
-		r, err := fitIVFile(ctx, p, c, leakAt)
+		r, err := fitIVFileLit(ctx, p, c, leakAt, a.bools["light"])
 		if ctx.Err() != nil {
 			fmt.Fprintln(stderr, "junco fit iv: interrupted")
 			return exitInterrupted
 		}
-		if err == nil && cmpSpec != nil {
+		if err == nil && cmpSpec != nil && r.fitLitFields != nil {
+			r.Notes = append(r.Notes, "--compare does not apply to a lit curve (the prediction is of the dark junction)")
+		} else if err == nil && cmpSpec != nil {
 			r.fitIVCompare = fitCompareIV(ctx, r, cmpName, *cmpSpec, c)
 			if ctx.Err() != nil {
 				fmt.Fprintln(stderr, "junco fit iv: interrupted")
@@ -220,7 +232,9 @@ func fitRunIV(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 		if r.TemperatureSource == fit.SourceAssumed {
 			fmt.Fprintf(stderr, "junco fit iv: %s: no temperature given; 300 K assumed (use --temp)\n", p)
 		}
-		if wantCard {
+		if wantCard && r.fitLitFields != nil {
+			r.Notes = append(r.Notes, "--model-card: not written for a lit fit")
+		} else if wantCard {
 			r.ModelCard, err = fitIVCard(card, r)
 			if err != nil {
 				fmt.Fprintf(stderr, "junco fit iv: %s: model card: %v\n", p, err)
@@ -258,6 +272,8 @@ func fitRunIV(ctx context.Context, args []string, stdout, stderr io.Writer) int 
 		for _, r := range reports {
 			if r.res != nil {
 				items = append(items, fitSaveItem{prefix: "iv", ds: r.res.DataSet, records: []fit.Record{fit.IVRecord(r.res)}})
+			} else if r.fitLitFields != nil {
+				items = append(items, fitSaveItem{prefix: "iv", ds: r.lit.DataSet, records: []fit.Record{fit.LitRecord(r.lit)}})
 			}
 		}
 		dir, _ := a.str("data")
@@ -282,6 +298,10 @@ func fitIVCard(name string, r *fitIVReport) (string, error) {
 
 func fitIVText(w io.Writer, r *fitIVReport, ascii bool) {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	if r.fitLitFields != nil {
+		fitLitText(w, r, ascii)
+		return
+	}
 	fmt.Fprintf(tw, "file\t%s\n", r.File)
 	f := r.fit
 	fmt.Fprintf(tw, "model\t%s diode, T = %s (%s)\n", r.Model, model.Format(model.Temperature, f.TemperatureK, 4, ascii), r.TemperatureSource)

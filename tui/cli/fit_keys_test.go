@@ -137,6 +137,7 @@ func TestReadmeDocumentsEveryFitKey(t *testing.T) {
 			{"iv", ivAll, "--json", "--window", "0.3:0.6", "--compare", sess},
 			{"iv", ivAll, "--json", "--compliance", "1uA", "--floor", "10nA"},
 			{"iv", "testdata/fit/wafer/die00.csv", "--json", "--compare", sess},
+			{"iv", fitWriteLit(t, dir, true), "--json"},
 		},
 		"cv": {
 			{"cv", "testdata/fit/cv.tsv", "--area", "1mm2", "--profile", "--model-card", "CJ1", "--json"},
