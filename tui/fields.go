@@ -192,6 +192,25 @@ func fieldDefs() []fieldDef {
 			shown:  func(s model.Spec) bool { return !s.Effects.NoIonisation }},
 		effectSwitch("effect-bd", "Avalanche breakdown", "impact ionisation: multiplication and breakdown voltage", "",
 			func(e *model.Effects) *bool { return &e.NoBreakdown }),
+
+		lightValue(model.FieldGeneration, "Uniform generation", "pairs generated everywhere, e.g. 1e20 (cm^-3 s^-1)", model.GenerationRate,
+			"Light (none by default)", func(l *model.Light) *float64 { return &l.Generation }),
+		lightValue(model.FieldWavelength, "Light wavelength", "monochromatic light, e.g. 650nm", model.Length,
+			"", func(l *model.Light) *float64 { return &l.Wavelength }),
+		lightValue(model.FieldAbsorption, "Absorption coefficient", "of that light in this semiconductor, e.g. 2.5e3 (1/cm); no table ships", model.Absorption,
+			"", func(l *model.Light) *float64 { return &l.Absorption }),
+		lightValue(model.FieldLightPower, "Light power density", "entering the surface (after reflection), e.g. 10 (mW/cm^2); needs the two above", model.PowerDensity,
+			"", func(l *model.Light) *float64 { return &l.PowerDensity }),
+		{id: model.FieldIlluminatedSide, label: "Illuminated surface", hint: "the contact the light enters through", step: 4, choice: true,
+			options: func(model.Spec) []option { return []option{{"", "p side (usual)"}, {"p", "p side"}, {"n", "n side"}} },
+			str:     func(s model.Spec) string { return s.Light.Side },
+			setStr:  func(s *model.Spec, v string) { s.Light.Side = v },
+			shown:   func(s model.Spec) bool { return s.Light.PowerDensity > 0 }},
+		{id: model.FieldIrradiance, label: "Irradiance for efficiency", hint: "incident power density the efficiency refers to", step: 4, kind: model.PowerDensity,
+			optWord: "the light power", optAlias: []string{"0", "default"},
+			num:    func(s model.Spec) (float64, bool) { return s.Light.Irradiance, s.Light.Irradiance != 0 },
+			setNum: func(s *model.Spec, v float64, set bool) { s.Light.Irradiance = pick(set, v, 0) },
+			shown:  func(s model.Spec) bool { return s.Light.Lit() }},
 	}
 }
 
@@ -272,4 +291,13 @@ func fieldText(d fieldDef, s model.Spec) string {
 		return ""
 	}
 	return inputText(d.kind, v)
+}
+
+// lightValue is an optional number of the junction's light ("none" when
+// zero).
+func lightValue(id, label, hint string, k model.Kind, section string, p func(*model.Light) *float64) fieldDef {
+	return fieldDef{id: id, label: label, hint: hint, step: 4, kind: k, section: section,
+		optWord: "none", optAlias: []string{"none", "0", "off"},
+		num:    func(s model.Spec) (float64, bool) { v := *p(&s.Light); return v, v != 0 },
+		setNum: func(s *model.Spec, v float64, set bool) { *p(&s.Light) = pick(set, v, 0) }}
 }
