@@ -36,10 +36,6 @@ const (
 // of file systems for one name).
 const maxInboxName = 255
 
-// maxInboxFiles bounds the files one inbox lists: a listing never holds
-// more than this many entries in memory.
-const maxInboxFiles = 10000
-
 // InboxLimits caps what a user may upload: FileBytes for one file,
 // UserBytes for all the files of the inbox together. Zero takes the
 // default.
@@ -48,6 +44,9 @@ type InboxLimits struct {
 	// FileFlag and UserFlag name the server options that set the limits,
 	// for the messages (e.g. "--upload-max-mib"); "" names none.
 	FileFlag, UserFlag string
+	// Quotas shares the per-user cap between every inbox of one user
+	// opened with it (see InboxQuotas); nil accounts per Inbox.
+	Quotas *InboxQuotas
 }
 
 func (l InboxLimits) withDefaults() InboxLimits {
@@ -134,6 +133,7 @@ func quoteName(name string) string {
 type Inbox struct {
 	root *os.Root
 	lim  InboxLimits
+	q    *inboxQuota
 }
 
 // InboxRoot returns DATA/users/USER/inbox for user (a valid name).
@@ -168,7 +168,11 @@ func OpenInbox(dataRoot, user string, lim InboxLimits) (*Inbox, error) {
 	if err != nil {
 		return nil, errors.New("the inbox folder cannot be opened on the server; ask the administrator")
 	}
-	return &Inbox{root: r, lim: lim.withDefaults()}, nil
+	quotas := lim.Quotas
+	if quotas == nil {
+		quotas = NewInboxQuotas()
+	}
+	return &Inbox{root: r, lim: lim.withDefaults(), q: quotas.forDir(dir)}, nil
 }
 
 // Close releases the inbox.
@@ -235,7 +239,7 @@ func (in *Inbox) List() ([]fs.FileInfo, error) {
 	}
 	defer d.Close()
 	var out []fs.FileInfo
-	for len(out) < maxInboxFiles {
+	for len(out) < MaxInboxFiles {
 		ents, err := d.ReadDir(256)
 		for _, e := range ents {
 			if !e.Type().IsRegular() || strings.HasPrefix(e.Name(), ".") {
@@ -252,8 +256,8 @@ func (in *Inbox) List() ([]fs.FileInfo, error) {
 			return nil, refused("list", "the inbox cannot be read")
 		}
 	}
-	if len(out) > maxInboxFiles {
-		out = out[:maxInboxFiles]
+	if len(out) > MaxInboxFiles {
+		out = out[:MaxInboxFiles]
 	}
 	slices.SortFunc(out, func(a, b fs.FileInfo) int { return strings.Compare(a.Name(), b.Name()) })
 	return out, nil
@@ -277,24 +281,6 @@ func (in *Inbox) ReadDir(dir string) ([]fs.DirEntry, error) {
 	}
 	return out, nil
 }
-
-// usage sums the sizes of the inbox's files except skip.
-func (in *Inbox) usage(skip string) (int64, error) {
-	fis, err := in.List()
-	if err != nil {
-		return 0, err
-	}
-	var n int64
-	for _, fi := range fis {
-		if fi.Name() != skip {
-			n += fi.Size()
-		}
-	}
-	return n, nil
-}
-
-// Usage returns the bytes held by the inbox's files.
-func (in *Inbox) Usage() (int64, error) { return in.usage("") }
 
 func mib(n int64) string {
 	if n%(1<<20) == 0 {
@@ -323,23 +309,41 @@ func (in *Inbox) userCapError(name string, used int64) error {
 // name is replaced; a link or folder is refused). size is the size the
 // client announced, or -1: an announced size over a cap is refused at
 // once. The writer refuses any write past the per-file cap or the
-// per-user cap; a file whose upload failed or crossed a cap is removed at
+// per-user cap, which counts every file of the inbox and every upload in
+// progress to it (see InboxQuotas); an inbox holds at most MaxInboxFiles
+// files, and a name being uploaded is not uploaded again until that
+// upload ends. A file whose upload failed or crossed a cap is removed at
 // Close.
 func (in *Inbox) Create(given string, size int64) (*InboxWriter, error) {
 	name, err := InboxName("upload", given)
 	if err != nil {
 		return nil, err
 	}
-	if fi, err := in.root.Lstat(name); err == nil && !fi.Mode().IsRegular() {
+	q := in.q
+	q.mu.Lock()
+	defer q.mu.Unlock()
+	if q.open[name] != nil {
+		return nil, busyError("upload", name)
+	}
+	var old int64
+	exists := false
+	if fi, err := in.root.Lstat(name); err == nil {
 		if fi.Mode()&fs.ModeSymlink != 0 {
 			return nil, refused("upload", quoteName(name)+" is a symbolic link; links are refused in the inbox")
 		}
-		return nil, refused("upload", quoteName(name)+" is not a regular file")
+		if !fi.Mode().IsRegular() {
+			return nil, refused("upload", quoteName(name)+" is not a regular file")
+		}
+		old, exists = fi.Size(), true
 	}
-	others, err := in.usage(name)
+	files, used, err := in.scan()
 	if err != nil {
 		return nil, err
 	}
+	if !exists && files >= MaxInboxFiles {
+		return nil, in.countCapError(name)
+	}
+	others := max(used-old, 0)
 	if size > in.lim.FileBytes {
 		return nil, in.fileCapError(name)
 	}
@@ -354,7 +358,10 @@ func (in *Inbox) Create(given string, size int64) (*InboxWriter, error) {
 		f.Close()
 		return nil, refused("upload", quoteName(name)+" is not a regular file")
 	}
-	return &InboxWriter{in: in, f: f, name: name, others: others}, nil
+	q.used = others
+	w := &InboxWriter{in: in, f: f, name: name}
+	q.open[name] = w
+	return w, nil
 }
 
 // InboxWriter is an upload in progress (io.Writer for the scp protocol,
@@ -363,22 +370,24 @@ type InboxWriter struct {
 	in   *Inbox
 	f    *os.File
 	name string
-	// others is the size of the other files when the upload began: two
-	// uploads at once on one inbox may each fill it to the per-user cap.
-	others int64
 
 	mu     sync.Mutex
 	off    int64 // next offset of Write
+	size   int64 // the file's size so far (counted in the inbox's quota)
 	err    error // first failure: the file is removed at Close
 	closed bool
 }
 
-// WriteAt writes p at off, within the caps.
+// WriteAt writes p at off, within the caps. The per-user cap counts the
+// bytes of every file of the inbox and of every upload in progress.
 func (w *InboxWriter) WriteAt(p []byte, off int64) (int, error) {
 	w.mu.Lock()
 	defer w.mu.Unlock()
 	if w.err != nil {
 		return 0, w.err
+	}
+	if w.closed {
+		return 0, refused("upload", quoteName(w.name)+" is closed")
 	}
 	if off < 0 {
 		return 0, refused("upload", "negative offset")
@@ -388,11 +397,18 @@ func (w *InboxWriter) WriteAt(p []byte, off int64) (int, error) {
 		w.err = w.in.fileCapError(w.name)
 		return 0, w.err
 	}
-	if w.others+end > w.in.lim.UserBytes {
-		w.err = w.in.userCapError(w.name, w.others)
+	q := w.in.q
+	q.mu.Lock()
+	defer q.mu.Unlock()
+	if grow := end - w.size; grow > 0 && q.used+grow > w.in.lim.UserBytes {
+		w.err = w.in.userCapError(w.name, max(q.used-w.size, 0))
 		return 0, w.err
 	}
 	n, err := w.f.WriteAt(p, off)
+	if got := off + int64(n); got > w.size {
+		q.used += got - w.size
+		w.size = got
+	}
 	if err != nil {
 		w.err = refused("upload", quoteName(w.name)+" could not be written (the server's disk may be full)")
 		return n, w.err
@@ -432,18 +448,32 @@ func (w *InboxWriter) Close() error {
 	if w.err == nil && cerr != nil {
 		w.err = refused("upload", quoteName(w.name)+" could not be written (the server's disk may be full)")
 	}
+	q := w.in.q
+	q.mu.Lock()
+	defer q.mu.Unlock()
+	if q.open[w.name] == w {
+		delete(q.open, w.name)
+	}
 	if w.err != nil {
-		_ = w.in.root.Remove(w.name)
+		if w.in.root.Remove(w.name) == nil {
+			q.used = max(q.used-w.size, 0)
+		}
 	}
 	return w.err
 }
 
 // Remove deletes the regular file name (links are removed too: removing
-// one touches only the link).
+// one touches only the link). A file being uploaded is not removed.
 func (in *Inbox) Remove(given string) error {
 	name, err := InboxName("remove", given)
 	if err != nil {
 		return err
+	}
+	q := in.q
+	q.mu.Lock()
+	defer q.mu.Unlock()
+	if q.open[name] != nil {
+		return busyError("remove", name)
 	}
 	fi, err := in.root.Lstat(name)
 	if errors.Is(err, fs.ErrNotExist) {
@@ -455,11 +485,15 @@ func (in *Inbox) Remove(given string) error {
 	if err := in.root.Remove(name); err != nil {
 		return refused("remove", quoteName(name)+" could not be removed")
 	}
+	if fi.Mode().IsRegular() {
+		q.used = max(q.used-fi.Size(), 0)
+	}
 	return nil
 }
 
 // Rename renames the regular file from to the name to; an existing to is
-// replaced only when replace is set.
+// replaced only when replace is set. Neither may be a file being
+// uploaded.
 func (in *Inbox) Rename(from, to string, replace bool) error {
 	src, _, err := in.lstat("rename", from)
 	if err != nil {
@@ -469,13 +503,26 @@ func (in *Inbox) Rename(from, to string, replace bool) error {
 	if err != nil {
 		return err
 	}
+	q := in.q
+	q.mu.Lock()
+	defer q.mu.Unlock()
+	for _, n := range []string{src, dst} {
+		if q.open[n] != nil {
+			return busyError("rename", n)
+		}
+	}
+	var replaced int64
 	if fi, err := in.root.Lstat(dst); err == nil {
 		if !replace || !fi.Mode().IsRegular() {
 			return &InboxError{Op: "rename", Why: quoteName(dst) + " exists", Err: fs.ErrExist}
+		}
+		if dst != src {
+			replaced = fi.Size()
 		}
 	}
 	if err := in.root.Rename(src, dst); err != nil {
 		return refused("rename", quoteName(src)+" could not be renamed")
 	}
+	q.used = max(q.used-replaced, 0)
 	return nil
 }

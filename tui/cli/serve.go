@@ -160,6 +160,9 @@ type serveApp struct {
 	now    func() time.Time
 	// inboxLimits caps each user's uploads (zero: the defaults).
 	inboxLimits sessions.InboxLimits
+	// quotas counts each user's uploads on all their connections
+	// against one per-user cap.
+	quotas *sessions.InboxQuotas
 }
 
 func newServeApp(data string, log *slog.Logger) (*serveApp, error) {
@@ -176,7 +179,7 @@ func newServeApp(data string, log *slog.Logger) (*serveApp, error) {
 	if err != nil {
 		return nil, err
 	}
-	return &serveApp{data: data, shares: sh, log: log, now: time.Now}, nil
+	return &serveApp{data: data, shares: sh, log: log, now: time.Now, quotas: sessions.NewInboxQuotas()}, nil
 }
 
 // userStore opens user's own store.

@@ -97,9 +97,13 @@ func (a *serveApp) sessionOptions(c serve.Conn, o *tui.Options) error {
 }
 
 // inbox opens user's inbox: the only folder served users reach with
-// scp, sftp and the workbench's import and batch screens.
+// scp, sftp and the workbench's import and batch screens. Every inbox of
+// one user shares the server's accounting, so that uploads on several
+// connections at once stay within the per-user cap.
 func (a *serveApp) inbox(user string) (*sessions.Inbox, error) {
-	return sessions.OpenInbox(a.data, user, a.inboxLimits)
+	lim := a.inboxLimits
+	lim.Quotas = a.quotas
+	return sessions.OpenInbox(a.data, user, lim)
 }
 
 // inboxOptions makes the workbench read measurement files from user's
