@@ -12,6 +12,7 @@ import (
 
 	"junco/model"
 	"junco/model/fit"
+	"junco/sessions"
 )
 
 // batchState is the batch screen: a directory of I-V files fitted one by
@@ -199,7 +200,7 @@ func (m Model) batchScreen(w, h int) []string {
 		}
 	}
 	if b.err != "" {
-		out = append(out, wrapped(g.bad+" "+b.err, w, st.err, "")...)
+		out = append(out, wrapped(g.bad+" "+sessions.Printable(b.err, 0, ""), w, st.err, "")...)
 	}
 	v := b.view
 	if v == nil {
@@ -261,13 +262,15 @@ func (m Model) batchTable(w, room, nameW, cursor int) []string {
 		if rel, err := filepath.Rel(b.dir, r.File); err == nil {
 			file = rel
 		}
-		name := cut(file, nameW, g.ellipsis)
+		// Names and errors come from a folder others may fill: control
+		// characters are shown escaped.
+		name := cut(sessions.Printable(file, 0, ""), nameW, g.ellipsis)
 		mark, paint := "  ", st.text
 		if idx[i] == cursor {
 			mark, paint = g.cursor+" ", st.selected
 		}
 		if r.Err != nil {
-			out = append(out, mark+st.err.Paint(cut(fmt.Sprintf("%-*s %s %s", nameW, name, g.bad, oneLine(r.Err.Error())), w-2, g.ellipsis)))
+			out = append(out, mark+st.err.Paint(cut(fmt.Sprintf("%-*s %s %s", nameW, name, g.bad, sessions.Printable(oneLine(r.Err.Error()), 0, "")), w-2, g.ellipsis)))
 			continue
 		}
 		line := fmt.Sprintf("%-*s %-9s %-6.3f %s", nameW, name, model.Format(model.Current, r.Values[0], 3, ascii), r.Values[1],

@@ -11,6 +11,7 @@ import (
 	"junco/model"
 	"junco/model/fit"
 	"junco/model/measure"
+	"junco/sessions"
 	"junco/tui/wafermap"
 )
 
@@ -161,7 +162,7 @@ func dieLabel(d fit.Die) string {
 	}
 	s := fmt.Sprintf("x%d y%d", d.X, d.Y)
 	if k := fit.WaferKey(d); k != "" {
-		s += " wafer " + k
+		s += " wafer " + sessions.Printable(k, 0, "")
 	}
 	return s
 }
@@ -216,11 +217,11 @@ func (m Model) waferMapLines(w, h int) []string {
 	if s.cursor >= 0 && s.cursor < len(rows) {
 		r := rows[s.cursor]
 		p := fit.BatchParams()[s.param]
-		val := g.bad + " " + oneLine(fmt.Sprint(r.Err))
+		val := g.bad + " " + sessions.Printable(oneLine(fmt.Sprint(r.Err)), 0, "")
 		if r.Status == fit.StatusOK {
 			val = p.Symbol + " " + model.Format(p.Kind, r.Values[s.param], 4, m.e.ascii)
 		}
-		out = append(out, "", st.strong.Paint(cut(g.cursor+" "+dieLabel(r.Die)+"  "+filepath.Base(r.File), w, g.ellipsis)))
+		out = append(out, "", st.strong.Paint(cut(g.cursor+" "+dieLabel(r.Die)+"  "+sessions.Printable(filepath.Base(r.File), 0, ""), w, g.ellipsis)))
 		out = append(out, cut("  "+val, w, g.ellipsis))
 		if r.Die.Note != "" {
 			out = append(out, wrapped(r.Die.Note, w, st.muted, "  ")...)
@@ -239,9 +240,9 @@ func (m Model) dieFitView(w, h int) []string {
 	st, g := m.e.st, m.e.g
 	d := m.bat.wm.die
 	r := m.bat.view.Rows[d.row]
-	out := []string{rule("Die "+dieLabel(r.Die)+" "+g.dot+" "+filepath.Base(r.File), w, glyphs{hbar: g.hbar}, st.heading)}
+	out := []string{rule("Die "+dieLabel(r.Die)+" "+g.dot+" "+sessions.Printable(filepath.Base(r.File), 0, ""), w, glyphs{hbar: g.hbar}, st.heading)}
 	if d.err != "" {
-		out = append(out, wrapped(g.bad+" "+d.err, w, st.err, "")...)
+		out = append(out, wrapped(g.bad+" "+sessions.Printable(d.err, 0, ""), w, st.err, "")...)
 		out = append(out, st.muted.Paint(cut("arrows: next die  esc: back to the map", w, g.ellipsis)))
 		return out
 	}
@@ -351,6 +352,7 @@ func (m Model) dieTable(w, room int) []string {
 		if rel, err := filepath.Rel(b.dir, r.File); err == nil {
 			file = rel
 		}
+		file = sessions.Printable(file, 0, "") // from a folder others may fill
 		pos := "-"
 		if r.Die.Known() {
 			pos = fmt.Sprintf("x%d y%d", r.Die.X, r.Die.Y)
@@ -358,7 +360,7 @@ func (m Model) dieTable(w, room int) []string {
 		val, paint := "", st.text
 		switch {
 		case r.Err != nil:
-			val, paint = g.bad+" "+oneLine(r.Err.Error()), st.err
+			val, paint = g.bad+" "+sessions.Printable(oneLine(r.Err.Error()), 0, ""), st.err
 		default:
 			val = model.Format(p.Kind, r.Values[b.wm.param], 4, m.e.ascii)
 		}
