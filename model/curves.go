@@ -82,7 +82,7 @@ func IVCurve(s Spec, r Range) (Curve, error) {
 	if err != nil {
 		return Curve{}, err
 	}
-	vs, err := r.Points()
+	vs, err := biasPoints(r, FieldNumericSweep)
 	if err != nil {
 		return Curve{}, err
 	}
@@ -144,7 +144,7 @@ func IVSweep(ctx context.Context, s Spec, r Range) ([]physics.Point, []physics.F
 	if err != nil {
 		return nil, nil, err
 	}
-	vs, err := r.Points()
+	vs, err := biasPoints(r, FieldNumericSweep)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -212,7 +212,7 @@ func ConductanceCurve(s Spec, r Range) (Curve, error) {
 	if err != nil {
 		return Curve{}, err
 	}
-	vs, err := r.Points()
+	vs, err := biasPoints(r, FieldNumericSweep)
 	if err != nil {
 		return Curve{}, err
 	}
@@ -234,7 +234,7 @@ func CVCurve(s Spec, r Range) (Curve, Curve, error) {
 	if err != nil {
 		return Curve{}, Curve{}, err
 	}
-	vs, err := r.Points()
+	vs, err := biasPoints(r, FieldNumericCV)
 	if err != nil {
 		return Curve{}, Curve{}, err
 	}

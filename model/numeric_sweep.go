@@ -22,11 +22,8 @@ func numericBiases(r Range, field string) ([]float64, error) {
 			Allowed: fmt.Sprintf("FROM:TO:STEP with a non-zero step pointing from FROM to TO, at most %d points (MaxNumericSweepPoints)", MaxNumericSweepPoints),
 			Why:     err.Error()}}}
 	}
-	for _, v := range vs {
-		if v < -maxReverse || v > maxForward {
-			return nil, &ValidationError{Fields: []FieldError{{Field: field, Value: Format(Voltage, v, 4, true), Allowed: "-100 kV to 20 V",
-				Why: "the bias range of a Spec"}}}
-		}
+	if err := checkBiases(field, vs); err != nil {
+		return nil, err
 	}
 	return vs, nil
 }

@@ -324,8 +324,8 @@ func (s Spec) Validate() error {
 	}
 	rng(FieldTemperature, Temperature, s.Temperature, minTemperature, maxTemperature, "beyond, no material model here is meaningful")
 	rng(FieldArea, Area, s.Area, minArea, maxArea, "from a small test structure to a large power or solar device")
-	if !finite(s.Bias) || s.Bias < -maxReverse || s.Bias > maxForward {
-		add(FieldBias, Format(Voltage, s.Bias, 3, true), "-100 kV to 20 V", "forward bias beyond a few volts only heats a real diode; reverse beyond breakdown is meaningless")
+	if !biasInRange(s.Bias) {
+		add(FieldBias, Format(Voltage, s.Bias, 3, true), biasAllowed, biasWhy)
 	}
 	for _, w := range []struct {
 		f string
@@ -423,4 +423,40 @@ func (s Spec) Device() (physics.Device, error) {
 	}
 	d.Light = s.Light.Physics()
 	return d, nil
+}
+
+// The bias range of a Spec: one rule for --bias and every bias sweep.
+const (
+	biasAllowed = "-100 kV to 20 V"
+	biasWhy     = "forward bias beyond a few volts only heats a real diode; reverse beyond breakdown is meaningless"
+)
+
+func biasInRange(v float64) bool {
+	return !math.IsNaN(v) && !math.IsInf(v, 0) && v >= -maxReverse && v <= maxForward
+}
+
+// checkBiases returns a *ValidationError naming field at the first bias
+// of vs outside the bias range of a Spec, or nil.
+func checkBiases(field string, vs []float64) error {
+	for _, v := range vs {
+		if !biasInRange(v) {
+			return &ValidationError{Fields: []FieldError{{Field: field, Value: Format(Voltage, v, 4, true), Allowed: biasAllowed,
+				Why: "the bias range of a Spec: " + biasWhy}}}
+		}
+	}
+	return nil
+}
+
+// biasPoints returns the points of the bias sweep r (at most
+// MaxSweepPoints), each within the bias range of a Spec; field names the
+// sweep in the error.
+func biasPoints(r Range, field string) ([]float64, error) {
+	vs, err := r.Points()
+	if err != nil {
+		return nil, err
+	}
+	if err := checkBiases(field, vs); err != nil {
+		return nil, err
+	}
+	return vs, nil
 }
