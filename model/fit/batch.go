@@ -2,6 +2,7 @@ package fit
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 
@@ -77,9 +78,9 @@ type BatchOptions struct {
 // the number of files by a row each, never by their points. A file that
 // fails is a row with its error and never stops the batch. When ctx is
 // cancelled no new file starts, the finished rows are kept, the others are
-// "not_run", and the error is ctx.Err() (with the result). Every row
-// carries its die (Dies); a manifest that cannot be used stops the batch
-// before any fit, with a nil result.
+// "not_run" (those cut short too), and the error is ctx.Err() (with the
+// result). Every row carries its die (Dies); a manifest that cannot be
+// used stops the batch before any fit, with a nil result.
 func Batch(ctx context.Context, files []string, opt BatchOptions) (*BatchResult, error) {
 	dies, err := Dies(opt.Files, files)
 	if err != nil {
@@ -123,6 +124,10 @@ func Batch(ctx context.Context, files []string, opt BatchOptions) (*BatchResult,
 		switch {
 		case !r.Done:
 			row = BatchRow{File: files[k], Status: StatusNotRun, Err: fmt.Errorf("interrupted before this file")}
+			out.NotRun++
+		case r.Err != nil && ctx.Err() != nil && errors.Is(r.Err, ctx.Err()):
+			// Cut short by the interruption: nothing is wrong with it.
+			row = BatchRow{File: files[k], Status: StatusNotRun, Err: fmt.Errorf("interrupted while this file was fitted")}
 			out.NotRun++
 		case r.Err != nil:
 			row = BatchRow{File: files[k], Status: StatusError, Err: r.Err}
