@@ -193,6 +193,7 @@ var refusedSessionRequests = map[string]string{
 // sessionChannel is the handler of "session" channels: the library's own,
 // behind a filter that refuses the forwarding requests above.
 func (s *Server) sessionChannel(srv *ssh.Server, conn *gossh.ServerConn, nc gossh.NewChannel, ctx ssh.Context) {
+	defer sessionOpened(ctx)()
 	ssh.DefaultSessionHandler(srv, conn, filteredChannel{NewChannel: nc, refuse: func(what string) {
 		s.log.Warn("request refused: "+what, "user", conn.User(), "remote", remoteHost(conn.RemoteAddr()))
 	}}, ctx)

@@ -68,7 +68,10 @@ type Config struct {
 	// KeysPoll is how often the authorized-keys file is checked for changes
 	// besides each login and Reload (0 = 5 s, negative = never).
 	KeysPoll time.Duration
-	// MaxConnections caps concurrent connections (0 = 32).
+	// MaxConnections caps concurrent sessions (0 = 32); connections open
+	// at all, with or without a session, are capped at twice as many, and
+	// one without a session is closed after the idle timeout (at most a
+	// minute; see connlimit.go).
 	MaxConnections int
 	// ShutdownMsg, if set, is sent to every running program at shutdown
 	// so that it can write its recovery draft before it is stopped.
@@ -95,12 +98,14 @@ type Server struct {
 	fingerprint string
 	createdKey  bool
 
-	mu       sync.Mutex
-	active   int
-	programs map[*tea.Program]program
-	conns    map[ssh.Context]*liveConn
-	failures map[string]int // by remote host
-	closing  bool
+	mu     sync.Mutex
+	active int
+	// openConns counts the connections open (connlimit.go).
+	openConns int
+	programs  map[*tea.Program]program
+	conns     map[ssh.Context]*liveConn
+	failures  map[string]int // by remote host
+	closing   bool
 
 	revalMu  sync.Mutex // one revalidation at a time
 	stop     chan struct{}
@@ -201,13 +206,19 @@ func (s *Server) connectionPolicy(srv *ssh.Server) error {
 	srv.PtyCallback = s.ptyRequest
 	srv.SessionRequestCallback = s.sessionRequest
 	srv.ChannelHandlers = map[string]ssh.ChannelHandler{"session": s.sessionChannel}
-	if idle := s.cfg.IdleTimeout; idle > 0 {
-		srv.ConnCallback = func(ctx ssh.Context, c net.Conn) net.Conn {
-			return watchIdle(c, idle, func() {
-				s.log.Info("connection closed: idle", "remote", remoteHost(c.RemoteAddr()), "idle", idle.String())
-				s.cancelPrograms(ctx)
-			})
+	srv.ConnCallback = func(ctx ssh.Context, c net.Conn) net.Conn {
+		counted := s.admitConn(ctx, c) // the connection cap (connlimit.go)
+		if counted == nil {
+			return nil
 		}
+		idle := s.cfg.IdleTimeout
+		if idle <= 0 {
+			return counted
+		}
+		return watchIdle(counted, idle, func() {
+			s.log.Info("connection closed: idle", "remote", remoteHost(c.RemoteAddr()), "idle", idle.String())
+			s.cancelPrograms(ctx)
+		})
 	}
 	return nil
 }

@@ -1,0 +1,117 @@
+package serve
+
+import (
+	"net"
+	"sync"
+	"sync/atomic"
+	"time"
+
+	"github.com/charmbracelet/ssh"
+)
+
+// Connections are limited apart from their sessions: a client may hold an
+// SSH connection open without any session (`ssh -N`, a multiplexing
+// master), and keepalives keep its bytes moving, so neither the session
+// cap (MaxConnections) nor the idle watchdog would ever free it.
+//
+//   - At most connCapFactor x MaxConnections connections are open at once,
+//     counted from the TCP accept whether or not they log in or open a
+//     session; a connection beyond is closed at once and logged.
+//   - A connection with no session open for the idle timeout (at most
+//     maxSessionless, also when the idle timeout is off) is closed,
+//     whatever it sends.
+const (
+	connCapFactor  = 2
+	maxSessionless = time.Minute
+)
+
+// connStateKey keys a connection's *connState in its context.
+type connStateKey struct{}
+
+// connState counts the sessions open on one connection.
+type connState struct {
+	sessions atomic.Int32
+	lastEnd  atomic.Int64 // UnixNano when no session was last open
+}
+
+// countedConn is an accepted connection counted against the cap; Close
+// gives its place back once.
+type countedConn struct {
+	net.Conn
+	closed  atomic.Bool
+	once    sync.Once
+	release func()
+}
+
+func (c *countedConn) Close() error {
+	c.closed.Store(true)
+	err := c.Conn.Close()
+	c.once.Do(c.release)
+	return err
+}
+
+// sessionlessLimit is how long a connection may stay without a session.
+func (s *Server) sessionlessLimit() time.Duration {
+	if idle := s.cfg.IdleTimeout; idle > 0 && idle < maxSessionless {
+		return idle
+	}
+	return maxSessionless
+}
+
+// admitConn counts c against the connection cap and watches it for want
+// of a session; it returns nil (the library then closes c) beyond the cap.
+func (s *Server) admitConn(ctx ssh.Context, c net.Conn) net.Conn {
+	limit := connCapFactor * s.cfg.MaxConnections
+	s.mu.Lock()
+	if s.openConns >= limit {
+		s.mu.Unlock()
+		s.log.Warn("connection refused: at the connection cap (connections open, with or without a session)",
+			"remote", remoteHost(c.RemoteAddr()), "open", limit, "max_conn", s.cfg.MaxConnections)
+		return nil
+	}
+	s.openConns++
+	s.mu.Unlock()
+	st := &connState{}
+	st.lastEnd.Store(time.Now().UnixNano())
+	ctx.SetValue(connStateKey{}, st)
+	cc := &countedConn{Conn: c, release: func() {
+		s.mu.Lock()
+		s.openConns--
+		s.mu.Unlock()
+	}}
+	limitFor := s.sessionlessLimit()
+	var check func()
+	check = func() {
+		if cc.closed.Load() {
+			return
+		}
+		if st.sessions.Load() > 0 {
+			time.AfterFunc(limitFor, check)
+			return
+		}
+		since := time.Since(time.Unix(0, st.lastEnd.Load()))
+		if since < limitFor {
+			time.AfterFunc(limitFor-since, check)
+			return
+		}
+		s.log.Info("connection closed: no session", "remote", remoteHost(c.RemoteAddr()), "after", limitFor.String())
+		_ = cc.Close()
+	}
+	time.AfterFunc(limitFor, check)
+	return cc
+}
+
+// sessionOpened counts a session on ctx's connection; the function it
+// returns counts its end.
+func sessionOpened(ctx ssh.Context) func() {
+	st, _ := ctx.Value(connStateKey{}).(*connState)
+	if st == nil {
+		return func() {}
+	}
+	st.sessions.Add(1)
+	return func() {
+		if st.sessions.Add(-1) == 0 {
+			st.lastEnd.Store(time.Now().UnixNano())
+		}
+	}
+}
