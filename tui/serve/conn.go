@@ -194,7 +194,8 @@ var refusedSessionRequests = map[string]string{
 // behind a filter that refuses the forwarding requests above.
 func (s *Server) sessionChannel(srv *ssh.Server, conn *gossh.ServerConn, nc gossh.NewChannel, ctx ssh.Context) {
 	defer sessionOpened(ctx)()
-	ssh.DefaultSessionHandler(srv, conn, filteredChannel{NewChannel: nc, refuse: func(what string) {
+	st, _ := ctx.Value(connStateKey{}).(*connState)
+	ssh.DefaultSessionHandler(srv, conn, filteredChannel{NewChannel: nc, input: st, refuse: func(what string) {
 		s.log.Warn("request refused: "+what, "user", conn.User(), "remote", remoteHost(conn.RemoteAddr()))
 	}}, ctx)
 }
@@ -202,6 +203,7 @@ func (s *Server) sessionChannel(srv *ssh.Server, conn *gossh.ServerConn, nc goss
 type filteredChannel struct {
 	gossh.NewChannel
 	refuse func(what string)
+	input  *connState // records the client's input for the idle check
 }
 
 func (f filteredChannel) Accept() (gossh.Channel, <-chan *gossh.Request, error) {
@@ -221,7 +223,26 @@ func (f filteredChannel) Accept() (gossh.Channel, <-chan *gossh.Request, error) 
 			out <- r
 		}
 	}()
+	if f.input != nil {
+		ch = inputChannel{Channel: ch, st: f.input}
+	}
 	return ch, out, nil
+}
+
+// inputChannel records when the client last sent data on a session (a
+// keystroke, an upload, an SFTP request): the idle timeout counts from
+// there, not from keepalives or the server's own output.
+type inputChannel struct {
+	gossh.Channel
+	st *connState
+}
+
+func (c inputChannel) Read(p []byte) (int, error) {
+	n, err := c.Channel.Read(p)
+	if n > 0 {
+		c.st.lastInput.Store(time.Now().UnixNano())
+	}
+	return n, err
 }
 
 // closeConnection closes the SSH connection of ctx.

@@ -20,6 +20,10 @@ import (
 //   - A connection with no session open for the idle timeout (at most
 //     maxSessionless, also when the idle timeout is off) is closed,
 //     whatever it sends.
+//   - A connection whose client sent no data on any session (keystrokes,
+//     uploads, SFTP requests) for the idle timeout is closed: keepalives
+//     and window changes are not input. (idleConn in conn.go closes one
+//     on which no byte moves at all.)
 const (
 	connCapFactor  = 2
 	maxSessionless = time.Minute
@@ -30,8 +34,9 @@ type connStateKey struct{}
 
 // connState counts the sessions open on one connection.
 type connState struct {
-	sessions atomic.Int32
-	lastEnd  atomic.Int64 // UnixNano when no session was last open
+	sessions  atomic.Int32
+	lastEnd   atomic.Int64 // UnixNano when no session was last open
+	lastInput atomic.Int64 // UnixNano of the client's last data on a session
 }
 
 // countedConn is an accepted connection counted against the cap; Close
@@ -73,31 +78,46 @@ func (s *Server) admitConn(ctx ssh.Context, c net.Conn) net.Conn {
 	s.mu.Unlock()
 	st := &connState{}
 	st.lastEnd.Store(time.Now().UnixNano())
+	st.lastInput.Store(time.Now().UnixNano())
 	ctx.SetValue(connStateKey{}, st)
 	cc := &countedConn{Conn: c, release: func() {
 		s.mu.Lock()
 		s.openConns--
 		s.mu.Unlock()
 	}}
-	limitFor := s.sessionlessLimit()
+	limitFor, idle := s.sessionlessLimit(), s.cfg.IdleTimeout
 	var check func()
 	check = func() {
 		if cc.closed.Load() {
 			return
 		}
-		if st.sessions.Load() > 0 {
-			time.AfterFunc(limitFor, check)
-			return
+		next := limitFor
+		if st.sessions.Load() == 0 {
+			since := time.Since(time.Unix(0, st.lastEnd.Load()))
+			if since >= limitFor {
+				s.log.Info("connection closed: no session", "remote", remoteHost(c.RemoteAddr()), "after", limitFor.String())
+				_ = cc.Close()
+				return
+			}
+			next = min(next, limitFor-since)
 		}
-		since := time.Since(time.Unix(0, st.lastEnd.Load()))
-		if since < limitFor {
-			time.AfterFunc(limitFor-since, check)
-			return
+		if idle > 0 {
+			since := time.Since(time.Unix(0, st.lastInput.Load()))
+			if since >= idle {
+				s.log.Info("connection closed: idle (no input)", "remote", remoteHost(c.RemoteAddr()), "idle", idle.String())
+				s.cancelPrograms(ctx)
+				_ = cc.Close()
+				return
+			}
+			next = min(next, idle-since)
 		}
-		s.log.Info("connection closed: no session", "remote", remoteHost(c.RemoteAddr()), "after", limitFor.String())
-		_ = cc.Close()
+		time.AfterFunc(next, check)
 	}
-	time.AfterFunc(limitFor, check)
+	first := limitFor
+	if idle > 0 {
+		first = min(first, idle)
+	}
+	time.AfterFunc(first, check)
 	return cc
 }
 

@@ -62,3 +62,40 @@ func TestConnectionsWithoutSessionCapped(t *testing.T) {
 	}
 	t.Fatal("3 connections open at once with --max-conn 1")
 }
+
+// --idle means no input from the client: a workbench left open by a
+// client that sends keepalives (ServerAliveInterval, common in OpenSSH
+// configurations) is closed after --idle like any other and frees its
+// --max-conn slot. Before, keepalives counted as traffic and such a
+// connection stayed open for good (20 s with --idle 8s, by hand).
+func TestKeepalivesDoNotHoldAnIdleSession(t *testing.T) {
+	ada := newUserKey(t, "ada")
+	f := startServerWith(t, t.TempDir(), func(c *Config) { c.IdleTimeout = 400 * time.Millisecond }, ada.line)
+	c, err := dial(f.addr, clientConfig("ada", gossh.PublicKeys(ada.signer)))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer c.Close()
+	s, err := c.NewSession()
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer s.Close()
+	if err := s.RequestPty("xterm", 40, 100, gossh.TerminalModes{}); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := s.StdinPipe(); err != nil {
+		t.Fatal(err)
+	}
+	if err := s.Shell(); err != nil {
+		t.Fatal(err)
+	}
+	deadline := time.Now().Add(5 * time.Second)
+	for time.Now().Before(deadline) {
+		if _, _, err := c.SendRequest("keepalive@openssh.com", true, nil); err != nil {
+			return
+		}
+		time.Sleep(50 * time.Millisecond)
+	}
+	t.Fatalf("a session with no input, its client sending keepalives, stayed open 5 s with a 400 ms idle timeout:\n%s", f.logs.String())
+}
