@@ -393,15 +393,17 @@ func (w *InboxWriter) WriteAt(p []byte, off int64) (int, error) {
 		return 0, refused("upload", "negative offset")
 	}
 	end := off + int64(len(p))
-	if end > w.in.lim.FileBytes {
-		w.err = w.in.fileCapError(w.name)
-		return 0, w.err
-	}
 	q := w.in.q
 	q.mu.Lock()
 	defer q.mu.Unlock()
+	if end > w.in.lim.FileBytes {
+		w.err = w.in.fileCapError(w.name)
+		w.giveBack()
+		return 0, w.err
+	}
 	if grow := end - w.size; grow > 0 && q.used+grow > w.in.lim.UserBytes {
 		w.err = w.in.userCapError(w.name, max(q.used-w.size, 0))
+		w.giveBack()
 		return 0, w.err
 	}
 	n, err := w.f.WriteAt(p, off)
@@ -414,6 +416,16 @@ func (w *InboxWriter) WriteAt(p []byte, off int64) (int, error) {
 		return n, w.err
 	}
 	return n, nil
+}
+
+// giveBack empties a failed upload's file at once (Close removes it), so
+// that uploads going on at the same time may use its bytes. The caller
+// holds w.mu and the quota's lock.
+func (w *InboxWriter) giveBack() {
+	if w.f.Truncate(0) == nil {
+		w.in.q.used = max(w.in.q.used-w.size, 0)
+		w.size = 0
+	}
 }
 
 // Write appends p.

@@ -134,3 +134,40 @@ func TestInboxFileCountCap(t *testing.T) {
 	}
 	w.Close()
 }
+
+// Uploads that write in turn (as parallel transfers do) share the cap
+// without starving one another: the upload whose write would cross the
+// cap fails and gives its bytes back at once, and the others go on. Before,
+// the failed upload kept its bytes until its client closed it, so every
+// upload in turn crossed the cap: five scp runs of 900000 bytes at once
+// into an empty 3 MiB inbox stored nothing.
+func TestInboxUploadsInTurnShareTheCap(t *testing.T) {
+	lim := InboxLimits{FileBytes: 1000, UserBytes: 2500}
+	in, _, _ := openTestInbox(t, lim)
+	var ws []*InboxWriter
+	for i := 0; i < 4; i++ {
+		w, err := in.Create(fmt.Sprintf("t%d.csv", i), -1)
+		if err != nil {
+			t.Fatal(err)
+		}
+		ws = append(ws, w)
+	}
+	failed := make([]bool, len(ws))
+	for off := 0; off < 1000; off += 100 {
+		for i, w := range ws {
+			if !failed[i] {
+				_, err := w.WriteAt(make([]byte, 100), int64(off))
+				failed[i] = err != nil
+			}
+		}
+	}
+	stored := 0
+	for _, w := range ws {
+		if w.Close() == nil {
+			stored++
+		}
+	}
+	if used, _ := in.Usage(); stored != 2 || used != 2000 {
+		t.Errorf("4 uploads of 1000 bytes in turn into 2500 bytes: %d stored, %d bytes; want 2 files, 2000 bytes", stored, used)
+	}
+}
