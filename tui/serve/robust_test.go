@@ -216,10 +216,13 @@ func TestIdleWatchdog(t *testing.T) {
 	a, b := net.Pipe()
 	defer b.Close()
 	var fired atomic.Bool
-	c := watchIdle(a, 150*time.Millisecond, func() { fired.Store(true) })
+	// A wide margin between the writes (60 ms) and the idle time (1 s):
+	// a loaded machine (the race detector, other tests) delayed a write
+	// past 150 ms once.
+	c := watchIdle(a, time.Second, func() { fired.Store(true) })
 	// Traffic keeps it open.
 	go func() { _, _ = io.Copy(io.Discard, b) }()
-	for range 5 {
+	for range 25 {
 		if _, err := c.Write([]byte("x")); err != nil {
 			t.Fatalf("closed while busy: %v", err)
 		}
@@ -228,7 +231,7 @@ func TestIdleWatchdog(t *testing.T) {
 	if fired.Load() {
 		t.Fatal("closed while busy")
 	}
-	deadline := time.Now().Add(3 * time.Second)
+	deadline := time.Now().Add(5 * time.Second)
 	for !fired.Load() && time.Now().Before(deadline) {
 		time.Sleep(10 * time.Millisecond)
 	}
