@@ -187,7 +187,7 @@ func loadSessionSpec(cmdName string, sess calcSessionArgs, spec *model.Spec, fs 
 func newCalcCmd(e *env) *cobra.Command {
 	o := &calcOptions{spec: model.DefaultSpec()}
 	var sess calcSessionArgs
-	gfs := newCalcFlags(o, io.Discard)
+	var gfs *flag.FlagSet
 	cmd := &cobra.Command{
 		Use:   "calc [flags]",
 		Short: "evaluate one junction",
@@ -203,8 +203,11 @@ func newCalcCmd(e *env) *cobra.Command {
 			return exited(runCalc(e.ctx, o, sess, e.stdout, e.stderr))
 		},
 	}
-	cmd.Flags().AddGoFlagSet(gfs)
-	addCalcSessionFlags(cmd.Flags(), &sess, true)
+	e.lazyFlags(cmd, func() {
+		gfs = newCalcFlags(o, io.Discard)
+		cmd.Flags().AddGoFlagSet(gfs)
+		addCalcSessionFlags(cmd.Flags(), &sess, true)
+	})
 	return cmd
 }
 

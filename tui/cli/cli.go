@@ -70,6 +70,15 @@ const rootHelp = `junco: a terminal workbench for pn junctions and diodes
 Every command has its own page: junco COMMAND --help. Exit status: 0 done,
 1 failed, 2 bad usage or input (one line on stderr), 130 interrupted.`
 
+// printVersion writes the version line of junco version and --version.
+// (Cobra's own --version would format it with text/template, whose use
+// keeps every method of the program in the binary: 4 MB and a slower
+// start.)
+func printVersion(w io.Writer) error {
+	_, err := fmt.Fprintln(w, "junco", buildVersion())
+	return err
+}
+
 // newRootCmd builds the command tree. Run with no command, junco opens the
 // workbench (workbench.go).
 func newRootCmd(e *env) *cobra.Command {
@@ -85,10 +94,7 @@ func newRootCmd(e *env) *cobra.Command {
 			Use:   "version",
 			Short: "print the version of this build",
 			Args:  noArgs,
-			RunE: func(cmd *cobra.Command, _ []string) error {
-				_, err := fmt.Fprintln(e.stdout, "junco", buildVersion())
-				return err
-			},
+			RunE:  func(*cobra.Command, []string) error { return printVersion(e.stdout) },
 		},
 	)
 	root.SetOut(e.stdout) // the completion scripts are written where it says now
@@ -98,7 +104,5 @@ func newRootCmd(e *env) *cobra.Command {
 			commandGroup(c, "shell")
 		}
 	}
-	root.Version = buildVersion()
-	root.SetVersionTemplate("junco {{.Version}}\n")
 	return root
 }

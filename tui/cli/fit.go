@@ -133,7 +133,8 @@ func newFitCmd(e *env) *cobra.Command {
 // command builds the cobra command of a fit subcommand.
 func (s fitSub) command(e *env) *cobra.Command {
 	c := &cobra.Command{Use: s.use, Short: s.short, Long: s.long, Args: cobra.ArbitraryArgs}
-	collect := defineFitFlags(c.Flags(), s.flags)
+	var collect func(pos []string) *fitArgs
+	e.lazyFlags(c, func() { collect = defineFitFlags(c.Flags(), s.flags) })
 	c.RunE = func(_ *cobra.Command, args []string) error {
 		return exited(s.run(e.ctx, collect(args), e.stdout, e.stderr))
 	}

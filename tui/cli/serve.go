@@ -14,6 +14,7 @@ import (
 
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
 
 	"junco/sessions"
 	"junco/tui"
@@ -56,7 +57,12 @@ func newServeCmd(e *env) *cobra.Command {
 			return exited(runServeOptions(e.ctx, o, e.stdout, e.stderr))
 		},
 	}
-	fs := cmd.Flags()
+	e.lazyFlags(cmd, func() { addServeFlags(cmd.Flags(), &o) })
+	return cmd
+}
+
+// addServeFlags defines the flags of junco serve.
+func addServeFlags(fs *pflag.FlagSet, o *serveOptions) {
 	fs.StringVar(&o.listen, "listen", serve.DefaultListen, "`ADDR`ess to listen on (binding beyond loopback is an explicit choice)")
 	fs.StringVar(&o.data, "data", "", "server data directory `DIR` (default $XDG_DATA_HOME/junco-server, else ~/.local/share/junco-server)")
 	fs.StringVar(&o.hostKey, "host-key", "", "ed25519 host key `FILE`, created with mode 0600 on first start (default DATA/host/ed25519)")
@@ -65,7 +71,6 @@ func newServeCmd(e *env) *cobra.Command {
 	fs.IntVar(&o.maxConn, "max-conn", 32, "most concurrent connections")
 	fs.Int64Var(&o.uploadMiB, "upload-max-mib", sessions.DefaultInboxFileBytes>>20, "largest file a user may upload to the inbox, in MiB (1 to 65536)")
 	fs.Int64Var(&o.inboxMiB, "inbox-max-mib", sessions.DefaultInboxUserBytes>>20, "most a user's inbox may hold in all, in MiB (1 to 1048576, at least --upload-max-mib)")
-	return cmd
 }
 
 // runServeOptions runs `junco serve` on parsed options until ctx ends.

@@ -75,11 +75,11 @@ type sessionFlags struct {
 func newSessionFlagSet(name string, o *sessionFlags, stderr io.Writer, extra ...string) *flag.FlagSet {
 	fs := flag.NewFlagSet("sessions "+name, flag.ContinueOnError)
 	fs.SetOutput(stderr)
-	fs.StringVar(&o.data, "data", "", "data directory (default $XDG_DATA_HOME/junco or ~/.local/share/junco)")
+	fs.StringVar(&o.data, "data", "", "data directory `DIR` (default $XDG_DATA_HOME/junco or ~/.local/share/junco)")
 	for _, e := range extra {
 		switch e {
 		case "rev":
-			fs.IntVar(&o.rev, "rev", 0, "revision number (default: the newest)")
+			fs.IntVar(&o.rev, "rev", 0, "revision number `N` (default: the newest)")
 		case "format":
 			fs.StringVar(&o.format, "format", "", "md, csv or json")
 		case "out":
@@ -197,7 +197,7 @@ func (s sessionsSub) command(e *env) *cobra.Command {
 	if c.Long == "" {
 		c.Long = s.short + "."
 	}
-	c.Flags().AddGoFlagSet(newSessionFlagSet(name, &o, io.Discard, s.extra...))
+	e.lazyFlags(c, func() { c.Flags().AddGoFlagSet(newSessionFlagSet(name, &o, io.Discard, s.extra...)) })
 	c.RunE = func(c *cobra.Command, pos []string) error {
 		if len(pos) < s.min || len(pos) > s.max {
 			return usagef(c, "expected %s, got %d argument(s)", s.want, len(pos))

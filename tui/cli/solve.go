@@ -239,7 +239,7 @@ not converge (the message names the bias); exit 2: bad input.`
 func newSolveCmd(e *env) *cobra.Command {
 	o := &solveOptions{calc: calcOptions{spec: model.DefaultSpec()}}
 	var sess calcSessionArgs
-	gfs := newSolveFlags(o, io.Discard)
+	var gfs *flag.FlagSet
 	cmd := &cobra.Command{
 		Use:   "solve [flags]",
 		Short: "solve the junction numerically (drift-diffusion) beside calc",
@@ -258,8 +258,11 @@ func newSolveCmd(e *env) *cobra.Command {
 			return exited(runSolve(e.ctx, o, e.stdout, e.stderr))
 		},
 	}
-	cmd.Flags().AddGoFlagSet(gfs)
-	addCalcSessionFlags(cmd.Flags(), &sess, false)
+	e.lazyFlags(cmd, func() {
+		gfs = newSolveFlags(o, io.Discard)
+		cmd.Flags().AddGoFlagSet(gfs)
+		addCalcSessionFlags(cmd.Flags(), &sess, false)
+	})
 	return cmd
 }
 

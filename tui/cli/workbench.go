@@ -51,8 +51,8 @@ func (o workbenchOptions) drawASCII(getenv func(string) string) bool {
 // --data DIR, --rev N.
 func addWorkbenchFlags(fs *pflag.FlagSet, o *workbenchOptions) {
 	fs.BoolVar(&o.ascii, "ascii", false, "draw with plain ASCII characters (also chosen automatically when the locale has no UTF-8;\n--ascii=false draws Unicode whatever the locale; NO_COLOR turns colour off)")
-	fs.StringVar(&o.data, "data", "", "the session store (default $XDG_DATA_HOME/junco, else ~/.local/share/junco); saves are signed with $USER, else the account name")
-	fs.IntVar(&o.rev, "rev", 0, "open revision N of session NAME instead of the newest")
+	fs.StringVar(&o.data, "data", "", "the session store `DIR` (default $XDG_DATA_HOME/junco, else ~/.local/share/junco); saves are signed with $USER, else the account name")
+	fs.IntVar(&o.rev, "rev", 0, "open revision `N` of session NAME instead of the newest")
 }
 
 // check completes and checks the options after parsing: fs tells whether
@@ -102,12 +102,16 @@ the name you choose. Press ? inside for the guide and every key.`
 // workbench on the demo session.
 func newWorkbenchCmd(e *env) *cobra.Command {
 	var o workbenchOptions
+	var version bool
 	cmd := &cobra.Command{
 		Use:   "junco",
 		Short: "a terminal workbench for pn junctions and diodes",
 		Long:  rootHelp,
 		Args:  func(c *cobra.Command, args []string) error { return unknownCommand(c, args) },
 		RunE: func(c *cobra.Command, args []string) error {
+			if version {
+				return printVersion(e.stdout)
+			}
 			if err := o.check(c.Flags(), nil); err != nil {
 				return usagef(c, "%v", err)
 			}
@@ -115,6 +119,7 @@ func newWorkbenchCmd(e *env) *cobra.Command {
 		},
 	}
 	addWorkbenchFlags(cmd.Flags(), &o)
+	cmd.Flags().BoolVar(&version, "version", false, "print the version of this build")
 	return cmd
 }
 
@@ -143,7 +148,7 @@ func newOpenCmd(e *env) *cobra.Command {
 			return exited(runWorkbench(e.ctx, o, e.stdout, e.stderr))
 		},
 	}
-	addWorkbenchFlags(cmd.Flags(), &o)
+	e.lazyFlags(cmd, func() { addWorkbenchFlags(cmd.Flags(), &o) })
 	return cmd
 }
 
