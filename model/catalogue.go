@@ -168,6 +168,12 @@ func Catalogue() []CatalogueField {
 		effect("no_breakdown", "no-breakdown", "effect: avalanche breakdown", "effect off: avalanche breakdown search and multiplication", func(s *Spec) *bool { return &s.Effects.NoBreakdown }),
 		text("effects.bgn_model", FieldBGNModel, "band-gap narrowing set", "klaassen1992", "band-gap narrowing set: klaassen1992 (default) or slotboom1976", func(s *Spec) *string { return &s.Effects.BGNModel }),
 		text("effects.ionisation_model", FieldIonisationModel, "dopant levels of incomplete ionisation", "single-level", "dopant levels of incomplete ionisation: single-level (default) or lowered", func(s *Spec) *string { return &s.Effects.IonisationModel }),
+		value("light.generation_per_m3_s", FieldGeneration, "uniform generation G", GenerationRate, "none", "pair-generation rate uniform through the device, e.g. 1e20cm-3/s (omitted: dark)", func(s *Spec) *float64 { return &s.Light.Generation }),
+		value("light.wavelength_m", FieldWavelength, "light wavelength", Length, "none", "wavelength of monochromatic light, e.g. 650nm", func(s *Spec) *float64 { return &s.Light.Wavelength }),
+		value("light.power_density_W_per_m2", FieldLightPower, "light power density", PowerDensity, "none", "power density of the monochromatic light entering the surface, e.g. 100mW/cm2 (omitted: dark)", func(s *Spec) *float64 { return &s.Light.PowerDensity }),
+		value("light.absorption_per_m", FieldAbsorption, "absorption coefficient alpha", Absorption, "none", "absorption coefficient of the light in the semiconductor, e.g. 3e3/cm", func(s *Spec) *float64 { return &s.Light.Absorption }),
+		lower(text("light.illuminated_side", FieldIlluminatedSide, "illuminated side", "p", "illuminated surface: p (default) or n", func(s *Spec) *string { return &s.Light.Side })),
+		value("light.irradiance_W_per_m2", FieldIrradiance, "irradiance for the efficiency", PowerDensity, "light power", "incident power density the efficiency refers to (omitted: --light-power)", func(s *Spec) *float64 { return &s.Light.Irradiance }),
 	}
 }
 

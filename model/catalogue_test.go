@@ -43,6 +43,9 @@ func specMember(t *testing.T, s Spec, key string) json.RawMessage {
 	if !nested {
 		return top[key]
 	}
+	if top[outer] == nil {
+		return nil // an omitted nested object (dark light)
+	}
 	var m map[string]json.RawMessage
 	if err := json.Unmarshal(top[outer], &m); err != nil {
 		t.Fatal(err)
