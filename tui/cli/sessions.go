@@ -93,26 +93,6 @@ func newSessionFlagSet(name string, o *sessionFlags, stderr io.Writer, extra ...
 	return fs
 }
 
-// parseInterleaved parses flags that may come before, between or after
-// the positional arguments and returns the positional ones.
-func parseInterleaved(fs *flag.FlagSet, args []string) ([]string, error) {
-	var pos []string
-	for {
-		if err := fs.Parse(args); err != nil {
-			return nil, err
-		}
-		rest := fs.Args()
-		if len(rest) == 0 {
-			return pos, nil
-		}
-		if rest[0] == "--" {
-			return append(pos, rest[1:]...), nil
-		}
-		pos = append(pos, rest[0])
-		args = rest[1:]
-	}
-}
-
 // openStore opens the store at dir, or at the default location, and
 // tells on stderr what opening it changed (a store other accounts could
 // read is made private).
@@ -595,6 +575,10 @@ type calcSessionArgs struct {
 // "--flag value" and "--flag=value" are accepted; "--" ends the flags.
 // Use: parse these first, load the Spec with loadSpecForCalc, then parse
 // the rest into it so that explicit flags override the session's values.
+//
+// Deprecated: calc and solve parse these flags in the command tree
+// (addCalcSessionFlags); this pre-pass is no longer called and stays only
+// while its test (TestCalcSessionOptions) is pinned: remove both together.
 func calcSessionOptions(args []string) (calcSessionArgs, []string, error) {
 	var o calcSessionArgs
 	targets := map[string]*string{"session": &o.Session, "save": &o.Save, "data": &o.DataDir, "author": &o.Author}
