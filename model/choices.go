@@ -29,58 +29,17 @@ func TradeUnit(k Kind) (unit string, si float64) {
 // impossible value of the field, so the limits live in one place.
 // ok is false for an unknown field name.
 func FieldAllowed(s Spec, field string) (allowed, why string, ok bool) {
-	bad := math.NaN()
-	switch field {
-	case FieldMaterial:
-		s.Material = "?"
-	case FieldProfile:
-		s.Profile = "?"
-	case FieldAcceptorDensity:
-		s.AcceptorDensity = bad
-	case FieldDonorDensity:
-		s.DonorDensity = bad
-	case FieldGradient:
-		s.Profile, s.Gradient = "linear", bad
-	case FieldAcceptorSpecies:
-		s.AcceptorSpecies = "?"
-	case FieldDonorSpecies:
-		s.DonorSpecies = "?"
-	case FieldTemperature:
-		s.Temperature = bad
-	case FieldArea:
-		s.Area = bad
-	case FieldBias:
-		s.Bias = bad
-	case FieldPWidth:
-		s.PWidth = bad
-	case FieldNWidth:
-		s.NWidth = bad
-	case FieldPContactVelocity:
-		s.PContactVelocity = &bad
-	case FieldNContactVelocity:
-		s.NContactVelocity = &bad
-	case FieldElectronLifetime:
-		s.ElectronLifetime = bad
-	case FieldHoleLifetime:
-		s.HoleLifetime = bad
-	case FieldContactResistance:
-		s.ContactResistance = bad
-	case FieldShuntResistance:
-		s.ShuntResistance = bad
-	case FieldPThickness:
-		s.PThickness = bad
-	case FieldNThickness:
-		s.NThickness = bad
-	case FieldPowerLimit:
-		s.PowerLimit = bad
-	case FieldForwardCurrent:
-		s.ForwardCurrent = bad
-	case FieldReverseCurrent:
-		s.ReverseCurrent = bad
-	case FieldBGNModel:
-		s.Effects.BGNModel = "?"
-	default:
+	f, found := CatalogueByFlag(field)
+	switch {
+	case !found || f.Class == ClassEffect:
 		return "", "", false
+	case f.Class == ClassText:
+		f.SetText(&s, "?")
+	case field == FieldGradient:
+		s.Profile = "linear"
+		f.SetValue(&s, math.NaN())
+	default:
+		f.SetValue(&s, math.NaN())
 	}
 	err := s.Validate()
 	ve, isVE := err.(*ValidationError)

@@ -40,43 +40,27 @@ const (
 )
 
 // specField describes a model.Spec member for display: its JSON key, label
-// (with the flag name), kind, and what a zero or absent value means.
+// (with the flag name), kind, and what a zero or absent value means. The
+// fields come from the one catalogue, model.Catalogue.
 type specField struct {
-	key   string
-	label string
-	kind  model.Kind
-	text  bool   // a text field, shown quoted
-	zero  string // shown for 0 or absent ("" = show the number)
+	key    string
+	label  string
+	kind   model.Kind
+	text   bool   // a text field, shown quoted
+	effect bool   // an effect switch: true (off) or absent (on)
+	zero   string // shown for 0 or absent ("" = show the number)
 }
 
-// specFields lists the Spec members junco knows, in display order.
-// Members added to model.Spec later are compared by their JSON text.
+// specFields lists the Spec members junco knows, in display order, from
+// model.Catalogue: the label is the catalogue's with the flag in brackets.
 func specFields() []specField {
-	return []specField{
-		{key: "material", label: "material (material)", text: true},
-		{key: "profile", label: "doping profile (profile)", text: true},
-		{key: "acceptor_density_per_m3", label: "acceptor doping Na (na)", kind: model.Density},
-		{key: "donor_density_per_m3", label: "donor doping Nd (nd)", kind: model.Density},
-		{key: "gradient_per_m4", label: "net-doping gradient a (gradient)", kind: model.Gradient, zero: "none"},
-		{key: "acceptor_species", label: "acceptor species (acceptor)", text: true, zero: "material default"},
-		{key: "donor_species", label: "donor species (donor)", text: true, zero: "material default"},
-		{key: "temperature_K", label: "temperature T (temp)", kind: model.Temperature},
-		{key: "area_m2", label: "junction area A (area)", kind: model.Area},
-		{key: "bias_V", label: "bias V (bias)", kind: model.Voltage},
-		{key: "p_width_m", label: "p-side width Wp (wp)", kind: model.Length, zero: "long"},
-		{key: "n_width_m", label: "n-side width Wn (wn)", kind: model.Length, zero: "long"},
-		{key: "p_contact_recombination_m_per_s", label: "p contact recombination Sp (sp)", kind: model.Velocity, zero: "ohmic"},
-		{key: "n_contact_recombination_m_per_s", label: "n contact recombination Sn (sn)", kind: model.Velocity, zero: "ohmic"},
-		{key: "electron_lifetime_s", label: "electron lifetime tau_n (taun)", kind: model.Time, zero: "default"},
-		{key: "hole_lifetime_s", label: "hole lifetime tau_p (taup)", kind: model.Time, zero: "default"},
-		{key: "contact_resistance_ohm", label: "contact resistance", kind: model.Resistance, zero: "none"},
-		{key: "shunt_resistance_ohm", label: "shunt resistance", kind: model.Resistance, zero: "none"},
-		{key: "p_thickness_m", label: "p layer thickness", kind: model.Length, zero: "default"},
-		{key: "n_thickness_m", label: "n layer thickness", kind: model.Length, zero: "default"},
-		{key: "power_limit_W", label: "power limit", kind: model.Power, zero: "default"},
-		{key: "reference_forward_current_A", label: "reference forward current", kind: model.Current, zero: "default"},
-		{key: "switching_reverse_current_A", label: "switching reverse current", kind: model.Current, zero: "default"},
+	cat := model.Catalogue()
+	out := make([]specField, 0, len(cat))
+	for _, f := range cat {
+		out = append(out, specField{key: f.Key, label: f.Label + " (" + f.Flag + ")", kind: f.Kind,
+			text: f.Class == model.ClassText, effect: f.Class == model.ClassEffect, zero: f.Zero})
 	}
+	return out
 }
 
 // specMembers returns the JSON members of a Spec as raw values; members of
@@ -146,6 +130,12 @@ func compactJSON(raw json.RawMessage) string {
 }
 
 func (f specField) format(raw json.RawMessage, ascii bool) string {
+	if f.effect {
+		if string(raw) == "true" {
+			return "off"
+		}
+		return "on"
+	}
 	if raw == nil || string(raw) == "null" {
 		if f.zero != "" {
 			return f.zero
@@ -176,7 +166,7 @@ func (f specField) format(raw json.RawMessage, ascii bool) string {
 }
 
 func (f specField) number(raw json.RawMessage) (float64, bool) {
-	if f.text || raw == nil {
+	if f.text || f.effect || raw == nil {
 		return 0, false
 	}
 	v, err := strconv.ParseFloat(strings.TrimSpace(string(raw)), 64)
@@ -244,10 +234,10 @@ func Diff(a, b *Document, ascii bool) []Change {
 		va, oka := f.number(ra)
 		vb, okb := f.number(rb)
 		if ra == nil {
-			va, oka = 0, !f.text
+			va, oka = 0, !f.text && !f.effect
 		}
 		if rb == nil {
-			vb, okb = 0, !f.text
+			vb, okb = 0, !f.text && !f.effect
 		}
 		if oka && okb {
 			d = Delta(f.kind, va, vb, ascii)

@@ -9,6 +9,9 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
+
 	"junco/model"
 	"junco/physics"
 	"junco/sessions"
@@ -25,71 +28,77 @@ type calcOptions struct {
 	ideal  bool
 }
 
-// specFlag is a flag.Value that parses a trade-unit value into a Spec field.
-type specFlag struct {
-	kind  model.Kind
-	set   func(float64)
+// specValue is a flag.Value on one field of the junction catalogue
+// (model.Catalogue): it parses a value in trade units (a number field), a
+// word (a text field) or a boolean (an effect switch) and sets the field
+// of the Spec it points at. It keeps the text it was given, so that the
+// flag can be applied again on top of a junction loaded from a session.
+type specValue struct {
+	f     model.CatalogueField
+	spec  *model.Spec
 	shown string
+	on    bool // an effect switch's value
 }
 
-func (f *specFlag) String() string { return f.shown }
-func (f *specFlag) Set(s string) error {
-	v, err := model.ParseValue(f.kind, s)
-	if err != nil {
-		return err
+// String implements flag.Value.
+func (v *specValue) String() string {
+	if v == nil {
+		return ""
 	}
-	f.set(v)
-	f.shown = s
+	if v.f.Class == model.ClassEffect {
+		return strconv.FormatBool(v.on)
+	}
+	return v.shown
+}
+
+// Set implements flag.Value.
+func (v *specValue) Set(s string) error {
+	switch v.f.Class {
+	case model.ClassValue:
+		x, err := model.ParseValue(v.f.Kind, s)
+		if err != nil {
+			return err
+		}
+		v.f.SetValue(v.spec, x)
+	case model.ClassText:
+		if v.f.Lower {
+			s = strings.ToLower(s)
+		}
+		v.f.SetText(v.spec, s)
+	case model.ClassEffect:
+		b, err := strconv.ParseBool(s)
+		if err != nil {
+			return fmt.Errorf("allowed true or false (the flag alone means true)")
+		}
+		v.on = b
+		v.f.SetOff(v.spec, b)
+	}
+	v.shown = s
 	return nil
 }
 
+// IsBoolFlag makes an effect switch a boolean flag (--no-srh alone is
+// true).
+func (v *specValue) IsBoolFlag() bool { return v.f.Class == model.ClassEffect }
+
+// reapply sets the field again from the text given: after a session's
+// junction replaced the Spec, the flags typed override its values.
+func (v *specValue) reapply() error { return v.Set(v.shown) }
+
 // newCalcFlags builds the flag set shared by calc and the commands that
-// take a junction on the command line.
+// take a junction on the command line: one flag per entry of the junction
+// catalogue (model.Catalogue), then calc's own.
 func newCalcFlags(o *calcOptions, stderr io.Writer) *flag.FlagSet {
 	fs := flag.NewFlagSet("calc", flag.ContinueOnError)
 	fs.SetOutput(stderr)
-	s := &o.spec
-	val := func(name string, k model.Kind, set func(float64), help string) {
-		fs.Var(&specFlag{kind: k, set: set}, name, fmt.Sprintf("%s (bare number: %s)", help, model.DefaultUnit(k)))
+	for _, f := range model.Catalogue() {
+		help := f.Help
+		if f.Class == model.ClassValue {
+			help = fmt.Sprintf("%s (bare number: %s)", help, model.DefaultUnit(f.Kind))
+		}
+		fs.Var(&specValue{f: f, spec: &o.spec}, f.Flag, help)
 	}
-	fs.Func("material", "semiconductor: si, ge, gaas, 4h-sic (default si)", func(v string) error {
-		s.Material = strings.ToLower(v)
-		return nil
-	})
-	fs.Func("profile", "doping profile: abrupt or linear (default abrupt)", func(v string) error {
-		s.Profile = strings.ToLower(v)
-		return nil
-	})
-	val("na", model.Density, func(v float64) { s.AcceptorDensity = v }, "acceptor doping of the p side, e.g. 1e16cm-3")
-	val("nd", model.Density, func(v float64) { s.DonorDensity = v }, "donor doping of the n side, e.g. 1e15cm-3")
-	val("gradient", model.Gradient, func(v float64) { s.Gradient = v }, "net-doping gradient of a linear profile, e.g. 1e20cm-4")
-	fs.StringVar(&s.AcceptorSpecies, "acceptor", "", "acceptor species, e.g. boron (default: the material's usual one)")
-	fs.StringVar(&s.DonorSpecies, "donor", "", "donor species, e.g. phosphorus or arsenic")
-	val("temp", model.Temperature, func(v float64) { s.Temperature = v }, "temperature, e.g. 300K or 27C (default 300 K)")
-	val("area", model.Area, func(v float64) { s.Area = v }, "junction area, e.g. 1mm2, 1e-4cm2, 100um2 (default 1 mm^2)")
-	val("bias", model.Voltage, func(v float64) { s.Bias = v }, "applied bias, forward positive (p side positive), e.g. -5V, 0.6V")
-	val("wp", model.Length, func(v float64) { s.PWidth = v }, "quasi-neutral width of the p side, e.g. 200um (omitted: long)")
-	val("wn", model.Length, func(v float64) { s.NWidth = v }, "quasi-neutral width of the n side (omitted: long)")
-	val("taun", model.Time, func(v float64) { s.ElectronLifetime = v }, "electron lifetime in the p side, e.g. 1us (omitted: doping-dependent default)")
-	val("taup", model.Time, func(v float64) { s.HoleLifetime = v }, "hole lifetime in the n side (omitted: default)")
-	val("sp", model.Velocity, func(v float64) { s.PContactVelocity = &v }, "recombination velocity of the p-side contact, e.g. 1e3cm/s (omitted: ohmic)")
-	val("sn", model.Velocity, func(v float64) { s.NContactVelocity = &v }, "recombination velocity of the n-side contact (omitted: ohmic)")
-	val("rc", model.Resistance, func(v float64) { s.ContactResistance = v }, "contact and lead resistance in series, e.g. 0.5ohm (omitted: none)")
-	val("rsh", model.Resistance, func(v float64) { s.ShuntResistance = v }, "shunt resistance across the junction, e.g. 1Mohm (omitted: none)")
-	val("tp", model.Length, func(v float64) { s.PThickness = v }, "thickness of a long p layer for its resistance and punch-through (omitted: 300 um)")
-	val("tn", model.Length, func(v float64) { s.NThickness = v }, "thickness of a long n layer, e.g. a 525um substrate (omitted: 300 um)")
-	val("power-limit", model.Power, func(v float64) { s.PowerLimit = v }, "flag a bias or sweep dissipating more than this, e.g. 250mW (omitted: 1 W)")
-	val("if", model.Current, func(v float64) { s.ForwardCurrent = v }, "reference forward current of VF, dVF/dT and the storage time (omitted: 1 mA)")
-	val("ir", model.Current, func(v float64) { s.ReverseCurrent = v }, "reverse current the diode is switched to for the storage time (omitted: equal to --if)")
-	fs.BoolVar(&s.Effects.NoSRH, "no-srh", false, "effect off: depletion-region SRH recombination and generation")
-	fs.BoolVar(&s.Effects.NoHighInjection, "no-hli", false, "effect off: high injection")
-	fs.BoolVar(&s.Effects.NoSeriesResistance, "no-rs", false, "effect off: series resistance of the regions and --rc")
-	fs.BoolVar(&s.Effects.NoBGN, "no-bgn", false, "effect off: band-gap narrowing")
-	fs.BoolVar(&s.Effects.NoIonisation, "no-ion", false, "effect off: incomplete ionisation (dopants fully ionised)")
-	fs.BoolVar(&s.Effects.NoBreakdown, "no-breakdown", false, "effect off: avalanche breakdown search and multiplication")
 	fs.BoolVar(&o.ideal, "ideal", false, "every effect off: the ideal Shockley diode (a shunt set with --rsh still applies)")
-	fs.StringVar(&s.Effects.BGNModel, "bgn-model", "", "band-gap narrowing set: klaassen1992 (default) or slotboom1976")
-	fs.StringVar(&s.Effects.IonisationModel, "ion-model", "", "dopant levels of incomplete ionisation: single-level (default) or lowered")
 	fs.StringVar(&o.sweep, "sweep", "", "bias sweep FROM:TO:STEP, e.g. -2V:0.9V:10mV: one row per bias")
 	fs.StringVar(&o.tsweep, "tsweep", "", "temperature sweep FROM:TO:STEP, e.g. 250K:400K:10K: Is, VF at --if, dVF/dT, breakdown")
 	fs.BoolVar(&o.csv, "csv", false, "with --sweep or --tsweep: CSV with unit-labelled headers (SI) instead of a table")
@@ -99,9 +108,7 @@ func newCalcFlags(o *calcOptions, stderr io.Writer) *flag.FlagSet {
 }
 
 // calcHelp is the description printed by `junco calc --help`.
-const calcHelp = `Usage: junco calc [flags]
-
-Evaluate one pn junction: depletion-approximation electrostatics, the ideal
+const calcHelp = `Evaluate one pn junction: depletion-approximation electrostatics, the ideal
 (Shockley) diffusion currents and, on by default, the non-ideal effects of a
 real diode. Values take units (1e17cm-3, 300K, 1mm2, 10ohm); a bare number
 takes the unit named in brackets. Positive bias is forward.
@@ -122,18 +129,91 @@ Shockley current.
 Sweeps: --sweep FROM:TO:STEP (bias) or --tsweep FROM:TO:STEP (temperature),
 as a table or, with --csv, as CSV with unit-labelled SI headers.
 
-Caution: ` + model.Caution + `
+Sessions: --session NAME|FILE starts from a stored junction (the flags given
+override its values); --save NAME stores the evaluated junction.
 
-Flags:`
+Caution: ` + model.Caution
 
-// runCalc implements `junco calc`.
-func runCalc(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	o := calcOptions{spec: model.DefaultSpec()}
-	sess, args, err := calcSessionOptions(args)
+// addCalcSessionFlags defines the session flags of calc (all) and solve
+// (--session and --data; --save hidden, only to say it belongs to calc).
+func addCalcSessionFlags(fs *pflag.FlagSet, sess *calcSessionArgs, all bool) {
+	fs.StringVar(&sess.Session, "session", "", "start from a stored session or a session file `NAME|FILE` (flags override its values)")
+	fs.StringVar(&sess.DataDir, "data", "", "session store `DIR` (default $XDG_DATA_HOME/junco, else ~/.local/share/junco)")
+	fs.StringVar(&sess.Save, "save", "", "store the evaluated junction as a new session, or as the next revision of `NAME`")
+	if !all {
+		_ = fs.MarkHidden("save")
+		return
+	}
+	fs.BoolVar(&sess.Next, "next-revision", false, "with --save: when another save of NAME came first, save again on top of it\n(retrying), so that scripts saving at the same time lose nothing and fail\nnothing. Never automatic: without it such a save stores nothing and exits 1")
+	fs.StringVar(&sess.Author, "author", "", "who saves, a `NAME` (default $USER)")
+}
+
+// checkSessionFlags refuses a session flag given with an empty value.
+func checkSessionFlags(cmd *cobra.Command) error {
+	for _, n := range []string{"session", "save", "data", "author"} {
+		if f := cmd.Flags().Lookup(n); f != nil && f.Changed && f.Value.String() == "" {
+			return usagef(cmd, "flag --%s needs a non-empty value", n)
+		}
+	}
+	return nil
+}
+
+// loadSessionSpec replaces spec by the junction of --session, when given,
+// and applies the junction flags of fs that were typed (typed(name)) again
+// on top of it: the flags override the session's values.
+func loadSessionSpec(cmdName string, sess calcSessionArgs, spec *model.Spec, fs *flag.FlagSet, typed func(string) bool, stderr io.Writer) int {
+	if sess.Session == "" {
+		return exitOK
+	}
+	loaded, err := loadSpecForCalc(sess.DataDir, sess.Session)
 	if err != nil {
-		fmt.Fprintf(stderr, "junco calc: %v\n", err)
+		fmt.Fprintf(stderr, "junco %s: --session %s: %v\n", cmdName, sess.Session, err)
 		return exitUsage
 	}
+	*spec = loaded
+	code := exitOK
+	fs.VisitAll(func(f *flag.Flag) {
+		if v, ok := f.Value.(*specValue); ok && typed(f.Name) {
+			if err := v.reapply(); err != nil {
+				fmt.Fprintf(stderr, "junco %s: --%s: %v\n", cmdName, f.Name, err)
+				code = exitUsage
+			}
+		}
+	})
+	return code
+}
+
+// newCalcCmd is `junco calc`.
+func newCalcCmd(e *env) *cobra.Command {
+	o := &calcOptions{spec: model.DefaultSpec()}
+	var sess calcSessionArgs
+	var gfs *flag.FlagSet
+	cmd := &cobra.Command{
+		Use:   "calc [flags]",
+		Short: "evaluate one junction",
+		Long:  calcHelp,
+		Args:  noArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			if err := checkSessionFlags(cmd); err != nil {
+				return err
+			}
+			if code := loadSessionSpec("calc", sess, &o.spec, gfs, cmd.Flags().Changed, e.stderr); code != exitOK {
+				return exited(code)
+			}
+			return exited(runCalc(e.ctx, o, sess, e.stdout, e.stderr))
+		},
+	}
+	e.lazyFlags(cmd, func() {
+		gfs = newCalcFlags(o, io.Discard)
+		cmd.Flags().AddGoFlagSet(gfs)
+		addCalcSessionFlags(cmd.Flags(), &sess, true)
+	})
+	return cmd
+}
+
+// runCalc runs `junco calc` on parsed options: o holds the junction (the
+// session's, when --session was given, with the flags typed on top).
+func runCalc(ctx context.Context, o *calcOptions, sess calcSessionArgs, stdout, stderr io.Writer) int {
 	if sess.Save != "" {
 		if err := sessions.ValidateName(sess.Save); err != nil {
 			fmt.Fprintf(stderr, "junco calc: --save: %v\n", err)
@@ -142,34 +222,6 @@ func runCalc(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	}
 	if sess.Next && sess.Save == "" {
 		fmt.Fprintln(stderr, "junco calc: --next-revision needs --save NAME")
-		return exitUsage
-	}
-	if sess.Session != "" {
-		spec, err := loadSpecForCalc(sess.DataDir, sess.Session)
-		if err != nil {
-			fmt.Fprintf(stderr, "junco calc: --session %s: %v\n", sess.Session, err)
-			return exitUsage
-		}
-		o.spec = spec
-	}
-	fs := newCalcFlags(&o, stderr)
-	fs.Usage = func() {
-		fmt.Fprintln(stderr, calcHelp)
-		fmt.Fprintln(stderr, "  -session NAME|FILE\n    \tstart from a stored session or a session file (flags override its values)")
-		fmt.Fprintln(stderr, "  -save NAME\n    \tstore the evaluated junction as a new session, or as the next revision of NAME")
-		fmt.Fprintln(stderr, "  -next-revision\n    \twith --save: when another save of NAME came first, save again on top of it\n    \t(retrying), so that scripts saving at the same time lose nothing and fail\n    \tnothing. Never automatic: without it such a save stores nothing and exits 1")
-		fmt.Fprintln(stderr, "  -data DIR\n    \tsession store (default $XDG_DATA_HOME/junco, else ~/.local/share/junco)")
-		fmt.Fprintln(stderr, "  -author NAME\n    \twho saves (default $USER)")
-		fs.PrintDefaults()
-	}
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			return exitOK
-		}
-		return exitUsage
-	}
-	if fs.NArg() > 0 {
-		fmt.Fprintf(stderr, "junco calc: unexpected argument %q\n", fs.Arg(0))
 		return exitUsage
 	}
 	if o.ideal {
@@ -185,9 +237,9 @@ func runCalc(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintln(stderr, "junco calc: give --sweep or --tsweep, not both")
 		return exitUsage
 	case o.sweep != "":
-		return runSweep(ctx, o, stdout, stderr)
+		return runSweep(ctx, *o, stdout, stderr)
 	case o.tsweep != "":
-		return runTSweep(ctx, o, stdout, stderr)
+		return runTSweep(ctx, *o, stdout, stderr)
 	case o.csv:
 		fmt.Fprintln(stderr, "junco calc: --csv needs --sweep or --tsweep")
 		return exitUsage

@@ -81,7 +81,7 @@ func TestCalcEffectSwitches(t *testing.T) {
 	if m["series_resistance_ohm"].(float64) != 0 || m["shunt_current_A"].(float64) <= 0.006 {
 		t.Errorf("--no-rs --rsh: Rs %v, shunt %v", m["series_resistance_ohm"], m["shunt_current_A"])
 	}
-	_, _, help := runCLI(t, "calc", "--help")
+	_, help, _ := runCLI(t, "calc", "--help")
 	for _, w := range []string{"--no-srh", "--sweep", "--tsweep", "power-limit", "rated limits"} {
 		if !strings.Contains(help, w) {
 			t.Errorf("help lacks %q", w)

@@ -1,7 +1,8 @@
 // Package cli is junco's command line: one file per command (calc, solve,
 // fit, sessions, open, serve), each with an options struct and a run
-// function that tests call directly with in-memory streams. main.go only
-// hands it the process's arguments, streams and signal context.
+// function that tests call directly with in-memory streams, all parsed by
+// one command tree (command.go). main.go only hands it the process's
+// arguments, streams and signal context.
 package cli
 
 import (
@@ -9,55 +10,34 @@ import (
 	"fmt"
 	"io"
 	"strconv"
-	"strings"
+
+	"github.com/spf13/cobra"
 )
 
-// Exit codes.
+// Exit codes: the one mapping from errors to them is exitCode.
 const (
 	exitOK      = 0
 	exitFailure = 1
 	exitUsage   = 2
+	// exitInterrupted is the exit status of a command stopped by SIGINT
+	// or SIGTERM (128 + SIGINT, the shell convention).
+	exitInterrupted = 130
 )
 
-// Run dispatches a subcommand and returns the process exit code.
+// Run runs the command line and returns the process exit code.
 func Run(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) int {
-	return run(ctx, args, stdin, stdout, stderr)
+	return execute(ctx, args, stdin, stdout, stderr)
 }
 
-// run dispatches a subcommand and returns the process exit code.
+// run runs the command line and returns the process exit code.
 func run(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) int {
-	if len(args) == 0 || (strings.HasPrefix(args[0], "-") && args[0] != "-h" && args[0] != "--help" && args[0] != "--version") {
-		return runWorkbench(ctx, args, stdout, stderr)
-	}
-	switch args[0] {
-	case "calc":
-		return runCalc(ctx, args[1:], stdout, stderr)
-	case "fit":
-		return runFit(ctx, args[1:], stdout, stderr)
-	case "solve":
-		return runSolve(ctx, args[1:], stdout, stderr)
-	case "sessions":
-		return runSessions(ctx, args[1:], stdout, stderr)
-	case "serve":
-		return runServe(ctx, args[1:], stdout, stderr)
-	case "workbench", "open":
-		return runWorkbench(ctx, args[1:], stdout, stderr)
-	case "help", "-h", "--help":
-		usage(stdout)
-		return exitOK
-	case "version", "--version":
-		fmt.Fprintln(stdout, "junco", Version)
-		return exitOK
-	}
-	fmt.Fprintf(stderr, "junco: unknown command %q\n\n", args[0])
-	usage(stderr)
-	return exitUsage
+	return execute(ctx, args, stdin, stdout, stderr)
 }
 
 // boolFlag reads a boolean flag given as --name (true) or --name=VALUE,
 // VALUE one of those strconv.ParseBool accepts (true, false, 1, 0, t, f):
-// the one reading of a boolean flag for the parsers that do not use the
-// flag package (the workbench's, the SSH command filter).
+// the reading of a boolean flag for the SSH command filter, which checks
+// a remote user's words before they reach the command tree.
 func boolFlag(name, val string, hasVal bool) (bool, error) {
 	if !hasVal {
 		return true, nil
@@ -72,19 +52,57 @@ func boolFlag(name, val string, hasVal bool) (bool, error) {
 // Version is the tool version written into sessions and reports.
 const Version = "0.1.0"
 
-func usage(w io.Writer) {
-	fmt.Fprint(w, `junco: a terminal workbench for pn junctions and diodes
+const rootHelp = `junco: a terminal workbench for pn junctions and diodes
 
-Usage:
   junco                      open the workbench on the built-in demo session
   junco calc [flags]         evaluate one junction (junco calc --help)
-  junco solve [flags]        solve it numerically (drift-diffusion) beside calc (junco solve --help)
+  junco solve [flags]        solve it numerically (drift-diffusion) beside calc
   junco open NAME|FILE       open the workbench on a stored session or a file
   junco fit iv|cv|arrhenius|batch ...
                              extract diode parameters from measured data
   junco sessions list|show|history|diff|export|import|trash|restore ...
-                             the session store (junco sessions help)
+                             the session store
   junco serve [flags]        serve the workbench over SSH to a lab group
-  junco help                 this text
-`)
+  junco completion bash|zsh|fish
+                             a shell completion script
+  junco version              the version of this build
+
+Every command has its own page: junco COMMAND --help. Exit status: 0 done,
+1 failed, 2 bad usage or input (one line on stderr), 130 interrupted.`
+
+// printVersion writes the version line of junco version and --version.
+// (Cobra's own --version would format it with text/template, whose use
+// keeps every method of the program in the binary: 4 MB and a slower
+// start.)
+func printVersion(w io.Writer) error {
+	_, err := fmt.Fprintln(w, "junco", buildVersion())
+	return err
+}
+
+// newRootCmd builds the command tree. Run with no command, junco opens the
+// workbench (workbench.go).
+func newRootCmd(e *env) *cobra.Command {
+	root := newWorkbenchCmd(e)
+	root.AddCommand(
+		newCalcCmd(e),
+		newSolveCmd(e),
+		newOpenCmd(e),
+		newFitCmd(e),
+		newSessionsCmd(e),
+		newServeCmd(e),
+		&cobra.Command{
+			Use:   "version",
+			Short: "print the version of this build",
+			Args:  noArgs,
+			RunE:  func(*cobra.Command, []string) error { return printVersion(e.stdout) },
+		},
+	)
+	root.SetOut(e.stdout) // the completion scripts are written where it says now
+	root.InitDefaultCompletionCmd()
+	for _, c := range root.Commands() {
+		if c.Name() == "completion" {
+			commandGroup(c, "shell")
+		}
+	}
+	return root
 }

@@ -8,8 +8,10 @@ import (
 	"io"
 	"io/fs"
 	"math"
-	"strconv"
 	"strings"
+
+	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
 
 	"junco/model"
 	"junco/model/fit"
@@ -17,39 +19,36 @@ import (
 	"junco/physics/extract"
 )
 
-// runFit implements `junco fit SUBCOMMAND ...`; args are the words after
-// "fit". Exit codes: 0 success, 2 bad input (arguments, files, data), 1
-// other failures (a fit that does not converge, an interrupted batch, an
-// output that cannot be written).
+// runFit runs `junco fit ARGS...` (args are the words after "fit")
+// through the command tree. Exit codes: 0 success, 2 bad input (arguments,
+// files, data), 1 other failures (a fit that does not converge, an output
+// that cannot be written), 130 interrupted.
 func runFit(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	if len(args) == 0 {
-		fitUsage(stderr)
-		return exitUsage
-	}
-	sub, rest := args[0], args[1:]
-	var code int
-	switch sub {
-	case "iv":
-		code = fitRunIV(ctx, rest, stdout, stderr)
-	case "cv":
-		code = fitRunCV(ctx, rest, stdout, stderr)
-	case "arrhenius":
-		code = fitRunArrhenius(ctx, rest, stdout, stderr)
-	case "batch":
-		code = fitRunBatch(ctx, rest, stdout, stderr)
-	case "help", "-h", "--help":
-		fitUsage(stdout)
-		return exitOK
-	default:
-		fmt.Fprintf(stderr, "junco fit: unknown subcommand %q (choose iv, cv, arrhenius or batch)\n\n", sub)
-		fitUsage(stderr)
-		return exitUsage
-	}
-	return code
+	return execute(ctx, append([]string{"fit"}, args...), nil, stdout, stderr)
 }
 
-func fitUsage(w io.Writer) {
-	fmt.Fprint(w, `Usage:
+// fitFlag defines one option of a fit subcommand: arg names its value in
+// the help ("" for a boolean option).
+type fitFlag struct{ name, arg, help string }
+
+// fitSub is one fit subcommand: its usage line, help and options, and the
+// run function it calls with the parsed arguments. Adding a subcommand is
+// one file holding its fitSub and run function, plus one line in fitSubs.
+type fitSub struct {
+	use, short, long string
+	flags            []fitFlag
+	run              func(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) int
+}
+
+// fitSubs lists the fit subcommands in help order.
+func fitSubs() []fitSub {
+	return []fitSub{fitIVSub, fitCVSub, fitArrheniusSub, fitBatchSub}
+}
+
+// fitHelp is the page of `junco fit --help`: every subcommand in short.
+const fitHelp = `Extract diode parameters from measured data. Each subcommand has its own
+page: junco fit SUBCOMMAND --help.
+
   junco fit iv FILE... [--temp T] [--window V1:V2] [--model single|double]
                        [--compliance I] [--floor I]
                        [--leakage-at V] [--model-card NAME] [--json] [--ascii]
@@ -96,13 +95,17 @@ func fitUsage(w io.Writer) {
       marks dies out of limits and prints the yield (n:1.0:1.2, Rs::5ohm);
       --report writes a Markdown report with SVG wafer maps beside it.
 
---save-to NAME (fit iv and cv) stores each data set fitted (IDs iv-1, cv-1,
+` + fitSaveHelp + "\n\n" + fitDataHelp
+
+// fitSaveHelp tells what --save-to and --data do (fit iv and cv).
+const fitSaveHelp = `--save-to NAME (fit iv and cv) stores each data set fitted (IDs iv-1, cv-1,
 ...) and its fit (parameters with standard errors; window and residual in
 the notes) as the next revision of session NAME, created with the default
 junction when missing; failed fits are not stored. --data DIR selects the
-session store (default $XDG_DATA_HOME/junco, else ~/.local/share/junco).
+session store (default $XDG_DATA_HOME/junco, else ~/.local/share/junco).`
 
-Data files: CSV or TSV with a header naming voltage and current (or
+// fitDataHelp tells what data files the fits read and the units of values.
+const fitDataHelp = `Data files: CSV or TSV with a header naming voltage and current (or
 capacitance) columns, units in the header (V, mV; A, mA, uA, nA, pA; F, pF,
 fF). The temperature is the file's own (a temperature column, else a
 "# temperature: 300 K" comment), else --temp, else 300 K assumed (fit iv
@@ -114,9 +117,62 @@ estimated from the reverse and near-zero-bias scatter; forward points below
 3 floors are left out and the rest weighted by 1 % relative plus floor
 noise; each such step is said in a note.
 Values take units: --temp 300K or 27C (bare: K), --area 1mm2, 1e-4cm2 or
-100um2 (bare: cm^2), --parasitic 2pF (bare: F), --window 0.1:0.7 or 100mV:700mV (bare: V), --current
-1mA (bare: A).
-`)
+100um2 (bare: cm^2), --parasitic 2pF (bare: F), --window 0.1:0.7 or
+100mV:700mV (bare: V), --current 1mA (bare: A).`
+
+// newFitCmd is `junco fit` and its subcommands.
+func newFitCmd(e *env) *cobra.Command {
+	cmd := &cobra.Command{Use: "fit SUBCOMMAND", Short: "extract diode parameters from measured data", Long: fitHelp}
+	commandGroup(cmd, "subcommand")
+	for _, s := range fitSubs() {
+		cmd.AddCommand(s.command(e))
+	}
+	return cmd
+}
+
+// command builds the cobra command of a fit subcommand.
+func (s fitSub) command(e *env) *cobra.Command {
+	c := &cobra.Command{Use: s.use, Short: s.short, Long: s.long, Args: cobra.ArbitraryArgs}
+	var collect func(pos []string) *fitArgs
+	e.lazyFlags(c, func() { collect = defineFitFlags(c.Flags(), s.flags) })
+	c.RunE = func(_ *cobra.Command, args []string) error {
+		return exited(s.run(e.ctx, collect(args), e.stdout, e.stderr))
+	}
+	return c
+}
+
+// fitValues is a valued fit option: every occurrence is kept, in order
+// (fit arrhenius reads all its --temp lists; the others the last value).
+type fitValues struct {
+	name, arg string
+	vals      map[string][]string
+}
+
+func (v *fitValues) String() string     { return strings.Join(v.vals[v.name], ",") }
+func (v *fitValues) Set(s string) error { v.vals[v.name] = append(v.vals[v.name], s); return nil }
+func (v *fitValues) Type() string       { return v.arg }
+
+// defineFitFlags defines flags on fs and returns the function that collects
+// the parsed options with the positional arguments.
+func defineFitFlags(fs *pflag.FlagSet, flags []fitFlag) func(pos []string) *fitArgs {
+	vals := map[string][]string{}
+	bools := map[string]*bool{}
+	for _, f := range flags {
+		if f.arg == "" {
+			b := new(bool)
+			bools[f.name] = b
+			fs.BoolVar(b, f.name, false, f.help)
+			continue
+		}
+		fs.Var(&fitValues{name: f.name, arg: f.arg, vals: vals}, f.name, f.help)
+	}
+	return func(pos []string) *fitArgs {
+		a := &fitArgs{vals: vals, bools: map[string]bool{}, pos: pos}
+		for n, b := range bools {
+			a.bools[n] = *b
+		}
+		return a
+	}
 }
 
 // fitUsageError marks bad arguments (exit 2).
@@ -160,93 +216,22 @@ func (a *fitArgs) str(name string) (string, bool) {
 	return v[len(v)-1], true
 }
 
-// fitParseArgs reads --name value, --name=value and boolean --name, in any
-// order with the positional arguments; "--" ends the options.
+// fitParseArgs parses args with the options named (valued take a value,
+// boolean none) by the same definitions as the fit commands.
 func fitParseArgs(cmd string, args []string, valued, boolean []string) (*fitArgs, error) {
-	a := &fitArgs{vals: map[string][]string{}, bools: map[string]bool{}}
-	isVal := map[string]bool{}
-	isBool := map[string]bool{}
-	var names []string
+	var flags []fitFlag
 	for _, n := range valued {
-		isVal[n] = true
-		names = append(names, "--"+n+" VALUE")
+		flags = append(flags, fitFlag{name: n, arg: "VALUE"})
 	}
 	for _, n := range boolean {
-		isBool[n] = true
-		names = append(names, "--"+n)
+		flags = append(flags, fitFlag{name: n})
 	}
-	for k := 0; k < len(args); k++ {
-		s := args[k]
-		if s == "--" {
-			a.pos = append(a.pos, args[k+1:]...)
-			break
-		}
-		if !strings.HasPrefix(s, "-") || s == "-" || fitLooksNumeric(s) {
-			a.pos = append(a.pos, s)
-			continue
-		}
-		name := strings.TrimLeft(s, "-")
-		val, hasVal := "", false
-		if i := strings.IndexByte(name, '='); i >= 0 {
-			name, val, hasVal = name[:i], name[i+1:], true
-		}
-		switch {
-		case name == "h" || name == "help":
-			a.bools["help"] = true
-		case isBool[name]:
-			if hasVal {
-				b, err := strconv.ParseBool(val)
-				if err != nil {
-					return nil, fitBad("junco fit %s: --%s=%q: expected true or false", cmd, name, val)
-				}
-				a.bools[name] = b
-			} else {
-				a.bools[name] = true
-			}
-		case isVal[name]:
-			if !hasVal {
-				if k+1 >= len(args) {
-					return nil, fitBad("junco fit %s: --%s needs a value", cmd, name)
-				}
-				k++
-				val = args[k]
-			}
-			a.vals[name] = append(a.vals[name], val)
-		default:
-			return nil, fitBad("junco fit %s: unknown option %q (options: %s)", cmd, s, strings.Join(names, ", "))
-		}
+	c := &cobra.Command{Use: cmd}
+	collect := defineFitFlags(c.Flags(), flags)
+	if err := c.Flags().Parse(normalizeArgs(c, args)); err != nil {
+		return nil, flagError(c, err)
 	}
-	return a, nil
-}
-
-// fitStart parses the arguments of a fit subcommand; done says the caller
-// returns code at once: bad arguments (the message on stderr, exit 2) or
-// --help (the usage on stdout, exit 0).
-func fitStart(cmd string, args, valued, boolean []string, stdout, stderr io.Writer) (a *fitArgs, code int, done bool) {
-	a, err := fitParseArgs(cmd, args, valued, boolean)
-	if err != nil {
-		fmt.Fprintln(stderr, err)
-		return nil, exitUsage, true
-	}
-	if a.bools["help"] {
-		fitUsage(stdout)
-		return nil, exitOK, true
-	}
-	return a, exitOK, false
-}
-
-// fitStartCommon is fitStart followed by fitParseCommon.
-func fitStartCommon(cmd string, args, valued, boolean []string, stdout, stderr io.Writer) (*fitArgs, fitCommon, int, bool) {
-	a, code, done := fitStart(cmd, args, valued, boolean, stdout, stderr)
-	if done {
-		return nil, fitCommon{}, code, true
-	}
-	c, err := fitParseCommon(cmd, a)
-	if err != nil {
-		fmt.Fprintln(stderr, err)
-		return nil, c, exitUsage, true
-	}
-	return a, c, exitOK, false
+	return collect(c.Flags().Args()), nil
 }
 
 // fitTextTail writes the lines that end a fit's text report: strong
@@ -261,11 +246,6 @@ func fitTextTail(tw io.Writer, corr []fitCorrelation, notes []string, card strin
 	if card != "" {
 		fmt.Fprintf(tw, "model card\t\t%s\n", card)
 	}
-}
-
-// fitLooksNumeric keeps negative numbers ("-0.5:0.5") positional.
-func fitLooksNumeric(s string) bool {
-	return len(s) > 1 && s[0] == '-' && (s[1] >= '0' && s[1] <= '9' || s[1] == '.')
 }
 
 // fitTemperatureFlag parses a temperature (300K, 27C; bare K) in 1..2000 K.

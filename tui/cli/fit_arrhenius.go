@@ -42,12 +42,38 @@ type fitArrheniusReport struct {
 	Notes                []string          `json:"notes,omitempty"`
 }
 
-func fitRunArrhenius(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	a, c, code, done := fitStartCommon("arrhenius", args, []string{"temp", "window", "dtau-exponent", "gamma", "current"}, []string{"json", "ascii"}, stdout, stderr)
-	if done {
-		return code
+// fitArrheniusSub is `junco fit arrhenius`.
+var fitArrheniusSub = fitSub{
+	use:   "arrhenius FILE... [flags]",
+	short: "saturation current against temperature: activation energy",
+	long: `Saturation current against temperature: activation energy from
+Is = C T^(3+G/2) exp(-Ea/kT); with --current also dVF/dT at that current.
+Give I-V curves at 3 or more temperatures. --dtau-exponent G (default 0) is
+the exponent of the temperature dependence of D/tau (D/tau ~ T^G), not the
+prefactor's exponent: the prefactor is T^(3+G/2), printed as "prefactor
+exponent". --gamma is its deprecated old name. The standard error of Ea is
+widened by sqrt(reduced chi-square) when the points scatter more than their
+errors.
+
+` + fitDataHelp,
+	flags: []fitFlag{
+		{"temp", "T1,T2,...", "temperature of each file, in file order, for files that state none (repeatable)"},
+		{"window", "V1:V2", "forward-bias window of each fit, e.g. 0.1:0.7"},
+		{"dtau-exponent", "G", "exponent of D/tau against T (D/tau ~ T^G; Is ~ T^(3+G/2) exp(-Ea/kT)), default 0"},
+		{"gamma", "G", "deprecated old name of --dtau-exponent"},
+		{"current", "I", "also give dVF/dT at this forward current, e.g. 1mA"},
+		{"json", "", "print JSON in SI units instead of text"},
+		{"ascii", "", "plain ASCII output (u for micro)"},
+	},
+	run: fitRunArrhenius,
+}
+
+func fitRunArrhenius(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) int {
+	c, err := fitParseCommon("arrhenius", a)
+	if err != nil {
+		fmt.Fprintln(stderr, err)
+		return exitUsage
 	}
-	var err error
 	files := a.pos
 	if len(files) < 3 {
 		fmt.Fprintf(stderr, "junco fit arrhenius: %d files given; an activation energy with an error estimate needs I-V curves at 3 or more temperatures\n", len(files))

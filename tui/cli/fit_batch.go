@@ -19,16 +19,50 @@ import (
 	"junco/physics/extract"
 )
 
-func fitRunBatch(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	a, c, code, done := fitStartCommon("batch", args, []string{"jobs", "csv", "temp", "window", "model", "compliance", "floor", "map", "limit", "report"}, []string{"json", "ascii"}, stdout, stderr)
-	if done {
-		return code
+// fitBatchSub is `junco fit batch`.
+var fitBatchSub = fitSub{
+	use:   "batch DIR|FILE... [flags]",
+	short: "fit many I-V files in parallel, with a summary per parameter",
+	long: `Fit many I-V files in parallel: the files named and every .csv, .tsv, .txt
+and .dat file under each directory (subdirectories too, hidden entries
+skipped), in sorted order; summary per parameter (median, quartiles,
+outliers; log scale for Is, Is2 and Rsh) and a CSV table (--csv -, standard
+output). Ctrl-C keeps the rows done. Die positions come from a dies.csv
+manifest (file,x,y[,wafer,lot]) in the files' folder, else from names like
+die_x03_y07 or r07c03. --map draws the wafer map of PARAM (Is, n, Rs, Rsh,
+Is2); --limit marks dies out of limits and prints the yield (n:1.0:1.2,
+Rs::5ohm); --report writes a Markdown report with SVG wafer maps beside it.
+
+` + fitDataHelp,
+	flags: []fitFlag{
+		{"jobs", "N", "workers fitting at once, 1..1024 (default: the number of CPUs)"},
+		{"csv", "OUT", "write the table of every file's parameters as CSV to OUT (- for standard output)"},
+		{"temp", "T", "temperature for files that state none, e.g. 300K (else 300 K assumed)"},
+		{"window", "V1:V2", "forward-bias window of each fit, e.g. 0.1:0.7"},
+		{"model", "single|double", "diode model: single or double"},
+		{"compliance", "I", "the instrument's current compliance: points clipped at it are left out (else found from each sweep)"},
+		{"floor", "I", "the noise floor of the current (else estimated from each file)"},
+		{"map", "PARAM", "draw the wafer map of PARAM: Is, n, Rs, Rsh or Is2"},
+		{"limit", "PARAM:MIN:MAX", "mark dies out of limits and print the yield, e.g. n:1.0:1.2 or Rs::5ohm (repeatable)"},
+		{"report", "FILE.md", "write a Markdown report with SVG wafer maps beside it"},
+		{"json", "", "print JSON in SI units instead of text"},
+		{"ascii", "", "plain ASCII output (u for micro)"},
+	},
+	run: fitRunBatch,
+}
+
+func fitRunBatch(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) int {
+	c, err := fitParseCommon("batch", a)
+	if err != nil {
+		fmt.Fprintln(stderr, err)
+		return exitUsage
 	}
 	wo, err := fitParseWafer(a)
 	if err != nil {
 		fmt.Fprintln(stderr, err)
 		return exitUsage
 	}
+	code := exitOK
 	jobs := runtime.NumCPU()
 	if s, ok := a.str("jobs"); ok {
 		if jobs, err = strconv.Atoi(s); err != nil || jobs < 1 || jobs > 1024 {

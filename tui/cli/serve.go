@@ -2,8 +2,6 @@ package cli
 
 import (
 	"context"
-	"errors"
-	"flag"
 	"fmt"
 	"io"
 	"log/slog"
@@ -15,6 +13,8 @@ import (
 	"time"
 
 	tea "github.com/charmbracelet/bubbletea"
+	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
 
 	"junco/sessions"
 	"junco/tui"
@@ -29,11 +29,8 @@ type serveOptions struct {
 	uploadMiB, inboxMiB             int64
 }
 
-const serveUsage = `Usage: junco serve [--listen ADDR] [--data DIR] [--host-key FILE]
-                   [--authorized-keys FILE] [--idle DURATION] [--max-conn N]
-                   [--upload-max-mib N] [--inbox-max-mib N]
-
-Serve the workbench over SSH to a lab group. Logins are by public key only;
+// serveHelp is the page of `junco serve --help`.
+const serveHelp = `Serve the workbench over SSH to a lab group. Logins are by public key only;
 each line of the authorized-keys file (OpenSSH format) names its user in the
 comment field, and the SSH login name must equal it. Each user's sessions
 live under DIR/users/USER. Files reach the server only through each
@@ -41,35 +38,43 @@ user's inbox, DIR/users/USER/inbox (mode 0700): "scp FILE USER@HOST:"
 (also with -O) and "sftp USER@HOST" land there, and the workbench's
 import and batch screens read nothing else. The keys file is re-read
 when it changes and on SIGHUP; SIGINT or SIGTERM stop the server after
-writing recovery drafts.
+writing recovery drafts.`
 
-Flags:
-`
-
-// runServe implements `junco serve`.
+// runServe runs `junco serve ARGS...` through the command tree.
 func runServe(ctx context.Context, args []string, stdout, stderr io.Writer) int {
+	return execute(ctx, append([]string{"serve"}, args...), nil, stdout, stderr)
+}
+
+// newServeCmd is `junco serve`.
+func newServeCmd(e *env) *cobra.Command {
 	var o serveOptions
-	fs := flag.NewFlagSet("serve", flag.ContinueOnError)
-	fs.SetOutput(stderr)
-	fs.StringVar(&o.listen, "listen", serve.DefaultListen, "address to listen on (binding beyond loopback is an explicit choice)")
-	fs.StringVar(&o.data, "data", "", "server data directory (default $XDG_DATA_HOME/junco-server, else ~/.local/share/junco-server)")
-	fs.StringVar(&o.hostKey, "host-key", "", "ed25519 host key, created with mode 0600 on first start (default DATA/host/ed25519)")
-	fs.StringVar(&o.authKeys, "authorized-keys", "", "OpenSSH authorized-keys file; each key's comment is its user (default DATA/authorized_keys)")
+	cmd := &cobra.Command{
+		Use:   "serve [flags]",
+		Short: "serve the workbench over SSH to a lab group",
+		Long:  serveHelp,
+		Args:  noArgs,
+		RunE: func(*cobra.Command, []string) error {
+			return exited(runServeOptions(e.ctx, o, e.stdout, e.stderr))
+		},
+	}
+	e.lazyFlags(cmd, func() { addServeFlags(cmd.Flags(), &o) })
+	return cmd
+}
+
+// addServeFlags defines the flags of junco serve.
+func addServeFlags(fs *pflag.FlagSet, o *serveOptions) {
+	fs.StringVar(&o.listen, "listen", serve.DefaultListen, "`ADDR`ess to listen on (binding beyond loopback is an explicit choice)")
+	fs.StringVar(&o.data, "data", "", "server data directory `DIR` (default $XDG_DATA_HOME/junco-server, else ~/.local/share/junco-server)")
+	fs.StringVar(&o.hostKey, "host-key", "", "ed25519 host key `FILE`, created with mode 0600 on first start (default DATA/host/ed25519)")
+	fs.StringVar(&o.authKeys, "authorized-keys", "", "OpenSSH authorized-keys `FILE`; each key's comment is its user (default DATA/authorized_keys)")
 	fs.DurationVar(&o.idle, "idle", 30*time.Minute, "close connections idle this long (0: never)")
 	fs.IntVar(&o.maxConn, "max-conn", 32, "most concurrent connections")
 	fs.Int64Var(&o.uploadMiB, "upload-max-mib", sessions.DefaultInboxFileBytes>>20, "largest file a user may upload to the inbox, in MiB (1 to 65536)")
 	fs.Int64Var(&o.inboxMiB, "inbox-max-mib", sessions.DefaultInboxUserBytes>>20, "most a user's inbox may hold in all, in MiB (1 to 1048576, at least --upload-max-mib)")
-	fs.Usage = func() { fmt.Fprint(stderr, serveUsage); fs.PrintDefaults() }
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			return exitOK
-		}
-		return exitUsage
-	}
-	if fs.NArg() > 0 {
-		fmt.Fprintf(stderr, "junco serve: unexpected argument %q\n", fs.Arg(0))
-		return exitUsage
-	}
+}
+
+// runServeOptions runs `junco serve` on parsed options until ctx ends.
+func runServeOptions(ctx context.Context, o serveOptions, stdout, stderr io.Writer) int {
 	if o.maxConn < 1 || o.maxConn > 10000 {
 		fmt.Fprintf(stderr, "junco serve: --max-conn %d: allowed 1 to 10000\n", o.maxConn)
 		return exitUsage

@@ -11,15 +11,12 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/spf13/cobra"
+
 	"junco/model"
 	"junco/physics"
 	"junco/physics/solver"
 )
-
-// exitInterrupted is the exit status of a solve stopped by SIGINT or
-// SIGTERM (128 + SIGINT, the shell convention); the points finished are
-// still written.
-const exitInterrupted = 130
 
 // solveOptions holds the inputs of `junco solve`: the junction flags of
 // `junco calc` and the numeric refinements.
@@ -213,9 +210,7 @@ func newSolveFlags(o *solveOptions, stderr io.Writer) *flag.FlagSet {
 }
 
 // solveHelp is the description printed by `junco solve --help`.
-const solveHelp = `Usage: junco solve [flags]
-
-Solve the junction numerically: Poisson's equation and the electron and
+const solveHelp = `Solve the junction numerically: Poisson's equation and the electron and
 hole continuity equations on a mesh (drift-diffusion), side by side with
 the analytic values of junco calc, so that you see where the depletion
 approximation and the diode formulas stop being trustworthy. The junction
@@ -238,47 +233,41 @@ profile device, --nodes N the mesh; each choice made for you is flagged.
 Outputs: a comparison table (default), --json, --csv profile|iv|cv.
 --sweep and --cv report progress on stderr and stop on Ctrl-C, writing the
 points finished; the exit status is then 130. Exit 1: the iteration did
-not converge (the message names the bias); exit 2: bad input.
+not converge (the message names the bias); exit 2: bad input.`
 
-Flags:`
+// newSolveCmd is `junco solve`.
+func newSolveCmd(e *env) *cobra.Command {
+	o := &solveOptions{calc: calcOptions{spec: model.DefaultSpec()}}
+	var sess calcSessionArgs
+	var gfs *flag.FlagSet
+	cmd := &cobra.Command{
+		Use:   "solve [flags]",
+		Short: "solve the junction numerically (drift-diffusion) beside calc",
+		Long:  solveHelp,
+		Args:  noArgs,
+		RunE: func(cmd *cobra.Command, _ []string) error {
+			if err := checkSessionFlags(cmd); err != nil {
+				return err
+			}
+			if sess.Save != "" {
+				return usagef(cmd, "--save is not available here: store the junction with junco calc --save")
+			}
+			if code := loadSessionSpec("solve", sess, &o.calc.spec, gfs, cmd.Flags().Changed, e.stderr); code != exitOK {
+				return exited(code)
+			}
+			return exited(runSolve(e.ctx, o, e.stdout, e.stderr))
+		},
+	}
+	e.lazyFlags(cmd, func() {
+		gfs = newSolveFlags(o, io.Discard)
+		cmd.Flags().AddGoFlagSet(gfs)
+		addCalcSessionFlags(cmd.Flags(), &sess, false)
+	})
+	return cmd
+}
 
-// runSolve implements `junco solve`.
-func runSolve(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	o := solveOptions{calc: calcOptions{spec: model.DefaultSpec()}}
-	sess, args, err := calcSessionOptions(args)
-	if err != nil {
-		fmt.Fprintf(stderr, "junco solve: %v\n", err)
-		return exitUsage
-	}
-	if sess.Save != "" {
-		fmt.Fprintln(stderr, "junco solve: --save is not available here: store the junction with junco calc --save")
-		return exitUsage
-	}
-	if sess.Session != "" {
-		spec, err := loadSpecForCalc(sess.DataDir, sess.Session)
-		if err != nil {
-			fmt.Fprintf(stderr, "junco solve: --session %s: %v\n", sess.Session, err)
-			return exitUsage
-		}
-		o.calc.spec = spec
-	}
-	fs := newSolveFlags(&o, stderr)
-	fs.Usage = func() {
-		fmt.Fprintln(stderr, solveHelp)
-		fmt.Fprintln(stderr, "  -session NAME|FILE\n    \tstart from a stored session or a session file (flags override its values)")
-		fmt.Fprintln(stderr, "  -data DIR\n    \tsession store (default $XDG_DATA_HOME/junco, else ~/.local/share/junco)")
-		fs.PrintDefaults()
-	}
-	if err := fs.Parse(args); err != nil {
-		if errors.Is(err, flag.ErrHelp) {
-			return exitOK
-		}
-		return exitUsage
-	}
-	if fs.NArg() > 0 {
-		fmt.Fprintf(stderr, "junco solve: unexpected argument %q\n", fs.Arg(0))
-		return exitUsage
-	}
+// runSolve runs `junco solve` on parsed options.
+func runSolve(ctx context.Context, o *solveOptions, stdout, stderr io.Writer) int {
 	if o.calc.ideal {
 		bgn, im := o.calc.spec.Effects.BGNModel, o.calc.spec.Effects.IonisationModel
 		o.calc.spec.Effects = model.IdealEffects()

@@ -331,7 +331,7 @@ func TestSolveConvergenceFailure(t *testing.T) {
 
 // Help and dispatch.
 func TestSolveHelp(t *testing.T) {
-	code, _, errs := runCLI(t, "solve", "--help")
+	code, errs, _ := runCLI(t, "solve", "--help")
 	if code != 0 {
 		t.Fatalf("exit %d", code)
 	}

@@ -8,7 +8,6 @@ import (
 	"os"
 	"os/signal"
 	"path/filepath"
-	"strconv"
 	"strings"
 	"syscall"
 	"time"
@@ -16,6 +15,8 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/lipgloss"
 	"github.com/charmbracelet/x/term"
+	"github.com/spf13/cobra"
+	"github.com/spf13/pflag"
 
 	"junco/sessions"
 	"junco/tui"
@@ -46,89 +47,110 @@ func (o workbenchOptions) drawASCII(getenv func(string) string) bool {
 	return tui.DetectASCII(getenv)
 }
 
-// parseWorkbenchArgs reads the workbench's arguments: --ascii, --data
-// DIR, --rev N, --help, and at most one session NAME or FILE.
-func parseWorkbenchArgs(args []string) (o workbenchOptions, help bool, err error) {
-	for i := 0; i < len(args); i++ {
-		a := args[i]
-		name, val, hasVal := strings.Cut(strings.TrimLeft(a, "-"), "=")
-		isFlag := strings.HasPrefix(a, "-") && a != "-" && len(a)-len(strings.TrimLeft(a, "-")) <= 2
-		value := func() (string, error) {
-			if hasVal {
-				return val, nil
-			}
-			if i+1 >= len(args) {
-				return "", fmt.Errorf("--%s needs a value", name)
-			}
-			i++
-			return args[i], nil
-		}
-		switch {
-		case a == "--":
-			for _, p := range args[i+1:] {
-				if o.target != "" {
-					return o, false, fmt.Errorf("unexpected argument %q: the workbench opens one session NAME or FILE", p)
-				}
-				o.target = p
-			}
-			return o, help, nil
-		case isFlag && name == "ascii":
-			if o.ascii, err = boolFlag(name, val, hasVal); err != nil {
-				return o, false, err
-			}
-			o.asciiSet = true
-		case isFlag && (name == "h" || name == "help"):
-			help = true
-		case isFlag && name == "data":
-			v, err := value()
-			if err != nil {
-				return o, false, err
-			}
-			if strings.TrimSpace(v) == "" {
-				return o, false, errors.New("--data: the data directory is empty; give a directory")
-			}
-			o.data = v
-		case isFlag && name == "rev":
-			v, err := value()
-			if err != nil {
-				return o, false, err
-			}
-			n, err := strconv.Atoi(v)
-			if err != nil || n < 1 {
-				return o, false, fmt.Errorf("--rev %q: allowed a revision number, 1 or more (omit it for the newest)", v)
-			}
-			o.rev = n
-		case isFlag:
-			return o, false, fmt.Errorf("unknown flag %q (the workbench takes --ascii, --data DIR and --rev N)", a)
-		case o.target != "":
-			return o, false, fmt.Errorf("unexpected argument %q: the workbench opens one session NAME or FILE", a)
-		default:
-			o.target = a
-		}
-	}
-	if o.rev > 0 && (o.target == "" || looksLikePath(o.target)) {
-		return o, false, errors.New("--rev N needs a session NAME from the store")
-	}
-	return o, help, nil
+// addWorkbenchFlags defines the workbench's flags on fs: --ascii[=BOOL],
+// --data DIR, --rev N.
+func addWorkbenchFlags(fs *pflag.FlagSet, o *workbenchOptions) {
+	fs.BoolVar(&o.ascii, "ascii", false, "draw with plain ASCII characters (also chosen automatically when the locale has no UTF-8;\n--ascii=false draws Unicode whatever the locale; NO_COLOR turns colour off)")
+	fs.StringVar(&o.data, "data", "", "the session store `DIR` (default $XDG_DATA_HOME/junco, else ~/.local/share/junco); saves are signed with $USER, else the account name")
+	fs.IntVar(&o.rev, "rev", 0, "open revision `N` of session NAME instead of the newest")
 }
 
-const workbenchUsage = `Usage: junco [workbench] [--ascii] [--data DIR]
-       junco open NAME [--rev N] [--ascii] [--data DIR]
-       junco open FILE [--ascii] [--data DIR]
+// check completes and checks the options after parsing: fs tells whether
+// --ascii was given; args are the positional arguments (at most one
+// session NAME or FILE).
+func (o *workbenchOptions) check(fs *pflag.FlagSet, args []string) error {
+	o.asciiSet = fs.Changed("ascii")
+	if len(args) > 1 {
+		return fmt.Errorf("unexpected argument %q: the workbench opens one session NAME or FILE", args[1])
+	}
+	if len(args) == 1 {
+		o.target = args[0]
+	}
+	if fs.Changed("data") && strings.TrimSpace(o.data) == "" {
+		return errors.New("--data: the data directory is empty; give a directory")
+	}
+	if fs.Changed("rev") && o.rev < 1 {
+		return fmt.Errorf("--rev %q: allowed a revision number, 1 or more (omit it for the newest)", fs.Lookup("rev").Value.String())
+	}
+	if o.rev > 0 && (o.target == "" || looksLikePath(o.target)) {
+		return errors.New("--rev N needs a session NAME from the store")
+	}
+	return nil
+}
 
-Open the interactive workbench: on the built-in demo junction (invented demo
+// parseWorkbenchArgs reads the workbench's arguments with its flag
+// definitions (addWorkbenchFlags): --ascii, --data DIR, --rev N, --help,
+// and at most one session NAME or FILE.
+func parseWorkbenchArgs(args []string) (o workbenchOptions, help bool, err error) {
+	cmd := &cobra.Command{Use: "open"}
+	addWorkbenchFlags(cmd.Flags(), &o)
+	cmd.Flags().BoolVarP(&help, "help", "h", false, "help")
+	fs := cmd.Flags()
+	if err := fs.Parse(normalizeArgs(cmd, args)); err != nil {
+		return o, false, flagError(cmd, err)
+	}
+	return o, help, o.check(fs, fs.Args())
+}
+
+const workbenchHelp = `Open the interactive workbench: on the built-in demo junction (invented demo
 data) when no session is given, on a stored session NAME (its newest
 revision, or revision N), or on a session FILE from elsewhere (a .json file
 or a path). A file is stored as a new session only when you save it, under
-the name you choose. Press ? inside for the guide and every key.
+the name you choose. Press ? inside for the guide and every key.`
 
-  --ascii      draw with plain ASCII characters (also chosen automatically
-               when the locale has no UTF-8; --ascii=false draws Unicode
-               whatever the locale; NO_COLOR turns colour off)
-  --data DIR   the session store (default $XDG_DATA_HOME/junco, else
-               ~/.local/share/junco); saves are signed with $USER, else the account name
-  --rev N      open revision N of session NAME instead of the newest
-`
+// newWorkbenchCmd is the root of the command tree: junco alone opens the
+// workbench on the demo session.
+func newWorkbenchCmd(e *env) *cobra.Command {
+	var o workbenchOptions
+	var version bool
+	cmd := &cobra.Command{
+		Use:   "junco",
+		Short: "a terminal workbench for pn junctions and diodes",
+		Long:  rootHelp,
+		Args:  func(c *cobra.Command, args []string) error { return unknownCommand(c, args) },
+		RunE: func(c *cobra.Command, args []string) error {
+			if version {
+				return printVersion(e.stdout)
+			}
+			if err := o.check(c.Flags(), nil); err != nil {
+				return usagef(c, "%v", err)
+			}
+			return exited(runWorkbench(e.ctx, o, e.stdout, e.stderr))
+		},
+	}
+	addWorkbenchFlags(cmd.Flags(), &o)
+	cmd.Flags().BoolVar(&version, "version", false, "print the version of this build")
+	return cmd
+}
+
+// unknownCommand refuses words after junco that name no command.
+func unknownCommand(c *cobra.Command, args []string) error {
+	if len(args) > 0 {
+		return usagef(c, "unknown command %q", args[0])
+	}
+	return nil
+}
+
+// newOpenCmd is junco open (also junco workbench): the workbench on a
+// stored session or a session file.
+func newOpenCmd(e *env) *cobra.Command {
+	var o workbenchOptions
+	cmd := &cobra.Command{
+		Use:     "open [NAME|FILE] [--rev N] [--ascii] [--data DIR]",
+		Aliases: []string{"workbench"},
+		Short:   "open the workbench on a stored session or a session file",
+		Long:    workbenchHelp,
+		Args:    cobra.ArbitraryArgs,
+		RunE: func(c *cobra.Command, args []string) error {
+			if err := o.check(c.Flags(), args); err != nil {
+				return usagef(c, "%v", err)
+			}
+			return exited(runWorkbench(e.ctx, o, e.stdout, e.stderr))
+		},
+	}
+	e.lazyFlags(cmd, func() { addWorkbenchFlags(cmd.Flags(), &o) })
+	return cmd
+}
 
 // workbenchUser names who saves (currentUser), else "unknown".
 func workbenchUser() string {
@@ -198,16 +220,7 @@ func workbenchModel(o workbenchOptions, base tui.Options) (tui.Model, error) {
 }
 
 // runWorkbench opens the interactive workbench on the terminal.
-func runWorkbench(ctx context.Context, args []string, stdout, stderr io.Writer) int {
-	o, help, err := parseWorkbenchArgs(args)
-	if err != nil {
-		fmt.Fprintf(stderr, "junco: %v\n\n%s", err, workbenchUsage)
-		return exitUsage
-	}
-	if help {
-		fmt.Fprint(stdout, workbenchUsage)
-		return exitOK
-	}
+func runWorkbench(ctx context.Context, o workbenchOptions, stdout, stderr io.Writer) int {
 	if !term.IsTerminal(os.Stdin.Fd()) || !term.IsTerminal(os.Stdout.Fd()) {
 		fmt.Fprintln(stderr, "junco: the workbench needs an interactive terminal; for scripts use `junco calc` and `junco sessions`")
 		return exitUsage

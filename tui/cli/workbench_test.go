@@ -28,7 +28,7 @@ func TestParseWorkbenchArgs(t *testing.T) {
 		{[]string{"--rev", "0", "d7"}, workbenchOptions{}, `--rev "0": allowed a revision number, 1 or more`},
 		{[]string{"--rev", "2"}, workbenchOptions{}, "--rev N needs a session NAME"},
 		{[]string{"--data"}, workbenchOptions{}, "--data needs a value"},
-		{[]string{"--colour"}, workbenchOptions{}, `unknown flag "--colour"`},
+		{[]string{"--colour"}, workbenchOptions{}, `unknown option "--colour"`},
 	} {
 		got, _, err := parseWorkbenchArgs(c.args)
 		if c.err != "" {
