@@ -3,6 +3,7 @@ package model
 import (
 	"fmt"
 	"math"
+	"strings"
 
 	"junco/physics"
 )
@@ -92,4 +93,21 @@ func efficiencyOf(s Spec, pmax float64) float64 {
 		return pmax / (irr * s.Area)
 	}
 	return math.NaN()
+}
+
+// ParseLightPair reads monochromatic light written WAVELENGTH:POWER_DENSITY,
+// e.g. "650nm:100mW/cm2", into SI (m, W/m^2); a bare wavelength is in um
+// and a bare power density in mW/cm^2 (the kinds' trade units).
+func ParseLightPair(text string) (wavelength, power float64, err error) {
+	parts := strings.Split(text, ":")
+	if len(parts) != 2 {
+		return 0, 0, fmt.Errorf("%q: want WAVELENGTH:POWER_DENSITY, e.g. 650nm:100mW/cm2", text)
+	}
+	if wavelength, err = ParseValue(Length, parts[0]); err != nil {
+		return 0, 0, err
+	}
+	if power, err = ParseValue(PowerDensity, parts[1]); err != nil {
+		return 0, 0, err
+	}
+	return wavelength, power, nil
 }

@@ -26,6 +26,9 @@ type calcOptions struct {
 	sweep  string // bias sweep FROM:TO:STEP
 	tsweep string // temperature sweep FROM:TO:STEP
 	ideal  bool
+	// absorption is the absorption table given as --absorption FILE (nil
+	// when --absorption gave a value or nothing).
+	absorption *model.AbsorptionTable
 }
 
 // specValue is a flag.Value on one field of the junction catalogue
@@ -96,8 +99,14 @@ func newCalcFlags(o *calcOptions, stderr io.Writer) *flag.FlagSet {
 		if f.Class == model.ClassValue {
 			help = fmt.Sprintf("%s (bare number: %s)", help, model.DefaultUnit(f.Kind))
 		}
-		fs.Var(&specValue{f: f, spec: &o.spec}, f.Flag, help)
+		sv := &specValue{f: f, spec: &o.spec}
+		if f.Flag == model.FieldAbsorption {
+			fs.Var(&absorptionFlag{sv: sv, o: o}, f.Flag, help+"; or a FILE: a CSV table of wavelength and absorption with units in its header, e.g. \"wavelength (nm), alpha (1/cm)\" (junco ships none)")
+			continue
+		}
+		fs.Var(sv, f.Flag, help)
 	}
+	fs.Var(&lightPairFlag{spec: &o.spec}, "light", "monochromatic light WAVELENGTH:POWER_DENSITY, e.g. 650nm:100mW/cm2 (sets --wavelength and --light-power; give --absorption too)")
 	fs.BoolVar(&o.ideal, "ideal", false, "every effect off: the ideal Shockley diode (a shunt set with --rsh still applies)")
 	fs.StringVar(&o.sweep, "sweep", "", "bias sweep FROM:TO:STEP, e.g. -2V:0.9V:10mV: one row per bias")
 	fs.StringVar(&o.tsweep, "tsweep", "", "temperature sweep FROM:TO:STEP, e.g. 250K:400K:10K: Is, VF at --if, dVF/dT, breakdown")
@@ -228,6 +237,10 @@ func runCalc(ctx context.Context, o *calcOptions, sess calcSessionArgs, stdout, 
 		bgn, im := o.spec.Effects.BGNModel, o.spec.Effects.IonisationModel
 		o.spec.Effects = model.IdealEffects()
 		o.spec.Effects.BGNModel, o.spec.Effects.IonisationModel = bgn, im
+	}
+	if err := o.applyAbsorption(); err != nil {
+		fmt.Fprintf(stderr, "junco calc: %v\n", err)
+		return exitUsage
 	}
 	if err := o.spec.Validate(); err != nil {
 		return reportError(stderr, err)

@@ -32,6 +32,7 @@ type solveOptions struct {
 	face      string
 	cv        string
 	csv       string
+	qe        string // wavelengths FROM:TO:STEP of the quantum efficiency
 }
 
 // shapeFlag is a repeatable flag.Value that parses one doping shape.
@@ -196,6 +197,7 @@ func newSolveFlags(o *solveOptions, stderr io.Writer) *flag.FlagSet {
 		fs.Var(f.Value, f.Name, f.Usage)
 	})
 	fs.StringVar(&o.cv, "cv", "", "numeric C-V sweep FROM:TO:STEP, e.g. -5V:0V:0.5V (quasi-static depletion capacitance)")
+	fs.StringVar(&o.qe, "qe", "", "internal quantum efficiency at wavelengths FROM:TO:STEP, e.g. 400nm:1000nm:50nm, analytic and numeric (with --absorption FILE, or one --absorption value for every wavelength)")
 	fs.StringVar(&o.csv, "csv", "", "CSV with unit-labelled SI headers: profile (the solution along the device), iv (with --sweep) or cv (with --cv)")
 	fs.StringVar(&o.lengths, "lengths", "", "lengths of the p and n regions P:N, e.g. 5um:50um; auto for either (default: width + depletion edge, or 5 diffusion lengths for a long region)")
 	fs.StringVar(&o.length, "length", "", "device length of a profile device (--base donor|acceptor|none), e.g. 20um (default: deepest feature + 20 um)")
@@ -281,10 +283,16 @@ func runSolve(ctx context.Context, o *solveOptions, stdout, stderr io.Writer) in
 		fmt.Fprintln(stderr, "junco solve:", err)
 		return exitUsage
 	}
+	if err := o.calc.applyAbsorption(); err != nil {
+		fmt.Fprintln(stderr, "junco solve:", err)
+		return exitUsage
+	}
 	if code, bad := o.validate(stderr); bad {
 		return code
 	}
 	switch {
+	case o.qe != "":
+		return o.runQE(ctx, stdout, stderr)
 	case o.calc.sweep != "":
 		return o.runIV(ctx, stdout, stderr)
 	case o.cv != "":
@@ -304,6 +312,8 @@ func (o *solveOptions) checkModes() string {
 	switch {
 	case o.calc.sweep != "" && o.cv != "":
 		return "give --sweep or --cv, not both (each is its own sweep)"
+	case o.qe != "" && (o.calc.sweep != "" || o.cv != "" || o.csv != ""):
+		return "--qe is its own table: it does not go with --sweep, --cv or --csv"
 	case o.calc.json && o.csv != "":
 		return "give --json or --csv, not both"
 	case o.csv == "iv" && o.calc.sweep == "":
