@@ -1,0 +1,157 @@
+package extract
+
+import (
+	"fmt"
+	"math"
+
+	"junco/physics"
+)
+
+// CardDiode is the static I-V part of a SPICE-style diode model card with
+// its temperature scaling:
+//
+//	I = IS(T) (exp(Vj/(N Vt)) - 1) + ISR(T) (exp(Vj/(NR Vt)) - 1) + Vj/RSH,  V = Vj + I RS,
+//	IS(T)  = IS  (T/TNOM)^(XTI/N)  exp(EG/(N k)  (1/TNOM - 1/T)),
+//	ISR(T) = ISR (T/TNOM)^(XTI/NR) exp(EG/(NR k) (1/TNOM - 1/T)),
+//
+// with Vt = kT/q, k in eV/K, T and TNOM in K. ISR = 0 drops the
+// recombination term; RS does not vary with temperature (TRS = 0). RSH is
+// a shunt across the junction, which a .model cannot hold (the card's
+// subcircuit does); 0 or +Inf means none.
+// Units: IS, ISR in A; RS in ohm; EG in eV; temperatures in K. Valid for
+// forward and small reverse bias, above breakdown (BV is not modelled
+// here).
+// Source: Nagel, SPICE2, UC Berkeley ERL-M520 (1975), diode model
+// temperature dependence; the ISR/NR term as in the ngspice manual
+// (diode model, recombination current); both from memory, and checked
+// against the simulator itself in the card tests of model/fit.
+type CardDiode struct {
+	IS, N, RS float64 // A, -, ohm
+	ISR, NR   float64 // A, -; ISR = 0: no recombination term
+	EG, XTI   float64 // eV, -
+	TNOMK     float64 // K
+	RSH       float64 // ohm; 0 or +Inf: no shunt
+}
+
+// Saturation returns IS(T) and ISR(T) in A at temperature t (K).
+func (d CardDiode) Saturation(t float64) (is, isr float64) {
+	x := (1/d.TNOMK - 1/t) / (physics.KB / physics.Q)
+	l := math.Log(t / d.TNOMK)
+	is = d.IS * math.Exp((d.XTI*l+d.EG*x)/d.N)
+	if d.ISR > 0 {
+		isr = d.ISR * math.Exp((d.XTI*l+d.EG*x)/d.NR)
+	}
+	return is, isr
+}
+
+// junction returns the junction current (with the shunt) and its
+// derivative at vj.
+func (d CardDiode) junction(vj, vt, is, isr float64) (i, di float64) {
+	e := math.Exp(vj / (d.N * vt))
+	i, di = is*(e-1), is*e/(d.N*vt)
+	if d.RSH > 0 && !math.IsInf(d.RSH, 1) {
+		i += vj / d.RSH
+		di += 1 / d.RSH
+	}
+	if isr > 0 {
+		e2 := math.Exp(vj / (d.NR * vt))
+		i += isr * (e2 - 1)
+		di += isr * e2 / (d.NR * vt)
+	}
+	return i, di
+}
+
+// Current returns the terminal current (A) at bias v (V) and temperature t
+// (K), solving V = Vj + I RS for the junction voltage by safeguarded
+// Newton iteration (the residual is monotone in Vj, so bisection on
+// [min(0,V), max(0,V)] brackets the root). NaN for invalid parameters.
+func (d CardDiode) Current(v, t float64) float64 {
+	if !(d.IS > 0 && d.N > 0 && d.RS >= 0 && t > 0 && d.TNOMK > 0) || (d.ISR > 0 && !(d.NR > 0)) {
+		return math.NaN()
+	}
+	vt := physics.ThermalVoltage(t)
+	is, isr := d.Saturation(t)
+	vj := v
+	if d.RS > 0 {
+		lo, hi := math.Min(0, v), math.Max(0, v)
+		vj = 0.5 * (lo + hi)
+		for k := 0; k < 200; k++ {
+			j, dj := d.junction(vj, vt, is, isr)
+			f := vj + j*d.RS - v
+			if f > 0 {
+				hi = vj
+			} else {
+				lo = vj
+			}
+			next := vj - f/(1+dj*d.RS)
+			if !(next > lo && next < hi) {
+				next = 0.5 * (lo + hi)
+			}
+			if math.Abs(next-vj) < 1e-15+1e-13*math.Abs(vj) {
+				vj = next
+				break
+			}
+			vj = next
+		}
+	}
+	i, _ := d.junction(vj, vt, is, isr)
+	return i
+}
+
+// CardCurve is one forward I-V curve at one temperature for FitCardIV, with the bias window of the points to use (zero:
+// every forward point).
+type CardCurve struct {
+	TemperatureK float64
+	VoltageV     []float64
+	CurrentA     []float64
+	Window       Window
+}
+
+// FloorWindow returns the bias window of the forward points of an I-V
+// sweep that stand clear of the current noise floor: the floor is the
+// scatter of the currents measured within 2 kT/q of 0 V about a straight
+// line through them (the standard deviation of the residuals; a shunt's
+// real current lies on the line, noise does not), or their largest |I|
+// when fewer than 3 points lie there, and the window starts at the lowest
+// forward bias above which every current exceeds factor times that floor
+// (factor >= 1; 100 keeps the floor's share of each current near 1 %).
+// Without points near 0 V, or with no scatter, the window is every forward
+// point (zero Window). Units: V, A, K. Common practice: fits on a
+// log-current scale leave out the points the instrument floor dominates.
+func FloorWindow(v, i []float64, temperatureK, factor float64) (Window, error) {
+	if len(v) != len(i) {
+		return Window{}, inputErr("current", fmt.Sprintf("%d values", len(i)), fmt.Sprintf("%d values", len(v)), "one current per voltage")
+	}
+	if !(temperatureK >= 1 && temperatureK <= 2000) {
+		return Window{}, inputErr("TemperatureK", temperatureK, "1..2000 K", "2 kT/q sets the zero-bias band")
+	}
+	if !(factor >= 1) || math.IsInf(factor, 0) {
+		return Window{}, inputErr("factor", factor, ">= 1, finite", "multiple of the noise floor")
+	}
+	band := 2 * physics.ThermalVoltage(temperatureK)
+	var xs, ys []float64
+	floor := 0.0
+	for k := range v {
+		if math.Abs(v[k]) <= band && !math.IsNaN(i[k]) && !math.IsInf(i[k], 0) {
+			xs, ys = append(xs, v[k]), append(ys, i[k])
+			floor = math.Max(floor, math.Abs(i[k]))
+		}
+	}
+	if len(xs) >= 3 {
+		if f, ok := fitLine(xs, ys, nil); ok {
+			floor = math.Sqrt(f.s2)
+		}
+	}
+	p, _ := forwardPoints(v, i, Window{})
+	if len(xs) == 0 || !(floor > 0) || len(p.v) == 0 {
+		return Window{}, nil
+	}
+	start := len(p.v)
+	for k := len(p.v) - 1; k >= 0 && p.i[k] > factor*floor; k-- {
+		start = k
+	}
+	if got := len(p.v) - start; got < 5 {
+		return Window{}, tooFew("window", got, 5, fmt.Sprintf("forward currents above %g times the noise floor %.3g A (scatter of |I| within %.3g V of 0 V) are needed", factor, floor, band))
+	}
+	return Window{MinV: p.v[start], MaxV: p.v[len(p.v)-1]}, nil
+}
