@@ -221,6 +221,9 @@ func Card(ctx context.Context, in CardInputs) (*CardResult, error) {
 	for _, sw := range sweeps {
 		res.Ranges.ReverseV = math.Min(res.Ranges.ReverseV, minOf(sw.ds.VoltageV))
 	}
+	if in.CV != nil {
+		res.Ranges.ReverseV = math.Min(res.Ranges.ReverseV, minOf(in.CV.VoltageV))
+	}
 	if in.Reverse != nil {
 		res.Ranges.ReverseV = math.Min(res.Ranges.ReverseV, minOf(in.Reverse.VoltageV))
 		bf, err := extract.ExtractBreakdown(in.Reverse.VoltageV, in.Reverse.CurrentA)
@@ -249,6 +252,9 @@ func Card(ctx context.Context, in CardInputs) (*CardResult, error) {
 		c := CardCurve{File: cardFile(in, k), Temperature: sw.t, Window: sw.w, Reference: k == 0, DataSet: sw.ds}
 		vs, is := forwardIn(sw.ds, sw.w)
 		c.Points = len(vs)
+		if len(vs) > 0 {
+			c.Window = extract.Window{MinV: minOf(vs), MaxV: -minOf(negate(vs))}
+		}
 		ss := 0.0
 		for j := range vs {
 			r := math.Log(d.Current(vs[j], sw.t.K) / is[j])
@@ -299,4 +305,12 @@ func minOf(x []float64) float64 {
 		return 0
 	}
 	return m
+}
+
+func negate(x []float64) []float64 {
+	out := make([]float64, len(x))
+	for k, v := range x {
+		out[k] = -v
+	}
+	return out
 }

@@ -20,9 +20,8 @@ func cardJunction(ctx context.Context, ds *measure.DataSet) (*extract.JunctionCV
 	if err := ctx.Err(); err != nil {
 		return nil, se, nil, extract.Window{}, err
 	}
-	// The junction fit needs no area; the Mott-Schottky part of CV does,
-	// so a nominal 1 mm^2 of silicon is given and its doping not used.
-	r, err := CV(ds, CVOptions{AreaM2: 1e-6, Material: "si"})
+	// The junction fit needs no area (and no material beyond the default).
+	r, err := CVContext(ctx, ds, CVOptions{Material: "si"})
 	if err != nil {
 		return nil, se, nil, extract.Window{}, err
 	}
@@ -39,14 +38,16 @@ func cardJunction(ctx context.Context, ds *measure.DataSet) (*extract.JunctionCV
 		}
 		*vals[k], *errs[k] = p.Value, p.StdErr
 	}
+	notes := r.Notes
 	if !Finite(j.ParasiticCapacitanceF) {
 		j.ParasiticCapacitanceF = 0
+		notes = append(notes, "the C-V data do not determine the fixture capacitance Cpar: taken as 0")
 	}
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for _, v := range ds.VoltageV {
 		lo, hi = math.Min(lo, v), math.Max(hi, v)
 	}
-	return &j, se, r.Notes, extract.Window{MinV: lo, MaxV: hi}, nil
+	return &j, se, notes, extract.Window{MinV: lo, MaxV: hi}, nil
 }
 
 // cardParams maps the parameters to the card's fields; skip names the

@@ -93,4 +93,15 @@ func ParseRecovery(r io.Reader, name string) (*Recovery, error) {
 	return rc, nil
 }
 
+// ImportRecovery reads a recovery file from files (nil: the local file
+// system) under the fit's file policy (OpenDataFile) with ParseRecovery.
+func ImportRecovery(files model.Files, path string) (*Recovery, error) {
+	f, err := OpenDataFile(files, path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	return ParseRecovery(f, path)
+}
+
 func nan() float64 { return math.NaN() }
