@@ -89,6 +89,7 @@ type CardResult struct {
 	Diode    extract.CardDiode
 	Junction *extract.JunctionCV // C-V fit used (nil: none)
 	CVData   *measure.DataSet    // the C-V sweep (nil: none)
+	Recovery *Recovery           // the recovery measurement (nil: none)
 	Curves   []CardCurve
 	Ranges   CardRanges
 	// Cautions are the range warnings, breakdown first, then model.Caution.
@@ -158,22 +159,24 @@ func Card(ctx context.Context, in CardInputs) (*CardResult, error) {
 		curves = append(curves, extract.CardCurve{TemperatureK: sw.t.K, VoltageV: sw.ds.VoltageV, CurrentA: sw.ds.CurrentA, Window: sw.w})
 		temps[math.Round(sw.t.K*2)/2] = true
 	}
-	d, params, err := cardForward(ctx, in, ref.ds, ref.w, tnomK, curves, len(temps), res)
-	if err != nil {
-		return nil, err
-	}
-
-	// C-V.
+	// C-V first: its VJ and M enter the recombination term (Kgen).
 	var junction *extract.JunctionCV
+	var jse extract.JunctionCV
 	if in.CV != nil {
-		j, jse, jnotes, w, err := cardJunction(ctx, in.CV)
+		j, se, jnotes, w, err := cardJunction(ctx, in.CV)
 		if err != nil {
 			return nil, fmt.Errorf("--cv: %w", err)
 		}
 		res.Notes = append(res.Notes, jnotes...)
-		junction = j
+		junction, jse = j, se
 		res.Junction, res.CVData = j, in.CV
 		res.Ranges.CVBiasV = [2]float64{w.MinV, w.MaxV}
+	}
+	d, params, err := cardForward(ctx, in, ref.ds, ref.w, tnomK, curves, len(temps), junction, res)
+	if err != nil {
+		return nil, err
+	}
+	if j := junction; j != nil {
 		params = append(params,
 			CardParam{"CJO", "F", j.ZeroBiasCapacitanceF, jse.ZeroBiasCapacitanceF, FromCV},
 			CardParam{"VJ", "V", j.BuiltInPotentialV, jse.BuiltInPotentialV, FromCV},
@@ -188,6 +191,7 @@ func Card(ctx context.Context, in CardInputs) (*CardResult, error) {
 	switch {
 	case in.Recovery != nil:
 		rc := in.Recovery
+		res.Recovery = rc
 		tt, ttse, err := extract.TransitTimeFromStorage(rc.StorageS, rc.StdErrS, rc.ForwardA, rc.ReverseA)
 		if err != nil {
 			return nil, fmt.Errorf("--recovery: %w", err)

@@ -60,12 +60,22 @@ type CardCheckBV struct {
 	BiasV, IBV, SimulatedA float64
 }
 
+// CardCheckTT is the storage time of the card in a transient analysis:
+// the diode driven by a current step from ForwardA to -ReverseA, storage
+// ending when the junction voltage crosses 0 (the stored charge TT I is
+// gone). Reported, not judged: the card's depletion charge lengthens it.
+type CardCheckTT struct {
+	ForwardA, ReverseA    float64
+	MeasuredS, SimulatedS float64
+}
+
 // CardCheck is the result of running a card in the simulator.
 type CardCheck struct {
 	Deck string // the element checked: "model" or "subckt"
 	IV   []CardCheckIV
 	CV   *CardCheckCV
 	BV   *CardCheckBV
+	TT   *CardCheckTT
 	Pass bool // every IV and the CV pass
 }
 
@@ -156,7 +166,32 @@ func CheckCard(ctx context.Context, r *CardResult) (*CardCheck, error) {
 		}
 		chk.BV = &CardCheckBV{BiasV: -p.Value, IBV: ibv.Value, SimulatedA: -sim[0]}
 	}
+	if _, ok := r.Param("TT"); ok && r.Recovery != nil {
+		rc := r.Recovery
+		ts, err := runStorage(ctx, dir, netlist, element, tnom, rc.ForwardA, rc.ReverseA, rc.StorageS)
+		if err != nil {
+			return nil, fmt.Errorf("recovery: %w", err)
+		}
+		chk.TT = &CardCheckTT{ForwardA: rc.ForwardA, ReverseA: rc.ReverseA, MeasuredS: rc.StorageS, SimulatedS: ts}
+	}
 	return chk, nil
+}
+
+// runStorage returns the storage time (s) of the element driven from node
+// a by a current step from iF to -iR at 10 ts0: the time from the step to
+// the fall of V(a) through 0, by a transient with steps of ts0/500.
+func runStorage(ctx context.Context, dir, netlist, element string, tempK, iF, iR, ts0 float64) (float64, error) {
+	td := 10 * ts0
+	g := func(x float64) string { return strconv.FormatFloat(x, 'g', 8, 64) }
+	src := fmt.Sprintf("I1 0 a PULSE(%s %s %s %s %s 1 2)", g(iF), g(-iR), g(td), g(ts0/1000), g(ts0/1000))
+	text := deck(netlist, element, tempK, []string{"tran " + g(ts0/500) + " " + g(td+10*ts0), "meas tran tz when v(a)=0 fall=1", "print tz"})
+	// The source is a current step, not V1.
+	text = strings.Replace(text, "V1 a 0 dc 0 ac 1", src, 1)
+	out, err := runDeck(ctx, filepath.Join(dir, "tt.cir"), text, "tz =", 1, 1)
+	if err != nil {
+		return 0, err
+	}
+	return out[0] - td, nil
 }
 
 // deck writes a batch deck: the netlist, a source V1 from a to 0, the

@@ -18,7 +18,7 @@ import (
 // fit is better than without. It returns the diode, its parameters in card
 // order (IS, N, RS, ISR, NR, EG, XTI as measured) and adds notes to res.
 func cardForward(ctx context.Context, in CardInputs, ds *measure.DataSet, w extract.Window, tnomK float64,
-	curves []extract.CardCurve, ntemps int, res *CardResult) (extract.CardDiode, []CardParam, error) {
+	curves []extract.CardCurve, ntemps int, junction *extract.JunctionCV, res *CardResult) (extract.CardDiode, []CardParam, error) {
 	var d extract.CardDiode
 	single, err := IVContext(ctx, ds, IVOptions{Window: w, Model: extract.ModelSingle, Temperature: TemperatureRule{OptionK: tnomK}})
 	if err != nil {
@@ -29,6 +29,9 @@ func cardForward(ctx context.Context, in CardInputs, ds *measure.DataSet, w extr
 	}
 	s := single.Fit.Single
 	start := extract.CardDiode{IS: s.SaturationCurrentA, N: s.IdealityFactor, RS: s.SeriesResistanceOhm, TNOMK: tnomK, XTI: 3, RSH: s.ShuntResistanceOhm}
+	if junction != nil {
+		start.VJ, start.M = junction.BuiltInPotentialV, junction.GradingCoefficient
+	}
 	opt := extract.CardFitOptions{Series: start.RS > 0, Shunt: start.RSH > 0 && !math.IsInf(start.RSH, 1),
 		Temperature: ntemps >= 2, HoldXTI: ntemps == 2}
 	fitA, errA := cardFitSignificant(ctx, curves, start, opt)

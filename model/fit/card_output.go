@@ -181,3 +181,13 @@ func (r *CardResult) Beyond(v, i, t float64) []string {
 	}
 	return out
 }
+
+// cardDiodeOf is the static card of r's parameters (TNOM in degC).
+func cardDiodeOf(r *CardResult) extract.CardDiode {
+	c := cardParams(r.Params, "")
+	tnom := c.TNOM
+	if math.IsNaN(tnom) {
+		tnom = 0
+	}
+	return extract.CardDiode{IS: c.IS, N: c.N, RS: c.RS, ISR: c.ISR, NR: c.NR, EG: c.EG, XTI: c.XTI, TNOMK: tnom + 273.15, VJ: c.VJ, M: c.M}
+}

@@ -10,20 +10,24 @@ import (
 // CardDiode is the static I-V part of a SPICE-style diode model card with
 // its temperature scaling:
 //
-//	I = IS(T) (exp(Vj/(N Vt)) - 1) + ISR(T) (exp(Vj/(NR Vt)) - 1) + Vj/RSH,  V = Vj + I RS,
+//	I = IS(T) (exp(Vj/(N Vt)) - 1) + ISR(T) (exp(Vj/(NR Vt)) - 1) Kgen + Vj/RSH,  V = Vj + I RS,
+//	Kgen = ((1 - Vj/VJ)^2 + 0.005)^(M/2),
 //	IS(T)  = IS  (T/TNOM)^(XTI/N)  exp(EG/(N k)  (1/TNOM - 1/T)),
 //	ISR(T) = ISR (T/TNOM)^(XTI/NR) exp(EG/(NR k) (1/TNOM - 1/T)),
 //
 // with Vt = kT/q, k in eV/K, T and TNOM in K. ISR = 0 drops the
 // recombination term; RS does not vary with temperature (TRS = 0). RSH is
 // a shunt across the junction, which a .model cannot hold (the card's
-// subcircuit does); 0 or +Inf means none.
+// subcircuit does); 0 or +Inf means none. Kgen, the depletion-width
+// factor of the recombination current, uses the card's M and its VJ moved
+// to T (JunctionPotential; the simulator's defaults 1 V and 0.5 when the
+// card has none).
 // Units: IS, ISR in A; RS in ohm; EG in eV; temperatures in K. Valid for
 // forward and small reverse bias, above breakdown (BV is not modelled
 // here).
 // Source: Nagel, SPICE2, UC Berkeley ERL-M520 (1975), diode model
-// temperature dependence; the ISR/NR term as in the ngspice manual
-// (diode model, recombination current); both from memory, and checked
+// temperature dependence; the ISR/NR term with Kgen as in the ngspice
+// manual (diode model, recombination current); both from memory, checked
 // against the simulator itself in the card tests of model/fit.
 type CardDiode struct {
 	IS, N, RS float64 // A, -, ohm
@@ -31,6 +35,33 @@ type CardDiode struct {
 	EG, XTI   float64 // eV, -
 	TNOMK     float64 // K
 	RSH       float64 // ohm; 0 or +Inf: no shunt
+	VJ, M     float64 // V, - (Kgen only); 0: the defaults 1 V and 0.5
+}
+
+// JunctionPotential returns the card's VJ at temperature t (K) by the
+// SPICE3 law
+//
+//	VJ(T) = (T/Tr) (VJ - pb(TNOM))/(TNOM/Tr) + pb(T),
+//	pb(T) = -2 Vt(T) (1.5 ln(T/Tr) - Eg(T)/(2 k T) + Eg(Tr)/(2 k Tr)),
+//	Eg(T) = 1.16 - 7.02e-4 T^2/(T + 1108) eV,  Tr = 300.15 K,
+//
+// (silicon's band gap fixed in the simulator whatever EG; Eg(Tr) written
+// there as 1.1150877 eV). VJ = 0 selects the default 1 V. Source: the
+// SPICE3 diode temperature code (diotemp), from memory; checked against
+// the simulator in the card tests of model/fit.
+func (d CardDiode) JunctionPotential(t float64) float64 {
+	vj := d.VJ
+	if !(vj > 0) {
+		vj = 1
+	}
+	const tr = 300.15
+	kq := physics.KB / physics.Q
+	pb := func(tk float64) float64 {
+		eg := 1.16 - 7.02e-4*tk*tk/(tk+1108)
+		return -2 * kq * tk * (1.5*math.Log(tk/tr) - eg/(2*kq*tk) + 1.1150877/(2*kq*tr))
+	}
+	pbo := (vj - pb(d.TNOMK)) / (d.TNOMK / tr)
+	return t/tr*pbo + pb(t)
 }
 
 // Saturation returns IS(T) and ISR(T) in A at temperature t (K).
@@ -45,8 +76,8 @@ func (d CardDiode) Saturation(t float64) (is, isr float64) {
 }
 
 // junction returns the junction current (with the shunt) and its
-// derivative at vj.
-func (d CardDiode) junction(vj, vt, is, isr float64) (i, di float64) {
+// derivative at vj; vjp is VJ at the temperature.
+func (d CardDiode) junction(vj, vt, is, isr, vjp float64) (i, di float64) {
 	e := math.Exp(vj / (d.N * vt))
 	i, di = is*(e-1), is*e/(d.N*vt)
 	if d.RSH > 0 && !math.IsInf(d.RSH, 1) {
@@ -54,9 +85,17 @@ func (d CardDiode) junction(vj, vt, is, isr float64) (i, di float64) {
 		di += 1 / d.RSH
 	}
 	if isr > 0 {
+		m := d.M
+		if !(m > 0) {
+			m = 0.5
+		}
+		u := 1 - vj/vjp
+		b := u*u + 0.005
+		k := math.Pow(b, m/2)
+		dk := k * m / 2 / b * (-2 * u / vjp)
 		e2 := math.Exp(vj / (d.NR * vt))
-		i += isr * (e2 - 1)
-		di += isr * e2 / (d.NR * vt)
+		i += isr * (e2 - 1) * k
+		di += isr * (e2*k/(d.NR*vt) + (e2-1)*dk)
 	}
 	return i, di
 }
@@ -71,12 +110,13 @@ func (d CardDiode) Current(v, t float64) float64 {
 	}
 	vt := physics.ThermalVoltage(t)
 	is, isr := d.Saturation(t)
+	vjp := d.JunctionPotential(t)
 	vj := v
 	if d.RS > 0 {
 		lo, hi := math.Min(0, v), math.Max(0, v)
 		vj = 0.5 * (lo + hi)
 		for k := 0; k < 200; k++ {
-			j, dj := d.junction(vj, vt, is, isr)
+			j, dj := d.junction(vj, vt, is, isr, vjp)
 			f := vj + j*d.RS - v
 			if f > 0 {
 				hi = vj
@@ -94,7 +134,7 @@ func (d CardDiode) Current(v, t float64) float64 {
 			vj = next
 		}
 	}
-	i, _ := d.junction(vj, vt, is, isr)
+	i, _ := d.junction(vj, vt, is, isr, vjp)
 	return i
 }
 
