@@ -86,12 +86,14 @@ type CardResult struct {
 	// it); "" otherwise. SubcktModel is the inner .model line.
 	Subckt   string
 	ShuntOhm float64 // the shunt resistance in the subcircuit, ohm (NaN: none)
-	Diode    extract.CardDiode
-	Junction *extract.JunctionCV // C-V fit used (nil: none)
-	CVData   *measure.DataSet    // the C-V sweep (nil: none)
-	Recovery *Recovery           // the recovery measurement (nil: none)
-	Curves   []CardCurve
-	Ranges   CardRanges
+	// ShuntStdErrOhm is its standard error, ohm.
+	ShuntStdErrOhm float64
+	Diode          extract.CardDiode
+	Junction       *extract.JunctionCV // C-V fit used (nil: none)
+	CVData         *measure.DataSet    // the C-V sweep (nil: none)
+	Recovery       *Recovery           // the recovery measurement (nil: none)
+	Curves         []CardCurve
+	Ranges         CardRanges
 	// Cautions are the range warnings, breakdown first, then model.Caution.
 	Cautions []string
 	Notes    []string
@@ -123,7 +125,7 @@ func Card(ctx context.Context, in CardInputs) (*CardResult, error) {
 	if _, err := extract.ModelCard(in.Name, extract.CardParams{}); err != nil {
 		return nil, err
 	}
-	res := &CardResult{Name: in.Name, ShuntOhm: math.NaN()}
+	res := &CardResult{Name: in.Name, ShuntOhm: math.NaN(), ShuntStdErrOhm: math.NaN()}
 	res.Ranges.CVBiasV = [2]float64{math.NaN(), math.NaN()}
 	res.Ranges.BreakdownV = math.NaN()
 

@@ -99,7 +99,7 @@ func cardForward(ctx context.Context, in CardInputs, ds *measure.DataSet, w extr
 		res.Notes = append(res.Notes, fmt.Sprintf("%s and %s are strongly correlated (r = %.3f): together they reproduce the data, each alone is less certain than its standard error suggests", c.A, c.B, c.R))
 	}
 	if d.RSH > 0 && !math.IsInf(d.RSH, 1) {
-		res.ShuntOhm = d.RSH
+		res.ShuntOhm, res.ShuntStdErrOhm = d.RSH, e.RSH
 		res.Notes = append(res.Notes, fmt.Sprintf("a shunt resistance of %.4g ohm (± %.2g) is observable: a .model cannot hold it, so a .subckt wrapping the diode and the shunt is offered", d.RSH, e.RSH))
 	}
 	return d, params, nil

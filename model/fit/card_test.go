@@ -145,6 +145,29 @@ func TestCardTestSetsInSimulator(t *testing.T) {
 	checkFigures(t, r)
 }
 
+// The other command-line test sets, one sweep each (invented): iv.csv has
+// an observable shunt, so the subcircuit is what the simulator runs.
+func TestCardSingleTestSetsInSimulator(t *testing.T) {
+	needSimulator(t)
+	for _, f := range []string{"iv.csv", "wafer/die00.csv", "wafer/die05.csv"} {
+		ds, err := Import(nil, "../../tui/cli/testdata/fit/"+f, measure.KindIV, nil)
+		if err != nil {
+			t.Fatal(err)
+		}
+		r, err := Card(context.Background(), CardInputs{Name: "DT", IV: []*measure.DataSet{ds}})
+		if err != nil {
+			t.Fatalf("%s: %v", f, err)
+		}
+		t.Logf("%s: %s (subckt: %v)", f, r.Card, r.Subckt != "")
+		if f == "iv.csv" && r.Subckt == "" {
+			t.Errorf("%s: shunt observable, no subcircuit", f)
+		}
+		if chk := checkFigures(t, r); f == "iv.csv" && chk.Deck != "subckt" {
+			t.Errorf("%s: checked the %s", f, chk.Deck)
+		}
+	}
+}
+
 // invented reverse sweep for the breakdown tests: 2 nA leakage and an
 // exponential avalanche knee at 42 V (1 uA) with 1 % noise.
 func inventedReverse() *measure.DataSet {

@@ -81,6 +81,7 @@ type fitCardReport struct {
 	ModelCard  string                  `json:"model_card"`
 	Subckt     string                  `json:"subckt,omitempty"`
 	ShuntOhm   *float64                `json:"shunt_ohm,omitempty"`
+	ShuntErr   *float64                `json:"shunt_stderr_ohm,omitempty"`
 	Parameters map[string]fitCardParam `json:"parameters"`
 	Order      []string                `json:"parameter_order"`
 	Sweeps     []fitCardSweep          `json:"iv_sweeps"`
@@ -242,7 +243,7 @@ func fitCardInputs(ctx context.Context, a *fitArgs) (*fit.CardInputs, error) {
 }
 
 func fitCardBuild(r *fit.CardResult) *fitCardReport {
-	rep := &fitCardReport{Name: r.Name, ModelCard: r.Card, Subckt: r.Subckt, ShuntOhm: fitNum(r.ShuntOhm),
+	rep := &fitCardReport{Name: r.Name, ModelCard: r.Card, Subckt: r.Subckt, ShuntOhm: fitNum(r.ShuntOhm), ShuntErr: fitNum(r.ShuntStdErrOhm),
 		Parameters: map[string]fitCardParam{}, Cautions: r.Cautions, Notes: r.Notes}
 	for _, p := range r.Params {
 		rep.Parameters[p.Name] = fitCardParam{Value: fitNum(p.Value), StdErr: fitNum(p.StdErr), Unit: p.Unit, Source: p.Source}
