@@ -29,6 +29,9 @@ const (
 	checkTimeout = 60 * time.Second
 	// checkMaxOutput bounds the simulator output read (bytes).
 	checkMaxOutput = 8 << 20
+	// checkMaxPoints bounds the biases simulated per sweep: a longer
+	// sweep is thinned to every k-th point (ends kept).
+	checkMaxPoints = 500
 )
 
 // CardCheckIV is the simulated forward I-V of one sweep.
@@ -87,7 +90,8 @@ func SimulatorInstalled() bool {
 
 // CheckCard runs the card (the subcircuit when there is one, else the
 // .model line) in SimulatorProgram in batch mode: a DC operating point at
-// every forward bias of each I-V sweep's fitted window, at that sweep's
+// every forward bias of each I-V sweep's fitted window (at most
+// checkMaxPoints per sweep, evenly thinned), at that sweep's
 // temperature (.options temp in degC), compared by the rms of
 // ln(I_sim/I_meas); an AC analysis at 1 MHz at every reverse bias of the
 // C-V sweep, the capacitance |Im(I)|/(2 pi f) compared with C_meas - Cpar;
@@ -110,6 +114,7 @@ func CheckCard(ctx context.Context, r *CardResult) (*CardCheck, error) {
 	}
 	for k, c := range r.Curves {
 		vs, is := forwardIn(c.DataSet, c.Window)
+		vs, is = thin(vs, is)
 		if len(vs) == 0 {
 			continue
 		}
@@ -140,6 +145,7 @@ func CheckCard(ctx context.Context, r *CardResult) (*CardCheck, error) {
 				cs = append(cs, r.CVData.CapacitanceF[k]-r.Junction.ParasiticCapacitanceF)
 			}
 		}
+		vs, cs = thin(vs, cs)
 		if len(vs) > 0 {
 			sim, err := runAC(ctx, dir, netlist, element, tnom, vs)
 			if err != nil {
@@ -192,6 +198,21 @@ func runStorage(ctx context.Context, dir, netlist, element string, tempK, iF, iR
 		return 0, err
 	}
 	return out[0] - td, nil
+}
+
+// thin keeps at most checkMaxPoints of the points, evenly spread, the
+// first and last included.
+func thin(x, y []float64) ([]float64, []float64) {
+	n := len(x)
+	if n <= checkMaxPoints {
+		return x, y
+	}
+	var a, b []float64
+	for k := 0; k < checkMaxPoints; k++ {
+		j := k * (n - 1) / (checkMaxPoints - 1)
+		a, b = append(a, x[j]), append(b, y[j])
+	}
+	return a, b
 }
 
 // deck writes a batch deck: the netlist, a source V1 from a to 0, the

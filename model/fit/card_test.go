@@ -243,6 +243,37 @@ func TestCardRecoveryInSimulator(t *testing.T) {
 	}
 }
 
+// Two temperatures determine one combination of EG and XTI: XTI is held
+// at 3 and said so, EG fitted; the second temperature still passes.
+func TestCardTwoTemperaturesHoldXTI(t *testing.T) {
+	needSimulator(t)
+	in := demoCardInputs(t)
+	in.IV = in.IV[:2]
+	r, err := Card(context.Background(), in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	xti, ok := r.Param("XTI")
+	if !ok || xti.Value != 3 || !math.IsNaN(xti.StdErr) || xti.Source != FromHeldXTI {
+		t.Errorf("XTI %+v", xti)
+	}
+	if eg, ok := r.Param("EG"); !ok || !(eg.StdErr > 0) {
+		t.Errorf("EG %+v", eg)
+	}
+	checkFigures(t, r)
+}
+
+func TestThinKeepsEnds(t *testing.T) {
+	x := make([]float64, 2*checkMaxPoints+7)
+	for k := range x {
+		x[k] = float64(k)
+	}
+	a, b := thin(x, x)
+	if len(a) != checkMaxPoints || a[0] != 0 || a[len(a)-1] != x[len(x)-1] || b[1] != a[1] {
+		t.Errorf("thinned to %d points, ends %g %g", len(a), a[0], a[len(a)-1])
+	}
+}
+
 // One sweep only: nothing but IS, N, RS (and TNOM) in the card; the notes
 // say what is missing and why; breakdown flagged as not measured.
 func TestCardLeavesOutWhatNothingMeasured(t *testing.T) {
