@@ -14,14 +14,34 @@ import (
 
 // cardJunction runs the C-V fit of the fit layer (CV) on ds and returns
 // the junction fit C = Cj0/(1 - V/Vbi)^m + Cpar with standard errors, the
-// notes and the bias span used. Cj0, Vbi and m must be determined.
+// notes and the bias span measured. Cj0, Vbi and m must be determined.
+// With cardMinReverseCV points or more at V <= 0 and some in forward bias,
+// only the points at V <= 0 enter the fit, so that the diffusion
+// capacitance of forward bias does not bend the depletion law (the
+// forward points then give TT).
 func cardJunction(ctx context.Context, ds *measure.DataSet) (*extract.JunctionCV, extract.JunctionCV, []string, extract.Window, error) {
 	var se extract.JunctionCV
 	if err := ctx.Err(); err != nil {
 		return nil, se, nil, extract.Window{}, err
 	}
 	// The junction fit needs no area (and no material beyond the default).
-	r, err := CVContext(ctx, ds, CVOptions{Material: "si"})
+	opt := CVOptions{Material: "si"}
+	nrev, nfwd := 0, 0
+	lo := math.Inf(1)
+	for _, v := range ds.VoltageV {
+		if v <= 0 {
+			nrev++
+			lo = math.Min(lo, v)
+		} else if v > 0 {
+			nfwd++
+		}
+	}
+	var notes []string
+	if nrev >= cardMinReverseCV && nfwd > 0 && lo < 0 {
+		opt.Window = extract.Window{MinV: lo, MaxV: 0}
+		notes = append(notes, fmt.Sprintf("CJO, VJ, M fitted to the %d C-V points at V <= 0; the %d forward points are left to the diffusion capacitance (TT)", nrev, nfwd))
+	}
+	r, err := CVContext(ctx, ds, opt)
 	if err != nil {
 		return nil, se, nil, extract.Window{}, err
 	}
@@ -38,7 +58,7 @@ func cardJunction(ctx context.Context, ds *measure.DataSet) (*extract.JunctionCV
 		}
 		*vals[k], *errs[k] = p.Value, p.StdErr
 	}
-	notes := r.Notes
+	notes = append(notes, r.Notes...)
 	if !Finite(j.ParasiticCapacitanceF) {
 		j.ParasiticCapacitanceF = 0
 		notes = append(notes, "the C-V data do not determine the fixture capacitance Cpar: taken as 0")
@@ -49,6 +69,10 @@ func cardJunction(ctx context.Context, ds *measure.DataSet) (*extract.JunctionCV
 	}
 	return &j, se, notes, extract.Window{MinV: lo, MaxV: hi}, nil
 }
+
+// cardMinReverseCV is the number of C-V points at V <= 0 above which the
+// junction fit leaves the forward points out.
+const cardMinReverseCV = 8
 
 // cardParams maps the parameters to the card's fields; skip names the
 // ones to leave out (RS in the subcircuit's inner model).
