@@ -83,7 +83,7 @@ type CardResult struct {
 	Card   string      // the .model line
 	// Subckt wraps the diode with its series and shunt resistance when a
 	// shunt is observable in the reference sweep (a .model cannot hold
-	// it); "" otherwise. SubcktModel is the inner .model line.
+	// it); "" otherwise. Its inner model is NAME_j, the card without RS.
 	Subckt   string
 	ShuntOhm float64 // the shunt resistance in the subcircuit, ohm (NaN: none)
 	// ShuntStdErrOhm is its standard error, ohm.
@@ -110,14 +110,16 @@ func (r *CardResult) Param(name string) (CardParam, bool) {
 }
 
 // Card assembles a diode model card from the measurements (see
-// CardInputs): IS, N, RS from the reference sweep's single-diode fit, or
-// IS (N = 1), ISR (NR = 2), RS from its double-diode fit when the second
-// diode is observable and fits better; CJO, VJ, M from the C-V junction
-// fit C = Cj0/(1 - V/Vbi)^m + Cpar with Cpar (the fixture) removed; EG
-// and XTI from the other sweeps (extract.FitCardTemperature); BV, IBV from
-// the reverse sweep (extract.ExtractBreakdown); TT from the recovery
-// measurement, else from the forward C-V points' diffusion capacitance.
-// Parameters nothing measured are left out, with a note.
+// CardInputs): CJO, VJ, M from the C-V junction fit C = Cj0/(1 -
+// V/Vbi)^m + Cpar with Cpar (the fixture) removed (cardJunction); IS, N,
+// RS, the shunt, ISR (NR = 2) when significant, and EG, XTI when several
+// temperatures were measured, from the card fitted jointly to every I-V
+// sweep and started from the reference sweep's fits (cardForward); BV,
+// IBV from the reverse sweep (extract.ExtractBreakdown); TT from the
+// recovery measurement, else from the forward C-V points' diffusion
+// capacitance; TNOM the reference sweep's temperature. Parameters nothing
+// measured are left out, with a note; the measured ranges and their
+// cautions come with the card.
 func Card(ctx context.Context, in CardInputs) (*CardResult, error) {
 	if len(in.IV) == 0 {
 		return nil, errors.New("a model card needs at least one forward I-V sweep (--iv)")
