@@ -122,7 +122,7 @@ func (r *CardResult) Param(name string) (CardParam, bool) {
 // cautions come with the card.
 func Card(ctx context.Context, in CardInputs) (*CardResult, error) {
 	if len(in.IV) == 0 {
-		return nil, errors.New("a model card needs at least one forward I-V sweep (--iv)")
+		return nil, errors.New("a model card needs at least one forward I-V sweep")
 	}
 	if _, err := extract.ModelCard(in.Name, extract.CardParams{}); err != nil {
 		return nil, err
@@ -140,14 +140,14 @@ func Card(ctx context.Context, in CardInputs) (*CardResult, error) {
 	var sweeps []fitted
 	for k, ds := range in.IV {
 		if ds == nil || ds.Kind != measure.KindIV {
-			return nil, fmt.Errorf("--iv %s: not an I-V sweep", cardFile(in, k))
+			return nil, fmt.Errorf("I-V %s: not an I-V sweep", cardFile(in, k))
 		}
 		t, tnote := in.Temperature.Choose(ds)
 		w := in.Window
 		if w.IsZero() {
 			var err error
 			if w, err = extract.FloorWindow(ds.VoltageV, ds.CurrentA, t.K, 100); err != nil {
-				return nil, fmt.Errorf("--iv %s: %w", cardFile(in, k), err)
+				return nil, fmt.Errorf("I-V %s: %w", cardFile(in, k), err)
 			}
 		}
 		if tnote != "" {
@@ -169,7 +169,7 @@ func Card(ctx context.Context, in CardInputs) (*CardResult, error) {
 	if in.CV != nil {
 		j, se, jnotes, w, err := cardJunction(ctx, in.CV)
 		if err != nil {
-			return nil, fmt.Errorf("--cv: %w", err)
+			return nil, fmt.Errorf("C-V: %w", err)
 		}
 		res.Notes = append(res.Notes, jnotes...)
 		junction, jse = j, se
@@ -188,7 +188,7 @@ func Card(ctx context.Context, in CardInputs) (*CardResult, error) {
 			CardParam{"FC", "", 0.5, math.NaN(), FromDefaultFC})
 		res.Notes = append(res.Notes, fmt.Sprintf("fixture capacitance Cpar = %.4g F removed: CJO is the junction's own", j.ParasiticCapacitanceF))
 	} else {
-		res.Notes = append(res.Notes, "CJO, VJ, M not in the card: no C-V sweep (--cv); the card has no junction capacitance")
+		res.Notes = append(res.Notes, "CJO, VJ, M not in the card: no C-V sweep; the card has no junction capacitance")
 	}
 
 	// TT.
@@ -198,7 +198,7 @@ func Card(ctx context.Context, in CardInputs) (*CardResult, error) {
 		res.Recovery = rc
 		tt, ttse, err := extract.TransitTimeFromStorage(rc.StorageS, rc.StdErrS, rc.ForwardA, rc.ReverseA)
 		if err != nil {
-			return nil, fmt.Errorf("--recovery: %w", err)
+			return nil, fmt.Errorf("recovery: %w", err)
 		}
 		params = append(params, CardParam{"TT", "s", tt, ttse, FromRecovery})
 		res.Notes = append(res.Notes, fmt.Sprintf("TT from the storage time %.4g s at IF = %.4g A, IR = %.4g A: TT = ts/ln(1 + IF/IR)", rc.StorageS, rc.ForwardA, rc.ReverseA))
@@ -213,7 +213,7 @@ func Card(ctx context.Context, in CardInputs) (*CardResult, error) {
 		tf, err := extract.FitDiffusionTransitTime(in.CV.VoltageV, in.CV.CapacitanceF, dep, cond)
 		switch {
 		case err != nil:
-			res.Notes = append(res.Notes, "TT not in the card: no recovery measurement (--recovery) and no forward C-V points to show the diffusion capacitance")
+			res.Notes = append(res.Notes, "TT not in the card: no recovery (storage-time) measurement and no forward C-V points to show the diffusion capacitance")
 		case !(tf.TT > 3*tf.StdErrTT) || tf.MaxExcess < 0.02:
 			res.Notes = append(res.Notes, fmt.Sprintf("TT not in the card: the forward C-V points show no significant diffusion capacitance (TT = %.3g ± %.2g s, largest excess %.1f %%)", tf.TT, tf.StdErrTT, 100*tf.MaxExcess))
 		default:
@@ -221,7 +221,7 @@ func Card(ctx context.Context, in CardInputs) (*CardResult, error) {
 			res.Notes = append(res.Notes, fmt.Sprintf("TT from the diffusion capacitance C - Cj(V) = TT dI/dV at %d forward C-V points (no recovery measurement)", tf.Points))
 		}
 	default:
-		res.Notes = append(res.Notes, "TT not in the card: no recovery measurement (--recovery) and no C-V sweep; the card stores no charge")
+		res.Notes = append(res.Notes, "TT not in the card: no recovery (storage-time) measurement and no C-V sweep; the card stores no charge")
 	}
 
 	// BV, IBV.
@@ -236,7 +236,7 @@ func Card(ctx context.Context, in CardInputs) (*CardResult, error) {
 		res.Ranges.ReverseV = math.Min(res.Ranges.ReverseV, minOf(in.Reverse.VoltageV))
 		bf, err := extract.ExtractBreakdown(in.Reverse.VoltageV, in.Reverse.CurrentA)
 		if err != nil {
-			return nil, fmt.Errorf("--reverse: %w", err)
+			return nil, fmt.Errorf("reverse sweep: %w", err)
 		}
 		if bf.Reached {
 			params = append(params, CardParam{"BV", "V", bf.BV, bf.StdErrBV, FromReverse},
@@ -246,7 +246,7 @@ func Card(ctx context.Context, in CardInputs) (*CardResult, error) {
 			res.Notes = append(res.Notes, "BV, IBV not in the card: the reverse sweep does not reach breakdown ("+bf.Reason+")")
 		}
 	} else {
-		res.Notes = append(res.Notes, "BV, IBV not in the card: no reverse sweep to breakdown (--reverse)")
+		res.Notes = append(res.Notes, "BV, IBV not in the card: no reverse sweep to breakdown")
 	}
 	params = append(params, CardParam{"TNOM", "degC", tnomK - 273.15, math.NaN(), FromReference})
 	res.Params = params

@@ -22,7 +22,7 @@ func cardForward(ctx context.Context, in CardInputs, ds *measure.DataSet, w extr
 	var d extract.CardDiode
 	single, err := IVContext(ctx, ds, IVOptions{Window: w, Model: extract.ModelSingle, Temperature: TemperatureRule{OptionK: tnomK}})
 	if err != nil {
-		return d, nil, fmt.Errorf("--iv %s: forward fit: %w", cardFile(in, 0), err)
+		return d, nil, fmt.Errorf("I-V %s: forward fit: %w", cardFile(in, 0), err)
 	}
 	for _, n := range single.Fit.Notes {
 		res.Notes = append(res.Notes, "reference fit: "+n)

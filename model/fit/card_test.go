@@ -401,7 +401,7 @@ func TestParseRecoveryErrors(t *testing.T) {
 
 func TestCardInputErrors(t *testing.T) {
 	ctx := context.Background()
-	if _, err := Card(ctx, CardInputs{Name: "D"}); err == nil || !strings.Contains(err.Error(), "--iv") {
+	if _, err := Card(ctx, CardInputs{Name: "D"}); err == nil || !strings.Contains(err.Error(), "forward I-V") {
 		t.Errorf("no I-V: %v", err)
 	}
 	in := demoCardInputs(t)
