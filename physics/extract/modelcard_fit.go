@@ -15,6 +15,10 @@ type CardFitOptions struct {
 	Series, Recombination, Shunt bool
 	Temperature, HoldXTI         bool
 	MaxIterations                int // default 200
+	// MaxPointsPerCurve bounds the points one curve contributes (evenly
+	// thinned over its window, ends kept); default 2000. It bounds the
+	// time of a fit whatever the sweep's length.
+	MaxPointsPerCurve int
 }
 
 // CardFit is the result of FitCardIV: the card and the standard errors of
@@ -34,7 +38,8 @@ type CardFit struct {
 // RS, ISR with NR held, the shunt RSH of the card's subcircuit, EG, XTI)
 // jointly to forward I-V curves at one or several temperatures, by
 // Levenberg-Marquardt on r = ln(I_card(V, T)/I_meas) over the forward
-// points (V > 0, I > 0) of each curve's window. Positive parameters are
+// points (V > 0, I > 0) of each curve's window (at most
+// opt.MaxPointsPerCurve of them, evenly thinned). Positive parameters are
 // fitted as logarithms, EG and XTI linearly; the Jacobian is taken by
 // forward differences (step 1e-6 in each fitted coordinate). Standard
 // errors from s^2 (J^T J)^-1 with the delta method (Bates & Watts 1988,
@@ -64,6 +69,13 @@ func FitCardIV(ctx context.Context, curves []CardCurve, start CardDiode, opt Car
 	if !opt.Shunt {
 		start.RSH = 0
 	}
+	maxPer := opt.MaxPointsPerCurve
+	if maxPer <= 0 {
+		maxPer = 2000
+	}
+	if maxPer < 2 {
+		maxPer = 2
+	}
 	type pt struct{ v, i, t float64 }
 	var pts []pt
 	temps := map[float64]bool{}
@@ -75,7 +87,12 @@ func FitCardIV(ctx context.Context, curves []CardCurve, start CardDiode, opt Car
 			return nil, inputErr(fmt.Sprintf("curves[%d].CurrentA", k), len(c.CurrentA), fmt.Sprintf("%d values", len(c.VoltageV)), "one current per voltage")
 		}
 		p, _ := forwardPoints(c.VoltageV, c.CurrentA, c.Window)
-		for j := range p.v {
+		n := len(p.v)
+		for k := 0; k < min(n, maxPer); k++ {
+			j := k
+			if n > maxPer {
+				j = k * (n - 1) / (maxPer - 1)
+			}
 			pts = append(pts, pt{p.v[j], p.i[j], c.TemperatureK})
 		}
 		temps[math.Round(c.TemperatureK*2)/2] = true

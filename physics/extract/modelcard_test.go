@@ -116,6 +116,23 @@ func TestFitCardIVRecoversCard(t *testing.T) {
 	}
 }
 
+// A long sweep is thinned to MaxPointsPerCurve points; the fit still
+// recovers the card.
+func TestFitCardIVThinsLongSweeps(t *testing.T) {
+	want := CardDiode{IS: 2e-14, N: 1.05, RS: 2.5, TNOMK: 300}
+	var c CardCurve
+	c.TemperatureK = 300
+	for k := 0; k < 20000; k++ {
+		v := 0.25 + 0.55*float64(k)/19999
+		c.VoltageV = append(c.VoltageV, v)
+		c.CurrentA = append(c.CurrentA, want.Current(v, 300))
+	}
+	f, err := FitCardIV(context.Background(), []CardCurve{c}, CardDiode{IS: 1e-14, N: 1.1, RS: 1, TNOMK: 300}, CardFitOptions{Series: true, MaxPointsPerCurve: 300})
+	if err != nil || f.Points != 300 || math.Abs(f.Diode.N/want.N-1) > 1e-6 || math.Abs(f.Diode.RS/want.RS-1) > 1e-4 {
+		t.Errorf("%+v, %v", f, err)
+	}
+}
+
 func TestFitCardIVErrors(t *testing.T) {
 	ctx := context.Background()
 	good := cardCurves(CardDiode{IS: 1e-14, N: 1, TNOMK: 300}, []float64{300}, 0, 1)
