@@ -271,3 +271,17 @@ func TestModelCardAllParameters(t *testing.T) {
 		t.Errorf("FC = 1: %v", err)
 	}
 }
+
+// BenchmarkFitCardIV: the joint card fit of three 56-point sweeps with
+// EG and XTI (the size of a bench characterisation).
+func BenchmarkFitCardIV(b *testing.B) {
+	want := CardDiode{IS: 2e-14, N: 1.05, RS: 2.5, EG: 1.12, XTI: 3, TNOMK: 300}
+	curves := cardCurves(want, []float64{260, 300, 340}, 0.01, 1)
+	start := CardDiode{IS: 1e-14, N: 1.2, RS: 1, XTI: 2, TNOMK: 300}
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := FitCardIV(context.Background(), curves, start, CardFitOptions{Series: true, Temperature: true}); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
