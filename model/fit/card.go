@@ -23,7 +23,7 @@ type CardInputs struct {
 	Reverse  *measure.DataSet   // reverse I-V sweep reaching breakdown (BV, IBV)
 	Recovery *Recovery          // storage-time measurement (TT)
 	// Window restricts the forward fit of every I-V sweep; zero: the
-	// forward points above the noise floor (extract.FloorWindow).
+	// forward points above the noise floor (extract.CardWindow).
 	Window extract.Window
 	// Temperature chooses each file's temperature (the file's own, else
 	// the option, else the fallback, else 300 K assumed).
@@ -146,7 +146,7 @@ func Card(ctx context.Context, in CardInputs) (*CardResult, error) {
 		w := in.Window
 		if w.IsZero() {
 			var err error
-			if w, err = extract.FloorWindow(ds.VoltageV, ds.CurrentA, t.K, 100); err != nil {
+			if w, err = extract.CardWindow(ds.VoltageV, ds.CurrentA, t.K, 100); err != nil {
 				return nil, fmt.Errorf("I-V %s: %w", cardFile(in, k), err)
 			}
 		}

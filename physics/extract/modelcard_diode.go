@@ -147,51 +147,59 @@ type CardCurve struct {
 	Window       Window
 }
 
-// FloorWindow returns the bias window of the forward points of an I-V
-// sweep that stand clear of the current noise floor: the floor is the
-// scatter of the currents measured within 2 kT/q of 0 V about a straight
-// line through them (the standard deviation of the residuals; a shunt's
-// real current lies on the line, noise does not), or their largest |I|
-// when fewer than 3 points lie there, and the window starts at the lowest
-// forward bias above which every current exceeds factor times that floor
-// (factor >= 1; 100 keeps the floor's share of each current near 1 %).
-// Without points near 0 V, or with no scatter, the window is every forward
-// point (zero Window). Units: V, A, K. Common practice: fits on a
-// log-current scale leave out the points the instrument floor dominates.
-func FloorWindow(v, i []float64, temperatureK, factor float64) (Window, error) {
+// CardWindow returns the bias window of the forward points of an I-V
+// sweep that a model card is fitted to: from the lowest forward bias above
+// which every current exceeds factor times the additive noise (the
+// bench-data rule's estimate, EstimateNoiseFloor, whether or not it counts
+// as a floor there: a fit on ln I with equal weights needs the currents
+// far above it; when too few points lie within kT/q of 0 V for it, the
+// same fourth-difference estimate over V <= 4 kT/q; factor >= 1, 100
+// keeps its share of each current near 1 %) to the highest forward bias below a
+// compliance plateau (DetectCompliance). With neither, the window is every
+// forward point (zero Window). Units: V, A, K. Common practice: a fit on
+// the log-current scale leaves out the points the instrument's floor or
+// its current limit dominates.
+func CardWindow(v, i []float64, temperatureK, factor float64) (Window, error) {
 	if len(v) != len(i) {
 		return Window{}, inputErr("current", fmt.Sprintf("%d values", len(i)), fmt.Sprintf("%d values", len(v)), "one current per voltage")
 	}
 	if !(temperatureK >= 1 && temperatureK <= 2000) {
-		return Window{}, inputErr("TemperatureK", temperatureK, "1..2000 K", "2 kT/q sets the zero-bias band")
+		return Window{}, inputErr("TemperatureK", temperatureK, "1..2000 K", "kT/q sets the near-zero-bias band of the noise estimate")
 	}
 	if !(factor >= 1) || math.IsInf(factor, 0) {
 		return Window{}, inputErr("factor", factor, ">= 1, finite", "multiple of the noise floor")
 	}
-	band := 2 * physics.ThermalVoltage(temperatureK)
-	var xs, ys []float64
-	floor := 0.0
-	for k := range v {
-		if math.Abs(v[k]) <= band && !math.IsNaN(i[k]) && !math.IsInf(i[k], 0) {
-			xs, ys = append(xs, v[k]), append(ys, i[k])
-			floor = math.Max(floor, math.Abs(i[k]))
-		}
-	}
-	if len(xs) >= 3 {
-		if f, ok := fitLine(xs, ys, nil); ok {
-			floor = math.Sqrt(f.s2)
-		}
-	}
 	p, _ := forwardPoints(v, i, Window{})
-	if len(xs) == 0 || !(floor > 0) || len(p.v) == 0 {
+	if len(p.v) == 0 {
 		return Window{}, nil
 	}
-	start := len(p.v)
-	for k := len(p.v) - 1; k >= 0 && p.i[k] > factor*floor; k-- {
-		start = k
+	hi := len(p.v) - 1
+	clipped := false
+	if c, ok := DetectCompliance(v, i, 1, 0); ok {
+		for hi >= 0 && p.v[hi] >= c.MinV {
+			hi--
+		}
+		clipped = true
 	}
-	if got := len(p.v) - start; got < 5 {
-		return Window{}, tooFew("window", got, 5, fmt.Sprintf("forward currents above %g times the noise floor %.3g A (scatter of |I| within %.3g V of 0 V) are needed", factor, floor, band))
+	lo := 0
+	floor := 0.0
+	vt := physics.ThermalVoltage(temperatureK)
+	nf, ok := EstimateNoiseFloor(v, i, vt)
+	if !ok {
+		nf, ok = noiseFloorBelow(v, i, 4*vt)
 	}
-	return Window{MinV: p.v[start], MaxV: p.v[len(p.v)-1]}, nil
+	if ok && nf.SigmaA > 0 {
+		floor = nf.SigmaA
+		lo = hi + 1
+		for k := hi; k >= 0 && p.i[k] > factor*floor; k-- {
+			lo = k
+		}
+	}
+	if hi-lo+1 < 5 {
+		return Window{}, tooFew("window", max(0, hi-lo+1), 5, fmt.Sprintf("forward currents above %g times the noise floor %.3g A and below the compliance are needed", factor, floor))
+	}
+	if lo == 0 && !clipped {
+		return Window{}, nil
+	}
+	return Window{MinV: p.v[lo], MaxV: p.v[hi]}, nil
 }

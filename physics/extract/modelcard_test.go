@@ -157,35 +157,40 @@ func TestFitCardIVErrors(t *testing.T) {
 	}
 }
 
-// A sweep with a 10 pA Gaussian floor: the window starts where the
-// currents exceed 100 times the floor (about 1 nA), within a step.
-func TestFloorWindow(t *testing.T) {
+// A sweep with a 10 pA Gaussian floor and a 5 mA compliance: the window
+// starts where the currents exceed 100 times the floor (about 1 nA),
+// within a few steps, and ends below the clipped points.
+func TestCardWindow(t *testing.T) {
 	rng := rand.New(rand.NewPCG(3, 3))
 	d := SingleDiode{1e-15, 1, 0, math.Inf(1)}
 	vt := physics.ThermalVoltage(300)
 	var v, i []float64
-	for x := 0.0; x <= 0.7; x += 0.01 {
+	for x := -0.2; x <= 0.8; x += 0.01 {
 		v = append(v, x)
-		i = append(i, d.Current(x, vt)+10e-12*rng.NormFloat64())
+		i = append(i, math.Min(d.Current(x, vt)+10e-12*rng.NormFloat64(), 5e-3))
 	}
-	w, err := FloorWindow(v, i, 300, 100)
+	w, err := CardWindow(v, i, 300, 100)
 	if err != nil {
 		t.Fatal(err)
 	}
-	// I = 1e-15 exp(V/Vt) reaches 1 nA at V = Vt ln(1e6) = 0.357 V.
-	want := vt * math.Log(1e6)
-	if math.Abs(w.MinV-want) > 0.05 || w.MaxV < 0.69 {
-		t.Errorf("window %v, want it to start near %.3f V", w, want)
+	// I = 1e-15 exp(V/Vt) reaches 1 nA at V = Vt ln(1e6) = 0.357 V; 5 mA
+	// at Vt ln(5e12) = 0.758 V.
+	if lo := vt * math.Log(1e6); math.Abs(w.MinV-lo) > 0.04 {
+		t.Errorf("window %v, want it to start near %.3f V", w, lo)
 	}
-	// Noise-free data: the only scatter about the line near 0 V is the
-	// exponential's curvature, so the window reaches far down.
+	if hi := vt * math.Log(5e12); !(w.MaxV < hi) || w.MaxV < hi-0.02 {
+		t.Errorf("window %v, want it to end just below %.3f V", w, hi)
+	}
+	// Noise-free, unclipped data: the only "noise" is the exponential's
+	// own fourth difference, so the window reaches down to the first
+	// forward points.
 	for k := range i {
 		i[k] = d.Current(v[k], vt)
 	}
-	if w, err := FloorWindow(v, i, 300, 100); err != nil || w.MinV > 0.15 {
-		t.Errorf("noise-free: window %v, %v; want it to start below 0.15 V", w, err)
+	if w, err := CardWindow(v, i, 300, 100); err != nil || w.MinV > 0.02 {
+		t.Errorf("noise-free: window %v, %v; want it to start at the first forward points", w, err)
 	}
-	if _, err := FloorWindow(v, i, 0, 100); err == nil || !strings.Contains(err.Error(), "TemperatureK") {
+	if _, err := CardWindow(v, i, 0, 100); err == nil || !strings.Contains(err.Error(), "TemperatureK") {
 		t.Errorf("temperature 0: %v", err)
 	}
 }
