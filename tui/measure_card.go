@@ -33,6 +33,9 @@ func (m *Model) openCard() {
 	ref, best := -1, math.Inf(1)
 	for _, i := range m.ivMeasurements() {
 		ds := &m.sess.meas[i].DataSet
+		if fit.IsLit(ds) {
+			continue // a lit sweep is not the dark diode the card describes
+		}
 		if !hasForward(ds) {
 			if in.Reverse == nil {
 				in.Reverse = ds

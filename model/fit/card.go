@@ -142,6 +142,9 @@ func Card(ctx context.Context, in CardInputs) (*CardResult, error) {
 		if ds == nil || ds.Kind != measure.KindIV {
 			return nil, fmt.Errorf("I-V %s: not an I-V sweep", cardFile(in, k))
 		}
+		if IsLit(ds) {
+			return nil, fmt.Errorf("I-V %s: a lit sweep (it carries a photocurrent); the model card describes the dark diode: give dark sweeps", cardFile(in, k))
+		}
 		t, tnote := in.Temperature.Choose(ds)
 		w := in.Window
 		if w.IsZero() {

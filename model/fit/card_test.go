@@ -410,6 +410,15 @@ func TestCardInputErrors(t *testing.T) {
 		t.Errorf("bad name: %v", err)
 	}
 	in = demoCardInputs(t)
+	lit := *in.IV[0]
+	lit.CurrentA = append([]float64(nil), lit.CurrentA...)
+	for k := range lit.CurrentA {
+		lit.CurrentA[k] -= 1e-3 // an invented photocurrent of 1 mA
+	}
+	in.IV = []*measure.DataSet{&lit}
+	if _, err := Card(ctx, in); err == nil || !strings.Contains(err.Error(), "lit sweep") {
+		t.Errorf("lit sweep: %v", err)
+	}
 	in.IV = []*measure.DataSet{in.CV}
 	if _, err := Card(ctx, in); err == nil || !strings.Contains(err.Error(), "not an I-V sweep") {
 		t.Errorf("C-V as I-V: %v", err)
