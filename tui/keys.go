@@ -80,6 +80,8 @@ type KeyMap struct {
 	Arrhenius key.Binding
 	// Batch opens the batch fit of a directory of I-V files.
 	Batch key.Binding
+	// Card shows the model card built from the session's data sets.
+	Card key.Binding
 
 	// review is set in review mode: the help leaves out the keys that
 	// would change something (they are refused with a reason).
@@ -176,6 +178,7 @@ func DefaultKeyMap() KeyMap {
 		LinLog:    b([]string{"ctrl+l"}, "ctrl+l", "linear/log current axis"),
 		Arrhenius: b([]string{"A"}, "A", "activation energy from the I-V data sets"),
 		Batch:     b([]string{"B"}, "B", "batch fit of a directory of I-V files"),
+		Card:      b([]string{"M"}, "M", "model card from the session's data sets"),
 	}
 	return k
 }
@@ -360,7 +363,7 @@ func (k KeyMap) helpGroups() []helpGroup {
 	return append(g,
 		helpGroup{"Results", []key.Binding{k.ScrollUp, k.ScrollDown, k.PageUp, k.PageDown, k.Top, k.Bottom}},
 		helpGroup{"Charts", k.chartBindings()},
-		helpGroup{"Measurements", []key.Binding{k.Import, k.Fit, k.AddData, k.AddFit, k.EditPath, k.Refit, k.PrevData, k.NextData, k.KeepFit, k.LinLog, k.Arrhenius, k.Batch}},
+		helpGroup{"Measurements", []key.Binding{k.Import, k.Fit, k.AddData, k.AddFit, k.EditPath, k.Refit, k.PrevData, k.NextData, k.KeepFit, k.LinLog, k.Arrhenius, k.Batch, k.Card}},
 		helpGroup{"Session list", []key.Binding{k.ListUp, k.ListDown, k.Open, k.Revisions, k.ClearFilter, k.Close}},
 		helpGroup{"Revisions", []key.Binding{k.Mark, k.DiffPair, k.DiffCurrent, k.RestoreRev, k.OpenRev, k.Back}},
 		helpGroup{"Dialogs", []key.Binding{k.Submit, k.NextField, k.PrevField, k.Dismiss, k.Yes, k.No, k.SaveFirst}},

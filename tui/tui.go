@@ -155,6 +155,7 @@ const (
 	screenCVFit            // fit a C-V measurement
 	screenArrhenius        // activation energy from I-V data at several temperatures
 	screenBatch            // batch fit of the I-V files of a directory
+	screenCard             // model card from the session's data sets
 )
 
 // Smallest terminal the workbench draws panels in.
@@ -193,6 +194,7 @@ type Model struct {
 	cvfit         cvFitState
 	arr           arrheniusState
 	bat           batchState
+	card          cardState
 	quitAfterSave bool
 	syncCharts    bool
 }
@@ -502,6 +504,8 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		return m.arrheniusKey(km)
 	case screenBatch:
 		return m.batchKey(km)
+	case screenCard:
+		return m.cardKey(km)
 	case screenHelp:
 		switch {
 		case keyIs(km, k.ScrollDown):
@@ -579,6 +583,9 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 			return m, nil
 		case keyIs(km, k.Batch):
 			m.openBatch()
+			return m, nil
+		case keyIs(km, k.Card):
+			m.openCard()
 			return m, nil
 		case keyIs(km, k.NextPanel):
 			return m, m.setFocus((m.focus + 1) % panelCount)
@@ -736,6 +743,8 @@ func (m Model) View() string {
 		lines = append(lines, m.arrheniusScreen(w, h-2)...)
 	case screenBatch:
 		lines = append(lines, m.batchScreen(w, h-2)...)
+	case screenCard:
+		lines = append(lines, m.cardScreen(w, h-2)...)
 	default:
 		lines = append(lines, m.body()...)
 	}
@@ -775,6 +784,8 @@ func (m Model) footer() string {
 		hk = arrheniusHelp{m.e.keys}
 	case screenBatch:
 		hk = batchHelp{m.e.keys}
+	case screenCard:
+		hk = cardHelp{m.e.keys}
 	default:
 		switch m.focus {
 		case panelDefine:

@@ -31,4 +31,8 @@
 //   - Records: one method name and one parameter set per model; values
 //     that are not finite are left out with a note; record IDs are
 //     MEASUREMENT-fit-K with the smallest free K.
+//   - Model cards: the first I-V sweep is the reference (TNOM); each
+//     sweep is fitted above its noise floor unless a window is given;
+//     parameters nothing measured are left out with a note; the card is
+//     checked in the circuit simulator only by CheckCard.
 package fit

@@ -41,6 +41,19 @@ func Import(files model.Files, path string, kind measure.Kind, now func() time.T
 
 // ImportContext is Import that stops, with ctx's error, when ctx is done.
 func ImportContext(ctx context.Context, files model.Files, path string, kind measure.Kind, now func() time.Time) (*measure.DataSet, error) {
+	f, err := OpenDataFile(files, path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	return measure.ImportContext(ctx, io.LimitReader(f, MaxFileBytes), path, measure.Options{Kind: kind, Now: now})
+}
+
+// OpenDataFile opens the file at path in files (nil: the local file
+// system) under the fit's file policy: a regular file (no directory,
+// device or pipe that could block) of at most MaxFileBytes, else a
+// *FileError. The caller closes it and reads at most MaxFileBytes.
+func OpenDataFile(files model.Files, path string) (fs.File, error) {
 	if files == nil {
 		files = model.LocalFiles{}
 		if strings.TrimSpace(path) == "" {
@@ -51,20 +64,25 @@ func ImportContext(ctx context.Context, files model.Files, path string, kind mea
 	if err != nil {
 		return nil, err
 	}
-	defer f.Close()
 	fi, err := f.Stat()
 	if err != nil {
+		f.Close()
 		return nil, err
 	}
+	why := ""
 	switch {
 	case fi.IsDir():
-		return nil, &FileError{Path: path, Why: "is a directory, not a data file (fit batch takes directories)"}
+		why = "is a directory, not a data file (fit batch takes directories)"
 	case !fi.Mode().IsRegular():
-		return nil, &FileError{Path: path, Why: "is not a regular file (a device or pipe could block); only regular files are imported"}
+		why = "is not a regular file (a device or pipe could block); only regular files are imported"
 	case fi.Size() > MaxFileBytes:
-		return nil, &FileError{Path: path, Why: fmt.Sprintf("has %d bytes; at most %d (64 MiB) are imported for a fit", fi.Size(), MaxFileBytes)}
+		why = fmt.Sprintf("has %d bytes; at most %d (64 MiB) are imported for a fit", fi.Size(), MaxFileBytes)
 	}
-	return measure.ImportContext(ctx, io.LimitReader(f, MaxFileBytes), path, measure.Options{Kind: kind, Now: now})
+	if why != "" {
+		f.Close()
+		return nil, &FileError{Path: path, Why: why}
+	}
+	return f, nil
 }
 
 // dataExtensions are the file name endings a batch takes from a directory

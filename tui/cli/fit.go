@@ -42,7 +42,7 @@ type fitSub struct {
 
 // fitSubs lists the fit subcommands in help order.
 func fitSubs() []fitSub {
-	return []fitSub{fitIVSub, fitCVSub, fitArrheniusSub, fitBatchSub}
+	return []fitSub{fitIVSub, fitCVSub, fitArrheniusSub, fitBatchSub, fitCardSub}
 }
 
 // fitHelp is the page of `junco fit --help`: every subcommand in short.

@@ -1,0 +1,201 @@
+package tui
+
+import (
+	"context"
+	"fmt"
+	"math"
+	"strings"
+
+	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
+
+	"junco/model"
+	"junco/model/fit"
+	"junco/model/measure"
+)
+
+// cardState is the model-card screen: the card built from the session's
+// data sets (fit.Card), read only, scrolled by top.
+type cardState struct {
+	res *fit.CardResult
+	err string
+	top int
+}
+
+// openCard builds the model card from the session's data sets and shows
+// it: the forward I-V sets (the one nearest the junction's temperature is
+// the reference, TNOM), the first reverse-only I-V set as the breakdown
+// sweep, the first C-V set. A file without a temperature takes the
+// junction's (the fit layer's rule).
+func (m *Model) openCard() {
+	tj := m.form.spec.Temperature
+	in := fit.CardInputs{Name: cardName(m.name), Temperature: fit.TemperatureRule{FallbackK: tj, FallbackSource: fit.SourceJunction}}
+	ref, best := -1, math.Inf(1)
+	for _, i := range m.ivMeasurements() {
+		ds := &m.sess.meas[i].DataSet
+		if fit.IsLit(ds) {
+			continue // a lit sweep is not the dark diode the card describes
+		}
+		if !hasForward(ds) {
+			if in.Reverse == nil {
+				in.Reverse = ds
+			}
+			continue
+		}
+		t, _ := in.Temperature.Choose(ds)
+		if d := math.Abs(t.K - tj); d < best {
+			ref, best = len(in.IV), d
+		}
+		in.IV = append(in.IV, ds)
+		in.IVFiles = append(in.IVFiles, m.sess.meas[i].ID)
+	}
+	if len(in.IV) == 0 {
+		m.note = "no forward I-V data set in the session: i imports one (the model card needs forward I-V)"
+		return
+	}
+	in.IV[0], in.IV[ref] = in.IV[ref], in.IV[0]
+	in.IVFiles[0], in.IVFiles[ref] = in.IVFiles[ref], in.IVFiles[0]
+	for i := range m.sess.meas {
+		if m.sess.meas[i].Kind == measure.KindCV {
+			in.CV = &m.sess.meas[i].DataSet
+			break
+		}
+	}
+	m.card = cardState{}
+	res, err := fit.Card(context.Background(), in)
+	if err != nil {
+		m.card.err = err.Error()
+	}
+	m.card.res = res
+	m.screen = screenCard
+}
+
+// hasForward reports whether ds holds a forward point (V > 0, I > 0).
+func hasForward(ds *measure.DataSet) bool {
+	for k, v := range ds.VoltageV {
+		if v > 0 && ds.CurrentA[k] > 0 {
+			return true
+		}
+	}
+	return false
+}
+
+// cardName makes a card name from the session's title: "D_" and its
+// letters and digits, at most 24 characters.
+func cardName(title string) string {
+	var b strings.Builder
+	b.WriteString("D_")
+	for _, r := range title {
+		if b.Len() >= 24 {
+			break
+		}
+		if r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z' || r >= '0' && r <= '9' {
+			b.WriteRune(r)
+		}
+	}
+	if b.Len() == 2 {
+		b.WriteString("session")
+	}
+	return b.String()
+}
+
+func (m Model) cardKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
+	k := m.e.keys
+	switch {
+	case km.String() == "ctrl+c":
+		return m.quit()
+	case keyIs(km, k.Dismiss), keyIs(km, k.Close):
+		m.screen = screenMain
+	case keyIs(km, k.ScrollDown):
+		m.card.top++
+	case keyIs(km, k.ScrollUp):
+		m.card.top = max(0, m.card.top-1)
+	case keyIs(km, k.PageDown):
+		m.card.top += 10
+	case keyIs(km, k.PageUp):
+		m.card.top = max(0, m.card.top-10)
+	case keyIs(km, k.Top):
+		m.card.top = 0
+	}
+	return m, nil
+}
+
+// cardScreen draws the card: the sweeps used, the parameters with their
+// standard errors and sources, the ranges and cautions, the card itself
+// (continued with "+" lines to fit the width), the subcircuit and notes.
+func (m Model) cardScreen(w, h int) []string {
+	st, g := m.e.st, m.e.g
+	c := m.card
+	head := rule("Model card from the session's data sets", w, glyphs{hbar: g.hbarHeavy}, st.heading)
+	var out []string
+	if c.err != "" {
+		out = append(out, st.err.Paint(g.bad+" no model card:"))
+		out = append(out, wrapped(c.err, w, st.err, "  ")...)
+	}
+	if r := c.res; r != nil {
+		for _, s := range r.Curves {
+			ref := ""
+			if s.Reference {
+				ref = " (reference, TNOM)"
+			}
+			out = append(out, cut(fmt.Sprintf("%s  %s%s  %s .. %s  rms ln %.3f", s.File, s.Temperature, ref,
+				model.Format(model.Voltage, s.Window.MinV, 3, m.e.ascii), model.Format(model.Voltage, s.Window.MaxV, 3, m.e.ascii), s.RMSLog), w, g.ellipsis))
+		}
+		out = append(out, "", st.strong.Paint(cut(fmt.Sprintf("%-5s %-13s %-10s %s", "", "value", "std. error", "from"), w, g.ellipsis)))
+		for _, p := range r.Params {
+			se := "-"
+			if fit.Finite(p.StdErr) {
+				se = fmt.Sprintf("%.3g", p.StdErr)
+			}
+			out = append(out, cut(fmt.Sprintf("%-5s %-13s %-10s %s", p.Name, strings.TrimSpace(fmt.Sprintf("%.5g %s", p.Value, p.Unit)), se, p.Source), w, g.ellipsis))
+		}
+		out = append(out, "")
+		for _, s := range r.Cautions {
+			out = append(out, wrapped(s, w, st.err, "* ")...)
+		}
+		out = append(out, cardWrap(r.Card, w)...)
+		if r.Subckt != "" {
+			out = append(out, "", st.muted.Paint("* the shunt matters: this subcircuit holds it"))
+			for _, l := range strings.Split(r.Subckt, "\n") {
+				out = append(out, cardWrap(l, w)...)
+			}
+		}
+		out = append(out, "")
+		for _, n := range r.Notes {
+			out = append(out, wrapped(n, w, st.muted, "  ")...)
+		}
+	}
+	top := min(c.top, max(0, len(out)-(h-1)))
+	return block(append([]string{head}, out[top:]...), w, h, g.ellipsis)
+}
+
+// cardWrap breaks a card line at blanks into lines of at most w columns,
+// the continuations starting with "+ " (SPICE's continuation), so the
+// text stays a valid card when copied.
+func cardWrap(line string, w int) []string {
+	if len(line) <= w || w < 20 {
+		return []string{line}
+	}
+	var out []string
+	cur := ""
+	for _, f := range strings.Fields(line) {
+		switch {
+		case cur == "":
+			cur = f
+		case len(cur)+1+len(f) > w:
+			out = append(out, cur)
+			cur = "+ " + f
+		default:
+			cur += " " + f
+		}
+	}
+	return append(out, cur)
+}
+
+// cardHelp is the footer of the model-card screen.
+type cardHelp struct{ k KeyMap }
+
+func (h cardHelp) ShortHelp() []key.Binding {
+	return []key.Binding{h.k.ScrollDown, h.k.ScrollUp, h.k.Close}
+}
+func (h cardHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
