@@ -88,8 +88,16 @@ func (c *chartModel) render() {
 			all = append(all, s.Y...)
 		}
 	}
+	cvNote := ""
+	if d := depletionDominated(cur); d != nil {
+		all, cvNote = d, " where the depletion part dominates"
+	}
 	if pinned != nil {
-		all = append(all, pinned.Series[pinIdx].Y...)
+		if d := depletionDominated(*pinned); d != nil {
+			all = append(all, d...)
+		} else {
+			all = append(all, pinned.Series[pinIdx].Y...)
+		}
 	}
 	for _, s := range extra {
 		for j, y := range s.Y {
@@ -185,7 +193,7 @@ func (c *chartModel) render() {
 		c.yTitle = axisTitle(cur.Y.Label, yUnit)
 	}
 	if prim >= 0 {
-		c.yTitle += ", scaled to the " + cur.Series[prim].Label
+		c.yTitle += ", scaled to the " + cur.Series[prim].Label + cvNote
 	}
 
 	// The full plotted ranges, then the view inside them.

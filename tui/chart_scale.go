@@ -247,3 +247,35 @@ func valueText(a model.Axis, v float64, ascii bool) string {
 	}
 	return model.Format(a.Kind, v, 4, ascii)
 }
+
+// depletionDominated returns the total capacitance of a C-V curve where
+// the depletion part is at least the diffusion part (the reverse and low
+// forward bias a C-V measurement reads), or nil when there are fewer than
+// two such points or the curve is not a C-V curve. The forward-bias
+// diffusion capacitance grows as exp(V/Vt) and would flatten the rest.
+func depletionDominated(c model.Curve) []float64 {
+	if c.ID != "cv" {
+		return nil
+	}
+	var dep, dif, tot []float64
+	for _, s := range c.Series {
+		switch s.Label {
+		case "depletion":
+			dep = s.Y
+		case "diffusion":
+			dif = s.Y
+		case "total":
+			tot = s.Y
+		}
+	}
+	var out []float64
+	for i := range tot {
+		if i < len(dep) && i < len(dif) && finite(dep[i]) && dep[i] >= dif[i] {
+			out = append(out, tot[i])
+		}
+	}
+	if len(out) < 2 || len(out) == len(tot) {
+		return nil
+	}
+	return out
+}

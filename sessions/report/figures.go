@@ -313,11 +313,39 @@ func displayUnit(a model.Axis, maxAbs float64) (string, float64) {
 	return model.SIUnit(a.Kind), 1
 }
 
-// series extremes over finite values (and positive ones for log axes).
+// primary is the index of the series a figure's y range follows: the
+// total where the curve has one (I-V, C-V), else -1 (every series). The
+// components of a total are drawn clipped to that range: an idealised
+// Shockley current runs to amperes where the total is milliamperes.
+func primary(c model.Curve) int {
+	for i, s := range c.Series {
+		if s.Label == "total" {
+			return i
+		}
+	}
+	return -1
+}
+
+// maxLogDecades bounds the decades a log figure spans below its top.
+const maxLogDecades = 16
+
+// yExtent is the y range a figure is drawn over: the extremes of the
+// finite values (the positive magnitudes on a log axis) of the series
+// that set the scale: the total (see primary) and the measured points,
+// else every series; on a log axis at most maxLogDecades below the top.
 func yExtent(f Figure) (lo, hi float64, ok bool) {
 	lo, hi = math.Inf(1), math.Inf(-1)
-	for _, s := range f.Curve.Series {
-		for _, y := range s.Y {
+	p := primary(f.Curve)
+	measured := len(dotted(f)) > 0
+	for i, s := range f.Curve.Series {
+		if (p >= 0 || measured) && i != p && !f.dots(i) {
+			continue
+		}
+		ys := s.Y
+		if d := depletionDominated(f.Curve); d != nil && !f.LogY {
+			ys = d
+		}
+		for _, y := range ys {
 			if f.LogY {
 				y = math.Abs(y)
 				if y <= 0 {
@@ -329,7 +357,54 @@ func yExtent(f Figure) (lo, hi float64, ok bool) {
 			}
 		}
 	}
+	if f.LogY && lo <= hi {
+		lo = max(lo, hi*math.Pow(10, -maxLogDecades))
+	}
 	return lo, hi, lo <= hi
+}
+
+// depletionDominated returns the total capacitance of a C-V curve where
+// the depletion part is at least the diffusion part (the reverse and low
+// forward bias a C-V measurement reads), or nil when there are fewer than
+// two such points or the curve is not a C-V curve. The forward-bias
+// diffusion capacitance grows as exp(V/Vt) and would flatten the rest on
+// a linear axis; it runs off the top of the figure instead.
+func depletionDominated(c model.Curve) []float64 {
+	if c.ID != "cv" {
+		return nil
+	}
+	var dep, dif, tot []float64
+	for _, s := range c.Series {
+		switch s.Label {
+		case "depletion":
+			dep = s.Y
+		case "diffusion":
+			dif = s.Y
+		case "total":
+			tot = s.Y
+		}
+	}
+	var out []float64
+	for i := range tot {
+		if i < len(dep) && i < len(dif) && isFinite(dep[i]) && dep[i] >= dif[i] {
+			out = append(out, tot[i])
+		}
+	}
+	if len(out) < 2 || len(out) == len(tot) {
+		return nil
+	}
+	return out
+}
+
+// zeroSeries reports a series with no finite value off zero: on a log
+// axis it has no line, and its legend entry says so.
+func zeroSeries(y []float64) bool {
+	for _, v := range y {
+		if isFinite(v) && v != 0 {
+			return false
+		}
+	}
+	return true
 }
 
 func xExtent(c model.Curve) (lo, hi float64, ok bool) {
@@ -355,7 +430,31 @@ func axisTitle(a model.Axis, unit string, logAbs bool) string {
 
 // ---------------------------------------------------------------- SVG
 
-// buildPlot lays out a figure for drawing.
+// palette is the figure's line colours, one per series, all distinct and
+// told apart by colour-blind readers (Okabe and Ito's eight colours, with
+// black for the first series, which is the total where there is one).
+var palette = []color.RGBA{
+	{0, 0, 0, 255}, {0xe6, 0x9f, 0x00, 255}, {0x56, 0xb4, 0xe9, 255}, {0x00, 0x9e, 0x73, 255},
+	{0x00, 0x72, 0xb2, 255}, {0xd5, 0x5e, 0x00, 255}, {0xcc, 0x79, 0xa7, 255}, {0x99, 0x99, 0x99, 255},
+}
+
+// seriesColour is the colour of series i of a curve: the total gets the
+// first (black), the others the rest in order.
+func seriesColour(c model.Curve, i int) color.RGBA {
+	p := primary(c)
+	k := i
+	switch {
+	case p < 0:
+	case i == p:
+		k = 0
+	case i < p:
+		k = i + 1
+	}
+	return palette[k%len(palette)]
+}
+
+// buildPlot lays out a figure for drawing. The y range follows yExtent and
+// every line is clipped to it.
 func buildPlot(f Figure) (*plot.Plot, error) {
 	c := f.Curve
 	xlo, xhi, okx := xExtent(c)
@@ -374,14 +473,34 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 		p.Y.Tick.Marker = decadeTicks{}
 	}
 	p.Add(plotter.NewGrid())
-	palette := []color.RGBA{{0, 0x5a, 0xb5, 255}, {0xdc, 0x32, 0x20, 255}, {0x1b, 0x9e, 0x3e, 255}, {0x8e, 0x44, 0xad, 255}, {0x7f, 0x7f, 0x7f, 255}}
-	for si, s := range c.Series {
-		col := palette[si%len(palette)]
+	prim := primary(c)
+	// The total is drawn last, over its components.
+	order := make([]int, 0, len(c.Series))
+	for i := range c.Series {
+		if i != prim {
+			order = append(order, i)
+		}
+	}
+	if prim >= 0 {
+		order = append(order, prim)
+	}
+	thumbs := make([]plot.Thumbnailer, len(c.Series))
+	for _, si := range order {
 		if f.dots(si) {
 			continue
 		}
+		s := c.Series[si]
+		col := seriesColour(c, si)
+		style := func(l *plotter.Line) {
+			l.Color = col
+			l.Width = vg.Points(1.2)
+			if si == prim || (prim < 0 && si == 0) {
+				l.Width = vg.Points(2)
+			} else {
+				l.Dashes = []vg.Length{vg.Points(4 + float64(si)), vg.Points(2)}
+			}
+		}
 		var seg plotter.XYs
-		legend := false
 		flush := func() {
 			if len(seg) == 0 {
 				return
@@ -391,16 +510,9 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 			if err != nil {
 				return
 			}
-			l.Color = col
-			l.Width = vg.Points(1.2)
-			if dashed := si - len(dotted(f)); dashed > 0 {
-				l.Dashes = []vg.Length{vg.Points(4 + float64(dashed)), vg.Points(2)}
-			}
+			style(l)
 			p.Add(l)
-			if !legend && len(c.Series) > 1 {
-				p.Legend.Add(s.Label, l)
-				legend = true
-			}
+			thumbs[si] = l
 		}
 		for i, x := range c.Xs {
 			if i >= len(s.Y) {
@@ -417,14 +529,59 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 			seg = append(seg, plotter.XY{X: x * xf, Y: y * yf})
 		}
 		flush()
+		if thumbs[si] == nil {
+			// No line (zero everywhere on a log axis): the legend still
+			// lists it, saying why.
+			l := &plotter.Line{}
+			style(l)
+			thumbs[si] = l
+		}
+	}
+	if len(c.Series) > 1 {
+		for si, s := range c.Series {
+			if f.dots(si) {
+				continue // listed by addDots
+			}
+			name := s.Label
+			if f.LogY && zeroSeries(s.Y) {
+				name += " (zero, not drawn)"
+			}
+			p.Legend.Add(name, thumbs[si])
+		}
 	}
 	// Points go on top of the lines, so that a fit through them leaves
 	// them visible.
 	for _, si := range dotted(f) {
-		addDots(p, f, si, palette[si%len(palette)])
+		addDots(p, f, si, seriesColour(c, si))
+	}
+	// The ranges are set after the lines and points are added (adding a line widens
+	// the axes to its data): the lines are clipped to them.
+	if f.LogY {
+		// Whole decades around the range.
+		p.Y.Min = math.Pow(10, math.Floor(math.Log10(ylo*yf)+1e-9))
+		p.Y.Max = math.Pow(10, math.Ceil(math.Log10(yhi*yf)-1e-9))
+		if p.Y.Max <= p.Y.Min {
+			p.Y.Max = p.Y.Min * 10
+		}
+	} else {
+		lo, hi := ylo*yf, yhi*yf
+		if hi == lo {
+			d := math.Max(math.Abs(lo)*0.1, 1e-300)
+			lo, hi = lo-d, hi+d
+		}
+		pad := 0.04 * (hi - lo)
+		p.Y.Min, p.Y.Max = lo-pad, hi+pad
+	}
+	p.X.Min, p.X.Max = xlo*xf, xhi*xf
+	if p.X.Max == p.X.Min {
+		p.X.Min, p.X.Max = p.X.Min-1, p.X.Max+1
+	}
+	if depletionDominated(c) != nil && !f.LogY {
+		p.Title.Text += " (scaled where the depletion part dominates)"
 	}
 	p.Legend.Top = true
 	p.Legend.Left = true
+	p.Legend.Padding = vg.Points(3)
 	return p, nil
 }
 
@@ -474,6 +631,18 @@ func addDots(p *plot.Plot, f Figure, si int, col color.RGBA) {
 	}
 }
 
+// legendWidth is the width of the legend column of a plot (0 without a
+// legend): the widest entry with its thumbnail and some room.
+func legendWidth(p *plot.Plot) vg.Length {
+	r := p.Legend.Rectangle(draw.New(vgsvg.New(100*vg.Centimeter, 100*vg.Centimeter)))
+	// A third more than measured: the fonts are not embedded, and a
+	// viewer's substitute may run wider than the metrics used here.
+	if w := r.Max.X - r.Min.X; w > 0 {
+		return w*4/3 + vg.Points(12)
+	}
+	return 0
+}
+
 // decadeTicks marks a logarithmic axis at every decade, labelled 1e-9.
 type decadeTicks struct{}
 
@@ -504,8 +673,23 @@ func FigureSVG(f Figure) (svg []byte, err error) {
 	if err != nil {
 		return nil, err
 	}
-	cv := vgsvg.NewWith(vgsvg.UseWH(16*vg.Centimeter, 10*vg.Centimeter), vgsvg.EmbedFonts(false))
-	p.Draw(draw.New(cv))
+	// The legend stands in a column right of the plot, never over a
+	// curve; the figure is widened by that column.
+	lw := legendWidth(p)
+	cv := vgsvg.NewWith(vgsvg.UseWH(16*vg.Centimeter+lw, 10*vg.Centimeter), vgsvg.EmbedFonts(false))
+	dc := draw.New(cv)
+	if lw > 0 {
+		// One white ground under the plot and the legend column.
+		dc.SetColor(color.White)
+		dc.Fill(dc.Rectangle.Path())
+		legend := p.Legend
+		p.Legend = plot.NewLegend()
+		p.Draw(draw.Crop(dc, 0, -lw, 0, 0))
+		legend.YOffs = -p.Title.TextStyle.Height(p.Title.Text) - p.Title.Padding
+		legend.Draw(draw.Crop(dc, 16*vg.Centimeter+vg.Points(6), 0, 0, 0))
+	} else {
+		p.Draw(dc)
+	}
 	var b bytes.Buffer
 	if _, err := cv.WriteTo(&b); err != nil {
 		return nil, fmt.Errorf("drawing %q: %w", c.ID, err)
