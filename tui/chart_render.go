@@ -260,6 +260,12 @@ func (c *chartModel) render() {
 			cursorPts = append(cursorPts, cursorPoint{x: pxs[j], y: py[j], line: len(lines) - 1})
 		}
 	}
+	if v.wantCursor && len(pxs) > 0 {
+		c.view.wantCursor = false
+		c.view.cursor = c.startCursor()
+		c.render()
+		return
+	}
 	opt := plotOpts{cursorX: math.NaN()}
 	if j := v.cursor; j >= 0 && j < len(pxs) {
 		opt.cursorX, opt.cursorPts = pxs[j], cursorPts

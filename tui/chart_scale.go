@@ -104,11 +104,11 @@ func logMapFor(xs []float64) (ok bool, why string) {
 	}
 	switch {
 	case pos > 0 && neg > 0:
-		return false, "a log x axis needs x values of one sign: this chart's cross zero (change the sweep with r)"
+		return false, "log x: the x values cross zero (r changes the sweep)"
 	case pos+neg < 2:
-		return false, "a log x axis needs at least two points off zero"
+		return false, "log x: fewer than two points off zero"
 	case hi < 10*lo:
-		return false, "the x values span less than a decade: a log axis shows nothing more"
+		return false, "log x: the x values span less than a decade"
 	}
 	return true, ""
 }

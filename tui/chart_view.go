@@ -20,6 +20,9 @@ type chartView struct {
 	x0, x1, y0, y1 float64
 	cursor         int
 	logX           bool
+	// wantCursor puts the cursor on once the curve is drawn (c pressed
+	// while the curves were being computed).
+	wantCursor bool
 }
 
 func fullView() chartView { return chartView{x0: 0, x1: 1, y0: 0, y1: 1, cursor: -1} }
@@ -116,11 +119,14 @@ func (c *chartModel) viewKey(km tea.KeyMsg) (ok bool) {
 	cx, cy := c.zoomCentre()
 	switch {
 	case keyIs(km, k.Cursor):
-		if v.cursor >= 0 {
-			v.cursor = -1
-		} else if n > 0 {
+		switch {
+		case v.cursor >= 0 || v.wantCursor:
+			v.cursor, v.wantCursor = -1, false
+		case n > 0:
 			v.cursor = c.startCursor()
 			c.follow()
+		default:
+			v.wantCursor = true
 		}
 	case keyIs(km, k.CursorPrev):
 		step(-1)

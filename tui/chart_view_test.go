@@ -192,7 +192,7 @@ func TestChartCursorReadoutAndZoom(t *testing.T) {
 func TestChartLogX(t *testing.T) {
 	m := chartAt(t, 120, 40, "iv")
 	m = press(m, "x")
-	if m.chart.view.logX || !strings.Contains(m.chart.editErr, "one sign") {
+	if m.chart.view.logX || !strings.Contains(m.chart.editErr, "cross zero") {
 		t.Errorf("log x on a sweep through zero: on=%v, message %q", m.chart.view.logX, m.chart.editErr)
 	}
 	m.chart.iv = model.Range{From: 0.01, To: 0.8, Step: 0.01}
