@@ -459,6 +459,10 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 	if p.X.Max == p.X.Min {
 		p.X.Min, p.X.Max = p.X.Min-1, p.X.Max+1
 	}
+	if splitFor(c, p.X.Min, p.X.Max) {
+		p.X.Scale, p.X.Tick.Marker = splitX{}, splitTicks{}
+		p.X.Label.Text += ", each side of the junction to its own scale"
+	}
 	if depletionDominated(c) != nil && !f.LogY {
 		p.Title.Text += " (scaled where the depletion part dominates)"
 	}

@@ -152,3 +152,42 @@ func TestFigureLegendBesidePlot(t *testing.T) {
 		t.Errorf("the I-V figure (legend) is %g wide, the field figure (none) %g", width(iv), width(field))
 	}
 }
+
+// A figure across a junction whose one side is over 100 times thinner
+// than the other gives each side half the width: the normalised position
+// of zero is the middle, and each side's end its edge.
+func TestFigureSplitSides(t *testing.T) {
+	f := figureByID(t, "field")
+	p, err := buildPlot(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !splitFor(f.Curve, p.X.Min, p.X.Max) {
+		t.Skipf("the example's sides (%g, %g) are not 100x apart", p.X.Min, p.X.Max)
+	}
+	if _, ok := p.X.Scale.(splitX); !ok {
+		t.Fatalf("x scale %T, want the split scale", p.X.Scale)
+	}
+	n := p.X.Scale.Normalize
+	if got := n(p.X.Min, p.X.Max, 0); got != 0.5 {
+		t.Errorf("zero at %g of the width, want 0.5", got)
+	}
+	if n(p.X.Min, p.X.Max, p.X.Min) != 0 || n(p.X.Min, p.X.Max, p.X.Max) != 1 {
+		t.Error("the ends of the two sides are not the edges of the axis")
+	}
+	neg, pos := 0, 0
+	for _, tk := range (splitTicks{}).Ticks(p.X.Min, p.X.Max) {
+		if tk.Label == "" {
+			continue
+		}
+		switch {
+		case tk.Value < 0:
+			neg++
+		case tk.Value > 0:
+			pos++
+		}
+	}
+	if neg == 0 || pos == 0 {
+		t.Errorf("labelled ticks: %d on the thin side, %d on the other", neg, pos)
+	}
+}
