@@ -90,7 +90,7 @@ func (c *chartModel) render() {
 	}
 	cvNote := ""
 	if d := depletionDominated(cur); d != nil {
-		all, cvNote = d, " where the depletion part dominates"
+		all, cvNote = d, " (depletion range)"
 	}
 	if pinned != nil {
 		if d := depletionDominated(*pinned); d != nil {

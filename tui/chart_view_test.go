@@ -121,7 +121,7 @@ func TestChartCVRangeFollowsTotal(t *testing.T) {
 	if total := maxOf(seriesOf(t, cv, "total")); !(total > top) {
 		t.Errorf("the largest total %g F fits under the top %g F: nothing is clipped", total, top)
 	}
-	if !strings.Contains(m.chart.yTitle, "where the depletion part dominates") {
+	if !strings.Contains(m.chart.yTitle, "scaled to the total (depletion range)") {
 		t.Errorf("y title %q does not say what sets the scale", m.chart.yTitle)
 	}
 }
