@@ -1,7 +1,6 @@
 package tui
 
 import (
-	"errors"
 	"fmt"
 	"math"
 	"reflect"
@@ -91,6 +90,14 @@ type chartModel struct {
 	curveErr       string
 	topPad         int
 
+	// view is the part of the chart shown, with the cursor; ax the scales
+	// of the last render; shown the curve drawn; drag the last cell of a
+	// mouse drag.
+	view  chartView
+	ax    drawnAxes
+	shown model.Curve
+	drag  *[2]int
+
 	w, h int
 }
 
@@ -100,6 +107,7 @@ func newChart(e env, s model.Spec) chartModel {
 		cv:   model.Range{From: -5, To: 0.5, Step: 0.05},
 		temp: model.Range{From: 250, To: 400, Step: 5},
 		iF:   1e-3,
+		view: fullView(),
 	}
 	return c
 }
@@ -205,15 +213,18 @@ func (c chartModel) Update(msg tea.Msg) (chartModel, tea.Cmd) {
 	if c.editing {
 		return c.updateEditing(km)
 	}
+	if c.viewKey(km) {
+		return c, nil
+	}
 	switch {
 	case keyIs(km, k.NextChart):
 		c.idx = (c.idx + 1) % len(c.kinds)
-		c.editErr = ""
+		c.editErr, c.view = "", fullView()
 		c.render()
 		return c, c.request()
 	case keyIs(km, k.PrevChart):
 		c.idx = (c.idx + len(c.kinds) - 1) % len(c.kinds)
-		c.editErr = ""
+		c.editErr, c.view = "", fullView()
 		c.render()
 		return c, c.request()
 	case keyIs(km, k.Sweep):
@@ -234,116 +245,6 @@ func (c *chartModel) apply(msg chartDataMsg) {
 
 // pending reports whether newer curves are being computed.
 func (c chartModel) pending() bool { return c.have != c.seq }
-
-// sweepFields names the inputs of the current chart's sweep.
-func (c chartModel) sweepFields() (labels []string, kinds []model.Kind, values []float64) {
-	switch c.kind().sweep {
-	case sweepIV:
-		return []string{"from", "to", "step"}, []model.Kind{model.Voltage, model.Voltage, model.Voltage}, []float64{c.iv.From, c.iv.To, c.iv.Step}
-	case sweepCV:
-		return []string{"from", "to", "step"}, []model.Kind{model.Voltage, model.Voltage, model.Voltage}, []float64{c.cv.From, c.cv.To, c.cv.Step}
-	case sweepTemp:
-		return []string{"from", "to", "step", "VF at"}, []model.Kind{model.Temperature, model.Temperature, model.Temperature, model.Current},
-			[]float64{c.temp.From, c.temp.To, c.temp.Step, c.iF}
-	}
-	return nil, nil, nil
-}
-
-func (c *chartModel) startEditing() {
-	_, kinds, vals := c.sweepFields()
-	if len(kinds) == 0 {
-		c.editErr = "this chart is drawn at the bias set under Define, step 5 (Conditions)"
-		return
-	}
-	c.editing, c.row, c.editErr = true, 0, ""
-	c.eds = make([]lineEditor, len(kinds))
-	for i := range kinds {
-		c.eds[i] = newLineEditor(inputText(kinds[i], vals[i]))
-	}
-}
-
-func (c chartModel) updateEditing(km tea.KeyMsg) (chartModel, tea.Cmd) {
-	k := c.e.keys
-	s := km.String()
-	switch {
-	case keyIs(km, k.Cancel):
-		c.editing, c.editErr = false, ""
-		return c, nil
-	case keyIs(km, k.Apply):
-		if err := c.applySweep(); err != nil {
-			c.editErr = err.Error()
-			return c, nil
-		}
-		c.editing, c.editErr = false, ""
-		return c, c.request()
-	case s == "tab" || s == "down":
-		c.row = (c.row + 1) % len(c.eds)
-		return c, nil
-	case s == "shift+tab" || s == "up":
-		c.row = (c.row + len(c.eds) - 1) % len(c.eds)
-		return c, nil
-	}
-	if c.row >= 0 && c.row < len(c.eds) {
-		c.eds[c.row].handle(km)
-	}
-	return c, nil
-}
-
-// applySweep parses and checks the sweep inputs and puts them in force.
-func (c *chartModel) applySweep() error {
-	labels, kinds, _ := c.sweepFields()
-	// One sweep parser for the command line and the workbench; the step is
-	// a difference (10 C is 10 K) and the points are counted before any
-	// memory is taken.
-	r, err := model.ParseSweepParts(kinds[0], c.eds[0].value(), c.eds[1].value(), c.eds[2].value(), maxChartPoints)
-	if err != nil {
-		return err
-	}
-	vals := []float64{r.From, r.To, r.Step}
-	for i := 3; i < len(kinds); i++ {
-		v, err := model.ParseValue(kinds[i], c.eds[i].value())
-		if err != nil {
-			return fmt.Errorf("sweep %s: %v", labels[i], err)
-		}
-		vals = append(vals, v)
-	}
-	if n, _ := r.Count(maxChartPoints); n < 2 {
-		return errors.New("the sweep needs at least two points: widen it or choose a smaller step")
-	}
-	// The ends must be values the junction accepts.
-	field := model.FieldBias
-	if c.kind().sweep == sweepTemp {
-		field = model.FieldTemperature
-	}
-	for i, v := range []float64{r.From, r.To} {
-		s := c.spec
-		if field == model.FieldBias {
-			s.Bias = v
-		} else {
-			s.Temperature = v
-		}
-		if err := s.Validate(); err != nil {
-			var ve *model.ValidationError
-			if errors.As(err, &ve) {
-				if fe, ok := ve.For(field); ok {
-					return fmt.Errorf("sweep %s %s is not allowed: %s (%s)", labels[i], fe.Value, fe.Allowed, fe.Why)
-				}
-			}
-		}
-	}
-	switch c.kind().sweep {
-	case sweepIV:
-		c.iv = r
-	case sweepCV:
-		c.cv = r
-	case sweepTemp:
-		if !(vals[3] > 0) {
-			return fmt.Errorf("VF at %s: the forward current must be positive", model.Format(model.Current, vals[3], 3, c.e.ascii))
-		}
-		c.temp, c.iF = r, vals[3]
-	}
-	return nil
-}
 
 // chartCurve computes the requested chart's curve for a spec.
 func chartCurve(c chartRequest, s model.Spec) (model.Curve, error) {
@@ -389,167 +290,8 @@ func chartCurve(c chartRequest, s model.Spec) (model.Curve, error) {
 }
 
 // fixedRows is the number of panel rows around the plot.
-func (c chartModel) fixedRows(legendLines int) int { return 5 + legendLines + c.readoutRows() }
-
-// render redraws the plot from the curves at hand for the current size,
-// chart and drawing mode.
-func (c *chartModel) render() {
-	c.plot, c.legend, c.curveErr, c.topPad = nil, nil, "", 0
-	k := c.kind()
-	c.title = k.name
-	if c.w < 16 || c.h < 8 || c.data == nil || c.data.req.kind.id != k.id {
-		return
-	}
-	st, g := c.e.st, c.e.g
-	if c.data.err != nil {
-		c.curveErr = c.data.err.Error()
-		return
-	}
-	cur, pinned := c.data.cur, c.data.pinned
-	cur, extra, exs, why, ok := c.overlay(k.id, cur)
-	if !ok {
-		c.curveErr = why
-		return
-	}
-	c.title = cur.Title
-	if len(extra) > 0 {
-		c.title += " " + g.dot + " with the drift-diffusion solution"
-	}
-
-	// Scale the x axis into its display unit.
-	xf, xUnit := axisFactor(cur.X, maxAbs(cur.Xs), c.e.ascii)
-	conv := func(v []float64, f float64) []float64 {
-		out := make([]float64, len(v))
-		for i, x := range v {
-			out[i] = x / f
-		}
-		return out
-	}
-	xs := conv(cur.Xs, xf)
-	var pxs []float64
-	if pinned != nil {
-		pxs = conv(pinned.Xs, xf)
-	}
-	nxs := conv(exs, xf)
-
-	// The y axis: linear in a display unit, or decades of |y|.
-	logY := k.log || cur.Y.Log
-	var all []float64
-	for _, s := range cur.Series {
-		all = append(all, s.Y...)
-	}
-	if pinned != nil {
-		all = append(all, pinned.Series[0].Y...)
-	}
-	for _, s := range extra {
-		for j, y := range s.Y {
-			if j < len(exs) && finite(exs[j]) {
-				all = append(all, y)
-			}
-		}
-	}
-	var ys axisScale
-	var yConv func([]float64) []float64
-	negative := false
-	for _, v := range all {
-		if v < 0 {
-			negative = true
-		}
-	}
-	legendW := c.w
-	// Build legend first: its height fixes the plot height.
-	var items []string
-	for i, s := range cur.Series {
-		l := s.Label
-		if len(extra) > 0 {
-			l += " (analytic)"
-		}
-		items = append(items, st.series[i%len(st.series)].Paint(g.markers[i%len(g.markers)])+" "+l)
-	}
-	for i, s := range extra {
-		j := numericMarker(i, len(g.markers))
-		items = append(items, st.series[j%len(st.series)].Paint(g.markers[j])+" "+s.Label)
-	}
-	if pinned != nil {
-		items = append(items, st.pinSeries.Paint(g.pinMarker)+" pinned: "+pinned.Series[0].Label)
-	}
-	c.legend = flowItems(items, legendW, 3)
-	ph := c.h - c.fixedRows(len(c.legend))
-	if ph < 5 {
-		c.curveErr = "the chart needs more room: enlarge the terminal"
-		return
-	}
-	if logY {
-		_, si := displayFactor(cur.Y)
-		lo, hi, ok := decadeRange(all, si, capDecades(k.id))
-		if !ok {
-			c.curveErr = "nothing to draw on a logarithmic axis: every value is zero or missing"
-			return
-		}
-		span := hi - lo
-		gh := ph - 2
-		if gh >= span && gh%span != 0 && gh%span <= gh/5 {
-			trim := gh % span
-			c.topPad = trim
-			ph -= trim
-			gh -= trim
-		}
-		step := max(1, int(math.Ceil(3*float64(span)/float64(max(gh, 1)))))
-		ys = decadeScale(lo, hi, step)
-		floor := math.Pow(10, float64(lo))
-		yConv = func(v []float64) []float64 {
-			out := make([]float64, len(v))
-			for i, y := range v {
-				switch {
-				case math.IsNaN(y):
-					out[i] = math.NaN()
-				default:
-					out[i] = math.Log10(math.Max(math.Abs(y)/si, floor))
-				}
-			}
-			return out
-		}
-		unit := displayUnit(cur.Y, c.e.ascii)
-		name := cur.Y.Label
-		if negative {
-			name = "|" + name + "|"
-		}
-		if unit == "1" {
-			c.yTitle = name + " (log scale)"
-		} else {
-			c.yTitle = name + " (" + unit + ", log scale)"
-		}
-	} else {
-		yf, yUnit := axisFactor(cur.Y, maxAbs(all), c.e.ascii)
-		lo, hi := minMax(all, yf)
-		ys = linearScale(lo, hi, max(2, (ph-2)/3))
-		yConv = func(v []float64) []float64 { return conv(v, yf) }
-		c.yTitle = axisTitle(cur.Y.Label, yUnit)
-	}
-	xlo, xhi := minMax(xs, 1)
-	if pxs != nil {
-		plo, phi := minMax(pxs, 1)
-		xlo, xhi = math.Min(xlo, plo), math.Max(xhi, phi)
-	}
-	xsc := exactScale(xlo, xhi, max(2, c.w/12))
-	c.xTitle = axisTitle(cur.X.Label, xUnit)
-
-	var lines []plotLine
-	if pinned != nil {
-		lines = append(lines, plotLine{label: "pinned", xs: pxs, ys: yConv(pinned.Series[0].Y), paint: st.pinSeries, marker: g.pinMarker, pinned: true})
-	}
-	for i := len(extra) - 1; i >= 0; i-- {
-		j := numericMarker(i, len(g.markers))
-		lines = append(lines, plotLine{label: extra[i].Label, xs: nxs, ys: yConv(extra[i].Y),
-			paint: st.series[j%len(st.series)], marker: g.markers[j]})
-	}
-	for i := len(cur.Series) - 1; i >= 0; i-- {
-		s := cur.Series[i]
-		lines = append(lines, plotLine{label: s.Label, xs: xs, ys: yConv(s.Y),
-			paint: st.series[i%len(st.series)], marker: g.markers[i%len(g.markers)]})
-	}
-	c.plot = renderPlot(lines, xsc, ys, c.w, ph, c.e)
-}
+// (title, y title, x title, cursor readout, two sweep lines).
+func (c chartModel) fixedRows(legendLines int) int { return 6 + legendLines + c.readoutRows() }
 
 // capDecades bounds the decades a log chart spans.
 func capDecades(id string) int {
@@ -759,48 +501,8 @@ func (c chartModel) lines() []string {
 	}
 	out = append(out, c.plot...)
 	out = append(out, st.muted.Paint(padLeft(cut(c.xTitle, w, g.ellipsis), w)))
+	out = append(out, c.cursorLine(w))
 	out = append(out, c.readout(w)...)
 	out = append(out, c.sweepLines(w)...)
 	return block(out, w, h, g.ellipsis)
-}
-
-// sweepLines describes or edits the sweep of the chart (two lines).
-func (c chartModel) sweepLines(w int) []string {
-	st, g, ascii := c.e.st, c.e.g, c.e.ascii
-	var l1, l2 string
-	if c.editing {
-		labels, _, _ := c.sweepFields()
-		var parts []string
-		for i, lb := range labels {
-			box := c.eds[i].view(10, st.selected, " ")
-			if i != c.row {
-				box = padRight(c.eds[i].value(), 10, g.ellipsis)
-			}
-			parts = append(parts, lb+" ["+box+"]")
-		}
-		l1 = strings.Join(parts, " ")
-		l2 = st.faint.Paint("tab next box " + g.dot + " enter apply " + g.dot + " esc cancel")
-		if c.editErr != "" {
-			l2 = st.err.Paint(g.bad + " " + c.editErr)
-		}
-		return []string{cut(l1, w, g.ellipsis), cut(l2, w, g.ellipsis)}
-	}
-	f := func(k model.Kind, v float64) string { return model.Format(k, v, 3, ascii) }
-	switch c.kind().sweep {
-	case sweepIV:
-		l1 = fmt.Sprintf("sweep %s to %s in %s steps", f(model.Voltage, c.iv.From), f(model.Voltage, c.iv.To), f(model.Voltage, c.iv.Step))
-	case sweepCV:
-		l1 = fmt.Sprintf("sweep %s to %s in %s steps", f(model.Voltage, c.cv.From), f(model.Voltage, c.cv.To), f(model.Voltage, c.cv.Step))
-	case sweepTemp:
-		l1 = fmt.Sprintf("sweep %s to %s in %s steps, VF at %s", f(model.Temperature, c.temp.From), f(model.Temperature, c.temp.To), f(model.Temperature, c.temp.Step), f(model.Current, c.iF))
-	default:
-		l1 = "at the bias in force, " + f(model.Voltage, c.spec.Bias) + " (Define, step 5)"
-	}
-	if c.kind().sweep != sweepNone {
-		l1 += "  " + g.dot + "  r: change"
-	}
-	if c.editErr != "" {
-		l2 = st.err.Paint(g.bad + " " + c.editErr)
-	}
-	return []string{st.muted.Paint(cut(l1, w, g.ellipsis)), cut(l2, w, g.ellipsis)}
 }

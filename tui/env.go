@@ -89,6 +89,10 @@ func newStyles(r *lipgloss.Renderer, color bool) styles {
 		heath  = tone("#B8A2D6", "146", "#5E4A8A", "60", "5")
 		cloud  = tone("#D9DEE5", "253", "#2B313B", "236", "7")
 		signal = tone("#F0C674", "221", "#7A5200", "94", "11")
+		// Two more line colours, so that the seven lines of the I-V
+		// chart (total and components) each have their own.
+		apricot = tone("#E8A36B", "173", "#9A5418", "130", "13")
+		lagoon  = tone("#6FC7D8", "80", "#1F6E80", "30", "14")
 	)
 	s := styles{
 		text:       inkOf(base),
@@ -112,7 +116,7 @@ func newStyles(r *lipgloss.Renderer, color bool) styles {
 		helpDesc:   fg(slate),
 		helpSep:    fg(dim),
 	}
-	for _, c := range []lipgloss.TerminalColor{sage, sand, moss, dusk, rose, cloud} {
+	for _, c := range []lipgloss.TerminalColor{sage, sand, moss, dusk, rose, cloud, apricot, lagoon} {
 		s.series = append(s.series, inkOf(fg(c)))
 	}
 	return s

@@ -46,6 +46,12 @@ type KeyMap struct {
 	// Charts panel.
 	PrevChart, NextChart key.Binding
 	Sweep                key.Binding
+	// Reading a chart: the cursor walks the points (one, or a twentieth of
+	// the sweep at a time); zoom and pan act on both axes or on one; LogX
+	// switches a log x axis where the x values allow one.
+	Cursor, CursorPrev, CursorNext, CursorJumpPrev, CursorJumpNext key.Binding
+	ZoomIn, ZoomOut, ZoomInX, ZoomOutX, ZoomInY, ZoomOutY          key.Binding
+	PanLeft, PanRight, PanUp, PanDown, ResetView, LogX             key.Binding
 
 	// Confirmation.
 	Yes, No key.Binding
@@ -134,6 +140,24 @@ func DefaultKeyMap() KeyMap {
 		PrevChart: b([]string{"left", "h", "["}, "←/h", "previous chart"),
 		NextChart: b([]string{"right", "l", "]"}, "→/l", "next chart"),
 		Sweep:     b([]string{"r", "enter"}, "r", "edit the sweep"),
+
+		Cursor:         b([]string{"c"}, "c", "cursor on/off"),
+		CursorPrev:     b([]string{","}, ",", "cursor to the previous point"),
+		CursorNext:     b([]string{"."}, ".", "cursor to the next point"),
+		CursorJumpPrev: b([]string{"<"}, "<", "cursor back 1/20 of the sweep"),
+		CursorJumpNext: b([]string{">"}, ">", "cursor on 1/20 of the sweep"),
+		ZoomIn:         b([]string{"+", "="}, "+", "zoom in (at the cursor)"),
+		ZoomOut:        b([]string{"-", "_"}, "-", "zoom out"),
+		ZoomInX:        b([]string{"z"}, "z", "zoom in, x only"),
+		ZoomOutX:       b([]string{"Z"}, "Z", "zoom out, x only"),
+		ZoomInY:        b([]string{"y"}, "y", "zoom in, y only"),
+		ZoomOutY:       b([]string{"Y"}, "Y", "zoom out, y only"),
+		PanLeft:        b([]string{"H", "shift+left"}, "H", "pan left"),
+		PanRight:       b([]string{"L", "shift+right"}, "L", "pan right"),
+		PanUp:          b([]string{"K", "shift+up"}, "K", "pan up"),
+		PanDown:        b([]string{"J", "shift+down"}, "J", "pan down"),
+		ResetView:      b([]string{"0"}, "0", "whole chart"),
+		LogX:           b([]string{"x"}, "x", "log x axis on/off"),
 
 		Yes:       b([]string{"y", "Y"}, "y", "yes, quit"),
 		No:        b([]string{"n", "N", "esc"}, "n/esc", "no, stay"),
@@ -253,9 +277,16 @@ func (k KeyMap) defineBindings() []key.Binding {
 // chartBindings are the keys of the charts panel.
 func (k KeyMap) chartBindings() []key.Binding {
 	if k.review {
-		return []key.Binding{k.PrevChart, k.NextChart}
+		return append([]key.Binding{k.PrevChart, k.NextChart}, k.chartViewBindings()...)
 	}
-	return []key.Binding{k.PrevChart, k.NextChart, k.Sweep}
+	return append([]key.Binding{k.PrevChart, k.NextChart, k.Sweep}, k.chartViewBindings()...)
+}
+
+// chartViewBindings are the keys that read a chart: cursor, zoom, pan.
+func (k KeyMap) chartViewBindings() []key.Binding {
+	return []key.Binding{k.Cursor, k.CursorPrev, k.CursorNext, k.CursorJumpPrev, k.CursorJumpNext,
+		k.ZoomIn, k.ZoomOut, k.ZoomInX, k.ZoomOutX, k.ZoomInY, k.ZoomOutY,
+		k.PanLeft, k.PanRight, k.PanUp, k.PanDown, k.ResetView, k.LogX}
 }
 
 // sessionBindings are the session keys, shown in every panel's full help.
@@ -320,9 +351,9 @@ func (h chartHelp) ShortHelp() []key.Binding {
 		return []key.Binding{k.Apply, k.Cancel, k.ApplyNext, k.ClearToStart}
 	}
 	if k.review {
-		return []key.Binding{k.NextChart, k.PrevChart, k.Solver, k.NextPanel, k.Note, k.CopyOwn, k.Help, k.Quit}
+		return []key.Binding{k.NextChart, k.PrevChart, k.Cursor, k.ZoomIn, k.Solver, k.NextPanel, k.Note, k.CopyOwn, k.Help, k.Quit}
 	}
-	return []key.Binding{k.NextChart, k.PrevChart, k.Sweep, k.Solver, k.NextPanel, k.Pin, k.Help, k.Quit, k.Save, k.CopyOwn}
+	return []key.Binding{k.NextChart, k.PrevChart, k.Cursor, k.ZoomIn, k.Sweep, k.Solver, k.NextPanel, k.Pin, k.Help, k.Quit, k.Save, k.CopyOwn}
 }
 
 func (h chartHelp) FullHelp() [][]key.Binding {

@@ -34,9 +34,10 @@ type axisScale struct {
 
 // cellClass says how a chart cell is painted.
 const (
-	classLabel = -3
-	classAxis  = -2
-	classEmpty = -1
+	classCursor = -4
+	classLabel  = -3
+	classAxis   = -2
+	classEmpty  = -1
 )
 
 // renderPlot draws lines on an ntcharts line chart of w x h cells (axes
@@ -46,9 +47,32 @@ const (
 // scale to the data range), and the canvas is painted here in runs so
 // that a redraw stays cheap.
 func renderPlot(lines []plotLine, xs, ys axisScale, w, h int, e env) []string {
+	out, _ := renderPlotWith(lines, xs, ys, w, h, e, plotOpts{cursorX: math.NaN()})
+	return out
+}
+
+// plotOpts are the extras of a plot: the cursor's x (NaN for none), drawn
+// as a faint vertical line, and its points on the lines, drawn as a mark
+// in the line's colour.
+type plotOpts struct {
+	cursorX   float64
+	cursorPts []cursorPoint
+}
+
+// cursorPoint is where the cursor meets line number line.
+type cursorPoint struct {
+	x, y float64
+	line int
+}
+
+// renderPlotWith is renderPlot with the cursor; it also returns where the
+// graph area lies in the returned lines. Segments are clipped to the
+// frame, so a line leaving the frame ends at its edge and one far outside
+// costs nothing.
+func renderPlotWith(lines []plotLine, xs, ys axisScale, w, h int, e env, opt plotOpts) ([]string, plotGeom) {
 	st, g := e.st, e.g
 	if w < 16 || h < 5 || !(xs.max > xs.min) || !(ys.max > ys.min) {
-		return block([]string{st.muted.Paint("(the chart needs more room)")}, max(w, 0), max(h, 0), "")
+		return block([]string{st.muted.Paint("(the chart needs more room)")}, max(w, 0), max(h, 0), ""), plotGeom{}
 	}
 	gh := h - 2
 	gridH := 4 * gh
@@ -57,15 +81,18 @@ func renderPlot(lines []plotLine, xs, ys axisScale, w, h int, e env) []string {
 		if r < 0 || r >= gh {
 			return ""
 		}
+		// Neighbouring rows share their edge exactly (same expression),
+		// so no tick falls between them.
 		unit := (ys.max - ys.min) / float64(gridH-1)
-		c := ys.min + (float64(gridH-1)-float64(4*r)-1.5)*unit
-		return tickIn(ys, c-2*unit, c+2*unit)
+		edge := func(k int) float64 { return ys.min + (float64(k)-3.5)*unit }
+		top := gridH - 1 - 4*r
+		return tickIn(ys, edge(top), edge(top+4))
 	}
 	lc := linechart.New(w, h, xs.min, xs.max, ys.min, ys.max,
 		linechart.WithXYSteps(1, 1), linechart.WithYLabelFormatter(yfmt))
 	gw := lc.GraphWidth()
 	if gw < 4 || lc.GraphHeight() < 2 {
-		return block([]string{st.muted.Paint("(the chart needs more room)")}, w, h, "")
+		return block([]string{st.muted.Paint("(the chart needs more room)")}, w, h, ""), plotGeom{}
 	}
 	gridW := 2 * gw
 	xfmt := func(i int, _ float64) string {
@@ -73,8 +100,8 @@ func renderPlot(lines []plotLine, xs, ys axisScale, w, h int, e env) []string {
 			return ""
 		}
 		unit := (xs.max - xs.min) / float64(gridW-1)
-		c := xs.min + (float64(2*i)+0.5)*unit
-		return tickIn(xs, c-unit, c+unit)
+		edge := func(k int) float64 { return xs.min + (float64(k)-0.5)*unit }
+		return tickIn(xs, edge(2*i), edge(2*i+2))
 	}
 	lc.XLabelFormatter = xfmt
 	lc.DrawXYAxisAndLabel()
@@ -122,22 +149,26 @@ func renderPlot(lines []plotLine, xs, ys axisScale, w, h int, e env) []string {
 			markers = append(markers, nil)
 			continue
 		}
-		var prev canvas.Point
 		havePrev := false
+		var px, py float64
 		for j := range ln.xs {
 			if j >= len(ln.ys) || !finite(ln.xs[j]) || !finite(ln.ys[j]) {
 				havePrev = false
 				continue
 			}
-			p := grid.GridPoint(canvas.Float64Point{X: ln.xs[j], Y: ln.ys[j]})
+			x, y := ln.xs[j], ln.ys[j]
 			if havePrev {
-				for _, q := range graph.GetLinePoints(prev, p) {
-					grid.Set(q)
+				if a, b, ok := clipSegment(px, py, x, y, xs, ys); ok {
+					p0 := grid.GridPoint(canvas.Float64Point{X: a[0], Y: a[1]})
+					p1 := grid.GridPoint(canvas.Float64Point{X: b[0], Y: b[1]})
+					for _, q := range graph.GetLinePoints(p0, p1) {
+						grid.Set(q)
+					}
 				}
-			} else {
-				grid.Set(p)
+			} else if x >= xs.min && x <= xs.max && y >= ys.min && y <= ys.max {
+				grid.Set(grid.GridPoint(canvas.Float64Point{X: x, Y: y}))
 			}
-			prev, havePrev = p, true
+			px, py, havePrev = x, y, true
 		}
 		pat := grid.BraillePatterns()
 		var ms []mark
@@ -192,6 +223,33 @@ func renderPlot(lines []plotLine, xs, ys axisScale, w, h int, e env) []string {
 		}
 	}
 
+	// The cursor: a faint line up its column where nothing is drawn, and
+	// a mark on each line it meets.
+	if finite(opt.cursorX) && opt.cursorX >= xs.min && opt.cursorX <= xs.max {
+		grid := graph.NewBrailleGrid(gw, gh, xs.min, xs.max, ys.min, ys.max)
+		cx := grid.GridPoint(canvas.Float64Point{X: opt.cursorX, Y: ys.min}).X / 2
+		bar := '┊'
+		if g.ascii {
+			bar = ':'
+		}
+		for y := 0; y < gh; y++ {
+			if owner[y][cx] == classEmpty {
+				put(cx, y, bar, classCursor)
+			}
+		}
+		mark := '◉'
+		if g.ascii {
+			mark = '&'
+		}
+		for _, p := range opt.cursorPts {
+			if !finite(p.y) || p.y < ys.min || p.y > ys.max || p.line < 0 || p.line >= len(lines) {
+				continue
+			}
+			q := grid.GridPoint(canvas.Float64Point{X: opt.cursorX, Y: p.y})
+			put(q.X/2, q.Y/4, mark, p.line)
+		}
+	}
+
 	// Paint the canvas in runs of one class.
 	out := make([]string, h)
 	var b strings.Builder
@@ -207,7 +265,7 @@ func renderPlot(lines []plotLine, xs, ys axisScale, w, h int, e env) []string {
 			switch {
 			case runClass == classLabel:
 				b.WriteString(st.muted.Paint(s))
-			case runClass == classAxis:
+			case runClass == classAxis, runClass == classCursor:
 				b.WriteString(st.faint.Paint(s))
 			case runClass >= 0 && runClass < len(lines):
 				b.WriteString(lines[runClass].paint.Paint(s))
@@ -246,7 +304,34 @@ func renderPlot(lines []plotLine, xs, ys axisScale, w, h int, e env) []string {
 		flush()
 		out[y] = b.String()
 	}
-	return out
+	return out, plotGeom{col: o.X + 1, row: 0, w: gw, h: gh}
+}
+
+// clipSegment clips the segment (x0,y0)-(x1,y1) to the frame of the two
+// scales (Liang and Barsky's parametric clipping); ok is false when no
+// part of it lies inside.
+func clipSegment(x0, y0, x1, y1 float64, xs, ys axisScale) (a, b [2]float64, ok bool) {
+	t0, t1 := 0.0, 1.0
+	dx, dy := x1-x0, y1-y0
+	for _, e := range [][2]float64{{-dx, x0 - xs.min}, {dx, xs.max - x0}, {-dy, y0 - ys.min}, {dy, ys.max - y0}} {
+		p, q := e[0], e[1]
+		if p == 0 {
+			if q < 0 {
+				return a, b, false
+			}
+			continue
+		}
+		r := q / p
+		if p < 0 {
+			t0 = math.Max(t0, r)
+		} else {
+			t1 = math.Min(t1, r)
+		}
+		if t0 > t1 {
+			return a, b, false
+		}
+	}
+	return [2]float64{x0 + t0*dx, y0 + t0*dy}, [2]float64{x0 + t1*dx, y0 + t1*dy}, true
 }
 
 // asciiRune replaces the box-drawing runes of the axes.
@@ -308,6 +393,13 @@ func linearScale(lo, hi float64, n int) axisScale {
 			d = 1
 		}
 		lo, hi = lo-d, hi+d
+	}
+	// An end within a thousandth of the span of zero is zero (a reverse
+	// current of nanoamperes under milliamperes): no empty step for it.
+	if span := hi - lo; lo < 0 && -lo < 1e-3*span {
+		lo = 0
+	} else if hi > 0 && hi < 1e-3*span {
+		hi = 0
 	}
 	step := niceStep(hi-lo, n)
 	lo = math.Floor(lo/step+1e-9) * step

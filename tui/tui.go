@@ -436,6 +436,8 @@ func (m Model) update(msg tea.Msg) (tea.Model, tea.Cmd) {
 		return m.shutdown()
 	case tea.KeyMsg:
 		return m.key(msg)
+	case tea.MouseMsg:
+		return m.chartMouse(msg), nil
 	}
 	return m, nil
 }
@@ -670,9 +672,13 @@ func (m Model) refusal(km tea.KeyMsg) string {
 }
 
 func (m *Model) setFocus(p panel) tea.Cmd {
+	mouse := mouseFor(m.focus, p)
 	m.focus = p
 	if p == panelResults || p == panelCharts {
 		m.right = p
+	}
+	if mouse != nil {
+		return tea.Batch(m.relayout(), mouse)
 	}
 	return m.relayout()
 }

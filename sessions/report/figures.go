@@ -313,25 +313,6 @@ func displayUnit(a model.Axis, maxAbs float64) (string, float64) {
 	return model.SIUnit(a.Kind), 1
 }
 
-// series extremes over finite values (and positive ones for log axes).
-func yExtent(f Figure) (lo, hi float64, ok bool) {
-	lo, hi = math.Inf(1), math.Inf(-1)
-	for _, s := range f.Curve.Series {
-		for _, y := range s.Y {
-			if f.LogY {
-				y = math.Abs(y)
-				if y <= 0 {
-					continue
-				}
-			}
-			if isFinite(y) {
-				lo, hi = min(lo, y), max(hi, y)
-			}
-		}
-	}
-	return lo, hi, lo <= hi
-}
-
 func xExtent(c model.Curve) (lo, hi float64, ok bool) {
 	lo, hi = math.Inf(1), math.Inf(-1)
 	for _, x := range c.Xs {
@@ -355,7 +336,8 @@ func axisTitle(a model.Axis, unit string, logAbs bool) string {
 
 // ---------------------------------------------------------------- SVG
 
-// buildPlot lays out a figure for drawing.
+// buildPlot lays out a figure for drawing. The y range follows yExtent and
+// every line is clipped to it.
 func buildPlot(f Figure) (*plot.Plot, error) {
 	c := f.Curve
 	xlo, xhi, okx := xExtent(c)
@@ -374,14 +356,34 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 		p.Y.Tick.Marker = decadeTicks{}
 	}
 	p.Add(plotter.NewGrid())
-	palette := []color.RGBA{{0, 0x5a, 0xb5, 255}, {0xdc, 0x32, 0x20, 255}, {0x1b, 0x9e, 0x3e, 255}, {0x8e, 0x44, 0xad, 255}, {0x7f, 0x7f, 0x7f, 255}}
-	for si, s := range c.Series {
-		col := palette[si%len(palette)]
+	prim := primary(c)
+	// The total is drawn last, over its components.
+	order := make([]int, 0, len(c.Series))
+	for i := range c.Series {
+		if i != prim {
+			order = append(order, i)
+		}
+	}
+	if prim >= 0 {
+		order = append(order, prim)
+	}
+	thumbs := make([]plot.Thumbnailer, len(c.Series))
+	for _, si := range order {
 		if f.dots(si) {
 			continue
 		}
+		s := c.Series[si]
+		col := seriesColour(c, si)
+		style := func(l *plotter.Line) {
+			l.Color = col
+			l.Width = vg.Points(1.2)
+			if si == prim || (prim < 0 && si == 0) {
+				l.Width = vg.Points(2)
+			} else {
+				l.Dashes = []vg.Length{vg.Points(4 + float64(si)), vg.Points(2)}
+			}
+		}
 		var seg plotter.XYs
-		legend := false
 		flush := func() {
 			if len(seg) == 0 {
 				return
@@ -391,16 +393,9 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 			if err != nil {
 				return
 			}
-			l.Color = col
-			l.Width = vg.Points(1.2)
-			if dashed := si - len(dotted(f)); dashed > 0 {
-				l.Dashes = []vg.Length{vg.Points(4 + float64(dashed)), vg.Points(2)}
-			}
+			style(l)
 			p.Add(l)
-			if !legend && len(c.Series) > 1 {
-				p.Legend.Add(s.Label, l)
-				legend = true
-			}
+			thumbs[si] = l
 		}
 		for i, x := range c.Xs {
 			if i >= len(s.Y) {
@@ -417,14 +412,63 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 			seg = append(seg, plotter.XY{X: x * xf, Y: y * yf})
 		}
 		flush()
+		if thumbs[si] == nil {
+			// No line (zero everywhere on a log axis): the legend still
+			// lists it, saying why.
+			l := &plotter.Line{}
+			style(l)
+			thumbs[si] = l
+		}
+	}
+	if len(c.Series) > 1 {
+		for si, s := range c.Series {
+			if f.dots(si) {
+				continue // listed by addDots
+			}
+			name := s.Label
+			if f.LogY && zeroSeries(s.Y) {
+				name += " (zero, not drawn)"
+			}
+			p.Legend.Add(name, thumbs[si])
+		}
 	}
 	// Points go on top of the lines, so that a fit through them leaves
 	// them visible.
 	for _, si := range dotted(f) {
-		addDots(p, f, si, palette[si%len(palette)])
+		addDots(p, f, si, seriesColour(c, si))
+	}
+	// The ranges are set after the lines and points are added (adding a line widens
+	// the axes to its data): the lines are clipped to them.
+	if f.LogY {
+		// Whole decades around the range.
+		p.Y.Min = math.Pow(10, math.Floor(math.Log10(ylo*yf)+1e-9))
+		p.Y.Max = math.Pow(10, math.Ceil(math.Log10(yhi*yf)-1e-9))
+		if p.Y.Max <= p.Y.Min {
+			p.Y.Max = p.Y.Min * 10
+		}
+	} else {
+		lo, hi := ylo*yf, yhi*yf
+		if hi == lo {
+			d := math.Max(math.Abs(lo)*0.1, 1e-300)
+			lo, hi = lo-d, hi+d
+		}
+		pad := 0.04 * (hi - lo)
+		p.Y.Min, p.Y.Max = lo-pad, hi+pad
+	}
+	p.X.Min, p.X.Max = xlo*xf, xhi*xf
+	if p.X.Max == p.X.Min {
+		p.X.Min, p.X.Max = p.X.Min-1, p.X.Max+1
+	}
+	if splitFor(c, p.X.Min, p.X.Max) {
+		p.X.Scale, p.X.Tick.Marker = splitX{}, splitTicks{}
+		p.X.Label.Text += ", each side of the junction to its own scale"
+	}
+	if depletionDominated(c) != nil && !f.LogY {
+		p.Title.Text += " (scaled where the depletion part dominates)"
 	}
 	p.Legend.Top = true
 	p.Legend.Left = true
+	p.Legend.Padding = vg.Points(3)
 	return p, nil
 }
 
@@ -504,8 +548,23 @@ func FigureSVG(f Figure) (svg []byte, err error) {
 	if err != nil {
 		return nil, err
 	}
-	cv := vgsvg.NewWith(vgsvg.UseWH(16*vg.Centimeter, 10*vg.Centimeter), vgsvg.EmbedFonts(false))
-	p.Draw(draw.New(cv))
+	// The legend stands in a column right of the plot, never over a
+	// curve; the figure is widened by that column.
+	lw := legendWidth(p)
+	cv := vgsvg.NewWith(vgsvg.UseWH(16*vg.Centimeter+lw, 10*vg.Centimeter), vgsvg.EmbedFonts(false))
+	dc := draw.New(cv)
+	if lw > 0 {
+		// One white ground under the plot and the legend column.
+		dc.SetColor(color.White)
+		dc.Fill(dc.Rectangle.Path())
+		legend := p.Legend
+		p.Legend = plot.NewLegend()
+		p.Draw(draw.Crop(dc, 0, -lw, 0, 0))
+		legend.YOffs = -p.Title.TextStyle.Height(p.Title.Text) - p.Title.Padding
+		legend.Draw(draw.Crop(dc, 16*vg.Centimeter+vg.Points(6), 0, 0, 0))
+	} else {
+		p.Draw(dc)
+	}
 	var b bytes.Buffer
 	if _, err := cv.WriteTo(&b); err != nil {
 		return nil, fmt.Errorf("drawing %q: %w", c.ID, err)

@@ -1,0 +1,191 @@
+package report
+
+import (
+	"image/color"
+	"math"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+	"gonum.org/v1/plot/vg/vgsvg"
+
+	"junco/model"
+)
+
+// What sets a figure's scale, its colours and its legend's room.
+
+// primary is the index of the series a figure's y range follows: the
+// total where the curve has one (I-V, C-V), else -1 (every series). The
+// components of a total are drawn clipped to that range: an idealised
+// Shockley current runs to amperes where the total is milliamperes.
+func primary(c model.Curve) int {
+	for i, s := range c.Series {
+		if s.Label == "total" {
+			return i
+		}
+	}
+	return -1
+}
+
+// maxLogDecades bounds the decades a log figure spans below its top.
+const maxLogDecades = 16
+
+// yExtent is the y range a figure is drawn over: the extremes of the
+// finite values (the positive magnitudes on a log axis) of the series
+// that set the scale: the total (see primary) and the measured points,
+// else every series; on a log axis at most maxLogDecades below the top.
+func yExtent(f Figure) (lo, hi float64, ok bool) {
+	lo, hi = math.Inf(1), math.Inf(-1)
+	p := primary(f.Curve)
+	measured := len(dotted(f)) > 0
+	for i, s := range f.Curve.Series {
+		if (p >= 0 || measured) && i != p && !f.dots(i) {
+			continue
+		}
+		ys := s.Y
+		if d := depletionDominated(f.Curve); d != nil && !f.LogY {
+			ys = d
+		}
+		for _, y := range ys {
+			if f.LogY {
+				y = math.Abs(y)
+				if y <= 0 {
+					continue
+				}
+			}
+			if isFinite(y) {
+				lo, hi = min(lo, y), max(hi, y)
+			}
+		}
+	}
+	if f.LogY && lo <= hi {
+		lo = max(lo, hi*math.Pow(10, -maxLogDecades))
+	}
+	return lo, hi, lo <= hi
+}
+
+// depletionDominated returns the total capacitance of a C-V curve where
+// the depletion part is at least the diffusion part (the reverse and low
+// forward bias a C-V measurement reads), or nil when there are fewer than
+// two such points or the curve is not a C-V curve. The forward-bias
+// diffusion capacitance grows as exp(V/Vt) and would flatten the rest on
+// a linear axis; it runs off the top of the figure instead.
+func depletionDominated(c model.Curve) []float64 {
+	if c.ID != "cv" {
+		return nil
+	}
+	var dep, dif, tot []float64
+	for _, s := range c.Series {
+		switch s.Label {
+		case "depletion":
+			dep = s.Y
+		case "diffusion":
+			dif = s.Y
+		case "total":
+			tot = s.Y
+		}
+	}
+	var out []float64
+	for i := range tot {
+		if i < len(dep) && i < len(dif) && isFinite(dep[i]) && dep[i] >= dif[i] {
+			out = append(out, tot[i])
+		}
+	}
+	if len(out) < 2 || len(out) == len(tot) {
+		return nil
+	}
+	return out
+}
+
+// zeroSeries reports a series with no finite value off zero: on a log
+// axis it has no line, and its legend entry says so.
+func zeroSeries(y []float64) bool {
+	for _, v := range y {
+		if isFinite(v) && v != 0 {
+			return false
+		}
+	}
+	return true
+}
+
+// palette is the figure's line colours, one per series, all distinct and
+// told apart by colour-blind readers (Okabe and Ito's eight colours, with
+// black for the first series, which is the total where there is one).
+var palette = []color.RGBA{
+	{0, 0, 0, 255}, {0xe6, 0x9f, 0x00, 255}, {0x56, 0xb4, 0xe9, 255}, {0x00, 0x9e, 0x73, 255},
+	{0x00, 0x72, 0xb2, 255}, {0xd5, 0x5e, 0x00, 255}, {0xcc, 0x79, 0xa7, 255}, {0x99, 0x99, 0x99, 255},
+}
+
+// seriesColour is the colour of series i of a curve: the total gets the
+// first (black), the others the rest in order.
+func seriesColour(c model.Curve, i int) color.RGBA {
+	p := primary(c)
+	k := i
+	switch {
+	case p < 0:
+	case i == p:
+		k = 0
+	case i < p:
+		k = i + 1
+	}
+	return palette[k%len(palette)]
+}
+
+// legendWidth is the width of the legend column of a plot (0 without a
+// legend): the widest entry with its thumbnail and some room.
+func legendWidth(p *plot.Plot) vg.Length {
+	r := p.Legend.Rectangle(draw.New(vgsvg.New(100*vg.Centimeter, 100*vg.Centimeter)))
+	// A third more than measured: the fonts are not embedded, and a
+	// viewer's substitute may run wider than the metrics used here.
+	if w := r.Max.X - r.Min.X; w > 0 {
+		return w*4/3 + vg.Points(12)
+	}
+	return 0
+}
+
+// splitRatio is the ratio of the two sides' extents beyond which a figure
+// across the junction gives each side its own x scale.
+const splitRatio = 100
+
+// splitX is an x axis whose negative and positive parts each take half
+// the width, each on its own linear scale: across a junction whose one
+// side is far thinner than the other, both sides show.
+type splitX struct{}
+
+// Normalize maps x in [min, max] (min < 0 < max) to [0, 1]: min to 0,
+// zero to 0.5, max to 1.
+func (splitX) Normalize(min, max, x float64) float64 {
+	if x < 0 {
+		return 0.5 * (x - min) / -min
+	}
+	return 0.5 + 0.5*x/max
+}
+
+// splitTicks marks each side with its own round ticks, and zero.
+type splitTicks struct{}
+
+func (splitTicks) Ticks(min, max float64) []plot.Tick {
+	var out []plot.Tick
+	for _, t := range (plot.DefaultTicks{}).Ticks(min, 0) {
+		if t.Value < 0 {
+			out = append(out, t)
+		}
+	}
+	out = append(out, plot.Tick{Value: 0, Label: "0"})
+	for _, t := range (plot.DefaultTicks{}).Ticks(0, max) {
+		if t.Value > 0 {
+			out = append(out, t)
+		}
+	}
+	return out
+}
+
+// splitFor reports whether a figure's x values (display units, lo..hi)
+// call for a split axis: a position across the junction whose one side
+// is more than splitRatio times shorter than the other.
+func splitFor(c model.Curve, lo, hi float64) bool {
+	if c.X.Kind != model.Length || !(lo < 0 && hi > 0) {
+		return false
+	}
+	return math.Max(-lo, hi) >= splitRatio*math.Min(-lo, hi)
+}
