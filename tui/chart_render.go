@@ -1,6 +1,9 @@
 package tui
 
-import "math"
+import (
+	"junco/model"
+	"math"
+)
 
 // render redraws the plot from the curves at hand for the current size,
 // chart, view and drawing mode. The y scale follows the total where the
@@ -32,7 +35,7 @@ func (c *chartModel) render() {
 		c.title += " " + g.dot + " with the drift-diffusion solution"
 	}
 	logY := k.log || cur.Y.Log
-	prim := primarySeries(cur)
+	prim := cur.Primary()
 	pinIdx := 0
 	if pinned != nil {
 		pinIdx = pinnedSeries(*pinned)
@@ -89,11 +92,11 @@ func (c *chartModel) render() {
 		}
 	}
 	cvNote := ""
-	if d := depletionDominated(cur); d != nil {
+	if d := cur.DepletionDominated(); d != nil {
 		all, cvNote = d, " (depletion range)"
 	}
 	if pinned != nil {
-		if d := depletionDominated(*pinned); d != nil {
+		if d := pinned.DepletionDominated(); d != nil {
 			all = append(all, d...)
 		} else {
 			all = append(all, pinned.Series[pinIdx].Y...)
@@ -121,7 +124,7 @@ func (c *chartModel) render() {
 		if len(extra) > 0 {
 			l += " (analytic)"
 		}
-		if logY && isZero(s.Y) {
+		if logY && model.ZeroSeries(s.Y) {
 			items = append(items, st.faint.Paint(g.markers[i%len(g.markers)]+" "+l+": zero"))
 			continue
 		}

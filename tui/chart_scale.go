@@ -208,29 +208,6 @@ func splitViewScale(m axisMap, lo, hi float64, n int) axisScale {
 	return a
 }
 
-// primarySeries is the index of the series a chart's scale follows: the
-// total, where the curve has one (its components are drawn clipped to
-// the frame), else -1 (every series counts).
-func primarySeries(c model.Curve) int {
-	for i, s := range c.Series {
-		if s.Label == "total" {
-			return i
-		}
-	}
-	return -1
-}
-
-// isZero reports a series with no finite non-zero value: on a log axis it
-// has no line, only its legend entry saying so.
-func isZero(y []float64) bool {
-	for _, v := range y {
-		if finite(v) && v != 0 {
-			return false
-		}
-	}
-	return true
-}
-
 // spatial reports a chart whose x axis is a position across the junction.
 func spatial(c model.Curve) bool {
 	return c.X.Kind == model.Length && strings.Contains(c.X.Unit, "m")
@@ -246,36 +223,4 @@ func valueText(a model.Axis, v float64, ascii bool) string {
 		return strconv.FormatFloat(v, 'g', 4, 64) + " " + a.Unit
 	}
 	return model.Format(a.Kind, v, 4, ascii)
-}
-
-// depletionDominated returns the total capacitance of a C-V curve where
-// the depletion part is at least the diffusion part (the reverse and low
-// forward bias a C-V measurement reads), or nil when there are fewer than
-// two such points or the curve is not a C-V curve. The forward-bias
-// diffusion capacitance grows as exp(V/Vt) and would flatten the rest.
-func depletionDominated(c model.Curve) []float64 {
-	if c.ID != "cv" {
-		return nil
-	}
-	var dep, dif, tot []float64
-	for _, s := range c.Series {
-		switch s.Label {
-		case "depletion":
-			dep = s.Y
-		case "diffusion":
-			dif = s.Y
-		case "total":
-			tot = s.Y
-		}
-	}
-	var out []float64
-	for i := range tot {
-		if i < len(dep) && i < len(dif) && finite(dep[i]) && dep[i] >= dif[i] {
-			out = append(out, tot[i])
-		}
-	}
-	if len(out) < 2 || len(out) == len(tot) {
-		return nil
-	}
-	return out
 }

@@ -306,11 +306,11 @@ func (c chartModel) cursorLine(w int) string {
 	parts := []string{st.strong.Paint(symbolOf(cur.X.Label) + " " + valueText(cur.X, cur.Xs[i], ascii))}
 	// The total first: a narrow panel cuts the components.
 	order := []int{}
-	if p := primarySeries(cur); p >= 0 {
+	if p := cur.Primary(); p >= 0 {
 		order = append(order, p)
 	}
 	for j := range cur.Series {
-		if j != primarySeries(cur) {
+		if j != cur.Primary() {
 			order = append(order, j)
 		}
 	}
@@ -344,4 +344,4 @@ func symbolOf(label string) string {
 
 // pinnedSeries is the series of the pinned curve drawn: its total where it
 // has one, else its first.
-func pinnedSeries(p model.Curve) int { return max(primarySeries(p), 0) }
+func pinnedSeries(p model.Curve) int { return max(p.Primary(), 0) }

@@ -85,7 +85,7 @@ func TestChartLogIVTopAndZeroComponent(t *testing.T) {
 	if want := math.Ceil(math.Log10(total) - 1e-9); m.chart.ax.fullY[1] != want {
 		t.Errorf("top decade 1e%g, want 1e%g (largest total %g A)", m.chart.ax.fullY[1], want, total)
 	}
-	if !isZero(seriesOf(t, iv, "shunt")) {
+	if !model.ZeroSeries(seriesOf(t, iv, "shunt")) {
 		t.Skip("the demo junction has a shunt: nothing to check")
 	}
 	legend := ansi.Strip(strings.Join(m.chart.legend, "\n"))
@@ -109,7 +109,7 @@ func TestChartCVRangeFollowsTotal(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	d := depletionDominated(cv)
+	d := cv.DepletionDominated()
 	if d == nil {
 		t.Fatal("the default C-V sweep has no forward part where diffusion dominates: the test tests nothing")
 	}

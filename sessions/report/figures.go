@@ -356,7 +356,7 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 		p.Y.Tick.Marker = decadeTicks{}
 	}
 	p.Add(plotter.NewGrid())
-	prim := primary(c)
+	prim := c.Primary()
 	// The total is drawn last, over its components.
 	order := make([]int, 0, len(c.Series))
 	for i := range c.Series {
@@ -426,7 +426,7 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 				continue // listed by addDots
 			}
 			name := s.Label
-			if f.LogY && zeroSeries(s.Y) {
+			if f.LogY && model.ZeroSeries(s.Y) {
 				name += " (zero, not drawn)"
 			}
 			p.Legend.Add(name, thumbs[si])
@@ -463,7 +463,7 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 		p.X.Scale, p.X.Tick.Marker = splitX{}, splitTicks{}
 		p.X.Label.Text += ", each side of the junction to its own scale"
 	}
-	if depletionDominated(c) != nil && !f.LogY {
+	if c.DepletionDominated() != nil && !f.LogY {
 		p.Title.Text += " (scaled where the depletion part dominates)"
 	}
 	p.Legend.Top = true

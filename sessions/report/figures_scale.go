@@ -14,19 +14,6 @@ import (
 
 // What sets a figure's scale, its colours and its legend's room.
 
-// primary is the index of the series a figure's y range follows: the
-// total where the curve has one (I-V, C-V), else -1 (every series). The
-// components of a total are drawn clipped to that range: an idealised
-// Shockley current runs to amperes where the total is milliamperes.
-func primary(c model.Curve) int {
-	for i, s := range c.Series {
-		if s.Label == "total" {
-			return i
-		}
-	}
-	return -1
-}
-
 // maxLogDecades bounds the decades a log figure spans below its top.
 const maxLogDecades = 16
 
@@ -36,14 +23,14 @@ const maxLogDecades = 16
 // else every series; on a log axis at most maxLogDecades below the top.
 func yExtent(f Figure) (lo, hi float64, ok bool) {
 	lo, hi = math.Inf(1), math.Inf(-1)
-	p := primary(f.Curve)
+	p := f.Curve.Primary()
 	measured := len(dotted(f)) > 0
 	for i, s := range f.Curve.Series {
 		if (p >= 0 || measured) && i != p && !f.dots(i) {
 			continue
 		}
 		ys := s.Y
-		if d := depletionDominated(f.Curve); d != nil && !f.LogY {
+		if d := f.Curve.DepletionDominated(); d != nil && !f.LogY {
 			ys = d
 		}
 		for _, y := range ys {
@@ -64,62 +51,20 @@ func yExtent(f Figure) (lo, hi float64, ok bool) {
 	return lo, hi, lo <= hi
 }
 
-// depletionDominated returns the total capacitance of a C-V curve where
-// the depletion part is at least the diffusion part (the reverse and low
-// forward bias a C-V measurement reads), or nil when there are fewer than
-// two such points or the curve is not a C-V curve. The forward-bias
-// diffusion capacitance grows as exp(V/Vt) and would flatten the rest on
-// a linear axis; it runs off the top of the figure instead.
-func depletionDominated(c model.Curve) []float64 {
-	if c.ID != "cv" {
-		return nil
-	}
-	var dep, dif, tot []float64
-	for _, s := range c.Series {
-		switch s.Label {
-		case "depletion":
-			dep = s.Y
-		case "diffusion":
-			dif = s.Y
-		case "total":
-			tot = s.Y
-		}
-	}
-	var out []float64
-	for i := range tot {
-		if i < len(dep) && i < len(dif) && isFinite(dep[i]) && dep[i] >= dif[i] {
-			out = append(out, tot[i])
-		}
-	}
-	if len(out) < 2 || len(out) == len(tot) {
-		return nil
-	}
-	return out
-}
-
-// zeroSeries reports a series with no finite value off zero: on a log
-// axis it has no line, and its legend entry says so.
-func zeroSeries(y []float64) bool {
-	for _, v := range y {
-		if isFinite(v) && v != 0 {
-			return false
-		}
-	}
-	return true
-}
-
 // palette is the figure's line colours, one per series, all distinct and
 // told apart by colour-blind readers (Okabe and Ito's eight colours, with
 // black for the first series, which is the total where there is one).
-var palette = []color.RGBA{
-	{0, 0, 0, 255}, {0xe6, 0x9f, 0x00, 255}, {0x56, 0xb4, 0xe9, 255}, {0x00, 0x9e, 0x73, 255},
-	{0x00, 0x72, 0xb2, 255}, {0xd5, 0x5e, 0x00, 255}, {0xcc, 0x79, 0xa7, 255}, {0x99, 0x99, 0x99, 255},
+func palette() []color.RGBA {
+	return []color.RGBA{
+		{0, 0, 0, 255}, {0xe6, 0x9f, 0x00, 255}, {0x56, 0xb4, 0xe9, 255}, {0x00, 0x9e, 0x73, 255},
+		{0x00, 0x72, 0xb2, 255}, {0xd5, 0x5e, 0x00, 255}, {0xcc, 0x79, 0xa7, 255}, {0x99, 0x99, 0x99, 255},
+	}
 }
 
 // seriesColour is the colour of series i of a curve: the total gets the
 // first (black), the others the rest in order.
 func seriesColour(c model.Curve, i int) color.RGBA {
-	p := primary(c)
+	p := c.Primary()
 	k := i
 	switch {
 	case p < 0:
@@ -128,7 +73,8 @@ func seriesColour(c model.Curve, i int) color.RGBA {
 	case i < p:
 		k = i + 1
 	}
-	return palette[k%len(palette)]
+	colours := palette()
+	return colours[k%len(colours)]
 }
 
 // legendWidth is the width of the legend column of a plot (0 without a

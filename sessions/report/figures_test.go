@@ -75,7 +75,7 @@ func TestFigureCVRange(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	d := depletionDominated(f.Curve)
+	d := f.Curve.DepletionDominated()
 	if d == nil {
 		t.Skip("the example's sweep has no forward bias where diffusion dominates")
 	}
@@ -118,7 +118,7 @@ func TestFigureColoursDistinct(t *testing.T) {
 				t.Errorf("%s: the SVG never uses %q's colour %s", f.Curve.ID, s.Label, hex)
 			}
 		}
-		if p := primary(f.Curve); p >= 0 && seriesColour(f.Curve, p) != palette[0] {
+		if p := f.Curve.Primary(); p >= 0 && seriesColour(f.Curve, p) != palette()[0] {
 			t.Errorf("%s: the total is not drawn in the first colour", f.Curve.ID)
 		}
 	}
