@@ -178,6 +178,16 @@ func OpenInbox(dataRoot, user string, lim InboxLimits) (*Inbox, error) {
 // Close releases the inbox.
 func (in *Inbox) Close() error { return in.root.Close() }
 
+// ServedMaxRows caps the data rows of one import from an inbox (a fifth of
+// the importer's own cap): a served user's data sets live in the server's
+// memory beside every other user's, about 170 bytes a row once imported
+// and fitted.
+const ServedMaxRows = 200_000
+
+// RowLimit is the data-row cap of an import from the inbox (ServedMaxRows;
+// model/fit reads it).
+func (in *Inbox) RowLimit() int { return ServedMaxRows }
+
 // Limits returns the caps in force.
 func (in *Inbox) Limits() InboxLimits { return in.lim }
 

@@ -28,6 +28,11 @@ type FileError struct {
 
 func (e *FileError) Error() string { return e.Path + ": " + e.Why }
 
+// RowLimiter is a file access that caps the data rows of each import (a
+// served user's inbox: the imports of every user share the server's
+// memory).
+type RowLimiter interface{ RowLimit() int }
+
 // Import reads the measurement file at path from files (nil: the local
 // file system) for a fit: only a regular file (no directory, device or
 // pipe that could block) of at most MaxFileBytes is read, else a
@@ -46,7 +51,11 @@ func ImportContext(ctx context.Context, files model.Files, path string, kind mea
 		return nil, err
 	}
 	defer f.Close()
-	return measure.ImportContext(ctx, io.LimitReader(f, MaxFileBytes), path, measure.Options{Kind: kind, Now: now})
+	opt := measure.Options{Kind: kind, Now: now}
+	if rl, ok := files.(RowLimiter); ok {
+		opt.MaxRows = rl.RowLimit()
+	}
+	return measure.ImportContext(ctx, io.LimitReader(f, MaxFileBytes), path, opt)
 }
 
 // OpenDataFile opens the file at path in files (nil: the local file

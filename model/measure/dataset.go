@@ -141,6 +141,10 @@ type Options struct {
 	Delimiter byte
 	// Now supplies the import time (default time.Now).
 	Now func() time.Time
+	// MaxRows lowers the data-row cap of this import below MaxRows (0 or
+	// more than MaxRows: MaxRows), e.g. for a served user, whose imports
+	// share the server's memory.
+	MaxRows int
 }
 
 // ImportFile opens path and imports it; see Import.

@@ -239,6 +239,15 @@ func (im *importer) run() (*DataSet, error) {
 	return &ds, nil
 }
 
+// rowLimit is the data-row cap of this import (Options.MaxRows, at most
+// MaxRows).
+func (im *importer) rowLimit() int {
+	if n := im.opt.MaxRows; n > 0 && n < MaxRows {
+		return n
+	}
+	return MaxRows
+}
+
 func (im *importer) readErr(err error) error {
 	if err == ErrLineTooLong {
 		return &ParseError{File: im.file, Line: im.lr.line, Err: ErrLineTooLong, Expected: fmt.Sprintf("lines of at most %d bytes", MaxLineBytes)}
@@ -264,9 +273,13 @@ func (im *importer) dataLine(line []byte) error {
 		return &ParseError{File: im.file, Line: ln, Err: ErrEncoding, Expected: "text without NUL bytes (is this a binary file?)"}
 	}
 	im.ds.DataRows++
-	if im.ds.DataRows > MaxRows {
+	if lim := im.rowLimit(); im.ds.DataRows > lim {
+		what := "MaxRows"
+		if lim < MaxRows {
+			what = "the cap of this import, lower than MaxRows"
+		}
 		return &ParseError{File: im.file, Line: ln, Err: ErrTooManyRows,
-			Expected: fmt.Sprintf("at most %d data rows (MaxRows) per file, to bound memory and time; split the file", MaxRows)}
+			Expected: fmt.Sprintf("at most %d data rows (%s) per file, to bound memory and time; split the file", lim, what)}
 	}
 	f := im.split(line)
 	if len(f) <= im.maxIdx {
