@@ -57,3 +57,16 @@ func tooFew(field string, got, need int, why string) error {
 	return &InputError{Field: field, Value: fmt.Sprintf("%d usable points", got),
 		Allowed: fmt.Sprintf("at least %d", need), Reason: why, Err: ErrTooFewPoints}
 }
+
+// checkSweep checks what every I-V fit needs: voltage and current columns
+// of one length, a device temperature in 1..2000 K (for kT/q) and a valid
+// window.
+func checkSweep(v, i []float64, t float64, w Window) error {
+	if len(v) != len(i) {
+		return inputErr("current", fmt.Sprintf("%d values", len(i)), fmt.Sprintf("%d values (one per voltage)", len(v)), "voltage and current columns must have the same length")
+	}
+	if !(t >= 1 && t <= 2000) {
+		return inputErr("TemperatureK", t, "1..2000 K", "the thermal voltage kT/q needs the device temperature")
+	}
+	return w.check("Window")
+}

@@ -197,16 +197,10 @@ func FitIV(v, i []float64, opt IVOptions) (*IVFit, error) {
 // a cancelled fit returns ctx.Err() (wrapped; test with errors.Is) within
 // milliseconds whatever the number of points.
 func FitIVContext(ctx context.Context, v, i []float64, opt IVOptions) (*IVFit, error) {
-	if len(v) != len(i) {
-		return nil, inputErr("current", fmt.Sprintf("%d values", len(i)), fmt.Sprintf("%d values (one per voltage)", len(v)), "voltage and current columns must have the same length")
-	}
-	t := opt.TemperatureK
-	if !(t >= 1 && t <= 2000) {
-		return nil, inputErr("TemperatureK", t, "1..2000 K", "the thermal voltage kT/q needs the device temperature")
-	}
-	if err := opt.Window.check("Window"); err != nil {
+	if err := checkSweep(v, i, opt.TemperatureK, opt.Window); err != nil {
 		return nil, err
 	}
+	t := opt.TemperatureK
 	if opt.RelativeNoise < 0 || opt.CurrentFloorA < 0 || math.IsNaN(opt.RelativeNoise) || math.IsNaN(opt.CurrentFloorA) ||
 		math.IsInf(opt.RelativeNoise, 0) || math.IsInf(opt.CurrentFloorA, 0) {
 		return nil, inputErr("noise", fmt.Sprintf("%g, %g A", opt.RelativeNoise, opt.CurrentFloorA), ">= 0 and finite", "noise levels cannot be negative")

@@ -330,16 +330,10 @@ func FitLit(v, i []float64, opt LitOptions) (*LitFit, error) {
 // FitLitContext is FitLit with cancellation (ctx is checked before every
 // model evaluation and every few thousand points).
 func FitLitContext(ctx context.Context, v, i []float64, opt LitOptions) (*LitFit, error) {
-	if len(v) != len(i) {
-		return nil, inputErr("current", fmt.Sprintf("%d values", len(i)), fmt.Sprintf("%d values (one per voltage)", len(v)), "voltage and current columns must have the same length")
-	}
-	t := opt.TemperatureK
-	if !(t >= 1 && t <= 2000) {
-		return nil, inputErr("TemperatureK", t, "1..2000 K", "the thermal voltage kT/q needs the device temperature")
-	}
-	if err := opt.Window.check("Window"); err != nil {
+	if err := checkSweep(v, i, opt.TemperatureK, opt.Window); err != nil {
 		return nil, err
 	}
+	t := opt.TemperatureK
 	if opt.Sign < SignAuto || opt.Sign > SignGenerator {
 		return nil, inputErr("Sign", int(opt.Sign), "SignAuto, SignLoad or SignGenerator", "unknown sign convention")
 	}
