@@ -3,7 +3,6 @@ package tui
 import (
 	"context"
 	"fmt"
-	"math"
 	"strings"
 
 	"github.com/charmbracelet/bubbles/key"
@@ -11,7 +10,6 @@ import (
 
 	"junco/model"
 	"junco/model/fit"
-	"junco/model/measure"
 )
 
 // cardState is the model-card screen: the card built from the session's
@@ -28,38 +26,14 @@ type cardState struct {
 // sweep, the first C-V set. A file without a temperature takes the
 // junction's (the fit layer's rule).
 func (m *Model) openCard() {
-	tj := m.form.spec.Temperature
-	in := fit.CardInputs{Name: cardName(m.name), Temperature: fit.TemperatureRule{FallbackK: tj, FallbackSource: fit.SourceJunction}}
-	ref, best := -1, math.Inf(1)
-	for _, i := range m.ivMeasurements() {
-		ds := &m.sess.meas[i].DataSet
-		if fit.IsLit(ds) {
-			continue // a lit sweep is not the dark diode the card describes
-		}
-		if !hasForward(ds) {
-			if in.Reverse == nil {
-				in.Reverse = ds
-			}
-			continue
-		}
-		t, _ := in.Temperature.Choose(ds)
-		if d := math.Abs(t.K - tj); d < best {
-			ref, best = len(in.IV), d
-		}
-		in.IV = append(in.IV, ds)
-		in.IVFiles = append(in.IVFiles, m.sess.meas[i].ID)
+	sets := make([]fit.NamedDataSet, 0, len(m.sess.meas))
+	for i := range m.sess.meas {
+		sets = append(sets, fit.NamedDataSet{Name: m.sess.meas[i].ID, DataSet: &m.sess.meas[i].DataSet})
 	}
-	if len(in.IV) == 0 {
+	in, err := fit.CardInputsFrom(fit.CardName(m.name), sets, m.form.spec.Temperature)
+	if err != nil {
 		m.note = "no forward I-V data set in the session: i imports one (the model card needs forward I-V)"
 		return
-	}
-	in.IV[0], in.IV[ref] = in.IV[ref], in.IV[0]
-	in.IVFiles[0], in.IVFiles[ref] = in.IVFiles[ref], in.IVFiles[0]
-	for i := range m.sess.meas {
-		if m.sess.meas[i].Kind == measure.KindCV {
-			in.CV = &m.sess.meas[i].DataSet
-			break
-		}
 	}
 	m.card = cardState{}
 	res, err := fit.Card(context.Background(), in)
@@ -68,35 +42,6 @@ func (m *Model) openCard() {
 	}
 	m.card.res = res
 	m.screen = screenCard
-}
-
-// hasForward reports whether ds holds a forward point (V > 0, I > 0).
-func hasForward(ds *measure.DataSet) bool {
-	for k, v := range ds.VoltageV {
-		if v > 0 && ds.CurrentA[k] > 0 {
-			return true
-		}
-	}
-	return false
-}
-
-// cardName makes a card name from the session's title: "D_" and its
-// letters and digits, at most 24 characters.
-func cardName(title string) string {
-	var b strings.Builder
-	b.WriteString("D_")
-	for _, r := range title {
-		if b.Len() >= 24 {
-			break
-		}
-		if r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z' || r >= '0' && r <= '9' {
-			b.WriteRune(r)
-		}
-	}
-	if b.Len() == 2 {
-		b.WriteString("session")
-	}
-	return b.String()
 }
 
 func (m Model) cardKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {

@@ -1,6 +1,7 @@
 package tui
 
 import (
+	"junco/model/fit"
 	"math"
 	"strings"
 	"testing"
@@ -53,7 +54,7 @@ func TestCardWrapKeepsACard(t *testing.T) {
 	if strings.Join(strings.Fields(strings.ReplaceAll(strings.Join(got, " "), "+ ", "")), " ") != line {
 		t.Errorf("the words changed: %q", got)
 	}
-	if cardName("test diode D7, lot QM-0417") != "D_testdiodeD7lotQM0417" || cardName("é") != "D_session" {
-		t.Errorf("%q %q", cardName("test diode D7, lot QM-0417"), cardName("é"))
+	if fit.CardName("test diode D7, lot QM-0417") != "D_testdiodeD7lotQM0417" || fit.CardName("é") != "D_session" {
+		t.Errorf("%q %q", fit.CardName("test diode D7, lot QM-0417"), fit.CardName("é"))
 	}
 }

@@ -93,7 +93,7 @@ type fitCardReport struct {
 
 // fitCardSub is `junco fit card`.
 var fitCardSub = fitSub{
-	use:   "card --iv FILE... --name NAME [flags]",
+	use:   "card --iv FILE... | --session NAME|FILE  --name NAME [flags]",
 	short: "build a SPICE diode model card from a whole characterisation",
 	long: `Build one SPICE diode model card from a characterisation: IS, N, RS
 (ISR, NR when a second diode is significant) from the forward I-V sweeps,
@@ -116,6 +116,8 @@ at every reverse C-V bias; exit 1 when it fails or cannot run.
 		{"cv", "FILE", "C-V sweep: CJO, VJ, M (forward points: TT)"},
 		{"reverse", "FILE", "reverse I-V sweep that reaches breakdown: BV, IBV"},
 		{"recovery", "FILE", "reverse-recovery (storage time) file: TT"},
+		{"session", "NAME|FILE", "take the sweeps from a session's data sets instead of files (dark forward I-V, the one nearest the junction's temperature the reference; a reverse sweep; a C-V sweep)"},
+		{"data", "DIR", "session store of --session (default $XDG_DATA_HOME/junco, else ~/.local/share/junco)"},
 		{"name", "NAME", "the card's model name (a letter first, then letters, digits, _ - . +)"},
 		{"temp", "T", "temperature of a file that states none, e.g. 300K or 27C (else 300 K assumed)"},
 		{"window", "V1:V2", "forward-bias window of every I-V sweep (default: above the noise floor)"},
@@ -192,6 +194,25 @@ func fitCardInputs(ctx context.Context, a *fitArgs) (*fit.CardInputs, error) {
 		return nil, fitBad("--name is required: the card's model name, e.g. --name D1N_lab")
 	}
 	in := &fit.CardInputs{Name: name}
+	if sess, ok := a.str("session"); ok {
+		if len(a.vals["iv"]) > 0 || len(a.pos) > 0 || len(a.vals["cv"]) > 0 || len(a.vals["reverse"]) > 0 {
+			return nil, fitBad("--session takes the sweeps from the session: give it or --iv/--cv/--reverse files, not both")
+		}
+		dir, _ := a.str("data")
+		doc, err := loadSessionDoc(dir, sess)
+		if err != nil {
+			return nil, fitBad("--session %s: %v", sess, err)
+		}
+		sets := make([]fit.NamedDataSet, 0, len(doc.Measurements))
+		for i := range doc.Measurements {
+			sets = append(sets, fit.NamedDataSet{Name: doc.Measurements[i].ID, DataSet: &doc.Measurements[i].DataSet})
+		}
+		fromSession, err := fit.CardInputsFrom(name, sets, doc.Spec.Temperature)
+		if err != nil {
+			return nil, fitBad("--session %s: %v", sess, err)
+		}
+		*in = fromSession
+	}
 	if s, ok := a.str("temp"); ok {
 		t, err := fitTemperatureFlag("card", s)
 		if err != nil {
@@ -207,7 +228,9 @@ func fitCardInputs(ctx context.Context, a *fitArgs) (*fit.CardInputs, error) {
 		in.Window = w
 	}
 	files := append(append([]string(nil), a.vals["iv"]...), a.pos...)
-	if len(files) == 0 {
+	if len(files) == 0 && len(in.IV) > 0 {
+		files = nil // from the session
+	} else if len(files) == 0 {
 		return nil, fitBad("no forward I-V file given (--iv FILE...; the first is the reference, its temperature TNOM)")
 	}
 	for _, p := range files {

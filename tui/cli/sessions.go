@@ -638,26 +638,34 @@ func looksLikePath(s string) bool {
 // ("" for the default location). The document is decoded strictly and
 // validated; errors name the file.
 func loadSpecForCalc(dataDir, nameOrFile string) (model.Spec, error) {
-	if looksLikePath(nameOrFile) {
-		data, err := readLimited(nameOrFile)
-		if err != nil {
-			return model.Spec{}, err
-		}
-		doc, err := sessions.Decode(data)
-		if err != nil {
-			return model.Spec{}, fmt.Errorf("%s: %w", nameOrFile, err)
-		}
-		return doc.Spec, nil
-	}
-	st, err := openStore(dataDir, "", io.Discard) // the save or a later command tells
-	if err != nil {
-		return model.Spec{}, err
-	}
-	doc, _, err := st.Open(nameOrFile, 0)
+	doc, err := loadSessionDoc(dataDir, nameOrFile)
 	if err != nil {
 		return model.Spec{}, err
 	}
 	return doc.Spec, nil
+}
+
+// loadSessionDoc reads a session document: a session file when the text
+// looks like a path, else the newest readable revision of a stored
+// session.
+func loadSessionDoc(dataDir, nameOrFile string) (*sessions.Document, error) {
+	if looksLikePath(nameOrFile) {
+		data, err := readLimited(nameOrFile)
+		if err != nil {
+			return nil, err
+		}
+		doc, err := sessions.Decode(data)
+		if err != nil {
+			return nil, fmt.Errorf("%s: %w", nameOrFile, err)
+		}
+		return doc, nil
+	}
+	st, err := openStore(dataDir, "", io.Discard) // the save or a later command tells
+	if err != nil {
+		return nil, err
+	}
+	doc, _, err := st.Open(nameOrFile, 0)
+	return doc, err
 }
 
 // saveSpecFromCalc stores spec as the next revision of session name (its
