@@ -111,3 +111,21 @@ func ParseLightPair(text string) (wavelength, power float64, err error) {
 	}
 	return wavelength, power, nil
 }
+
+// PowerCurve is the power a junction delivers against bias, -V I(V) in W
+// (positive where a lit junction works as a generator), from the lit I-V
+// (IVCurve's total current). In the dark it is -V I, never positive.
+func PowerCurve(s Spec, r Range) (Curve, error) {
+	iv, err := IVCurve(s, r)
+	if err != nil {
+		return Curve{}, err
+	}
+	tot := iv.Series[0].Y
+	p := make([]float64, len(tot))
+	for i, v := range iv.Xs {
+		p[i] = -v * tot[i]
+	}
+	return Curve{ID: "power", Title: "Power delivered against bias (lit junction: generator where positive)",
+		X: Axis{Label: "bias V", Kind: Voltage}, Y: Axis{Label: "power delivered -V I", Kind: Power},
+		Xs: iv.Xs, Series: []Series{{"delivered", p}}, Flags: iv.Flags}, nil
+}

@@ -120,3 +120,31 @@ func TestLightUnits(t *testing.T) {
 		}
 	}
 }
+
+// The power curve of a lit ideal junction peaks at the maximum-power point
+// the figures of merit give (the same lit I-V; the sweep's resolution, 5
+// mV, bounds the agreement of the voltage), and is -V I by definition.
+func TestPowerCurvePeaksAtMaxPower(t *testing.T) {
+	s := DemoJunction().Spec
+	s.Effects = IdealEffects()
+	s.Light = Light{Generation: 1e26}
+	r, err := Evaluate(s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	vmp, _ := r.Get("max_power_voltage_V")
+	pmax, _ := r.Get("max_power_W")
+	c, err := PowerCurve(s, Range{From: 0, To: 0.8, Step: 0.005})
+	if err != nil {
+		t.Fatal(err)
+	}
+	best, at := math.Inf(-1), 0.0
+	for i, p := range c.Series[0].Y {
+		if p > best {
+			best, at = p, c.Xs[i]
+		}
+	}
+	if math.Abs(at-vmp) > 0.005 || best > pmax*(1+1e-9) || best < pmax*0.99 {
+		t.Errorf("power curve peaks at %g V with %g W; figures: %g V, %g W", at, best, vmp, pmax)
+	}
+}

@@ -51,6 +51,7 @@ func chartKinds(ascii bool) []chartKind {
 		{"diffusion-current", "minority diffusion current", sweepNone, false},
 		{"is-t", "Is against 1000/T", sweepTemp, true},
 		{"vf-t", "VF against T", sweepTemp, false},
+		{"power", "power delivered (light)", sweepIV, false},
 	}
 }
 
@@ -260,6 +261,8 @@ func chartCurve(c chartRequest, s model.Spec) (model.Curve, error) {
 		return inv, err
 	case "ideality":
 		return model.IdealityCurve(s, c.iv)
+	case "power":
+		return model.PowerCurve(s, c.iv)
 	case "charge", "field", "potential", "bands":
 		ch, f, p, b, err := model.JunctionProfiles(s, points)
 		switch k.id {

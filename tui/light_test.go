@@ -51,3 +51,30 @@ func TestLightInTheDefineForm(t *testing.T) {
 		t.Errorf("no message naming the missing wavelength:\n%s", plain(m))
 	}
 }
+
+// The charts offer the power a lit junction delivers, drawn from the lit
+// I-V (model.PowerCurve).
+func TestPowerChart(t *testing.T) {
+	var kind chartKind
+	for _, k := range chartKinds(false) {
+		if k.id == "power" {
+			kind = k
+		}
+	}
+	if kind.id == "" {
+		t.Fatal("no power chart")
+	}
+	s := model.DemoJunction().Spec
+	s.Light = model.Light{Generation: 1e26}
+	c, err := chartCurve(chartRequest{kind: kind, iv: model.Range{From: 0, To: 0.7, Step: 0.01}}, s)
+	if err != nil || c.ID != "power" {
+		t.Fatalf("power curve: %v %v", c.ID, err)
+	}
+	positive := false
+	for _, p := range c.Series[0].Y {
+		positive = positive || p > 0
+	}
+	if !positive {
+		t.Error("a lit junction delivers no power anywhere on 0-0.7 V")
+	}
+}
