@@ -238,7 +238,8 @@ func (m Model) batchTable(w, room, nameW, cursor int) []string {
 	ascii := m.e.ascii
 	c := func(s string) string { return cut(s, w, g.ellipsis) }
 	nameW = max(nameW, 8)
-	out := []string{st.strong.Paint(c(fmt.Sprintf("  %-*s %-9s %-6s %s", nameW, "file", "Is", "n", "Rs")))}
+	out := []string{st.strong.Paint(c(fmt.Sprintf("  %-*s %-9s %-6s %-10s %s", nameW, "file", "Is", "n", "Rs", "outlier in")))}
+	outliers := fit.OutlierParams(b.view.Stats)
 	var idx []int
 	for k, r := range b.view.Rows {
 		if r.Status != fit.StatusNotRun {
@@ -273,8 +274,18 @@ func (m Model) batchTable(w, room, nameW, cursor int) []string {
 			out = append(out, mark+st.err.Paint(cut(fmt.Sprintf("%-*s %s %s", nameW, name, g.bad, sessions.Printable(oneLine(r.Err.Error()), 0, "")), w-2, g.ellipsis)))
 			continue
 		}
-		line := fmt.Sprintf("%-*s %-9s %-6.3f %s", nameW, name, model.Format(model.Current, r.Values[0], 3, ascii), r.Values[1],
+		line := fmt.Sprintf("%-*s %-9s %-6.3f %-10s", nameW, name, model.Format(model.Current, r.Values[0], 3, ascii), r.Values[1],
 			model.Format(model.Resistance, r.Values[2], 3, ascii))
+		if js := outliers[idx[i]]; len(js) > 0 {
+			var syms []string
+			for _, j := range js {
+				syms = append(syms, fit.BatchParams()[j].Symbol)
+			}
+			line += " " + strings.Join(syms, ", ")
+			if idx[i] != cursor {
+				paint = st.caution
+			}
+		}
 		out = append(out, mark+paint.Paint(cut(line, w-2, g.ellipsis)))
 	}
 	return out

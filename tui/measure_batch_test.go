@@ -213,3 +213,34 @@ func TestBatchRandomKeys(t *testing.T) {
 		}
 	}
 }
+
+// The batch table marks each outlier row with the parameters it is an
+// outlier in (the summary's "1 of 5" names a row the table shows).
+func TestBatchTableMarksOutliers(t *testing.T) {
+	m := newTest(t, 120, 40)
+	res := &fit.BatchResult{Fitted: 3}
+	for k, rs := range []float64{5, 5.2, 80} {
+		res.Rows = append(res.Rows, fit.BatchRow{File: fmt.Sprintf("die%d.csv", k), Status: fit.StatusOK,
+			Values: [5]float64{1e-12, 1.4, rs, math.Inf(1), math.NaN()}})
+	}
+	res.Stats = fit.Statistics(res.Rows)
+	if len(res.Stats[2].Outliers) == 0 {
+		res.Stats[2].Outliers = []int{2} // the fences of three rows may admit it; the mark is what is tested
+	}
+	m.bat.view = res
+	lines := m.batchTable(100, 10, 12, -1)
+	var row string
+	for _, l := range lines {
+		if strings.Contains(l, "die2.csv") {
+			row = l
+		}
+	}
+	if !strings.Contains(row, "Rs") {
+		t.Errorf("outlier row not marked: %q\n%s", row, strings.Join(lines, "\n"))
+	}
+	for _, l := range lines {
+		if strings.Contains(l, "die0.csv") && strings.HasSuffix(strings.TrimSpace(l), "Rs") {
+			t.Errorf("a row that is no outlier is marked: %q", l)
+		}
+	}
+}

@@ -160,3 +160,16 @@ func Statistics(rows []BatchRow) [5]extract.Summary {
 	}
 	return sums
 }
+
+// OutlierParams maps a row index of a batch to the indices (in
+// BatchParams order) of the parameters it is an outlier in, by the batch
+// statistics (Statistics: outside the quartile fences).
+func OutlierParams(stats [5]extract.Summary) map[int][]int {
+	m := map[int][]int{}
+	for j, s := range stats {
+		for _, k := range s.Outliers {
+			m[k] = append(m[k], j)
+		}
+	}
+	return m
+}

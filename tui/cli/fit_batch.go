@@ -207,12 +207,13 @@ func fitCSVNum(v float64) string {
 	return strconv.FormatFloat(v, 'g', 6, 64)
 }
 
-// fitOutlierSet maps row index to the parameters it is an outlier in.
+// fitOutlierSet maps row index to the keys of the parameters it is an
+// outlier in (fit.OutlierParams).
 func fitOutlierSet(sums [5]extract.Summary) map[int][]string {
 	m := map[int][]string{}
-	for j, s := range sums {
-		for _, k := range s.Outliers {
-			m[k] = append(m[k], fit.BatchParams()[j].Key)
+	for row, js := range fit.OutlierParams(sums) {
+		for _, j := range js {
+			m[row] = append(m[row], fit.BatchParams()[j].Key)
 		}
 	}
 	return m
