@@ -292,7 +292,7 @@ func FitIVContext(ctx context.Context, v, i []float64, opt IVOptions) (*IVFit, e
 	if opt.Model != ModelDouble {
 		res.Single, res.SingleStdErr = sf.d, sf.se
 		res.Correlations, res.Iterations, res.Converged = sf.corr, sf.iter, sf.converged
-		res.RMSLogResidual = rmsLog(pts, func(x float64) float64 { return sf.d.Current(x, vt) })
+		res.RMSLogResidual = sf.rms
 		if !sf.converged {
 			res.Notes = append(res.Notes, "iteration limit reached before convergence")
 		}
@@ -352,7 +352,7 @@ func FitIVContext(ctx context.Context, v, i []float64, opt IVOptions) (*IVFit, e
 	}
 	res.Double, res.DoubleStdErr = df.d, df.se
 	res.Correlations, res.Iterations, res.Converged = df.corr, df.iter, df.converged
-	res.RMSLogResidual = rmsLog(pts, func(x float64) float64 { return df.d.Current(x, vt) })
+	res.RMSLogResidual = df.rms
 	if !df.converged {
 		res.Notes = append(res.Notes, "iteration limit reached before convergence")
 	}
@@ -459,15 +459,6 @@ func recombEffect(p ivPoints, vt float64, d DoubleDiode) float64 {
 	return m
 }
 
-func rmsLog(p ivPoints, model func(float64) float64) float64 {
-	s := 0.0
-	for k := range p.v {
-		r := math.Log(model(p.v[k]) / p.i[k])
-		s += r * r
-	}
-	return math.Sqrt(s / float64(len(p.v)))
-}
-
 // fourParams is a diode model with four positive parameters addressed by
 // index (for the log-parametrised least-squares fit) and a current with
 // its gradient.
@@ -483,6 +474,27 @@ type fitResult[D any] struct {
 	corr      []Correlation
 	iter      int
 	converged bool
+	rms       float64 // RMS of ln(I_model/I) over the points, unweighted
+}
+
+// pointModel evaluates a model at every point of a fit: prepare takes the
+// parameters of one evaluation, grad returns the current at point n (bias
+// v) and its derivatives with respect to the logarithms of the four
+// parameters.
+type pointModel[D any] interface {
+	prepare(d D)
+	grad(n int, v float64, g *[4]float64) float64
+}
+
+// doubleEval is the pointModel of the double-diode model.
+type doubleEval struct {
+	vt float64
+	d  DoubleDiode
+}
+
+func (e *doubleEval) prepare(d DoubleDiode) { e.d = d }
+func (e *doubleEval) grad(_ int, v float64, g *[4]float64) float64 {
+	return e.d.grad(v, e.vt, g)
 }
 
 type singleResult = fitResult[SingleDiode]
@@ -516,8 +528,8 @@ func (d *DoubleDiode) slot(k int) *float64 {
 // r = w ln(I_model / I_measured), each parameter as its logarithm (so it
 // stays positive); standard errors come from the covariance (J^T J)^-1 s^2
 // scaled to the parameter (se = value * sigma(ln value)).
-func fitLog[D any, P fourParams[D]](ctx context.Context, pts ivPoints, w []float64, vt float64, d0 D, free [4]bool, maxIter int,
-	grad func(D, float64, float64, *[4]float64) float64, names [4]string) (fitResult[D], error) {
+func fitLog[D any, P fourParams[D]](ctx context.Context, pts ivPoints, w []float64, d0 D, free [4]bool, maxIter int,
+	model pointModel[D], names [4]string) (fitResult[D], error) {
 	var idx []int
 	for k := 0; k < 4; k++ {
 		if free[k] {
@@ -536,11 +548,12 @@ func fitLog[D any, P fourParams[D]](ctx context.Context, pts ivPoints, w []float
 			*P(&d).slot(k) = math.Exp(th[j])
 		}
 		var g [4]float64
+		model.prepare(d)
 		for n := 0; n < m; n++ {
 			if n&(cancelCheckEvery-1) == 0 && ctx.Err() != nil {
 				return false
 			}
-			c := grad(d, pts.v[n], vt, &g)
+			c := model.grad(n, pts.v[n], &g)
 			if !(c > 0) || math.IsInf(c, 0) {
 				return false
 			}
@@ -558,6 +571,13 @@ func fitLog[D any, P fourParams[D]](ctx context.Context, pts ivPoints, w []float
 		return fitResult[D]{}, err
 	}
 	out := fitResult[D]{d: d0, free: free, iter: lr.iter, converged: lr.converged}
+	// The RMS of ln(I_model/I) from the final residuals r = w ln(I_model/I)
+	// (no further model evaluation).
+	ss := 0.0
+	for n, rn := range lr.resid {
+		ss += (rn / w[n]) * (rn / w[n])
+	}
+	out.rms = math.Sqrt(ss / float64(m))
 	nan := math.NaN()
 	for k := 0; k < 4; k++ {
 		*P(&out.se).slot(k) = nan
@@ -583,7 +603,7 @@ func singleName(k int) string { return singleNames()[k] }
 func doubleName(k int) string { return doubleNames()[k] }
 
 func fitSingle(ctx context.Context, pts ivPoints, w []float64, vt float64, d0 SingleDiode, free [4]bool, maxIter int) (singleResult, error) {
-	r, err := fitLog[SingleDiode](ctx, pts, w, vt, d0, free, maxIter, SingleDiode.grad, singleNames())
+	r, err := fitLog[SingleDiode](ctx, pts, w, d0, free, maxIter, newSingleEval(len(pts.v), vt), singleNames())
 	if err != nil {
 		return r, fmt.Errorf("single-diode fit: %w (start Is=%g A, n=%g, Rs=%g ohm, Rsh=%g ohm)", err,
 			d0.SaturationCurrentA, d0.IdealityFactor, d0.SeriesResistanceOhm, d0.ShuntResistanceOhm)
@@ -592,7 +612,7 @@ func fitSingle(ctx context.Context, pts ivPoints, w []float64, vt float64, d0 Si
 }
 
 func fitDouble(ctx context.Context, pts ivPoints, w []float64, vt float64, d0 DoubleDiode, free [4]bool, maxIter int) (doubleResult, error) {
-	r, err := fitLog[DoubleDiode](ctx, pts, w, vt, d0, free, maxIter, DoubleDiode.grad, doubleNames())
+	r, err := fitLog[DoubleDiode](ctx, pts, w, d0, free, maxIter, &doubleEval{vt: vt}, doubleNames())
 	if err != nil {
 		return r, fmt.Errorf("double-diode fit: %w", err)
 	}

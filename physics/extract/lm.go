@@ -21,6 +21,7 @@ type lmProblem struct {
 type lmResult struct {
 	theta     []float64
 	cost      float64   // sum of squared residuals at theta
+	resid     []float64 // the residuals at theta (m)
 	jtj       []float64 // J^T J at theta, p x p
 	cov       []float64 // s^2 (J^T J)^-1, p x p; nil when singular
 	iter      int
@@ -128,7 +129,7 @@ func levenberg(ctx context.Context, pr lmProblem, theta0 []float64, maxIter int)
 		}
 	}
 	normal(jac, r, m, p, a, g)
-	res.theta, res.cost, res.iter = theta, cost, iter+1
+	res.theta, res.cost, res.iter, res.resid = theta, cost, iter+1, r
 	res.jtj = append([]float64(nil), a...)
 	if m > p {
 		if inv, ok := cholInverse(a, p); ok {
