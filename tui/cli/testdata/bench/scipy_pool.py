@@ -1,0 +1,114 @@
+"""Reference fitter for the speed comparison of `junco fit batch`.
+
+What a skilled scipy user would write: the single-diode model with series
+and shunt resistance, I = (a/Rs) W(e^y) + (V - Is Rsh)/(Rs + Rsh),
+y = ln(Is Rs Rsh/(a (Rs + Rsh))) + Rsh (V + Is Rs)/(a (Rs + Rsh)), a = n kT/q
+(Ortiz-Conde, Garcia Sanchez & Muci, Solid-State Electron. 44, 1861 (2000)),
+vectorised over the points with W(e^y) = scipy.special.wrightomega(y); an
+analytic Jacobian (implicit differentiation of the model equation); the
+residuals ln I_model - ln I with every parameter as its logarithm;
+Levenberg-Marquardt (scipy.optimize.least_squares, method='lm'); the files
+spread over a multiprocessing Pool of 2 processes.
+
+Usage: python3 scipy_pool.py DIR OUT.csv
+Reads every DIR/*.csv written by the benchmark (comment lines with '#', a
+'# temperature: T K' line, a header line, then V (V), I (A)), writes
+file,Is_A,n,Rs_ohm,Rsh_ohm to OUT.csv and the fitting time (pool start to
+last result, s) to standard output.
+"""
+import glob
+import math
+import os
+import sys
+import time
+from multiprocessing import Pool
+
+import numpy as np
+from scipy.optimize import least_squares
+from scipy.special import wrightomega
+
+K_B = 1.380649e-23  # J/K, exact (SI 2019)
+Q = 1.602176634e-19  # C, exact (SI 2019)
+
+
+def model(theta, v, vt):
+    """Current and dI/dln(p) for p = Is, n, Rs, Rsh."""
+    i_s, n, rs, rsh = np.exp(theta)
+    a = n * vt
+    s = rs + rsh
+    y = theta[0] + theta[2] + theta[3] - math.log(a * s) + rsh * (v + i_s * rs) / (a * s)
+    w = wrightomega(y)
+    cur = a / rs * w + (v - i_s * rsh) / s
+    ie = w * a * s / (rs * rsh)  # Is exp(Vd/a)
+    vd = v - cur * rs
+    gd = ie / a + 1 / rsh
+    den = 1 + rs * gd
+    jac = np.empty((v.size, 4))
+    jac[:, 0] = (ie - i_s) / den
+    jac[:, 1] = -ie * vd / a / den
+    jac[:, 2] = -rs * cur * gd / den
+    jac[:, 3] = -vd / rsh / den
+    return cur, jac
+
+
+def fit_file(path):
+    temp = 300.0
+    with open(path) as f:
+        lines = f.read().splitlines()
+    rows = []
+    for ln in lines:
+        if ln.startswith("#"):
+            low = ln.lower()
+            if "temperature" in low:
+                temp = float(low.split(":")[1].split()[0])
+            continue
+        rows.append(ln)
+    data = np.loadtxt(rows[1:], delimiter=",", ndmin=2)
+    v, i = data[:, 0], data[:, 1]
+    keep = (v > 0) & (i > 0)
+    v, i = v[keep], i[keep]
+    vt = K_B * temp / Q
+    li = np.log(i)
+    # start values: ln I against V over the middle third (n, Is), Rs from
+    # the voltage left over at the top point, Rsh from the lowest point
+    m = v.size
+    sl = slice(m // 3, 2 * m // 3)
+    slope, icpt = np.polyfit(v[sl], li[sl], 1)
+    n0 = 1 / (slope * vt)
+    is0 = math.exp(icpt)
+    rs0 = max((v[-1] - n0 * vt * math.log(i[-1] / is0)) / i[-1], 1e-3)
+    rsh0 = 10 * v[0] / i[0]
+    theta0 = np.log([is0, n0, rs0, rsh0])
+
+    def res(th):
+        with np.errstate(all="ignore"):
+            cur, _ = model(th, v, vt)
+            r = np.log(cur) - li
+        # a step to non-physical values gets a large cost, so LM shrinks it
+        return np.where(np.isfinite(r), r, 1e10)
+
+    def jac(th):
+        with np.errstate(all="ignore"):
+            cur, g = model(th, v, vt)
+            j = g / cur[:, None]
+        return np.where(np.isfinite(j), j, 0.0)
+
+    r = least_squares(res, theta0, jac=jac, method="lm", xtol=1e-12, ftol=1e-12)
+    return (os.path.basename(path),) + tuple(np.exp(r.x))
+
+
+def main():
+    files = sorted(glob.glob(os.path.join(sys.argv[1], "*.csv")))
+    t0 = time.perf_counter()
+    with Pool(2) as pool:
+        out = pool.map(fit_file, files, chunksize=16)
+    dt = time.perf_counter() - t0
+    with open(sys.argv[2], "w") as f:
+        f.write("file,Is_A,n,Rs_ohm,Rsh_ohm\n")
+        for rec in out:
+            f.write("%s,%.9g,%.9g,%.9g,%.9g\n" % rec)
+    print("%.6f" % dt)
+
+
+if __name__ == "__main__":
+    main()
