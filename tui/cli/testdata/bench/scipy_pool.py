@@ -31,24 +31,25 @@ K_B = 1.380649e-23  # J/K, exact (SI 2019)
 Q = 1.602176634e-19  # C, exact (SI 2019)
 
 
-def model(theta, v, vt):
-    """Current and dI/dln(p) for p = Is, n, Rs, Rsh."""
+def current(theta, v, vt):
+    """Model current at every point and what the Jacobian reuses."""
     i_s, n, rs, rsh = np.exp(theta)
     a = n * vt
     s = rs + rsh
     y = theta[0] + theta[2] + theta[3] - math.log(a * s) + rsh * (v + i_s * rs) / (a * s)
     w = wrightomega(y)
     cur = a / rs * w + (v - i_s * rsh) / s
+    return cur, (w, i_s, a, s, rs, rsh)
+
+
+def dlog_current(v, cur, parts):
+    """d ln I / d ln p for p = Is, n, Rs, Rsh (implicit differentiation)."""
+    w, i_s, a, s, rs, rsh = parts
     ie = w * a * s / (rs * rsh)  # Is exp(Vd/a)
     vd = v - cur * rs
     gd = ie / a + 1 / rsh
-    den = 1 + rs * gd
-    jac = np.empty((v.size, 4))
-    jac[:, 0] = (ie - i_s) / den
-    jac[:, 1] = -ie * vd / a / den
-    jac[:, 2] = -rs * cur * gd / den
-    jac[:, 3] = -vd / rsh / den
-    return cur, jac
+    f = 1 / ((1 + rs * gd) * cur)
+    return np.column_stack(((ie - i_s) * f, -ie * vd / a * f, -rs * cur * gd * f, -vd / rsh * f))
 
 
 def fit_file(path):
@@ -80,20 +81,26 @@ def fit_file(path):
     rsh0 = 10 * v[0] / i[0]
     theta0 = np.log([is0, n0, rs0, rsh0])
 
+    last = {}
+
     def res(th):
         with np.errstate(all="ignore"):
-            cur, _ = model(th, v, vt)
+            cur, parts = current(th, v, vt)
             r = np.log(cur) - li
+        last["th"], last["cur"], last["parts"] = th.copy(), cur, parts
         # a step to non-physical values gets a large cost, so LM shrinks it
         return np.where(np.isfinite(r), r, 1e10)
 
     def jac(th):
         with np.errstate(all="ignore"):
-            cur, g = model(th, v, vt)
-            j = g / cur[:, None]
+            if "th" in last and np.array_equal(th, last["th"]):
+                cur, parts = last["cur"], last["parts"]
+            else:
+                cur, parts = current(th, v, vt)
+            j = dlog_current(v, cur, parts)
         return np.where(np.isfinite(j), j, 0.0)
 
-    r = least_squares(res, theta0, jac=jac, method="lm", xtol=1e-12, ftol=1e-12)
+    r = least_squares(res, theta0, jac=jac, method="lm")
     return (os.path.basename(path),) + tuple(np.exp(r.x))
 
 
