@@ -660,3 +660,13 @@ func median(x []float64) float64 {
 	}
 	return 0.5 * (y[n/2-1] + y[n/2])
 }
+
+// rmsLog is sqrt(mean(ln(model(V)/I)^2)) over the points.
+func rmsLog(p ivPoints, model func(float64) float64) float64 {
+	s := 0.0
+	for k := range p.v {
+		r := math.Log(model(p.v[k]) / p.i[k])
+		s += r * r
+	}
+	return math.Sqrt(s / float64(len(p.v)))
+}
