@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"context"
 	"io"
+	"io/fs"
 	"os"
 	"time"
 )
@@ -169,17 +170,37 @@ func Import(r io.Reader, name string, opt Options) (*DataSet, error) {
 }
 
 // ImportContext is Import with cancellation: ctx is checked before every
-// read from r (every 64 KiB), and a cancelled import returns an error
-// wrapping ctx.Err().
+// read from r (every 64 KiB, or the whole file when r is a smaller regular
+// file), and a cancelled import returns an error wrapping ctx.Err().
 func ImportContext(ctx context.Context, r io.Reader, name string, opt Options) (*DataSet, error) {
 	im := importer{file: name, opt: opt}
 	if err := im.checkOptions(); err != nil {
 		return nil, err
 	}
-	im.lr.br = bufio.NewReaderSize(&capReader{r: r, max: MaxBytes, ctx: ctx}, 64<<10)
+	im.lr.br = bufio.NewReaderSize(&capReader{r: r, max: MaxBytes, ctx: ctx}, readBufferSize(r))
 	ds, err := im.run()
 	if err != nil {
 		return nil, err
 	}
 	return ds, nil
+}
+
+// readBufferSize is the read buffer for r: 64 KiB, or the size of a smaller
+// regular file plus one byte (at least 512), so that a batch of small files
+// does not allocate and clear 64 KiB for each.
+// An *io.LimitedReader is looked through to the file it limits.
+func readBufferSize(r io.Reader) int {
+	const size = 64 << 10
+	if lr, ok := r.(*io.LimitedReader); ok {
+		r = lr.R
+	}
+	st, ok := r.(interface{ Stat() (fs.FileInfo, error) })
+	if !ok {
+		return size
+	}
+	fi, err := st.Stat()
+	if err != nil || !fi.Mode().IsRegular() || fi.Size() >= size {
+		return size
+	}
+	return max(int(fi.Size())+1, 512)
 }
