@@ -37,6 +37,7 @@ type singleEval struct {
 	a, c0, c1, isRs  float64 // n Vt; ln(Is Rs k/a); k/a; Is Rs
 	ieScale, off     float64 // Is E = W ieScale; I = (a/Rs) W + off(V)
 	aRs, invS, isRsh float64 // a/Rs; 1/(Rs+Rsh) (0 for no shunt); Is Rsh/(Rs+Rsh) (Is for no shunt)
+	invA, invRsh     float64 // 1/a; 1/Rsh (0 for no shunt)
 	closed           bool    // Rs = 0 or non-physical: use SingleDiode.grad
 }
 
@@ -53,7 +54,7 @@ func (e *singleEval) prepare(d SingleDiode) {
 	if e.closed {
 		return
 	}
-	e.a, e.isRs, e.aRs = a, is*rs, a/rs
+	e.a, e.isRs, e.aRs, e.invA, e.invRsh = a, is*rs, a/rs, 1/a, 1/rsh
 	if math.IsInf(rsh, 1) {
 		e.c0 = math.Log(is * rs / a)
 		e.c1 = 1 / a
@@ -110,15 +111,15 @@ func (e *singleEval) grad(n int, v float64, g *[4]float64) float64 {
 	t := (y - yp) / (1 + wp)
 	w := lambertW(y, wp*(1+math.Max(-0.5, math.Min(1, t))))
 	e.w[n], e.y[n] = w, y
-	rs, rsh := e.d.SeriesResistanceOhm, e.d.ShuntResistanceOhm
+	rs := e.d.SeriesResistanceOhm
 	i := e.aRs*w + v*e.invS - e.isRsh
 	ie := w * e.ieScale // Is exp(Vd/a)
 	vd := v - i*rs
-	gd := ie/e.a + 1/rsh
-	den := 1 + rs*gd
-	g[0] = (ie - e.d.SaturationCurrentA) / den
-	g[1] = -ie * vd / e.a / den
-	g[2] = -rs * i * gd / den
-	g[3] = -vd / rsh / den
+	gd := ie*e.invA + e.invRsh
+	f := 1 / (1 + rs*gd)
+	g[0] = (ie - e.d.SaturationCurrentA) * f
+	g[1] = -ie * vd * e.invA * f
+	g[2] = -rs * i * gd * f
+	g[3] = -vd * e.invRsh * f
 	return i
 }

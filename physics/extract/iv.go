@@ -559,8 +559,9 @@ func fitLog[D any, P fourParams[D]](ctx context.Context, pts ivPoints, w []float
 			}
 			r[n] = w[n] * math.Log(c/pts.i[n])
 			if jac != nil {
+				wc := w[n] / c
 				for j, k := range idx {
-					jac[n*p+j] = w[n] * g[k] / c
+					jac[n*p+j] = wc * g[k]
 				}
 			}
 		}
