@@ -42,25 +42,6 @@ func (d SingleDiode) Current(v, vt float64) float64 {
 	return lambertCurrent(d.SaturationCurrentA, d.IdealityFactor*vt, d.SeriesResistanceOhm, d.ShuntResistanceOhm, 0, v)
 }
 
-// grad returns I(V) and the derivatives dI/dln(p) for p = Is, n, Rs, Rsh
-// (in that order), by implicit differentiation of
-// F = Is (E - 1) + Vd/Rsh - I = 0, E = exp(Vd/(n Vt)), Vd = V - I Rs:
-// dI/dp = (dF/dp) / (1 + Rs g), g = Is E/(n Vt) + 1/Rsh.
-func (d SingleDiode) grad(v, vt float64, g *[4]float64) float64 {
-	i := d.Current(v, vt)
-	is, rs, rsh, n := d.SaturationCurrentA, d.SeriesResistanceOhm, d.ShuntResistanceOhm, d.IdealityFactor
-	a := n * vt
-	vd := v - i*rs
-	e := math.Exp(vd / a)
-	gd := is*e/a + 1/rsh
-	den := 1 + rs*gd
-	g[0] = is * (e - 1) / den                 // Is dI/dIs
-	g[1] = n * (-is * e * vd / (a * n)) / den // n dI/dn
-	g[2] = rs * (-i * gd) / den               // Rs dI/dRs
-	g[3] = rsh * (-vd / (rsh * rsh)) / den    // Rsh dI/dRsh
-	return i
-}
-
 // DoubleDiode holds the parameters of the double-diode model: a diffusion
 // diode with ideality 1 and a recombination diode with ideality 2 in
 // parallel, with series resistance Rs and shunt Rsh,

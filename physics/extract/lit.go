@@ -91,18 +91,11 @@ func lambertCurrent(is, a, rs, rsh, iph, v float64) float64 {
 	if !(is > 0) || !(a > 0) || !(rs >= 0) || !(rsh > 0) || !(iph >= 0) {
 		return math.NaN()
 	}
-	j := is + iph
-	switch {
-	case rs == 0:
+	if rs == 0 {
 		return is*math.Expm1(v/a) + v/rsh - iph
-	case math.IsInf(rsh, 1):
-		y := math.Log(is*rs/a) + (v+j*rs)/a
-		return a/rs*physics.LambertW0Exp(y) - j
-	default:
-		s := rs + rsh
-		y := math.Log(is*rs*rsh/(a*s)) + rsh*(v+j*rs)/(a*s)
-		return a/rs*physics.LambertW0Exp(y) + (v-j*rsh)/s
 	}
+	f := newLambertForm(is, a, rs, rsh, iph)
+	return f.current(v, physics.LambertW0Exp(f.y(v)))
 }
 
 // Current returns the terminal current I(V) in A, load sign, of the lit
