@@ -68,7 +68,7 @@ func addServeFlags(fs *pflag.FlagSet, o *serveOptions) {
 	fs.StringVar(&o.hostKey, "host-key", "", "ed25519 host key `FILE`, created with mode 0600 on first start (default DATA/host/ed25519)")
 	fs.StringVar(&o.authKeys, "authorized-keys", "", "OpenSSH authorized-keys `FILE`; each key's comment is its user (default DATA/authorized_keys)")
 	fs.DurationVar(&o.idle, "idle", 30*time.Minute, "close connections idle this long (0: never)")
-	fs.IntVar(&o.maxConn, "max-conn", 32, "most concurrent connections")
+	fs.IntVar(&o.maxConn, "max-conn", 32, "most concurrent sessions (workbench, command or file transfer); open SSH connections are capped at twice this")
 	fs.Int64Var(&o.uploadMiB, "upload-max-mib", sessions.DefaultInboxFileBytes>>20, "largest file a user may upload to the inbox, in MiB (1 to 65536)")
 	fs.Int64Var(&o.inboxMiB, "inbox-max-mib", sessions.DefaultInboxUserBytes>>20, "most a user's inbox may hold in all, in MiB (1 to 1048576, at least --upload-max-mib)")
 }
