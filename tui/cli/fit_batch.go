@@ -2,10 +2,8 @@ package cli
 
 import (
 	"context"
-	"encoding/csv"
 	"fmt"
 	"io"
-	"math"
 	"os"
 	"path/filepath"
 	"runtime"
@@ -157,7 +155,7 @@ func fitRunBatch(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) int 
 		fmt.Fprintf(stderr, "junco fit batch: wrote %s\n", strings.Join(paths, ", "))
 	}
 	if csvOut != nil {
-		if err := fitBatchCSV(csvOut, rows, sums, wo.limits); err != nil {
+		if err := fit.WriteBatchCSV(csvOut, res, wo.limits); err != nil {
 			fmt.Fprintf(stderr, "junco fit batch: --csv: %v\n", err)
 			return exitFailure
 		}
@@ -195,76 +193,6 @@ func fitErrText(err error) string {
 		return ""
 	}
 	return err.Error()
-}
-
-func fitCSVNum(v float64) string {
-	if math.IsNaN(v) {
-		return ""
-	}
-	if math.IsInf(v, 1) {
-		return "inf"
-	}
-	return strconv.FormatFloat(v, 'g', 6, 64)
-}
-
-// fitOutlierSet maps row index to the keys of the parameters it is an
-// outlier in (fit.OutlierParams).
-func fitOutlierSet(sums [5]extract.Summary) map[int][]string {
-	m := map[int][]string{}
-	for row, js := range fit.OutlierParams(sums) {
-		for _, j := range js {
-			m[row] = append(m[row], fit.BatchParams()[j].Key)
-		}
-	}
-	return m
-}
-
-func fitBatchCSV(w io.Writer, rows []fit.BatchRow, sums [5]extract.Summary, limits []fit.Limit) error {
-	cw := csv.NewWriter(w)
-	head := []string{"file", "status", "error", "temperature_K", "temperature_source"}
-	for _, p := range fit.BatchParams() {
-		head = append(head, p.Key, p.Key+"_stderr")
-	}
-	head = append(head, "rms_log_residual", "points", "outlier_in")
-	fitted := len(head)
-	head = append(head, "die_x", "die_y", "wafer", "lot")
-	if len(limits) > 0 {
-		head = append(head, "out_of_limits")
-	}
-	if err := cw.Write(head); err != nil {
-		return err
-	}
-	out := fitOutlierSet(sums)
-	rec := make([]string, 0, len(head))
-	for k, r := range rows {
-		rec = rec[:0]
-		rec = append(rec, r.File, r.Status, fitErrText(r.Err))
-		if r.Status != fit.StatusOK {
-			for len(rec) < fitted {
-				rec = append(rec, "")
-			}
-		} else {
-			rec = append(rec, fitCSVNum(r.Temperature.K), r.Temperature.Source)
-			for j := range fit.BatchParams() {
-				rec = append(rec, fitCSVNum(r.Values[j]), fitCSVNum(r.StdErr[j]))
-			}
-			rec = append(rec, fitCSVNum(r.RMS), strconv.Itoa(r.Points), strings.Join(out[k], " "))
-		}
-		if r.Die.Known() {
-			rec = append(rec, strconv.Itoa(r.Die.X), strconv.Itoa(r.Die.Y))
-		} else {
-			rec = append(rec, "", "")
-		}
-		rec = append(rec, r.Die.Wafer, r.Die.Lot)
-		if len(limits) > 0 {
-			rec = append(rec, strings.Join(fit.OutOfLimits(r, limits), " "))
-		}
-		if err := cw.Write(rec); err != nil {
-			return err
-		}
-	}
-	cw.Flush()
-	return cw.Error()
 }
 
 type fitSummaryJSON struct {

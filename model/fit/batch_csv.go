@@ -1,0 +1,92 @@
+package fit
+
+import (
+	"encoding/csv"
+	"io"
+	"junco/physics/extract"
+	"math"
+	"strconv"
+	"strings"
+)
+
+func csvNum(v float64) string {
+	if math.IsNaN(v) {
+		return ""
+	}
+	if math.IsInf(v, 1) {
+		return "inf"
+	}
+	return strconv.FormatFloat(v, 'g', 6, 64)
+}
+
+// outlierKeys maps row index to the keys of the parameters it is an
+// outlier in (OutlierParams).
+func outlierKeys(sums [5]extract.Summary) map[int][]string {
+	m := map[int][]string{}
+	for row, js := range OutlierParams(sums) {
+		for _, j := range js {
+			m[row] = append(m[row], BatchParams()[j].Key)
+		}
+	}
+	return m
+}
+
+// WriteBatchCSV writes a batch as CSV, one row per file in the batch's
+// order, with unit-labelled SI headers: file, status, error, temperature
+// and its source, each parameter and its standard error, the RMS log
+// residual, the points, the parameters the row is an outlier in, the die
+// position (die_x, die_y, wafer, lot) and, with limits, the limits the
+// row is outside. The one batch table of the command line and the
+// workbench.
+func WriteBatchCSV(w io.Writer, res *BatchResult, limits []Limit) error {
+	rows, sums := res.Rows, res.Stats
+	cw := csv.NewWriter(w)
+	head := []string{"file", "status", "error", "temperature_K", "temperature_source"}
+	for _, p := range BatchParams() {
+		head = append(head, p.Key, p.Key+"_stderr")
+	}
+	head = append(head, "rms_log_residual", "points", "outlier_in")
+	fitted := len(head)
+	head = append(head, "die_x", "die_y", "wafer", "lot")
+	if len(limits) > 0 {
+		head = append(head, "out_of_limits")
+	}
+	if err := cw.Write(head); err != nil {
+		return err
+	}
+	out := outlierKeys(sums)
+	rec := make([]string, 0, len(head))
+	for k, r := range rows {
+		rec = rec[:0]
+		errText := ""
+		if r.Err != nil {
+			errText = r.Err.Error()
+		}
+		rec = append(rec, r.File, r.Status, errText)
+		if r.Status != StatusOK {
+			for len(rec) < fitted {
+				rec = append(rec, "")
+			}
+		} else {
+			rec = append(rec, csvNum(r.Temperature.K), r.Temperature.Source)
+			for j := range BatchParams() {
+				rec = append(rec, csvNum(r.Values[j]), csvNum(r.StdErr[j]))
+			}
+			rec = append(rec, csvNum(r.RMS), strconv.Itoa(r.Points), strings.Join(out[k], " "))
+		}
+		if r.Die.Known() {
+			rec = append(rec, strconv.Itoa(r.Die.X), strconv.Itoa(r.Die.Y))
+		} else {
+			rec = append(rec, "", "")
+		}
+		rec = append(rec, r.Die.Wafer, r.Die.Lot)
+		if len(limits) > 0 {
+			rec = append(rec, strings.Join(OutOfLimits(r, limits), " "))
+		}
+		if err := cw.Write(rec); err != nil {
+			return err
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}
