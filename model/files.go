@@ -1,6 +1,7 @@
 package model
 
 import (
+	"io"
 	"io/fs"
 	"os"
 )
@@ -23,3 +24,16 @@ func (LocalFiles) Open(path string) (fs.File, error) { return os.Open(path) }
 
 // ReadDir lists the folder at path.
 func (LocalFiles) ReadDir(path string) ([]fs.DirEntry, error) { return os.ReadDir(path) }
+
+// FileWriter is a file access that can also create a file, for exports
+// from the workbench: the local file system, or a served user's inbox.
+type FileWriter interface {
+	// CreateNew creates the file name, refusing one that exists.
+	CreateNew(name string) (io.WriteCloser, error)
+}
+
+// CreateNew creates the file at path, refusing to replace one (mode 0644:
+// the user's own folder, ordinary modes).
+func (LocalFiles) CreateNew(path string) (io.WriteCloser, error) {
+	return os.OpenFile(path, os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o644)
+}

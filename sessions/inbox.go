@@ -548,3 +548,13 @@ func (in *Inbox) Rename(from, to string, replace bool) error {
 	q.used = max(q.used-replaced, 0)
 	return nil
 }
+
+// CreateNew creates a file in the inbox for an export from the served
+// workbench, under the inbox's name policy and caps, refusing a name that
+// exists (model.FileWriter).
+func (in *Inbox) CreateNew(given string) (io.WriteCloser, error) {
+	if _, err := in.Stat(given); err == nil {
+		return nil, fmt.Errorf("%s exists in your inbox; nothing was written", Printable(given, 64, ""))
+	}
+	return in.Create(given, -1)
+}

@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"os"
 	"path/filepath"
 	"strings"
 
@@ -161,6 +162,9 @@ func (m Model) batchKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		}
 		m.screen = screenMain
 		return m, nil
+	case !b.running && b.view != nil && km.String() == "ctrl+e":
+		m.exportBatch()
+		return m, nil
 	case !b.running && b.wm.onMap(b.view):
 		return m.waferMapKey(km)
 	case km.Type == tea.KeyTab && !b.running && b.wm.hasDies:
@@ -303,6 +307,45 @@ func (h batchHelp) ShortHelp() []key.Binding {
 		key.NewBinding(key.WithKeys("up", "down", "left", "right"), key.WithHelp("arrows", "walk dies")),
 		key.NewBinding(key.WithKeys("[", "]"), key.WithHelp("[ ]", "parameter")),
 		key.NewBinding(key.WithKeys("w"), key.WithHelp("w", "wafer")),
+		key.NewBinding(key.WithKeys("ctrl+e"), key.WithHelp("ctrl+e", "export CSV")),
 		key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "cancel or close"))}
 }
 func (h batchHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
+
+// exportBatch writes the batch table as CSV (fit.WriteBatchCSV, the
+// command line's table) to a new file batch-TIME.csv: in the batch's
+// folder on the local file system, in the inbox when served (whatever
+// the folder). It never replaces a file.
+func (m *Model) exportBatch() {
+	b := &m.bat
+	files := m.sess.files
+	if files == nil {
+		files = model.LocalFiles{}
+	}
+	fw, ok := files.(model.FileWriter)
+	if !ok {
+		m.note = "exports are not available here"
+		return
+	}
+	name := "batch-" + m.sess.now().UTC().Format("20060102-150405") + ".csv"
+	path := name
+	if _, local := files.(model.LocalFiles); local && b.dir != "" {
+		dir := b.dir
+		if fi, err := os.Stat(dir); err == nil && !fi.IsDir() {
+			dir = filepath.Dir(dir)
+		}
+		path = filepath.Join(dir, name)
+	}
+	f, err := fw.CreateNew(path)
+	if err == nil {
+		err = fit.WriteBatchCSV(f, b.view, nil)
+		if cerr := f.Close(); err == nil {
+			err = cerr
+		}
+	}
+	if err != nil {
+		m.note = "export: " + sessions.Printable(err.Error(), 200, "")
+		return
+	}
+	m.note = "batch table written to " + sessions.Printable(path, 200, "")
+}

@@ -244,3 +244,37 @@ func TestBatchTableMarksOutliers(t *testing.T) {
 		}
 	}
 }
+
+// ctrl+e writes the batch table as CSV beside the files (the command
+// line's table, fit.WriteBatchCSV), one row per file, never replacing a
+// file; a second export in the same second is refused, not overwritten.
+func TestBatchExport(t *testing.T) {
+	dir := writeBatchDir(t, 3)
+	m := newTest(t, 120, 40)
+	m = press(m, "B")
+	m = typeText(m, dir)
+	m = press(m, "enter")
+	if m.bat.view == nil {
+		t.Fatalf("no batch:\n%s", plain(m))
+	}
+	m = press(m, "ctrl+e")
+	matches, _ := filepath.Glob(filepath.Join(dir, "batch-*.csv"))
+	if len(matches) != 1 || !strings.Contains(m.note, "written") {
+		t.Fatalf("export: %v, note %q", matches, m.note)
+	}
+	data, err := os.ReadFile(matches[0])
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSpace(string(data)), "\n")
+	if len(lines) != 1+len(m.bat.view.Rows) || !strings.HasPrefix(lines[0], "file,status,error") {
+		t.Errorf("CSV of %d lines for %d rows:\n%s", len(lines), len(m.bat.view.Rows), data)
+	}
+	m = press(m, "ctrl+e")
+	if strings.Contains(m.note, "written") && !strings.Contains(m.note, "exists") {
+		after, _ := filepath.Glob(filepath.Join(dir, "batch-*.csv"))
+		if len(after) != 2 {
+			t.Errorf("second export: %q, files %v", m.note, after)
+		}
+	}
+}

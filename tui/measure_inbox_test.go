@@ -124,3 +124,22 @@ func TestLocalImportKeepsFullAccess(t *testing.T) {
 		t.Fatalf("local import of an absolute path: %s", m.imp.err)
 	}
 }
+
+// A served batch's export lands in the user's inbox (where sftp can fetch
+// it), never beside server paths, and its message names no server path.
+func TestServedBatchExportGoesToTheInbox(t *testing.T) {
+	m, data, _ := servedInbox(t)
+	m = press(m, "B", "ctrl+u", "enter")
+	if m.bat.view == nil {
+		t.Fatalf("no batch: %q", m.bat.err)
+	}
+	m = press(m, "ctrl+e")
+	if !strings.Contains(m.note, "written") || strings.Contains(m.note, data) {
+		t.Fatalf("export note %q", m.note)
+	}
+	dir, _ := sessions.InboxRoot(data, "alice")
+	found, _ := filepath.Glob(filepath.Join(dir, "batch-*.csv"))
+	if len(found) != 1 {
+		t.Errorf("inbox holds %v, want one batch CSV", found)
+	}
+}
