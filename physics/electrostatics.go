@@ -319,17 +319,14 @@ func (d Depletion) Profile(n int) []ProfilePoint {
 	}
 	j := d.j
 	// Points per segment: margins get an eighth each, the depleted sides
-	// share the rest in proportion to their widths.
+	// share the rest in proportion to their widths, but each side gets at
+	// least a quarter of it, so that a side hundreds of times thinner than
+	// the other is still resolved where a chart magnifies it.
 	margin := n / 8
 	inner := n - 2*margin - 1
-	np := int(math.Round(float64(inner) * d.Xp / d.W))
-	if np < 2 {
-		np = 2
-	}
+	least := max(inner/4, 2)
+	np := min(max(int(math.Round(float64(inner)*d.Xp/d.W)), least), inner-least)
 	nn := inner - np
-	if nn < 2 {
-		nn = 2
-	}
 	xs := make([]float64, 0, n+4)
 	seg := func(a, b float64, k int) {
 		for i := 0; i < k; i++ {
