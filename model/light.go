@@ -71,11 +71,18 @@ func litQuantities(s Spec, st *physics.Static) []Quantity {
 	if err == nil {
 		eff = efficiencyOf(s, f.Pmax)
 	}
-	return []Quantity{
+	return append([]Quantity{
 		{"photocurrent_A", GroupLight, "photocurrent", "IL", Current, st.IL, nil},
 		{"photocurrent_p_region_A", GroupLight, "  collected from the p region", "IL,p", Current, st.Photo.P, nil},
 		{"photocurrent_depletion_A", GroupLight, "  from the depletion region", "IL,dep", Current, st.Photo.Depletion, nil},
 		{"photocurrent_n_region_A", GroupLight, "  collected from the n region", "IL,n", Current, st.Photo.N, nil},
+	}, litFigureQuantities(f, eff)...)
+}
+
+// litFigureQuantities are the figures of merit of a lit I-V curve as
+// results (the analytic and the numeric results share them).
+func litFigureQuantities(f physics.LitFigures, eff float64) []Quantity {
+	return []Quantity{
 		{"short_circuit_current_A", GroupLight, "short-circuit current", "Isc", Current, f.Isc, nil},
 		{"open_circuit_voltage_V", GroupLight, "open-circuit voltage", "Voc", Voltage, f.Voc, nil},
 		{"max_power_W", GroupLight, "maximum power delivered", "Pmax", Power, f.Pmax, nil},

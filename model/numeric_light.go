@@ -64,16 +64,9 @@ func numericLitQuantities(r *NumericResult) []Quantity {
 		return nil
 	}
 	f := r.LitFigures
-	return []Quantity{
+	return append([]Quantity{
 		{"photocurrent_A", GroupLight, "photocurrent (collected at short circuit)", "IL", Current, f.Isc, nil},
-		{"short_circuit_current_A", GroupLight, "short-circuit current", "Isc", Current, f.Isc, nil},
-		{"open_circuit_voltage_V", GroupLight, "open-circuit voltage", "Voc", Voltage, f.Voc, nil},
-		{"max_power_W", GroupLight, "maximum power delivered", "Pmax", Power, f.Pmax, nil},
-		{"max_power_voltage_V", GroupLight, "  at voltage", "Vmp", Voltage, f.Vmp, nil},
-		{"max_power_current_A", GroupLight, "  at current", "Imp", Current, f.Imp, nil},
-		{"fill_factor", GroupLight, "fill factor", "FF", Dimensionless, f.FF, nil},
-		{"efficiency", GroupLight, "power conversion efficiency", "eta", Dimensionless, efficiencyOf(r.Spec, f.Pmax), nil},
-	}
+	}, litFigureQuantities(f, efficiencyOf(r.Spec, f.Pmax))...)
 }
 
 // litCompareKeys are the lit quantities Compare reads out when the Spec is

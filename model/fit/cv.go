@@ -128,18 +128,3 @@ func (r *CVResult) MottSchottkyParams() []Param {
 	}
 	return []Param{vbi, n}
 }
-
-// Windowed keeps the points of v, y inside w (all for the zero window).
-func Windowed(v, y []float64, w extract.Window) ([]float64, []float64) {
-	if w.IsZero() {
-		return v, y
-	}
-	var a, b []float64
-	for k := range v {
-		if w.Contains(v[k]) {
-			a = append(a, v[k])
-			b = append(b, y[k])
-		}
-	}
-	return a, b
-}
