@@ -16,11 +16,7 @@ import (
 func TestSessionlessConnectionClosed(t *testing.T) {
 	ada := newUserKey(t, "ada")
 	f := startServerWith(t, t.TempDir(), func(c *Config) { c.IdleTimeout = 400 * time.Millisecond }, ada.line)
-	c, err := dial(f.addr, clientConfig("ada", gossh.PublicKeys(ada.signer)))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer c.Close()
+	c := login(t, f.addr, "ada", ada)
 	deadline := time.Now().Add(5 * time.Second)
 	for time.Now().Before(deadline) {
 		if _, _, err := c.SendRequest("keepalive@openssh.com", true, nil); err != nil {
@@ -71,16 +67,8 @@ func TestConnectionsWithoutSessionCapped(t *testing.T) {
 func TestKeepalivesDoNotHoldAnIdleSession(t *testing.T) {
 	ada := newUserKey(t, "ada")
 	f := startServerWith(t, t.TempDir(), func(c *Config) { c.IdleTimeout = 400 * time.Millisecond }, ada.line)
-	c, err := dial(f.addr, clientConfig("ada", gossh.PublicKeys(ada.signer)))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer c.Close()
-	s, err := c.NewSession()
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer s.Close()
+	c := login(t, f.addr, "ada", ada)
+	s := openSession(t, c)
 	if err := s.RequestPty("xterm", 40, 100, gossh.TerminalModes{}); err != nil {
 		t.Fatal(err)
 	}

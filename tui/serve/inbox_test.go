@@ -372,11 +372,7 @@ func TestLegacySCPConfinedToInbox(t *testing.T) {
 func TestNoInboxNoTransfer(t *testing.T) {
 	ada := newUserKey(t, "ada")
 	f := startServer(t, t.TempDir(), ada.line)
-	c, err := dial(f.addr, clientConfig("ada", gossh.PublicKeys(ada.signer)))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer c.Close()
+	c := login(t, f.addr, "ada", ada)
 	if sc, err := sftp.NewClient(c); err == nil {
 		if _, err := sc.ReadDir("/"); err == nil {
 			t.Error("SFTP served without an inbox")

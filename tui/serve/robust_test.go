@@ -94,11 +94,7 @@ func TestHugeTerminalIsClamped(t *testing.T) {
 	ada := newUserKey(t, "ada")
 	app := &probeApp{sizes: make(chan [2]int, 16)}
 	f := startServerWith(t, t.TempDir(), withApp(app), ada.line)
-	c, err := dial(f.addr, clientConfig("ada", gossh.PublicKeys(ada.signer)))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer c.Close()
+	c := login(t, f.addr, "ada", ada)
 	s, err := c.NewSession()
 	if err != nil {
 		t.Fatal(err)
@@ -169,11 +165,7 @@ func TestStalledClientIsClosed(t *testing.T) {
 	f := startServerWith(t, t.TempDir(), func(c *Config) {
 		c.App, c.MaxConnections, c.IdleTimeout, c.WriteTimeout = app, 1, 0, 300*time.Millisecond
 	}, ada.line)
-	c, err := dial(f.addr, clientConfig("ada", gossh.PublicKeys(ada.signer)))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer c.Close()
+	c := login(t, f.addr, "ada", ada)
 	s, err := c.NewSession()
 	if err != nil {
 		t.Fatal(err)
@@ -280,16 +272,8 @@ func reopen(t *testing.T, f *fixture, user string, k userKey, want string) {
 func TestAgentForwardingRefused(t *testing.T) {
 	ada := newUserKey(t, "ada")
 	f := startServer(t, t.TempDir(), ada.line)
-	c, err := dial(f.addr, clientConfig("ada", gossh.PublicKeys(ada.signer)))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer c.Close()
-	s, err := c.NewSession()
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer s.Close()
+	c := login(t, f.addr, "ada", ada)
+	s := openSession(t, c)
 	for _, req := range []string{"auth-agent-req@openssh.com", "x11-req"} {
 		ok, err := s.SendRequest(req, true, nil)
 		if err != nil {
@@ -317,11 +301,7 @@ func TestConnectionCapRefusalLogged(t *testing.T) {
 	f := startServerWith(t, t.TempDir(), func(c *Config) { c.MaxConnections = 1 }, ada.line)
 	first := openInteractive(t, f.addr, "ada", ada)
 	waitFor(t, first.out, "WORKBENCH user=ada")
-	c, err := dial(f.addr, clientConfig("ada", gossh.PublicKeys(ada.signer)))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer c.Close()
+	c := login(t, f.addr, "ada", ada)
 	s, err := c.NewSession()
 	if err != nil {
 		t.Fatal(err)

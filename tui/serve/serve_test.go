@@ -80,6 +80,29 @@ func newUserKey(t *testing.T, user string) userKey {
 	return userKey{signer: s, line: strings.TrimSpace(string(gossh.MarshalAuthorizedKey(sp))) + " " + user}
 }
 
+// login opens an SSH connection as user with key k, closed at the end of
+// the test.
+func login(t *testing.T, addr, user string, k userKey) *gossh.Client {
+	t.Helper()
+	c, err := dial(addr, clientConfig(user, gossh.PublicKeys(k.signer)))
+	if err != nil {
+		t.Fatalf("dial as %s: %v", user, err)
+	}
+	t.Cleanup(func() { c.Close() })
+	return c
+}
+
+// openSession opens a session on c, closed at the end of the test.
+func openSession(t *testing.T, c *gossh.Client) *gossh.Session {
+	t.Helper()
+	s, err := c.NewSession()
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { s.Close() })
+	return s
+}
+
 type fixture struct {
 	dir, hostKey, authKeys string
 	srv                    *Server
@@ -239,11 +262,7 @@ func TestRefusedLogins(t *testing.T) {
 func TestNoPTYGetsExplanation(t *testing.T) {
 	ada := newUserKey(t, "ada")
 	f := startServer(t, t.TempDir(), ada.line)
-	c, err := dial(f.addr, clientConfig("ada", gossh.PublicKeys(ada.signer)))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer c.Close()
+	c := login(t, f.addr, "ada", ada)
 	s, err := c.NewSession()
 	if err != nil {
 		t.Fatal(err)
@@ -263,11 +282,7 @@ func TestCommands(t *testing.T) {
 	ada := newUserKey(t, "ada")
 	f := startServer(t, t.TempDir(), ada.line)
 	run := func(cmd string) (string, string, error) {
-		c, err := dial(f.addr, clientConfig("ada", gossh.PublicKeys(ada.signer)))
-		if err != nil {
-			t.Fatal(err)
-		}
-		defer c.Close()
+		c := login(t, f.addr, "ada", ada)
 		s, err := c.NewSession()
 		if err != nil {
 			t.Fatal(err)
