@@ -271,10 +271,21 @@ func TestBatchExport(t *testing.T) {
 		t.Errorf("CSV of %d lines for %d rows:\n%s", len(lines), len(m.bat.view.Rows), data)
 	}
 	m = press(m, "ctrl+e")
-	if strings.Contains(m.note, "written") && !strings.Contains(m.note, "exists") {
-		after, _ := filepath.Glob(filepath.Join(dir, "batch-*.csv"))
+	after, _ := filepath.Glob(filepath.Join(dir, "batch-*.csv"))
+	again, err := os.ReadFile(matches[0])
+	if err != nil || string(again) != string(data) {
+		t.Error("a second export changed the first file")
+	}
+	switch {
+	case strings.Contains(m.note, "exists"): // same second: refused
+		if len(after) != 1 {
+			t.Errorf("refused export left files %v", after)
+		}
+	case strings.Contains(m.note, "written"): // a second later: a new file
 		if len(after) != 2 {
 			t.Errorf("second export: %q, files %v", m.note, after)
 		}
+	default:
+		t.Errorf("second export: note %q", m.note)
 	}
 }
