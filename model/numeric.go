@@ -16,6 +16,7 @@ import (
 	"math"
 	"strconv"
 
+	"junco/physics"
 	"junco/physics/solver"
 )
 
@@ -268,8 +269,6 @@ func FormatDose(v float64) string { return Format(Dose, v, 3, true) }
 // unit). Range checks are NumericSpec.Validate's.
 func ParseDose(text string) (float64, error) { return ParseValue(Dose, text) }
 
-func isFinite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
-
 // Validate checks every field of the numeric refinement and returns nil or
 // a *ValidationError with one FieldError per bad field (field, value in
 // trade units, allowed range, reason). The combination with the Spec
@@ -280,7 +279,7 @@ func (n NumericSpec) Validate() error {
 		errs = append(errs, FieldError{Field: field, Value: value, Allowed: allowed, Why: why})
 	}
 	rng := func(field string, k Kind, v, lo, hi float64, why string) {
-		if !isFinite(v) || v < lo || v > hi {
+		if !physics.Finite(v) || v < lo || v > hi {
 			add(field, Format(k, v, 3, true), Format(k, lo, 3, true)+" to "+Format(k, hi, 3, true), why)
 		}
 	}
@@ -344,7 +343,7 @@ func (s DopingShape) validate(prefix string) []FieldError {
 		errs = append(errs, FieldError{Field: prefix + "." + p, Value: value, Allowed: allowed, Why: why})
 	}
 	rng := func(p string, k Kind, v, lo, hi float64, why string) {
-		if !isFinite(v) || v < lo || v > hi {
+		if !physics.Finite(v) || v < lo || v > hi {
 			add(p, Format(k, v, 3, true), Format(k, lo, 3, true)+" to "+Format(k, hi, 3, true), why)
 		}
 	}
@@ -363,19 +362,19 @@ func (s DopingShape) validate(prefix string) []FieldError {
 	case ShapeUniform:
 		rng("concentration", Density, s.Concentration, minDensity, maxDensity, dopWhy)
 		rng("from", Length, s.From, 0, maxWidth, "a depth into the device")
-		if s.To != 0 && (!isFinite(s.To) || !(s.To > s.From) || s.To > maxWidth) {
+		if s.To != 0 && (!physics.Finite(s.To) || !(s.To > s.From) || s.To > maxWidth) {
 			add("to", Format(Length, s.To, 3, true), "0 (the far contact) or above from = "+Format(Length, s.From, 3, true)+", at most 1 cm",
 				"the layer must have a positive thickness")
 		}
 	case ShapeLinear:
 		rng("concentration", Density, s.Concentration, minDensity, maxDensity, "the plateau the ramp saturates at; "+dopWhy)
 		rng("position", Length, s.Position, 0, maxWidth, "the depth where the ramp starts from zero")
-		if g := math.Abs(s.Gradient); !isFinite(s.Gradient) || g < minGradient || g > maxGradient {
+		if g := math.Abs(s.Gradient); !physics.Finite(s.Gradient) || g < minGradient || g > maxGradient {
 			add("gradient", Format(Gradient, s.Gradient, 3, true), "magnitude "+Format(Gradient, minGradient, 3, true)+" to "+Format(Gradient, maxGradient, 3, true)+" (negative falls with depth)",
 				"the range of diffused and implanted junction gradients")
 		}
 	case ShapeGaussian:
-		if !isFinite(s.Dose) || s.Dose < minDose || s.Dose > maxDose {
+		if !physics.Finite(s.Dose) || s.Dose < minDose || s.Dose > maxDose {
 			add("dose", FormatDose(s.Dose), FormatDose(minDose)+" to "+FormatDose(maxDose), "from a light threshold-adjust implant to a heavy source/drain implant")
 		}
 		rng("range", Length, s.Range, 0, maxProjectedRange, "the projected range is a depth below the surface; MeV implants reach tens of um")
@@ -411,7 +410,7 @@ func (p *DepthProfile) validate() []FieldError {
 		return errs
 	}
 	for i, d := range p.Depth {
-		if !isFinite(d) || d < 0 || d > maxWidth || (i > 0 && !(d > p.Depth[i-1])) {
+		if !physics.Finite(d) || d < 0 || d > maxWidth || (i > 0 && !(d > p.Depth[i-1])) {
 			add(fmt.Sprintf("depth[%d]", i), Format(Length, d, 4, true), "0 to 1 cm, strictly increasing", "depths from the surface into the device")
 			break
 		}
@@ -435,7 +434,7 @@ func (p *DepthProfile) validate() []FieldError {
 			continue
 		}
 		for i, v := range c.v {
-			if !isFinite(v) || math.Abs(v) > maxProfileDensity || (!c.signed && v < 0) {
+			if !physics.Finite(v) || math.Abs(v) > maxProfileDensity || (!c.signed && v < 0) {
 				allowed := "0 to " + Format(Density, maxProfileDensity, 3, true)
 				if c.signed {
 					allowed = "magnitude up to " + Format(Density, maxProfileDensity, 3, true)

@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"junco/model/units"
+	"junco/physics"
 	"math"
 	"strconv"
 	"strings"
@@ -243,7 +244,7 @@ func ParseDepthProfile(name string, r io.Reader, species string) (*DepthProfile,
 				return nil, fail(ln, c+1, cl.header, "%q is out of the floating-point range", s)
 			}
 			v *= cl.factor
-			if !isFinite(v) {
+			if !physics.Finite(v) {
 				return nil, fail(ln, c+1, cl.header, "%q is out of the floating-point range", s)
 			}
 			switch cl.role {

@@ -361,7 +361,7 @@ func Compare(analytic *Result, numeric *NumericResult) []Difference {
 		q := nq[k]
 		a, _ := analytic.Get(k)
 		rel := math.NaN()
-		if isFinite(a) && isFinite(q.Value) && a != 0 {
+		if physics.Finite(a) && physics.Finite(q.Value) && a != 0 {
 			rel = (q.Value - a) / math.Abs(a)
 		}
 		tol := CompareTolerance(k)

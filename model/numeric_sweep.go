@@ -238,7 +238,7 @@ func NumericCVCurve(r *NumericCVResult) Curve {
 
 // relDiff returns (a - b)/|b|, NaN when undefined.
 func relDiff(a, b float64) float64 {
-	if !isFinite(a) || !isFinite(b) || b == 0 {
+	if !physics.Finite(a) || !physics.Finite(b) || b == 0 {
 		return math.NaN()
 	}
 	return (a - b) / math.Abs(b)

@@ -1,6 +1,10 @@
 package physics
 
-import "gonum.org/v1/gonum/unit/constant"
+import (
+	"math"
+
+	"gonum.org/v1/gonum/unit/constant"
+)
 
 // Physical constants used by the package, taken from gonum's CODATA 2018 set.
 const (
@@ -25,3 +29,7 @@ func ThermalVoltage(t float64) float64 { return KB * t / Q }
 //
 // Formula: kT/q in eV (numerically equal to ThermalVoltage). Units: K -> eV.
 func ThermalEnergyEV(t float64) float64 { return ThermalVoltage(t) }
+
+// Finite reports whether x is neither NaN nor infinite: the one check
+// every package uses for a value that must be a real number.
+func Finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }

@@ -196,7 +196,7 @@ func (p Photocurrent) Total() float64 { return p.P + p.Depletion + p.N }
 // region (Hf the front region's width) and BackPhotocurrentDensity with the
 // flux left after the front region and the depletion region.
 func JunctionPhotocurrent(pr, nr QuasiNeutral, w, a float64, l Light) (Photocurrent, error) {
-	if l.Generation < 0 || l.PhotonFlux < 0 || l.Absorption < 0 || !finite(l.Generation) || !finite(l.PhotonFlux) || !finite(l.Absorption) {
+	if l.Generation < 0 || l.PhotonFlux < 0 || l.Absorption < 0 || !Finite(l.Generation) || !Finite(l.PhotonFlux) || !Finite(l.Absorption) {
 		return Photocurrent{}, fmt.Errorf("light: generation %g m^-3 s^-1, photon flux %g m^-2 s^-1 and absorption %g 1/m must be finite and not negative", l.Generation, l.PhotonFlux, l.Absorption)
 	}
 	if !(w >= 0) || !(a > 0) {
@@ -232,8 +232,6 @@ func JunctionPhotocurrent(pr, nr QuasiNeutral, w, a float64, l Light) (Photocurr
 	}
 	return pc, nil
 }
-
-func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
 
 // LitFigures are the figures of merit of an illuminated junction read off
 // its lit I-V curve (the dark current with every enabled effect minus the

@@ -4,6 +4,7 @@ import (
 	"time"
 
 	"junco/model/fit"
+	"junco/physics"
 )
 
 // AppendFitRecords appends the records of one fit of measurement to extr
@@ -23,7 +24,7 @@ func AppendFitRecords(extr []Extraction, measurement string, now time.Time, recs
 		x := Extraction{ID: id, Method: r.Method, Measurement: measurement, Performed: now.UTC(), Notes: r.Notes}
 		for _, p := range r.Params {
 			q := Parameter{Name: p.Name, Unit: p.Unit, Value: p.Value}
-			if se := p.StdErr; fit.Finite(se) && se >= 0 {
+			if se := p.StdErr; physics.Finite(se) && se >= 0 {
 				q.StdError = &se
 			}
 			x.Parameters = append(x.Parameters, q)

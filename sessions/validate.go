@@ -3,7 +3,6 @@ package sessions
 import (
 	"errors"
 	"fmt"
-	"math"
 	"slices"
 	"strings"
 	"unicode"
@@ -11,6 +10,7 @@ import (
 
 	"junco/model"
 	"junco/model/measure"
+	"junco/physics"
 )
 
 // FieldProblem is one invalid value of a document: where (a JSON path such
@@ -116,10 +116,10 @@ func (d *Document) Validate() error {
 			}
 			names[par.Name] = true
 			text(pp+".unit", par.Unit, maxUnitRunes, false, false)
-			if !finite(par.Value) {
+			if !physics.Finite(par.Value) {
 				add(pp+".value", fmt.Sprint(par.Value), "a finite number", "JSON has no NaN or infinity")
 			}
-			if par.StdError != nil && (!finite(*par.StdError) || *par.StdError < 0) {
+			if par.StdError != nil && (!physics.Finite(*par.StdError) || *par.StdError < 0) {
 				add(pp+".std_error", fmt.Sprint(*par.StdError), "0 or more, finite, or null", "a standard error is a non-negative spread; null means not estimated")
 			}
 		}
@@ -141,7 +141,7 @@ func (d *Document) Validate() error {
 		ps = append(ps, specProblems(p+".spec", r.Spec)...)
 		for j, v := range r.Results {
 			text(fmt.Sprintf("%s.results[%d].key", p, j), v.Key, 64, true, false)
-			if v.Value != nil && !finite(*v.Value) {
+			if v.Value != nil && !physics.Finite(*v.Value) {
 				add(fmt.Sprintf("%s.results[%d].value", p, j), fmt.Sprint(*v.Value), "a finite number or null", "JSON has no NaN or infinity")
 			}
 		}
@@ -209,8 +209,6 @@ func (m Meta) problems() []FieldProblem {
 	}
 	return ps
 }
-
-func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
 
 // specProblems converts the field errors of model.Spec.Validate.
 func specProblems(path string, s model.Spec) []FieldProblem {
@@ -294,7 +292,7 @@ func (m Measurement) problems(p string, ids map[string]bool) []FieldProblem {
 	if m.ImportedAt.IsZero() {
 		add(p+".imported_at", "unset", "the import time", "a record says when data arrived")
 	}
-	if !finite(m.StatedTemperatureK) || m.StatedTemperatureK < 0 || m.StatedTemperatureK > 2000 {
+	if !physics.Finite(m.StatedTemperatureK) || m.StatedTemperatureK < 0 || m.StatedTemperatureK > 2000 {
 		add(p+".stated_temperature_K", fmt.Sprint(m.StatedTemperatureK), "0 (none) to 2000 K", "a measurement temperature")
 	}
 	if m.TemperatureTyped && !(m.StatedTemperatureK > 0) {
@@ -316,7 +314,7 @@ func (m Measurement) problems(p string, ids map[string]bool) []FieldProblem {
 			continue
 		}
 		for k, v := range c.Values {
-			if !finite(v) {
+			if !physics.Finite(v) {
 				add(fmt.Sprintf("%s.%s[%d]", p, c.Key, k), fmt.Sprint(v), "a finite number", "JSON has no NaN or infinity; the importer leaves such rows out")
 				break
 			}

@@ -10,6 +10,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"junco/model"
+	"junco/physics"
 )
 
 // Which sweep a chart follows.
@@ -308,7 +309,7 @@ func decadeRange(vs []float64, si float64, maxSpan int) (lo, hi int, ok bool) {
 	big, small := 0.0, math.Inf(1)
 	for _, v := range vs {
 		a := math.Abs(v) / si
-		if !finite(a) || a == 0 {
+		if !physics.Finite(a) || a == 0 {
 			continue
 		}
 		big = math.Max(big, a)
@@ -331,7 +332,7 @@ func decadeRange(vs []float64, si float64, maxSpan int) (lo, hi int, ok bool) {
 func maxAbs(v []float64) float64 {
 	m := 0.0
 	for _, x := range v {
-		if finite(x) {
+		if physics.Finite(x) {
 			m = math.Max(m, math.Abs(x))
 		}
 	}
@@ -341,7 +342,7 @@ func maxAbs(v []float64) float64 {
 func minMax(v []float64, f float64) (lo, hi float64) {
 	lo, hi = math.Inf(1), math.Inf(-1)
 	for _, x := range v {
-		if finite(x) {
+		if physics.Finite(x) {
 			lo, hi = math.Min(lo, x/f), math.Max(hi, x/f)
 		}
 	}
@@ -395,7 +396,7 @@ func axisFactor(a model.Axis, maxAbsSI float64, ascii bool) (float64, string) {
 	}
 	m := maxAbsSI / si * baseSI
 	e := 0
-	if m > 0 && finite(m) {
+	if m > 0 && physics.Finite(m) {
 		e = int(math.Floor(math.Log10(m)/3)) * 3
 	}
 	if prefixable(base) && e >= -15 && e <= 9 {

@@ -2,6 +2,7 @@ package tui
 
 import (
 	"junco/model"
+	"junco/physics"
 	"math"
 )
 
@@ -104,7 +105,7 @@ func (c *chartModel) render() {
 	}
 	for _, s := range extra {
 		for j, y := range s.Y {
-			if j < len(exs) && finite(exs[j]) {
+			if j < len(exs) && physics.Finite(exs[j]) {
 				all = append(all, y)
 			}
 		}
@@ -169,7 +170,7 @@ func (c *chartModel) render() {
 				// Zero has no place on a log axis: the line breaks there
 				// and values below the frame are clipped, never drawn
 				// along its floor.
-				if a := math.Abs(y) / si; a > 0 && finite(a) {
+				if a := math.Abs(y) / si; a > 0 && physics.Finite(a) {
 					out[i] = math.Log10(a)
 				} else {
 					out[i] = math.NaN()

@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"junco/model"
+	"junco/physics"
 )
 
 // Axis transforms of the charts panel: the value an axis shows (in its
@@ -92,7 +93,7 @@ func logMapFor(xs []float64) (ok bool, why string) {
 	pos, neg := 0, 0
 	lo, hi := math.Inf(1), 0.0
 	for _, x := range xs {
-		if !finite(x) || x == 0 {
+		if !physics.Finite(x) || x == 0 {
 			continue
 		}
 		if x > 0 {

@@ -7,6 +7,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"junco/model"
+	"junco/physics"
 )
 
 // Reading values off a chart: a cursor that walks the points of the
@@ -183,7 +184,7 @@ func (c *chartModel) startCursor() int {
 	best, bd := 0, math.Inf(1)
 	mid := (c.ax.viewX[0] + c.ax.viewX[1]) / 2
 	for i, p := range c.ax.pxs {
-		if d := math.Abs(p - mid); finite(p) && d < bd {
+		if d := math.Abs(p - mid); physics.Finite(p) && d < bd {
 			best, bd = i, d
 		}
 	}
@@ -197,7 +198,7 @@ func (c *chartModel) follow() {
 		return
 	}
 	f := frac(c.ax.fullX, c.ax.pxs[v.cursor])
-	if !finite(f) {
+	if !physics.Finite(f) {
 		return
 	}
 	span := v.x1 - v.x0
@@ -215,11 +216,11 @@ func (c *chartModel) zoomCentre() (float64, float64) {
 	v := c.view
 	cx, cy := (v.x0+v.x1)/2, (v.y0+v.y1)/2
 	if v.cursor >= 0 && v.cursor < len(c.ax.pxs) {
-		if f := frac(c.ax.fullX, c.ax.pxs[v.cursor]); finite(f) && f >= v.x0 && f <= v.x1 {
+		if f := frac(c.ax.fullX, c.ax.pxs[v.cursor]); physics.Finite(f) && f >= v.x0 && f <= v.x1 {
 			cx = f
 		}
 		if v.cursor < len(c.ax.pys) {
-			if f := frac(c.ax.fullY, c.ax.pys[v.cursor]); finite(f) && f >= v.y0 && f <= v.y1 {
+			if f := frac(c.ax.fullY, c.ax.pys[v.cursor]); physics.Finite(f) && f >= v.y0 && f <= v.y1 {
 				cy = f
 			}
 		}
@@ -264,7 +265,7 @@ func (c *chartModel) mouse(msg tea.MouseMsg, x, y int) {
 		px := c.ax.fullX[0] + fx*(c.ax.fullX[1]-c.ax.fullX[0])
 		best, bd := -1, math.Inf(1)
 		for i, p := range c.ax.pxs {
-			if d := math.Abs(p - px); finite(p) && d < bd {
+			if d := math.Abs(p - px); physics.Finite(p) && d < bd {
 				best, bd = i, d
 			}
 		}

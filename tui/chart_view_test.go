@@ -9,6 +9,7 @@ import (
 	"github.com/charmbracelet/x/ansi"
 
 	"junco/model"
+	"junco/physics"
 )
 
 // chartAt opens the charts panel at w x h and steps to the chart id.
@@ -42,7 +43,7 @@ func seriesOf(t *testing.T, c model.Curve, label string) []float64 {
 func maxOf(v []float64) float64 {
 	m := math.Inf(-1)
 	for _, x := range v {
-		if finite(x) {
+		if physics.Finite(x) {
 			m = math.Max(m, x)
 		}
 	}

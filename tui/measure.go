@@ -13,6 +13,7 @@ import (
 	"junco/model"
 	"junco/model/fit"
 	"junco/model/measure"
+	"junco/physics"
 	"junco/sessions"
 )
 
@@ -467,7 +468,7 @@ func (m *Model) renderFit() {
 			ln.ys = make([]float64, len(s.ys))
 			for i, y := range s.ys {
 				y = math.Abs(y) / div
-				if !finite(y) || y > ys.max {
+				if !physics.Finite(y) || y > ys.max {
 					y = math.NaN()
 				}
 				ln.ys[i] = y
@@ -589,7 +590,7 @@ func sparkline(v []float64, w int, ascii bool) string {
 	}
 	peak := 0.0
 	for _, x := range v {
-		if finite(x) {
+		if physics.Finite(x) {
 			peak = math.Max(peak, math.Abs(x))
 		}
 	}
@@ -598,7 +599,7 @@ func sparkline(v []float64, w int, ascii bool) string {
 	for i := range out {
 		x := v[i*len(v)/n]
 		lv := len(levels) / 2
-		if peak > 0 && finite(x) {
+		if peak > 0 && physics.Finite(x) {
 			lv = int(math.Round((x/peak + 1) / 2 * float64(len(levels)-1)))
 		}
 		out[i] = levels[min(max(lv, 0), len(levels)-1)]

@@ -10,6 +10,7 @@ import (
 
 	"junco/model"
 	"junco/model/fit"
+	"junco/physics"
 )
 
 // cardState is the model-card screen: the card built from the session's
@@ -89,7 +90,7 @@ func (m Model) cardScreen(w, h int) []string {
 		out = append(out, "", st.strong.Paint(cut(fmt.Sprintf("%-5s %-13s %-10s %s", "", "value", "std. error", "from"), w, g.ellipsis)))
 		for _, p := range r.Params {
 			se := "-"
-			if fit.Finite(p.StdErr) {
+			if physics.Finite(p.StdErr) {
 				se = fmt.Sprintf("%.3g", p.StdErr)
 			}
 			out = append(out, cut(fmt.Sprintf("%-5s %-13s %-10s %s", p.Name, strings.TrimSpace(fmt.Sprintf("%.5g %s", p.Value, p.Unit)), se, p.Source), w, g.ellipsis))

@@ -11,6 +11,7 @@ import (
 	"junco/model"
 	"junco/model/fit"
 	"junco/model/measure"
+	"junco/physics"
 )
 
 // cvFitState is the C-V fit screen: the C-V data set fitted, the window
@@ -214,7 +215,7 @@ func (m *Model) renderCVFit() {
 	ylo = math.Min(ylo, 0)
 	peak := math.Max(math.Abs(ylo), math.Abs(yhi))
 	exp := 0
-	if peak > 0 && finite(peak) {
+	if peak > 0 && physics.Finite(peak) {
 		exp = int(math.Floor(math.Log10(peak)))
 	}
 	scale := math.Pow(10, float64(exp))
@@ -228,7 +229,7 @@ func (m *Model) renderCVFit() {
 		ln.ys = make([]float64, len(s.ys))
 		for i, y := range s.ys {
 			y /= scale
-			if !finite(y) || y < ys.min || y > ys.max {
+			if !physics.Finite(y) || y < ys.min || y > ys.max {
 				y = math.NaN()
 			}
 			ln.ys[i] = y

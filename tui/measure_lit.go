@@ -7,6 +7,7 @@ import (
 
 	"junco/model"
 	"junco/model/fit"
+	"junco/physics"
 )
 
 // The fit screen of a lit I-V data set (fit.IsLit): the current and the
@@ -62,7 +63,7 @@ func (m *Model) renderLitFit() {
 	iys := linearScale(ilo, ihi, max(2, ih/3))
 	clip := func(y, d float64, a axisScale) float64 {
 		y /= d
-		if !finite(y) || y < a.min || y > a.max {
+		if !physics.Finite(y) || y < a.min || y > a.max {
 			return math.NaN()
 		}
 		return y
@@ -88,7 +89,7 @@ func (m *Model) renderLitFit() {
 	pk := v.MaxPowerW
 	for _, s := range v.Power.Series {
 		for _, y := range s.Y {
-			if finite(y) && y > pk {
+			if physics.Finite(y) && y > pk {
 				pk = y
 			}
 		}

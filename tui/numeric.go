@@ -12,6 +12,7 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 
 	"junco/model"
+	"junco/physics"
 )
 
 // Solver mode: the charts that both models can draw overlay the
@@ -244,7 +245,7 @@ func (c chartModel) readout(w int) []string {
 	}
 	worst, bad := 0.0, 0
 	for _, d := range n.diffs {
-		if a := math.Abs(d.Relative); finite(a) {
+		if a := math.Abs(d.Relative); physics.Finite(a) {
 			worst = math.Max(worst, a)
 			if d.Flagged {
 				bad++
@@ -286,7 +287,7 @@ func (c chartModel) readout(w int) []string {
 
 // relText formats a relative difference as a signed percentage.
 func relText(r float64) string {
-	if !finite(r) {
+	if !physics.Finite(r) {
 		return "n/a"
 	}
 	return fmt.Sprintf("%+.1f %%", 100*r)

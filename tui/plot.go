@@ -1,6 +1,7 @@
 package tui
 
 import (
+	"junco/physics"
 	"math"
 	"strconv"
 	"strings"
@@ -139,7 +140,7 @@ func renderPlotWith(lines []plotLine, xs, ys axisScale, w, h int, e env, opt plo
 		if ln.dots {
 			r := []rune(ln.marker + "*")[0]
 			for j := range ln.xs {
-				if j >= len(ln.ys) || !finite(ln.xs[j]) || !finite(ln.ys[j]) ||
+				if j >= len(ln.ys) || !physics.Finite(ln.xs[j]) || !physics.Finite(ln.ys[j]) ||
 					ln.xs[j] < xs.min || ln.xs[j] > xs.max || ln.ys[j] < ys.min || ln.ys[j] > ys.max {
 					continue
 				}
@@ -152,7 +153,7 @@ func renderPlotWith(lines []plotLine, xs, ys axisScale, w, h int, e env, opt plo
 		havePrev := false
 		var px, py float64
 		for j := range ln.xs {
-			if j >= len(ln.ys) || !finite(ln.xs[j]) || !finite(ln.ys[j]) {
+			if j >= len(ln.ys) || !physics.Finite(ln.xs[j]) || !physics.Finite(ln.ys[j]) {
 				havePrev = false
 				continue
 			}
@@ -225,7 +226,7 @@ func renderPlotWith(lines []plotLine, xs, ys axisScale, w, h int, e env, opt plo
 
 	// The cursor: a faint line up its column where nothing is drawn, and
 	// a mark on each line it meets.
-	if finite(opt.cursorX) && opt.cursorX >= xs.min && opt.cursorX <= xs.max {
+	if physics.Finite(opt.cursorX) && opt.cursorX >= xs.min && opt.cursorX <= xs.max {
 		grid := graph.NewBrailleGrid(gw, gh, xs.min, xs.max, ys.min, ys.max)
 		cx := grid.GridPoint(canvas.Float64Point{X: opt.cursorX, Y: ys.min}).X / 2
 		bar := '┊'
@@ -242,7 +243,7 @@ func renderPlotWith(lines []plotLine, xs, ys axisScale, w, h int, e env, opt plo
 			mark = '&'
 		}
 		for _, p := range opt.cursorPts {
-			if !finite(p.y) || p.y < ys.min || p.y > ys.max || p.line < 0 || p.line >= len(lines) {
+			if !physics.Finite(p.y) || p.y < ys.min || p.y > ys.max || p.line < 0 || p.line >= len(lines) {
 				continue
 			}
 			q := grid.GridPoint(canvas.Float64Point{X: opt.cursorX, Y: p.y})
@@ -350,8 +351,6 @@ func asciiRune(r rune) rune {
 	return r
 }
 
-func finite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
-
 // tickIn returns the label of the tick in [lo, hi), or "".
 func tickIn(a axisScale, lo, hi float64) string {
 	for _, t := range a.ticks {
@@ -381,7 +380,7 @@ func niceStep(span float64, n int) float64 {
 // linearScale builds a linear axis over [lo, hi] with about n ticks,
 // widened to whole steps.
 func linearScale(lo, hi float64, n int) axisScale {
-	if !finite(lo) || !finite(hi) {
+	if !physics.Finite(lo) || !physics.Finite(hi) {
 		lo, hi = 0, 1
 	}
 	if hi < lo {
@@ -423,7 +422,7 @@ func linearScale(lo, hi float64, n int) axisScale {
 // sweep axis whose ends the user chose.
 func exactScale(lo, hi float64, n int) axisScale {
 	a := linearScale(lo, hi, n)
-	if finite(lo) && finite(hi) && hi > lo {
+	if physics.Finite(lo) && physics.Finite(hi) && hi > lo {
 		a.min, a.max = lo, hi
 	}
 	return a

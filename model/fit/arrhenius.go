@@ -69,7 +69,7 @@ func ArrheniusPointOf(r *IVResult) extract.ArrheniusPoint {
 }
 
 func arrheniusPoint(t, is, se float64) extract.ArrheniusPoint {
-	if !Finite(se) {
+	if !physics.Finite(se) {
 		se = 0
 	}
 	return extract.ArrheniusPoint{TemperatureK: t, SaturationCurrentA: is, StdErrA: se}

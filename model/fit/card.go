@@ -297,7 +297,7 @@ func cardFile(in CardInputs, k int) string {
 // forwardIn returns the forward points (V > 0, I > 0) of ds inside w.
 func forwardIn(ds *measure.DataSet, w extract.Window) (v, i []float64) {
 	for k := range ds.VoltageV {
-		if w.Contains(ds.VoltageV[k]) && ds.VoltageV[k] > 0 && ds.CurrentA[k] > 0 && Finite(ds.CurrentA[k]) {
+		if w.Contains(ds.VoltageV[k]) && ds.VoltageV[k] > 0 && ds.CurrentA[k] > 0 && physics.Finite(ds.CurrentA[k]) {
 			v = append(v, ds.VoltageV[k])
 			i = append(i, ds.CurrentA[k])
 		}
@@ -308,7 +308,7 @@ func forwardIn(ds *measure.DataSet, w extract.Window) (v, i []float64) {
 func minOf(x []float64) float64 {
 	m := math.Inf(1)
 	for _, v := range x {
-		if Finite(v) {
+		if physics.Finite(v) {
 			m = math.Min(m, v)
 		}
 	}

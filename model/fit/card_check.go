@@ -5,6 +5,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"junco/physics"
 	"math"
 	"os"
 	"os/exec"
@@ -140,7 +141,7 @@ func CheckCard(ctx context.Context, r *CardResult) (*CardCheck, error) {
 	if r.Junction != nil && r.CVData != nil {
 		var vs, cs []float64
 		for k, v := range r.CVData.VoltageV {
-			if v <= 0 && Finite(v) && r.CVData.CapacitanceF[k] > 0 {
+			if v <= 0 && physics.Finite(v) && r.CVData.CapacitanceF[k] > 0 {
 				vs = append(vs, v)
 				cs = append(cs, r.CVData.CapacitanceF[k]-r.Junction.ParasiticCapacitanceF)
 			}

@@ -9,6 +9,7 @@ import (
 
 	"junco/model"
 	"junco/model/measure"
+	"junco/physics"
 	"junco/physics/extract"
 )
 
@@ -59,7 +60,7 @@ func cardJunction(ctx context.Context, ds *measure.DataSet) (*extract.JunctionCV
 		*vals[k], *errs[k] = p.Value, p.StdErr
 	}
 	notes = append(notes, r.Notes...)
-	if !Finite(j.ParasiticCapacitanceF) {
+	if !physics.Finite(j.ParasiticCapacitanceF) {
 		j.ParasiticCapacitanceF = 0
 		notes = append(notes, "the C-V data do not determine the fixture capacitance Cpar: taken as 0")
 	}

@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"junco/model"
+	"junco/physics"
 )
 
 // Recovery is a reverse-recovery (storage time) measurement: the diode
@@ -74,7 +75,7 @@ func ParseRecovery(r io.Reader, name string) (*Recovery, error) {
 		if x < 0 {
 			x = -x // a reverse current may be written with its sign
 		}
-		if !(x > 0) || !Finite(x) {
+		if !(x > 0) || !physics.Finite(x) {
 			return nil, fmt.Errorf("%s:%d: %s = %g: allowed a positive finite value", name, line, key, x)
 		}
 		*dst = x

@@ -4,7 +4,6 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"math"
 
 	"junco/model/measure"
 	"junco/physics/extract"
@@ -74,9 +73,6 @@ type Param struct {
 	Name, Unit    string
 	Value, StdErr float64
 }
-
-// Finite reports whether x is neither NaN nor infinite.
-func Finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
 
 // Params lists the fitted parameters in SI units with standard errors:
 // single diode Is (A), n, Rs and Rsh (ohm); double diode Is1, Is2 (A),

@@ -6,6 +6,7 @@ import (
 	"strconv"
 	"strings"
 
+	"junco/physics"
 	"junco/physics/extract"
 )
 
@@ -33,7 +34,7 @@ func newRecord(method string, ps []Param, notes []string, extra []string) Record
 	r := Record{Method: method}
 	var skipped []string
 	for _, p := range ps {
-		if !Finite(p.Value) {
+		if !physics.Finite(p.Value) {
 			why := "not determined"
 			if math.IsInf(p.Value, 1) {
 				why = "infinite (no measurable path)"

@@ -99,7 +99,7 @@ func NewLitView(ds *measure.DataSet, opt LitOptions) (*LitView, error) {
 	var px []float64
 	for _, k := range idx {
 		x, y := ds.VoltageV[k], ds.CurrentA[k]
-		if !Finite(y) {
+		if !physics.Finite(y) {
 			continue
 		}
 		px, pm = append(px, x), append(pm, x*y*-s)
@@ -128,7 +128,7 @@ func NewLitView(ds *measure.DataSet, opt LitOptions) (*LitView, error) {
 
 // formatOrNA formats a finite value, "n/a" otherwise.
 func formatOrNA(k model.Kind, x float64) string {
-	if !Finite(x) {
+	if !physics.Finite(x) {
 		return "n/a"
 	}
 	return model.Format(k, x, 4, true)

@@ -157,15 +157,15 @@ func (o Options) validate() error {
 	switch {
 	case math.IsNaN(o.Tolerance) || o.Tolerance > 1e-3:
 		return paramErr("Options.Tolerance", o.Tolerance, "in (0, 1e-3] (kT/q)", "a looser tolerance would return unconverged solutions")
-	case !finite(o.MaxBiasStep) || o.MaxBiasStep > 1:
+	case !physics.Finite(o.MaxBiasStep) || o.MaxBiasStep > 1:
 		return paramErr("Options.MaxBiasStep", o.MaxBiasStep, "in (0, 1] V", "continuation needs moderate steps")
-	case !finite(o.MinBiasStep) || o.MinBiasStep > o.MaxBiasStep:
+	case !physics.Finite(o.MinBiasStep) || o.MinBiasStep > o.MaxBiasStep:
 		return paramErr("Options.MinBiasStep", o.MinBiasStep, fmt.Sprintf("in (0, MaxBiasStep = %s] V", fv(o.MaxBiasStep)), "the step is halved down to it")
 	case o.CVMode != CVLowFrequency && o.CVMode != CVHighFrequency:
 		return &ParamError{Field: "Options.CVMode", Value: fmt.Sprint(int(o.CVMode)), Allowed: "CVLowFrequency (0) or CVHighFrequency (1)", Why: "the small-signal assumption of C-V"}
-	case !finite(o.CVStep) || o.CVStep > 0.1:
+	case !physics.Finite(o.CVStep) || o.CVStep > 0.1:
 		return paramErr("Options.CVStep", o.CVStep, "in (0, 0.1] V", "dQ/dV needs a small bias difference")
-	case !finite(o.Mesh.MaxReverseBias) || o.Mesh.MaxReverseBias > 1e5:
+	case !physics.Finite(o.Mesh.MaxReverseBias) || o.Mesh.MaxReverseBias > 1e5:
 		return paramErr("Options.Mesh.MaxReverseBias", o.Mesh.MaxReverseBias, "in (0, 1e5] V", "sizes the refined depletion zone")
 	case o.Mesh.Nodes < 0 || o.Mesh.Nodes == 1 || o.Mesh.Nodes == 2 || o.Mesh.Nodes > 200000:
 		return &ParamError{Field: "Options.Mesh.Nodes", Value: fmt.Sprint(o.Mesh.Nodes), Allowed: "0 (automatic) or 3 to 200000", Why: "node count of the mesh"}
@@ -173,7 +173,7 @@ func (o Options) validate() error {
 		return &ParamError{Field: "Options.Mesh.MaxNodes", Value: fmt.Sprint(o.Mesh.MaxNodes), Allowed: "0 (20000) or >= 3", Why: "cap on the automatic node count"}
 	case math.IsNaN(o.Mesh.Density) || o.Mesh.Density < 0 || o.Mesh.Density > 100:
 		return paramErr("Options.Mesh.Density", o.Mesh.Density, "in [0, 100] (0 = 1)", "multiplier of the automatic node density")
-	case !finite(o.Recombination.TrapLevel) || math.Abs(o.Recombination.TrapLevel) > 2:
+	case !physics.Finite(o.Recombination.TrapLevel) || math.Abs(o.Recombination.TrapLevel) > 2:
 		return paramErr("Options.Recombination.TrapLevel", o.Recombination.TrapLevel, "within +-2 eV of the intrinsic level", "a trap inside the gap")
 	}
 	return nil
@@ -483,7 +483,7 @@ func (s *Solver) setupNodes() error {
 		s.ndi[i], s.nai[i] = s.nd[i], s.na[i]
 		if dev.Ionisation != nil {
 			p, q := dev.Ionisation(s.x[i], s.nd[i], s.na[i])
-			if !(p >= 0) || !(q >= 0) || !finite(p) || !finite(q) {
+			if !(p >= 0) || !(q >= 0) || !physics.Finite(p) || !physics.Finite(q) {
 				return &ParamError{Field: "Device.Ionisation", Value: fmt.Sprintf("(%s, %s) at x = %s m", fv(p), fv(q), fv(s.x[i])), Allowed: "ionised densities >= 0 and finite", Why: "they enter Poisson's equation"}
 			}
 			s.ndi[i], s.nai[i] = p, q

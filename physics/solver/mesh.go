@@ -101,7 +101,7 @@ func checkPositions(x []float64, length float64) error {
 		return paramErr(fmt.Sprintf("Options.Mesh.Positions[%d]", len(x)-1), x[len(x)-1], fmt.Sprintf("Device.Length = %s", fv(length)), "the last node is the right contact")
 	}
 	for i := 1; i < len(x); i++ {
-		if !(x[i] > x[i-1]) || !finite(x[i]) {
+		if !(x[i] > x[i-1]) || !physics.Finite(x[i]) {
 			return paramErr(fmt.Sprintf("Options.Mesh.Positions[%d]", i), x[i], fmt.Sprintf("> Positions[%d] = %s", i-1, fv(x[i-1])), "nodes must increase strictly")
 		}
 	}

@@ -2,6 +2,7 @@ package solver
 
 import (
 	"fmt"
+	"junco/physics"
 	"math"
 	"sort"
 )
@@ -27,7 +28,6 @@ type Shape interface {
 func finitePos(v float64) bool { return v > 0 && !math.IsInf(v, 0) && !math.IsNaN(v) }
 
 // finite reports whether v is a finite number.
-func finite(v float64) bool { return !math.IsInf(v, 0) && !math.IsNaN(v) }
 
 // Uniform is a constant concentration between two positions: a step.
 //
@@ -54,7 +54,7 @@ func (u Uniform) Knots() []float64 { return finiteOnly(u.From, u.To) }
 // Validate reports a parameter outside its range as a *ParamError
 // (Shape).
 func (u Uniform) Validate() error {
-	if !(u.Concentration >= 0) || !finite(u.Concentration) {
+	if !(u.Concentration >= 0) || !physics.Finite(u.Concentration) {
 		return paramErr("Concentration", u.Concentration, ">= 0 and finite (m^-3)", "a dopant concentration")
 	}
 	if math.IsNaN(u.From) || math.IsInf(u.From, 1) {
@@ -97,10 +97,10 @@ func (l LinearGraded) Knots() []float64 {
 // Validate reports a parameter outside its range as a *ParamError
 // (Shape).
 func (l LinearGraded) Validate() error {
-	if !finite(l.Position) {
+	if !physics.Finite(l.Position) {
 		return paramErr("Position", l.Position, "finite (m)", "where the graded concentration starts")
 	}
-	if !finite(l.Gradient) || l.Gradient == 0 {
+	if !physics.Finite(l.Gradient) || l.Gradient == 0 {
 		return paramErr("Gradient", l.Gradient, "non-zero and finite (m^-4)", "a graded profile needs a slope")
 	}
 	if !(l.Max > 0) {
@@ -144,7 +144,7 @@ func (g Gaussian) Validate() error {
 	if !finitePos(g.Dose) {
 		return paramErr("Dose", g.Dose, "> 0 and finite (m^-2)", "the implanted areal density")
 	}
-	if !finite(g.Range) {
+	if !physics.Finite(g.Range) {
 		return paramErr("Range", g.Range, "finite (m)", "the projected range is a depth")
 	}
 	if !finitePos(g.Straggle) {
@@ -187,7 +187,7 @@ func (e Erfc) Validate() error {
 	if !finitePos(e.Length) {
 		return paramErr("Length", e.Length, "> 0 and finite (m)", "the diffusion length sqrt(D t)")
 	}
-	if !finite(e.Start) {
+	if !physics.Finite(e.Start) {
 		return paramErr("Start", e.Start, "finite (m)", "the diffusion surface")
 	}
 	return nil
@@ -250,7 +250,7 @@ func validateTable(d, c []float64, name string, signed bool) error {
 		return &ParamError{Field: name, Value: fmt.Sprintf("%d points", len(c)), Allowed: fmt.Sprintf("%d points, as many as Depth", len(d)), Why: "one value per depth"}
 	}
 	for i, v := range d {
-		if !finite(v) {
+		if !physics.Finite(v) {
 			return paramErr(fmt.Sprintf("Depth[%d]", i), v, "finite (m)", "a depth")
 		}
 		if i > 0 && !(v > d[i-1]) {
@@ -258,7 +258,7 @@ func validateTable(d, c []float64, name string, signed bool) error {
 		}
 	}
 	for i, v := range c {
-		if !finite(v) || (!signed && v < 0) {
+		if !physics.Finite(v) || (!signed && v < 0) {
 			allowed := ">= 0 and finite (m^-3)"
 			if signed {
 				allowed = "finite (m^-3)"
@@ -319,7 +319,7 @@ func (m Mirrored) Validate() error {
 	if m.Shape == nil {
 		return &ParamError{Field: "Shape", Value: "nil", Allowed: "a Shape", Why: "nothing to mirror"}
 	}
-	if !finite(m.Surface) {
+	if !physics.Finite(m.Surface) {
 		return paramErr("Surface", m.Surface, "finite (m)", "the mirror plane")
 	}
 	if err := m.Shape.Validate(); err != nil {
@@ -382,7 +382,7 @@ func (p Profile) Knots() []float64 {
 	sort.Float64s(k)
 	out := k[:0]
 	for i, v := range k {
-		if !finite(v) {
+		if !physics.Finite(v) {
 			continue
 		}
 		if i == 0 || len(out) == 0 || v != out[len(out)-1] {
@@ -431,7 +431,7 @@ func StepProfile(na, nd, xj float64) Profile {
 func finiteOnly(v ...float64) []float64 {
 	out := make([]float64, 0, len(v))
 	for _, x := range v {
-		if finite(x) {
+		if physics.Finite(x) {
 			out = append(out, x)
 		}
 	}

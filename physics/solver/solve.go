@@ -3,6 +3,7 @@ package solver
 import (
 	"context"
 	"fmt"
+	"junco/physics"
 	"math"
 )
 
@@ -181,7 +182,7 @@ func (tr *tracker) advance(ctx context.Context, targetV float64) error {
 }
 
 func checkBias(v float64, field string) error {
-	if !finite(v) || math.Abs(v) > 1e5 {
+	if !physics.Finite(v) || math.Abs(v) > 1e5 {
 		return paramErr(field, v, "finite, |V| <= 1e5 V", "an applied bias")
 	}
 	return nil

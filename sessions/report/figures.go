@@ -17,6 +17,7 @@ import (
 	"gonum.org/v1/plot/vg/vgsvg"
 
 	"junco/model"
+	"junco/physics"
 	"junco/sessions"
 )
 
@@ -295,7 +296,7 @@ func displayUnit(a model.Axis, maxAbs float64) (string, float64) {
 		model.Time:        {"ps", "ns", "us", "ms", "s"},
 		model.Length:      {"nm", "um", "mm", "m"},
 	}
-	if units, ok := prefixed[a.Kind]; ok && maxAbs > 0 && isFinite(maxAbs) {
+	if units, ok := prefixed[a.Kind]; ok && maxAbs > 0 && physics.Finite(maxAbs) {
 		best, bestF := "", 0.0
 		for _, u := range units {
 			one, err := model.ParseValue(a.Kind, "1"+u)
@@ -316,7 +317,7 @@ func displayUnit(a model.Axis, maxAbs float64) (string, float64) {
 func xExtent(c model.Curve) (lo, hi float64, ok bool) {
 	lo, hi = math.Inf(1), math.Inf(-1)
 	for _, x := range c.Xs {
-		if isFinite(x) {
+		if physics.Finite(x) {
 			lo, hi = min(lo, x), max(hi, x)
 		}
 	}
@@ -405,7 +406,7 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 			if f.LogY {
 				y = math.Abs(y)
 			}
-			if !isFinite(x) || !isFinite(y) || (f.LogY && y <= 0) {
+			if !physics.Finite(x) || !physics.Finite(y) || (f.LogY && y <= 0) {
 				flush()
 				continue
 			}
@@ -500,7 +501,7 @@ func addDots(p *plot.Plot, f Figure, si int, col color.RGBA) {
 		if f.LogY {
 			y = math.Abs(y)
 		}
-		if isFinite(x) && isFinite(y) && (!f.LogY || y > 0) {
+		if physics.Finite(x) && physics.Finite(y) && (!f.LogY || y > 0) {
 			pts = append(pts, plotter.XY{X: x * xf, Y: y * yf})
 		}
 	}
@@ -622,7 +623,7 @@ func TextChart(f Figure, width, height int) string {
 				break
 			}
 			y := s.Y[i]
-			if !isFinite(x) || !isFinite(y) || (f.LogY && y == 0) {
+			if !physics.Finite(x) || !physics.Finite(y) || (f.LogY && y == 0) {
 				prevOK = false
 				continue
 			}
@@ -699,5 +700,3 @@ func asciiOnly(s string) string {
 		return r
 	}, s)
 }
-
-func isFinite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }

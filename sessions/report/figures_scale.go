@@ -10,6 +10,7 @@ import (
 	"gonum.org/v1/plot/vg/vgsvg"
 
 	"junco/model"
+	"junco/physics"
 )
 
 // What sets a figure's scale, its colours and its legend's room.
@@ -40,7 +41,7 @@ func yExtent(f Figure) (lo, hi float64, ok bool) {
 					continue
 				}
 			}
-			if isFinite(y) {
+			if physics.Finite(y) {
 				lo, hi = min(lo, y), max(hi, y)
 			}
 		}

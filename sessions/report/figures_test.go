@@ -2,6 +2,7 @@ package report
 
 import (
 	"fmt"
+	"junco/physics"
 	"math"
 	"strconv"
 	"strings"
@@ -30,7 +31,7 @@ func seriesMax(t *testing.T, f Figure, label string) float64 {
 		if s.Label == label {
 			m := math.Inf(-1)
 			for _, y := range s.Y {
-				if isFinite(y) {
+				if physics.Finite(y) {
 					m = math.Max(m, y)
 				}
 			}

@@ -11,6 +11,7 @@ import (
 	"junco/model"
 	"junco/model/fit"
 	"junco/model/measure"
+	"junco/physics"
 )
 
 // fitCardParam is one card parameter in JSON: SI value (eV for EG, degC
@@ -279,7 +280,7 @@ func fitCardBuild(r *fit.CardResult) *fitCardReport {
 	g := r.Ranges
 	rep.Ranges = fitCardRanges{ForwardV: g.ForwardV[:], ForwardA: g.ForwardA[:], TemperatureK: g.TemperatureK[:],
 		ReverseV: g.ReverseV, BreakdownV: fitNum(g.BreakdownV)}
-	if fit.Finite(g.CVBiasV[0]) {
+	if physics.Finite(g.CVBiasV[0]) {
 		rep.Ranges.CVBiasV = g.CVBiasV[:]
 	}
 	return rep
