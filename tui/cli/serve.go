@@ -26,6 +26,7 @@ type serveOptions struct {
 	listen, hostKey, authKeys, data string
 	idle                            time.Duration
 	maxConn                         int
+	maxConnPerUser                  int
 	uploadMiB, inboxMiB             int64
 }
 
@@ -69,6 +70,7 @@ func addServeFlags(fs *pflag.FlagSet, o *serveOptions) {
 	fs.StringVar(&o.authKeys, "authorized-keys", "", "OpenSSH authorized-keys `FILE`; each key's comment is its user (default DATA/authorized_keys)")
 	fs.DurationVar(&o.idle, "idle", 30*time.Minute, "close connections idle this long (0: never)")
 	fs.IntVar(&o.maxConn, "max-conn", 32, "most concurrent sessions (workbench, command or file transfer); open SSH connections are capped at twice this")
+	fs.IntVar(&o.maxConnPerUser, "max-conn-per-user", 0, "most concurrent sessions one user may hold (1 to --max-conn; default a quarter of --max-conn, at least 2)")
 	fs.Int64Var(&o.uploadMiB, "upload-max-mib", sessions.DefaultInboxFileBytes>>20, "largest file a user may upload to the inbox, in MiB (1 to 65536)")
 	fs.Int64Var(&o.inboxMiB, "inbox-max-mib", sessions.DefaultInboxUserBytes>>20, "most a user's inbox may hold in all, in MiB (1 to 1048576, at least --upload-max-mib)")
 }
@@ -77,6 +79,10 @@ func addServeFlags(fs *pflag.FlagSet, o *serveOptions) {
 func runServeOptions(ctx context.Context, o serveOptions, stdout, stderr io.Writer) int {
 	if o.maxConn < 1 || o.maxConn > 10000 {
 		fmt.Fprintf(stderr, "junco serve: --max-conn %d: allowed 1 to 10000\n", o.maxConn)
+		return exitUsage
+	}
+	if o.maxConnPerUser < 0 || o.maxConnPerUser > o.maxConn {
+		fmt.Fprintf(stderr, "junco serve: --max-conn-per-user %d: allowed 1 to --max-conn (%d), so that one user cannot hold every slot\n", o.maxConnPerUser, o.maxConn)
 		return exitUsage
 	}
 	if o.uploadMiB < 1 || o.uploadMiB > 1<<16 || o.inboxMiB < 1 || o.inboxMiB > 1<<20 || o.inboxMiB < o.uploadMiB {
@@ -111,7 +117,7 @@ func runServeOptions(ctx context.Context, o serveOptions, stdout, stderr io.Writ
 		FileFlag: "--upload-max-mib", UserFlag: "--inbox-max-mib"}
 	srv, err := serve.New(serve.Config{
 		Listen: o.listen, HostKeyPath: o.hostKey, AuthorizedKeysPath: o.authKeys,
-		IdleTimeout: o.idle, MaxConnections: o.maxConn, Logger: logger, App: app,
+		IdleTimeout: o.idle, MaxConnections: o.maxConn, MaxPerUser: o.maxConnPerUser, Logger: logger, App: app,
 		ShutdownMsg: shutdownMsg(), Inbox: app.inbox,
 	})
 	if err != nil {

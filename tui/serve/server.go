@@ -73,6 +73,10 @@ type Config struct {
 	// one without a session is closed after the idle timeout (at most a
 	// minute; see connlimit.go).
 	MaxConnections int
+	// MaxPerUser caps the sessions one user holds at once, so that one
+	// user cannot take every MaxConnections slot (0 = a quarter of
+	// MaxConnections, at least 2, at most MaxConnections).
+	MaxPerUser int
 	// ShutdownMsg, if set, is sent to every running program at shutdown
 	// so that it can write its recovery draft before it is stopped.
 	ShutdownMsg tea.Msg
@@ -100,6 +104,8 @@ type Server struct {
 
 	mu     sync.Mutex
 	active int
+	// perUser counts the sessions open by each user (limitMiddleware).
+	perUser map[string]int
 	// openConns counts the connections open (connlimit.go).
 	openConns int
 	programs  map[*tea.Program]program
@@ -127,6 +133,7 @@ func New(cfg Config) (*Server, error) {
 	if cfg.MaxConnections <= 0 {
 		cfg.MaxConnections = 32
 	}
+	cfg.MaxPerUser = perUserShare(cfg.MaxPerUser, cfg.MaxConnections)
 	if cfg.Grace <= 0 {
 		cfg.Grace = 5 * time.Second
 	}
@@ -141,7 +148,7 @@ func New(cfg Config) (*Server, error) {
 		lg = slog.New(slog.NewTextHandler(io.Discard, nil))
 	}
 	s := &Server{cfg: cfg, log: lg, programs: map[*tea.Program]program{}, conns: map[ssh.Context]*liveConn{},
-		failures: map[string]int{}, stop: make(chan struct{})}
+		perUser: map[string]int{}, failures: map[string]int{}, stop: make(chan struct{})}
 	signer, created, err := loadOrCreateHostKey(cfg.HostKeyPath)
 	if err != nil {
 		return nil, err
@@ -346,28 +353,47 @@ func (s *Server) authMiddleware(next ssh.Handler) ssh.Handler {
 
 func (s *Server) limitMiddleware(next ssh.Handler) ssh.Handler {
 	return func(sess ssh.Session) {
+		user := sess.User()
 		s.mu.Lock()
-		if s.closing || s.active >= s.cfg.MaxConnections {
-			closing := s.closing
+		closing, full, mine := s.closing, s.active >= s.cfg.MaxConnections, s.perUser[user] >= s.cfg.MaxPerUser
+		if closing || full || mine {
 			s.mu.Unlock()
-			if closing {
+			switch {
+			case closing:
 				wish.Fatalln(sess, "junco: the server is shutting down")
-			} else {
-				s.log.Warn("connection refused: at the connection cap", "user", sess.User(), "remote", remoteHost(sess.RemoteAddr()), "max_conn", s.cfg.MaxConnections)
+			case full:
+				s.log.Warn("connection refused: at the connection cap", "user", user, "remote", remoteHost(sess.RemoteAddr()), "max_conn", s.cfg.MaxConnections)
 				wish.Fatalln(sess, fmt.Sprintf("junco: the server is at its limit of %d connections; try again later", s.cfg.MaxConnections))
+			default:
+				s.log.Warn("connection refused: at the user's share of the connection cap", "user", user, "remote", remoteHost(sess.RemoteAddr()), "max_conn_per_user", s.cfg.MaxPerUser)
+				wish.Fatalln(sess, fmt.Sprintf("junco: you have %d sessions open, the most one user may hold on this server (--max-conn-per-user); close one and try again", s.cfg.MaxPerUser))
 			}
 			return
 		}
 		s.active++
+		s.perUser[user]++
 		s.mu.Unlock()
 		defer func() {
 			s.mu.Lock()
 			s.active--
+			if s.perUser[user]--; s.perUser[user] <= 0 {
+				delete(s.perUser, user)
+			}
 			s.mu.Unlock()
 		}()
-		s.log.Info("connection", "user", sess.User(), "remote", remoteHost(sess.RemoteAddr()), "command", sess.RawCommand())
+		s.log.Info("connection", "user", user, "remote", remoteHost(sess.RemoteAddr()), "command", sess.RawCommand())
 		next(sess)
 	}
+}
+
+// perUserShare is the number of sessions one user may hold: n when it is
+// between 1 and maxConn, else a quarter of maxConn, at least 2 and at most
+// maxConn.
+func perUserShare(n, maxConn int) int {
+	if n >= 1 && n <= maxConn {
+		return n
+	}
+	return min(max(maxConn/4, 2), maxConn)
 }
 
 // AllowedCommand reports whether args is one of the read-only session

@@ -1,0 +1,45 @@
+package serve
+
+import (
+	"bytes"
+	"strings"
+	"testing"
+)
+
+// One user cannot take every session slot: with --max-conn 4 and a share
+// of 2, ada's third session is refused with a message naming the option
+// and a log record, while bob still gets in. Before, one user's sessions
+// could fill the whole cap and lock every colleague out.
+func TestOneUserCannotHoldEverySlot(t *testing.T) {
+	ada, bob := newUserKey(t, "ada"), newUserKey(t, "bob")
+	f := startServerWith(t, t.TempDir(), func(c *Config) { c.MaxConnections, c.MaxPerUser = 4, 2 }, ada.line, bob.line)
+	for i := 0; i < 2; i++ {
+		s := openInteractive(t, f.addr, "ada", ada)
+		waitFor(t, s.out, "WORKBENCH user=ada")
+	}
+	s := openSession(t, login(t, f.addr, "ada", ada))
+	var errb bytes.Buffer
+	s.Stderr = &errb
+	if err := s.Run("sessions list"); err == nil {
+		t.Error("ada's third session ran with a share of 2")
+	}
+	if !strings.Contains(errb.String(), "--max-conn-per-user") {
+		t.Errorf("refusal message %q does not name the option", errb.String())
+	}
+	if !strings.Contains(f.logs.String(), "share of the connection cap") {
+		t.Errorf("refusal not logged:\n%s", f.logs.String())
+	}
+	b := openInteractive(t, f.addr, "bob", bob)
+	waitFor(t, b.out, "WORKBENCH user=bob")
+}
+
+// The default share: a quarter of the cap, at least 2, never above it.
+func TestPerUserShareDefault(t *testing.T) {
+	for _, c := range []struct{ n, max, want int }{
+		{0, 32, 8}, {0, 4, 2}, {0, 1, 1}, {0, 3, 2}, {5, 32, 5}, {40, 32, 8}, {-1, 32, 8},
+	} {
+		if got := perUserShare(c.n, c.max); got != c.want {
+			t.Errorf("perUserShare(%d, %d) = %d, want %d", c.n, c.max, got, c.want)
+		}
+	}
+}
