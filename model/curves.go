@@ -70,6 +70,20 @@ func prepare(s Spec) (*physics.Static, error) {
 	return d.Prepare()
 }
 
+// prepareSweep resolves the junction and the biases of a sweep over r;
+// field names the sweep in a validation error.
+func prepareSweep(s Spec, r Range, field string) (*physics.Static, []float64, error) {
+	st, err := prepare(s)
+	if err != nil {
+		return nil, nil, err
+	}
+	vs, err := biasPoints(r, field)
+	if err != nil {
+		return nil, nil, err
+	}
+	return st, vs, nil
+}
+
 // IVCurve computes the current against bias over r, in A: the total
 // current with every enabled effect (series 0), the ideal Shockley current
 // (1) and its electron and hole parts (2, 3), then the components with the
@@ -78,11 +92,7 @@ func prepare(s Spec) (*physics.Static, error) {
 // curve carries the power-limit and caution flags when the sweep
 // dissipates more than the Spec's power limit.
 func IVCurve(s Spec, r Range) (Curve, error) {
-	st, err := prepare(s)
-	if err != nil {
-		return Curve{}, err
-	}
-	vs, err := biasPoints(r, FieldNumericSweep)
+	st, vs, err := prepareSweep(s, r, FieldNumericSweep)
 	if err != nil {
 		return Curve{}, err
 	}
@@ -140,11 +150,7 @@ func sweepFlags(s Spec, pmax, vmax float64) []physics.Flag {
 // The context is checked every sweepCancelEvery points; a cancelled sweep
 // returns ctx.Err().
 func IVSweep(ctx context.Context, s Spec, r Range) ([]physics.Point, []physics.Flag, error) {
-	st, err := prepare(s)
-	if err != nil {
-		return nil, nil, err
-	}
-	vs, err := biasPoints(r, FieldNumericSweep)
+	st, vs, err := prepareSweep(s, r, FieldNumericSweep)
 	if err != nil {
 		return nil, nil, err
 	}
@@ -208,11 +214,7 @@ func csvNumber(v float64) string {
 // ConductanceCurve returns the small-signal conductance G(V) = dI/dV (S)
 // at the terminals over r, with every enabled effect (log axis).
 func ConductanceCurve(s Spec, r Range) (Curve, error) {
-	st, err := prepare(s)
-	if err != nil {
-		return Curve{}, err
-	}
-	vs, err := biasPoints(r, FieldNumericSweep)
+	st, vs, err := prepareSweep(s, r, FieldNumericSweep)
 	if err != nil {
 		return Curve{}, err
 	}
@@ -230,11 +232,7 @@ func ConductanceCurve(s Spec, r Range) (Curve, error) {
 // their total (2; the depletion part held at Vbi - 2kT/q beyond), in F,
 // and the Mott-Schottky curve 1/Cj^2 (F^-2) of the depletion part.
 func CVCurve(s Spec, r Range) (Curve, Curve, error) {
-	st, err := prepare(s)
-	if err != nil {
-		return Curve{}, Curve{}, err
-	}
-	vs, err := biasPoints(r, FieldNumericCV)
+	st, vs, err := prepareSweep(s, r, FieldNumericCV)
 	if err != nil {
 		return Curve{}, Curve{}, err
 	}

@@ -305,14 +305,13 @@ const NumericIVCSVHeader = "bias_V,current_A,current_density_A_per_m2,analytic_c
 // SI headers, one row per finished point; relative_difference is
 // (numeric - analytic)/|analytic|.
 func WriteNumericIVCSV(w io.Writer, r *NumericIVResult) error {
-	var b bytes.Buffer
-	b.WriteString(NumericIVCSVHeader + "\n")
-	for _, p := range r.Points {
-		writeCSVRow(&b, []float64{p.Bias, p.Current, p.CurrentDensity, p.AnalyticCurrent, relDiff(p.Current, p.AnalyticCurrent),
-			p.Barrier, p.DepletionWidth, p.PeakField, float64(p.Iterations), p.CurrentSpread})
-	}
-	_, err := w.Write(b.Bytes())
-	return err
+	return writeCSVTable(w, NumericIVCSVHeader, rowsOf(r.Points))
+}
+
+// row is the point's row in the columns of NumericIVCSVHeader.
+func (p NumericIVPoint) row() []float64 {
+	return []float64{p.Bias, p.Current, p.CurrentDensity, p.AnalyticCurrent, relDiff(p.Current, p.AnalyticCurrent),
+		p.Barrier, p.DepletionWidth, p.PeakField, float64(p.Iterations), p.CurrentSpread}
 }
 
 // NumericCVCSVHeader is the header of WriteNumericCVCSV.
@@ -321,11 +320,31 @@ const NumericCVCSVHeader = "bias_V,capacitance_F,capacitance_per_area_F_per_m2,a
 // WriteNumericCVCSV writes a numeric C-V sweep as CSV with unit-labelled
 // SI headers, one row per finished point.
 func WriteNumericCVCSV(w io.Writer, r *NumericCVResult) error {
+	return writeCSVTable(w, NumericCVCSVHeader, rowsOf(r.Points))
+}
+
+// row is the point's row in the columns of NumericCVCSVHeader.
+func (p NumericCVPoint) row() []float64 {
+	return []float64{p.Bias, p.Capacitance, p.CapacitancePerArea, p.AnalyticCapacitance, relDiff(p.Capacitance, p.AnalyticCapacitance),
+		p.DepletionWidth, p.AnalyticDepletionWidth, p.Charge, p.Current}
+}
+
+// rowsOf returns the rows of a sweep's points.
+func rowsOf[P interface{ row() []float64 }](points []P) [][]float64 {
+	rows := make([][]float64, len(points))
+	for i, p := range points {
+		rows[i] = p.row()
+	}
+	return rows
+}
+
+// writeCSVTable writes a header line and the rows as CSV (NaN as empty
+// fields).
+func writeCSVTable(w io.Writer, header string, rows [][]float64) error {
 	var b bytes.Buffer
-	b.WriteString(NumericCVCSVHeader + "\n")
-	for _, p := range r.Points {
-		writeCSVRow(&b, []float64{p.Bias, p.Capacitance, p.CapacitancePerArea, p.AnalyticCapacitance, relDiff(p.Capacitance, p.AnalyticCapacitance),
-			p.DepletionWidth, p.AnalyticDepletionWidth, p.Charge, p.Current})
+	b.WriteString(header + "\n")
+	for _, row := range rows {
+		writeCSVRow(&b, row)
 	}
 	_, err := w.Write(b.Bytes())
 	return err
@@ -337,24 +356,14 @@ func WriteNumericCVCSV(w io.Writer, r *NumericCVResult) error {
 // barrier_V, depletion_width_m, peak_field_V_per_m, newton_iterations,
 // current_conservation_error) and "flags".
 func (r *NumericIVResult) JSON() []byte {
-	rows := make([][]float64, len(r.Points))
-	for i, p := range r.Points {
-		rows[i] = []float64{p.Bias, p.Current, p.CurrentDensity, p.AnalyticCurrent, relDiff(p.Current, p.AnalyticCurrent),
-			p.Barrier, p.DepletionWidth, p.PeakField, float64(p.Iterations), p.CurrentSpread}
-	}
-	return sweepJSON(r.Nodes, r.BuiltInPotential, r.Requested, "", strings.Split(NumericIVCSVHeader, ","), rows, r.Flags)
+	return sweepJSON(r.Nodes, r.BuiltInPotential, r.Requested, "", strings.Split(NumericIVCSVHeader, ","), rowsOf(r.Points), r.Flags)
 }
 
 // JSON encodes a numeric C-V sweep like NumericIVResult.JSON, with the
 // columns of WriteNumericCVCSV and "cv_mode" (CVLowFrequency or
 // CVHighFrequency).
 func (r *NumericCVResult) JSON() []byte {
-	rows := make([][]float64, len(r.Points))
-	for i, p := range r.Points {
-		rows[i] = []float64{p.Bias, p.Capacitance, p.CapacitancePerArea, p.AnalyticCapacitance, relDiff(p.Capacitance, p.AnalyticCapacitance),
-			p.DepletionWidth, p.AnalyticDepletionWidth, p.Charge, p.Current}
-	}
-	return sweepJSON(r.Nodes, r.BuiltInPotential, r.Requested, r.Mode, strings.Split(NumericCVCSVHeader, ","), rows, r.Flags)
+	return sweepJSON(r.Nodes, r.BuiltInPotential, r.Requested, r.Mode, strings.Split(NumericCVCSVHeader, ","), rowsOf(r.Points), r.Flags)
 }
 
 // sweepJSON writes a sweep; mode, when not empty, is written as
