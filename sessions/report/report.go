@@ -245,7 +245,9 @@ func Report(doc *sessions.Document, o ExportOptions) ([]File, error) {
 
 	p("\n## Figures\n\n")
 	var files []File
-	for _, fg := range figs {
+	// figure writes a figure's heading, its SVG file and link when
+	// figures are asked for, and its text chart.
+	figure := func(fg Figure) {
 		p("### %s\n\n", md(fg.Curve.Title))
 		if o.Figures {
 			svg, err := FigureSVG(fg)
@@ -259,25 +261,16 @@ func Report(doc *sessions.Document, o ExportOptions) ([]File, error) {
 		}
 		p("```text\n%s```\n\n", TextChart(fg, 64, 16))
 	}
+	for _, fg := range figs {
+		figure(fg)
+	}
 	for _, s := range skipped {
 		p("Not drawn: %s.\n\n", md(s))
 	}
 	if ffs := FitFigures(doc); len(ffs) > 0 {
 		p("\n## Fits against their data\n\nEach kept fit: the measured points (dots), the fitted model and the prediction of this session's junction at the data set's temperature.\n\n")
 		for _, ff := range ffs {
-			fg := ff.Figure
-			p("### %s\n\n", md(fg.Curve.Title))
-			if o.Figures {
-				svg, err := FigureSVG(fg)
-				if err != nil {
-					p("SVG figure not drawn: %s.\n\n", md(err.Error()))
-				} else {
-					name := o.prefix() + "-" + fg.Curve.ID + ".svg"
-					files = append(files, File{Name: name, Data: svg})
-					p("![%s](%s)\n\n", md(fg.Curve.Title), name)
-				}
-			}
-			p("```text\n%s```\n\n", TextChart(fg, 64, 16))
+			figure(ff.Figure)
 			for _, n := range ff.Notes {
 				p("- %s\n", md(n))
 			}
