@@ -111,13 +111,10 @@ func (tr *tracker) illuminate(ctx context.Context) error {
 		next := math.Min(1, tr.cur.lit+step)
 		g := tr.cur.clone()
 		g.lit = next
-		s.gummel(g, tr.w)
-		it, upd, res, err := s.newton(g, tr.w)
-		tr.totalIters += it
+		// a different light level: no extrapolation in bias through the
+		// previous state
+		it, upd, res, err := tr.try(g, nil)
 		if err == nil {
-			tr.cur = g
-			tr.prev = nil // a different light level: no extrapolation in bias through it
-			tr.iters, tr.upd, tr.res = it, upd, res
 			if it <= 6 {
 				step *= 2
 			}

@@ -132,6 +132,21 @@ func (tr *tracker) maxStep(v, target float64) float64 {
 	return m
 }
 
+// try solves from the guess g (Gummel, then Newton) and counts the
+// iterations. On convergence g becomes the current state and prev the
+// previous one (nil: none to extrapolate through). It returns Newton's
+// iteration count, last update and residual, and its error.
+func (tr *tracker) try(g, prev *state) (it int, upd, res float64, err error) {
+	tr.s.gummel(g, tr.w)
+	it, upd, res, err = tr.s.newton(g, tr.w)
+	tr.totalIters += it
+	if err == nil {
+		tr.prev, tr.cur = prev, g
+		tr.iters, tr.upd, tr.res = it, upd, res
+	}
+	return it, upd, res, err
+}
+
 // advance moves the tracker to bias target (V) by continuation with step
 // halving on failure.
 func (tr *tracker) advance(ctx context.Context, targetV float64) error {
@@ -158,12 +173,8 @@ func (tr *tracker) advance(ctx context.Context, targetV float64) error {
 		}
 		next := tr.cur.v + step
 		g := tr.predict(next)
-		s.gummel(g, tr.w)
-		it, upd, res, err := s.newton(g, tr.w)
-		tr.totalIters += it
+		it, upd, res, err := tr.try(g, tr.cur)
 		if err == nil {
-			tr.prev, tr.cur = tr.cur, g
-			tr.iters, tr.upd, tr.res = it, upd, res
 			if it <= 6 {
 				step *= 2
 			}
