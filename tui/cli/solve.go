@@ -610,75 +610,87 @@ func (o *solveOptions) sweepEnd(stderr io.Writer, err error, done, total int) in
 	return code
 }
 
-// runIV runs --sweep.
-func (o *solveOptions) runIV(ctx context.Context, stdout, stderr io.Writer) int {
-	rng, err := parseRange("sweep", o.calc.sweep, model.Voltage, model.MaxNumericSweepPoints)
+// solveSweep is what the numeric sweeps (--sweep, --cv) differ in: the
+// flag and its progress label, the --csv name that selects CSV, the model
+// function that runs it and how its result is written.
+type solveSweep[R any] struct {
+	flag, label, csv string
+	run              func(context.Context, model.Spec, model.NumericSpec, model.Range, model.NumericProgressFunc) (*R, error)
+	json             func(*R) []byte
+	writeCSV         func(io.Writer, *R) error
+	table            func(io.Writer, *R, func(model.Kind, float64) string)
+	// flags and counts give the result's flags, its finished points and
+	// the points asked for.
+	flags  func(*R) []physics.Flag
+	counts func(*R) (done, requested int)
+}
+
+// runNumericSweep runs a numeric sweep over the range value and writes it as
+// JSON, CSV or a table; the flags go to stderr.
+func runNumericSweep[R any](o *solveOptions, ctx context.Context, stdout, stderr io.Writer, value string, sw solveSweep[R]) int {
+	rng, err := parseRange(sw.flag, value, model.Voltage, model.MaxNumericSweepPoints)
 	if err != nil {
 		fmt.Fprintln(stderr, "junco solve:", err)
 		return exitUsage
 	}
-	pp := newProgressPrinter(stderr, "I-V")
-	res, err := model.NumericIV(ctx, o.calc.spec, o.num, rng, pp.update)
+	pp := newProgressPrinter(stderr, sw.label)
+	res, err := sw.run(ctx, o.calc.spec, o.num, rng, pp.update)
 	pp.finish()
 	if res == nil {
 		return o.fail(stderr, err)
 	}
 	switch {
 	case o.calc.json:
-		stdout.Write(res.JSON())
-	case o.csv == "iv":
-		if werr := model.WriteNumericIVCSV(stdout, res); werr != nil {
+		stdout.Write(sw.json(res))
+	case o.csv == sw.csv:
+		if werr := sw.writeCSV(stdout, res); werr != nil {
 			fmt.Fprintln(stderr, "junco solve:", werr)
 			return exitFailure
 		}
-		printSolveFlags(stderr, res.Flags)
+		printSolveFlags(stderr, sw.flags(res))
 	default:
-		f := func(k model.Kind, v float64) string { return model.Format(k, v, 4, o.calc.ascii) }
-		fmt.Fprintf(stdout, "Drift-diffusion I-V (%d nodes), analytic total current beside it\n", res.Nodes)
-		fmt.Fprintf(stdout, "%10s %14s %14s %11s %12s\n", "V", "I numeric", "I analytic", "difference", "W numeric")
-		for _, p := range res.Points {
-			fmt.Fprintf(stdout, "%10s %14s %14s %11s %12s\n", f(model.Voltage, p.Bias), f(model.Current, p.Current),
-				f(model.Current, p.AnalyticCurrent), percent(p.Current, p.AnalyticCurrent), f(model.Length, p.DepletionWidth))
-		}
-		printSolveFlags(stderr, res.Flags)
+		sw.table(stdout, res, func(k model.Kind, v float64) string { return model.Format(k, v, 4, o.calc.ascii) })
+		printSolveFlags(stderr, sw.flags(res))
 	}
-	return o.sweepEnd(stderr, err, len(res.Points), res.Requested)
+	done, requested := sw.counts(res)
+	return o.sweepEnd(stderr, err, done, requested)
+}
+
+// runIV runs --sweep.
+func (o *solveOptions) runIV(ctx context.Context, stdout, stderr io.Writer) int {
+	return runNumericSweep(o, ctx, stdout, stderr, o.calc.sweep, solveSweep[model.NumericIVResult]{
+		flag: "sweep", label: "I-V", csv: "iv", run: model.NumericIV,
+		json: (*model.NumericIVResult).JSON, writeCSV: model.WriteNumericIVCSV,
+		table: func(w io.Writer, res *model.NumericIVResult, f func(model.Kind, float64) string) {
+			fmt.Fprintf(w, "Drift-diffusion I-V (%d nodes), analytic total current beside it\n", res.Nodes)
+			fmt.Fprintf(w, "%10s %14s %14s %11s %12s\n", "V", "I numeric", "I analytic", "difference", "W numeric")
+			for _, p := range res.Points {
+				fmt.Fprintf(w, "%10s %14s %14s %11s %12s\n", f(model.Voltage, p.Bias), f(model.Current, p.Current),
+					f(model.Current, p.AnalyticCurrent), percent(p.Current, p.AnalyticCurrent), f(model.Length, p.DepletionWidth))
+			}
+		},
+		flags:  func(r *model.NumericIVResult) []physics.Flag { return r.Flags },
+		counts: func(r *model.NumericIVResult) (int, int) { return len(r.Points), r.Requested },
+	})
 }
 
 // runCV runs --cv.
 func (o *solveOptions) runCV(ctx context.Context, stdout, stderr io.Writer) int {
-	rng, err := parseRange("cv", o.cv, model.Voltage, model.MaxNumericSweepPoints)
-	if err != nil {
-		fmt.Fprintln(stderr, "junco solve:", err)
-		return exitUsage
-	}
-	pp := newProgressPrinter(stderr, "C-V")
-	res, err := model.NumericCV(ctx, o.calc.spec, o.num, rng, pp.update)
-	pp.finish()
-	if res == nil {
-		return o.fail(stderr, err)
-	}
-	switch {
-	case o.calc.json:
-		stdout.Write(res.JSON())
-	case o.csv == "cv":
-		if werr := model.WriteNumericCVCSV(stdout, res); werr != nil {
-			fmt.Fprintln(stderr, "junco solve:", werr)
-			return exitFailure
-		}
-		printSolveFlags(stderr, res.Flags)
-	default:
-		f := func(k model.Kind, v float64) string { return model.Format(k, v, 4, o.calc.ascii) }
-		fmt.Fprintf(stdout, "Drift-diffusion C-V, %s (%d nodes), depletion-approximation capacitance beside it\n", res.Mode, res.Nodes)
-		fmt.Fprintf(stdout, "%10s %14s %14s %11s %12s %12s\n", "V", "C numeric", "C analytic", "difference", "W numeric", "W analytic")
-		for _, p := range res.Points {
-			fmt.Fprintf(stdout, "%10s %14s %14s %11s %12s %12s\n", f(model.Voltage, p.Bias), f(model.Capacitance, p.Capacitance),
-				f(model.Capacitance, p.AnalyticCapacitance), percent(p.Capacitance, p.AnalyticCapacitance),
-				f(model.Length, p.DepletionWidth), f(model.Length, p.AnalyticDepletionWidth))
-		}
-		printSolveFlags(stderr, res.Flags)
-	}
-	return o.sweepEnd(stderr, err, len(res.Points), res.Requested)
+	return runNumericSweep(o, ctx, stdout, stderr, o.cv, solveSweep[model.NumericCVResult]{
+		flag: "cv", label: "C-V", csv: "cv", run: model.NumericCV,
+		json: (*model.NumericCVResult).JSON, writeCSV: model.WriteNumericCVCSV,
+		table: func(w io.Writer, res *model.NumericCVResult, f func(model.Kind, float64) string) {
+			fmt.Fprintf(w, "Drift-diffusion C-V, %s (%d nodes), depletion-approximation capacitance beside it\n", res.Mode, res.Nodes)
+			fmt.Fprintf(w, "%10s %14s %14s %11s %12s %12s\n", "V", "C numeric", "C analytic", "difference", "W numeric", "W analytic")
+			for _, p := range res.Points {
+				fmt.Fprintf(w, "%10s %14s %14s %11s %12s %12s\n", f(model.Voltage, p.Bias), f(model.Capacitance, p.Capacitance),
+					f(model.Capacitance, p.AnalyticCapacitance), percent(p.Capacitance, p.AnalyticCapacitance),
+					f(model.Length, p.DepletionWidth), f(model.Length, p.AnalyticDepletionWidth))
+			}
+		},
+		flags:  func(r *model.NumericCVResult) []physics.Flag { return r.Flags },
+		counts: func(r *model.NumericCVResult) (int, int) { return len(r.Points), r.Requested },
+	})
 }
 
 // percent formats (a - b)/|b| in percent, "n/a" when undefined.
