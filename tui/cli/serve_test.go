@@ -3,12 +3,9 @@ package cli
 import (
 	"bytes"
 	"context"
-	"crypto/ed25519"
-	"crypto/rand"
 	"fmt"
 	"io"
 	"log/slog"
-	"net"
 	"os"
 	"path/filepath"
 	"runtime"
@@ -26,37 +23,18 @@ import (
 	"junco/model"
 	"junco/sessions"
 	"junco/tui/serve"
+	"junco/tui/serve/servetest"
 )
 
 type sshUser struct {
-	name   string
-	signer gossh.Signer
-	line   string
+	name string
+	servetest.Key
 }
 
 func newSSHUser(t testing.TB, name string) sshUser {
 	t.Helper()
-	pub, priv, err := ed25519.GenerateKey(rand.Reader)
-	if err != nil {
-		t.Fatal(err)
-	}
-	s, _ := gossh.NewSignerFromKey(priv)
-	sp, _ := gossh.NewPublicKey(pub)
-	return sshUser{name: name, signer: s, line: strings.TrimSpace(string(gossh.MarshalAuthorizedKey(sp))) + " " + name}
+	return sshUser{name: name, Key: servetest.NewKey(t, name)}
 }
-
-type lockedBuffer struct {
-	mu sync.Mutex
-	b  bytes.Buffer
-}
-
-func (l *lockedBuffer) Write(p []byte) (int, error) {
-	l.mu.Lock()
-	defer l.mu.Unlock()
-	return l.b.Write(p)
-}
-func (l *lockedBuffer) String() string { l.mu.Lock(); defer l.mu.Unlock(); return l.b.String() }
-func (l *lockedBuffer) Len() int       { l.mu.Lock(); defer l.mu.Unlock(); return l.b.Len() }
 
 // startJunco runs the real workbench server on loopback with the given users.
 func startJunco(t testing.TB, users ...sshUser) (addr, data string, app *serveApp) {
@@ -64,7 +42,7 @@ func startJunco(t testing.TB, users ...sshUser) (addr, data string, app *serveAp
 	data = t.TempDir()
 	var lines []string
 	for _, u := range users {
-		lines = append(lines, u.line)
+		lines = append(lines, u.Line)
 	}
 	keys := filepath.Join(data, "authorized_keys")
 	if err := os.WriteFile(keys, []byte(strings.Join(lines, "\n")+"\n"), 0o600); err != nil {
@@ -80,30 +58,15 @@ func startJunco(t testing.TB, users ...sshUser) (addr, data string, app *serveAp
 	if err != nil {
 		t.Fatal(err)
 	}
-	l, err := net.Listen("tcp", "127.0.0.1:0")
-	if err != nil {
-		t.Fatal(err)
-	}
-	go func() { _ = srv.Serve(l) }()
-	t.Cleanup(func() { _ = srv.Close() })
-	return l.Addr().String(), data, app
+	return servetest.Serve(t, srv), data, app
 }
 
 func sshRun(t testing.TB, addr string, u sshUser, cmd string) (string, string, error) {
 	t.Helper()
-	c, err := gossh.Dial("tcp", addr, &gossh.ClientConfig{User: u.name, Auth: []gossh.AuthMethod{gossh.PublicKeys(u.signer)},
-		HostKeyCallback: gossh.InsecureIgnoreHostKey(), Timeout: 5 * time.Second})
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer c.Close()
-	s, err := c.NewSession()
-	if err != nil {
-		t.Fatal(err)
-	}
+	s := servetest.Session(t, servetest.Login(t, addr, u.name, u.Key))
 	var out, errb bytes.Buffer
 	s.Stdout, s.Stderr = &out, &errb
-	err = s.Run(cmd)
+	err := s.Run(cmd)
 	return out.String(), errb.String(), err
 }
 
@@ -257,7 +220,7 @@ func TestServeLoad(t *testing.T) {
 // driveClient opens an interactive workbench and sends keys one at a time,
 // timing each from the write to the first output that follows it.
 func driveClient(addr string, u sshUser, keys int) ([]time.Duration, error) {
-	c, err := gossh.Dial("tcp", addr, &gossh.ClientConfig{User: u.name, Auth: []gossh.AuthMethod{gossh.PublicKeys(u.signer)},
+	c, err := gossh.Dial("tcp", addr, &gossh.ClientConfig{User: u.name, Auth: []gossh.AuthMethod{gossh.PublicKeys(u.Signer)},
 		HostKeyCallback: gossh.InsecureIgnoreHostKey(), Timeout: 10 * time.Second})
 	if err != nil {
 		return nil, err
@@ -355,13 +318,7 @@ func TestServeReviewMode(t *testing.T) {
 	if err := app.shares.Set("ada", "d7", nil); err != nil {
 		t.Fatal(err)
 	}
-	c2, err := gossh.Dial("tcp", addr, &gossh.ClientConfig{User: "bob", Auth: []gossh.AuthMethod{gossh.PublicKeys(bob.signer)},
-		HostKeyCallback: gossh.InsecureIgnoreHostKey(), Timeout: 5 * time.Second})
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer c2.Close()
-	s2, _ := c2.NewSession()
+	s2 := servetest.Session(t, servetest.Login(t, addr, "bob", bob.Key))
 	var errb bytes.Buffer
 	s2.Stderr = &errb
 	_ = s2.RequestPty("xterm", 24, 80, gossh.TerminalModes{})
@@ -394,17 +351,8 @@ func TestServeOwnerSharesFromWorkbench(t *testing.T) {
 // waits until the screen shows a text.
 func openWorkbench(t *testing.T, addr string, u sshUser, cmd string) (io.Writer, func(string)) {
 	t.Helper()
-	c, err := gossh.Dial("tcp", addr, &gossh.ClientConfig{User: u.name, Auth: []gossh.AuthMethod{gossh.PublicKeys(u.signer)},
-		HostKeyCallback: gossh.InsecureIgnoreHostKey(), Timeout: 5 * time.Second})
-	if err != nil {
-		t.Fatal(err)
-	}
-	t.Cleanup(func() { c.Close() })
-	s, err := c.NewSession()
-	if err != nil {
-		t.Fatal(err)
-	}
-	out := &lockedBuffer{}
+	s := servetest.Session(t, servetest.Login(t, addr, u.name, u.Key))
+	out := &servetest.Buffer{}
 	s.Stdout = out
 	in, _ := s.StdinPipe()
 	if err := s.RequestPty("xterm-256color", 40, 120, gossh.TerminalModes{}); err != nil {
@@ -433,12 +381,7 @@ func openWorkbench(t *testing.T, addr string, u sshUser, cmd string) (io.Writer,
 func TestServeUploadThenImport(t *testing.T) {
 	ada := newSSHUser(t, "ada")
 	addr, data, app := startJunco(t, ada)
-	c, err := gossh.Dial("tcp", addr, &gossh.ClientConfig{User: "ada", Auth: []gossh.AuthMethod{gossh.PublicKeys(ada.signer)},
-		HostKeyCallback: gossh.InsecureIgnoreHostKey(), Timeout: 5 * time.Second})
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer c.Close()
+	c := servetest.Login(t, addr, "ada", ada.Key)
 	sc, err := sftp.NewClient(c)
 	if err != nil {
 		t.Fatal(err)

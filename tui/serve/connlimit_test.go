@@ -6,6 +6,8 @@ import (
 	"time"
 
 	gossh "golang.org/x/crypto/ssh"
+
+	"junco/tui/serve/servetest"
 )
 
 // A connection that opens no session (`ssh -N`) is closed after --idle
@@ -14,8 +16,8 @@ import (
 // of 4, each an open file and goroutines on the server, none counted by
 // --max-conn.
 func TestSessionlessConnectionClosed(t *testing.T) {
-	ada := newUserKey(t, "ada")
-	f := startServerWith(t, t.TempDir(), func(c *Config) { c.IdleTimeout = 400 * time.Millisecond }, ada.line)
+	ada := servetest.NewKey(t, "ada")
+	f := startServerWith(t, t.TempDir(), func(c *Config) { c.IdleTimeout = 400 * time.Millisecond }, ada.Line)
 	c := login(t, f.addr, "ada", ada)
 	deadline := time.Now().Add(5 * time.Second)
 	for time.Now().Before(deadline) {
@@ -35,8 +37,8 @@ func TestSessionlessConnectionClosed(t *testing.T) {
 // and the log says so. Before, only sessions were counted and connections
 // without one had no limit.
 func TestConnectionsWithoutSessionCapped(t *testing.T) {
-	ada := newUserKey(t, "ada")
-	f := startServerWith(t, t.TempDir(), func(c *Config) { c.MaxConnections = 1 }, ada.line)
+	ada := servetest.NewKey(t, "ada")
+	f := startServerWith(t, t.TempDir(), func(c *Config) { c.MaxConnections = 1 }, ada.Line)
 	var held []*gossh.Client
 	defer func() {
 		for _, c := range held {
@@ -44,7 +46,7 @@ func TestConnectionsWithoutSessionCapped(t *testing.T) {
 		}
 	}()
 	for i := 0; i < 3; i++ {
-		c, err := dial(f.addr, clientConfig("ada", gossh.PublicKeys(ada.signer)))
+		c, err := dial(f.addr, servetest.ClientConfig("ada", gossh.PublicKeys(ada.Signer)))
 		if err != nil {
 			if i < 2 {
 				t.Fatalf("connection %d within the cap refused: %v", i+1, err)
@@ -65,8 +67,8 @@ func TestConnectionsWithoutSessionCapped(t *testing.T) {
 // --max-conn slot. Before, keepalives counted as traffic and such a
 // connection stayed open for good (20 s with --idle 8s, by hand).
 func TestKeepalivesDoNotHoldAnIdleSession(t *testing.T) {
-	ada := newUserKey(t, "ada")
-	f := startServerWith(t, t.TempDir(), func(c *Config) { c.IdleTimeout = 400 * time.Millisecond }, ada.line)
+	ada := servetest.NewKey(t, "ada")
+	f := startServerWith(t, t.TempDir(), func(c *Config) { c.IdleTimeout = 400 * time.Millisecond }, ada.Line)
 	c := login(t, f.addr, "ada", ada)
 	s := openSession(t, c)
 	if err := s.RequestPty("xterm", 40, 100, gossh.TerminalModes{}); err != nil {

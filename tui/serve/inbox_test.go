@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"io"
 	"log/slog"
-	"net"
 	"os"
 	"path/filepath"
 	"slices"
@@ -19,6 +18,7 @@ import (
 	gossh "golang.org/x/crypto/ssh"
 
 	"junco/sessions"
+	"junco/tui/serve/servetest"
 )
 
 // inboxFixture is a server with file transfer into DATA/users/USER/inbox
@@ -27,31 +27,25 @@ import (
 type inboxFixture struct {
 	*fixture
 	data, outside string
-	ada, bob      userKey
+	ada, bob      servetest.Key
 }
 
 func startInboxServer(t *testing.T, lim sessions.InboxLimits) *inboxFixture {
 	t.Helper()
 	data := t.TempDir()
-	f := &inboxFixture{data: data, outside: filepath.Join(data, "outside.txt"), ada: newUserKey(t, "ada"), bob: newUserKey(t, "bob")}
+	f := &inboxFixture{data: data, outside: filepath.Join(data, "outside.txt"), ada: servetest.NewKey(t, "ada"), bob: servetest.NewKey(t, "bob")}
 	if err := os.WriteFile(f.outside, []byte("TOPSECRET\n"), 0o600); err != nil {
 		t.Fatal(err)
 	}
-	fx := &fixture{dir: data, hostKey: filepath.Join(data, "host", "ed25519"), authKeys: filepath.Join(data, "authorized_keys"), logs: &syncBuffer{}}
-	writeKeys(t, fx.authKeys, f.ada.line, f.bob.line)
+	fx := &fixture{dir: data, hostKey: filepath.Join(data, "host", "ed25519"), authKeys: filepath.Join(data, "authorized_keys"), logs: &servetest.Buffer{}}
+	writeKeys(t, fx.authKeys, f.ada.Line, f.bob.Line)
 	srv, err := New(Config{Listen: "127.0.0.1:0", HostKeyPath: fx.hostKey, AuthorizedKeysPath: fx.authKeys,
 		App: testApp{}, Logger: slog.New(slog.NewTextHandler(fx.logs, nil)), Grace: time.Second,
 		Inbox: func(user string) (*sessions.Inbox, error) { return sessions.OpenInbox(data, user, lim) }})
 	if err != nil {
 		t.Fatal(err)
 	}
-	l, err := net.Listen("tcp", "127.0.0.1:0")
-	if err != nil {
-		t.Fatal(err)
-	}
-	fx.srv, fx.addr = srv, l.Addr().String()
-	go func() { _ = srv.Serve(l) }()
-	t.Cleanup(func() { _ = srv.Close() })
+	fx.srv, fx.addr = srv, servetest.Serve(t, srv)
 	f.fixture = fx
 	in, err := sessions.OpenInbox(data, "bob", lim)
 	if err != nil {
@@ -67,9 +61,9 @@ func startInboxServer(t *testing.T, lim sessions.InboxLimits) *inboxFixture {
 }
 
 // sftpClient opens an SFTP session as user over loopback.
-func sftpClient(t *testing.T, addr, user string, k userKey) *sftp.Client {
+func sftpClient(t *testing.T, addr, user string, k servetest.Key) *sftp.Client {
 	t.Helper()
-	c, err := dial(addr, clientConfig(user, gossh.PublicKeys(k.signer)))
+	c, err := dial(addr, servetest.ClientConfig(user, gossh.PublicKeys(k.Signer)))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -228,18 +222,12 @@ func TestSFTPCaps(t *testing.T) {
 
 // scpRun runs a legacy scp protocol command (`scp -t` or `scp -f`) as
 // user and lets talk drive the protocol; it returns the session's stderr.
-func scpRun(t *testing.T, addr, user string, k userKey, cmd string, talk func(in io.Writer, out *bufio.Reader)) string {
+func scpRun(t *testing.T, addr, user string, k servetest.Key, cmd string, talk func(in io.Writer, out *bufio.Reader)) string {
 	t.Helper()
-	c, err := dial(addr, clientConfig(user, gossh.PublicKeys(k.signer)))
-	if err != nil {
-		t.Fatal(err)
-	}
+	c := login(t, addr, user, k)
 	defer c.Close()
-	s, err := c.NewSession()
-	if err != nil {
-		t.Fatal(err)
-	}
-	var stderr syncBuffer
+	s := openSession(t, c)
+	var stderr servetest.Buffer
 	s.Stderr = &stderr
 	in, _ := s.StdinPipe()
 	out, _ := s.StdoutPipe()
@@ -370,8 +358,8 @@ func TestLegacySCPConfinedToInbox(t *testing.T) {
 
 // Without an inbox configured, neither subsystem nor scp serves files.
 func TestNoInboxNoTransfer(t *testing.T) {
-	ada := newUserKey(t, "ada")
-	f := startServer(t, t.TempDir(), ada.line)
+	ada := servetest.NewKey(t, "ada")
+	f := startServer(t, t.TempDir(), ada.Line)
 	c := login(t, f.addr, "ada", ada)
 	if sc, err := sftp.NewClient(c); err == nil {
 		if _, err := sc.ReadDir("/"); err == nil {
@@ -387,17 +375,9 @@ func TestNoInboxNoTransfer(t *testing.T) {
 // with OpenSSH's scp by hand.)
 func TestSFTPReasonsOnStderr(t *testing.T) {
 	f := startInboxServer(t, sessions.InboxLimits{FileBytes: 1 << 20, FileFlag: "--upload-max-mib"})
-	c, err := dial(f.addr, clientConfig("ada", gossh.PublicKeys(f.ada.signer)))
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer c.Close()
-	s, err := c.NewSession()
-	if err != nil {
-		t.Fatal(err)
-	}
+	s := openSession(t, login(t, f.addr, "ada", f.ada))
 	// RequestSubsystem starts no copying: read stderr from its pipe.
-	var stderr syncBuffer
+	var stderr servetest.Buffer
 	errPipe, _ := s.StderrPipe()
 	copied := make(chan struct{})
 	go func() { io.Copy(&stderr, errPipe); close(copied) }()

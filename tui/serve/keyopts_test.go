@@ -5,6 +5,8 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"junco/tui/serve/servetest"
 )
 
 // The pattern semantics follow ssh_config(5), PATTERNS, and sshd(8),
@@ -160,12 +162,12 @@ func TestGlobMatch(t *testing.T) {
 // A refused line is reported with its number and never admits its key;
 // the other lines still work.
 func TestKeysFileRefusesUnknownOptions(t *testing.T) {
-	ada, bob, carol := newUserKey(t, "ada"), newUserKey(t, "bob"), newUserKey(t, "carol")
+	ada, bob, carol := servetest.NewKey(t, "ada"), servetest.NewKey(t, "bob"), servetest.NewKey(t, "carol")
 	data := strings.Join([]string{
 		"# lab keys",
-		ada.line,
-		`permitopen="host:22" ` + bob.line,
-		`from="10.9.9.9",command="/bin/false",no-pty ` + carol.line,
+		ada.Line,
+		`permitopen="host:22" ` + bob.Line,
+		`from="10.9.9.9",command="/bin/false",no-pty ` + carol.Line,
 	}, "\n")
 	keys, problems := parseAuthorizedKeys([]byte(data), time.UTC)
 	if len(keys) != 1 || keys[0].user != "ada" {

@@ -9,11 +9,13 @@ import (
 	"time"
 
 	gossh "golang.org/x/crypto/ssh"
+
+	"junco/tui/serve/servetest"
 )
 
-func canLogin(t *testing.T, f *fixture, user string, k userKey) bool {
+func canLogin(t *testing.T, f *fixture, user string, k servetest.Key) bool {
 	t.Helper()
-	c, err := dial(f.addr, clientConfig(user, gossh.PublicKeys(k.signer)))
+	c, err := dial(f.addr, servetest.ClientConfig(user, gossh.PublicKeys(k.Signer)))
 	if err != nil {
 		return false
 	}
@@ -24,12 +26,12 @@ func canLogin(t *testing.T, f *fixture, user string, k userKey) bool {
 // The case of the issue: from="10.9.9.9",command="/bin/false",no-pty let
 // carol in from 127.0.0.1 with a full workbench.
 func TestFromOption(t *testing.T) {
-	ada, bob, carol, dan := newUserKey(t, "ada"), newUserKey(t, "bob"), newUserKey(t, "carol"), newUserKey(t, "dan")
+	ada, bob, carol, dan := servetest.NewKey(t, "ada"), servetest.NewKey(t, "bob"), servetest.NewKey(t, "carol"), servetest.NewKey(t, "dan")
 	f := startServer(t, t.TempDir(),
-		`from="10.9.9.9",no-pty `+carol.line,
-		`from="127.0.0.0/8" `+ada.line,
-		`from="!127.0.0.1,*" `+bob.line,
-		`from="10.9.9.9",command="/bin/false",no-pty `+dan.line,
+		`from="10.9.9.9",no-pty `+carol.Line,
+		`from="127.0.0.0/8" `+ada.Line,
+		`from="!127.0.0.1,*" `+bob.Line,
+		`from="10.9.9.9",command="/bin/false",no-pty `+dan.Line,
 	)
 	if canLogin(t, f, "carol", carol) {
 		t.Error(`from="10.9.9.9" admitted 127.0.0.1`)
@@ -52,10 +54,10 @@ func TestFromOption(t *testing.T) {
 }
 
 func TestExpiryOption(t *testing.T) {
-	ada, bob := newUserKey(t, "ada"), newUserKey(t, "bob")
+	ada, bob := servetest.NewKey(t, "ada"), servetest.NewKey(t, "bob")
 	past := time.Now().UTC().Add(-time.Hour).Format("200601021504") + "Z"
 	future := time.Now().UTC().Add(24*time.Hour).Format("20060102") + "Z"
-	f := startServer(t, t.TempDir(), `expiry-time="`+past+`" `+ada.line, `expiry-time="`+future+`" `+bob.line)
+	f := startServer(t, t.TempDir(), `expiry-time="`+past+`" `+ada.Line, `expiry-time="`+future+`" `+bob.Line)
 	if canLogin(t, f, "ada", ada) {
 		t.Error("an expired key logged in")
 	}
@@ -68,14 +70,14 @@ func TestExpiryOption(t *testing.T) {
 }
 
 func TestNoPTYOption(t *testing.T) {
-	ada, bob, carol := newUserKey(t, "ada"), newUserKey(t, "bob"), newUserKey(t, "carol")
-	f := startServer(t, t.TempDir(), "no-pty "+ada.line, "restrict "+bob.line, "restrict,pty "+carol.line)
+	ada, bob, carol := servetest.NewKey(t, "ada"), servetest.NewKey(t, "bob"), servetest.NewKey(t, "carol")
+	f := startServer(t, t.TempDir(), "no-pty "+ada.Line, "restrict "+bob.Line, "restrict,pty "+carol.Line)
 	for _, c := range []struct {
 		user  string
-		k     userKey
+		k     servetest.Key
 		allow bool
 	}{{"ada", ada, false}, {"bob", bob, false}, {"carol", carol, true}} {
-		cl, err := dial(f.addr, clientConfig(c.user, gossh.PublicKeys(c.k.signer)))
+		cl, err := dial(f.addr, servetest.ClientConfig(c.user, gossh.PublicKeys(c.k.Signer)))
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -101,9 +103,9 @@ func TestNoPTYOption(t *testing.T) {
 }
 
 func TestForcedCommand(t *testing.T) {
-	ada := newUserKey(t, "ada")
-	f := startServer(t, t.TempDir(), `command="sessions show d7" `+ada.line)
-	cl, err := dial(f.addr, clientConfig("ada", gossh.PublicKeys(ada.signer)))
+	ada := servetest.NewKey(t, "ada")
+	f := startServer(t, t.TempDir(), `command="sessions show d7" `+ada.Line)
+	cl, err := dial(f.addr, servetest.ClientConfig("ada", gossh.PublicKeys(ada.Signer)))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -149,16 +151,16 @@ func TestForcedCommand(t *testing.T) {
 // shutdown message (the workbench writes its recovery draft on it); the
 // other users stay connected.
 func TestRemovedKeyClosesLiveConnection(t *testing.T) {
-	ada, bob := newUserKey(t, "ada"), newUserKey(t, "bob")
+	ada, bob := servetest.NewKey(t, "ada"), servetest.NewKey(t, "bob")
 	app := &probeApp{shutdowns: make(chan string, 4)}
 	f := startServerWith(t, t.TempDir(), func(c *Config) {
 		c.App, c.ShutdownMsg, c.KeysPoll = app, probeShutdown{}, 100*time.Millisecond
-	}, ada.line, bob.line)
+	}, ada.Line, bob.Line)
 	a := openInteractive(t, f.addr, "ada", ada)
 	b := openInteractive(t, f.addr, "bob", bob)
 	waitFor(t, a.out, "PROBE user=ada")
 	waitFor(t, b.out, "PROBE user=bob")
-	writeKeys(t, f.authKeys, ada.line)
+	writeKeys(t, f.authKeys, ada.Line)
 	done := make(chan error, 1)
 	go func() { done <- b.sess.Wait() }()
 	select {
@@ -178,11 +180,11 @@ func TestRemovedKeyClosesLiveConnection(t *testing.T) {
 
 // Adding no-pty to the line of a user with a workbench open ends it too.
 func TestChangedTermsCloseLiveConnection(t *testing.T) {
-	ada := newUserKey(t, "ada")
-	f := startServerWith(t, t.TempDir(), func(c *Config) { c.KeysPoll = -1 }, ada.line)
+	ada := servetest.NewKey(t, "ada")
+	f := startServerWith(t, t.TempDir(), func(c *Config) { c.KeysPoll = -1 }, ada.Line)
 	a := openInteractive(t, f.addr, "ada", ada)
 	waitFor(t, a.out, "WORKBENCH user=ada")
-	writeKeys(t, f.authKeys, "no-pty "+ada.line)
+	writeKeys(t, f.authKeys, "no-pty "+ada.Line)
 	if err := f.srv.Reload(); err != nil {
 		t.Fatal(err)
 	}
@@ -198,8 +200,8 @@ func TestChangedTermsCloseLiveConnection(t *testing.T) {
 // A key file replaced by one of the same size and modification time is
 // still noticed: changes are found by content.
 func TestKeyChangeDetectedByContent(t *testing.T) {
-	bob, eve := newUserKey(t, "bob"), newUserKey(t, "bob")
-	f := startServerWith(t, t.TempDir(), func(c *Config) { c.KeysPoll = -1 }, bob.line)
+	bob, eve := servetest.NewKey(t, "bob"), servetest.NewKey(t, "bob")
+	f := startServerWith(t, t.TempDir(), func(c *Config) { c.KeysPoll = -1 }, bob.Line)
 	st, err := os.Stat(f.authKeys)
 	if err != nil {
 		t.Fatal(err)
@@ -207,10 +209,10 @@ func TestKeyChangeDetectedByContent(t *testing.T) {
 	if !canLogin(t, f, "bob", bob) {
 		t.Fatal("bob refused")
 	}
-	if len(eve.line) != len(bob.line) {
+	if len(eve.Line) != len(bob.Line) {
 		t.Fatal("test keys differ in length")
 	}
-	if err := os.WriteFile(f.authKeys, []byte(eve.line+"\n"), 0o600); err != nil {
+	if err := os.WriteFile(f.authKeys, []byte(eve.Line+"\n"), 0o600); err != nil {
 		t.Fatal(err)
 	}
 	if err := os.Chtimes(f.authKeys, st.ModTime(), st.ModTime()); err != nil {

@@ -13,6 +13,8 @@ import (
 
 	tea "github.com/charmbracelet/bubbletea"
 	gossh "golang.org/x/crypto/ssh"
+
+	"junco/tui/serve/servetest"
 )
 
 // probeApp is an App whose screen can be slow on resizes and can fill the
@@ -91,15 +93,15 @@ func withApp(a App) func(*Config) { return func(c *Config) { c.App = a } }
 // A client announcing a 10000x10000 terminal gets a workbench drawn at
 // MaxColumns x MaxRows, at connect and on every resize.
 func TestHugeTerminalIsClamped(t *testing.T) {
-	ada := newUserKey(t, "ada")
+	ada := servetest.NewKey(t, "ada")
 	app := &probeApp{sizes: make(chan [2]int, 16)}
-	f := startServerWith(t, t.TempDir(), withApp(app), ada.line)
+	f := startServerWith(t, t.TempDir(), withApp(app), ada.Line)
 	c := login(t, f.addr, "ada", ada)
 	s, err := c.NewSession()
 	if err != nil {
 		t.Fatal(err)
 	}
-	out := &syncBuffer{}
+	out := &servetest.Buffer{}
 	s.Stdout = out
 	if err := s.RequestPty("xterm", 10000, 10000, gossh.TerminalModes{}); err != nil {
 		t.Fatal(err)
@@ -133,9 +135,9 @@ func TestHugeTerminalIsClamped(t *testing.T) {
 // then `q`: the key is processed, the connection ends and its slot is free
 // again (the request loop never waits on the program).
 func TestResizeStormThenQuit(t *testing.T) {
-	ada := newUserKey(t, "ada")
+	ada := servetest.NewKey(t, "ada")
 	app := &probeApp{slowResize: 3 * time.Millisecond}
-	f := startServerWith(t, t.TempDir(), func(c *Config) { c.App = app; c.MaxConnections = 1 }, ada.line)
+	f := startServerWith(t, t.TempDir(), func(c *Config) { c.App = app; c.MaxConnections = 1 }, ada.Line)
 	is := openInteractive(t, f.addr, "ada", ada)
 	waitFor(t, is.out, "PROBE user=ada")
 	fmt.Fprint(is.in, "f")
@@ -160,11 +162,11 @@ func TestResizeStormThenQuit(t *testing.T) {
 // A client that stops reading is cut off after the write timeout, with no
 // idle timeout configured, and its slot is freed.
 func TestStalledClientIsClosed(t *testing.T) {
-	ada := newUserKey(t, "ada")
+	ada := servetest.NewKey(t, "ada")
 	app := &probeApp{}
 	f := startServerWith(t, t.TempDir(), func(c *Config) {
 		c.App, c.MaxConnections, c.IdleTimeout, c.WriteTimeout = app, 1, 0, 300*time.Millisecond
-	}, ada.line)
+	}, ada.Line)
 	c := login(t, f.addr, "ada", ada)
 	s, err := c.NewSession()
 	if err != nil {
@@ -237,8 +239,8 @@ func TestIdleWatchdog(t *testing.T) {
 
 // The idle timeout frees a slot held by a connection that sends nothing.
 func TestIdleTimeoutFreesSlot(t *testing.T) {
-	ada := newUserKey(t, "ada")
-	f := startServerWith(t, t.TempDir(), func(c *Config) { c.MaxConnections, c.IdleTimeout = 1, 500*time.Millisecond }, ada.line)
+	ada := servetest.NewKey(t, "ada")
+	f := startServerWith(t, t.TempDir(), func(c *Config) { c.MaxConnections, c.IdleTimeout = 1, 500*time.Millisecond }, ada.Line)
 	first := openInteractive(t, f.addr, "ada", ada)
 	waitFor(t, first.out, "WORKBENCH user=ada")
 	done := make(chan error, 1)
@@ -253,7 +255,7 @@ func TestIdleTimeoutFreesSlot(t *testing.T) {
 
 // reopen opens a workbench until it shows want (the slot of a connection
 // that just ended is freed a moment after the client sees the end).
-func reopen(t *testing.T, f *fixture, user string, k userKey, want string) {
+func reopen(t *testing.T, f *fixture, user string, k servetest.Key, want string) {
 	t.Helper()
 	deadline := time.Now().Add(5 * time.Second)
 	for {
@@ -270,8 +272,8 @@ func reopen(t *testing.T, f *fixture, user string, k userKey, want string) {
 }
 
 func TestAgentForwardingRefused(t *testing.T) {
-	ada := newUserKey(t, "ada")
-	f := startServer(t, t.TempDir(), ada.line)
+	ada := servetest.NewKey(t, "ada")
+	f := startServer(t, t.TempDir(), ada.Line)
 	c := login(t, f.addr, "ada", ada)
 	s := openSession(t, c)
 	for _, req := range []string{"auth-agent-req@openssh.com", "x11-req"} {
@@ -297,8 +299,8 @@ func TestAgentForwardingRefused(t *testing.T) {
 }
 
 func TestConnectionCapRefusalLogged(t *testing.T) {
-	ada := newUserKey(t, "ada")
-	f := startServerWith(t, t.TempDir(), func(c *Config) { c.MaxConnections = 1 }, ada.line)
+	ada := servetest.NewKey(t, "ada")
+	f := startServerWith(t, t.TempDir(), func(c *Config) { c.MaxConnections = 1 }, ada.Line)
 	first := openInteractive(t, f.addr, "ada", ada)
 	waitFor(t, first.out, "WORKBENCH user=ada")
 	c := login(t, f.addr, "ada", ada)

@@ -3,8 +3,6 @@ package serve
 import (
 	"bytes"
 	"context"
-	"crypto/ed25519"
-	"crypto/rand"
 	"fmt"
 	"io"
 	"log/slog"
@@ -12,12 +10,13 @@ import (
 	"os"
 	"path/filepath"
 	"strings"
-	"sync"
 	"testing"
 	"time"
 
 	tea "github.com/charmbracelet/bubbletea"
 	gossh "golang.org/x/crypto/ssh"
+
+	"junco/tui/serve/servetest"
 )
 
 // testApp is a minimal App: a screen naming the user, which panics on the
@@ -58,69 +57,25 @@ func (testApp) Command(ctx context.Context, user string, args []string, stdout, 
 	return 0
 }
 
-type userKey struct {
-	signer gossh.Signer
-	line   string
-}
-
-func newUserKey(t *testing.T, user string) userKey {
-	t.Helper()
-	pub, priv, err := ed25519.GenerateKey(rand.Reader)
-	if err != nil {
-		t.Fatal(err)
-	}
-	s, err := gossh.NewSignerFromKey(priv)
-	if err != nil {
-		t.Fatal(err)
-	}
-	sp, err := gossh.NewPublicKey(pub)
-	if err != nil {
-		t.Fatal(err)
-	}
-	return userKey{signer: s, line: strings.TrimSpace(string(gossh.MarshalAuthorizedKey(sp))) + " " + user}
-}
-
 // login opens an SSH connection as user with key k, closed at the end of
 // the test.
-func login(t *testing.T, addr, user string, k userKey) *gossh.Client {
+func login(t *testing.T, addr, user string, k servetest.Key) *gossh.Client {
 	t.Helper()
-	c, err := dial(addr, clientConfig(user, gossh.PublicKeys(k.signer)))
-	if err != nil {
-		t.Fatalf("dial as %s: %v", user, err)
-	}
-	t.Cleanup(func() { c.Close() })
-	return c
+	return servetest.Login(t, addr, user, k)
 }
 
 // openSession opens a session on c, closed at the end of the test.
 func openSession(t *testing.T, c *gossh.Client) *gossh.Session {
 	t.Helper()
-	s, err := c.NewSession()
-	if err != nil {
-		t.Fatal(err)
-	}
-	t.Cleanup(func() { s.Close() })
-	return s
+	return servetest.Session(t, c)
 }
 
 type fixture struct {
 	dir, hostKey, authKeys string
 	srv                    *Server
 	addr                   string
-	logs                   *syncBuffer
+	logs                   *servetest.Buffer
 }
-
-type syncBuffer struct {
-	mu sync.Mutex
-	b  bytes.Buffer
-}
-
-func (s *syncBuffer) Write(p []byte) (int, error) {
-	s.mu.Lock()
-	defer s.mu.Unlock()
-	return s.b.Write(p)
-}
-func (s *syncBuffer) String() string { s.mu.Lock(); defer s.mu.Unlock(); return s.b.String() }
 
 func startServer(t *testing.T, dir string, lines ...string) *fixture {
 	t.Helper()
@@ -130,7 +85,7 @@ func startServer(t *testing.T, dir string, lines ...string) *fixture {
 // startServerWith is startServer with a hook to change the configuration.
 func startServerWith(t *testing.T, dir string, configure func(*Config), lines ...string) *fixture {
 	t.Helper()
-	f := &fixture{dir: dir, hostKey: filepath.Join(dir, "host", "ed25519"), authKeys: filepath.Join(dir, "authorized_keys"), logs: &syncBuffer{}}
+	f := &fixture{dir: dir, hostKey: filepath.Join(dir, "host", "ed25519"), authKeys: filepath.Join(dir, "authorized_keys"), logs: &servetest.Buffer{}}
 	if _, err := os.Stat(f.authKeys); os.IsNotExist(err) {
 		writeKeys(t, f.authKeys, lines...)
 	}
@@ -143,13 +98,7 @@ func startServerWith(t *testing.T, dir string, configure func(*Config), lines ..
 	if err != nil {
 		t.Fatal(err)
 	}
-	l, err := net.Listen("tcp", "127.0.0.1:0")
-	if err != nil {
-		t.Fatal(err)
-	}
-	f.srv, f.addr = srv, l.Addr().String()
-	go func() { _ = srv.Serve(l) }()
-	t.Cleanup(func() { _ = srv.Close() })
+	f.srv, f.addr = srv, servetest.Serve(t, srv)
 	return f
 }
 
@@ -167,10 +116,6 @@ func writeKeys(t *testing.T, path string, lines ...string) {
 	}
 }
 
-func clientConfig(user string, auth ...gossh.AuthMethod) *gossh.ClientConfig {
-	return &gossh.ClientConfig{User: user, Auth: auth, HostKeyCallback: gossh.InsecureIgnoreHostKey(), Timeout: 5 * time.Second}
-}
-
 func dial(addr string, cfg *gossh.ClientConfig) (*gossh.Client, error) {
 	return gossh.Dial("tcp", addr, cfg)
 }
@@ -180,13 +125,13 @@ func dial(addr string, cfg *gossh.ClientConfig) (*gossh.Client, error) {
 type interactiveSession struct {
 	sess  *gossh.Session
 	in    io.WriteCloser
-	out   *syncBuffer
+	out   *servetest.Buffer
 	close func()
 }
 
-func openInteractive(t *testing.T, addr, user string, k userKey) *interactiveSession {
+func openInteractive(t *testing.T, addr, user string, k servetest.Key) *interactiveSession {
 	t.Helper()
-	c, err := dial(addr, clientConfig(user, gossh.PublicKeys(k.signer)))
+	c, err := dial(addr, servetest.ClientConfig(user, gossh.PublicKeys(k.Signer)))
 	if err != nil {
 		t.Fatalf("dial as %s: %v", user, err)
 	}
@@ -194,7 +139,7 @@ func openInteractive(t *testing.T, addr, user string, k userKey) *interactiveSes
 	if err != nil {
 		t.Fatal(err)
 	}
-	out := &syncBuffer{}
+	out := &servetest.Buffer{}
 	s.Stdout = out
 	in, err := s.StdinPipe()
 	if err != nil {
@@ -211,21 +156,14 @@ func openInteractive(t *testing.T, addr, user string, k userKey) *interactiveSes
 	return is
 }
 
-func waitFor(t *testing.T, b *syncBuffer, want string) {
+func waitFor(t *testing.T, b *servetest.Buffer, want string) {
 	t.Helper()
-	deadline := time.Now().Add(5 * time.Second)
-	for time.Now().Before(deadline) {
-		if strings.Contains(b.String(), want) {
-			return
-		}
-		time.Sleep(10 * time.Millisecond)
-	}
-	t.Fatalf("output never showed %q; got %q", want, b.String())
+	servetest.WaitFor(t, b, want, 5*time.Second)
 }
 
 func TestAuthorisedUserGetsWorkbench(t *testing.T) {
-	ada := newUserKey(t, "ada")
-	f := startServer(t, t.TempDir(), ada.line)
+	ada := servetest.NewKey(t, "ada")
+	f := startServer(t, t.TempDir(), ada.Line)
 	is := openInteractive(t, f.addr, "ada", ada)
 	waitFor(t, is.out, "WORKBENCH user=ada size=100x30")
 	fmt.Fprint(is.in, "x")
@@ -233,19 +171,19 @@ func TestAuthorisedUserGetsWorkbench(t *testing.T) {
 }
 
 func TestRefusedLogins(t *testing.T) {
-	ada, bob := newUserKey(t, "ada"), newUserKey(t, "bob")
-	stranger := newUserKey(t, "eve")
-	f := startServer(t, t.TempDir(), ada.line, bob.line)
+	ada, bob := servetest.NewKey(t, "ada"), servetest.NewKey(t, "bob")
+	stranger := servetest.NewKey(t, "eve")
+	f := startServer(t, t.TempDir(), ada.Line, bob.Line)
 	cases := []struct {
 		name string
 		cfg  *gossh.ClientConfig
 	}{
-		{"unknown key", clientConfig("eve", gossh.PublicKeys(stranger.signer))},
-		{"password", clientConfig("ada", gossh.Password("secret"))},
-		{"keyboard-interactive", clientConfig("ada", gossh.KeyboardInteractive(func(string, string, []string, []bool) ([]string, error) {
+		{"unknown key", servetest.ClientConfig("eve", gossh.PublicKeys(stranger.Signer))},
+		{"password", servetest.ClientConfig("ada", gossh.Password("secret"))},
+		{"keyboard-interactive", servetest.ClientConfig("ada", gossh.KeyboardInteractive(func(string, string, []string, []bool) ([]string, error) {
 			return []string{"secret"}, nil
 		}))},
-		{"another user's login name", clientConfig("bob", gossh.PublicKeys(ada.signer))},
+		{"another user's login name", servetest.ClientConfig("bob", gossh.PublicKeys(ada.Signer))},
 	}
 	for _, c := range cases {
 		if cl, err := dial(f.addr, c.cfg); err == nil {
@@ -254,14 +192,14 @@ func TestRefusedLogins(t *testing.T) {
 		}
 	}
 	logs := f.logs.String()
-	if !strings.Contains(logs, "login refused") || !strings.Contains(logs, gossh.FingerprintSHA256(stranger.signer.PublicKey())) {
+	if !strings.Contains(logs, "login refused") || !strings.Contains(logs, gossh.FingerprintSHA256(stranger.Signer.PublicKey())) {
 		t.Errorf("refusals not logged with fingerprints:\n%s", logs)
 	}
 }
 
 func TestNoPTYGetsExplanation(t *testing.T) {
-	ada := newUserKey(t, "ada")
-	f := startServer(t, t.TempDir(), ada.line)
+	ada := servetest.NewKey(t, "ada")
+	f := startServer(t, t.TempDir(), ada.Line)
 	c := login(t, f.addr, "ada", ada)
 	s, err := c.NewSession()
 	if err != nil {
@@ -279,8 +217,8 @@ func TestNoPTYGetsExplanation(t *testing.T) {
 }
 
 func TestCommands(t *testing.T) {
-	ada := newUserKey(t, "ada")
-	f := startServer(t, t.TempDir(), ada.line)
+	ada := servetest.NewKey(t, "ada")
+	f := startServer(t, t.TempDir(), ada.Line)
 	run := func(cmd string) (string, string, error) {
 		c := login(t, f.addr, "ada", ada)
 		s, err := c.NewSession()
@@ -303,9 +241,9 @@ func TestCommands(t *testing.T) {
 }
 
 func TestHostKeyStableAcrossRestarts(t *testing.T) {
-	ada := newUserKey(t, "ada")
+	ada := servetest.NewKey(t, "ada")
 	dir := t.TempDir()
-	f1 := startServer(t, dir, ada.line)
+	f1 := startServer(t, dir, ada.Line)
 	fp := f1.srv.Fingerprint()
 	if !f1.srv.CreatedHostKey() {
 		t.Error("first start did not create the host key")
@@ -315,13 +253,13 @@ func TestHostKeyStableAcrossRestarts(t *testing.T) {
 		t.Fatalf("host key mode %v %v", st.Mode().Perm(), err)
 	}
 	_ = f1.srv.Close()
-	f2 := startServer(t, dir, ada.line)
+	f2 := startServer(t, dir, ada.Line)
 	if f2.srv.CreatedHostKey() || f2.srv.Fingerprint() != fp {
 		t.Errorf("host key changed across restarts: %s -> %s", fp, f2.srv.Fingerprint())
 	}
 	// The client sees the same key.
 	var seen string
-	cfg := clientConfig("ada", gossh.PublicKeys(ada.signer))
+	cfg := servetest.ClientConfig("ada", gossh.PublicKeys(ada.Signer))
 	cfg.HostKeyCallback = func(_ string, _ net.Addr, k gossh.PublicKey) error { seen = gossh.FingerprintSHA256(k); return nil }
 	c, err := dial(f2.addr, cfg)
 	if err != nil {
@@ -334,20 +272,20 @@ func TestHostKeyStableAcrossRestarts(t *testing.T) {
 }
 
 func TestRemovedKeyLocksOut(t *testing.T) {
-	ada, bob := newUserKey(t, "ada"), newUserKey(t, "bob")
-	f := startServer(t, t.TempDir(), ada.line, bob.line)
-	c, err := dial(f.addr, clientConfig("bob", gossh.PublicKeys(bob.signer)))
+	ada, bob := servetest.NewKey(t, "ada"), servetest.NewKey(t, "bob")
+	f := startServer(t, t.TempDir(), ada.Line, bob.Line)
+	c, err := dial(f.addr, servetest.ClientConfig("bob", gossh.PublicKeys(bob.Signer)))
 	if err != nil {
 		t.Fatal(err)
 	}
 	c.Close()
-	writeKeys(t, f.authKeys, ada.line, "this line is not a key", "ssh-ed25519 AAAA bad/comment")
-	if c, err := dial(f.addr, clientConfig("bob", gossh.PublicKeys(bob.signer))); err == nil {
+	writeKeys(t, f.authKeys, ada.Line, "this line is not a key", "ssh-ed25519 AAAA bad/comment")
+	if c, err := dial(f.addr, servetest.ClientConfig("bob", gossh.PublicKeys(bob.Signer))); err == nil {
 		c.Close()
 		t.Fatal("bob still gets in after his key was removed")
 	}
 	// A bad line does not lock out the others.
-	c, err = dial(f.addr, clientConfig("ada", gossh.PublicKeys(ada.signer)))
+	c, err = dial(f.addr, servetest.ClientConfig("ada", gossh.PublicKeys(ada.Signer)))
 	if err != nil {
 		t.Fatalf("ada locked out by a bad line: %v", err)
 	}
@@ -358,8 +296,8 @@ func TestRemovedKeyLocksOut(t *testing.T) {
 }
 
 func TestPanicIsolated(t *testing.T) {
-	ada, bob := newUserKey(t, "ada"), newUserKey(t, "bob")
-	f := startServer(t, t.TempDir(), ada.line, bob.line)
+	ada, bob := servetest.NewKey(t, "ada"), servetest.NewKey(t, "bob")
+	f := startServer(t, t.TempDir(), ada.Line, bob.Line)
 	a := openInteractive(t, f.addr, "ada", ada)
 	b := openInteractive(t, f.addr, "bob", bob)
 	waitFor(t, a.out, "user=ada")
@@ -398,8 +336,8 @@ func TestUserNames(t *testing.T) {
 // The server never writes a key outside the configured host-key path (the
 // SSH library would otherwise create one in the working directory).
 func TestNoStrayHostKey(t *testing.T) {
-	ada := newUserKey(t, "ada")
-	startServer(t, t.TempDir(), ada.line)
+	ada := servetest.NewKey(t, "ada")
+	startServer(t, t.TempDir(), ada.Line)
 	for _, f := range []string{"id_ed25519", "id_ed25519.pub"} {
 		if _, err := os.Stat(f); err == nil {
 			os.Remove(f)
