@@ -114,16 +114,13 @@ func (tr *tracker) illuminate(ctx context.Context) error {
 		// a different light level: no extrapolation in bias through the
 		// previous state
 		it, upd, res, err := tr.try(g, nil)
+		step = nextStep(step, it, err)
 		if err == nil {
-			if it <= 6 {
-				step *= 2
-			}
 			continue
 		}
 		if err := ctx.Err(); err != nil {
 			return err
 		}
-		step /= 2
 		if step < 1e-6 {
 			return &ConvergenceError{Stage: "light", Bias: tr.cur.v * s.vt, Reached: tr.cur.v * s.vt,
 				Iterations: it, Update: upd, Residual: res,

@@ -147,6 +147,18 @@ func (tr *tracker) try(g, prev *state) (it int, upd, res float64, err error) {
 	return it, upd, res, err
 }
 
+// nextStep is the continuation's step control: a step that converged
+// within six Newton iterations is doubled, a failed one halved.
+func nextStep(step float64, iters int, err error) float64 {
+	switch {
+	case err != nil:
+		return step / 2
+	case iters <= 6:
+		return step * 2
+	}
+	return step
+}
+
 // advance moves the tracker to bias target (V) by continuation with step
 // halving on failure.
 func (tr *tracker) advance(ctx context.Context, targetV float64) error {
@@ -174,16 +186,13 @@ func (tr *tracker) advance(ctx context.Context, targetV float64) error {
 		next := tr.cur.v + step
 		g := tr.predict(next)
 		it, upd, res, err := tr.try(g, tr.cur)
+		step = nextStep(step, it, err)
 		if err == nil {
-			if it <= 6 {
-				step *= 2
-			}
 			continue
 		}
 		if err := ctx.Err(); err != nil {
 			return err
 		}
-		step /= 2
 		if math.Abs(step) < minStep {
 			return &ConvergenceError{Stage: "bias", Bias: targetV, Reached: tr.cur.v * s.vt, Step: 2 * math.Abs(step) * s.vt,
 				Iterations: it, Update: upd, Residual: res, Reason: err.Error()}
