@@ -71,7 +71,9 @@ func numericLitQuantities(r *NumericResult) []Quantity {
 
 // litCompareKeys are the lit quantities Compare reads out when the Spec is
 // lit.
-var litCompareKeys = [...]string{"short_circuit_current_A", "open_circuit_voltage_V", "max_power_W", "fill_factor"}
+func litCompareKeys() []string {
+	return []string{"short_circuit_current_A", "open_circuit_voltage_V", "max_power_W", "fill_factor"}
+}
 
 // Limits of a quantum-efficiency table.
 const (

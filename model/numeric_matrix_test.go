@@ -170,7 +170,7 @@ func TestAnalyticNumericMatrix(t *testing.T) {
 			check("current_A", 0.10, "generation current")
 		}
 		line := ""
-		for _, k := range compareKeys {
+		for _, k := range compareKeys(false) {
 			line += fmt.Sprintf(" %s %+.2f%%", k, 100*diffs[k].Relative)
 		}
 		t.Logf("%v:%s", c, line)

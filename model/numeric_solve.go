@@ -297,8 +297,16 @@ type Difference struct {
 	Flagged   bool
 }
 
-// compareKeys are the quantities Compare reads out, in order.
-var compareKeys = [...]string{"built_in_potential_V", "depletion_width_m", "peak_field_V_per_m", "junction_capacitance_F", "current_A"}
+// compareKeys returns the quantities Compare reads out, in order, with
+// the lit ones (litCompareKeys) after them when lit is set; a fresh slice
+// each call.
+func compareKeys(lit bool) []string {
+	keys := []string{"built_in_potential_V", "depletion_width_m", "peak_field_V_per_m", "junction_capacitance_F", "current_A"}
+	if lit {
+		keys = append(keys, litCompareKeys()...)
+	}
+	return keys
+}
 
 // CompareTolerance returns the relative difference beyond which Compare
 // flags a quantity: 1 % for the built-in potential (the two models give
@@ -352,10 +360,7 @@ func Compare(analytic *Result, numeric *NumericResult) []Difference {
 	for _, q := range NumericQuantities(numeric) {
 		nq[q.Key] = q
 	}
-	keys := compareKeys[:]
-	if numeric.Lit {
-		keys = append(keys, litCompareKeys[:]...)
-	}
+	keys := compareKeys(numeric.Lit)
 	out := make([]Difference, 0, len(keys))
 	for _, k := range keys {
 		q := nq[k]

@@ -69,21 +69,26 @@ const (
 	FlagBreakdownTemperature = "breakdown-temperature"
 )
 
-// Gauss-Legendre 8-point nodes (positive half) and weights (Abramowitz &
-// Stegun 1964, table 25.4).
-var gl8 = [4][2]float64{
-	{0.9602898564975363, 0.1012285362903763},
-	{0.7966664774136267, 0.2223810344533745},
-	{0.5255324099163290, 0.3137066458778873},
-	{0.1834346424956498, 0.3626837833783620},
+// gl8 returns the Gauss-Legendre 8-point nodes (positive half) and
+// weights (Abramowitz & Stegun 1964, table 25.4); a fresh array each call,
+// so that no caller can change the rule.
+func gl8() [4][2]float64 {
+	return [4][2]float64{
+		{0.9602898564975363, 0.1012285362903763},
+		{0.7966664774136267, 0.2223810344533745},
+		{0.5255324099163290, 0.3137066458778873},
+		{0.1834346424956498, 0.3626837833783620},
+	}
 }
 
-// Gauss-Legendre 10-point nodes (positive half) and weights (Abramowitz &
-// Stegun 1964, table 25.4).
-var gl10 = [5][2]float64{
-	{0.9739065285171717, 0.0666713443086881},
-	{0.8650633666889845, 0.1494513491505806},
-	{0.6794095682990244, 0.2190863625159820},
-	{0.4333953941292472, 0.2692667193099963},
-	{0.1488743389816312, 0.2955242247147529},
+// gl10 returns the Gauss-Legendre 10-point nodes (positive half) and
+// weights (Abramowitz & Stegun 1964, table 25.4), like gl8.
+func gl10() [5][2]float64 {
+	return [5][2]float64{
+		{0.9739065285171717, 0.0666713443086881},
+		{0.8650633666889845, 0.1494513491505806},
+		{0.6794095682990244, 0.2190863625159820},
+		{0.4333953941292472, 0.2692667193099963},
+		{0.1488743389816312, 0.2955242247147529},
+	}
 }

@@ -176,6 +176,7 @@ func SCRCurrentDensity(dep Depletion, v float64, sp SCRParams) (j, dj float64) {
 		}
 	}
 	var sum, dsum float64
+	rule8, rule10 := gl8(), gl10()
 	// piece integrates from focus c towards end b with the sinh map of
 	// scale l = Vt/|E(c)|.
 	piece := func(c, b float64) {
@@ -196,9 +197,9 @@ func SCRCurrentDensity(dep Depletion, v float64, sp SCRParams) (j, dj float64) {
 		h := 0.5 * tmax
 		// Nodes t = h (1 -+ x_k): exp(t) for the pair from one exponential.
 		e2h := math.Exp(tmax)
-		rule := gl10[:]
+		rule := rule10[:]
 		if reverse {
-			rule = gl8[:] // the plateau pieces are smoother
+			rule = rule8[:] // the plateau pieces are smoother
 		}
 		for _, nw := range rule {
 			a := math.Exp(h * (1 + nw[0])) // t = h (1 + x)

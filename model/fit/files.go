@@ -94,18 +94,12 @@ func OpenDataFile(files model.Files, path string) (fs.File, error) {
 	return f, nil
 }
 
-// dataExtensions are the file name endings a batch takes from a directory
-// (compared without case).
-var dataExtensions = []string{".csv", ".tsv", ".txt", ".dat"}
-
 // IsDataFile reports whether name ends in one of the data extensions
 // (.csv, .tsv, .txt, .dat, any case).
 func IsDataFile(name string) bool {
-	ext := strings.ToLower(filepath.Ext(name))
-	for _, e := range dataExtensions {
-		if ext == e {
-			return true
-		}
+	switch strings.ToLower(filepath.Ext(name)) {
+	case ".csv", ".tsv", ".txt", ".dat":
+		return true
 	}
 	return false
 }

@@ -5,10 +5,15 @@ import (
 	"strings"
 )
 
-// temperatureKeys are the comment keys that state the device temperature
-// (compared after normName).
-var temperatureKeys = map[string]bool{"temperature": true, "temp": true, "t": true, "tsample": true, "tchuck": true,
-	"devicetemperature": true, "sampletemperature": true}
+// isTemperatureKey reports whether a comment key (after normName) states
+// the device temperature.
+func isTemperatureKey(k string) bool {
+	switch k {
+	case "temperature", "temp", "t", "tsample", "tchuck", "devicetemperature", "sampletemperature":
+		return true
+	}
+	return false
+}
 
 // comment reads a stated temperature from a comment line: a key
 // (temperature, temp, T, Tsample, Tchuck, device/sample temperature; any
@@ -37,7 +42,7 @@ func (im *importer) comment(t []byte) {
 			return
 		}
 	}
-	if !temperatureKeys[normName(s[:k])] {
+	if !isTemperatureKey(normName(s[:k])) {
 		return
 	}
 	val := strings.TrimSpace(strings.TrimLeft(s[k:], ":="))

@@ -18,19 +18,32 @@ import (
 	"junco/model/fit"
 )
 
-// dieColors fill the dies of a wafer map by class: four shades of a
+// dieColor fills the dies of a wafer map by class: four shades of a
 // sequential scale (dark blue to yellow, readable in grey), then the
-// marked classes.
-var dieColors = map[fit.DieClass]color.RGBA{
-	fit.Shade0:          {0x3b, 0x4c, 0xc0, 255},
-	fit.Shade1:          {0x2a, 0x9d, 0x8f, 255},
-	fit.Shade2:          {0x8a, 0xc9, 0x26, 255},
-	fit.Shade3:          {0xf9, 0xd0, 0x57, 255},
-	fit.DieOutlier:      {0xe3, 0x77, 0xc2, 255},
-	fit.DieFailed:       {0x55, 0x55, 0x55, 255},
-	fit.DieOutOfLimits:  {0xd6, 0x27, 0x28, 255},
-	fit.DieNotRun:       {0xdd, 0xdd, 0xdd, 255},
-	fit.DieUndetermined: {0xbb, 0xbb, 0xbb, 255},
+// marked classes; a class without a colour is transparent (as a missing
+// entry of a table would be).
+func dieColor(cls fit.DieClass) color.RGBA {
+	switch cls {
+	case fit.Shade0:
+		return color.RGBA{0x3b, 0x4c, 0xc0, 255}
+	case fit.Shade1:
+		return color.RGBA{0x2a, 0x9d, 0x8f, 255}
+	case fit.Shade2:
+		return color.RGBA{0x8a, 0xc9, 0x26, 255}
+	case fit.Shade3:
+		return color.RGBA{0xf9, 0xd0, 0x57, 255}
+	case fit.DieOutlier:
+		return color.RGBA{0xe3, 0x77, 0xc2, 255}
+	case fit.DieFailed:
+		return color.RGBA{0x55, 0x55, 0x55, 255}
+	case fit.DieOutOfLimits:
+		return color.RGBA{0xd6, 0x27, 0x28, 255}
+	case fit.DieNotRun:
+		return color.RGBA{0xdd, 0xdd, 0xdd, 255}
+	case fit.DieUndetermined:
+		return color.RGBA{0xbb, 0xbb, 0xbb, 255}
+	}
+	return color.RGBA{}
 }
 
 // waferPlotter draws the dies of one wafer as squares, filled by class.
@@ -51,7 +64,7 @@ func (w waferPlotter) Plot(c draw.Canvas, p *plot.Plot) {
 		x, y := float64(pos[0]), float64(pos[1])
 		x0, x1 := trX(x-0.45), trX(x+0.45)
 		y0, y1 := trY(y-0.45), trY(y+0.45)
-		c.FillPolygon(dieColors[cls], []vg.Point{{X: x0, Y: y0}, {X: x1, Y: y0}, {X: x1, Y: y1}, {X: x0, Y: y1}})
+		c.FillPolygon(dieColor(cls), []vg.Point{{X: x0, Y: y0}, {X: x1, Y: y0}, {X: x1, Y: y1}, {X: x0, Y: y1}})
 		if m := fit.DieMark(cls); m != "" {
 			st := w.label
 			st.Color = color.White
@@ -138,10 +151,10 @@ func WaferMapSVG(res *fit.BatchResult, param int, wafer string, limits []fit.Lim
 	sc := wp.sc
 	switch {
 	case sc.OK && sc.Hi == sc.Lo:
-		leg.Add(f(sc.Edge(0)), swatch(dieColors[fit.Shade2]))
+		leg.Add(f(sc.Edge(0)), swatch(dieColor(fit.Shade2)))
 	case sc.OK:
 		for l := fit.ShadeLevels - 1; l >= 0; l-- {
-			leg.Add(f(sc.Edge(l))+" to "+f(sc.Edge(l+1)), swatch(dieColors[fit.DieClass(l)]))
+			leg.Add(f(sc.Edge(l))+" to "+f(sc.Edge(l+1)), swatch(dieColor(fit.DieClass(l))))
 		}
 	}
 	for _, m := range []struct {
@@ -151,7 +164,7 @@ func WaferMapSVG(res *fit.BatchResult, param int, wafer string, limits []fit.Lim
 		if m.cls == fit.DieOutOfLimits && !fit.HasLimitOn(limits, param) {
 			continue
 		}
-		leg.Add(fit.DieMark(m.cls)+" "+m.what, swatch(dieColors[m.cls]))
+		leg.Add(fit.DieMark(m.cls)+" "+m.what, swatch(dieColor(m.cls)))
 	}
 	scale := "linear"
 	if sc.Log {
