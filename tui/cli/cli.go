@@ -90,6 +90,7 @@ func newRootCmd(e *env) *cobra.Command {
 		newFitCmd(e),
 		newSessionsCmd(e),
 		newServeCmd(e),
+		newManualCmd(e),
 		&cobra.Command{
 			Use:   "version",
 			Short: "print the version of this build",
