@@ -9,6 +9,7 @@ import (
 	"io/fs"
 	"math"
 	"strings"
+	"text/tabwriter"
 
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
@@ -409,4 +410,10 @@ func fitVal(p *float64) float64 {
 		return math.NaN()
 	}
 	return *p
+}
+
+// fitTable is the one layout of the fits' text tables: columns padded by
+// two spaces. Flush it after the rows.
+func fitTable(w io.Writer) *tabwriter.Writer {
+	return tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 }

@@ -7,7 +7,6 @@ import (
 	"math"
 	"strconv"
 	"strings"
-	"text/tabwriter"
 
 	"junco/model"
 	"junco/model/fit"
@@ -174,7 +173,7 @@ func fitRunArrhenius(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) 
 		return exitOK
 	}
 	ascii := c.ascii
-	tw := tabwriter.NewWriter(stdout, 0, 0, 2, ' ', 0)
+	tw := fitTable(stdout)
 	fmt.Fprintf(tw, "activation energy\tEa\t%s\n", fitPM(model.Energy, rep.ActivationEnergyEV, rep.StdErr.ActivationEnergyEV, ascii))
 	fmt.Fprintf(tw, "prefactor exponent\tx\t%g = 3 + g/2, g = %g the exponent of D/tau in T (Is = C T^x exp(-Ea/kT))\n", rep.PrefactorExponent, rep.Gamma)
 	fmt.Fprintf(tw, "plot\t\tln(Is/T^%g) against 1/T, %d temperatures, rms %.3g", rep.PrefactorExponent, rep.Points, rep.RMSLnResidual)
@@ -191,7 +190,7 @@ func fitRunArrhenius(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) 
 	}
 	tw.Flush()
 	fmt.Fprintln(stdout)
-	tw = tabwriter.NewWriter(stdout, 0, 0, 2, ' ', 0)
+	tw = fitTable(stdout)
 	fmt.Fprintf(tw, "file\tT\tIs\tn\n")
 	for _, r := range rep.Temperatures {
 		fmt.Fprintf(tw, "%s\t%s\t%s\t%.3f\n", r.File, model.Format(model.Temperature, r.TemperatureK, 4, ascii),

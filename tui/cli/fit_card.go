@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io"
 	"strings"
-	"text/tabwriter"
 
 	"junco/model"
 	"junco/model/fit"
@@ -300,7 +299,7 @@ func fitCardCheckReport(out *fitCardCheck, chk *fit.CardCheck) {
 }
 
 func fitCardText(w io.Writer, r *fitCardReport, ascii bool) {
-	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	tw := fitTable(w)
 	fmt.Fprintf(tw, "model card\t%s\n", r.Name)
 	for _, s := range r.Sweeps {
 		ref := ""
@@ -313,7 +312,7 @@ func fitCardText(w io.Writer, r *fitCardReport, ascii bool) {
 	}
 	tw.Flush()
 	fmt.Fprintln(w)
-	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	tw = fitTable(w)
 	fmt.Fprintf(tw, "parameter\tvalue\tstandard error\tfrom\n")
 	for _, n := range r.Order {
 		p := r.Parameters[n]

@@ -276,7 +276,7 @@ func fitCVValue(k model.Kind, v, se *float64, st fitCVState, ascii bool) string 
 }
 
 func fitCVText(w io.Writer, r *fitCVReport, ascii bool) {
-	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	tw := fitTable(w)
 	fmt.Fprintf(tw, "file\t\t%s\n", r.File)
 	area := "no area given (no doping)"
 	if r.AreaM2 != nil {

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"text/tabwriter"
 
 	"junco/model"
 	"junco/model/fit"
@@ -85,7 +84,7 @@ func fitCompareIV(ctx context.Context, r *fitIVReport, session string, spec mode
 }
 
 func fitCompareText(w io.Writer, r *fitIVCompare, ascii bool) {
-	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	tw := fitTable(w)
 	fmt.Fprintf(tw, "compared with\t%s\n", r.CompareSession)
 	if r.PredictionRMSLogRatio != nil {
 		fmt.Fprintf(tw, "rms ln(measured/predicted)\t%.4f\n", *r.PredictionRMSLogRatio)
@@ -331,7 +330,7 @@ func fitIVCard(name string, r *fitIVReport) (string, error) {
 }
 
 func fitIVText(w io.Writer, r *fitIVReport, ascii bool) {
-	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	tw := fitTable(w)
 	if r.fitLitFields != nil {
 		fitLitText(w, r, ascii)
 		return

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"io"
 	"strings"
-	"text/tabwriter"
 
 	"junco/model"
 	"junco/model/fit"
@@ -76,7 +75,7 @@ func fitLitFile(ctx context.Context, path string, ds *measure.DataSet, c fitComm
 
 // fitLitText writes the text report of a lit fit.
 func fitLitText(w io.Writer, r *fitIVReport, ascii bool) {
-	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	tw := fitTable(w)
 	f := r.lit.Fit
 	d, s := f.Diode, f.StdErr
 	fmt.Fprintf(tw, "file\t%s\n", r.File)

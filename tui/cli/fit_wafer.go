@@ -6,7 +6,6 @@ import (
 	"math"
 	"path/filepath"
 	"strings"
-	"text/tabwriter"
 
 	"junco/model"
 	"junco/model/fit"
@@ -129,7 +128,7 @@ func fitWaferText(w io.Writer, res *fit.BatchResult, o fitWaferOpts, ascii bool)
 	if len(o.limits) > 0 {
 		y := fit.BatchYield(res.Rows, o.limits)
 		fmt.Fprintf(w, "\nlimits and yield (%d dies tested; a failed fit fails every limit)\n", y.Tested)
-		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+		tw := fitTable(w)
 		fmt.Fprintf(tw, "parameter\tlimit\tpassed\tyield\n")
 		pct := func(p, t int) string {
 			if t == 0 {
