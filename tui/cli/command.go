@@ -5,8 +5,11 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"os"
+	"os/signal"
 	"runtime/debug"
 	"strings"
+	"syscall"
 
 	"github.com/spf13/cobra"
 	"github.com/spf13/pflag"
@@ -290,4 +293,13 @@ func execute(ctx context.Context, args []string, stdin io.Reader, stdout, stderr
 		code = exitFailure
 	}
 	return code
+}
+
+// hangups returns a channel that receives SIGHUP (the workbench writes its
+// draft and quits, the server reloads its keys) and the function that
+// stops the delivery.
+func hangups() (<-chan os.Signal, func()) {
+	c := make(chan os.Signal, 1)
+	signal.Notify(c, syscall.SIGHUP)
+	return c, func() { signal.Stop(c) }
 }

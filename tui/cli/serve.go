@@ -6,10 +6,8 @@ import (
 	"io"
 	"log/slog"
 	"os"
-	"os/signal"
 	"path/filepath"
 	"strings"
-	"syscall"
 	"time"
 
 	tea "github.com/charmbracelet/bubbletea"
@@ -131,9 +129,8 @@ func runServeOptions(ctx context.Context, o serveOptions, stdout, stderr io.Writ
 	if !strings.HasPrefix(o.listen, "127.") && !strings.HasPrefix(o.listen, "localhost:") && !strings.HasPrefix(o.listen, "[::1]") {
 		fmt.Fprintln(stdout, "note: listening beyond loopback; only keys in the authorized-keys file can log in")
 	}
-	hup := make(chan os.Signal, 1)
-	signal.Notify(hup, syscall.SIGHUP)
-	defer signal.Stop(hup)
+	hup, stopHup := hangups()
+	defer stopHup()
 	errc := make(chan error, 1)
 	go func() { errc <- srv.ListenAndServe() }()
 	for {

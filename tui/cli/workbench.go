@@ -6,10 +6,8 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"os/signal"
 	"path/filepath"
 	"strings"
-	"syscall"
 	"time"
 
 	tea "github.com/charmbracelet/bubbletea"
@@ -251,9 +249,8 @@ func runWorkbench(ctx context.Context, o workbenchOptions, stdout, stderr io.Wri
 	// recovery draft and quits; if it does not within a few seconds, it is
 	// stopped. (Bubble Tea's own handler would quit at once.)
 	p := tea.NewProgram(m, tea.WithAltScreen(), tea.WithOutput(stdout), tea.WithoutSignalHandler())
-	hup := make(chan os.Signal, 1)
-	signal.Notify(hup, syscall.SIGHUP)
-	defer signal.Stop(hup)
+	hup, stopHup := hangups()
+	defer stopHup()
 	done := make(chan struct{})
 	defer close(done)
 	go func() {
