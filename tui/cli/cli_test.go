@@ -10,6 +10,14 @@ import (
 	"testing"
 )
 
+// writeTestFile writes a test's input file (mode 0600) or fails the test.
+func writeTestFile(t testing.TB, path string, data []byte) {
+	t.Helper()
+	if err := os.WriteFile(path, data, 0o600); err != nil {
+		t.Fatal(err)
+	}
+}
+
 func runCLI(t *testing.T, args ...string) (int, string, string) {
 	t.Helper()
 	var out, errb bytes.Buffer

@@ -2,7 +2,6 @@ package cli
 
 import (
 	"encoding/json"
-	"os"
 	"path/filepath"
 	"testing"
 	"time"
@@ -35,9 +34,7 @@ func TestFitCardFromSession(t *testing.T) {
 		t.Fatal(err)
 	}
 	p := filepath.Join(t.TempDir(), "demo.junco.json")
-	if err := os.WriteFile(p, b, 0o600); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, p, b)
 	code, out, errs := runCLI(t, "fit", "card", "--session", p, "--name", "DDEMO", "--json")
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, errs)

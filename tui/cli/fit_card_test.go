@@ -3,7 +3,6 @@ package cli
 import (
 	"encoding/json"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -94,9 +93,7 @@ func TestFitCardCheckWithoutSimulator(t *testing.T) {
 func TestFitCardErrors(t *testing.T) {
 	dir := t.TempDir()
 	rec := filepath.Join(dir, "rec.txt")
-	if err := os.WriteFile(rec, []byte("forward current: 10 mA\n"), 0o600); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, rec, []byte("forward current: 10 mA\n"))
 	for _, c := range []struct {
 		args []string
 		want string

@@ -4,7 +4,6 @@ import (
 	"encoding/json"
 	"fmt"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -41,9 +40,7 @@ func TestFitCompareRoundTrip(t *testing.T) {
 		fmt.Fprintf(&b, "%.6g,%.6g\n", ds.VoltageV[k], ds.CurrentA[k])
 	}
 	data := filepath.Join(dir, "d7.csv")
-	if err := os.WriteFile(data, []byte(b.String()), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, data, []byte(b.String()))
 	spec := model.DemoJunction().Spec
 	truth := spec.HoleLifetime
 	spec.HoleLifetime = 10 * truth
@@ -52,9 +49,7 @@ func TestFitCompareRoundTrip(t *testing.T) {
 		t.Fatal(err)
 	}
 	sess := filepath.Join(dir, "wrong.json")
-	if err := os.WriteFile(sess, enc, 0o644); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, sess, enc)
 	// From 0.3 V: the double-diode fit that separates the n = 1 part needs
 	// the depletion-region current in its window.
 	code, out, errs := runCLI(t, "fit", "iv", data, "--window", "0.3V:0.6V", "--compare", sess, "--json")

@@ -73,9 +73,7 @@ func fitKeysIVFile(t *testing.T, dir string) string {
 		}
 	}
 	p := filepath.Join(dir, "keys.csv")
-	if err := os.WriteFile(p, []byte(b.String()), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, p, []byte(b.String()))
 	return p
 }
 
@@ -90,9 +88,7 @@ func fitKeysCVFile(t *testing.T, dir string) string {
 	lines := strings.SplitAfter(string(b), "\n")
 	lines = append(lines[:5], append([]string{"-3.5\tNaN\t100\n"}, lines[5:]...)...)
 	p := filepath.Join(dir, "cv-nan.tsv")
-	if err := os.WriteFile(p, []byte(strings.Join(lines, "")), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, p, []byte(strings.Join(lines, "")))
 	return p
 }
 
@@ -126,9 +122,7 @@ func TestReadmeDocumentsEveryFitKey(t *testing.T) {
 		t.Fatal(err)
 	}
 	sess := filepath.Join(dir, "s.json")
-	if err := os.WriteFile(sess, enc, 0o644); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, sess, enc)
 	arr := []string{"testdata/fit/arrhenius/iv-250K.csv", "testdata/fit/arrhenius/iv-300K.csv", "testdata/fit/arrhenius/iv-350K.csv"}
 	runs := map[string][][]string{
 		"iv": {

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -35,9 +34,7 @@ func fitWriteLit(t testing.TB, dir string, generator bool) string {
 		fmt.Fprintf(&b, "%.4f,%.6f\n", v, i*1e3)
 	}
 	p := filepath.Join(dir, fmt.Sprintf("lit-%v.csv", generator))
-	if err := os.WriteFile(p, []byte(b.String()), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, p, []byte(b.String()))
 	return p
 }
 

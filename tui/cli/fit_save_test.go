@@ -4,7 +4,6 @@ import (
 	"context"
 	"io"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -105,9 +104,7 @@ func TestFitIVSaveTo(t *testing.T) {
 
 	// A bad file fits nothing and stores nothing.
 	bad := filepath.Join(files, "bad.csv")
-	if err := os.WriteFile(bad, []byte("Voltage (V),Current (mA)\nx,y\n"), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, bad, []byte("Voltage (V),Current (mA)\nx,y\n"))
 	code, _, errs = fitCall("iv", bad, "--save-to", "d7", "--data", store)
 	if code == 0 || !strings.Contains(errs, "nothing saved") {
 		t.Errorf("bad file: exit %d: %s", code, errs)

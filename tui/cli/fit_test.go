@@ -53,9 +53,7 @@ func fitWriteIV(t testing.TB, dir, name string, d extract.SingleDiode, tempK flo
 		fmt.Fprintf(&b, "%.6g,%.8g,0\n", v, i*1e3)
 	}
 	p := filepath.Join(dir, name)
-	if err := os.WriteFile(p, []byte(b.String()), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, p, []byte(b.String()))
 	return p
 }
 
@@ -304,9 +302,7 @@ func TestFitCVGradedParasitic(t *testing.T) {
 		fmt.Fprintf(&b, "%.4f\t%.6g\n", v, c*(1+0.002*rng.NormFloat64())*1e12)
 	}
 	p := filepath.Join(t.TempDir(), "graded.tsv")
-	if err := os.WriteFile(p, []byte(b.String()), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, p, []byte(b.String()))
 	code, out, errs := fitCall("cv", p, "--area", "0.1mm2", "--json")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)

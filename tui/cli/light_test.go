@@ -3,7 +3,6 @@ package cli
 import (
 	"encoding/json"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -17,9 +16,7 @@ func TestCalcLightFlags(t *testing.T) {
 	dir := t.TempDir()
 	table := filepath.Join(dir, "alpha.csv")
 	// Invented table for the test, not data of a material.
-	if err := os.WriteFile(table, []byte("wavelength (nm), alpha (1/cm)\n500, 1e4\n650, 3e3\n800, 8e2\n"), 0o600); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, table, []byte("wavelength (nm), alpha (1/cm)\n500, 1e4\n650, 3e3\n800, 8e2\n"))
 	base := []string{"calc", "--na", "1e19", "--nd", "1e16", "--wp", "0.3um", "--wn", "200um", "--bias", "0", "--json", "--light", "650nm:100mW/cm2"}
 	get := func(args ...string) map[string]any {
 		t.Helper()
@@ -61,9 +58,7 @@ func TestSolveQE(t *testing.T) {
 	dir := t.TempDir()
 	table := filepath.Join(dir, "alpha.csv")
 	// Invented table for the test, not data of a material.
-	if err := os.WriteFile(table, []byte("wavelength (nm), alpha (1/cm)\n400, 9e4\n700, 2e3\n1000, 60\n"), 0o600); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, table, []byte("wavelength (nm), alpha (1/cm)\n400, 9e4\n700, 2e3\n1000, 60\n"))
 	code, out, errs := runCLI(t, "solve", "--na", "1e19", "--nd", "1e16", "--wp", "0.3um", "--wn", "200um",
 		"--light", "600nm:10", "--absorption", table, "--qe", "400nm:1000nm:300nm", "--json")
 	if code != 0 {

@@ -45,9 +45,7 @@ func startJunco(t testing.TB, users ...sshUser) (addr, data string, app *serveAp
 		lines = append(lines, u.Line)
 	}
 	keys := filepath.Join(data, "authorized_keys")
-	if err := os.WriteFile(keys, []byte(strings.Join(lines, "\n")+"\n"), 0o600); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, keys, []byte(strings.Join(lines, "\n")+"\n"))
 	lg := slog.New(slog.NewTextHandler(io.Discard, nil))
 	app, err := newServeApp(data, lg)
 	if err != nil {

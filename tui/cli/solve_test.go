@@ -5,7 +5,6 @@ import (
 	"context"
 	"encoding/json"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 	"sync"
@@ -195,9 +194,7 @@ func TestSolveProfiles(t *testing.T) {
 	// Imported net profile with a nm/cm^-3 header.
 	dir := t.TempDir()
 	file := filepath.Join(dir, "step.csv")
-	if err := os.WriteFile(file, []byte("depth (nm);net (cm^-3)\n0;-1e17\n990;-1e17\n1010;1e16\n20000;1e16\n"), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, file, []byte("depth (nm);net (cm^-3)\n0;-1e17\n990;-1e17\n1010;1e16\n20000;1e16\n"))
 	m = jsonOf(t, "solve", "--profile-file", file, "--ideal", "--json")
 	calc := jsonOf(t, "calc", "--ideal", "--na", "1e17cm-3", "--nd", "1e16cm-3", "--json")
 	if d := math.Abs(num(t, m, "built_in_potential_V") - num(t, calc, "built_in_potential_V")); d > 1e-3 {
@@ -205,9 +202,7 @@ func TestSolveProfiles(t *testing.T) {
 	}
 	// A conc column needs --profile-species.
 	conc := filepath.Join(dir, "conc.csv")
-	if err := os.WriteFile(conc, []byte("depth_um,conc_cm-3\n0,1e19\n0.3,1e19\n0.5,1e13\n10,1e13\n"), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, conc, []byte("depth_um,conc_cm-3\n0,1e19\n0.3,1e19\n0.5,1e13\n10,1e13\n"))
 	if code, _, errs := runCLI(t, "solve", "--profile-file", conc, "--base", "donor", "--nd", "1e15cm-3"); code != 2 || !strings.Contains(errs, "conc.csv: line 1, column 2") {
 		t.Errorf("conc without species: exit %d: %s", code, errs)
 	}
@@ -265,9 +260,7 @@ func TestSolveInterrupted(t *testing.T) {
 func TestSolveBadInput(t *testing.T) {
 	dir := t.TempDir()
 	bad := filepath.Join(dir, "bad.csv")
-	if err := os.WriteFile(bad, []byte("depth_um,net_cm-3\n0,-1e16\n1,zz\n"), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, bad, []byte("depth_um,net_cm-3\n0,-1e16\n1,zz\n"))
 	for _, c := range []struct {
 		args []string
 		want []string

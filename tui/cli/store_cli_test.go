@@ -65,14 +65,23 @@ func calcSaveOutcome(t *testing.T, dir string, codes []int, errs []string) {
 // --next-revision`, each with its own temperature: every one exits 0 and
 // stores its own revision (without the flag, about half were refused).
 func TestCalcNextRevisionConcurrent(t *testing.T) {
+	concurrentSaves(t, func(i int, dir string) (int, string) {
+		code, _, errs := runCLI(t, "calc", "--temp", fmt.Sprintf("%dK", 300+i), "--save", "same", "--next-revision", "--data", dir)
+		return code, errs
+	})
+}
+
+// concurrentSaves runs save(i, dir) for 20 values of i at once, each
+// meant to store a revision of session "same" in dir with temperature
+// 300+i K, and checks the outcome (calcSaveOutcome).
+func concurrentSaves(t *testing.T, save func(i int, dir string) (code int, errs string)) {
+	t.Helper()
 	dir := t.TempDir()
 	const n = 20
 	codes, errs := make([]int, n), make([]string, n)
 	var wg sync.WaitGroup
 	for i := range n {
-		wg.Go(func() {
-			codes[i], _, errs[i] = runCLI(t, "calc", "--temp", fmt.Sprintf("%dK", 300+i), "--save", "same", "--next-revision", "--data", dir)
-		})
+		wg.Go(func() { codes[i], errs[i] = save(i, dir) })
 	}
 	wg.Wait()
 	calcSaveOutcome(t, dir, codes, errs)
@@ -101,25 +110,18 @@ func TestCalcNextRevisionProcesses(t *testing.T) {
 	if testing.Short() {
 		t.Skip("starts 20 processes")
 	}
-	dir := t.TempDir()
-	const n = 20
-	codes, errs := make([]int, n), make([]string, n)
-	var wg sync.WaitGroup
-	for i := range n {
-		wg.Go(func() {
-			cmd := exec.Command(os.Args[0], "-test.run=^TestHelperCalc$", "-test.count=1")
-			cmd.Env = append(os.Environ(), calcHelperEnv+"=calc --temp "+strconv.Itoa(300+i)+"K --save same --next-revision --data "+dir)
-			out, err := cmd.CombinedOutput()
-			errs[i] = string(out)
-			if ee, ok := err.(*exec.ExitError); ok {
-				codes[i] = ee.ExitCode()
-			} else if err != nil {
-				codes[i] = -1
-			}
-		})
-	}
-	wg.Wait()
-	calcSaveOutcome(t, dir, codes, errs)
+	concurrentSaves(t, func(i int, dir string) (int, string) {
+		cmd := exec.Command(os.Args[0], "-test.run=^TestHelperCalc$", "-test.count=1")
+		cmd.Env = append(os.Environ(), calcHelperEnv+"=calc --temp "+strconv.Itoa(300+i)+"K --save same --next-revision --data "+dir)
+		out, err := cmd.CombinedOutput()
+		code := 0
+		if ee, ok := err.(*exec.ExitError); ok {
+			code = ee.ExitCode()
+		} else if err != nil {
+			code = -1
+		}
+		return code, string(out)
+	})
 }
 
 // TestServeListNamesNoServerPath: over SSH, `sessions list` and its
@@ -134,9 +136,7 @@ func TestServeListNamesNoServerPath(t *testing.T) {
 	}
 	saveFor(t, data, "ada", "d7")
 	root, _ := sessions.UserStoreRoot(data, "ada")
-	if err := os.WriteFile(root+"/sessions/stray.txt", []byte("x"), 0o600); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, root+"/sessions/stray.txt", []byte("x"))
 	out, errs, err = sshRun(t, addr, ada, "sessions list")
 	if err != nil || !strings.Contains(out, "d7") || !strings.Contains(errs, "sessions/stray.txt") || strings.Contains(out+errs, data) {
 		t.Errorf("list over SSH: %q %q %v", out, errs, err)

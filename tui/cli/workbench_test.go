@@ -1,7 +1,6 @@
 package cli
 
 import (
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -85,9 +84,7 @@ func TestWorkbenchOpensStoredSessionsAndFiles(t *testing.T) {
 		t.Fatal(err)
 	}
 	file := filepath.Join(t.TempDir(), "lot417.json")
-	if err := os.WriteFile(file, data, 0o644); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, file, data)
 	m, err = workbenchModel(workbenchOptions{data: dir, target: file}, base)
 	if err != nil || m.Spec().Temperature != 360 || m.Dirty() {
 		t.Fatalf("open file: %v", err)
@@ -96,9 +93,7 @@ func TestWorkbenchOpensStoredSessionsAndFiles(t *testing.T) {
 		t.Fatalf("opening a file stored it: %v", list)
 	}
 	bad := filepath.Join(t.TempDir(), "bad.json")
-	if err := os.WriteFile(bad, []byte(`{"schema": 99}`), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	writeTestFile(t, bad, []byte(`{"schema": 99}`))
 	if _, err := workbenchModel(workbenchOptions{data: dir, target: bad}, base); err == nil || !strings.Contains(err.Error(), "bad.json: schema 99 is newer") {
 		t.Errorf("bad file: %v", err)
 	}
