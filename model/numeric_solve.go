@@ -98,6 +98,26 @@ func numericSweepSetup(spec Spec, num NumericSpec, r Range, field string) (numer
 	return numericSweep{vs: vs, vmin: vmin, nd: nd, s: s, vbi: vbi}, nil
 }
 
+// flags starts the flags of a sweep: the device's, those of breakdown at
+// its most reverse bias and the solver's.
+func (sw numericSweep) flags() *flagSet {
+	var fs flagSet
+	fs.add(sw.nd.Flags...)
+	fs.add(breakdownFlags(sw.nd.Static, sw.vmin)...)
+	fs.add(sw.s.Flags()...)
+	return &fs
+}
+
+// progress reports the solver's progress of stage to the caller's
+// function (nil: none), Value the solver's current (A/m^2) times area.
+func (sw numericSweep) progress(stage string, area float64, progress NumericProgressFunc) solver.ProgressFunc {
+	return func(p solver.Progress) {
+		if progress != nil {
+			progress(NumericProgress{Stage: stage, Done: p.Done, Total: p.Total, Bias: p.Bias, Value: p.Current * area})
+		}
+	}
+}
+
 // numericBuild validates, builds and meshes.
 func numericBuild(spec Spec, num NumericSpec, vmin float64) (*NumericDevice, *solver.Solver, error) {
 	nd, err := BuildNumericDevice(spec, num, vmin)

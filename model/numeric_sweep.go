@@ -11,7 +11,6 @@ import (
 	"strings"
 
 	"junco/physics"
-	"junco/physics/solver"
 )
 
 // numericBiases returns the validated points of a numeric sweep.
@@ -109,7 +108,7 @@ func NumericIV(ctx context.Context, spec Spec, num NumericSpec, r Range, progres
 	if err != nil {
 		return nil, err
 	}
-	vs, vmin, nd, s, vbi := sw.vs, sw.vmin, sw.nd, sw.s, sw.vbi
+	vs, nd, s, vbi := sw.vs, sw.nd, sw.s, sw.vbi
 	out := &NumericIVResult{Spec: spec, Device: nd, Range: r, Requested: len(vs), Nodes: len(s.Nodes()), BuiltInPotential: vbi}
 	analytic := make([]float64, len(vs))
 	for i := range analytic {
@@ -120,15 +119,8 @@ func NumericIV(ctx context.Context, spec Spec, num NumericSpec, r Range, progres
 			analytic[i] = p.Current
 		}
 	}
-	var fs flagSet
-	fs.add(nd.Flags...)
-	fs.add(breakdownFlags(nd.Static, vmin)...)
-	fs.add(s.Flags()...)
-	res, serr := s.Sweep(ctx, vs, func(p solver.Progress) {
-		if progress != nil {
-			progress(NumericProgress{Stage: "iv", Done: p.Done, Total: p.Total, Bias: p.Bias, Value: p.Current * spec.Area})
-		}
-	})
+	fs := sw.flags()
+	res, serr := s.Sweep(ctx, vs, sw.progress("iv", spec.Area, progress))
 	for i, x := range res {
 		w := math.NaN()
 		if x.Depletion.Valid {
@@ -188,18 +180,11 @@ func NumericCV(ctx context.Context, spec Spec, num NumericSpec, r Range, progres
 	if err != nil {
 		return nil, err
 	}
-	vs, vmin, nd, s, vbi := sw.vs, sw.vmin, sw.nd, sw.s, sw.vbi
+	vs, nd, s, vbi := sw.vs, sw.nd, sw.s, sw.vbi
 	out := &NumericCVResult{Spec: spec, Device: nd, Range: r, Requested: len(vs), Nodes: len(s.Nodes()), BuiltInPotential: vbi,
 		Mode: nd.Options.CVMode.String()}
-	var fs flagSet
-	fs.add(nd.Flags...)
-	fs.add(breakdownFlags(nd.Static, vmin)...)
-	fs.add(s.Flags()...)
-	pts, serr := s.CV(ctx, vs, func(p solver.Progress) {
-		if progress != nil {
-			progress(NumericProgress{Stage: "cv", Done: p.Done, Total: p.Total, Bias: p.Bias, Value: p.Current * spec.Area})
-		}
-	})
+	fs := sw.flags()
+	pts, serr := s.CV(ctx, vs, sw.progress("cv", spec.Area, progress))
 	for _, p := range pts {
 		ap := nd.Static.At(p.Bias)
 		out.Points = append(out.Points, NumericCVPoint{Bias: p.Bias, Capacitance: p.Capacitance * spec.Area, CapacitancePerArea: p.Capacitance,

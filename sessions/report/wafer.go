@@ -20,30 +20,24 @@ import (
 
 // dieColor fills the dies of a wafer map by class: four shades of a
 // sequential scale (dark blue to yellow, readable in grey), then the
-// marked classes; a class without a colour is transparent (as a missing
-// entry of a table would be).
+// marked classes; a class without a colour (a gap) is transparent. The
+// table is built on each call, so no caller can change it.
 func dieColor(cls fit.DieClass) color.RGBA {
-	switch cls {
-	case fit.Shade0:
-		return color.RGBA{0x3b, 0x4c, 0xc0, 255}
-	case fit.Shade1:
-		return color.RGBA{0x2a, 0x9d, 0x8f, 255}
-	case fit.Shade2:
-		return color.RGBA{0x8a, 0xc9, 0x26, 255}
-	case fit.Shade3:
-		return color.RGBA{0xf9, 0xd0, 0x57, 255}
-	case fit.DieOutlier:
-		return color.RGBA{0xe3, 0x77, 0xc2, 255}
-	case fit.DieFailed:
-		return color.RGBA{0x55, 0x55, 0x55, 255}
-	case fit.DieOutOfLimits:
-		return color.RGBA{0xd6, 0x27, 0x28, 255}
-	case fit.DieNotRun:
-		return color.RGBA{0xdd, 0xdd, 0xdd, 255}
-	case fit.DieUndetermined:
-		return color.RGBA{0xbb, 0xbb, 0xbb, 255}
+	colors := [...]color.RGBA{
+		fit.Shade0:          {0x3b, 0x4c, 0xc0, 255},
+		fit.Shade1:          {0x2a, 0x9d, 0x8f, 255},
+		fit.Shade2:          {0x8a, 0xc9, 0x26, 255},
+		fit.Shade3:          {0xf9, 0xd0, 0x57, 255},
+		fit.DieOutlier:      {0xe3, 0x77, 0xc2, 255},
+		fit.DieFailed:       {0x55, 0x55, 0x55, 255},
+		fit.DieOutOfLimits:  {0xd6, 0x27, 0x28, 255},
+		fit.DieNotRun:       {0xdd, 0xdd, 0xdd, 255},
+		fit.DieUndetermined: {0xbb, 0xbb, 0xbb, 255},
 	}
-	return color.RGBA{}
+	if cls < 0 || int(cls) >= len(colors) {
+		return color.RGBA{}
+	}
+	return colors[cls]
 }
 
 // waferPlotter draws the dies of one wafer as squares, filled by class.
