@@ -4,6 +4,8 @@ import (
 	"bytes"
 	"strings"
 	"testing"
+
+	"junco/tui/serve/servetest"
 )
 
 // One user cannot take every session slot: with --max-conn 4 and a share
@@ -11,8 +13,8 @@ import (
 // and a log record, while bob still gets in. Before, one user's sessions
 // could fill the whole cap and lock every colleague out.
 func TestOneUserCannotHoldEverySlot(t *testing.T) {
-	ada, bob := newUserKey(t, "ada"), newUserKey(t, "bob")
-	f := startServerWith(t, t.TempDir(), func(c *Config) { c.MaxConnections, c.MaxPerUser = 4, 2 }, ada.line, bob.line)
+	ada, bob := servetest.NewKey(t, "ada"), servetest.NewKey(t, "bob")
+	f := startServerWith(t, t.TempDir(), func(c *Config) { c.MaxConnections, c.MaxPerUser = 4, 2 }, ada.Line, bob.Line)
 	for i := 0; i < 2; i++ {
 		s := openInteractive(t, f.addr, "ada", ada)
 		waitFor(t, s.out, "WORKBENCH user=ada")
