@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"junco/model"
+	"junco/model/fit/fittest"
 	"junco/model/measure"
 	"junco/physics"
 	"junco/physics/extract"
@@ -173,14 +174,9 @@ func TestCardSingleTestSetsInSimulator(t *testing.T) {
 // invented reverse sweep for the breakdown tests: 2 nA leakage and an
 // exponential avalanche knee at 42 V (1 uA) with 1 % noise.
 func inventedReverse() *measure.DataSet {
-	rng := rand.New(rand.NewPCG(9, 9))
 	ds := &measure.DataSet{Kind: measure.KindIV, SourceFile: "invented reverse sweep (test only)"}
-	for k := 0; k <= 430; k++ {
-		vr := float64(k) / 10
-		i := 2e-9 + 1e-6*math.Exp((vr-42)/0.15)
-		ds.VoltageV = append(ds.VoltageV, -vr)
-		ds.CurrentA = append(ds.CurrentA, -i*(1+0.01*rng.NormFloat64()))
-	}
+	ds.VoltageV, ds.CurrentA = fittest.Sweep{From: 0, To: -43, Points: 431, Rel: 0.01, Seed: [2]uint64{9, 9},
+		Model: func(v float64) float64 { return -(2e-9 + 1e-6*math.Exp((-v-42)/0.15)) }}.Values()
 	return ds
 }
 

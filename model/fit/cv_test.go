@@ -2,11 +2,11 @@ package fit
 
 import (
 	"math"
-	"math/rand/v2"
 	"strings"
 	"testing"
 
 	"junco/model"
+	"junco/model/fit/fittest"
 	"junco/model/measure"
 	"junco/physics/extract"
 )
@@ -15,13 +15,8 @@ import (
 // C = Cj0/(1 - V/Vbi)^m + Cpar (Sze & Ng 2007, sec. 2.2) with 0.2 %
 // noise, -10 V to 0.3 V.
 func cvDataSet(j extract.JunctionCV, seed uint64) *measure.DataSet {
-	rng := rand.New(rand.NewPCG(seed, 1))
 	ds := &measure.DataSet{Kind: measure.KindCV}
-	for k := 0; k <= 60; k++ {
-		v := -10 + 10.3*float64(k)/60
-		ds.VoltageV = append(ds.VoltageV, v)
-		ds.CapacitanceF = append(ds.CapacitanceF, j.Capacitance(v)*(1+0.002*rng.NormFloat64()))
-	}
+	ds.VoltageV, ds.CapacitanceF = fittest.Sweep{From: -10, To: 0.3, Points: 61, Model: j.Capacitance, Rel: 0.002, Seed: [2]uint64{seed, 1}}.Values()
 	return ds
 }
 
@@ -67,13 +62,8 @@ func TestCVHoldsAndRecords(t *testing.T) {
 // determined" rows in the workbench view and stores no value for it.
 func TestCVViewNotDetermined(t *testing.T) {
 	j := extract.JunctionCV{ZeroBiasCapacitanceF: 30e-12, BuiltInPotentialV: 0.8, GradingCoefficient: 0.5, ParasiticCapacitanceF: 5e-12}
-	rng := rand.New(rand.NewPCG(3, 3))
 	ds := &measure.DataSet{Kind: measure.KindCV}
-	for k := 0; k <= 40; k++ {
-		v := -20 + 2*float64(k)/40
-		ds.VoltageV = append(ds.VoltageV, v)
-		ds.CapacitanceF = append(ds.CapacitanceF, j.Capacitance(v)*(1+0.001*rng.NormFloat64()))
-	}
+	ds.VoltageV, ds.CapacitanceF = fittest.Sweep{From: -20, To: -18, Points: 41, Model: j.Capacitance, Rel: 0.001, Seed: [2]uint64{3, 3}}.Values()
 	spec := model.DefaultSpec()
 	spec.Material = "si"
 	v, err := NewCVView(ds, spec, Window{})

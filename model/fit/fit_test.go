@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io/fs"
 	"math"
-	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"strings"
@@ -14,6 +13,7 @@ import (
 	"testing/fstest"
 
 	"junco/model"
+	"junco/model/fit/fittest"
 	"junco/model/measure"
 	"junco/physics"
 	"junco/physics/extract"
@@ -24,25 +24,13 @@ import (
 // lines and the header row, tcol adds a temperature column in K.
 func writeIV(t testing.TB, path, header string, d extract.SingleDiode, tk, tcol float64, seed uint64) {
 	t.Helper()
-	rng := rand.New(rand.NewPCG(seed, 3))
 	vt := physics.ThermalVoltage(tk)
-	var b strings.Builder
-	b.WriteString(header)
-	for k := 0; k <= 60; k++ {
-		v := 0.1 + 0.7*float64(k)/60
-		i := d.Current(v, vt) * (1 + 0.01*rng.NormFloat64())
-		if tcol > 0 {
-			fmt.Fprintf(&b, "%.4f,%.6e,%g\n", v, i, tcol)
-		} else {
-			fmt.Fprintf(&b, "%.4f,%.6e\n", v, i)
-		}
+	row := "%.4f,%.6e\n"
+	if tcol > 0 {
+		row = "%.4f,%.6e," + fmt.Sprint(tcol) + "\n"
 	}
-	if err := os.MkdirAll(filepath.Dir(path), 0o755); err != nil {
-		t.Fatal(err)
-	}
-	if err := os.WriteFile(path, []byte(b.String()), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	fittest.Sweep{Head: header, From: 0.1, To: 0.8, Points: 61, Model: func(v float64) float64 { return d.Current(v, vt) },
+		Rel: 0.01, Seed: [2]uint64{seed, 3}, Row: row}.Write(t, path)
 }
 
 var testDiode = extract.SingleDiode{SaturationCurrentA: 1e-12, IdealityFactor: 1.3, SeriesResistanceOhm: 4, ShuntResistanceOhm: math.Inf(1)}
@@ -272,21 +260,10 @@ var litTruth = extract.LitDiode{PhotocurrentA: 0.5, SaturationCurrentA: 1e-8, Id
 
 func writeLit(t testing.TB, path string, generator bool, seed uint64) {
 	t.Helper()
-	rng := rand.New(rand.NewPCG(seed, 5))
 	vt := physics.ThermalVoltage(300)
-	var b strings.Builder
-	b.WriteString("# invented lit sweep (test data, not a measurement)\n# temperature: 300 K\nV,I (mA)\n")
-	for k := 0; k <= 70; k++ {
-		v := -0.05 + 0.7*float64(k)/70
-		i := litTruth.Current(v, vt) + 1e-4*rng.NormFloat64()
-		if generator {
-			i = -i
-		}
-		fmt.Fprintf(&b, "%.4f,%.8e\n", v, i*1e3)
-	}
-	if err := os.WriteFile(path, []byte(b.String()), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	fittest.Sweep{Head: "# invented lit sweep (test data, not a measurement)\n# temperature: 300 K\nV,I (mA)\n",
+		From: -0.05, To: 0.65, Points: 71, Model: func(v float64) float64 { return litTruth.Current(v, vt) },
+		Abs: 1e-4, Negate: generator, Seed: [2]uint64{seed, 5}, Scale: 1e3, Row: "%.4f,%.8e\n"}.Write(t, path)
 }
 
 // A lit file is recognised in either sign, a dark one is not; the lit fit

@@ -7,13 +7,13 @@ import (
 	"encoding/json"
 	"fmt"
 	"math"
-	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"slices"
 	"strings"
 	"testing"
 
+	"junco/model/fit/fittest"
 	"junco/physics"
 	"junco/physics/extract"
 )
@@ -36,25 +36,16 @@ func fitCallCtx(ctx context.Context, args ...string) (int, string, string) {
 // temperature comment (0 = none) and 1 % multiplicative noise.
 func fitWriteIV(t testing.TB, dir, name string, d extract.SingleDiode, tempK float64, v0, v1 float64, n int, seed uint64) string {
 	t.Helper()
-	rng := rand.New(rand.NewPCG(seed, 5))
-	var b strings.Builder
-	if tempK > 0 {
-		fmt.Fprintf(&b, "# temperature: %g K\n", tempK)
-	}
-	b.WriteString("Voltage (V),Current (mA),compliance\n")
+	head := "Voltage (V),Current (mA),compliance\n"
 	tk := tempK
 	if tk == 0 {
 		tk = 300
+	} else {
+		head = fmt.Sprintf("# temperature: %g K\n", tempK) + head
 	}
 	vt := physics.ThermalVoltage(tk)
-	for k := 0; k < n; k++ {
-		v := v0 + (v1-v0)*float64(k)/float64(n-1)
-		i := d.Current(v, vt) * (1 + 0.01*rng.NormFloat64())
-		fmt.Fprintf(&b, "%.6g,%.8g,0\n", v, i*1e3)
-	}
-	p := filepath.Join(dir, name)
-	writeTestFile(t, p, []byte(b.String()))
-	return p
+	return fittest.Sweep{Head: head, From: v0, To: v1, Points: n, Model: func(v float64) float64 { return d.Current(v, vt) },
+		Rel: 0.01, Seed: [2]uint64{seed, 5}, Scale: 1e3, Row: "%.6g,%.8g,0\n"}.Write(t, filepath.Join(dir, name))
 }
 
 func fitJSONMap(t *testing.T, s string) map[string]any {
@@ -161,15 +152,8 @@ func TestFitIVCommandDoubleAndLeakage(t *testing.T) {
 	dir := t.TempDir()
 	vt := physics.ThermalVoltage(300)
 	dd := extract.DoubleDiode{DiffusionCurrentA: 1e-14, RecombinationCurrentA: 1e-9, SeriesResistanceOhm: 5, ShuntResistanceOhm: 1e6}
-	rng := rand.New(rand.NewPCG(8, 8))
-	var sb strings.Builder
-	sb.WriteString("# T = 27 C\nbias_V;current_A\n")
-	for k := 0; k <= 300; k++ {
-		v := -2 + 2.9*float64(k)/300
-		fmt.Fprintf(&sb, "%.5g;%.8g\n", v, dd.Current(v, vt)*(1+0.01*rng.NormFloat64()))
-	}
-	p := filepath.Join(dir, "dd.csv")
-	os.WriteFile(p, []byte(sb.String()), 0o644)
+	p := fittest.Sweep{Head: "# T = 27 C\nbias_V;current_A\n", From: -2, To: 0.9, Points: 301, Model: func(v float64) float64 { return dd.Current(v, vt) },
+		Rel: 0.01, Seed: [2]uint64{8, 8}, Row: "%.5g;%.8g\n"}.Write(t, filepath.Join(dir, "dd.csv"))
 	code, out, errs := fitCall("iv", p, "--model", "double", "--window", "0.05:0.9", "--leakage-at", "-1V", "--json")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
@@ -190,17 +174,9 @@ func TestFitIVCommandDoubleAndLeakage(t *testing.T) {
 // C = A sqrt(q eps N/(2 (Vbi - V))) (Sze & Ng 2007, sec. 2.2), in pF with
 // 0.3 % noise.
 func fitWriteCV(t *testing.T, dir string, n, vbi, area, eps float64) string {
-	rng := rand.New(rand.NewPCG(4, 4))
-	var b strings.Builder
-	b.WriteString("V [V]\tC [pF]\tf [kHz]\n")
-	for k := 0; k <= 80; k++ {
-		v := -4 + 4.2*float64(k)/80
-		c := area * math.Sqrt(physics.Q*eps*n/(2*(vbi-v))) * (1 + 0.003*rng.NormFloat64())
-		fmt.Fprintf(&b, "%.4f\t%.6g\t100\n", v, c*1e12)
-	}
-	p := filepath.Join(dir, "cv.tsv")
-	os.WriteFile(p, []byte(b.String()), 0o644)
-	return p
+	return fittest.Sweep{Head: "V [V]\tC [pF]\tf [kHz]\n", From: -4, To: 0.2, Points: 81,
+		Model: func(v float64) float64 { return area * math.Sqrt(physics.Q*eps*n/(2*(vbi-v))) },
+		Rel:   0.003, Seed: [2]uint64{4, 4}, Scale: 1e12, Row: "%.4f\t%.6g\t100\n"}.Write(t, filepath.Join(dir, "cv.tsv"))
 }
 
 func TestFitCVCommand(t *testing.T) {
@@ -293,16 +269,9 @@ func TestFitCVCommand(t *testing.T) {
 func TestFitCVGradedParasitic(t *testing.T) {
 	si, _ := physics.MaterialByName("si")
 	eps := si.Permittivity()
-	rng := rand.New(rand.NewPCG(12, 12))
-	var b strings.Builder
-	b.WriteString("V [V]\tC [pF]\n")
-	for k := 0; k <= 80; k++ {
-		v := -10 + 10.3*float64(k)/80
-		c := 1e-7*math.Cbrt(physics.Q*1e28*eps*eps/(12*(0.7-v))) + 5e-12
-		fmt.Fprintf(&b, "%.4f\t%.6g\n", v, c*(1+0.002*rng.NormFloat64())*1e12)
-	}
-	p := filepath.Join(t.TempDir(), "graded.tsv")
-	writeTestFile(t, p, []byte(b.String()))
+	p := fittest.Sweep{Head: "V [V]\tC [pF]\n", From: -10, To: 0.3, Points: 81,
+		Model: func(v float64) float64 { return 1e-7*math.Cbrt(physics.Q*1e28*eps*eps/(12*(0.7-v))) + 5e-12 },
+		Rel:   0.002, Seed: [2]uint64{12, 12}, Scale: 1e12, Row: "%.4f\t%.6g\n"}.Write(t, filepath.Join(t.TempDir(), "graded.tsv"))
 	code, out, errs := fitCall("cv", p, "--area", "0.1mm2", "--json")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errs)
@@ -517,21 +486,10 @@ var fitLitTruth = extract.LitDiode{PhotocurrentA: 0.3, SaturationCurrentA: 5e-9,
 // (delivered current positive) or the load sign.
 func fitWriteLit(t testing.TB, dir string, generator bool) string {
 	t.Helper()
-	rng := rand.New(rand.NewPCG(11, 5))
 	vt := physics.ThermalVoltage(300)
-	var b strings.Builder
-	b.WriteString("# invented lit sweep (test data)\n# temperature: 300 K\nV,I (mA)\n")
-	for k := 0; k <= 60; k++ {
-		v := -0.05 + 0.72*float64(k)/60
-		i := fitLitTruth.Current(v, vt) + 3e-5*rng.NormFloat64()
-		if generator {
-			i = -i
-		}
-		fmt.Fprintf(&b, "%.4f,%.6f\n", v, i*1e3)
-	}
-	p := filepath.Join(dir, fmt.Sprintf("lit-%v.csv", generator))
-	writeTestFile(t, p, []byte(b.String()))
-	return p
+	return fittest.Sweep{Head: "# invented lit sweep (test data)\n# temperature: 300 K\nV,I (mA)\n", From: -0.05, To: 0.67, Points: 61,
+		Model: func(v float64) float64 { return fitLitTruth.Current(v, vt) }, Abs: 3e-5, Negate: generator,
+		Seed: [2]uint64{11, 5}, Scale: 1e3, Row: "%.4f,%.6f\n"}.Write(t, filepath.Join(dir, fmt.Sprintf("lit-%v.csv", generator)))
 }
 
 // fit iv recognises a lit file in either sign, says which it assumed, and
