@@ -198,11 +198,9 @@ func NumericCV(ctx context.Context, spec Spec, num NumericSpec, r Range, progres
 // NumericIVCurve returns the numeric and the analytic total current (A)
 // against bias, for overlay with the analytic "iv" curve.
 func NumericIVCurve(r *NumericIVResult) Curve {
-	n := len(r.Points)
-	xs, num, an := make([]float64, n), make([]float64, n), make([]float64, n)
-	for i, p := range r.Points {
-		xs[i], num[i], an[i] = p.Bias, p.Current, p.AnalyticCurrent
-	}
+	xs, num, an := overlayColumns(r.Points, func(p NumericIVPoint) (float64, float64, float64) {
+		return p.Bias, p.Current, p.AnalyticCurrent
+	})
 	return Curve{ID: CurveNumericIV, Title: "Current against bias: drift-diffusion and analytic",
 		X: Axis{Label: "bias V", Kind: Voltage}, Y: Axis{Label: "current I", Kind: Current}, Xs: xs,
 		Series: []Series{{"drift-diffusion", num}, {"analytic (total)", an}}, Flags: r.Flags}
@@ -211,14 +209,23 @@ func NumericIVCurve(r *NumericIVResult) Curve {
 // NumericCVCurve returns the numeric and the depletion-approximation
 // capacitance (F) against bias, for overlay with the analytic "cv" curve.
 func NumericCVCurve(r *NumericCVResult) Curve {
-	n := len(r.Points)
-	xs, num, an := make([]float64, n), make([]float64, n), make([]float64, n)
-	for i, p := range r.Points {
-		xs[i], num[i], an[i] = p.Bias, p.Capacitance, p.AnalyticCapacitance
-	}
+	xs, num, an := overlayColumns(r.Points, func(p NumericCVPoint) (float64, float64, float64) {
+		return p.Bias, p.Capacitance, p.AnalyticCapacitance
+	})
 	return Curve{ID: CurveNumericCV, Title: "Depletion capacitance against bias: drift-diffusion and analytic",
 		X: Axis{Label: "bias V", Kind: Voltage}, Y: Axis{Label: "capacitance C", Kind: Capacitance}, Xs: xs,
 		Series: []Series{{"drift-diffusion", num}, {"depletion approximation", an}}, Flags: r.Flags}
+}
+
+// overlayColumns returns the bias, numeric and analytic columns of a
+// sweep's points, as col reads them from a point.
+func overlayColumns[P any](points []P, col func(P) (bias, numeric, analytic float64)) (xs, num, an []float64) {
+	n := len(points)
+	xs, num, an = make([]float64, n), make([]float64, n), make([]float64, n)
+	for i, p := range points {
+		xs[i], num[i], an[i] = col(p)
+	}
+	return xs, num, an
 }
 
 // relDiff returns (a - b)/|b|, NaN when undefined.
