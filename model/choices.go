@@ -4,6 +4,7 @@ import (
 	"math"
 	"strings"
 
+	"junco/model/units"
 	"junco/physics"
 )
 
@@ -12,17 +13,12 @@ import (
 // field as Validate states it, and the choices of the choice fields.
 
 // TradeUnit returns the unit a value of kind k is typed and shown in by
-// default (DefaultUnit) and the SI value of one such unit, so that a chart
-// can plot v/si in that unit. The factor comes from ParseValue, the one
-// place that knows the units.
-func TradeUnit(k Kind) (unit string, si float64) {
-	unit = DefaultUnit(k)
-	v, err := ParseValue(k, "1 "+unit)
-	if err != nil || v == 0 {
-		return SIUnit(k), 1
-	}
-	return unit, v
-}
+// default and the SI value of one such unit (units.TradeUnit).
+func TradeUnit(k Kind) (unit string, si float64) { return units.TradeUnit(k) }
+
+// EditText writes an SI value as the text a user would type to give it
+// again, in the kind's trade unit (units.EditText).
+func EditText(k Kind, v float64) string { return units.EditText(k, v) }
 
 // FieldAllowed returns the allowed range or set of a Spec field and the
 // reason for it, in Validate's words. It asks Validate about a deliberately
@@ -85,4 +81,26 @@ func DopantChoices(material string, donor bool) (names []string, usual string) {
 		usual = m.DefaultDonor
 	}
 	return m.DopantNames(donor), strings.ToLower(usual)
+}
+
+// materialChoices is the choice list of the material field: the built-in
+// semiconductors, each by its name.
+func materialChoices(Spec) []Choice {
+	var out []Choice
+	for _, c := range MaterialChoices() {
+		out = append(out, Choice{c.Key, c.Name})
+	}
+	return out
+}
+
+// speciesChoices is the choice list of a species field: the donors
+// (donor = true) or acceptors of a material, the usual one first as the
+// empty choice.
+func speciesChoices(material string, donor bool) []Choice {
+	names, usual := DopantChoices(material, donor)
+	out := []Choice{{"", "usual (" + usual + ")"}}
+	for _, n := range names {
+		out = append(out, Choice{n, n})
+	}
+	return out
 }

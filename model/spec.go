@@ -127,13 +127,20 @@ type Effects struct {
 }
 
 // IdealEffects returns the switches of the ideal Shockley diode: every
-// effect off.
+// effect of the catalogue off.
 func IdealEffects() Effects {
-	return Effects{NoSRH: true, NoHighInjection: true, NoSeriesResistance: true, NoBGN: true, NoIonisation: true, NoBreakdown: true}
+	var s Spec
+	for _, f := range Catalogue() {
+		if f.Class == ClassEffect {
+			f.SetOff(&s, true)
+		}
+	}
+	return s.Effects
 }
 
 // Physics converts the switches into physics.Effects (an unknown BGN model
-// falls back to the default; Validate reports it).
+// falls back to the default; Validate reports it). TestEffectsFromCatalogue
+// proves that each switch of the catalogue reaches its own physics switch.
 func (e Effects) Physics() physics.Effects {
 	bm, _ := physics.ParseBGNModel(e.BGNModel)
 	im, _ := physics.ParseIonisationModel(e.IonisationModel)

@@ -33,7 +33,7 @@ func (c *chartModel) startEditing() {
 	c.editing, c.row, c.editErr = true, 0, ""
 	c.eds = make([]lineEditor, len(kinds))
 	for i := range kinds {
-		c.eds[i] = newLineEditor(inputText(kinds[i], vals[i]))
+		c.eds[i] = newLineEditor(model.EditText(kinds[i], vals[i]))
 	}
 }
 

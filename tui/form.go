@@ -90,9 +90,6 @@ func newForm(e env, initial model.Spec) formModel {
 
 // copyField copies one field's value from src into dst.
 func (f formModel) copyField(i int, dst *model.Spec, src model.Spec) {
-	if f.defs[i].str == nil && f.defs[i].num == nil {
-		return
-	}
 	d := f.defs[i]
 	if d.choice {
 		d.setStr(dst, d.str(src))
@@ -281,27 +278,13 @@ func (f *formModel) tryNumber(i int, text string) {
 	d := f.defs[i]
 	f.fs[i].text = text
 	cand := f.spec
-	t := strings.TrimSpace(text)
-	if d.optWord != "" && (t == "" || hasAlias(t, d.optAlias)) {
-		d.setNum(&cand, 0, false)
-	} else {
-		v, err := model.ParseValue(d.kind, t)
-		if err != nil {
-			f.fs[i].err = err.Error()
-			return
-		}
-		d.setNum(&cand, v, true)
+	v, set, err := d.Parse(text)
+	if err != nil {
+		f.fs[i].err = err.Error()
+		return
 	}
+	d.setNum(&cand, v, set)
 	f.commit(i, cand)
-}
-
-func hasAlias(t string, aliases []string) bool {
-	for _, a := range aliases {
-		if strings.EqualFold(t, a) {
-			return true
-		}
-	}
-	return false
 }
 
 // commit validates and evaluates a candidate spec changed in field i.
@@ -357,12 +340,12 @@ func (f *formModel) cycle(i, dir int) {
 	if cur < 0 {
 		next = 0
 	}
-	f.setChoice(i, opts[next].value)
+	f.setChoice(i, opts[next].Value)
 }
 
 func optionIndex(opts []option, v string) int {
 	for j, o := range opts {
-		if strings.EqualFold(o.value, v) {
+		if strings.EqualFold(o.Value, v) {
 			return j
 		}
 	}
@@ -373,28 +356,20 @@ func (f *formModel) setChoice(i int, v string) {
 	d := f.defs[i]
 	cand := f.spec
 	d.setStr(&cand, v)
+	// A choice the changed junction no longer offers (a species of
+	// another material) falls back to the usual one, the empty choice.
 	var reset []string
-	if d.id == model.FieldMaterial {
-		// Species of another material do not carry over.
-		for _, sp := range []struct {
-			donor bool
-			get   *string
-		}{{false, &cand.AcceptorSpecies}, {true, &cand.DonorSpecies}} {
-			if *sp.get == "" {
-				continue
-			}
-			names, _ := model.DopantChoices(cand.Material, sp.donor)
-			known := false
-			for _, n := range names {
-				if strings.EqualFold(n, *sp.get) {
-					known = true
-				}
-			}
-			if !known {
-				reset = append(reset, *sp.get)
-				*sp.get = ""
-			}
+	for j, o := range f.defs {
+		if j == i || !o.choice {
+			continue
 		}
+		cur := o.str(cand)
+		opts := o.options(cand)
+		if cur == "" || optionIndex(opts, cur) >= 0 || optionIndex(opts, "") < 0 {
+			continue
+		}
+		reset = append(reset, o.Label+" "+cur)
+		o.setStr(&cand, "")
 	}
 	prev := f.fs[i].text
 	f.fs[i].text = v
@@ -404,12 +379,14 @@ func (f *formModel) setChoice(i int, v string) {
 		f.fs[i].err = ""
 		return
 	}
-	for _, id := range []string{model.FieldAcceptorSpecies, model.FieldDonorSpecies} {
-		j := f.index(id)
-		f.fs[j] = fieldState{text: f.defs[j].str(f.spec)}
+	// The other choices show what is in force now.
+	for j, o := range f.defs {
+		if j != i && o.choice && f.fs[j].text != o.str(f.spec) {
+			f.fs[j] = fieldState{text: o.str(f.spec)}
+		}
 	}
 	if len(reset) > 0 {
-		f.note = "species " + strings.Join(reset, ", ") + " not known in the new material: the usual one is in force"
+		f.note = strings.Join(reset, ", ") + " not known in the new " + d.Label + ": the usual one is in force"
 	}
 	if f.cur >= 0 && !f.defs[f.cur].visible(f.spec) {
 		f.cur = f.firstOf(f.step)
@@ -426,22 +403,6 @@ func (f *formModel) restoreDefault(i int) {
 	f.tryNumber(i, fieldText(d, def))
 	if f.fs[i].err == "" {
 		f.note = d.label + " back to its default"
-	}
-}
-
-// glance lists result quantities shown under each step.
-func glanceKeys(step int) []string {
-	switch step {
-	case 0:
-		return []string{"band_gap_eV", "intrinsic_density_per_m3"}
-	case 1:
-		return []string{"built_in_potential_V", "depletion_width_m"}
-	case 2:
-		return []string{"saturation_current_A", "junction_capacitance_F"}
-	case 3:
-		return []string{"electron_diffusion_length_m", "hole_diffusion_length_m"}
-	default:
-		return []string{"depletion_width_m", "saturation_current_A", "current_A"}
 	}
 }
 
@@ -479,8 +440,8 @@ func (f formModel) lines() []string {
 	for _, i := range f.stepFields(f.step) {
 		d, fs := f.defs[i], f.fs[i]
 		focused := i == f.cur
-		if d.section != "" {
-			body = append(body, "", "  "+st.heading.Paint(d.section))
+		if d.Section != "" {
+			body = append(body, "", "  "+st.heading.Paint(d.Section))
 		}
 		mark := " "
 		if focused {
@@ -508,8 +469,8 @@ func (f formModel) lines() []string {
 			val = " " + padRight(shown, cw, g.ellipsis) + " "
 		default:
 			t := fs.text
-			if t == "" && d.optWord != "" {
-				t = "(" + d.optWord + ")"
+			if t == "" && d.Zero != "" {
+				t = "(" + d.Zero + ")"
 			}
 			v := padRight(t, inputW, g.ellipsis)
 			if focused {
@@ -552,7 +513,7 @@ func (f formModel) lines() []string {
 	}
 	if f.res != nil {
 		var parts []string
-		for _, key := range glanceKeys(f.step) {
+		for _, key := range f.steps[min(max(f.step, 0), len(f.steps)-1)].glance {
 			for _, q := range f.res.Quantities {
 				if q.Key == key {
 					parts = append(parts, q.Symbol+" "+q.Text(4, f.e.ascii))
@@ -692,7 +653,7 @@ func choiceLabel(d fieldDef, s model.Spec) string {
 	v := d.str(s)
 	opts := d.options(s)
 	if j := optionIndex(opts, v); j >= 0 {
-		return opts[j].label
+		return opts[j].Label
 	}
 	if v == "" {
 		return "(none)"
@@ -700,27 +661,33 @@ func choiceLabel(d fieldDef, s model.Spec) string {
 	return v
 }
 
-// nowText is the value in force of field i, in trade units.
+// nowText is the value in force of field i, in trade units: for an empty
+// field its Zero word, with the value the model derives (Shows) when there
+// is one; for a choice the result it Shows, if any.
 func (f formModel) nowText(i int) string {
 	d := f.defs[i]
-	if d.choice {
-		if d.id == model.FieldMaterial && f.res != nil {
-			if v, ok := f.res.Get("band_gap_eV"); ok {
-				return "Eg " + model.Format(model.Energy, v, 4, f.e.ascii)
+	var shown *model.Quantity
+	if d.Shows != "" && f.res != nil {
+		for j := range f.res.Quantities {
+			if f.res.Quantities[j].Key == d.Shows {
+				shown = &f.res.Quantities[j]
 			}
+		}
+	}
+	if d.choice {
+		if shown != nil {
+			return shown.Symbol + " " + shown.Text(4, f.e.ascii)
 		}
 		return ""
 	}
 	v, set := d.num(f.spec)
 	if !set {
-		if d.derivedKey != "" && f.res != nil {
-			if dv, ok := f.res.Get(d.derivedKey); ok {
-				return d.optWord + ": " + model.Format(d.kind, dv, 4, f.e.ascii)
-			}
+		if shown != nil {
+			return d.Zero + ": " + model.Format(d.Kind, shown.Value, 4, f.e.ascii)
 		}
-		return d.optWord
+		return d.Zero
 	}
-	return model.Format(d.kind, v, 4, f.e.ascii)
+	return model.Format(d.Kind, v, 4, f.e.ascii)
 }
 
 // detail is the help line under the focused field: what it is, its unit,
@@ -728,16 +695,16 @@ func (f formModel) nowText(i int) string {
 func (f formModel) detail(i int) string {
 	d := f.defs[i]
 	def := model.DefaultSpec()
-	parts := []string{d.hint}
+	parts := []string{d.Hint}
 	if d.choice {
 		parts = append(parts, "default "+choiceLabel(d, def))
 	} else {
-		unit, _ := model.TradeUnit(d.kind)
+		unit, _ := model.TradeUnit(d.Kind)
 		parts = append(parts, "a bare number is in "+unit)
 		if v, set := d.num(def); set {
-			parts = append(parts, "default "+model.Format(d.kind, v, 3, f.e.ascii))
+			parts = append(parts, "default "+model.Format(d.Kind, v, 3, f.e.ascii))
 		} else {
-			parts = append(parts, "empty: "+d.optWord)
+			parts = append(parts, "empty: "+d.Zero)
 		}
 		if allowed, _, ok := model.FieldAllowed(f.spec, d.id); ok {
 			parts = append(parts, "allowed "+allowed)

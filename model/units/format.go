@@ -171,3 +171,41 @@ func sci(v float64, sig int) string {
 	}
 	return fmt.Sprintf("%se%d", mant, n)
 }
+
+// TradeUnit returns the unit a value of kind k is typed and shown in by
+// default (DefaultUnit) and the SI value of one such unit, so that a chart
+// can plot v/si in that unit. The factor comes from ParseValue, the one
+// place that knows the units.
+func TradeUnit(k Kind) (unit string, si float64) {
+	unit = DefaultUnit(k)
+	v, err := ParseValue(k, "1 "+unit)
+	if err != nil || v == 0 {
+		return SIUnit(k), 1
+	}
+	return unit, v
+}
+
+// EditText writes an SI value as the text a user would type to give it
+// again: the number in the kind's trade unit (TradeUnit) with up to ten
+// significant digits and a plain exponent ("1e17 cm^-3", "5e-6 s"); "?"
+// for a value that is not finite.
+func EditText(k Kind, v float64) string {
+	unit, si := TradeUnit(k)
+	x := v / si
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		x = math.NaN()
+	}
+	s := strconv.FormatFloat(x, 'g', 10, 64)
+	if mant, exp, ok := strings.Cut(s, "e"); ok {
+		if n, err := strconv.Atoi(exp); err == nil {
+			s = mant + "e" + strconv.Itoa(n)
+		}
+	}
+	if math.IsNaN(x) {
+		s = "?"
+	}
+	if unit == "" {
+		return s
+	}
+	return s + " " + unit
+}

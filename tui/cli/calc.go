@@ -58,11 +58,17 @@ func (v *specValue) String() string {
 func (v *specValue) Set(s string) error {
 	switch v.f.Class {
 	case model.ClassValue:
-		x, err := model.ParseValue(v.f.Kind, s)
+		// The catalogue's reading: a value in units, or a word for the
+		// empty value (--wp long, --sp ohmic), as the workbench takes it.
+		x, given, err := v.f.Parse(s)
 		if err != nil {
 			return err
 		}
-		v.f.SetValue(v.spec, x)
+		if given {
+			v.f.SetValue(v.spec, x)
+		} else {
+			v.f.Clear(v.spec)
+		}
 	case model.ClassText:
 		if v.f.Lower {
 			s = strings.ToLower(s)
