@@ -69,7 +69,13 @@ type CatalogueField struct {
 	// force beside the field: the doping-dependent lifetime of an empty
 	// lifetime, the band gap of a material.
 	Shows string
+	// InSolver names, for an effect switch, what of the effect the
+	// drift-diffusion solver always contains (its switch then applies to
+	// the analytic values only, and a numeric result says so); "" when the
+	// solver follows the switch or lacks the effect.
+	InSolver string
 
+	zeroEmpty bool // a zero member is the empty value (not only an absent one)
 	num       func(*Spec) (float64, bool)
 	setN      func(*Spec, float64)
 	clear     func(*Spec)
@@ -143,6 +149,11 @@ func (f CatalogueField) SetValue(s *Spec, v float64) {
 	}
 	f.setN(s, v)
 }
+
+// ZeroIsEmpty reports whether a zero member is the field's empty value (a
+// long region, no shunt); false where zero is a value (a perfectly
+// passivated contact, a bias of 0 V) and only absence is empty.
+func (f CatalogueField) ZeroIsEmpty() bool { return f.zeroEmpty }
 
 // Clear empties the field: the member's zero (or absent) value, which
 // means Zero.
@@ -246,7 +257,7 @@ func (f CatalogueField) Applies(s Spec) bool {
 // value builds a ClassValue entry on a float64 member; where zero means
 // something (zero != "") a zero member is the empty value.
 func value(key, flag, label string, k Kind, zero, help string, p func(*Spec) *float64) CatalogueField {
-	return CatalogueField{Key: key, Flag: flag, Label: label, Class: ClassValue, Kind: k, Zero: zero, Help: help,
+	return CatalogueField{Key: key, Flag: flag, Label: label, Class: ClassValue, Kind: k, Zero: zero, Help: help, zeroEmpty: zero != "",
 		num:   func(s *Spec) (float64, bool) { v := *p(s); return v, zero == "" || v != 0 },
 		setN:  func(s *Spec, v float64) { *p(s) = v },
 		clear: func(s *Spec) { *p(s) = 0 }}
@@ -316,6 +327,11 @@ func (f CatalogueField) refines(parent string) CatalogueField {
 	return f
 }
 
+func (f CatalogueField) inSolver(what string) CatalogueField {
+	f.InSolver = what
+	return f
+}
+
 func (f CatalogueField) choose(c func(Spec) []Choice) CatalogueField {
 	f.choices = c
 	return f
@@ -382,28 +398,29 @@ func Catalogue() []CatalogueField {
 		value("power_limit_W", FieldPowerLimit, "power limit", Power, "1 W", "flag a bias or sweep dissipating more than this, e.g. 250mW (omitted: 1 W)", func(s *Spec) *float64 { return &s.PowerLimit }).
 			form(InputConditions, "Power limit for flags", "dissipation above which a bias is flagged").empty("0", "default"),
 
-		effect("no_scr_recombination", "no-srh", "effect: depletion-region recombination", "effect off: depletion-region SRH recombination and generation",
+		effect("no_scr_recombination", "no-srh", "effect: depletion-region recombination", "effect off: depletion-region recombination and generation (Sah, Noyce, Shockley 1957)",
 			func(s *Spec) *bool { return &s.Effects.NoSRH }).
-			form(InputConditions, "SCR recombination", "recombination and generation in the depletion region").section("Effects switched on"),
-		effect("no_high_injection", "no-hli", "effect: high injection", "effect off: high injection",
+			form(InputConditions, "SCR recombination", "recombination and generation in the depletion region").section("Effects switched on").
+			inSolver("recombination in the depletion region"),
+		effect("no_high_injection", "no-hli", "effect: high injection", "effect off: high injection at the depletion edges",
 			func(s *Spec) *bool { return &s.Effects.NoHighInjection }).
-			form(InputConditions, "High injection", "the ideality rising towards 2 at high current"),
-		effect("no_series_resistance", "no-rs", "effect: series resistance", "effect off: series resistance of the regions and --rc",
+			form(InputConditions, "High injection", "the ideality rising towards 2 at high current").inSolver("high injection"),
+		effect("no_series_resistance", "no-rs", "effect: series resistance", "effect off: series resistance of the regions and --rc, solved self-consistently",
 			func(s *Spec) *bool { return &s.Effects.NoSeriesResistance }).
-			form(InputConditions, "Series resistance", "voltage drop in the neutral regions and contacts"),
-		effect("no_band_gap_narrowing", "no-bgn", "effect: band-gap narrowing", "effect off: band-gap narrowing",
+			form(InputConditions, "Series resistance", "voltage drop in the neutral regions and contacts").inSolver("the resistance of the simulated regions"),
+		effect("no_band_gap_narrowing", "no-bgn", "effect: band-gap narrowing", "effect off: band-gap narrowing (Si only)",
 			func(s *Spec) *bool { return &s.Effects.NoBGN }).
 			form(InputConditions, "Band-gap narrowing", "smaller gap in heavily doped regions"),
-		text("effects.bgn_model", FieldBGNModel, "band-gap narrowing set", "klaassen1992", "band-gap narrowing set: klaassen1992 (default) or slotboom1976", func(s *Spec) *string { return &s.Effects.BGNModel }).
+		text("effects.bgn_model", FieldBGNModel, "band-gap narrowing set", "klaassen1992", "band-gap narrowing set: klaassen1992 (default; Klaassen, Slotboom, de Graaff 1992) or slotboom1976 (Slotboom, de Graaff 1976)", func(s *Spec) *string { return &s.Effects.BGNModel }).
 			form(InputConditions, "narrowing data set", "published parameter set of the band-gap narrowing").refines("no-bgn").
 			choose(fixed(Choice{"", "Klaassen 1992 (usual)"}, Choice{"klaassen1992", "Klaassen 1992"}, Choice{"slotboom1976", "Slotboom 1976"})),
-		effect("no_incomplete_ionisation", "no-ion", "effect: incomplete ionisation", "effect off: incomplete ionisation (dopants fully ionised)",
+		effect("no_incomplete_ionisation", "no-ion", "effect: incomplete ionisation", "effect off: incomplete ionisation of the dopants (Fermi-Dirac occupation of their levels)",
 			func(s *Spec) *bool { return &s.Effects.NoIonisation }).
 			form(InputConditions, "Incomplete ionisation", "dopants not all ionised (shallow levels, low temperature)"),
-		text("effects.ionisation_model", FieldIonisationModel, "dopant levels of incomplete ionisation", "single-level", "dopant levels of incomplete ionisation: single-level (default) or lowered", func(s *Spec) *string { return &s.Effects.IonisationModel }).
+		text("effects.ionisation_model", FieldIonisationModel, "dopant levels of incomplete ionisation", "single-level", "dopant levels of incomplete ionisation: single-level (default: one isolated level per dopant, fully ionised above its Mott density) or lowered (level lowered with doping)", func(s *Spec) *string { return &s.Effects.IonisationModel }).
 			form(InputConditions, "dopant levels", "how the ionisation of a dopant is described").refines("no-ion").
 			choose(fixed(Choice{"", "single level (textbook)"}, Choice{"single-level", "single level"}, Choice{"lowered", "lowered with doping"})),
-		effect("no_breakdown", "no-breakdown", "effect: avalanche breakdown", "effect off: avalanche breakdown search and multiplication",
+		effect("no_breakdown", "no-breakdown", "effect: avalanche breakdown", "effect off: avalanche breakdown (ionisation integral) and multiplication",
 			func(s *Spec) *bool { return &s.Effects.NoBreakdown }).
 			form(InputConditions, "Avalanche breakdown", "impact ionisation: multiplication and breakdown voltage"),
 

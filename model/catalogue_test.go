@@ -278,3 +278,46 @@ func TestEffectsFromCatalogue(t *testing.T) {
 		owner[off[0]] = f.Flag
 	}
 }
+
+// A numeric result says which switched-off effects the solver contains
+// all the same, from the catalogue's InSolver: each such switch off alone
+// gives the numeric-effects flag naming what the solver keeps, and a
+// switch the solver follows (breakdown) gives none.
+func TestNumericEffectsFlagFromCatalogue(t *testing.T) {
+	message := func(s Spec) (string, bool) {
+		d, err := BuildNumericDevice(s, NumericSpec{}, -1)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, f := range d.Flags {
+			if f.Code == FlagNumericEffects {
+				return f.Message, true
+			}
+		}
+		return "", false
+	}
+	if m, ok := message(DefaultSpec()); ok {
+		t.Errorf("every effect on: flag %q", m)
+	}
+	n := 0
+	for _, f := range Catalogue() {
+		if f.Class != ClassEffect {
+			continue
+		}
+		s := DefaultSpec()
+		f.SetOff(&s, true)
+		m, ok := message(s)
+		switch {
+		case f.InSolver == "" && ok:
+			t.Errorf("%s off: flag %q for an effect the solver follows", f.Flag, m)
+		case f.InSolver != "" && (!ok || !strings.Contains(m, "contains "+f.InSolver+":")):
+			t.Errorf("%s off: flag %q (%v), want it to name %q alone", f.Flag, m, ok, f.InSolver)
+		}
+		if f.InSolver != "" {
+			n++
+		}
+	}
+	if n == 0 {
+		t.Error("no effect entry is marked as always in the solver")
+	}
+}

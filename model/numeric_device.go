@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 
 	"junco/physics"
 	"junco/physics/solver"
@@ -202,8 +203,14 @@ func BuildNumericDevice(spec Spec, num NumericSpec, vmin float64) (*NumericDevic
 	if spec.ContactResistance > 0 || spec.ShuntResistance > 0 {
 		flag(FlagNumericExternal, []physics.Class{physics.ClassCurrent}, "the contact and shunt resistances are outside the simulated device: the numeric current is that of the device alone")
 	}
-	if spec.Effects.NoSRH || spec.Effects.NoHighInjection || spec.Effects.NoSeriesResistance {
-		flag(FlagNumericEffects, []physics.Class{physics.ClassCurrent}, "the drift-diffusion model always contains recombination in the depletion region, high injection and the resistance of the simulated regions: the switches that turn them off apply to the analytic values only")
+	var always []string // what the solver contains although switched off
+	for _, f := range Catalogue() {
+		if f.InSolver != "" && f.Off(spec) {
+			always = append(always, f.InSolver)
+		}
+	}
+	if len(always) > 0 {
+		flag(FlagNumericEffects, []physics.Class{physics.ClassCurrent}, "the drift-diffusion model always contains "+strings.Join(always, ", ")+": the switches that turn them off apply to the analytic values only")
 	}
 	// The Spec's light illuminates the biased solutions (the p side's
 	// contact is the anode, the n side's the cathode: solver.Device.Light).

@@ -48,7 +48,11 @@ type specField struct {
 	kind   model.Kind
 	text   bool   // a text field, shown quoted
 	effect bool   // an effect switch: true (off) or absent (on)
-	zero   string // shown for 0 or absent ("" = show the number)
+	zero   string // shown for absent, and for 0 where zeroEmpty ("" = show the number)
+	// zeroEmpty: a zero member is the empty value (a long region); where
+	// it is not, 0 is a value (a contact velocity of 0 is a passivated
+	// surface, not an ohmic contact).
+	zeroEmpty bool
 }
 
 // specFields lists the Spec members junco knows, in display order, from
@@ -58,7 +62,7 @@ func specFields() []specField {
 	out := make([]specField, 0, len(cat))
 	for _, f := range cat {
 		out = append(out, specField{key: f.Key, label: f.Label + " (" + f.Flag + ")", kind: f.Kind,
-			text: f.Class == model.ClassText, effect: f.Class == model.ClassEffect, zero: f.Zero})
+			text: f.Class == model.ClassText, effect: f.Class == model.ClassEffect, zero: f.Zero, zeroEmpty: f.ZeroIsEmpty()})
 	}
 	return out
 }
@@ -159,7 +163,7 @@ func (f specField) format(raw json.RawMessage, ascii bool) string {
 	if err != nil {
 		return compactJSON(raw)
 	}
-	if v == 0 && f.zero != "" {
+	if v == 0 && f.zero != "" && f.zeroEmpty {
 		return f.zero
 	}
 	return model.Format(f.kind, v, 4, ascii)

@@ -122,23 +122,16 @@ func newCalcFlags(o *calcOptions, stderr io.Writer) *flag.FlagSet {
 	return fs
 }
 
-// calcHelp is the description printed by `junco calc --help`.
-const calcHelp = `Evaluate one pn junction: depletion-approximation electrostatics, the ideal
+// calcHelp is the description printed by `junco calc --help`; its list
+// of effects comes from the catalogue (model.Catalogue).
+func calcHelp() string {
+	return `Evaluate one pn junction: depletion-approximation electrostatics, the ideal
 (Shockley) diffusion currents and, on by default, the non-ideal effects of a
 real diode. Values take units (1e17cm-3, 300K, 1mm2, 10ohm); a bare number
 takes the unit named in brackets. Positive bias is forward.
 
 Effects (all on by default; each flag turns one off, --ideal turns all off):
-  --no-srh        depletion-region recombination/generation (Sah-Noyce-Shockley)
-  --no-hli        high injection at the depletion edges
-  --no-rs         series resistance of the regions (+ --rc), solved self-consistently
-  --no-bgn        band-gap narrowing (Klaassen-Slotboom-de Graaff 1992; Si only)
-  --no-ion        incomplete ionisation of the dopants (Fermi-Dirac); --ion-model
-                  single-level (default: one isolated level per dopant, fully
-                  ionised above its Mott density) or lowered (level lowered
-                  with doping)
-  --no-breakdown  avalanche breakdown (ionisation integral) and multiplication
-current_A is the total with the enabled effects; ideal_current_A stays the
+` + effectsHelp() + `current_A is the total with the enabled effects; ideal_current_A stays the
 Shockley current.
 
 Sweeps: --sweep FROM:TO:STEP (bias) or --tsweep FROM:TO:STEP (temperature),
@@ -148,6 +141,46 @@ Sessions: --session NAME|FILE starts from a stored junction (the flags given
 override its values); --save NAME stores the evaluated junction.
 
 Caution: ` + model.Caution
+}
+
+// effectsHelp lists the catalogue's effect switches, each with the fields
+// that refine it, one per entry wrapped at 80 columns.
+func effectsHelp() string {
+	var b strings.Builder
+	cat := model.Catalogue()
+	for _, f := range cat {
+		if f.Class != model.ClassEffect {
+			continue
+		}
+		writeHanging(&b, fmt.Sprintf("  --%-13s ", f.Flag), strings.TrimPrefix(f.Help, "effect off: "))
+		for _, r := range cat {
+			if r.Parent == f.Flag {
+				_, choices, _ := strings.Cut(r.Help, ": ")
+				writeHanging(&b, strings.Repeat(" ", 18), "--"+r.Flag+" "+choices)
+			}
+		}
+	}
+	return b.String()
+}
+
+// writeHanging writes text after head, wrapped at 80 columns, its further
+// lines indented as far as head.
+func writeHanging(b *strings.Builder, head, text string) {
+	line := head
+	n := 0
+	for _, w := range strings.Fields(text) {
+		if n > 0 && len(line)+1+len(w) > 80 {
+			b.WriteString(line + "\n")
+			line, n = strings.Repeat(" ", len(head)), 0
+		}
+		if n > 0 {
+			line += " "
+		}
+		line += w
+		n++
+	}
+	b.WriteString(line + "\n")
+}
 
 // addCalcSessionFlags defines the session flags of calc (all) and solve
 // (--session and --data; --save hidden, only to say it belongs to calc).
@@ -206,7 +239,7 @@ func newCalcCmd(e *env) *cobra.Command {
 	cmd := &cobra.Command{
 		Use:   "calc [flags]",
 		Short: "evaluate one junction",
-		Long:  calcHelp,
+		Long:  calcHelp(),
 		Args:  noArgs,
 		RunE: func(cmd *cobra.Command, _ []string) error {
 			if err := checkSessionFlags(cmd); err != nil {

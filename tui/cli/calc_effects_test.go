@@ -4,6 +4,8 @@ import (
 	"encoding/json"
 	"strings"
 	"testing"
+
+	"junco/model"
 )
 
 // --sweep with --csv writes one CSV row per bias with unit-labelled
@@ -85,6 +87,34 @@ func TestCalcEffectSwitches(t *testing.T) {
 	for _, w := range []string{"--no-srh", "--sweep", "--tsweep", "power-limit", "rated limits"} {
 		if !strings.Contains(help, w) {
 			t.Errorf("help lacks %q", w)
+		}
+	}
+}
+
+// calc --help lists the catalogue's effects: every effect switch with its
+// description, and under it the flags that refine it; each line fits 80
+// columns.
+func TestCalcHelpListsCatalogueEffects(t *testing.T) {
+	_, help, _ := runCLI(t, "calc", "--help")
+	desc, _, _ := strings.Cut(help, "Usage:")
+	flat := strings.Join(strings.Fields(desc), " ")
+	for _, f := range model.Catalogue() {
+		switch {
+		case f.Class == model.ClassEffect:
+			want := "--" + f.Flag + " " + strings.TrimPrefix(f.Help, "effect off: ")
+			if !strings.Contains(flat, want) {
+				t.Errorf("calc --help lacks %q", want)
+			}
+		case f.Parent != "":
+			_, choices, _ := strings.Cut(f.Help, ": ")
+			if !strings.Contains(flat, "--"+f.Flag+" "+choices) {
+				t.Errorf("calc --help lacks --%s %s", f.Flag, choices)
+			}
+		}
+	}
+	for _, l := range strings.Split(desc, "\n") {
+		if len(l) > 80 && !strings.HasPrefix(l, "Caution:") {
+			t.Errorf("line over 80 columns: %q", l)
 		}
 	}
 }
