@@ -118,3 +118,23 @@ func TestCalcHelpListsCatalogueEffects(t *testing.T) {
 		}
 	}
 }
+
+// The words for an empty value are the catalogue's, as in the workbench:
+// --wp long, --sp ohmic, --rsh none and --taun auto give the junction with
+// those flags omitted, while --sp 0 (a passivated contact) is a value and
+// a word of another field (--sp long) is refused.
+func TestCalcEmptyValueWords(t *testing.T) {
+	base := jsonOf(t, "calc", "--wp", "2um", "--json")
+	words := jsonOf(t, "calc", "--wp", "2um", "--wn", "long", "--sp", "ohmic", "--rsh", "none", "--taun", "auto", "--json")
+	for _, k := range []string{"saturation_current_A", "current_A", "electron_lifetime_s"} {
+		if base[k] != words[k] {
+			t.Errorf("%s: %v with the words, %v without the flags", k, words[k], base[k])
+		}
+	}
+	if passivated := jsonOf(t, "calc", "--wp", "2um", "--sp", "0", "--json"); passivated["saturation_current_A"] == base["saturation_current_A"] {
+		t.Error("--sp 0 read as an ohmic contact")
+	}
+	if code, _, _ := runCLI(t, "calc", "--sp", "long"); code != exitUsage {
+		t.Errorf("--sp long: exit %d, want %d", code, exitUsage)
+	}
+}
