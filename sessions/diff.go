@@ -169,6 +169,12 @@ func (f specField) format(raw json.RawMessage, ascii bool) string {
 	return model.Format(f.kind, v, 4, ascii)
 }
 
+// empty reports whether a stored member (raw, read as v) is the field's
+// empty value, shown by its Zero word.
+func (f specField) empty(raw json.RawMessage, v float64) bool {
+	return f.zero != "" && (raw == nil || string(raw) == "null" || (f.zeroEmpty && v == 0))
+}
+
 func (f specField) number(raw json.RawMessage) (float64, bool) {
 	if f.text || f.effect || raw == nil {
 		return 0, false
@@ -243,7 +249,9 @@ func Diff(a, b *Document, ascii bool) []Change {
 		if rb == nil {
 			vb, okb = 0, !f.text && !f.effect
 		}
-		if oka && okb {
+		// An empty side ("from doping", "long") is no number to differ
+		// from: its value in force is not the 0 stored.
+		if oka && okb && !f.empty(ra, va) && !f.empty(rb, vb) {
 			d = Delta(f.kind, va, vb, ascii)
 		}
 		add(SectionInputs, f.label, f.format(ra, ascii), f.format(rb, ascii), d)

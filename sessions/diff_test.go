@@ -43,7 +43,7 @@ func TestDiffInputsAndResults(t *testing.T) {
 		t.Errorf("doping row: %+v", nd)
 	}
 	taup, ok := findChange(ch, SectionInputs, "hole lifetime tau_p (taup)")
-	if !ok || taup.Old != "from doping" || taup.New != model.Format(model.Time, 1e-6, 4, true) {
+	if !ok || taup.Old != "from doping" || taup.Delta != "changed" || taup.New != model.Format(model.Time, 1e-6, 4, true) {
 		t.Errorf("lifetime row: %+v", taup)
 	}
 	if _, ok := findChange(ch, SectionSweeps, "bias sweep to"); !ok {
