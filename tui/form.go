@@ -452,6 +452,7 @@ func (f formModel) lines() []string {
 			label = st.strong.Paint(label)
 		}
 		var val string
+		rowNowW := nowW
 		switch {
 		case focused && f.typing:
 			val = "[" + f.ed.view(inputW, st.selected, " ") + "]"
@@ -461,10 +462,14 @@ func (f formModel) lines() []string {
 				shown = g.left + " " + shown + " " + g.right
 			}
 			// A choice with no value in force beside it may use that
-			// column too.
+			// column too; one with a value takes of that column what its
+			// label needs while the value still fits.
 			cw := inputW
-			if f.nowText(i) == "" {
+			if now := f.nowText(i); now == "" {
 				cw = inputW + nowW
+			} else if sw := width(shown); sw > inputW {
+				cw = max(inputW, min(sw, inputW+nowW-width(now)))
+				rowNowW -= cw - inputW
 			}
 			val = " " + padRight(shown, cw, g.ellipsis) + " "
 		default:
@@ -481,9 +486,9 @@ func (f formModel) lines() []string {
 		now := f.nowText(i)
 		var nowP string
 		if fs.err != "" {
-			nowP = st.err.Paint(cut(g.bad+" kept "+now, nowW, g.ellipsis))
+			nowP = st.err.Paint(cut(g.bad+" kept "+now, rowNowW, g.ellipsis))
 		} else {
-			nowP = st.muted.Paint(cut(now, nowW, g.ellipsis))
+			nowP = st.muted.Paint(cut(now, rowNowW, g.ellipsis))
 		}
 		if focused {
 			focusLine = len(body)

@@ -6,6 +6,8 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/charmbracelet/x/ansi"
+
 	"junco/model"
 )
 
@@ -175,5 +177,41 @@ func TestEveryCatalogueFieldEditsInTheForm(t *testing.T) {
 				t.Errorf("its own text %q gave %g (%v), want %g (%v)", fieldText(m.form.defs[i], before), v1, g1, v0, g0)
 			}
 		})
+	}
+}
+
+// Every choice of every catalogue choice field is shown whole when focused
+// at each golden size, beside the value in force it shows (a long material
+// name takes room from that column while the value still fits).
+func TestChoiceLabelsWhole(t *testing.T) {
+	for _, size := range goldenSizes {
+		for _, base := range testJunctions() {
+			for _, c := range model.Catalogue() {
+				if c.Class == model.ClassValue || !c.Applies(base) {
+					continue
+				}
+				for _, o := range c.Choices(base) {
+					s := base
+					c.SetChoice(&s, o.Value)
+					if s.Validate() != nil {
+						continue
+					}
+					m := start(New(Options{Renderer: plainRenderer(), Width: size[0], Height: size[1], Spec: &s}))
+					if m.form.initErr != "" {
+						continue
+					}
+					m = goToField(t, press(m, string(rune('1'+int(c.Group)))), c.Flag)
+					f := m.form
+					f.SetSize(f.w, 400)
+					v := flat(ansi.Strip(f.View()))
+					if !strings.Contains(v, o.Label) {
+						t.Errorf("%v %s = %q: label %q cut:\n%s", size, c.Flag, o.Value, o.Label, ansi.Strip(f.View()))
+					}
+					if now := f.nowText(f.cur); now != "" && !strings.Contains(v, now) {
+						t.Errorf("%v %s = %q: value in force %q cut", size, c.Flag, o.Value, now)
+					}
+				}
+			}
+		}
 	}
 }
