@@ -354,7 +354,7 @@ func optionIndex(opts []option, v string) int {
 
 func (f *formModel) setChoice(i int, v string) {
 	d := f.defs[i]
-	cand := f.spec
+	before, cand := f.spec, f.spec
 	d.setStr(&cand, v)
 	// A choice the changed junction no longer offers (a species of
 	// another material) falls back to the usual one, the empty choice.
@@ -379,9 +379,9 @@ func (f *formModel) setChoice(i int, v string) {
 		f.fs[i].err = ""
 		return
 	}
-	// The other choices show what is in force now.
+	// The other choices that changed show what is in force now.
 	for j, o := range f.defs {
-		if j != i && o.choice && f.fs[j].text != o.str(f.spec) {
+		if j != i && o.choice && o.str(f.spec) != o.str(before) {
 			f.fs[j] = fieldState{text: o.str(f.spec)}
 		}
 	}
