@@ -303,7 +303,7 @@ func (f *formModel) commit(i int, cand model.Spec) bool {
 		var others []string
 		for _, fe := range ve.Fields {
 			if j := f.index(fe.Field); j >= 0 {
-				others = append(others, f.defs[j].label+" "+fe.Value+" (allowed "+fe.Allowed+")")
+				others = append(others, f.defs[j].Title+" "+fe.Value+" (allowed "+fe.Allowed+")")
 			}
 		}
 		f.fs[i].err = "not applied: with this value " + strings.Join(others, "; ") + " would be out of range"
@@ -325,7 +325,7 @@ func (f *formModel) commit(i int, cand model.Spec) bool {
 // describe words a field error for the panel: the value, the allowed
 // range and why (the field is named by its row).
 func (f formModel) describe(i int, fe model.FieldError) string {
-	return fmt.Sprintf("%s: %s is not allowed (allowed %s): %s", f.defs[i].label, fe.Value, fe.Allowed, fe.Why)
+	return fmt.Sprintf("%s: %s is not allowed (allowed %s): %s", f.defs[i].Title, fe.Value, fe.Allowed, fe.Why)
 }
 
 // cycle steps a choice field through its options.
