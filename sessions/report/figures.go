@@ -4,17 +4,10 @@ import (
 	"bytes"
 	"encoding/csv"
 	"fmt"
-	"image/color"
 	"math"
 	"strconv"
 	"strings"
 	"unicode"
-
-	"gonum.org/v1/plot"
-	"gonum.org/v1/plot/plotter"
-	"gonum.org/v1/plot/vg"
-	"gonum.org/v1/plot/vg/draw"
-	"gonum.org/v1/plot/vg/vgsvg"
 
 	"junco/model"
 	"junco/physics"
@@ -339,7 +332,7 @@ func axisTitle(a model.Axis, unit string, logAbs bool) string {
 
 // buildPlot lays out a figure for drawing. The y range follows yExtent and
 // every line is clipped to it.
-func buildPlot(f Figure) (*plot.Plot, error) {
+func buildPlot(f Figure) (*chart, error) {
 	c := f.Curve
 	xlo, xhi, okx := xExtent(c)
 	ylo, yhi, oky := yExtent(f)
@@ -348,15 +341,12 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 	}
 	xu, xf := displayUnit(c.X, math.Max(math.Abs(xlo), math.Abs(xhi)))
 	yu, yf := displayUnit(c.Y, math.Max(math.Abs(ylo), math.Abs(yhi)))
-	p := plot.New()
-	p.Title.Text = c.Title
-	p.X.Label.Text = axisTitle(c.X, xu, false)
-	p.Y.Label.Text = axisTitle(c.Y, yu, f.LogY)
+	p := &chart{Title: c.Title, grid: true}
+	p.X.Title = axisTitle(c.X, xu, false)
+	p.Y.Title = axisTitle(c.Y, yu, f.LogY)
 	if f.LogY {
-		p.Y.Scale = plot.LogScale{}
-		p.Y.Tick.Marker = decadeTicks{}
+		p.Y.Scale = scaleLog
 	}
-	p.Add(plotter.NewGrid())
 	prim := c.Primary()
 	// The total is drawn last, over its components.
 	order := make([]int, 0, len(c.Series))
@@ -368,36 +358,21 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 	if prim >= 0 {
 		order = append(order, prim)
 	}
-	thumbs := make([]plot.Thumbnailer, len(c.Series))
+	strokes := make([]stroke, len(c.Series))
 	for _, si := range order {
 		if f.dots(si) {
 			continue
 		}
 		s := c.Series[si]
-		col := seriesColour(c, si)
-		style := func(l *plotter.Line) {
-			l.Color = col
-			l.Width = vg.Points(1.2)
-			if si == prim || (prim < 0 && si == 0) {
-				l.Width = vg.Points(2)
-			} else {
-				l.Dashes = []vg.Length{vg.Points(4 + float64(si)), vg.Points(2)}
-			}
+		st := stroke{colour: seriesColour(c, si), width: 1.2}
+		if si == prim || (prim < 0 && si == 0) {
+			st.width = 2
+		} else {
+			st.dash = []float64{4 + float64(si), 2}
 		}
-		var seg plotter.XYs
-		flush := func() {
-			if len(seg) == 0 {
-				return
-			}
-			l, err := plotter.NewLine(seg)
-			seg = nil
-			if err != nil {
-				return
-			}
-			style(l)
-			p.Add(l)
-			thumbs[si] = l
-		}
+		strokes[si] = st
+		ln := chartLine{st: st}
+		var seg [][2]float64
 		for i, x := range c.Xs {
 			if i >= len(s.Y) {
 				break
@@ -407,39 +382,59 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 				y = math.Abs(y)
 			}
 			if !physics.Finite(x) || !physics.Finite(y) || (f.LogY && y <= 0) {
-				flush()
+				if len(seg) > 0 {
+					ln.segs = append(ln.segs, seg)
+				}
+				seg = nil
 				continue
 			}
-			seg = append(seg, plotter.XY{X: x * xf, Y: y * yf})
+			seg = append(seg, [2]float64{x * xf, y * yf})
 		}
-		flush()
-		if thumbs[si] == nil {
-			// No line (zero everywhere on a log axis): the legend still
-			// lists it, saying why.
-			l := &plotter.Line{}
-			style(l)
-			thumbs[si] = l
+		if len(seg) > 0 {
+			ln.segs = append(ln.segs, seg)
 		}
+		p.lines = append(p.lines, ln)
 	}
 	if len(c.Series) > 1 {
 		for si, s := range c.Series {
 			if f.dots(si) {
-				continue // listed by addDots
+				continue // listed with the points below
 			}
 			name := s.Label
 			if f.LogY && model.ZeroSeries(s.Y) {
+				// No line (zero everywhere on a log axis): the legend
+				// still lists it, saying why.
 				name += " (zero, not drawn)"
 			}
-			p.Legend.Add(name, thumbs[si])
+			p.legend = append(p.legend, legendEntry{label: name, st: strokes[si]})
 		}
 	}
 	// Points go on top of the lines, so that a fit through them leaves
 	// them visible.
 	for _, si := range dotted(f) {
-		addDots(p, f, si, seriesColour(c, si))
+		col := seriesColour(c, si)
+		d := chartDots{colour: col}
+		for i, x := range c.Xs {
+			if i >= len(c.Series[si].Y) {
+				break
+			}
+			y := c.Series[si].Y[i]
+			if f.LogY {
+				y = math.Abs(y)
+			}
+			if physics.Finite(x) && physics.Finite(y) && (!f.LogY || y > 0) {
+				d.pts = append(d.pts, [2]float64{x * xf, y * yf})
+			}
+		}
+		if len(d.pts) == 0 {
+			continue
+		}
+		p.dots = append(p.dots, d)
+		if len(c.Series) > 1 {
+			p.legend = append(p.legend, legendEntry{label: c.Series[si].Label, st: stroke{colour: col, width: 1}, dot: true})
+		}
 	}
-	// The ranges are set after the lines and points are added (adding a line widens
-	// the axes to its data): the lines are clipped to them.
+	// Every line and point is clipped to these ranges.
 	if f.LogY {
 		// Whole decades around the range.
 		p.Y.Min = math.Pow(10, math.Floor(math.Log10(ylo*yf)+1e-9))
@@ -461,15 +456,12 @@ func buildPlot(f Figure) (*plot.Plot, error) {
 		p.X.Min, p.X.Max = p.X.Min-1, p.X.Max+1
 	}
 	if splitFor(c, p.X.Min, p.X.Max) {
-		p.X.Scale, p.X.Tick.Marker = splitX{}, splitTicks{}
-		p.X.Label.Text += ", each side of the junction to its own scale"
+		p.X.Scale = scaleSplit
+		p.X.Title += ", each side of the junction to its own scale"
 	}
 	if c.DepletionDominated() != nil && !f.LogY {
-		p.Title.Text += " (scaled where the depletion part dominates)"
+		p.Title += " (scaled where the depletion part dominates)"
 	}
-	p.Legend.Top = true
-	p.Legend.Left = true
-	p.Legend.Padding = vg.Points(3)
 	return p, nil
 }
 
@@ -484,93 +476,18 @@ func dotted(f Figure) []int {
 	return out
 }
 
-// addDots draws series si of f as open circles (scaled to the axes'
-// display units like the lines), with a legend entry.
-func addDots(p *plot.Plot, f Figure, si int, col color.RGBA) {
-	c := f.Curve
-	xlo, xhi, _ := xExtent(c)
-	ylo, yhi, _ := yExtent(f)
-	_, xf := displayUnit(c.X, math.Max(math.Abs(xlo), math.Abs(xhi)))
-	_, yf := displayUnit(c.Y, math.Max(math.Abs(ylo), math.Abs(yhi)))
-	var pts plotter.XYs
-	for i, x := range c.Xs {
-		if i >= len(c.Series[si].Y) {
-			break
-		}
-		y := c.Series[si].Y[i]
-		if f.LogY {
-			y = math.Abs(y)
-		}
-		if physics.Finite(x) && physics.Finite(y) && (!f.LogY || y > 0) {
-			pts = append(pts, plotter.XY{X: x * xf, Y: y * yf})
-		}
-	}
-	if len(pts) == 0 {
-		return
-	}
-	sc, err := plotter.NewScatter(pts)
-	if err != nil {
-		return
-	}
-	sc.GlyphStyle = draw.GlyphStyle{Color: col, Radius: vg.Points(1.5), Shape: draw.CircleGlyph{}}
-	p.Add(sc)
-	if len(c.Series) > 1 {
-		p.Legend.Add(c.Series[si].Label, sc)
-	}
-}
-
-// decadeTicks marks a logarithmic axis at every decade, labelled 1e-9.
-type decadeTicks struct{}
-
-func (decadeTicks) Ticks(lo, hi float64) []plot.Tick {
-	ticks := plot.LogTicks{}.Ticks(lo, hi)
-	for i := range ticks {
-		if ticks[i].Label != "" {
-			ticks[i].Label = "1e" + strconv.Itoa(int(math.Round(math.Log10(ticks[i].Value))))
-		}
-	}
-	return ticks
-}
-
-// FigureSVG draws a figure as SVG (16 cm by 10 cm, fonts not embedded):
-// one line per series, a legend when there are several, trade units on
-// both axes, |y| on a logarithmic axis for LogY figures. Points where a
-// value is not defined (or not positive on a log axis) break the line.
-func FigureSVG(f Figure) (svg []byte, err error) {
-	c := f.Curve
-	// The plotting library panics on some degenerate inputs; a figure
-	// that cannot be drawn is reported, never allowed to stop an export.
-	defer func() {
-		if r := recover(); r != nil {
-			svg, err = nil, fmt.Errorf("figure %q cannot be drawn: %v", c.ID, r)
-		}
-	}()
+// FigureSVG draws a figure as SVG (a 16 cm by 10 cm plot, fonts not
+// embedded): one line per series, a legend when there are several, in a
+// column right of the plot (the figure is widened by it, so that it never
+// covers a curve), trade units on both axes, |y| on a logarithmic axis
+// for LogY figures. Points where a value is not defined (or not positive
+// on a log axis) break the line.
+func FigureSVG(f Figure) ([]byte, error) {
 	p, err := buildPlot(f)
 	if err != nil {
 		return nil, err
 	}
-	// The legend stands in a column right of the plot, never over a
-	// curve; the figure is widened by that column.
-	lw := legendWidth(p)
-	cv := vgsvg.NewWith(vgsvg.UseWH(16*vg.Centimeter+lw, 10*vg.Centimeter), vgsvg.EmbedFonts(false))
-	dc := draw.New(cv)
-	if lw > 0 {
-		// One white ground under the plot and the legend column.
-		dc.SetColor(color.White)
-		dc.Fill(dc.Rectangle.Path())
-		legend := p.Legend
-		p.Legend = plot.NewLegend()
-		p.Draw(draw.Crop(dc, 0, -lw, 0, 0))
-		legend.YOffs = -p.Title.TextStyle.Height(p.Title.Text) - p.Title.Padding
-		legend.Draw(draw.Crop(dc, 16*vg.Centimeter+vg.Points(6), 0, 0, 0))
-	} else {
-		p.Draw(dc)
-	}
-	var b bytes.Buffer
-	if _, err := cv.WriteTo(&b); err != nil {
-		return nil, fmt.Errorf("drawing %q: %w", c.ID, err)
-	}
-	return b.Bytes(), nil
+	return p.svg(), nil
 }
 
 // ---------------------------------------------------------------- text chart

@@ -4,11 +4,6 @@ import (
 	"image/color"
 	"math"
 
-	"gonum.org/v1/plot"
-	"gonum.org/v1/plot/vg"
-	"gonum.org/v1/plot/vg/draw"
-	"gonum.org/v1/plot/vg/vgsvg"
-
 	"junco/model"
 	"junco/physics"
 )
@@ -78,54 +73,9 @@ func seriesColour(c model.Curve, i int) color.RGBA {
 	return colours[k%len(colours)]
 }
 
-// legendWidth is the width of the legend column of a plot (0 without a
-// legend): the widest entry with its thumbnail and some room.
-func legendWidth(p *plot.Plot) vg.Length {
-	r := p.Legend.Rectangle(draw.New(vgsvg.New(100*vg.Centimeter, 100*vg.Centimeter)))
-	// A third more than measured: the fonts are not embedded, and a
-	// viewer's substitute may run wider than the metrics used here.
-	if w := r.Max.X - r.Min.X; w > 0 {
-		return w*4/3 + vg.Points(12)
-	}
-	return 0
-}
-
 // splitRatio is the ratio of the two sides' extents beyond which a figure
 // across the junction gives each side its own x scale.
 const splitRatio = 100
-
-// splitX is an x axis whose negative and positive parts each take half
-// the width, each on its own linear scale: across a junction whose one
-// side is far thinner than the other, both sides show.
-type splitX struct{}
-
-// Normalize maps x in [min, max] (min < 0 < max) to [0, 1]: min to 0,
-// zero to 0.5, max to 1.
-func (splitX) Normalize(min, max, x float64) float64 {
-	if x < 0 {
-		return 0.5 * (x - min) / -min
-	}
-	return 0.5 + 0.5*x/max
-}
-
-// splitTicks marks each side with its own round ticks, and zero.
-type splitTicks struct{}
-
-func (splitTicks) Ticks(min, max float64) []plot.Tick {
-	var out []plot.Tick
-	for _, t := range (plot.DefaultTicks{}).Ticks(min, 0) {
-		if t.Value < 0 {
-			out = append(out, t)
-		}
-	}
-	out = append(out, plot.Tick{Value: 0, Label: "0"})
-	for _, t := range (plot.DefaultTicks{}).Ticks(0, max) {
-		if t.Value > 0 {
-			out = append(out, t)
-		}
-	}
-	return out
-}
 
 // splitFor reports whether a figure's x values (display units, lo..hi)
 // call for a split axis: a position across the junction whose one side

@@ -166,18 +166,18 @@ func TestFigureSplitSides(t *testing.T) {
 	if !splitFor(f.Curve, p.X.Min, p.X.Max) {
 		t.Skipf("the example's sides (%g, %g) are not 100x apart", p.X.Min, p.X.Max)
 	}
-	if _, ok := p.X.Scale.(splitX); !ok {
-		t.Fatalf("x scale %T, want the split scale", p.X.Scale)
+	if p.X.Scale != scaleSplit {
+		t.Fatalf("x scale %v, want the split scale", p.X.Scale)
 	}
-	n := p.X.Scale.Normalize
-	if got := n(p.X.Min, p.X.Max, 0); got != 0.5 {
+	n := p.X.norm
+	if got := n(0); got != 0.5 {
 		t.Errorf("zero at %g of the width, want 0.5", got)
 	}
-	if n(p.X.Min, p.X.Max, p.X.Min) != 0 || n(p.X.Min, p.X.Max, p.X.Max) != 1 {
+	if n(p.X.Min) != 0 || n(p.X.Max) != 1 {
 		t.Error("the ends of the two sides are not the edges of the axis")
 	}
 	neg, pos := 0, 0
-	for _, tk := range (splitTicks{}).Ticks(p.X.Min, p.X.Max) {
+	for _, tk := range splitTicks(p.X.Min, p.X.Max) {
 		if tk.Label == "" {
 			continue
 		}

@@ -1,18 +1,14 @@
 package report
 
 import (
-	"bytes"
+	"cmp"
 	"fmt"
 	"image/color"
+	"maps"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
-
-	"gonum.org/v1/plot"
-	"gonum.org/v1/plot/text"
-	"gonum.org/v1/plot/vg"
-	"gonum.org/v1/plot/vg/draw"
-	"gonum.org/v1/plot/vg/vgsvg"
 
 	"junco/model"
 	"junco/model/fit"
@@ -40,65 +36,31 @@ func dieColor(cls fit.DieClass) color.RGBA {
 	return colors[cls]
 }
 
-// waferPlotter draws the dies of one wafer as squares, filled by class.
-type waferPlotter struct {
-	rows   []fit.BatchRow
-	grid   fit.DieGrid
-	param  int
-	sc     fit.ShadeScale
-	out    map[int]bool
-	limits []fit.Limit
-	label  text.Style
-}
-
-func (w waferPlotter) Plot(c draw.Canvas, p *plot.Plot) {
-	trX, trY := p.Transforms(&c)
-	for pos, k := range w.grid.At {
-		cls := fit.ClassOfDie(w.rows, k, w.param, w.sc, w.out, w.limits)
-		x, y := float64(pos[0]), float64(pos[1])
-		x0, x1 := trX(x-0.45), trX(x+0.45)
-		y0, y1 := trY(y-0.45), trY(y+0.45)
-		c.FillPolygon(dieColor(cls), []vg.Point{{X: x0, Y: y0}, {X: x1, Y: y0}, {X: x1, Y: y1}, {X: x0, Y: y1}})
-		if m := fit.DieMark(cls); m != "" {
-			st := w.label
-			st.Color = color.White
-			if cls == fit.DieNotRun || cls == fit.DieUndetermined {
-				st.Color = color.Black
-			}
-			c.FillText(st, vg.Point{X: (x0 + x1) / 2, Y: (y0 + y1) / 2}, m)
-		}
-	}
-}
-
-func (w waferPlotter) DataRange() (xmin, xmax, ymin, ymax float64) {
-	return float64(w.grid.X0) - 0.5, float64(w.grid.X1) + 0.5, float64(w.grid.Y0) - 0.5, float64(w.grid.Y1) + 0.5
-}
-
-// swatch is a legend thumbnail: a filled square.
-type swatch color.RGBA
-
-func (s swatch) Thumbnail(c *draw.Canvas) {
-	r := c.Rectangle
-	c.FillPolygon(color.RGBA(s), []vg.Point{r.Min, {X: r.Max.X, Y: r.Min.Y}, r.Max, {X: r.Min.X, Y: r.Max.Y}})
-}
-
 // dieTicks marks the whole die numbers from lo to hi (the grid's, not
 // the padding's), at most about ten labelled.
-type dieTicks struct{ lo, hi int }
-
-func (d dieTicks) Ticks(lo, hi float64) []plot.Tick {
-	a, b := max(int(math.Ceil(lo)), d.lo), min(int(math.Floor(hi)), d.hi)
-	step := max(1, (b-a+1+9)/10)
-	var out []plot.Tick
-	for v := a; v <= b; v++ {
-		t := plot.Tick{Value: float64(v)}
-		if (v-a)%step == 0 {
-			t.Label = strconv.Itoa(v)
+func dieTicks(glo, ghi int) func(lo, hi float64) []tick {
+	return func(lo, hi float64) []tick {
+		a, b := max(int(math.Ceil(lo)), glo), min(int(math.Floor(hi)), ghi)
+		step := max(1, (b-a+1+9)/10)
+		var out []tick
+		for v := a; v <= b; v++ {
+			t := tick{Value: float64(v)}
+			if (v-a)%step == 0 {
+				t.Label = strconv.Itoa(v)
+			}
+			out = append(out, t)
 		}
-		out = append(out, t)
+		return out
 	}
-	return out
 }
+
+// Wafer map sizes, in points.
+const (
+	waferWidth   = 16 * cm
+	waferHeight  = 11 * cm
+	waferLegendW = 5.5 * cm
+	waferLegendF = 9.0 // legend font size
+)
 
 // WaferMapSVG draws the wafer map of batch column param for wafer
 // (fit.WaferKey) as SVG (16 cm by 11 cm, fonts not embedded): one square
@@ -107,48 +69,66 @@ func (d dieTicks) Ticks(lo, hi float64) []plot.Tick {
 // fences, on log10 for Is, Is2 and Rsh) or by its mark (outlier, failed,
 // out of limits, not run, not determined, lettered as in the text map),
 // with the legend of the shades' value ranges at the right.
-func WaferMapSVG(res *fit.BatchResult, param int, wafer string, limits []fit.Limit, ascii bool) (svg []byte, err error) {
-	defer func() {
-		if r := recover(); r != nil {
-			svg, err = nil, fmt.Errorf("the wafer map cannot be drawn: %v", r)
-		}
-	}()
+func WaferMapSVG(res *fit.BatchResult, param int, wafer string, limits []fit.Limit, ascii bool) ([]byte, error) {
+	if param < 0 || param >= len(fit.BatchParams()) {
+		return nil, fmt.Errorf("batch column %d: allowed 0 to %d", param, len(fit.BatchParams())-1)
+	}
 	g := fit.NewDieGrid(res.Rows, wafer)
 	if g.N == 0 {
 		return nil, fmt.Errorf("no die positions to draw: name files like die_x03_y07.csv or r07c03.csv, or list them in %s", fit.ManifestName)
 	}
 	bp := fit.BatchParams()[param]
-	p := plot.New()
-	p.Title.Text = "Wafer map: " + bp.Label
+	title := "Wafer map: " + bp.Label
 	if wafer != "" {
-		p.Title.Text += ", wafer " + wafer
+		title += ", wafer " + wafer
 	}
-	p.X.Label.Text, p.Y.Label.Text = "die x", "die y"
-	p.Y.Scale = plot.InvertedScale{Normalizer: plot.LinearScale{}}
-	p.X.Tick.Marker, p.Y.Tick.Marker = dieTicks{g.X0, g.X1}, dieTicks{g.Y0, g.Y1}
-	wp := waferPlotter{rows: res.Rows, grid: g, param: param, sc: fit.NewShadeScale(res.Rows, res.Stats, param),
-		out: fit.OutlierSet(res.Stats[param]), limits: limits, label: p.X.Tick.Label}
-	wp.label.XAlign, wp.label.YAlign = draw.XCenter, draw.YCenter
-	p.Add(wp)
 	// Square dies: the same data span on both axes.
 	nx, ny := float64(g.X1-g.X0+1), float64(g.Y1-g.Y0+1)
 	span := math.Max(nx, ny)
-	p.X.Min, p.X.Max = float64(g.X0)-0.5-(span-nx)/2, float64(g.X1)+0.5+(span-nx)/2
-	p.Y.Min, p.Y.Max = float64(g.Y0)-0.5-(span-ny)/2, float64(g.Y1)+0.5+(span-ny)/2
+	X := axis{Title: "die x", tickFn: dieTicks(g.X0, g.X1),
+		Min: float64(g.X0) - 0.5 - (span-nx)/2, Max: float64(g.X1) + 0.5 + (span-nx)/2}
+	Y := axis{Title: "die y", tickFn: dieTicks(g.Y0, g.Y1), Inverted: true,
+		Min: float64(g.Y0) - 0.5 - (span-ny)/2, Max: float64(g.Y1) + 0.5 + (span-ny)/2}
+	side := math.Min(waferWidth-waferLegendW, waferHeight)
+	f := frameIn(0, 0, side, side, X, Y, true)
+	s := math.Min(f.x1-f.x0, f.y1-f.y0) // a square map area
+	f.x1, f.y0 = f.x0+s, f.y1-s
 
-	leg := plot.NewLegend()
-	leg.Top, leg.Left = true, true
-	leg.TextStyle.Font.Size = vg.Points(9)
-	leg.Padding = vg.Points(3)
-	leg.ThumbnailWidth = vg.Points(14)
-	f := func(v float64) string { return model.Format(bp.Kind, v, 4, true) }
-	sc := wp.sc
+	c := newSVG(waferWidth, waferHeight)
+	drawAxes(c, f, title, false)
+	sc := fit.NewShadeScale(res.Rows, res.Stats, param)
+	out := fit.OutlierSet(res.Stats[param])
+	// In row order, so that the same batch gives the same file.
+	pos := slices.SortedFunc(maps.Keys(g.At), func(a, b [2]int) int {
+		return cmp.Or(cmp.Compare(a[1], b[1]), cmp.Compare(a[0], b[0]))
+	})
+	for _, pos := range pos {
+		k := g.At[pos]
+		cls := fit.ClassOfDie(res.Rows, k, param, sc, out, limits)
+		x, y := float64(pos[0]), float64(pos[1])
+		x0, x1 := f.px(x-0.45), f.px(x+0.45)
+		y0, y1 := f.py(y-0.45), f.py(y+0.45)
+		c.rect(math.Min(x0, x1), math.Min(y0, y1), math.Abs(x1-x0), math.Abs(y1-y0), dieColor(cls))
+		if m := fit.DieMark(cls); m != "" {
+			st := textStyle{size: tickSize, anchor: "middle", middle: true, colour: white}
+			if cls == fit.DieNotRun || cls == fit.DieUndetermined {
+				st.colour = black
+			}
+			c.text((x0+x1)/2, (y0+y1)/2, m, st)
+		}
+	}
+
+	var leg []legendEntry
+	add := func(label string, cls fit.DieClass) {
+		leg = append(leg, legendEntry{label: label, st: stroke{colour: dieColor(cls)}, swatch: true})
+	}
+	fv := func(v float64) string { return model.Format(bp.Kind, v, 4, true) }
 	switch {
 	case sc.OK && sc.Hi == sc.Lo:
-		leg.Add(f(sc.Edge(0)), swatch(dieColor(fit.Shade2)))
+		add(fv(sc.Edge(0)), fit.Shade2)
 	case sc.OK:
 		for l := fit.ShadeLevels - 1; l >= 0; l-- {
-			leg.Add(f(sc.Edge(l))+" to "+f(sc.Edge(l+1)), swatch(dieColor(fit.DieClass(l))))
+			add(fv(sc.Edge(l))+" to "+fv(sc.Edge(l+1)), fit.DieClass(l))
 		}
 	}
 	for _, m := range []struct {
@@ -158,29 +138,16 @@ func WaferMapSVG(res *fit.BatchResult, param int, wafer string, limits []fit.Lim
 		if m.cls == fit.DieOutOfLimits && !fit.HasLimitOn(limits, param) {
 			continue
 		}
-		leg.Add(fit.DieMark(m.cls)+" "+m.what, swatch(dieColor(m.cls)))
+		add(fit.DieMark(m.cls)+" "+m.what, m.cls)
 	}
+	lx := waferWidth - waferLegendW + 3*cm/10
+	drawLegend(c, leg, lx, f.y0, waferLegendF)
 	scale := "linear"
 	if sc.Log {
 		scale = "log"
 	}
-	cv := vgsvg.NewWith(vgsvg.UseWH(16*vg.Centimeter, 11*vg.Centimeter), vgsvg.EmbedFonts(false))
-	dc := draw.New(cv)
-	legendW := 5.5 * vg.Centimeter
-	mapC := draw.Crop(dc, 0, -legendW, 0, 0)
-	side := math.Min(float64(mapC.Max.X-mapC.Min.X), float64(mapC.Max.Y-mapC.Min.Y))
-	mapC.Max.X = mapC.Min.X + vg.Length(side) // a square map area
-	p.Draw(mapC)
-	legC := draw.Crop(dc, dc.Max.X-dc.Min.X-legendW+vg.Millimeter*3, 0, 0, -vg.Centimeter)
-	leg.Draw(legC)
-	note := leg.TextStyle
-	note.XAlign, note.YAlign = draw.XLeft, draw.YBottom
-	legC.FillText(note, vg.Point{X: legC.Min.X, Y: legC.Min.Y + vg.Centimeter}, "("+scale+" shading)")
-	var b bytes.Buffer
-	if _, err := cv.WriteTo(&b); err != nil {
-		return nil, fmt.Errorf("drawing the wafer map: %w", err)
-	}
-	return b.Bytes(), nil
+	c.text(lx, f.y1, "("+scale+" shading)", textStyle{size: waferLegendF})
+	return c.bytes(), nil
 }
 
 // BatchReportOptions say what a batch report holds: the file name stem
