@@ -9,7 +9,9 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"slices"
 	"strconv"
+	"strings"
 
 	"github.com/spf13/cobra"
 )
@@ -79,31 +81,90 @@ func printVersion(w io.Writer) error {
 	return err
 }
 
-// newRootCmd builds the command tree. Run with no command, junco opens the
-// workbench (workbench.go).
-func newRootCmd(e *env) *cobra.Command {
+// newRootCmd builds the whole command tree. Run with no command, junco
+// opens the workbench (workbench.go).
+func newRootCmd(e *env) *cobra.Command { return newTree(e, nil, true) }
+
+// topCommand is a command under junco: its name and aliases, its
+// constructor, and whether it reads the whole tree (the manual's pages).
+type topCommand struct {
+	names []string
+	build func(*env) *cobra.Command
+	whole bool
+}
+
+// topCommands lists the commands under junco in the order of the help
+// page (TestTopCommandNames checks the names against the commands).
+func topCommands() []topCommand {
+	return []topCommand{
+		{[]string{"calc"}, newCalcCmd, false},
+		{[]string{"solve"}, newSolveCmd, false},
+		{[]string{"open", "workbench"}, newOpenCmd, false},
+		{[]string{"fit"}, newFitCmd, false},
+		{[]string{"sessions"}, newSessionsCmd, false},
+		{[]string{"serve"}, newServeCmd, false},
+		{[]string{"manual"}, newManualCmd, true},
+		{[]string{"version"}, newVersionCmd, false},
+	}
+}
+
+// treeFor builds the part of the command tree args need: the root alone
+// when they name no command and ask for no help (junco, junco
+// --version), the root and the command named when the first word names
+// one, else every command (help pages, completion, the manual, an unknown
+// word and its suggestions). Each command built costs start-up time: its
+// constructor, its help texts, the memory they take.
+func treeFor(e *env, args []string) *cobra.Command {
+	word := -1
+	for i, a := range args {
+		if a == "-h" || a == "--help" || a == "-help" || a == "--" {
+			return newTree(e, nil, true)
+		}
+		if word < 0 && !strings.HasPrefix(a, "-") {
+			word = i
+		}
+	}
+	switch {
+	case word < 0:
+		return newTree(e, nil, false)
+	case word == 0:
+		for _, c := range topCommands() {
+			if slices.Contains(c.names, args[0]) && !c.whole {
+				return newTree(e, []topCommand{c}, false)
+			}
+		}
+	}
+	return newTree(e, nil, true)
+}
+
+// newTree builds the root with the commands given, or with every
+// command and the completion command when all is set.
+func newTree(e *env, cmds []topCommand, all bool) *cobra.Command {
 	root := newWorkbenchCmd(e)
-	root.AddCommand(
-		newCalcCmd(e),
-		newSolveCmd(e),
-		newOpenCmd(e),
-		newFitCmd(e),
-		newSessionsCmd(e),
-		newServeCmd(e),
-		newManualCmd(e),
-		&cobra.Command{
-			Use:   "version",
-			Short: "print the version of this build",
-			Args:  noArgs,
-			RunE:  func(*cobra.Command, []string) error { return printVersion(e.stdout) },
-		},
-	)
+	if all {
+		cmds = topCommands()
+	}
+	for _, c := range cmds {
+		root.AddCommand(c.build(e))
+	}
 	root.SetOut(e.stdout) // the completion scripts are written where it says now
-	root.InitDefaultCompletionCmd()
-	for _, c := range root.Commands() {
-		if c.Name() == "completion" {
-			commandGroup(c, "shell")
+	if all {
+		root.InitDefaultCompletionCmd()
+		for _, c := range root.Commands() {
+			if c.Name() == "completion" {
+				commandGroup(c, "shell")
+			}
 		}
 	}
 	return root
+}
+
+// newVersionCmd is junco version.
+func newVersionCmd(e *env) *cobra.Command {
+	return &cobra.Command{
+		Use:   "version",
+		Short: "print the version of this build",
+		Args:  noArgs,
+		RunE:  func(*cobra.Command, []string) error { return printVersion(e.stdout) },
+	}
 }

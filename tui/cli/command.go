@@ -273,9 +273,14 @@ func setup(cmd *cobra.Command, e *env) {
 
 // execute runs the command line args and returns the exit code.
 func execute(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	return executeTree(ctx, args, stdin, stdout, stderr, treeFor)
+}
+
+// executeTree runs args on the tree tree builds for them.
+func executeTree(ctx context.Context, args []string, stdin io.Reader, stdout, stderr io.Writer, tree func(*env, []string) *cobra.Command) int {
 	out := &checkedWriter{w: stdout}
 	e := &env{ctx: ctx, stdin: stdin, stdout: out, stderr: stderr}
-	root := newRootCmd(e)
+	root := tree(e, args)
 	find := args
 	if len(args) > 0 && (args[0] == cobra.ShellCompRequestCmd || args[0] == cobra.ShellCompNoDescRequestCmd) {
 		find = args[1:]
