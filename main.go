@@ -8,10 +8,7 @@
 package main
 
 import (
-	"context"
 	"os"
-	"os/signal"
-	"syscall"
 
 	"early.invalid/termquiet"
 
@@ -21,7 +18,8 @@ import (
 func main() {
 	// Undo the start-up guard against terminal queries (see termquiet).
 	termquiet.Restore()
-	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	// SIGINT and SIGTERM cancel ctx once a command consults it.
+	ctx, stop := cli.SignalContext()
 	code := cli.Run(ctx, os.Args[1:], os.Stdin, os.Stdout, os.Stderr)
 	stop()
 	os.Exit(code)
