@@ -228,6 +228,12 @@ func (p *chart) svg() []byte {
 			for i, v := range seg {
 				pts[i] = [2]float64{f.px(v[0]), f.py(v[1])}
 			}
+			if len(pts) == 1 {
+				// A point alone (a one-point curve, or one defined
+				// value between gaps) is a dot of the line's width.
+				c.dot(pts[0][0], pts[0][1], ln.st.width, ln.st.colour, clip)
+				continue
+			}
 			c.polyline(pts, ln.st, clip)
 		}
 	}

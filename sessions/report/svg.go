@@ -132,6 +132,11 @@ func (c *svgCanvas) circle(x, y, r float64, s stroke, clip string) {
 	fmt.Fprintf(&c.b, `<circle cx="%s" cy="%s" r="%s" %s%s/>`+"\n", num(x), num(y), num(r), s.attrs(), clipAttr(clip))
 }
 
+// dot fills a circle of radius r (pt).
+func (c *svgCanvas) dot(x, y, r float64, fill color.RGBA, clip string) {
+	fmt.Fprintf(&c.b, `<circle cx="%s" cy="%s" r="%s" fill="%s"%s/>`+"\n", num(x), num(y), num(r), hexColour(fill), clipAttr(clip))
+}
+
 func clipAttr(id string) string {
 	if id == "" {
 		return ""

@@ -7,6 +7,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"junco/model"
 )
 
 // svgParts is what the layout checks read back from a drawn SVG.
@@ -31,6 +33,7 @@ type svgParts struct {
 	} `xml:"polyline"`
 	Circles []struct {
 		Clip string `xml:"clip-path,attr"`
+		Fill string `xml:"fill,attr"`
 	} `xml:"circle"`
 	Clips []struct {
 		X float64 `xml:"x,attr"`
@@ -161,6 +164,31 @@ func allZero(y []float64) bool {
 		}
 	}
 	return len(y) > 0
+}
+
+// A curve of one point, or a value alone between undefined ones, is drawn
+// as a dot in its series' colour, not left out.
+func TestFigureLonePoint(t *testing.T) {
+	nan := math.NaN()
+	for _, f := range []Figure{
+		{Curve: model.Curve{ID: "one", Xs: []float64{1}, Series: []model.Series{{Label: "a", Y: []float64{3}}}}},
+		{Curve: model.Curve{ID: "gaps", Xs: []float64{1, 2, 3, 4, 5}, Series: []model.Series{{Label: "a", Y: []float64{1, 2, nan, 4, nan}}}}},
+	} {
+		svg, err := FigureSVG(f)
+		if err != nil {
+			t.Fatal(err)
+		}
+		p := parseSVG(t, f.Curve.ID, svg)
+		dots := 0
+		for _, c := range p.Circles {
+			if c.Fill == hexColour(seriesColour(f.Curve, 0)) && c.Clip != "" {
+				dots++
+			}
+		}
+		if dots != 1 {
+			t.Errorf("%s: %d dots for the lone point, want 1", f.Curve.ID, dots)
+		}
+	}
 }
 
 // Linear ticks over random ranges: 2 to maxMajorTicks+1 labelled ticks,
