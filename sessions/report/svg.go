@@ -156,12 +156,11 @@ func (c *svgCanvas) clipRect(x, y, w, h float64) string {
 // middle, end), whether (x, y) is its vertical middle rather than its
 // baseline, rotation a quarter turn counter-clockwise, colour.
 type textStyle struct {
-	size    float64
-	anchor  string
-	middle  bool
-	rotate  bool
-	colour  color.RGBA
-	weightB bool
+	size   float64
+	anchor string
+	middle bool
+	rotate bool
+	colour color.RGBA
 }
 
 // text sets s at (x, y).
@@ -182,9 +181,6 @@ func (c *svgCanvas) text(x, y float64, s string, st textStyle) {
 	}
 	if st.colour != (color.RGBA{}) && st.colour != (color.RGBA{0, 0, 0, 255}) {
 		attrs += ` fill="` + hexColour(st.colour) + `"`
-	}
-	if st.weightB {
-		attrs += ` font-weight="bold"`
 	}
 	if st.rotate {
 		attrs += fmt.Sprintf(` transform="rotate(-90 %s %s)"`, num(x), num(y))
