@@ -134,7 +134,7 @@ func BenchmarkViewBrowser200x60(b *testing.B) {
 		}
 	}
 	m := press(New(opts(st, "alice", 200, 60)), "ctrl+o")
-	if m.screen != screenBrowse || len(m.br.list) != 60 {
+	if shown(m) != "browse" || len(onTop[browseScreen](m).list) != 60 {
 		b.Fatal("not the browser")
 	}
 	b.ReportAllocs()

@@ -3,7 +3,9 @@ package tui
 import (
 	"strings"
 
+	"github.com/charmbracelet/bubbles/help"
 	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
 )
 
 // guideText is the getting-started guide of the help screen.
@@ -28,6 +30,53 @@ func guideText(g glyphs) []string {
 	}
 }
 
+// helpScreen is the guide and every key, scrolled by off.
+type helpScreen struct{ off int }
+
+// openHelp shows the help at its top.
+func (m *Model) openHelp() { m.push(&helpScreen{}) }
+
+// helpKeys is the key map of the help screen.
+type helpKeys struct{ Down, Up, PageDown, PageUp, Top, Bottom, Back key.Binding }
+
+func (k KeyMap) helpKeys() helpKeys {
+	back := key.NewBinding(key.WithKeys(append([]string{"esc", "q", "enter"}, k.Help.Keys()...)...), key.WithHelp("esc/?", "back"))
+	return helpKeys{Down: k.ScrollDown, Up: k.ScrollUp, PageDown: k.PageDown, PageUp: k.PageUp, Top: k.Top, Bottom: k.Bottom, Back: back}
+}
+
+func (k helpKeys) ShortHelp() []key.Binding {
+	return []key.Binding{k.Down, k.Up, k.PageDown, k.Bottom, k.Top, k.Back}
+}
+func (k helpKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
+
+func (s *helpScreen) keys(m Model) help.KeyMap { return m.e.keys.helpKeys() }
+
+func (s *helpScreen) update(m *Model, msg tea.Msg) tea.Cmd {
+	km, ok := msg.(tea.KeyMsg)
+	if !ok {
+		return nil
+	}
+	k := m.e.keys.helpKeys()
+	switch {
+	case keyIs(km, k.Down):
+		s.off++
+	case keyIs(km, k.Up):
+		s.off--
+	case keyIs(km, k.PageDown):
+		s.off += m.helpPage()
+	case keyIs(km, k.PageUp):
+		s.off -= m.helpPage()
+	case keyIs(km, k.Top):
+		s.off = 0
+	case keyIs(km, k.Bottom):
+		s.off = m.helpEnd()
+	case keyIs(km, k.Back):
+		m.close(s)
+	}
+	s.off = min(max(s.off, 0), m.helpEnd())
+	return nil
+}
+
 // helpPage is how far pgdn and space move the help: its height less two
 // lines kept for context.
 func (m Model) helpPage() int { return max(m.h-2-2, 1) }
@@ -35,11 +84,11 @@ func (m Model) helpPage() int { return max(m.h-2-2, 1) }
 // helpEnd is the scroll that shows the end of the help.
 func (m Model) helpEnd() int { return max(len(m.helpLines(m.w))-(m.h-2), 0) }
 
-// helpScreen draws the guide and every key, scrolled by helpOf.
-func (m Model) helpScreen(w, h int) []string {
+// view draws the guide and every key, scrolled by off.
+func (s *helpScreen) draw(m Model, w, h int) []string {
 	st, g := m.e.st, m.e.g
 	out := m.helpLines(w)
-	off := min(m.helpOf, max(len(out)-h, 0))
+	off := min(s.off, max(len(out)-h, 0))
 	out = out[off:]
 	res := block(out, w, h, g.ellipsis)
 	if len(out) > h && h > 0 {

@@ -129,7 +129,7 @@ func (m Model) header() string {
 	}
 	for p := panel(0); p < panelCount; p++ {
 		t := p.title()
-		if p == m.focus && m.screen == screenMain {
+		if p == m.focus && m.top() == nil {
 			left += st.tabOn.Paint("[" + t + "]")
 		} else {
 			left += st.tabOff.Paint(" " + t + " ")
@@ -255,7 +255,54 @@ func (m Model) body() []string {
 }
 
 // quitScreen asks before dropping changes.
-func (m Model) quitScreen(w, h int) []string {
+type quitScreen struct{}
+
+// quitKeys is the key map of the quit question; SaveFirst is off without
+// a store or in review.
+type quitKeys struct{ SaveFirst, Yes, No key.Binding }
+
+func (m Model) quitKeys() quitKeys {
+	k := m.e.keys
+	save := k.SaveFirst
+	save.SetEnabled(m.sess.store != nil && !m.sess.readOnly)
+	no := k.No
+	no.SetKeys(append(no.Keys(), "q")...)
+	return quitKeys{SaveFirst: save, Yes: k.Yes, No: no}
+}
+
+func (k quitKeys) ShortHelp() []key.Binding  { return []key.Binding{k.SaveFirst, k.Yes, k.No} }
+func (k quitKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
+
+func (s *quitScreen) keys(m Model) help.KeyMap { return m.quitKeys() }
+
+func (s *quitScreen) update(m *Model, msg tea.Msg) tea.Cmd {
+	km, ok := msg.(tea.KeyMsg)
+	if !ok {
+		return nil
+	}
+	k := m.quitKeys()
+	switch {
+	case keyIs(km, k.Yes):
+		m.discardDraft()
+		return tea.Quit
+	case keyIs(km, k.SaveFirst):
+		m.close(s)
+		if d := m.openSave(false); d != nil {
+			d.quitAfter = true
+		}
+	case keyIs(km, k.No):
+		m.close(s)
+	}
+	return nil
+}
+
+// interrupt: ctrl+c at the question quits at once, writing the draft.
+func (s *quitScreen) interrupt(m *Model) (tea.Cmd, bool) {
+	_, cmd := m.shutdown()
+	return cmd, true
+}
+
+func (s *quitScreen) draw(m Model, w, h int) []string {
 	st := m.e.st
 	msg := []string{
 		st.strong.Paint("Quit junco?"),
@@ -281,25 +328,3 @@ func (m Model) quitScreen(w, h int) []string {
 	}
 	return block(out, w, h, m.e.g.ellipsis)
 }
-
-// dialogHelp is the footer of the quit question.
-type dialogHelp struct {
-	k       KeyMap
-	canSave bool
-}
-
-func (h dialogHelp) ShortHelp() []key.Binding {
-	if h.canSave {
-		return []key.Binding{h.k.SaveFirst, h.k.Yes, h.k.No}
-	}
-	return []key.Binding{h.k.Yes, h.k.No}
-}
-func (h dialogHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
-
-// helpScreenHelp is the footer of the help screen.
-type helpScreenHelp struct{ k KeyMap }
-
-func (h helpScreenHelp) ShortHelp() []key.Binding {
-	return []key.Binding{h.k.ScrollDown, h.k.ScrollUp, h.k.PageDown, h.k.Bottom, h.k.Top, key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc/?", "back"))}
-}
-func (h helpScreenHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }

@@ -30,8 +30,8 @@ func TestBatchScreenEscapesFileNames(t *testing.T) {
 	m = press(m, "B")
 	m = typeText(m, dir)
 	m = press(m, "enter")
-	if m.bat.view == nil || len(m.bat.view.Rows) != 2 {
-		t.Fatalf("batch not run: %q\n%s", m.bat.err, plain(m))
+	if batchOf(m).view == nil || len(batchOf(m).view.Rows) != 2 {
+		t.Fatalf("batch not run: %q\n%s", batchOf(m).err, plain(m))
 	}
 	v := m.View()
 	for _, raw := range []string{"\x1b[2J", "\x1b]0;", "\a"} {
@@ -65,8 +65,8 @@ func TestBatchMapEscapesFileNames(t *testing.T) {
 	m = press(m, "B")
 	m = typeText(m, dir)
 	m = press(m, "enter")
-	if m.bat.view == nil || !m.bat.wm.hasDies {
-		t.Fatalf("no wafer map: %q\n%s", m.bat.err, plain(m))
+	if batchOf(m).view == nil || !batchOf(m).wm.hasDies {
+		t.Fatalf("no wafer map: %q\n%s", batchOf(m).err, plain(m))
 	}
 	check := func(what string, v string) {
 		t.Helper()

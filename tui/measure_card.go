@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"strings"
 
+	"github.com/charmbracelet/bubbles/help"
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
@@ -13,9 +14,9 @@ import (
 	"junco/physics"
 )
 
-// cardState is the model-card screen: the card built from the session's
-// data sets (fit.Card), read only, scrolled by top.
-type cardState struct {
+// cardScreen is the model-card screen: the card built from the
+// session's data sets (fit.Card), read only, scrolled by top.
+type cardScreen struct {
 	res *fit.CardResult
 	err string
 	top int
@@ -36,42 +37,55 @@ func (m *Model) openCard() {
 		m.note = "no forward I-V data set in the session: i imports one (the model card needs forward I-V)"
 		return
 	}
-	m.card = cardState{}
+	c := &cardScreen{}
 	res, err := fit.Card(context.Background(), in)
 	if err != nil {
-		m.card.err = err.Error()
+		c.err = err.Error()
 	}
-	m.card.res = res
-	m.screen = screenCard
+	c.res = res
+	m.push(c)
 }
 
-func (m Model) cardKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
-	k := m.e.keys
+// cardKeys is the key map of the model-card screen.
+type cardKeys struct{ Down, Up, PageDown, PageUp, Top, Close key.Binding }
+
+func (k KeyMap) cardKeys() cardKeys {
+	return cardKeys{Down: k.ScrollDown, Up: k.ScrollUp, PageDown: k.PageDown, PageUp: k.PageUp, Top: k.Top, Close: k.Close}
+}
+
+func (k cardKeys) ShortHelp() []key.Binding  { return []key.Binding{k.Down, k.Up, k.Close} }
+func (k cardKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
+
+func (c *cardScreen) keys(m Model) help.KeyMap { return m.e.keys.cardKeys() }
+
+func (c *cardScreen) update(m *Model, msg tea.Msg) tea.Cmd {
+	km, ok := msg.(tea.KeyMsg)
+	if !ok {
+		return nil
+	}
+	k := m.e.keys.cardKeys()
 	switch {
-	case km.String() == "ctrl+c":
-		return m.quit()
-	case keyIs(km, k.Dismiss), keyIs(km, k.Close):
-		m.screen = screenMain
-	case keyIs(km, k.ScrollDown):
-		m.card.top++
-	case keyIs(km, k.ScrollUp):
-		m.card.top = max(0, m.card.top-1)
+	case keyIs(km, k.Close):
+		m.close(c)
+	case keyIs(km, k.Down):
+		c.top++
+	case keyIs(km, k.Up):
+		c.top = max(0, c.top-1)
 	case keyIs(km, k.PageDown):
-		m.card.top += 10
+		c.top += 10
 	case keyIs(km, k.PageUp):
-		m.card.top = max(0, m.card.top-10)
+		c.top = max(0, c.top-10)
 	case keyIs(km, k.Top):
-		m.card.top = 0
+		c.top = 0
 	}
-	return m, nil
+	return nil
 }
 
-// cardScreen draws the card: the sweeps used, the parameters with their
+// view draws the card: the sweeps used, the parameters with their
 // standard errors and sources, the ranges and cautions, the card itself
 // (continued with "+" lines to fit the width), the subcircuit and notes.
-func (m Model) cardScreen(w, h int) []string {
+func (c *cardScreen) draw(m Model, w, h int) []string {
 	st, g := m.e.st, m.e.g
-	c := m.card
 	head := rule("Model card from the session's data sets", w, glyphs{hbar: g.hbarHeavy}, st.heading)
 	var out []string
 	if c.err != "" {
@@ -137,11 +151,3 @@ func cardWrap(line string, w int) []string {
 	}
 	return append(out, cur)
 }
-
-// cardHelp is the footer of the model-card screen.
-type cardHelp struct{ k KeyMap }
-
-func (h cardHelp) ShortHelp() []key.Binding {
-	return []key.Binding{h.k.ScrollDown, h.k.ScrollUp, h.k.Close}
-}
-func (h cardHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }

@@ -72,10 +72,10 @@ func TestCVFitRoundTrip(t *testing.T) {
 			t.Fatalf("%v: preview:\n%s", size, plain(m))
 		}
 		m = press(m, "f")
-		if m.screen != screenCVFit || m.cvfit.view == nil {
-			t.Fatalf("%v: f must add and show the C-V fit: %q\n%s", size, m.cvfit.err, plain(m))
+		if shown(m) != "cvfit" || cvOf(m).view == nil {
+			t.Fatalf("%v: f must add and show the C-V fit: %q\n%s", size, cvOf(m).err, plain(m))
 		}
-		an := m.cvfit.view.Analysis
+		an := cvOf(m).view.Analysis
 		n, b := an.DopingM3, an.BuiltInPotentialV
 		if r := n.Value / s.DonorDensity; !n.Determined || math.Abs(r-1) > 0.05 {
 			t.Errorf("%v: doping %+v, want %g (ratio %.4f)", size, n, s.DonorDensity, r)
@@ -95,19 +95,19 @@ func TestCVFitRoundTrip(t *testing.T) {
 		// A window narrows the points used; a bad one is refused.
 		before := an.Junction.Points
 		m = press(m, "ctrl+u")
-		m.cvfit.eds[0].set("-3")
-		m.cvfit.eds[1].set("-1")
+		fitOf(m).eds[0].set("-3")
+		fitOf(m).eds[1].set("-1")
 		m = press(m, "enter")
-		if m.cvfit.view == nil || m.cvfit.view.Analysis.Junction.Points >= before {
-			t.Fatalf("%v: window not applied: %+v %q", size, m.cvfit.win, m.cvfit.err)
+		if cvOf(m).view == nil || cvOf(m).view.Analysis.Junction.Points >= before {
+			t.Fatalf("%v: window not applied: %+v %q", size, fitOf(m).win, cvOf(m).err)
 		}
-		m.cvfit.eds[1].set("-4")
+		fitOf(m).eds[1].set("-4")
 		m = press(m, "enter")
-		if m.cvfit.winErr == "" || m.cvfit.view == nil {
+		if fitOf(m).winErr == "" || cvOf(m).view == nil {
 			t.Errorf("%v: V1 > V2 must be refused, keeping the fit", size)
 		}
 		m = press(m, "esc")
-		if m.screen != screenMain {
+		if shown(m) != "main" {
 			t.Errorf("%v: esc must close the C-V screen", size)
 		}
 	}
@@ -121,15 +121,15 @@ func TestKeepCVFit(t *testing.T) {
 	st := newStore(t, "alice")
 	m := start(New(opts(st, "alice", 120, 40)))
 	m = press(m, "f")
-	if m.screen != screenFit {
+	if shown(m) != "fit" {
 		t.Fatalf("f must still open the I-V fit on the demo:\n%s", plain(m))
 	}
 	// pgdn cycles through every data set; the demo's C-V sweep is last.
-	for n := 0; n < len(m.sess.meas) && m.screen != screenCVFit; n++ {
+	for n := 0; n < len(m.sess.meas) && shown(m) != "cvfit"; n++ {
 		m = press(m, "pgdown")
 	}
-	if m.screen != screenCVFit || m.cvfit.view == nil {
-		t.Fatalf("pgdn must reach the C-V data set: %q\n%s", m.cvfit.err, plain(m))
+	if shown(m) != "cvfit" || cvOf(m).view == nil {
+		t.Fatalf("pgdn must reach the C-V data set: %q\n%s", cvOf(m).err, plain(m))
 	}
 	m = press(m, "ctrl+k")
 	want := 2
@@ -157,8 +157,8 @@ func TestKeepCVFit(t *testing.T) {
 	}
 	// pgup goes back to an I-V set on the I-V screen.
 	m = press(m, "pgup")
-	if m.screen != screenFit {
-		t.Errorf("pgup from the C-V set must show the I-V screen, screen %d", m.screen)
+	if shown(m) != "fit" {
+		t.Errorf("pgup from the C-V set must show the I-V screen, screen %s", shown(m))
 	}
 }
 
@@ -167,7 +167,7 @@ func TestCVFitRandomKeys(t *testing.T) {
 	m := withSpec(bare(newTest(t, 120, 40)), cvTestSpec())
 	m = importInto(t, m, writeCV(t, "cv.csv"))
 	m = press(m, "f")
-	if m.screen != screenCVFit {
+	if shown(m) != "cvfit" {
 		t.Fatalf("no C-V screen:\n%s", plain(m))
 	}
 	rng := rand.New(rand.NewPCG(7, 7))
@@ -191,7 +191,7 @@ func TestCVFitRandomKeys(t *testing.T) {
 		if m.View() == "" {
 			t.Fatalf("step %d: empty view", step)
 		}
-		if m.screen != screenCVFit {
+		if shown(m) != "cvfit" {
 			m = press(m, "f")
 		}
 	}

@@ -48,8 +48,8 @@ func TestFitScreenLitCurve(t *testing.T) {
 		m := bare(newTest(t, c.w, c.h))
 		m = importInto(t, m, writeLitIV(t, "cell.csv", c.gen))
 		m = press(m, "f")
-		if m.screen != screenFit || m.fit.lit == nil {
-			t.Fatalf("%v: f must fit the lit curve: %q\n%s", c, m.fit.err, plain(m))
+		if shown(m) != "fit" || ivOf(m).lit == nil {
+			t.Fatalf("%v: f must fit the lit curve: %q\n%s", c, ivOf(m).err, plain(m))
 		}
 		v := plain(m)
 		sign := "load"

@@ -44,23 +44,23 @@ func TestTwoConnectionsKeepTheirDrafts(t *testing.T) {
 	}
 
 	third := start(New(o))
-	if third.screen != screenDraft {
+	if shown(third) != "draft" {
 		t.Fatal("no draft offer at the next opening")
 	}
 	wantIn(t, third, "A recovery draft was kept", "Draft 1 of 2")
-	first := third.offer.draft.Document.Spec.Temperature
+	first := onTop[draftScreen](third).draft.Document.Spec.Temperature
 	third = press(third, "d")
-	if third.screen != screenDraft {
+	if shown(third) != "draft" {
 		t.Fatal("discarding the first draft did not offer the second")
 	}
 	wantIn(t, third, "Draft 2 of 2")
-	second := third.offer.draft.Document.Spec.Temperature
+	second := onTop[draftScreen](third).draft.Document.Spec.Temperature
 	if first == second {
 		t.Fatalf("both offers showed the draft at %g K", first)
 	}
 	third = press(third, "r")
-	if third.screen != screenMain || third.Spec().Temperature != second || !third.Dirty() {
-		t.Fatalf("restored: screen %d, T %g, dirty %v; want the second draft, %g K, unsaved", third.screen, third.Spec().Temperature, third.Dirty(), second)
+	if shown(third) != "main" || third.Spec().Temperature != second || !third.Dirty() {
+		t.Fatalf("restored: screen %s, T %g, dirty %v; want the second draft, %g K, unsaved", shown(third), third.Spec().Temperature, third.Dirty(), second)
 	}
 	// Saving removes the restored draft too.
 	third = press(third, "ctrl+s", "enter")
@@ -109,8 +109,8 @@ func TestOpenSessionWithDamagedNewestRevision(t *testing.T) {
 	m = press(m, "ctrl+o")
 	wantIn(t, m, "(damaged: newest readable is revision 1)")
 	m = press(m, "enter")
-	if m.screen != screenMain || m.sess.name != "d7" || m.sess.rev != 1 {
-		t.Fatalf("open: screen %d, session %q, revision %d", m.screen, m.sess.name, m.sess.rev)
+	if shown(m) != "main" || m.sess.name != "d7" || m.sess.rev != 1 {
+		t.Fatalf("open: screen %s, session %q, revision %d", shown(m), m.sess.name, m.sess.rev)
 	}
 	wantIn(t, m, "unreadable newer revisions: 1")
 	m = editField(m, "5", 0, "305")

@@ -122,8 +122,8 @@ func TestFirstSaveAsksForANameAndChecksIt(t *testing.T) {
 	m = press(m, "tab", "tab")
 	m = typeText(m, "lower p doping")
 	m = press(m, "enter")
-	if m.screen != screenMain || m.Dirty() {
-		t.Fatalf("after the save: screen %d, dirty %v:\n%s", m.screen, m.Dirty(), plain(m))
+	if shown(m) != "main" || m.Dirty() {
+		t.Fatalf("after the save: screen %s, dirty %v:\n%s", shown(m), m.Dirty(), plain(m))
 	}
 	wantIn(t, m, "saved as session lot417, revision 1", "lot417 rev 1")
 	doc, rev := mustOpen(t, st, "lot417", 0)
@@ -252,7 +252,7 @@ func TestStaleBaseOffersNextRevisionOrCopy(t *testing.T) {
 	wantIn(t, a, "A newer revision exists")
 	// esc leaves without saving and keeps the edits.
 	a = press(a, "esc")
-	if a.screen != screenMain || !reflect.DeepEqual(a.Spec(), edited) || !a.Dirty() {
+	if shown(a) != "main" || !reflect.DeepEqual(a.Spec(), edited) || !a.Dirty() {
 		t.Fatal("leaving the choice lost the edits")
 	}
 	wantIn(t, a, "not saved; your edits are kept")
@@ -311,7 +311,7 @@ func TestSaveFailureKeepsEverything(t *testing.T) {
 	m = typeText(m, "my note")
 	m = press(m, "enter")
 	wantIn(t, m, "not saved:", "Your edits are kept")
-	if m.screen != screenDialog || m.dlg.fields[2].ed.value() != "my note" || m.dlg.fields[0].ed.value() != "lot417" {
+	if shown(m) != "dialog" || onTop[dialogScreen](m).fields[2].ed.value() != "my note" || onTop[dialogScreen](m).fields[0].ed.value() != "lot417" {
 		t.Fatal("the dialog lost what was typed")
 	}
 	if !reflect.DeepEqual(m.Spec(), edited) || !m.Dirty() || len(m.sess.notes) != 0 {
@@ -327,8 +327,8 @@ func TestNoStoreSaysWhy(t *testing.T) {
 	m := start(New(Options{Renderer: plainRenderer(), Width: 100, Height: 30, NoStoreReason: "no data directory (HOME is not set)"}))
 	for _, k := range []string{"ctrl+s", "S", "ctrl+o"} {
 		m = press(m, k)
-		if m.screen != screenMain {
-			t.Fatalf("%s opened screen %d without a store", k, m.screen)
+		if shown(m) != "main" {
+			t.Fatalf("%s opened screen %s without a store", k, shown(m))
 		}
 		wantIn(t, m, "is not available here: no data directory")
 	}
@@ -377,8 +377,8 @@ func TestBrowserFiltersAndShowsDamagedEntries(t *testing.T) {
 	m = press(m, "ctrl+u")
 	m = typeText(m, "HOT")
 	m = press(m, "enter")
-	if m.screen != screenMain || m.sess.name != "hot-bench" || m.Spec().Temperature != 350 || m.Dirty() {
-		t.Fatalf("opening hot-bench: screen %d, session %q, T %g", m.screen, m.sess.name, m.Spec().Temperature)
+	if shown(m) != "main" || m.sess.name != "hot-bench" || m.Spec().Temperature != 350 || m.Dirty() {
+		t.Fatalf("opening hot-bench: screen %s, session %q, T %g", shown(m), m.sess.name, m.Spec().Temperature)
 	}
 	wantIn(t, m, "opened hot-bench, revision 1")
 	// With unsaved changes, opening asks first; n keeps them.
@@ -386,7 +386,7 @@ func TestBrowserFiltersAndShowsDamagedEntries(t *testing.T) {
 	m = press(m, "enter", "ctrl+o", "down", "down", "enter")
 	wantIn(t, m, "Open the newest revision of d9-lot420?", "drops them")
 	m = press(m, "n")
-	if m.screen != screenBrowse || m.sess.name != "hot-bench" || m.Spec().Temperature != 360 {
+	if shown(m) != "browse" || m.sess.name != "hot-bench" || m.Spec().Temperature != 360 {
 		t.Fatal("declining lost the edits or left the browser")
 	}
 	m = press(m, "enter", "y")
@@ -406,8 +406,8 @@ func TestHistoryDiffRestore(t *testing.T) {
 	m = press(m, "ctrl+o", "tab")
 	wantIn(t, m, "Revisions of d7", "3 revisions, newest first", "your edits started from revision 3")
 	// Newest first: the cursor is on revision 3.
-	if m.br.hist[0].Number != 3 || m.br.hist[2].Number != 1 {
-		t.Fatalf("history order %v", m.br.hist)
+	if onTop[historyScreen](m).hist[0].Number != 3 || onTop[historyScreen](m).hist[2].Number != 1 {
+		t.Fatalf("history order %v", onTop[historyScreen](m).hist)
 	}
 	// d on revision 3 compares it with revision 2.
 	m = press(m, "d")
@@ -506,7 +506,7 @@ func TestDraftIsWrittenOnlyWhileUnsavedAndOffered(t *testing.T) {
 	// A new workbench offers the draft.
 	n := start(New(opts(st, "alice", 100, 30)))
 	wantIn(t, n, "A recovery draft was kept", "the junction that had not been saved yet", "acceptor doping Na (na)", "1.000e17 cm^-3")
-	if n.screen != screenDraft {
+	if shown(n) != "draft" {
 		t.Fatal("no draft offer")
 	}
 	r := press(n, "r")
@@ -586,7 +586,7 @@ func TestQuitQuestionSavesFirst(t *testing.T) {
 	m = press(m, "enter", "q")
 	wantIn(t, m, "Quit junco?", "s save first")
 	m = press(m, "s")
-	if m.screen != screenDialog {
+	if shown(m) != "dialog" {
 		t.Fatal("s did not open the save dialog")
 	}
 	_, cmd := m.Update(keyMsg("enter"))
@@ -661,7 +661,7 @@ func TestReviewModeShowsAllRefusesEditsAndAddsNotes(t *testing.T) {
 	m = typeText(m, "fail please")
 	m = press(m, "enter")
 	wantIn(t, m, "the review service is down")
-	if m.dlg.fields[0].ed.value() != "fail please" {
+	if onTop[dialogScreen](m).fields[0].ed.value() != "fail please" {
 		t.Fatal("a failed review note lost its text")
 	}
 	m = press(m, "ctrl+u")
@@ -761,18 +761,18 @@ func TestSessionScreensDrawOnlyASCII(t *testing.T) {
 	for _, step := range []struct {
 		what string
 		keys []string
-		want screen
+		want string
 	}{
-		{"save dialog", []string{"ctrl+s"}, screenDialog}, {"stale choice", []string{"enter"}, screenStale},
-		{"stale diff", []string{"d"}, screenDiff}, {"back", []string{"esc", "esc"}, screenMain},
-		{"browser", []string{"ctrl+o"}, screenBrowse}, {"history", []string{"tab"}, screenHistory},
-		{"diff", []string{"d"}, screenDiff}, {"diff with edits", []string{"esc", "c"}, screenDiff},
-		{"restore question", []string{"esc", "down", "r"}, screenConfirm}, {"open question", []string{"n", "enter"}, screenConfirm},
-		{"note dialog", []string{"n", "esc", "esc", "n"}, screenDialog}, {"quit question", []string{"esc", "q"}, screenQuit},
+		{"save dialog", []string{"ctrl+s"}, "dialog"}, {"stale choice", []string{"enter"}, "stale"},
+		{"stale diff", []string{"d"}, "diff"}, {"back", []string{"esc", "esc"}, "main"},
+		{"browser", []string{"ctrl+o"}, "browse"}, {"history", []string{"tab"}, "history"},
+		{"diff", []string{"d"}, "diff"}, {"diff with edits", []string{"esc", "c"}, "diff"},
+		{"restore question", []string{"esc", "down", "r"}, "confirm"}, {"open question", []string{"n", "enter"}, "confirm"},
+		{"note dialog", []string{"n", "esc", "esc", "n"}, "dialog"}, {"quit question", []string{"esc", "q"}, "quit"},
 	} {
 		m = press(m, step.keys...)
-		if m.screen != step.want {
-			t.Fatalf("%s: screen %d, want %d", step.what, m.screen, step.want)
+		if shown(m) != step.want {
+			t.Fatalf("%s: screen %s, want %s", step.what, shown(m), step.want)
 		}
 		check(step.what)
 	}
@@ -786,8 +786,8 @@ func TestCtrlSWhileTypingSavesWhatIsInForce(t *testing.T) {
 		t.Fatal("not typing")
 	}
 	m = press(m, "ctrl+s")
-	if m.form.typing || m.screen != screenDialog {
-		t.Fatalf("ctrl+s while typing: typing %v, screen %d", m.form.typing, m.screen)
+	if m.form.typing || shown(m) != "dialog" {
+		t.Fatalf("ctrl+s while typing: typing %v, screen %s", m.form.typing, shown(m))
 	}
 	m = press(m, "enter")
 	if doc, _ := mustOpen(t, st, "d7-demo", 0); doc.Spec.Temperature != 315 {

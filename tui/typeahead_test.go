@@ -35,12 +35,12 @@ func TestKeysInOneReadEachAct(t *testing.T) {
 	}
 
 	help := feed(base, oneRead("?"))
-	if help.screen != screenHelp {
+	if shown(help) != "help" {
 		t.Fatal("? did not open the help")
 	}
 	help = feed(help, oneRead(strings.Repeat("j", 20)))
-	if help.helpOf != 20 {
-		t.Errorf("twenty j in one read moved the help %d lines, want 20", help.helpOf)
+	if onTop[helpScreen](help).off != 20 {
+		t.Errorf("twenty j in one read moved the help %d lines, want 20", onTop[helpScreen](help).off)
 	}
 }
 
@@ -70,7 +70,7 @@ func TestCtrlCOnEveryScreen(t *testing.T) {
 		m = editField(m, "5", 0, "320")
 		m = press(m, "enter")
 		m = press(m, open)
-		if m.screen == screenMain {
+		if shown(m) == "main" {
 			t.Fatalf("%q opened no screen", open)
 		}
 		m = press(m, "ctrl+c")

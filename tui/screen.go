@@ -1,0 +1,92 @@
+package tui
+
+import (
+	"slices"
+
+	"github.com/charmbracelet/bubbles/help"
+	tea "github.com/charmbracelet/bubbletea"
+)
+
+// The screens over the panels (help, dialogs, the session browser, the
+// measurement screens) are components on a stack in Model: the top one
+// gets the keys and is drawn between the header and the footer; esc (or
+// its own close key) takes it off and shows the one below, the panels
+// when none is left. Each screen is a small type with its own key map, an
+// update and a draw; it opens with push and closes with close.
+
+// screen is one component of the stack.
+type screen interface {
+	// update handles a message: the keys while the screen is on top,
+	// every other message (the terminal's size, a batch's progress) on
+	// every screen of the stack, bottom first. The screen changes itself
+	// and the workbench through m (push, close, note).
+	update(m *Model, msg tea.Msg) tea.Cmd
+	// draw draws the screen in w x h: the terminal less the header and
+	// the footer.
+	draw(m Model, w, h int) []string
+	// keys is the screen's key map; its short help is the footer.
+	keys(m Model) help.KeyMap
+}
+
+// interrupter is a screen that answers ctrl+c itself (see interrupt):
+// done says the answer is complete; otherwise the workbench asks to quit
+// as q does.
+type interrupter interface {
+	interrupt(m *Model) (cmd tea.Cmd, done bool)
+}
+
+// push opens s over the screens shown. The stack is copied, never
+// shared with an earlier value of the Model.
+func (m *Model) push(s screen) { m.stack = append(slices.Clip(m.stack), s) }
+
+// close takes s and every screen over it off the stack (nothing when s
+// is not on it).
+func (m *Model) close(s screen) {
+	if i := slices.Index(m.stack, s); i >= 0 {
+		m.stack = slices.Clip(m.stack[:i])
+	}
+}
+
+// replace closes s and opens n in its place.
+func (m *Model) replace(s, n screen) {
+	m.close(s)
+	m.push(n)
+}
+
+// closeAll shows the panels.
+func (m *Model) closeAll() { m.stack = nil }
+
+// top returns the screen on top (nil: the panels are shown).
+func (m Model) top() screen {
+	if len(m.stack) == 0 {
+		return nil
+	}
+	return m.stack[len(m.stack)-1]
+}
+
+// find returns the screen of type T nearest the top of m's stack.
+func find[T screen](m Model) (T, bool) {
+	for i := len(m.stack) - 1; i >= 0; i-- {
+		if s, ok := m.stack[i].(T); ok {
+			return s, true
+		}
+	}
+	var zero T
+	return zero, false
+}
+
+// screenKey gives a key to the screen on top.
+func (m Model) screenKey(s screen, km tea.KeyMsg) (tea.Model, tea.Cmd) {
+	cmd := s.update(&m, km)
+	return m, cmd
+}
+
+// broadcast hands a message other than a key to every screen on the
+// stack, bottom first.
+func (m *Model) broadcast(msg tea.Msg) tea.Cmd {
+	var cmds []tea.Cmd
+	for _, s := range slices.Clone(m.stack) {
+		cmds = append(cmds, s.update(m, msg))
+	}
+	return tea.Batch(cmds...)
+}
