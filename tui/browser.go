@@ -7,7 +7,6 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/charmbracelet/bubbles/help"
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
@@ -147,15 +146,10 @@ func (k KeyMap) browseKeys() browseKeys {
 func (k browseKeys) ShortHelp() []key.Binding {
 	return []key.Binding{k.Type, k.Choose, k.Open, k.Revisions, k.Clear, k.Close}
 }
-func (k browseKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
 
-func (b *browseScreen) keys(m Model) help.KeyMap { return m.e.keys.browseKeys() }
+func (b *browseScreen) footer(m Model) []key.Binding { return m.e.keys.browseKeys().ShortHelp() }
 
-func (b *browseScreen) update(m *Model, msg tea.Msg) tea.Cmd {
-	km, ok := msg.(tea.KeyMsg)
-	if !ok {
-		return nil
-	}
+func (b *browseScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
 	k := m.e.keys.browseKeys()
 	switch {
 	case keyIs(km, k.Close):
@@ -218,15 +212,10 @@ func (k KeyMap) historyKeys() historyKeys {
 func (k historyKeys) ShortHelp() []key.Binding {
 	return []key.Binding{k.Choose, k.Mark, k.DiffPair, k.DiffCurrent, k.Restore, k.Open, k.Back}
 }
-func (k historyKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
 
-func (b *historyScreen) keys(m Model) help.KeyMap { return m.e.keys.historyKeys() }
+func (b *historyScreen) footer(m Model) []key.Binding { return m.e.keys.historyKeys().ShortHelp() }
 
-func (b *historyScreen) update(m *Model, msg tea.Msg) tea.Cmd {
-	km, ok := msg.(tea.KeyMsg)
-	if !ok {
-		return nil
-	}
+func (b *historyScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
 	k := m.e.keys.historyKeys()
 	sel := func() (sessions.Revision, bool) {
 		if b.hsel < 0 || b.hsel >= len(b.hist) {
@@ -361,45 +350,30 @@ func (m *Model) showDiffCurrent(name string, rev int) error {
 }
 
 // diffKeys is the key map of a comparison.
-type diffKeys struct{ Down, Up, PageDown, PageUp, Top, Bottom, Back key.Binding }
+type diffKeys struct {
+	scrollKeys
+	Back key.Binding
+}
 
 func (k KeyMap) diffKeys() diffKeys {
 	back := k.Back
 	back.SetKeys(append(back.Keys(), "q")...)
-	return diffKeys{Down: k.ScrollDown, Up: k.ScrollUp, PageDown: k.PageDown, PageUp: k.PageUp, Top: k.Top, Bottom: k.Bottom, Back: back}
+	return diffKeys{scrollKeys: k.scrollKeys(), Back: back}
 }
 
 func (k diffKeys) ShortHelp() []key.Binding {
 	return []key.Binding{k.Down, k.Up, k.PageDown, k.PageUp, k.Back}
 }
-func (k diffKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
 
-func (b *diffScreen) keys(m Model) help.KeyMap { return m.e.keys.diffKeys() }
+func (b *diffScreen) footer(m Model) []key.Binding { return m.e.keys.diffKeys().ShortHelp() }
 
-func (b *diffScreen) update(m *Model, msg tea.Msg) tea.Cmd {
-	km, ok := msg.(tea.KeyMsg)
-	if !ok {
-		return nil
-	}
+func (b *diffScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
 	k := m.e.keys.diffKeys()
-	page := max(m.h-8, 1)
-	switch {
-	case keyIs(km, k.Back):
+	head, rows := b.lines(*m, m.w)
+	end := max(len(rows)-max(m.h-2-len(head), 1), 0)
+	if !k.scroll(&b.doff, km, max(m.h-8, 1), end) && keyIs(km, k.Back) {
 		m.close(b)
-	case keyIs(km, k.Down):
-		b.doff++
-	case keyIs(km, k.Up):
-		b.doff--
-	case keyIs(km, k.PageDown):
-		b.doff += page
-	case keyIs(km, k.PageUp):
-		b.doff -= page
-	case keyIs(km, k.Top):
-		b.doff = 0
-	case keyIs(km, k.Bottom):
-		b.doff = 1 << 20
 	}
-	b.doff = max(b.doff, 0)
 	return nil
 }
 
@@ -680,12 +654,18 @@ func (m Model) changeLines(changes []sessions.Change, w int) []string {
 	return out
 }
 
+// lines are the head and the rows of the comparison for width w.
+func (b *diffScreen) lines(m Model, w int) (head, rows []string) {
+	st, g := m.e.st, m.e.g
+	head = []string{rule(b.dtitle, w, glyphs{hbar: g.hbarHeavy}, st.heading)}
+	head = append(head, wrapped(b.dsub, w, st.muted, "")...)
+	head = append(head, st.muted.Paint(plural(len(b.diff), "change", "changes")), "")
+	return head, m.changeLines(b.diff, w)
+}
+
 func (b *diffScreen) draw(m Model, w, h int) []string {
 	st, g := m.e.st, m.e.g
-	out := []string{rule(b.dtitle, w, glyphs{hbar: g.hbarHeavy}, st.heading)}
-	out = append(out, wrapped(b.dsub, w, st.muted, "")...)
-	out = append(out, st.muted.Paint(plural(len(b.diff), "change", "changes")), "")
-	rows := m.changeLines(b.diff, w)
+	out, rows := b.lines(m, w)
 	room := max(h-len(out), 1)
 	off := min(b.doff, max(len(rows)-room, 0))
 	rows = rows[off:]

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"strings"
 
-	"github.com/charmbracelet/bubbles/help"
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
@@ -213,15 +212,10 @@ func (k KeyMap) dialogKeys() dialogKeys {
 func (k dialogKeys) ShortHelp() []key.Binding {
 	return []key.Binding{k.Submit, k.Next, k.Prev, k.Clear, k.Dismiss}
 }
-func (k dialogKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
 
-func (d *dialogScreen) keys(m Model) help.KeyMap { return m.e.keys.dialogKeys() }
+func (d *dialogScreen) footer(m Model) []key.Binding { return m.e.keys.dialogKeys().ShortHelp() }
 
-func (d *dialogScreen) update(m *Model, msg tea.Msg) tea.Cmd {
-	km, ok := msg.(tea.KeyMsg)
-	if !ok {
-		return nil
-	}
+func (d *dialogScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
 	k := m.e.keys.dialogKeys()
 	switch {
 	case keyIs(km, k.Dismiss):
@@ -360,15 +354,10 @@ func (k KeyMap) staleKeys() staleKeys {
 func (k staleKeys) ShortHelp() []key.Binding {
 	return []key.Binding{k.SaveNext, k.SaveCopy, k.ShowNewer, k.Dismiss}
 }
-func (k staleKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
 
-func (s *staleScreen) keys(m Model) help.KeyMap { return m.e.keys.staleKeys() }
+func (s *staleScreen) footer(m Model) []key.Binding { return m.e.keys.staleKeys().ShortHelp() }
 
-func (s *staleScreen) update(m *Model, msg tea.Msg) tea.Cmd {
-	km, ok := msg.(tea.KeyMsg)
-	if !ok {
-		return nil
-	}
+func (s *staleScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
 	k := m.e.keys.staleKeys()
 	switch {
 	case keyIs(km, k.SaveNext):
@@ -408,20 +397,17 @@ func (s *staleScreen) update(m *Model, msg tea.Msg) tea.Cmd {
 // confirmKeys is the key map of a yes/no question.
 type confirmKeys struct{ Yes, No key.Binding }
 
-func (c *confirmScreen) keys(m Model) help.KeyMap {
-	return confirmKeys{Yes: key.NewBinding(key.WithKeys(m.e.keys.Yes.Keys()...), key.WithHelp("y", c.what)),
-		No: key.NewBinding(key.WithKeys(m.e.keys.No.Keys()...), key.WithHelp("n/esc", "cancel"))}
+func (c *confirmScreen) confirmKeys(k KeyMap) confirmKeys {
+	return confirmKeys{Yes: key.NewBinding(key.WithKeys(k.Yes.Keys()...), key.WithHelp("y", c.what)),
+		No: key.NewBinding(key.WithKeys(k.No.Keys()...), key.WithHelp("n/esc", "cancel"))}
 }
 
-func (k confirmKeys) ShortHelp() []key.Binding  { return []key.Binding{k.Yes, k.No} }
-func (k confirmKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
+func (c *confirmScreen) footer(m Model) []key.Binding { return c.confirmKeys(m.e.keys).ShortHelp() }
 
-func (c *confirmScreen) update(m *Model, msg tea.Msg) tea.Cmd {
-	km, ok := msg.(tea.KeyMsg)
-	if !ok {
-		return nil
-	}
-	k := c.keys(*m).(confirmKeys)
+func (k confirmKeys) ShortHelp() []key.Binding { return []key.Binding{k.Yes, k.No} }
+
+func (c *confirmScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
+	k := c.confirmKeys(m.e.keys)
 	switch {
 	case keyIs(km, k.Yes):
 		m.close(c)
@@ -440,16 +426,11 @@ func (k KeyMap) draftKeys() draftKeys {
 	return draftKeys{Restore: k.DraftRestore, Discard: k.DraftDiscard, Later: k.DraftLater}
 }
 
-func (k draftKeys) ShortHelp() []key.Binding  { return []key.Binding{k.Restore, k.Discard, k.Later} }
-func (k draftKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
+func (k draftKeys) ShortHelp() []key.Binding { return []key.Binding{k.Restore, k.Discard, k.Later} }
 
-func (d *draftScreen) keys(m Model) help.KeyMap { return m.e.keys.draftKeys() }
+func (d *draftScreen) footer(m Model) []key.Binding { return m.e.keys.draftKeys().ShortHelp() }
 
-func (d *draftScreen) update(m *Model, msg tea.Msg) tea.Cmd {
-	km, ok := msg.(tea.KeyMsg)
-	if !ok {
-		return nil
-	}
+func (d *draftScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
 	k := m.e.keys.draftKeys()
 	switch {
 	case keyIs(km, k.Restore):

@@ -3,7 +3,6 @@ package tui
 import (
 	"strings"
 
-	"github.com/charmbracelet/bubbles/help"
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 )
@@ -37,43 +36,27 @@ type helpScreen struct{ off int }
 func (m *Model) openHelp() { m.push(&helpScreen{}) }
 
 // helpKeys is the key map of the help screen.
-type helpKeys struct{ Down, Up, PageDown, PageUp, Top, Bottom, Back key.Binding }
+type helpKeys struct {
+	scrollKeys
+	Back key.Binding
+}
 
 func (k KeyMap) helpKeys() helpKeys {
 	back := key.NewBinding(key.WithKeys(append([]string{"esc", "q", "enter"}, k.Help.Keys()...)...), key.WithHelp("esc/?", "back"))
-	return helpKeys{Down: k.ScrollDown, Up: k.ScrollUp, PageDown: k.PageDown, PageUp: k.PageUp, Top: k.Top, Bottom: k.Bottom, Back: back}
+	return helpKeys{scrollKeys: k.scrollKeys(), Back: back}
 }
 
 func (k helpKeys) ShortHelp() []key.Binding {
 	return []key.Binding{k.Down, k.Up, k.PageDown, k.Bottom, k.Top, k.Back}
 }
-func (k helpKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
 
-func (s *helpScreen) keys(m Model) help.KeyMap { return m.e.keys.helpKeys() }
+func (s *helpScreen) footer(m Model) []key.Binding { return m.e.keys.helpKeys().ShortHelp() }
 
-func (s *helpScreen) update(m *Model, msg tea.Msg) tea.Cmd {
-	km, ok := msg.(tea.KeyMsg)
-	if !ok {
-		return nil
-	}
+func (s *helpScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
 	k := m.e.keys.helpKeys()
-	switch {
-	case keyIs(km, k.Down):
-		s.off++
-	case keyIs(km, k.Up):
-		s.off--
-	case keyIs(km, k.PageDown):
-		s.off += m.helpPage()
-	case keyIs(km, k.PageUp):
-		s.off -= m.helpPage()
-	case keyIs(km, k.Top):
-		s.off = 0
-	case keyIs(km, k.Bottom):
-		s.off = m.helpEnd()
-	case keyIs(km, k.Back):
+	if !k.scroll(&s.off, km, m.helpPage(), m.helpEnd()) && keyIs(km, k.Back) {
 		m.close(s)
 	}
-	s.off = min(max(s.off, 0), m.helpEnd())
 	return nil
 }
 

@@ -270,16 +270,11 @@ func (m Model) quitKeys() quitKeys {
 	return quitKeys{SaveFirst: save, Yes: k.Yes, No: no}
 }
 
-func (k quitKeys) ShortHelp() []key.Binding  { return []key.Binding{k.SaveFirst, k.Yes, k.No} }
-func (k quitKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
+func (k quitKeys) ShortHelp() []key.Binding { return []key.Binding{k.SaveFirst, k.Yes, k.No} }
 
-func (s *quitScreen) keys(m Model) help.KeyMap { return m.quitKeys() }
+func (s *quitScreen) footer(m Model) []key.Binding { return m.quitKeys().ShortHelp() }
 
-func (s *quitScreen) update(m *Model, msg tea.Msg) tea.Cmd {
-	km, ok := msg.(tea.KeyMsg)
-	if !ok {
-		return nil
-	}
+func (s *quitScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
 	k := m.quitKeys()
 	switch {
 	case keyIs(km, k.Yes):

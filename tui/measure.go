@@ -6,7 +6,6 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/charmbracelet/bubbles/help"
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
@@ -71,15 +70,10 @@ func (k importKeys) ShortHelp() []key.Binding {
 	}
 	return []key.Binding{k.Read, k.Complete, k.Dismiss}
 }
-func (k importKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
 
-func (s *importScreen) keys(m Model) help.KeyMap { return s.importKeys(m.e.keys) }
+func (s *importScreen) footer(m Model) []key.Binding { return s.importKeys(m.e.keys).ShortHelp() }
 
-func (s *importScreen) update(m *Model, msg tea.Msg) tea.Cmd {
-	km, ok := msg.(tea.KeyMsg)
-	if !ok {
-		return nil
-	}
+func (s *importScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
 	k := s.importKeys(m.e.keys)
 	defer func() { m.importPath = s.ed.value() }()
 	switch {

@@ -6,7 +6,6 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/charmbracelet/bubbles/help"
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
@@ -94,15 +93,10 @@ func (k KeyMap) arrheniusKeys() arrheniusKeys {
 func (k arrheniusKeys) ShortHelp() []key.Binding {
 	return []key.Binding{k.Apply, k.Choose, k.Toggle, k.Close}
 }
-func (k arrheniusKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
 
-func (a *arrheniusScreen) keys(m Model) help.KeyMap { return m.e.keys.arrheniusKeys() }
+func (a *arrheniusScreen) footer(m Model) []key.Binding { return m.e.keys.arrheniusKeys().ShortHelp() }
 
-func (a *arrheniusScreen) update(m *Model, msg tea.Msg) tea.Cmd {
-	km, ok := msg.(tea.KeyMsg)
-	if !ok {
-		return nil
-	}
+func (a *arrheniusScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
 	k := m.e.keys.arrheniusKeys()
 	switch {
 	case keyIs(km, k.Close):

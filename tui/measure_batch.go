@@ -8,7 +8,6 @@ import (
 	"path/filepath"
 	"strings"
 
-	"github.com/charmbracelet/bubbles/help"
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
@@ -174,25 +173,23 @@ func (k KeyMap) batchKeys() batchKeys {
 func (k batchKeys) ShortHelp() []key.Binding {
 	return []key.Binding{k.Run, k.Focus, k.Walk, k.Param, k.Wafer, k.Export, k.Close}
 }
-func (k batchKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
 
-func (b *batchScreen) keys(m Model) help.KeyMap { return m.e.keys.batchKeys() }
+func (b *batchScreen) footer(m Model) []key.Binding { return m.e.keys.batchKeys().ShortHelp() }
 
-// update takes the run's messages (whether on top or not) and the keys.
-func (b *batchScreen) update(m *Model, msg tea.Msg) tea.Cmd {
+// listen takes the run's messages, on top or not.
+func (b *batchScreen) listen(_ *Model, msg tea.Msg) tea.Cmd {
 	switch msg := msg.(type) {
 	case batchProgressMsg:
 		return b.progress(msg)
 	case batchDoneMsg:
 		b.finish(msg)
-		return nil
-	case tea.KeyMsg:
-		return b.key(m, msg)
 	}
 	return nil
 }
 
-func (b *batchScreen) key(m *Model, km tea.KeyMsg) tea.Cmd {
+// update is the batch screen's key handling: the directory, the run, the
+// export, and the wafer map's keys (mapKey).
+func (b *batchScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
 	k := m.e.keys.batchKeys()
 	switch {
 	case keyIs(km, k.Close) && b.wm.die != nil:

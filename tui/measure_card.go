@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"strings"
 
-	"github.com/charmbracelet/bubbles/help"
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
@@ -47,46 +46,41 @@ func (m *Model) openCard() {
 }
 
 // cardKeys is the key map of the model-card screen.
-type cardKeys struct{ Down, Up, PageDown, PageUp, Top, Close key.Binding }
-
-func (k KeyMap) cardKeys() cardKeys {
-	return cardKeys{Down: k.ScrollDown, Up: k.ScrollUp, PageDown: k.PageDown, PageUp: k.PageUp, Top: k.Top, Close: k.Close}
+type cardKeys struct {
+	scrollKeys
+	Close key.Binding
 }
 
-func (k cardKeys) ShortHelp() []key.Binding  { return []key.Binding{k.Down, k.Up, k.Close} }
-func (k cardKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
+func (k KeyMap) cardKeys() cardKeys { return cardKeys{scrollKeys: k.scrollKeys(), Close: k.Close} }
 
-func (c *cardScreen) keys(m Model) help.KeyMap { return m.e.keys.cardKeys() }
+func (k cardKeys) ShortHelp() []key.Binding { return []key.Binding{k.Down, k.Up, k.Close} }
 
-func (c *cardScreen) update(m *Model, msg tea.Msg) tea.Cmd {
-	km, ok := msg.(tea.KeyMsg)
-	if !ok {
-		return nil
-	}
+func (c *cardScreen) footer(m Model) []key.Binding { return m.e.keys.cardKeys().ShortHelp() }
+
+func (c *cardScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
 	k := m.e.keys.cardKeys()
-	switch {
-	case keyIs(km, k.Close):
+	end := max(0, len(c.lines(*m, m.w))-(m.h-2-1))
+	if !k.scroll(&c.top, km, 10, end) && keyIs(km, k.Close) {
 		m.close(c)
-	case keyIs(km, k.Down):
-		c.top++
-	case keyIs(km, k.Up):
-		c.top = max(0, c.top-1)
-	case keyIs(km, k.PageDown):
-		c.top += 10
-	case keyIs(km, k.PageUp):
-		c.top = max(0, c.top-10)
-	case keyIs(km, k.Top):
-		c.top = 0
 	}
 	return nil
 }
 
-// view draws the card: the sweeps used, the parameters with their
-// standard errors and sources, the ranges and cautions, the card itself
-// (continued with "+" lines to fit the width), the subcircuit and notes.
+// draw draws the title and the card's lines from the scroll.
 func (c *cardScreen) draw(m Model, w, h int) []string {
 	st, g := m.e.st, m.e.g
 	head := rule("Model card from the session's data sets", w, glyphs{hbar: g.hbarHeavy}, st.heading)
+	out := c.lines(m, w)
+	top := min(c.top, max(0, len(out)-(h-1)))
+	return block(append([]string{head}, out[top:]...), w, h, g.ellipsis)
+}
+
+// lines are the card for width w: the sweeps used, the parameters with
+// their standard errors and sources, the ranges and cautions, the card
+// itself (continued with "+" lines to fit the width), the subcircuit and
+// notes.
+func (c *cardScreen) lines(m Model, w int) []string {
+	st, g := m.e.st, m.e.g
 	var out []string
 	if c.err != "" {
 		out = append(out, st.err.Paint(g.bad+" no model card:"))
@@ -125,8 +119,7 @@ func (c *cardScreen) draw(m Model, w, h int) []string {
 			out = append(out, wrapped(n, w, st.muted, "  ")...)
 		}
 	}
-	top := min(c.top, max(0, len(out)-(h-1)))
-	return block(append([]string{head}, out[top:]...), w, h, g.ellipsis)
+	return out
 }
 
 // cardWrap breaks a card line at blanks into lines of at most w columns,

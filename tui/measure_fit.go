@@ -5,7 +5,6 @@ import (
 	"math"
 	"strings"
 
-	"github.com/charmbracelet/bubbles/help"
 	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 
@@ -223,34 +222,36 @@ func (s *fitScreen) fitKeys(k KeyMap) fitKeys {
 func (k fitKeys) ShortHelp() []key.Binding {
 	return []key.Binding{k.Refit, k.OtherBound, k.Keep, k.LinLog, k.NextData, k.Close}
 }
-func (k fitKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
 
-func (s *fitScreen) keys(m Model) help.KeyMap { return s.fitKeys(m.e.keys) }
+func (s *fitScreen) footer(m Model) []key.Binding { return s.fitKeys(m.e.keys).ShortHelp() }
 
-func (s *fitScreen) update(m *Model, msg tea.Msg) tea.Cmd {
-	switch msg := msg.(type) {
-	case tea.WindowSizeMsg:
+// listen draws the chart again for a new terminal size.
+func (s *fitScreen) listen(m *Model, msg tea.Msg) tea.Cmd {
+	if _, ok := msg.(tea.WindowSizeMsg); ok {
 		s.render(*m)
-	case tea.KeyMsg:
-		k := s.fitKeys(m.e.keys)
-		switch {
-		case keyIs(msg, k.Close):
-			m.close(s)
-		case keyIs(msg, k.Refit):
-			s.applyWindow(*m)
-		case keyIs(msg, k.Keep):
-			s.keep(m)
-		case keyIs(msg, k.LinLog):
-			s.kind.(axisSwitcher).switchAxis()
-			s.render(*m)
-		case keyIs(msg, k.OtherBound):
-			s.row = 1 - s.row
-		case keyIs(msg, k.PrevData), keyIs(msg, k.NextData):
-			s.step(*m, keyIs(msg, k.NextData))
-		default:
-			s.row = min(max(s.row, 0), 1)
-			s.eds[s.row].handle(msg)
-		}
+	}
+	return nil
+}
+
+func (s *fitScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
+	k := s.fitKeys(m.e.keys)
+	switch {
+	case keyIs(km, k.Close):
+		m.close(s)
+	case keyIs(km, k.Refit):
+		s.applyWindow(*m)
+	case keyIs(km, k.Keep):
+		s.keep(m)
+	case keyIs(km, k.LinLog):
+		s.kind.(axisSwitcher).switchAxis()
+		s.render(*m)
+	case keyIs(km, k.OtherBound):
+		s.row = 1 - s.row
+	case keyIs(km, k.PrevData), keyIs(km, k.NextData):
+		s.step(*m, keyIs(km, k.NextData))
+	default:
+		s.row = min(max(s.row, 0), 1)
+		s.eds[s.row].handle(km)
 	}
 	return nil
 }

@@ -53,3 +53,21 @@ func TestStepKeysFromEveryPanel(t *testing.T) {
 		}
 	}
 }
+
+// The model card scrolls within its text as the help does: G and end show
+// its last line, and k from there moves one line back (not from far
+// beyond the end).
+func TestCardScrollStopsAtTheEnd(t *testing.T) {
+	m := press(newTest(t, 80, 24), "M")
+	c := onTop[cardScreen](m)
+	end := len(c.lines(m, m.w)) - (m.h - 3)
+	if end <= 1 {
+		t.Fatalf("the card is %d lines past the screen: too short to test", end)
+	}
+	if m = press(m, "G"); c.top != end || !strings.Contains(plain(m), c.lines(m, m.w)[len(c.lines(m, m.w))-1]) {
+		t.Errorf("G scrolled the card to %d, want its end %d", c.top, end)
+	}
+	if m = press(m, "j", "k"); c.top != end-1 {
+		t.Errorf("j past the end then k: %d, want %d", c.top, end-1)
+	}
+}

@@ -3,7 +3,7 @@ package tui
 import (
 	"slices"
 
-	"github.com/charmbracelet/bubbles/help"
+	"github.com/charmbracelet/bubbles/key"
 	tea "github.com/charmbracelet/bubbletea"
 )
 
@@ -16,16 +16,23 @@ import (
 
 // screen is one component of the stack.
 type screen interface {
-	// update handles a message: the keys while the screen is on top,
-	// every other message (the terminal's size, a batch's progress) on
-	// every screen of the stack, bottom first. The screen changes itself
-	// and the workbench through m (push, close, note).
-	update(m *Model, msg tea.Msg) tea.Cmd
-	// draw draws the screen in w x h: the terminal less the header and
-	// the footer.
+	// update handles a key while the screen is on top: the screen
+	// changes itself and the workbench through m (push, close, note).
+	update(m *Model, km tea.KeyMsg) tea.Cmd
+	// draw draws the screen in w x h, the terminal less the header and
+	// the footer, laid out for that size.
 	draw(m Model, w, h int) []string
-	// keys is the screen's key map; its short help is the footer.
-	keys(m Model) help.KeyMap
+	// footer is the keys the footer names: the short help of the
+	// screen's key map.
+	footer(m Model) []key.Binding
+}
+
+// listener is a screen that takes the messages other than keys while it
+// is on the stack, on top or not, bottom first: the fit screen draws its
+// chart again for a new terminal size, the batch screen takes its run's
+// progress.
+type listener interface {
+	listen(m *Model, msg tea.Msg) tea.Cmd
 }
 
 // interrupter is a screen that answers ctrl+c itself (see interrupt):
@@ -81,12 +88,46 @@ func (m Model) screenKey(s screen, km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	return m, cmd
 }
 
-// broadcast hands a message other than a key to every screen on the
+// broadcast hands a message other than a key to every listener on the
 // stack, bottom first.
 func (m *Model) broadcast(msg tea.Msg) tea.Cmd {
 	var cmds []tea.Cmd
 	for _, s := range slices.Clone(m.stack) {
-		cmds = append(cmds, s.update(m, msg))
+		if l, ok := s.(listener); ok {
+			cmds = append(cmds, l.listen(m, msg))
+		}
 	}
 	return tea.Batch(cmds...)
+}
+
+// scrollKeys are the keys of a screen that scrolls a long text: the
+// help, a comparison, the model card.
+type scrollKeys struct{ Down, Up, PageDown, PageUp, Top, Bottom key.Binding }
+
+func (k KeyMap) scrollKeys() scrollKeys {
+	return scrollKeys{Down: k.ScrollDown, Up: k.ScrollUp, PageDown: k.PageDown, PageUp: k.PageUp, Top: k.Top, Bottom: k.Bottom}
+}
+
+// scroll moves *off by km (page lines to a page) and holds it within 0
+// to end, the offset that shows the end; it reports whether km is a
+// scroll key.
+func (k scrollKeys) scroll(off *int, km tea.KeyMsg, page, end int) bool {
+	switch {
+	case keyIs(km, k.Down):
+		*off++
+	case keyIs(km, k.Up):
+		*off--
+	case keyIs(km, k.PageDown):
+		*off += page
+	case keyIs(km, k.PageUp):
+		*off -= page
+	case keyIs(km, k.Top):
+		*off = 0
+	case keyIs(km, k.Bottom):
+		*off = end
+	default:
+		return false
+	}
+	*off = min(max(*off, 0), end)
+	return true
 }

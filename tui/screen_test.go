@@ -118,7 +118,8 @@ func TestEscReturnsToTheScreenBelow(t *testing.T) {
 // A push never writes into the stack of an earlier value of the Model.
 func TestScreenStackIsNotShared(t *testing.T) {
 	m := newTest(t, 80, 24)
-	m.push(&helpScreen{})
+	m.stack = make([]screen, 1, 4) // room to grow in place: a push must not use it
+	m.stack[0] = &helpScreen{}
 	a, b := m, m
 	a.push(&quitScreen{})
 	b.push(&cardScreen{})
@@ -135,10 +136,13 @@ func TestScreenStackIsNotShared(t *testing.T) {
 // card screen, five j scroll five lines; on the import screen, a path
 // typed in one read lands whole in its box.
 func TestKeysInOneReadReachTheTopScreen(t *testing.T) {
-	m := newTest(t, 120, 40)
+	m := newTest(t, 80, 24)
 	card := feed(m, oneRead("M"))
 	if shown(card) != "card" {
 		t.Fatalf("M opened %s", shown(card))
+	}
+	if n := len(onTop[cardScreen](card).lines(card, card.w)); n < 5+card.h {
+		t.Fatalf("the card has %d lines: too short to scroll five at %d rows; the test set-up is wrong", n, card.h)
 	}
 	card = feed(card, oneRead("jjjjj"))
 	if top := onTop[cardScreen](card).top; top != 5 {
@@ -184,7 +188,7 @@ func TestCtrlCOnceFromEveryScreen(t *testing.T) {
 				continue
 			}
 		}
-		if shown(m) != "quit" || len(m.stack) != depth+1 {
+		if shown(m) != "quit" || len(m.stack) != depth+1 || !strings.Contains(plain(m), "Quit junco?") {
 			t.Errorf("%s: ctrl+c shows %s with %d screens, want the quit question over %d", name, shown(m), len(m.stack), depth)
 			continue
 		}
@@ -210,5 +214,31 @@ func TestCtrlCOnceFromEveryScreen(t *testing.T) {
 	}
 	if ds, _, err := st.DraftsOf(sessions.UnnamedDraft, sessions.EditorID("alice")); err != nil || len(ds) != 1 {
 		t.Errorf("the draft must be kept: %d drafts, %v", len(ds), err)
+	}
+}
+
+// ctrl+c on a running batch stops the run (the files finished are kept)
+// and asks to quit over the batch screen; n shows the batch again.
+func TestCtrlCStopsTheBatch(t *testing.T) {
+	dir := writeBatchDir(t, 6)
+	m := newTest(t, 100, 30)
+	m = editField(m, "5", 0, "320")
+	m = press(m, "enter", "B")
+	m = typeText(m, dir)
+	tm, run := m.Update(keyMsg("enter"))
+	m = tm.(Model)
+	if !batchOf(m).running {
+		t.Fatal("enter must start the batch")
+	}
+	tm, _ = m.Update(keyMsg("ctrl+c"))
+	m = drain(tm.(Model), run)
+	if shown(m) != "quit" || batchOf(m).running || batchOf(m).view == nil {
+		t.Fatalf("ctrl+c on the run: %s, running %v, rows %v", shown(m), batchOf(m).running, batchOf(m).view != nil)
+	}
+	if v := batchOf(m).view; v.Interrupted && !strings.Contains(batchOf(m).err, "cancelled") {
+		t.Errorf("an interrupted run must say so: %q", batchOf(m).err)
+	}
+	if m = press(m, "n"); shown(m) != "batch" {
+		t.Errorf("n at the question: %s, want the batch", shown(m))
 	}
 }

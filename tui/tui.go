@@ -594,22 +594,22 @@ func (m Model) View() string {
 func (m Model) footer() string {
 	st := m.e.st
 	var hk help.KeyMap
+	switch m.focus {
+	case panelDefine:
+		hk = formHelp{k: m.e.keys, typing: m.form.typing}
+	case panelResults:
+		hk = sheetHelp{k: m.e.keys}
+	default:
+		hk = chartHelp{k: m.e.keys, typing: m.chart.editing}
+	}
+	keys := hk.ShortHelp()
 	if s := m.top(); s != nil {
-		hk = s.keys(m)
-	} else {
-		switch m.focus {
-		case panelDefine:
-			hk = formHelp{k: m.e.keys, typing: m.form.typing}
-		case panelResults:
-			hk = sheetHelp{k: m.e.keys}
-		default:
-			hk = chartHelp{k: m.e.keys, typing: m.chart.editing}
-		}
+		keys = s.footer(m)
 	}
 	hm := m.help
 	note := ""
 	if m.note != "" {
 		note = st.warn.Paint(cut(m.note, max(m.w-2, 0), m.e.g.ellipsis)) + "  "
 	}
-	return note + shortHelp(hm, hk.ShortHelp(), max(m.w-width(note), 0))
+	return note + shortHelp(hm, keys, max(m.w-width(note), 0))
 }

@@ -60,27 +60,3 @@ func TestTypeaheadIntoTextField(t *testing.T) {
 		t.Errorf("temperature in force %g K, want 350", m.Spec().Temperature)
 	}
 }
-
-// ctrl+c acts the same from every screen: with unsaved changes it asks
-// whether to quit (the help, the import dialog, the fit and Arrhenius screens), and
-// pressed again at that question it quits at once.
-func TestCtrlCOnEveryScreen(t *testing.T) {
-	for _, open := range []string{"?", "i", "f", "A"} {
-		m := newTest(t, 120, 40)
-		m = editField(m, "5", 0, "320")
-		m = press(m, "enter")
-		m = press(m, open)
-		if shown(m) == "main" {
-			t.Fatalf("%q opened no screen", open)
-		}
-		m = press(m, "ctrl+c")
-		if !strings.Contains(plain(m), "Quit junco?") {
-			t.Errorf("ctrl+c from the screen of %q did not ask:\n%s", open, plain(m))
-			continue
-		}
-		_, cmd := m.Update(keyMsg("ctrl+c"))
-		if cmd == nil {
-			t.Errorf("second ctrl+c from %q: nothing to run", open)
-		}
-	}
-}
