@@ -22,9 +22,7 @@ func TestImportDialogBoxCompletionAndNames(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, n := range []string{"d7-25C.csv", "d7-75C.csv", "notes.txt"} {
-		if err := os.WriteFile(filepath.Join(dir, n), src, 0o600); err != nil {
-			t.Fatal(err)
-		}
+		writeText(t, filepath.Join(dir, n), string(src))
 	}
 	m := bare(newTest(t, 100, 30))
 	m = press(m, "i")

@@ -2,11 +2,9 @@ package tui
 
 import (
 	"fmt"
-	"math/rand/v2"
 	"strings"
 	"testing"
 
-	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/x/exp/golden"
 
 	"junco/model/fit"
@@ -116,32 +114,5 @@ func TestBatchMapWalk(t *testing.T) {
 	m = press(m, "esc", "esc", "B")
 	if shown(m) != "batch" || batchOf(m).view == nil {
 		t.Error("B must show the last run again after the batch was closed")
-	}
-}
-
-// Random keys on the map and in a die's fit (arrows, enter, [ ], w, tab,
-// letters, sizes) never panic, keep the screen and always draw.
-func TestBatchMapRandomKeys(t *testing.T) {
-	m := newTest(t, 100, 30)
-	m = press(m, "B")
-	m = typeText(m, waferDir)
-	m = press(m, "enter")
-	rng := rand.New(rand.NewPCG(9, 4))
-	keys := []string{"up", "down", "left", "right", "enter", "[", "]", "w", "tab", "h", "j", "k", "l", "x", "1"}
-	sizes := [][2]int{{0, 0}, {1, 1}, {20, 5}, {40, 12}, {80, 24}, {200, 60}}
-	for step := 0; step < 500; step++ {
-		var msg tea.Msg = keyMsg(keys[rng.IntN(len(keys))])
-		if rng.IntN(20) == 0 {
-			s := sizes[rng.IntN(len(sizes))]
-			msg = tea.WindowSizeMsg{Width: s[0], Height: s[1]}
-		}
-		tm, cmd := m.Update(msg)
-		m = drain(tm.(Model), cmd)
-		if shown(m) != "batch" {
-			t.Fatalf("step %d: left the screen", step)
-		}
-		if m.w > 0 && m.h > 0 && m.View() == "" {
-			t.Fatalf("step %d: empty view", step)
-		}
 	}
 }

@@ -4,53 +4,13 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
-	tea "github.com/charmbracelet/bubbletea"
-
 	"junco/model/fit"
-	"junco/physics"
-	"junco/physics/extract"
 )
-
-// batchIs is the saturation current of the invented diodes.
-const batchIs = 2e-12
-
-// writeBatchDir writes good invented I-V sweeps (single diode at 300 K,
-// Is spread by a few percent around batchIs, 1 % multiplicative noise)
-// and one file that is not a measurement into a temporary directory.
-func writeBatchDir(t *testing.T, good int) string {
-	t.Helper()
-	dir := t.TempDir()
-	vt := physics.ThermalVoltage(300)
-	rng := rand.New(rand.NewPCG(7, 11))
-	for k := 0; k < good; k++ {
-		// Invented device, not a measurement.
-		d := extract.SingleDiode{SaturationCurrentA: batchIs * (1 + 0.04*float64(k-good/2)/float64(good)),
-			IdealityFactor: 1.3 + 0.02*float64(k%3), SeriesResistanceOhm: 3, ShuntResistanceOhm: math.Inf(1)}
-		var b strings.Builder
-		b.WriteString("# invented single-diode sweep for a test\n# temperature: 300 K\nV,I (A)\n")
-		for i := 0; i <= 60; i++ {
-			v := 0.1 + 0.6*float64(i)/60
-			cur := d.Current(v, vt) * (1 + 0.01*rng.NormFloat64())
-			fmt.Fprintf(&b, "%.4f,%.6e\n", v, cur)
-		}
-		if err := os.WriteFile(filepath.Join(dir, fmt.Sprintf("die%02d.csv", k)), []byte(b.String()), 0o600); err != nil {
-			t.Fatal(err)
-		}
-	}
-	if err := os.WriteFile(filepath.Join(dir, "broken.csv"), []byte("no numbers here\nat all;;\n"), 0o600); err != nil {
-		t.Fatal(err)
-	}
-	if err := os.WriteFile(filepath.Join(dir, "notes.md"), []byte("not listed"), 0o600); err != nil {
-		t.Fatal(err)
-	}
-	return dir
-}
 
 func TestBatchFilesListing(t *testing.T) {
 	dir := writeBatchDir(t, 3)
@@ -175,42 +135,6 @@ func TestBatchScreenCancel(t *testing.T) {
 	tm, _ = m.Update(batchProgressMsg{seq: seq + 5, n: 99, total: 99})
 	if batchOf(tm.(Model)).n == 99 {
 		t.Error("a stale progress must be dropped")
-	}
-}
-
-// Random keys on the batch screen (with a finished batch shown) never
-// panic and always draw.
-func TestBatchRandomKeys(t *testing.T) {
-	dir := writeBatchDir(t, 2)
-	m := newTest(t, 80, 24)
-	m = press(m, "B")
-	m = typeText(m, dir)
-	m = press(m, "enter")
-	rng := rand.New(rand.NewPCG(3, 5))
-	named := []tea.KeyType{tea.KeyLeft, tea.KeyRight, tea.KeyBackspace, tea.KeyDelete, tea.KeyHome, tea.KeyEnd,
-		tea.KeyCtrlU, tea.KeyCtrlW, tea.KeySpace, tea.KeyUp, tea.KeyDown, tea.KeyTab, tea.KeyPgDown}
-	const runes = "abcBf/.-_09 é"
-	sizes := [][2]int{{0, 0}, {1, 1}, {20, 5}, {40, 12}, {80, 24}, {200, 60}}
-	for step := 0; step < 400; step++ {
-		var msg tea.Msg
-		switch p := rng.IntN(100); {
-		case p < 5:
-			s := sizes[rng.IntN(len(sizes))]
-			msg = tea.WindowSizeMsg{Width: s[0], Height: s[1]}
-		case p < 50:
-			msg = tea.KeyMsg{Type: named[rng.IntN(len(named))]}
-		default:
-			r := []rune(runes)
-			msg = tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune{r[rng.IntN(len(r))]}}
-		}
-		tm, _ := m.Update(msg)
-		m = tm.(Model)
-		if shown(m) != "batch" {
-			t.Fatalf("step %d: left the screen", step)
-		}
-		if m.w > 0 && m.h > 0 && m.View() == "" {
-			t.Fatalf("step %d: empty view", step)
-		}
 	}
 }
 

@@ -46,7 +46,7 @@ func (f *cvFit) refit(m Model, ds *measure.DataSet, win fit.Window) {
 
 // chart draws 1/(C - Cpar)^2 of the data, the Mott-Schottky line and the
 // prediction.
-func (f *cvFit) chart(m Model, _ *measure.DataSet, cw, ch int) (legend []string, yTitle string, plot []string) {
+func (f *cvFit) chart(m Model, cw, ch int) (legend []string, yTitle string, plot []string) {
 	st, g := m.e.st, m.e.g
 	v := f.view
 	if v == nil || len(v.Inverse.Series) < 2 {

@@ -35,9 +35,9 @@ type fitKind interface {
 	// refit fits ds (nil: the data set is gone) in win with the
 	// junction in force (its temperature, its prediction).
 	refit(m Model, ds *measure.DataSet, win fit.Window)
-	// chart draws the chart of ds in cw x ch cells: the legend, the y
-	// axis title and the plot lines (nil: no chart).
-	chart(m Model, ds *measure.DataSet, cw, ch int) (legend []string, yTitle string, plot []string)
+	// chart draws the chart of the fit in cw x ch cells: the legend, the
+	// y axis title and the plot lines (nil: no chart).
+	chart(m Model, cw, ch int) (legend []string, yTitle string, plot []string)
 	// table is the parameter table in w columns; compact keeps it to
 	// fitCompactRows lines, below the chart.
 	table(m Model, w int, compact bool) []string
@@ -278,7 +278,7 @@ func (s *fitScreen) render(m Model) {
 	if s.idx < 0 || s.idx >= len(m.sess.meas) || cw < 16 {
 		return
 	}
-	s.legend, s.yTitle, s.plot = s.kind.chart(m, &m.sess.meas[s.idx].DataSet, cw, ch)
+	s.legend, s.yTitle, s.plot = s.kind.chart(m, cw, ch)
 }
 
 // view draws the title, the window boxes, the chart and the table.

@@ -1,42 +1,12 @@
 package tui
 
 import (
-	"fmt"
 	"math"
-	"math/rand/v2"
-	"os"
-	"path/filepath"
 	"strings"
 	"testing"
 
 	"junco/model/fit"
-	"junco/physics"
-	"junco/physics/extract"
 )
-
-// writeIVAt writes an invented sweep of a diode (Is 1e-14 A, n 1.05,
-// Rs 1 ohm) at tk with 0.5 % noise, under the first line head ("" for
-// none).
-func writeIVAt(t *testing.T, name, head string, tk float64) string {
-	t.Helper()
-	rng := rand.New(rand.NewPCG(5, 5))
-	d := extract.SingleDiode{SaturationCurrentA: 1e-14, IdealityFactor: 1.05, SeriesResistanceOhm: 1, ShuntResistanceOhm: math.Inf(1)}
-	vt := physics.ThermalVoltage(tk)
-	var b strings.Builder
-	if head != "" {
-		b.WriteString(head + "\n")
-	}
-	b.WriteString("V (V),I (A)\n")
-	for k := 0; k < 80; k++ {
-		v := 0.2 + 0.006*float64(k)
-		fmt.Fprintf(&b, "%.4f,%.6e\n", v, d.Current(v, vt)*(1+0.005*rng.NormFloat64()))
-	}
-	p := filepath.Join(t.TempDir(), name)
-	if err := os.WriteFile(p, []byte(b.String()), 0o600); err != nil {
-		t.Fatal(err)
-	}
-	return p
-}
 
 // The import preview says which temperature a fit will use: the file's
 // comment (also written without a colon), else the junction's, flagged;

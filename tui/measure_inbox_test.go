@@ -22,8 +22,8 @@ func servedInbox(t *testing.T) (m Model, data string, outside []string) {
 	}
 	secretCSV := filepath.Join(data, "private.csv")
 	account := filepath.Join(data, "account")
-	os.WriteFile(secretCSV, good, 0o600)
-	os.WriteFile(account, []byte("rootSECRET:x:0:0:root:/root:/bin/sh\n"), 0o600)
+	writeText(t, secretCSV, string(good))
+	writeText(t, account, "rootSECRET:x:0:0:root:/root:/bin/sh\n")
 	put := func(user, name string, b []byte) *sessions.Inbox {
 		in, err := sessions.OpenInbox(data, user, sessions.InboxLimits{})
 		if err != nil {

@@ -14,6 +14,7 @@ import (
 // set with the junction's prediction on a log |I| chart (ctrl+l: linear),
 // or the fit of a lit data set (fit.IsLit; measure_lit.go).
 type ivFit struct {
+	meas model.Curve // the data set's points
 	view *fit.IVView
 	lit  *fit.LitView
 	err  string
@@ -51,6 +52,7 @@ func (f *ivFit) refit(m Model, ds *measure.DataSet, win fit.Window) {
 		f.err = "the data set is gone"
 		return
 	case fit.IsLit(ds):
+		f.meas = fit.MeasuredCurve(ds)
 		lv, err := fit.NewLitView(ds, fit.LitOptions{Window: win, Temperature: m.junctionRule()})
 		if err != nil {
 			f.err = err.Error()
@@ -58,6 +60,7 @@ func (f *ivFit) refit(m Model, ds *measure.DataSet, win fit.Window) {
 		f.lit = lv
 		return
 	}
+	f.meas = fit.MeasuredCurve(ds)
 	v, err := fit.NewIVView(ds, fit.IVOptions{Window: win, Temperature: m.junctionRule()})
 	if err != nil {
 		f.err = err.Error()
@@ -83,12 +86,12 @@ func (f *ivFit) records() []fit.Record {
 
 // chart draws the measured points, the fit and the prediction: log |I|,
 // or |I| on a linear axis scaled to the measured range.
-func (f *ivFit) chart(m Model, ds *measure.DataSet, cw, ch int) ([]string, string, []string) {
+func (f *ivFit) chart(m Model, cw, ch int) ([]string, string, []string) {
 	if f.lit != nil {
-		return f.litChart(m, ds, cw, ch)
+		return f.litChart(m, cw, ch)
 	}
 	st, g := m.e.st, m.e.g
-	meas := fit.MeasuredCurve(ds)
+	meas := f.meas
 	if len(meas.Series) == 0 {
 		return nil, "", nil
 	}

@@ -6,8 +6,6 @@ import (
 	"strings"
 
 	"junco/model"
-	"junco/model/fit"
-	"junco/model/measure"
 	"junco/physics"
 )
 
@@ -18,10 +16,10 @@ import (
 
 // litChart draws the charts of a lit fit (legend, titles and plot
 // lines) in cw x ch cells.
-func (f *ivFit) litChart(m Model, ds *measure.DataSet, cw, ch int) (legend []string, yTitle string, plot []string) {
+func (f *ivFit) litChart(m Model, cw, ch int) (legend []string, yTitle string, plot []string) {
 	st, g := m.e.st, m.e.g
 	v := f.lit
-	meas := fit.MeasuredCurve(ds)
+	meas := f.meas
 	if len(meas.Series) == 0 {
 		return nil, "", nil
 	}

@@ -1,38 +1,13 @@
 package tui
 
 import (
-	"fmt"
 	"math"
-	"math/rand/v2"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
 	tea "github.com/charmbracelet/bubbletea"
 )
-
-// writeIV writes an invented forward I-V sweep of a diode (Is = 1e-12 A,
-// n = 1.5 at 300 K, a little series resistance) with 1 % scatter, in
-// volts and milliamperes, with one compliance row and one NaN row.
-func writeIV(t *testing.T, name string) string {
-	t.Helper()
-	rng := rand.New(rand.NewPCG(3, 9))
-	var b strings.Builder
-	b.WriteString("# temperature: 300 K\nV (V),I (mA),status\n")
-	vt := 0.025852
-	for k := 0; k < 60; k++ {
-		v := 0.05 + 0.012*float64(k)
-		i := 1e-12 * math.Expm1(v/(1.5*vt)) * (1 + 0.01*rng.NormFloat64())
-		fmt.Fprintf(&b, "%.4f,%.6e,0\n", v, i*1e3)
-	}
-	b.WriteString("0.8,NaN,0\n0.81,100,1\n")
-	p := filepath.Join(t.TempDir(), name)
-	if err := os.WriteFile(p, []byte(b.String()), 0o600); err != nil {
-		t.Fatal(err)
-	}
-	return p
-}
 
 func importInto(t *testing.T, m Model, path string) Model {
 	t.Helper()
@@ -86,9 +61,7 @@ func TestImportPreviewAndAccept(t *testing.T) {
 func TestImportBadFileNamesLineAndColumn(t *testing.T) {
 	m := bare(newTest(t, 100, 30))
 	p := filepath.Join(t.TempDir(), "bad.csv")
-	if err := os.WriteFile(p, []byte("V,I (A)\n0.1,1e-9\n0.2,abc\n"), 0o600); err != nil {
-		t.Fatal(err)
-	}
+	writeText(t, p, "V,I (A)\n0.1,1e-9\n0.2,abc\n")
 	m = importInto(t, m, p)
 	v := flat(plain(m))
 	if !strings.Contains(v, "bad.csv:3:2") || !strings.Contains(v, "Nothing was imported") {
@@ -163,44 +136,6 @@ func TestFitWithoutData(t *testing.T) {
 	m = press(m, "f")
 	if shown(m) != "main" || !strings.Contains(plain(m), "no I-V data set") {
 		t.Errorf("f without data must say so:\n%s", plain(m))
-	}
-}
-
-// TestMeasureScreensRandomKeys feeds random keys and sizes to the import
-// and fit screens: no panic, never an empty view.
-func TestMeasureScreensRandomKeys(t *testing.T) {
-	path := writeIV(t, "diode.csv")
-	named := []tea.KeyType{tea.KeyEnter, tea.KeyTab, tea.KeyShiftTab, tea.KeyEsc, tea.KeyLeft, tea.KeyRight,
-		tea.KeyBackspace, tea.KeyDelete, tea.KeyPgUp, tea.KeyPgDown, tea.KeyCtrlU, tea.KeySpace}
-	const runes = "0123456789.-:mVife "
-	sizes := [][2]int{{0, 0}, {5, 3}, {40, 12}, {60, 16}, {80, 24}, {99, 30}, {100, 30}, {160, 44}}
-	rng := rand.New(rand.NewPCG(11, 5))
-	m := newTest(t, 80, 24)
-	m = importInto(t, m, path)
-	m = press(m, "f")
-	for step := 0; step < 400; step++ {
-		var msg tea.Msg
-		switch p := rng.IntN(100); {
-		case p < 5:
-			s := sizes[rng.IntN(len(sizes))]
-			msg = tea.WindowSizeMsg{Width: s[0], Height: s[1]}
-		case p < 10 && shown(m) == "main":
-			if m = press(m, "i"); shown(m) == "import" {
-				importOf(m).ed.set(path)
-				m = press(m, "enter")
-			}
-			continue
-		case p < 45:
-			msg = tea.KeyMsg{Type: named[rng.IntN(len(named))]}
-		default:
-			rs := []rune(runes)
-			msg = tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune{rs[rng.IntN(len(rs))]}}
-		}
-		tm, _ := m.Update(msg)
-		m = tm.(Model)
-		if m.View() == "" {
-			t.Fatalf("step %d: empty view", step)
-		}
 	}
 }
 

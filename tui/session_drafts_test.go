@@ -102,9 +102,7 @@ func TestOpenSessionWithDamagedNewestRevision(t *testing.T) {
 	saveNext(t, st, "d7", 0.5)
 	p := filepath.Join(st.Root(), "sessions", "d7", "rev-000002.json")
 	os.Chmod(p, 0o600)
-	if err := os.WriteFile(p, []byte("{"), 0o600); err != nil {
-		t.Fatal(err)
-	}
+	writeText(t, p, "{")
 	m := start(New(opts(st, "alice", 140, 40)))
 	m = press(m, "ctrl+o")
 	wantIn(t, m, "(damaged: newest readable is revision 1)")

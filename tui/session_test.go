@@ -348,13 +348,7 @@ func TestBrowserFiltersAndShowsDamagedEntries(t *testing.T) {
 	storeSession(t, st, "d9-lot420", "test diode D9, lot 420", spec)
 	spec.Temperature = 350
 	storeSession(t, st, "hot-bench", "hot bench run", spec)
-	broken := filepath.Join(st.Root(), "sessions", "broken")
-	if err := os.MkdirAll(broken, 0o755); err != nil {
-		t.Fatal(err)
-	}
-	if err := os.WriteFile(filepath.Join(broken, "rev-000001.json"), []byte(`{"schema": 1, "meta": {`), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	brokenEntry(t, st)
 	m := start(New(opts(st, "alice", 120, 40)))
 	m = press(m, "ctrl+o")
 	wantIn(t, m, "Sessions", "4 sessions, 1 entry cannot be read", "d7-lot417", "d9-lot420", "hot-bench", "broken", "(damaged: no revision can be read)",
