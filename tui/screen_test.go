@@ -242,3 +242,20 @@ func TestCtrlCStopsTheBatch(t *testing.T) {
 		t.Errorf("n at the question: %s, want the batch", shown(m))
 	}
 }
+
+// A screen lays itself out for a new terminal size while it is open,
+// also under another screen: the fit's chart is drawn again for the
+// size, and closing the screen over it shows the chart at that size.
+func TestScreensFollowTheTerminalSize(t *testing.T) {
+	m := press(newTest(t, 200, 60), "f")
+	wide := len(fitOf(m).plot)
+	m.push(&helpScreen{})
+	tm, _ := m.Update(tea.WindowSizeMsg{Width: 80, Height: 24})
+	m = press(tm.(Model), "esc")
+	if shown(m) != "fit" || len(fitOf(m).plot) == 0 || len(fitOf(m).plot) >= wide {
+		t.Fatalf("the fit's chart at 80 x 24 has %d rows (at 200 x 60: %d)", len(fitOf(m).plot), wide)
+	}
+	if lines := strings.Split(plain(m), "\n"); len(lines) != 24 || !strings.Contains(lines[1], "Fit") {
+		t.Errorf("the fit screen at 80 x 24 draws %d lines:\n%s", len(lines), plain(m))
+	}
+}
