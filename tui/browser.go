@@ -357,7 +357,7 @@ type diffKeys struct {
 
 func (k KeyMap) diffKeys() diffKeys {
 	back := k.Back
-	back.SetKeys(append(back.Keys(), "q")...)
+	back.SetKeys(slices.Concat(back.Keys(), []string{"q"})...)
 	return diffKeys{scrollKeys: k.scrollKeys(), Back: back}
 }
 

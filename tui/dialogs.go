@@ -3,6 +3,7 @@ package tui
 import (
 	"errors"
 	"fmt"
+	"slices"
 	"strings"
 
 	"github.com/charmbracelet/bubbles/key"
@@ -455,6 +456,76 @@ func (d *draftScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
 // interrupt: ctrl+c at the offer quits and keeps the drafts for the
 // next start.
 func (d *draftScreen) interrupt(*Model) (tea.Cmd, bool) { return tea.Quit, true }
+
+// quitScreen asks before dropping changes.
+type quitScreen struct{}
+
+// quitKeys is the key map of the quit question; SaveFirst is off without
+// a store or in review.
+type quitKeys struct{ SaveFirst, Yes, No key.Binding }
+
+func (m Model) quitKeys() quitKeys {
+	k := m.e.keys
+	save := k.SaveFirst
+	save.SetEnabled(m.sess.store != nil && !m.sess.readOnly)
+	no := k.No
+	no.SetKeys(slices.Concat(no.Keys(), []string{"q"})...)
+	return quitKeys{SaveFirst: save, Yes: k.Yes, No: no}
+}
+
+func (k quitKeys) ShortHelp() []key.Binding { return []key.Binding{k.SaveFirst, k.Yes, k.No} }
+
+func (s *quitScreen) footer(m Model) []key.Binding { return m.quitKeys().ShortHelp() }
+
+func (s *quitScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
+	k := m.quitKeys()
+	switch {
+	case keyIs(km, k.Yes):
+		m.discardDraft()
+		return tea.Quit
+	case keyIs(km, k.SaveFirst):
+		m.close(s)
+		if d := m.openSave(false); d != nil {
+			d.quitAfter = true
+		}
+	case keyIs(km, k.No):
+		m.close(s)
+	}
+	return nil
+}
+
+// interrupt: ctrl+c at the question quits at once, writing the draft.
+func (s *quitScreen) interrupt(m *Model) (tea.Cmd, bool) {
+	_, cmd := m.shutdown()
+	return cmd, true
+}
+
+func (s *quitScreen) draw(m Model, w, h int) []string {
+	st := m.e.st
+	msg := []string{
+		st.strong.Paint("Quit junco?"),
+		"",
+		"The junction has changes that are not saved.",
+	}
+	keys := st.keyName.Paint("y") + " quit and drop the changes    " + st.keyName.Paint("n") + " or " + st.keyName.Paint("esc") + " stay"
+	if m.sess.store != nil {
+		msg = append(msg, "Saving keeps them as a new revision.", "", st.keyName.Paint("s")+" save first    "+keys)
+	} else {
+		msg = append(msg, wrapText(m.sess.noStoreText("saving")+".", min(w-4, 46))...)
+		msg = append(msg, "", keys)
+	}
+	boxW := 0
+	for _, l := range msg {
+		boxW = max(boxW, width(l))
+	}
+	padTop := max((h-len(msg))/2, 0)
+	padLeft := max((w-boxW)/2, 0)
+	out := make([]string, padTop)
+	for _, l := range msg {
+		out = append(out, strings.Repeat(" ", padLeft)+l)
+	}
+	return block(out, w, h, m.e.g.ellipsis)
+}
 
 // ---------------------------------------------------------------- views
 
