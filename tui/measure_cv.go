@@ -3,7 +3,6 @@ package tui
 import (
 	"fmt"
 	"math"
-	"strings"
 
 	"junco/model"
 	"junco/model/fit"
@@ -124,18 +123,12 @@ func (f *cvFit) table(m Model, w int, compact bool) []string {
 		out = append(out, st.strong.Paint(cut("Mott-Schottky line of C - Cpar (m = 1/2)", w, g.ellipsis)))
 		out = append(out, m.e.paramLines(v.Rows[head:], w, compact)...)
 	}
-	var why []string
-	for _, r := range v.Rows {
-		if r.Value == "" && strings.HasPrefix(r.Remark, "not determined") {
-			why = append(why, r.Name+": "+strings.TrimPrefix(r.Remark, "not determined: "))
-		}
-	}
 	j := v.Analysis.Junction
 	win := fmt.Sprintf("  %d points, window used %s to %s", j.Points,
 		model.Format(model.Voltage, j.UsedWindow.MinV, 4, m.e.ascii), model.Format(model.Voltage, j.UsedWindow.MaxV, 4, m.e.ascii))
 	out = append(out, cut(win, w, g.ellipsis),
 		cut(fmt.Sprintf("  RMS relative residual %.4f", j.RMSRelResidual), w, g.ellipsis))
-	for _, x := range why {
+	for _, x := range undetermined(v.Rows) {
 		out = append(out, wrapped(x, w, st.muted, "  ")...)
 	}
 	if !compact {

@@ -343,12 +343,30 @@ func (e env) fitFailed(err string, w int) []string {
 // no number (the reason is given below the table).
 func (e env) paramRow(r fit.Row) string {
 	switch {
-	case r.Value == "" && strings.HasPrefix(r.Remark, "not determined"):
+	case notDetermined(r):
 		return fmt.Sprintf("  %-4s not determined", r.Name)
 	case r.Remark != "":
 		return fmt.Sprintf("  %-4s %-12s %s", r.Name, r.Value, r.Remark)
 	}
 	return fmt.Sprintf("  %-4s %-12s %s %s", r.Name, r.Value, e.g.plusMinus, r.StdErr)
+}
+
+// notDetermined reports whether the data do not pin a parameter down:
+// no value, and a remark that says why.
+func notDetermined(r fit.Row) bool {
+	return r.Value == "" && strings.HasPrefix(r.Remark, "not determined")
+}
+
+// undetermined says why each parameter of rows that the data do not pin
+// down has no number ("name: reason").
+func undetermined(rows []fit.Row) []string {
+	var why []string
+	for _, r := range rows {
+		if notDetermined(r) {
+			why = append(why, r.Name+": "+strings.TrimPrefix(r.Remark, "not determined: "))
+		}
+	}
+	return why
 }
 
 // paramLines sets fit parameters one to a line, or two to a line when

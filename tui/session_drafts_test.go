@@ -3,14 +3,11 @@ package tui
 import (
 	"os"
 	"path/filepath"
-	"strings"
 	"testing"
-	"time"
 
 	tea "github.com/charmbracelet/bubbletea"
 
 	"junco/model"
-	"junco/sessions"
 )
 
 // TestTwoConnectionsKeepTheirDrafts: one user on two connections edits
@@ -73,27 +70,6 @@ func TestTwoConnectionsKeepTheirDrafts(t *testing.T) {
 	}
 }
 
-// TestReviewNoteWithControlCharactersIsEscaped: a review note carrying a
-// terminal control sequence is shown escaped, never passed through.
-func TestReviewNoteWithControlCharactersIsEscaped(t *testing.T) {
-	st := newStore(t, "alice")
-	storeSession(t, st, "d7", "diode D7", model.DemoJunction().Spec)
-	if err := st.AddReviewNote("d7", sessions.ReviewNote{Author: "bob", Text: "fine \x1b[2Jgone"}); err != nil {
-		t.Fatal(err)
-	}
-	o := opts(st, "alice", 120, 40)
-	o.Session = "d7"
-	m := start(New(o))
-	for _, n := range m.sheet.reviews {
-		if strings.ContainsRune(n.Text, 0x1b) {
-			t.Fatalf("the note reaches the sheet unescaped: %q", n.Text)
-		}
-	}
-	if len(m.sheet.reviews) != 1 || m.sheet.reviews[0].Text != `fine \x1b[2Jgone` {
-		t.Errorf("reviews on the sheet: %+v", m.sheet.reviews)
-	}
-}
-
 // TestOpenSessionWithDamagedNewestRevision: the browser opens the newest
 // readable revision of a session whose newest one is damaged, says so,
 // and the next save takes the next free number.
@@ -117,108 +93,4 @@ func TestOpenSessionWithDamagedNewestRevision(t *testing.T) {
 	if n, _ := st.Latest("d7"); n != 3 || m.sess.rev != 3 {
 		t.Errorf("saved as revision %d (workbench at %d), want 3", n, m.sess.rev)
 	}
-}
-
-func TestDraftIsWrittenOnlyWhileUnsavedAndOffered(t *testing.T) {
-	st := newStore(t, "alice")
-	m := start(New(opts(st, "alice", 100, 30)))
-	// Nothing changed: no timer at all.
-	for _, k := range []string{"down", "tab", "l", "shift+tab"} {
-		tm, cmd := m.Update(keyMsg(k))
-		m = tm.(Model)
-		if asksForTick(cmd) {
-			t.Fatalf("%s on an unchanged junction started the draft timer", k)
-		}
-	}
-	m = editField(m, "2", 1, "1e17")
-	m = press(m, "enter")
-	d, err := st.DraftOf(sessions.UnnamedDraft, "alice")
-	if err != nil || d == nil {
-		t.Fatalf("no draft after a change: %v", err)
-	}
-	if d.Document.Spec.AcceptorDensity != 1e23 {
-		t.Fatalf("draft has Na %g", d.Document.Spec.AcceptorDensity)
-	}
-	// Idle after the draft: keys that change nothing start no timer.
-	for _, k := range []string{"down", "up"} {
-		tm, cmd := m.Update(keyMsg(k))
-		m = tm.(Model)
-		if asksForTick(cmd) {
-			t.Fatalf("%s with the draft up to date started the timer", k)
-		}
-	}
-	// A new workbench offers the draft.
-	n := start(New(opts(st, "alice", 100, 30)))
-	wantIn(t, n, "A recovery draft was kept", "the junction that had not been saved yet", "acceptor doping Na (na)", "1.000e17 cm^-3")
-	if shown(n) != "draft" {
-		t.Fatal("no draft offer")
-	}
-	r := press(n, "r")
-	if r.Spec().AcceptorDensity != 1e23 || !r.Dirty() {
-		t.Fatalf("restored draft: Na %g, dirty %v", r.Spec().AcceptorDensity, r.Dirty())
-	}
-	wantIn(t, r, "restored", "unsaved", "invented demo data")
-	// Saving removes the draft.
-	r = press(r, "ctrl+s", "enter")
-	if d, _ := st.DraftOf(sessions.UnnamedDraft, "alice"); d != nil {
-		t.Error("the draft survived the save")
-	}
-	// Discarding: another user's draft of the saved session.
-	b := opts(st, "bob", 100, 30)
-	b.Session = "d7-demo"
-	bob := start(New(b))
-	bob = editField(bob, "5", 0, "301")
-	bob = press(bob, "enter")
-	if d, _ := st.DraftOf("d7-demo", "bob"); d == nil {
-		t.Fatal("no draft for bob")
-	}
-	bob2 := start(New(b))
-	wantIn(t, bob2, "session d7-demo (started from revision 1)")
-	bob2 = press(bob2, "d")
-	if d, _ := st.DraftOf("d7-demo", "bob"); d != nil || bob2.Spec().Temperature == 301 {
-		t.Fatal("discard kept the draft")
-	}
-	wantIn(t, bob2, "draft discarded")
-	// q on the offer quits and keeps it.
-	bob = press(bob, "esc")
-	bob = editField(bob, "5", 0, "302")
-	bob = press(bob, "enter")
-	_, cmd := start(New(b)).Update(keyMsg("q"))
-	if _, ok := cmd().(tea.QuitMsg); !ok {
-		t.Fatal("q on the offer does not quit")
-	}
-	if d, _ := st.DraftOf("d7-demo", "bob"); d == nil {
-		t.Error("quitting from the offer removed the draft")
-	}
-}
-
-func TestShutdownWritesTheDraftAtOnce(t *testing.T) {
-	st := newStore(t, "alice")
-	o := opts(st, "alice", 80, 24)
-	o.draftEvery = time.Hour // no timer fires in this test
-	m := start(New(o))
-	_, cmd := m.Update(ShutdownMsg{})
-	if _, ok := cmd().(tea.QuitMsg); !ok {
-		t.Fatal("ShutdownMsg does not quit")
-	}
-	if d, _ := st.DraftOf(sessions.UnnamedDraft, "alice"); d != nil {
-		t.Fatal("a draft was written without changes")
-	}
-	// Keys without running their commands: the draft timer never fires.
-	for _, k := range []string{"5", "enter", "ctrl+u", "3", "3", "3"} {
-		tm, _ := m.Update(keyMsg(k))
-		m = tm.(Model)
-	}
-	if m.Spec().Temperature != 333 {
-		t.Fatalf("T = %g", m.Spec().Temperature)
-	}
-	tm, cmd := m.Update(ShutdownMsg{})
-	if _, ok := cmd().(tea.QuitMsg); !ok {
-		t.Fatal("ShutdownMsg does not quit")
-	}
-	d, err := st.DraftOf(sessions.UnnamedDraft, "alice")
-	if err != nil || d == nil || d.Document.Spec.Temperature != 333 {
-		t.Fatalf("draft at shutdown: %+v %v", d, err)
-	}
-	_ = tm
 }

@@ -1,7 +1,6 @@
 package tui
 
 import (
-	"errors"
 	"os"
 	"path/filepath"
 	"reflect"
@@ -469,6 +468,110 @@ func asksForTick(cmd tea.Cmd) bool {
 	return false
 }
 
+func TestDraftIsWrittenOnlyWhileUnsavedAndOffered(t *testing.T) {
+	st := newStore(t, "alice")
+	m := start(New(opts(st, "alice", 100, 30)))
+	// Nothing changed: no timer at all.
+	for _, k := range []string{"down", "tab", "l", "shift+tab"} {
+		tm, cmd := m.Update(keyMsg(k))
+		m = tm.(Model)
+		if asksForTick(cmd) {
+			t.Fatalf("%s on an unchanged junction started the draft timer", k)
+		}
+	}
+	m = editField(m, "2", 1, "1e17")
+	m = press(m, "enter")
+	d, err := st.DraftOf(sessions.UnnamedDraft, "alice")
+	if err != nil || d == nil {
+		t.Fatalf("no draft after a change: %v", err)
+	}
+	if d.Document.Spec.AcceptorDensity != 1e23 {
+		t.Fatalf("draft has Na %g", d.Document.Spec.AcceptorDensity)
+	}
+	// Idle after the draft: keys that change nothing start no timer.
+	for _, k := range []string{"down", "up"} {
+		tm, cmd := m.Update(keyMsg(k))
+		m = tm.(Model)
+		if asksForTick(cmd) {
+			t.Fatalf("%s with the draft up to date started the timer", k)
+		}
+	}
+	// A new workbench offers the draft.
+	n := start(New(opts(st, "alice", 100, 30)))
+	wantIn(t, n, "A recovery draft was kept", "the junction that had not been saved yet", "acceptor doping Na (na)", "1.000e17 cm^-3")
+	if shown(n) != "draft" {
+		t.Fatal("no draft offer")
+	}
+	r := press(n, "r")
+	if r.Spec().AcceptorDensity != 1e23 || !r.Dirty() {
+		t.Fatalf("restored draft: Na %g, dirty %v", r.Spec().AcceptorDensity, r.Dirty())
+	}
+	wantIn(t, r, "restored", "unsaved", "invented demo data")
+	// Saving removes the draft.
+	r = press(r, "ctrl+s", "enter")
+	if d, _ := st.DraftOf(sessions.UnnamedDraft, "alice"); d != nil {
+		t.Error("the draft survived the save")
+	}
+	// Discarding: another user's draft of the saved session.
+	b := opts(st, "bob", 100, 30)
+	b.Session = "d7-demo"
+	bob := start(New(b))
+	bob = editField(bob, "5", 0, "301")
+	bob = press(bob, "enter")
+	if d, _ := st.DraftOf("d7-demo", "bob"); d == nil {
+		t.Fatal("no draft for bob")
+	}
+	bob2 := start(New(b))
+	wantIn(t, bob2, "session d7-demo (started from revision 1)")
+	bob2 = press(bob2, "d")
+	if d, _ := st.DraftOf("d7-demo", "bob"); d != nil || bob2.Spec().Temperature == 301 {
+		t.Fatal("discard kept the draft")
+	}
+	wantIn(t, bob2, "draft discarded")
+	// q on the offer quits and keeps it.
+	bob = press(bob, "esc")
+	bob = editField(bob, "5", 0, "302")
+	bob = press(bob, "enter")
+	_, cmd := start(New(b)).Update(keyMsg("q"))
+	if _, ok := cmd().(tea.QuitMsg); !ok {
+		t.Fatal("q on the offer does not quit")
+	}
+	if d, _ := st.DraftOf("d7-demo", "bob"); d == nil {
+		t.Error("quitting from the offer removed the draft")
+	}
+}
+
+func TestShutdownWritesTheDraftAtOnce(t *testing.T) {
+	st := newStore(t, "alice")
+	o := opts(st, "alice", 80, 24)
+	o.draftEvery = time.Hour // no timer fires in this test
+	m := start(New(o))
+	_, cmd := m.Update(ShutdownMsg{})
+	if _, ok := cmd().(tea.QuitMsg); !ok {
+		t.Fatal("ShutdownMsg does not quit")
+	}
+	if d, _ := st.DraftOf(sessions.UnnamedDraft, "alice"); d != nil {
+		t.Fatal("a draft was written without changes")
+	}
+	// Keys without running their commands: the draft timer never fires.
+	for _, k := range []string{"5", "enter", "ctrl+u", "3", "3", "3"} {
+		tm, _ := m.Update(keyMsg(k))
+		m = tm.(Model)
+	}
+	if m.Spec().Temperature != 333 {
+		t.Fatalf("T = %g", m.Spec().Temperature)
+	}
+	tm, cmd := m.Update(ShutdownMsg{})
+	if _, ok := cmd().(tea.QuitMsg); !ok {
+		t.Fatal("ShutdownMsg does not quit")
+	}
+	d, err := st.DraftOf(sessions.UnnamedDraft, "alice")
+	if err != nil || d == nil || d.Document.Spec.Temperature != 333 {
+		t.Fatalf("draft at shutdown: %+v %v", d, err)
+	}
+	_ = tm
+}
+
 func TestQuitQuestionSavesFirst(t *testing.T) {
 	st := newStore(t, "alice")
 	m := start(New(opts(st, "alice", 100, 30)))
@@ -498,101 +601,6 @@ func reviewDoc() *sessions.Document {
 	doc.Reviews = []sessions.ReviewNote{{Author: "carol", Time: t0.Add(time.Hour), Text: "check the area"}}
 	doc.Meta.Modified = t0.Add(2 * time.Hour)
 	return doc
-}
-
-func reviewOpts(added *[]string, copies *[]string, st *sessions.Store) Options {
-	o := Options{Renderer: plainRenderer(), Width: 120, Height: 40, User: "bob", Now: ticking(),
-		Session: "d7-lot417", Document: reviewDoc(), Revision: 3, ReadOnly: true, Store: st,
-		AddReview: func(text string) error {
-			if text == "fail please" {
-				return errors.New("the review service is down")
-			}
-			*added = append(*added, text)
-			return nil
-		},
-		CopyToOwn: func(doc *sessions.Document, name string) (int, error) {
-			*copies = append(*copies, name)
-			r, err := st.Save(name, doc, 0)
-			return r.Number, err
-		}}
-	return o
-}
-
-func TestReviewModeShowsAllRefusesEditsAndAddsNotes(t *testing.T) {
-	st := newStore(t, "bob")
-	var added, copies []string
-	m := start(New(reviewOpts(&added, &copies, st)))
-	wantIn(t, m, "[review (read-only)]", "Define the junction · read-only", "d7-lot417 rev 3")
-	spec := m.Spec()
-	// Every editing key is refused with a reason; navigation works.
-	for _, keys := range [][]string{{"right"}, {"x"}, {"2", "down", "enter"}, {"2", "down", "x"}, {"p"}, {"tab", "tab", "r"}} {
-		m = press(m, keys...)
-		wantIn(t, m, "read-only review:", "cannot be changed; ctrl+s copies it to your sessions")
-		if m.form.typing || m.chart.editing || m.pin != nil {
-			t.Fatalf("%v started an edit in review mode", keys)
-		}
-		if !reflect.DeepEqual(m.Spec(), spec) {
-			t.Fatalf("%v changed the junction in review mode", keys)
-		}
-		m = press(m, "shift+tab", "shift+tab", "shift+tab")
-		m.focus = panelDefine
-	}
-	if m.Dirty() {
-		t.Fatal("review mode reports unsaved changes")
-	}
-	// Notes and review notes are shown, with author and time.
-	m = press(m, "tab")
-	wantIn(t, m, "Session notes", "lifetime from the decay of wafer 3", "Review notes", "carol, 2025-03-14 10:26 UTC: check the area")
-	// n adds a review note through the callback.
-	m = press(m, "n")
-	wantIn(t, m, "Add a review note", "signed bob")
-	m = press(m, "enter")
-	wantIn(t, m, "the text is empty")
-	m = typeText(m, "fail please")
-	m = press(m, "enter")
-	wantIn(t, m, "the review service is down")
-	if onTop[dialogScreen](m).fields[0].ed.value() != "fail please" {
-		t.Fatal("a failed review note lost its text")
-	}
-	m = press(m, "ctrl+u")
-	m = typeText(m, "Cj looks high for this area")
-	m = press(m, "enter")
-	if !reflect.DeepEqual(added, []string{"Cj looks high for this area"}) {
-		t.Fatalf("AddReview got %q", added)
-	}
-	wantIn(t, m, "review note added", "bob, 2025-03-14", "Cj looks high for this area")
-	// q quits at once: nothing is unsaved in review mode.
-	if _, cmd := m.Update(keyMsg("q")); cmd == nil {
-		t.Fatal("q in review mode does not quit")
-	}
-	// ctrl+s copies into the reviewer's sessions and opens the copy.
-	m = press(m, "ctrl+s")
-	wantIn(t, m, "Copy into your own sessions", "d7-lot417-mine")
-	m = press(m, "enter")
-	if !reflect.DeepEqual(copies, []string{"d7-lot417-mine"}) {
-		t.Fatalf("CopyToOwn got %q", copies)
-	}
-	doc, _ := mustOpen(t, st, "d7-lot417-mine", 0)
-	if len(doc.Reviews) != 2 || !strings.Contains(doc.Meta.Origin, "copied from session d7-lot417, revision 3, under review") {
-		t.Fatalf("copy: %d review notes, origin %q", len(doc.Reviews), doc.Meta.Origin)
-	}
-	if m.sess.readOnly || m.sess.name != "d7-lot417-mine" {
-		t.Fatal("the copy was not opened for editing")
-	}
-	wantIn(t, m, "copied into your session d7-lot417-mine")
-	m = press(m, "shift+tab", "2", "down", "enter")
-	if !m.form.typing {
-		t.Fatal("the copy cannot be edited")
-	}
-}
-
-func TestReviewWithoutCallbacksSaysWhy(t *testing.T) {
-	o := Options{Renderer: plainRenderer(), Width: 100, Height: 30, Document: reviewDoc(), Session: "x", ReadOnly: true}
-	m := start(New(o))
-	m = press(m, "n")
-	wantIn(t, m, "review notes cannot be added here")
-	m = press(m, "ctrl+s")
-	wantIn(t, m, "Copying into your own sessions is not available here")
 }
 
 func TestEditorID(t *testing.T) {
