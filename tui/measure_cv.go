@@ -90,15 +90,7 @@ func (f *cvFit) chart(m Model, cw, ch int) (legend []string, yTitle string, plot
 	var lines []plotLine
 	for _, s := range srcs {
 		ln := s.ln
-		ln.xs = s.xs
-		ln.ys = make([]float64, len(s.ys))
-		for i, y := range s.ys {
-			y /= scale
-			if !physics.Finite(y) || y < ys.min || y > ys.max {
-				y = math.NaN()
-			}
-			ln.ys[i] = y
-		}
+		ln.xs, ln.ys = s.xs, onAxis(s.ys, scale, ys)
 		lines = append(lines, ln)
 	}
 	return legend, fmt.Sprintf("1/(C - Cpar)^2 (1e%d F^-2)", exp), renderPlot(lines, xs, ys, cw, ph, m.e)

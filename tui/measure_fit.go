@@ -384,6 +384,19 @@ func (e env) paramLines(rows []fit.Row, w int, compact bool) []string {
 	return out
 }
 
+// onAxis returns the values divided by div where axis a shows them, NaN
+// (not drawn) where a value is off the axis or not finite: the fit
+// screens' charts clip the fit and the prediction to the data's range.
+func onAxis(v []float64, div float64, a axisScale) []float64 {
+	return mapValues(v, func(y float64) float64 {
+		y /= div
+		if !physics.Finite(y) || y < a.min || y > a.max {
+			return math.NaN()
+		}
+		return y
+	})
+}
+
 // sparkline draws values in at most w cells, scaled to the largest
 // magnitude (the middle level is zero).
 func sparkline(v []float64, w int, ascii bool) string {

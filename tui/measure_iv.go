@@ -7,7 +7,6 @@ import (
 	"junco/model"
 	"junco/model/fit"
 	"junco/model/measure"
-	"junco/physics"
 )
 
 // ivFit is the fit screen's I-V kind: the single-diode fit of a dark data
@@ -124,13 +123,7 @@ func (f *ivFit) chart(m Model, cw, ch int) ([]string, string, []string) {
 		_, yhi := minMax(mags, div)
 		ys := linearScale(0, yhi*1.05, max(2, ph/3))
 		for i := range lines {
-			lines[i].ys = mapValues(lines[i].ys, func(y float64) float64 {
-				y = math.Abs(y) / div
-				if !physics.Finite(y) || y > ys.max {
-					return math.NaN()
-				}
-				return y
-			})
+			lines[i].ys = onAxis(mapValues(lines[i].ys, math.Abs), div, ys)
 		}
 		return legend, "|current I| (" + unit + ", linear scale)", renderPlot(lines, xs, ys, cw, ph, m.e)
 	}

@@ -2,7 +2,6 @@ package tui
 
 import (
 	"fmt"
-	"math"
 	"strings"
 
 	"junco/model"
@@ -42,24 +41,10 @@ func (f *ivFit) litChart(m Model, cw, ch int) (legend []string, yTitle string, p
 	div, unit := axisFactor(model.Axis{Kind: model.Current}, maxAbs(mi), m.e.ascii)
 	ilo, ihi := minMax(mi, div)
 	iys := linearScale(ilo, ihi, max(2, ih/3))
-	clip := func(y, d float64, a axisScale) float64 {
-		y /= d
-		if !physics.Finite(y) || y < a.min || y > a.max {
-			return math.NaN()
-		}
-		return y
-	}
-	conv := func(ys []float64, d float64, a axisScale) []float64 {
-		out := make([]float64, len(ys))
-		for i, y := range ys {
-			out[i] = clip(y, d, a)
-		}
-		return out
-	}
 	ilines := []plotLine{
-		{label: "fit", xs: v.Curve.Xs, ys: conv(v.Curve.Series[0].Y, div, iys), paint: st.series[0], marker: g.markers[0]},
-		{label: "measured", xs: meas.Xs, ys: conv(mi, div, iys), paint: st.series[1], marker: dotMark, dots: true},
-		{label: "maximum power", xs: []float64{v.MaxPowerV}, ys: []float64{clip(v.MaxPowerA, div, iys)}, paint: st.accent, marker: mpp, dots: true},
+		{label: "fit", xs: v.Curve.Xs, ys: onAxis(v.Curve.Series[0].Y, div, iys), paint: st.series[0], marker: g.markers[0]},
+		{label: "measured", xs: meas.Xs, ys: onAxis(mi, div, iys), paint: st.series[1], marker: dotMark, dots: true},
+		{label: "maximum power", xs: []float64{v.MaxPowerV}, ys: onAxis([]float64{v.MaxPowerA}, div, iys), paint: st.accent, marker: mpp, dots: true},
 	}
 	yTitle = "current I (" + unit + ", linear scale; " + v.Fit.Sign.String() + " sign)"
 	plot = renderPlot(ilines, xs, iys, cw, ih, m.e)
@@ -81,9 +66,9 @@ func (f *ivFit) litChart(m Model, cw, ch int) (legend []string, yTitle string, p
 	pdiv, punit := axisFactor(model.Axis{Kind: model.Power}, pk, m.e.ascii)
 	pys := linearScale(-0.25*pk/pdiv, 1.05*pk/pdiv, max(2, ph/3))
 	plines := []plotLine{
-		{label: "fit", xs: v.Power.Xs, ys: conv(v.Power.Series[1].Y, pdiv, pys), paint: st.series[0], marker: g.markers[0]},
-		{label: "measured", xs: v.Power.Xs, ys: conv(v.Power.Series[0].Y, pdiv, pys), paint: st.series[1], marker: dotMark, dots: true},
-		{label: "maximum power", xs: []float64{v.MaxPowerV}, ys: []float64{clip(v.MaxPowerW, pdiv, pys)}, paint: st.accent, marker: mpp, dots: true},
+		{label: "fit", xs: v.Power.Xs, ys: onAxis(v.Power.Series[1].Y, pdiv, pys), paint: st.series[0], marker: g.markers[0]},
+		{label: "measured", xs: v.Power.Xs, ys: onAxis(v.Power.Series[0].Y, pdiv, pys), paint: st.series[1], marker: dotMark, dots: true},
+		{label: "maximum power", xs: []float64{v.MaxPowerV}, ys: onAxis([]float64{v.MaxPowerW}, pdiv, pys), paint: st.accent, marker: mpp, dots: true},
 	}
 	// The same label width on both charts keeps their bias axes aligned.
 	alignLabels(&iys, &pys)
