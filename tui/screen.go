@@ -42,8 +42,10 @@ type interrupter interface {
 	interrupt(m *Model) (cmd tea.Cmd, done bool)
 }
 
-// push opens s over the screens shown. The stack is copied, never
-// shared with an earlier value of the Model.
+// push opens s over the screens shown. The stack's slice is never shared
+// with an earlier value of the Model; the screens are pointers, so an
+// earlier value sees their later changes (a program keeps only the
+// newest Model).
 func (m *Model) push(s screen) { m.stack = append(slices.Clip(m.stack), s) }
 
 // close takes s and every screen over it off the stack (nothing when s
