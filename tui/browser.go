@@ -13,29 +13,38 @@ import (
 	"junco/sessions"
 )
 
-// browser is the session browser: the list of sessions with a filter,
-// the revision history of one session, and a comparison of two of its
-// revisions (or of one and the edits in force).
-type browser struct {
+// The session browser: the list of sessions with a filter
+// (browseScreen), the revision history of one session (historyScreen,
+// opened over the list), and a comparison of two of its revisions, or of
+// one and the edits in force (diffScreen, opened over the history or over
+// the choice after a stale save).
+
+// browseScreen is the list of sessions.
+type browseScreen struct {
 	list   []sessions.Summary
 	probs  []string // entries that could not be read, with the problem
 	drafts map[string]bool
 	filter lineEditor
 	sel    int
 	err    string
+}
 
+// historyScreen is the revisions of session hname.
+type historyScreen struct {
 	hname  string
 	hist   []sessions.Revision // newest first
 	hprobs []string
 	hsel   int
 	mark   int // the revision marked as the older side (0: none)
 	herr   string
+}
 
+// diffScreen is the changes between two revisions.
+type diffScreen struct {
 	dtitle string
 	dsub   string
 	diff   []sessions.Change
 	doff   int
-	dback  screen
 }
 
 // relPath shows a path of the store relative to its root.
@@ -63,14 +72,12 @@ func (m *Model) openBrowser() {
 		m.note = m.sess.noStoreText("the session browser")
 		return
 	}
-	m.br.filter = newLineEditorN("", nameRunes)
-	m.br.sel = 0
-	m.loadList()
-	m.screen = screenBrowse
+	b := &browseScreen{filter: newLineEditorN("", nameRunes)}
+	b.load(m)
+	m.push(b)
 }
 
-func (m *Model) loadList() {
-	b := &m.br
+func (b *browseScreen) load(m *Model) {
 	list, probs, err := m.sess.store.List()
 	b.list, b.probs, b.err = list, m.problemTexts(probs), ""
 	if err != nil {
@@ -82,7 +89,7 @@ func (m *Model) loadList() {
 			b.drafts[s.Name] = true
 		}
 	}
-	b.sel = min(b.sel, max(len(m.shownSessions())-1, 0))
+	b.sel = min(b.sel, max(len(b.shown())-1, 0))
 }
 
 // matches reports whether every word of the filter is in one of the
@@ -97,11 +104,11 @@ func matches(filter string, texts ...string) bool {
 	return true
 }
 
-// shownSessions are the sessions the filter lets through.
-func (m Model) shownSessions() []sessions.Summary {
-	f := m.br.filter.value()
+// shown are the sessions the filter lets through.
+func (b *browseScreen) shown() []sessions.Summary {
+	f := b.filter.value()
 	var out []sessions.Summary
-	for _, s := range m.br.list {
+	for _, s := range b.list {
 		if matches(f, s.Name, s.Latest.Meta.Title, s.Latest.Meta.Author, s.Latest.Meta.SavedBy) {
 			out = append(out, s)
 		}
@@ -109,10 +116,10 @@ func (m Model) shownSessions() []sessions.Summary {
 	return out
 }
 
-func (m Model) shownProblems() []string {
-	f := m.br.filter.value()
+func (b *browseScreen) shownProblems() []string {
+	f := b.filter.value()
 	var out []string
-	for _, p := range m.br.probs {
+	for _, p := range b.probs {
 		if matches(f, p) {
 			out = append(out, p)
 		}
@@ -120,56 +127,69 @@ func (m Model) shownProblems() []string {
 	return out
 }
 
-func (m Model) selected() (sessions.Summary, bool) {
-	shown := m.shownSessions()
-	if m.br.sel < 0 || m.br.sel >= len(shown) {
+func (b *browseScreen) selected() (sessions.Summary, bool) {
+	shown := b.shown()
+	if b.sel < 0 || b.sel >= len(shown) {
 		return sessions.Summary{}, false
 	}
-	return shown[m.br.sel], true
+	return shown[b.sel], true
 }
 
-func (m Model) browseKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
-	k := m.e.keys
-	b := &m.br
+// browseKeys is the key map of the session list (typing filters it).
+type browseKeys struct{ Type, Choose, Up, Down, Open, Revisions, Clear, Close key.Binding }
+
+func (k KeyMap) browseKeys() browseKeys {
+	return browseKeys{Type: key.NewBinding(key.WithKeys("type"), key.WithHelp("type", "to filter")), Choose: choose(k, "choose"),
+		Up: k.ListUp, Down: k.ListDown, Open: k.Open, Revisions: k.Revisions, Clear: k.ClearFilter, Close: k.Close}
+}
+
+func (k browseKeys) ShortHelp() []key.Binding {
+	return []key.Binding{k.Type, k.Choose, k.Open, k.Revisions, k.Clear, k.Close}
+}
+
+func (b *browseScreen) footer(m Model) []key.Binding { return m.e.keys.browseKeys().ShortHelp() }
+
+func (b *browseScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
+	k := m.e.keys.browseKeys()
 	switch {
 	case keyIs(km, k.Close):
-		m.screen = screenMain
-		return m, nil
-	case keyIs(km, k.ListDown):
-		b.sel = min(b.sel+1, max(len(m.shownSessions())-1, 0))
-		return m, nil
-	case keyIs(km, k.ListUp):
+		m.close(b)
+		return nil
+	case keyIs(km, k.Down):
+		b.sel = min(b.sel+1, max(len(b.shown())-1, 0))
+		return nil
+	case keyIs(km, k.Up):
 		b.sel = max(b.sel-1, 0)
-		return m, nil
+		return nil
 	case keyIs(km, k.Open):
-		s, ok := m.selected()
+		s, ok := b.selected()
 		if !ok {
 			b.err = "no session to open: none matches the filter"
-			return m, nil
+			return nil
 		}
-		return m.requestOpen(s.Name, 0, screenBrowse)
+		return m.requestOpen(s.Name, 0, func(err string) { b.err = err })
 	case keyIs(km, k.Revisions):
-		s, ok := m.selected()
+		s, ok := b.selected()
 		if !ok {
 			b.err = "no session selected: none matches the filter"
-			return m, nil
+			return nil
 		}
-		m.loadHistory(s.Name)
-		m.screen = screenHistory
-		return m, nil
-	case keyIs(km, k.ClearFilter):
+		h := &historyScreen{}
+		h.load(m, s.Name)
+		m.push(h)
+		return nil
+	case keyIs(km, k.Clear):
 		b.filter = newLineEditorN("", nameRunes)
 		b.sel = 0
-		return m, nil
+		return nil
 	}
 	if _, changed := b.filter.handle(km); changed {
 		b.sel, b.err = 0, ""
 	}
-	return m, nil
+	return nil
 }
 
-func (m *Model) loadHistory(name string) {
-	b := &m.br
+func (b *historyScreen) load(m *Model, name string) {
 	b.hname, b.hsel, b.mark, b.herr = name, 0, 0, ""
 	hist, probs, err := m.sess.store.History(name)
 	slices.Reverse(hist)
@@ -179,9 +199,24 @@ func (m *Model) loadHistory(name string) {
 	}
 }
 
-func (m Model) historyKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
-	k := m.e.keys
-	b := &m.br
+// historyKeys is the key map of the revision history.
+type historyKeys struct {
+	Choose, Up, Down, Mark, DiffPair, DiffCurrent, Restore, Open, Back key.Binding
+}
+
+func (k KeyMap) historyKeys() historyKeys {
+	return historyKeys{Choose: choose(k, "choose"), Up: k.Up, Down: k.Down, Mark: k.Mark, DiffPair: k.DiffPair,
+		DiffCurrent: k.DiffCurrent, Restore: k.RestoreRev, Open: k.OpenRev, Back: k.Back}
+}
+
+func (k historyKeys) ShortHelp() []key.Binding {
+	return []key.Binding{k.Choose, k.Mark, k.DiffPair, k.DiffCurrent, k.Restore, k.Open, k.Back}
+}
+
+func (b *historyScreen) footer(m Model) []key.Binding { return m.e.keys.historyKeys().ShortHelp() }
+
+func (b *historyScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
+	k := m.e.keys.historyKeys()
 	sel := func() (sessions.Revision, bool) {
 		if b.hsel < 0 || b.hsel >= len(b.hist) {
 			return sessions.Revision{}, false
@@ -191,67 +226,70 @@ func (m Model) historyKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	r, ok := sel()
 	switch {
 	case keyIs(km, k.Back):
-		m.loadList()
-		m.screen = screenBrowse
-		return m, nil
+		m.close(b)
+		if l, ok := m.top().(*browseScreen); ok {
+			l.load(m)
+		}
+		return nil
 	case keyIs(km, k.Down):
 		b.hsel = min(b.hsel+1, max(len(b.hist)-1, 0))
-		return m, nil
+		return nil
 	case keyIs(km, k.Up):
 		b.hsel = max(b.hsel-1, 0)
-		return m, nil
+		return nil
 	case !ok:
-		if keyIs(km, k.Mark) || keyIs(km, k.DiffPair) || keyIs(km, k.DiffCurrent) || keyIs(km, k.RestoreRev) || keyIs(km, k.OpenRev) {
+		if keyIs(km, k.Mark) || keyIs(km, k.DiffPair) || keyIs(km, k.DiffCurrent) || keyIs(km, k.Restore) || keyIs(km, k.Open) {
 			b.herr = "no revision can be read here"
 		}
-		return m, nil
+		return nil
 	case keyIs(km, k.Mark):
 		if b.mark == r.Number {
 			b.mark = 0
 		} else {
 			b.mark = r.Number
 		}
-		return m, nil
+		return nil
 	case keyIs(km, k.DiffPair):
 		a := b.mark
 		if a == 0 || a == r.Number {
 			if b.hsel+1 >= len(b.hist) {
 				b.herr = fmt.Sprintf("revision %d has no older revision here: mark one with space, or press c to compare it with your current edits", r.Number)
-				return m, nil
+				return nil
 			}
 			a = b.hist[b.hsel+1].Number
 		}
 		lo, hi := min(a, r.Number), max(a, r.Number)
-		if err := m.showDiff(b.hname, lo, hi, screenHistory); err != nil {
+		if err := m.showDiff(b.hname, lo, hi); err != nil {
 			b.herr = err.Error()
 		}
-		return m, nil
+		return nil
 	case keyIs(km, k.DiffCurrent):
 		if err := m.showDiffCurrent(b.hname, r.Number); err != nil {
 			b.herr = err.Error()
 		}
-		return m, nil
-	case keyIs(km, k.RestoreRev):
+		return nil
+	case keyIs(km, k.Restore):
 		newest := b.hist[0].Number
 		if r.Number == newest {
 			b.herr = fmt.Sprintf("revision %d is the newest already", r.Number)
-			return m, nil
+			return nil
 		}
-		m.conf = confirmState{kind: confirmRestore, name: b.hname, rev: r.Number, back: screenHistory,
-			title: fmt.Sprintf("Restore revision %d of %s?", r.Number, b.hname), yes: "restore as the newest",
+		name, rev := b.hname, r.Number
+		c := &confirmScreen{title: fmt.Sprintf("Restore revision %d of %s?", r.Number, b.hname), what: "restore as the newest",
 			lines: []string{
 				fmt.Sprintf("Revision %d (saved %s by %s) is stored again as the newest revision, %d or later. Nothing is removed: %s.",
 					r.Number, stamp(r.Meta.Modified), dashed(r.Meta.SavedBy), newest+1, span(r.Number+1, newest)),
-			}}
+			},
+			yes: func(m *Model) tea.Cmd { return m.restoreRevision(b, name, rev) }}
 		if b.hname == m.sess.name && m.Dirty() {
-			m.conf.lines = append(m.conf.lines, "", "Your unsaved edits are kept; they then start from an older revision, and saving will offer the next revision or a copy.")
+			c.lines = append(c.lines, "", "Your unsaved edits are kept; they then start from an older revision, and saving will offer the next revision or a copy.")
 		}
-		m.screen = screenConfirm
-		return m, nil
-	case keyIs(km, k.OpenRev):
-		return m.requestOpen(b.hname, r.Number, screenHistory)
+		m.push(c)
+		return nil
+	case keyIs(km, k.Open):
+		return m.requestOpen(b.hname, r.Number, func(err string) { b.herr = err })
 	}
-	return m, nil
+	return nil
 }
 
 // span words the revisions a to b that stay.
@@ -271,7 +309,7 @@ func plural(n int, one, many string) string {
 }
 
 // showDiff compares revisions a and b of a session.
-func (m *Model) showDiff(name string, a, b int, back screen) error {
+func (m *Model) showDiff(name string, a, b int) error {
 	st := m.sess.store
 	da, ra, err := st.Open(name, a)
 	if err != nil {
@@ -281,12 +319,10 @@ func (m *Model) showDiff(name string, a, b int, back screen) error {
 	if err != nil {
 		return err
 	}
-	m.br.diff = sessions.Diff(da, db, m.e.ascii)
-	m.br.dtitle = fmt.Sprintf("%s: revision %d %s revision %d", name, a, m.e.g.arrow, b)
-	m.br.dsub = fmt.Sprintf("from revision %d (saved %s by %s) to revision %d (saved %s by %s)",
-		a, stamp(ra.Meta.Modified), dashed(ra.Meta.SavedBy), b, stamp(rb.Meta.Modified), dashed(rb.Meta.SavedBy))
-	m.br.doff, m.br.dback = 0, back
-	m.screen = screenDiff
+	m.push(&diffScreen{diff: sessions.Diff(da, db, m.e.ascii),
+		dtitle: fmt.Sprintf("%s: revision %d %s revision %d", name, a, m.e.g.arrow, b),
+		dsub: fmt.Sprintf("from revision %d (saved %s by %s) to revision %d (saved %s by %s)",
+			a, stamp(ra.Meta.Modified), dashed(ra.Meta.SavedBy), b, stamp(rb.Meta.Modified), dashed(rb.Meta.SavedBy))})
 	return nil
 }
 
@@ -300,8 +336,6 @@ func (m *Model) showDiffCurrent(name string, rev int) error {
 	if err != nil {
 		return err
 	}
-	m.br.diff = sessions.Diff(da, cur, m.e.ascii)
-	m.br.dtitle = fmt.Sprintf("%s: revision %d %s your current edits", name, rev, m.e.g.arrow)
 	what := "the junction in force"
 	if m.sess.name != "" {
 		what = fmt.Sprintf("your edits of %s (started from revision %d)", m.sess.name, m.sess.rev)
@@ -309,69 +343,70 @@ func (m *Model) showDiffCurrent(name string, rev int) error {
 	if m.Dirty() {
 		what += ", not saved"
 	}
-	m.br.dsub = fmt.Sprintf("from revision %d (saved %s by %s) to %s", rev, stamp(ra.Meta.Modified), dashed(ra.Meta.SavedBy), what)
-	m.br.doff, m.br.dback = 0, screenHistory
-	m.screen = screenDiff
+	m.push(&diffScreen{diff: sessions.Diff(da, cur, m.e.ascii),
+		dtitle: fmt.Sprintf("%s: revision %d %s your current edits", name, rev, m.e.g.arrow),
+		dsub:   fmt.Sprintf("from revision %d (saved %s by %s) to %s", rev, stamp(ra.Meta.Modified), dashed(ra.Meta.SavedBy), what)})
 	return nil
 }
 
-func (m Model) diffKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
-	k := m.e.keys
-	b := &m.br
-	page := max(m.h-8, 1)
-	switch {
-	case keyIs(km, k.Back), km.String() == "q":
-		m.screen = b.dback
-	case keyIs(km, k.ScrollDown):
-		b.doff++
-	case keyIs(km, k.ScrollUp):
-		b.doff--
-	case keyIs(km, k.PageDown):
-		b.doff += page
-	case keyIs(km, k.PageUp):
-		b.doff -= page
-	case keyIs(km, k.Top):
-		b.doff = 0
-	case keyIs(km, k.Bottom):
-		b.doff = 1 << 20
+// diffKeys is the key map of a comparison.
+type diffKeys struct {
+	scrollKeys
+	Back key.Binding
+}
+
+func (k KeyMap) diffKeys() diffKeys {
+	back := k.Back
+	back.SetKeys(slices.Concat(back.Keys(), []string{"q"})...)
+	return diffKeys{scrollKeys: k.scrollKeys(), Back: back}
+}
+
+func (k diffKeys) ShortHelp() []key.Binding {
+	return []key.Binding{k.Down, k.Up, k.PageDown, k.PageUp, k.Back}
+}
+
+func (b *diffScreen) footer(m Model) []key.Binding { return m.e.keys.diffKeys().ShortHelp() }
+
+func (b *diffScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
+	k := m.e.keys.diffKeys()
+	head, rows := b.lines(*m, m.w)
+	end := max(len(rows)-max(m.h-2-len(head), 1), 0)
+	if !k.scroll(&b.doff, km, max(m.h-8, 1), end) && keyIs(km, k.Back) {
+		m.close(b)
 	}
-	b.doff = max(b.doff, 0)
-	return m, nil
+	return nil
 }
 
 // requestOpen opens a stored revision, asking first when there are
-// unsaved changes.
-func (m Model) requestOpen(name string, rev int, back screen) (tea.Model, tea.Cmd) {
+// unsaved changes; fail shows an error on the screen that asked.
+func (m *Model) requestOpen(name string, rev int, fail func(string)) tea.Cmd {
 	if m.Dirty() {
 		what := "the newest revision of " + name
 		if rev > 0 {
 			what = fmt.Sprintf("revision %d of %s", rev, name)
 		}
-		m.conf = confirmState{kind: confirmOpen, name: name, rev: rev, back: back,
-			title: "Open " + what + "?", yes: "open it and drop the changes",
+		m.push(&confirmScreen{title: "Open " + what + "?", what: "open it and drop the changes",
 			lines: []string{"The junction has changes that are not saved. Opening drops them (and their recovery draft).",
-				"Press n, then ctrl+s to save them first."}}
-		m.screen = screenConfirm
-		return m, nil
+				"Press n, then ctrl+s to save them first."},
+			yes: func(m *Model) tea.Cmd {
+				m.discardDraft()
+				return m.openStored(name, rev, fail)
+			}})
+		return nil
 	}
-	return m.openStored(name, rev, back)
+	return m.openStored(name, rev, fail)
 }
 
 // openStored opens revision rev (0: the newest) of a stored session for
-// editing; on an error the screen it came from shows it.
-func (m Model) openStored(name string, rev int, back screen) (tea.Model, tea.Cmd) {
+// editing; on an error the screen that asked shows it (fail).
+func (m *Model) openStored(name string, rev int, fail func(string)) tea.Cmd {
 	doc, r, err := m.sess.store.Open(name, rev)
 	if err != nil {
-		m.screen = back
-		if back == screenHistory {
-			m.br.herr = err.Error()
-		} else {
-			m.br.err = err.Error()
-		}
-		return m, nil
+		fail(err.Error())
+		return nil
 	}
 	cmd := m.openDocument(doc, name, r.Number, false)
-	m.screen = screenMain
+	m.closeAll()
 	m.focus = panelDefine
 	if m.note == "" {
 		m.note = fmt.Sprintf("opened %s, revision %d", name, r.Number)
@@ -380,16 +415,16 @@ func (m Model) openStored(name string, rev int, back screen) (tea.Model, tea.Cmd
 		m.note += fmt.Sprintf(" (the newest readable; unreadable newer revisions: %d, left untouched; saving takes the next free number)", len(r.Skipped))
 	}
 	m.offerDraft()
-	return m, cmd
+	return cmd
 }
 
-// restoreRevision stores an old revision again as the newest.
-func (m Model) restoreRevision(name string, rev int) (tea.Model, tea.Cmd) {
+// restoreRevision stores an old revision again as the newest; the
+// history h shows the outcome.
+func (m *Model) restoreRevision(h *historyScreen, name string, rev int) tea.Cmd {
 	r, err := m.sess.store.RestoreRevision(name, rev)
-	m.screen = screenHistory
 	if err != nil && r.Number == 0 {
-		m.br.herr = "not restored: " + err.Error()
-		return m, nil
+		h.herr = "not restored: " + err.Error()
+		return nil
 	}
 	m.note = fmt.Sprintf("revision %d of %s stored again as revision %d", rev, name, r.Number)
 	var cmd tea.Cmd
@@ -401,18 +436,17 @@ func (m Model) restoreRevision(name string, rev int) (tea.Model, tea.Cmd) {
 			m.note += " and opened"
 		}
 	}
-	m.loadHistory(name)
-	return m, cmd
+	h.load(m, name)
+	return cmd
 }
 
 // ---------------------------------------------------------------- views
 
-func (m Model) browseScreen(w, h int) []string {
+func (b *browseScreen) draw(m Model, w, h int) []string {
 	st, g := m.e.st, m.e.g
-	b := m.br
 	out := []string{rule("Sessions", w, glyphs{hbar: g.hbarHeavy}, st.heading)}
-	shown := m.shownSessions()
-	probs := m.shownProblems()
+	shown := b.shown()
+	probs := b.shownProblems()
 	count := fmt.Sprintf("%d of %s", len(shown), plural(len(b.list), "session", "sessions"))
 	if len(b.list) == len(shown) {
 		count = plural(len(b.list), "session", "sessions")
@@ -493,9 +527,8 @@ func (m Model) browseScreen(w, h int) []string {
 	return block(out, w, h, g.ellipsis)
 }
 
-func (m Model) historyScreen(w, h int) []string {
+func (b *historyScreen) draw(m Model, w, h int) []string {
 	st, g := m.e.st, m.e.g
-	b := m.br
 	out := []string{rule("Revisions of "+b.hname, w, glyphs{hbar: g.hbarHeavy}, st.heading)}
 	info := plural(len(b.hist), "revision", "revisions") + ", newest first"
 	if b.mark != 0 {
@@ -621,13 +654,18 @@ func (m Model) changeLines(changes []sessions.Change, w int) []string {
 	return out
 }
 
-func (m Model) diffScreen(w, h int) []string {
+// lines are the head and the rows of the comparison for width w.
+func (b *diffScreen) lines(m Model, w int) (head, rows []string) {
 	st, g := m.e.st, m.e.g
-	b := m.br
-	out := []string{rule(b.dtitle, w, glyphs{hbar: g.hbarHeavy}, st.heading)}
-	out = append(out, wrapped(b.dsub, w, st.muted, "")...)
-	out = append(out, st.muted.Paint(plural(len(b.diff), "change", "changes")), "")
-	rows := m.changeLines(b.diff, w)
+	head = []string{rule(b.dtitle, w, glyphs{hbar: g.hbarHeavy}, st.heading)}
+	head = append(head, wrapped(b.dsub, w, st.muted, "")...)
+	head = append(head, st.muted.Paint(plural(len(b.diff), "change", "changes")), "")
+	return head, m.changeLines(b.diff, w)
+}
+
+func (b *diffScreen) draw(m Model, w, h int) []string {
+	st, g := m.e.st, m.e.g
+	out, rows := b.lines(m, w)
 	room := max(h-len(out), 1)
 	off := min(b.doff, max(len(rows)-room, 0))
 	rows = rows[off:]
@@ -640,31 +678,7 @@ func (m Model) diffScreen(w, h int) []string {
 
 // ---------------------------------------------------------------- help
 
-type browseHelp struct{ k KeyMap }
-
-func (h browseHelp) ShortHelp() []key.Binding {
-	k := h.k
-	return []key.Binding{key.NewBinding(key.WithKeys("type"), key.WithHelp("type", "to filter")), choose(k, "choose"), k.Open, k.Revisions, k.ClearFilter, k.Close}
-}
-func (h browseHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
-
-type historyHelp struct{ k KeyMap }
-
-func (h historyHelp) ShortHelp() []key.Binding {
-	k := h.k
-	return []key.Binding{choose(k, "choose"), k.Mark, k.DiffPair, k.DiffCurrent, k.RestoreRev, k.OpenRev, k.Back}
-}
-
 // choose is the help entry of moving through a list.
 func choose(k KeyMap, what string) key.Binding {
 	return key.NewBinding(key.WithKeys("up", "down"), key.WithHelp(k.ListUp.Help().Key+"/"+k.ListDown.Help().Key, what))
 }
-func (h historyHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
-
-type diffHelp struct{ k KeyMap }
-
-func (h diffHelp) ShortHelp() []key.Binding {
-	k := h.k
-	return []key.Binding{k.ScrollDown, k.ScrollUp, k.PageDown, k.PageUp, k.Back}
-}
-func (h diffHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }

@@ -22,7 +22,7 @@ func mouseFor(from, to panel) tea.Cmd {
 // chartMouse passes a mouse event over the charts panel to it, in the
 // panel's own cells.
 func (m Model) chartMouse(msg tea.MouseMsg) Model {
-	if m.screen != screenMain || m.focus != panelCharts || m.chart.editing {
+	if m.top() != nil || m.focus != panelCharts || m.chart.editing {
 		return m
 	}
 	col, row, ok := m.chartOrigin()

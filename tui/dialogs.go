@@ -3,6 +3,7 @@ package tui
 import (
 	"errors"
 	"fmt"
+	"slices"
 	"strings"
 
 	"github.com/charmbracelet/bubbles/key"
@@ -40,49 +41,42 @@ type dialogField struct {
 
 func (f dialogField) value() string { return strings.TrimSpace(f.ed.value()) }
 
-// dialog is a small form of text boxes. Enter submits from any box; an
-// error is shown under the box it concerns and nothing typed is lost.
-type dialog struct {
-	kind   dialogKind
-	title  string
-	intro  []string
-	fields []dialogField
-	row    int
-	err    string
+// dialogScreen is a small form of text boxes. Enter submits from any box;
+// an error is shown under the box it concerns and nothing typed is lost.
+// quitAfter quits once the save succeeds (save first, at the quit
+// question).
+type dialogScreen struct {
+	kind      dialogKind
+	title     string
+	intro     []string
+	fields    []dialogField
+	row       int
+	err       string
+	quitAfter bool
 }
 
-// staleState is the choice after a save found a newer revision.
-type staleState struct {
-	info   sessions.StaleError
-	latest *sessions.Revision // the newest revision's record, when readable
-	req    saveRequest
-	err    string
+// staleScreen is the choice after a save found a newer revision.
+type staleScreen struct {
+	info      sessions.StaleError
+	latest    *sessions.Revision // the newest revision's record, when readable
+	req       saveRequest
+	err       string
+	quitAfter bool
 }
 
-// confirmKind is what a confirmation is for.
-type confirmKind int
-
-const (
-	confirmNone confirmKind = iota
-	confirmRestore
-	confirmOpen
-)
-
-// confirmState is a yes/no question before an action.
-type confirmState struct {
-	kind  confirmKind
+// confirmScreen is a yes/no question before an action: y runs yes (with
+// the question closed), n and esc close the question.
+type confirmScreen struct {
 	title string
 	lines []string
-	yes   string // what y does
-	name  string
-	rev   int
-	back  screen
+	what  string // what y does
+	yes   func(m *Model) tea.Cmd
 }
 
-// draftOffer is the recovery drafts found at start or on opening a
+// draftScreen offers the recovery drafts found at start or on opening a
 // session: the one shown, and those still to offer (one per connection
 // that stopped with unsaved changes).
-type draftOffer struct {
+type draftScreen struct {
 	draft   *sessions.Draft
 	changes []sessions.Change
 	queue   []*sessions.Draft
@@ -92,39 +86,48 @@ type draftOffer struct {
 // ---------------------------------------------------------------- opening
 
 // openSave opens the save dialog: the next revision of the session in
-// force, or with asNew (and before the first save) a new session.
-func (m *Model) openSave(asNew bool) {
+// force, or with asNew (and before the first save) a new session. It
+// returns the dialog (nil when saving is not available).
+func (m *Model) openSave(asNew bool) *dialogScreen {
 	if m.sess.store == nil {
 		m.note = m.sess.noStoreText("saving")
-		return
+		return nil
 	}
 	title := m.title()
+	var d *dialogScreen
 	if asNew || m.sess.name == "" {
 		name := m.sess.suggest
 		intro := "A session keeps every revision you save; nothing is overwritten."
 		heading := "Save the junction as a session"
 		if m.sess.name != "" {
-			name = m.sess.name + "-copy"
-			if len(name) > nameRunes {
-				name = name[:nameRunes]
-			}
+			name = copyName(m.sess.name)
 			intro = fmt.Sprintf("A new session starts from what is in force; %s keeps its revisions as they are.", m.sess.name)
 			heading = "Save as a new session"
 		}
-		m.dlg = m.saveNewDialog(heading, intro, name, title, "")
+		d = saveNewDialog(heading, intro, name, title, "")
 	} else {
-		m.dlg = dialog{kind: dlgSave, title: fmt.Sprintf("Save %s as revision %d", m.sess.name, m.sess.rev+1),
+		d = &dialogScreen{kind: dlgSave, title: fmt.Sprintf("Save %s as revision %d", m.sess.name, m.sess.rev+1),
 			intro: []string{fmt.Sprintf("Revision %d and older stay as they are.", m.sess.rev)},
 			fields: []dialogField{
 				{label: "Title", hint: "what the session is about (up to 200 characters)", ed: newLineEditorN(title, titleRunes)},
 				{label: "Note", hint: "optional: a line for the session's notes, dated and signed", ed: newLineEditorN("", noteRunes)},
 			}, row: 1}
 	}
-	m.screen = screenDialog
+	m.push(d)
+	return d
 }
 
-func (m Model) saveNewDialog(heading, intro, name, title, note string) dialog {
-	return dialog{kind: dlgSaveNew, title: heading, intro: []string{intro},
+// copyName is the name offered for a copy of session name.
+func copyName(name string) string {
+	name += "-copy"
+	if len(name) > nameRunes {
+		name = name[:nameRunes]
+	}
+	return name
+}
+
+func saveNewDialog(heading, intro, name, title, note string) *dialogScreen {
+	return &dialogScreen{kind: dlgSaveNew, title: heading, intro: []string{intro},
 		fields: []dialogField{
 			{label: "Session name", hint: "1 to 64 letters, digits, '-', '_' or '.', e.g. d7-lot417", ed: newLineEditorN(name, nameRunes)},
 			{label: "Title", hint: "what the session is about (up to 200 characters)", ed: newLineEditorN(title, titleRunes)},
@@ -140,15 +143,14 @@ func (m *Model) openNote() {
 			m.note = "review notes cannot be added here: this workbench has no review service"
 			return
 		}
-		m.dlg = dialog{kind: dlgReview, title: "Add a review note",
+		m.push(&dialogScreen{kind: dlgReview, title: "Add a review note",
 			intro:  []string{fmt.Sprintf("The note is kept with the session, signed %s and dated.", m.sess.user)},
-			fields: []dialogField{{label: "Note", hint: "your remark for the session's owner", ed: newLineEditorN("", noteRunes)}}}
-	} else {
-		m.dlg = dialog{kind: dlgNote, title: "Add a note to the session",
-			intro:  []string{"The note is dated and signed, and saved with the next save (ctrl+s)."},
-			fields: []dialogField{{label: "Note", hint: "e.g. lifetime from the decay of wafer 3", ed: newLineEditorN("", noteRunes)}}}
+			fields: []dialogField{{label: "Note", hint: "your remark for the session's owner", ed: newLineEditorN("", noteRunes)}}})
+		return
 	}
-	m.screen = screenDialog
+	m.push(&dialogScreen{kind: dlgNote, title: "Add a note to the session",
+		intro:  []string{"The note is dated and signed, and saved with the next save (ctrl+s)."},
+		fields: []dialogField{{label: "Note", hint: "e.g. lifetime from the decay of wafer 3", ed: newLineEditorN("", noteRunes)}}})
 }
 
 // openShare opens the dialog that shares the saved session read-only
@@ -169,12 +171,11 @@ func (m *Model) openShare() {
 	if m.sess.readers != nil {
 		now = m.sess.readers(m.sess.name)
 	}
-	m.dlg = dialog{kind: dlgShare, title: "Share " + m.sess.name + " for review",
+	m.push(&dialogScreen{kind: dlgShare, title: "Share " + m.sess.name + " for review",
 		intro: []string{"Reviewers see every revision read-only and can add review notes; they never change your session.",
 			"Leave the box empty to stop sharing; it takes effect for new openings at once."},
 		fields: []dialogField{{label: "Reviewers", hint: "user names separated by spaces or commas; * for everyone on the server",
-			ed: newLineEditorN(strings.Join(now, " "), noteRunes)}}}
-	m.screen = screenDialog
+			ed: newLineEditorN(strings.Join(now, " "), noteRunes)}}})
 }
 
 // parseReaders splits a reviewer list on spaces and commas.
@@ -195,21 +196,31 @@ func (m *Model) openCopy() {
 	} else if len(name)+5 <= nameRunes {
 		name += "-mine"
 	}
-	m.dlg = dialog{kind: dlgCopy, title: "Copy into your own sessions",
+	m.push(&dialogScreen{kind: dlgCopy, title: "Copy into your own sessions",
 		intro:  []string{"The copy is yours to change; the reviewed session stays as it is."},
-		fields: []dialogField{{label: "Session name", hint: "1 to 64 letters, digits, '-', '_' or '.'", ed: newLineEditorN(name, nameRunes)}}}
-	m.screen = screenDialog
+		fields: []dialogField{{label: "Session name", hint: "1 to 64 letters, digits, '-', '_' or '.'", ed: newLineEditorN(name, nameRunes)}}})
 }
 
 // ---------------------------------------------------------------- keys
 
-func (m Model) dialogKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
-	k := m.e.keys
-	d := &m.dlg
+// dialogKeys is the key map of a text dialog.
+type dialogKeys struct{ Submit, Next, Prev, Clear, Dismiss key.Binding }
+
+func (k KeyMap) dialogKeys() dialogKeys {
+	return dialogKeys{Submit: k.Submit, Next: k.NextField, Prev: k.PrevField, Clear: k.ClearToStart, Dismiss: k.Dismiss}
+}
+
+func (k dialogKeys) ShortHelp() []key.Binding {
+	return []key.Binding{k.Submit, k.Next, k.Prev, k.Clear, k.Dismiss}
+}
+
+func (d *dialogScreen) footer(m Model) []key.Binding { return m.e.keys.dialogKeys().ShortHelp() }
+
+func (d *dialogScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
+	k := m.e.keys.dialogKeys()
 	switch {
 	case keyIs(km, k.Dismiss):
-		m.screen = screenMain
-		m.quitAfterSave = false
+		m.close(d)
 		switch d.kind {
 		case dlgSave, dlgSaveNew, dlgCopy:
 			m.note = "not saved; your edits are kept"
@@ -218,26 +229,25 @@ func (m Model) dialogKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		default:
 			m.note = "no note added"
 		}
-		return m, nil
+		return nil
 	case keyIs(km, k.Submit):
-		return m.submitDialog()
-	case keyIs(km, k.NextField):
+		return d.submit(m)
+	case keyIs(km, k.Next):
 		d.row = (d.row + 1) % len(d.fields)
-		return m, nil
-	case keyIs(km, k.PrevField):
+		return nil
+	case keyIs(km, k.Prev):
 		d.row = (d.row + len(d.fields) - 1) % len(d.fields)
-		return m, nil
+		return nil
 	}
 	if d.row >= 0 && d.row < len(d.fields) {
 		if _, changed := d.fields[d.row].ed.handle(km); changed {
 			d.fields[d.row].err = ""
 		}
 	}
-	return m, nil
+	return nil
 }
 
-func (m Model) submitDialog() (tea.Model, tea.Cmd) {
-	d := &m.dlg
+func (d *dialogScreen) submit(m *Model) tea.Cmd {
 	for i := range d.fields {
 		d.fields[i].err = ""
 	}
@@ -255,26 +265,26 @@ func (m Model) submitDialog() (tea.Model, tea.Cmd) {
 			if err := checkNewName(req.name); err != nil {
 				d.fields[0].err = err.Error()
 				d.row = 0
-				return m, nil
+				return nil
 			}
 		}
 		err := m.save(req, false)
-		return m.afterSave(req, err)
+		return d.afterSave(m, req, err)
 	case dlgNote:
 		if err := m.addNote(d.fields[0].ed.value()); err != nil {
 			d.fields[0].err = err.Error()
-			return m, nil
+			return nil
 		}
 	case dlgReview:
 		if err := m.addReview(d.fields[0].ed.value()); err != nil {
 			d.fields[0].err = err.Error()
-			return m, nil
+			return nil
 		}
 	case dlgShare:
 		readers := parseReaders(d.fields[0].value())
 		if err := m.sess.share(m.sess.name, readers); err != nil {
 			d.fields[0].err = err.Error()
-			return m, nil
+			return nil
 		}
 		if len(readers) == 0 {
 			m.note = m.sess.name + " is no longer shared"
@@ -285,26 +295,26 @@ func (m Model) submitDialog() (tea.Model, tea.Cmd) {
 		cmd, err := m.copyToOwn(d.fields[0].value())
 		if err != nil {
 			d.fields[0].err = err.Error()
-			return m, nil
+			return nil
 		}
-		m.screen = screenMain
-		return m, cmd
+		m.close(d)
+		return cmd
 	}
-	m.screen = screenMain
-	return m, nil
+	m.close(d)
+	return nil
 }
 
 // afterSave shows the outcome of a save: the workbench on success (or
 // quits when the save came from the quit question), else the error in
 // place, or the choice when the revision the edits started from is no
 // longer the newest.
-func (m Model) afterSave(req saveRequest, err error) (tea.Model, tea.Cmd) {
+func (d *dialogScreen) afterSave(m *Model, req saveRequest, err error) tea.Cmd {
 	if err == nil {
-		m.screen = screenMain
-		if m.quitAfterSave {
-			return m, tea.Quit
+		m.close(d)
+		if d.quitAfter {
+			return tea.Quit
 		}
-		return m, nil
+		return nil
 	}
 	var se *sessions.StaleError
 	var ne *sessions.NameError
@@ -312,111 +322,209 @@ func (m Model) afterSave(req saveRequest, err error) (tea.Model, tea.Cmd) {
 	var nf *sessions.NotFoundError
 	switch {
 	case errors.As(err, &se) && !req.asNew:
-		m.stale = staleState{info: *se, req: req}
+		s := &staleScreen{info: *se, req: req, quitAfter: d.quitAfter}
 		if hist, _, herr := m.sess.store.History(se.Session); herr == nil && len(hist) > 0 {
 			r := hist[len(hist)-1]
-			m.stale.latest = &r
+			s.latest = &r
 		}
-		m.screen = screenStale
-		return m, nil
+		m.replace(d, s)
 	case errors.As(err, &se):
-		m.dlg.fields[0].err = fmt.Sprintf("a session named %s already exists (revision %d): choose another name, or open it with ctrl+o", req.name, se.Latest)
-		m.dlg.row = 0
+		d.fields[0].err = fmt.Sprintf("a session named %s already exists (revision %d): choose another name, or open it with ctrl+o", req.name, se.Latest)
+		d.row = 0
 	case req.asNew && (errors.As(err, &ne) || errors.As(err, &ee)):
-		m.dlg.fields[0].err = err.Error()
-		m.dlg.row = 0
+		d.fields[0].err = err.Error()
+		d.row = 0
 	case !req.asNew && errors.As(err, &nf):
-		m.dlg = m.saveNewDialog("Save as a new session", "", req.name+"-copy", req.title, req.note)
-		m.dlg.err = err.Error() + ". Give a name to save your edits as a new session."
+		n := saveNewDialog("Save as a new session", "", req.name+"-copy", req.title, req.note)
+		n.err = err.Error() + ". Give a name to save your edits as a new session."
+		n.quitAfter = d.quitAfter
+		m.replace(d, n)
 	default:
-		m.dlg.err = "not saved: " + err.Error() + ". Your edits are kept."
+		d.err = "not saved: " + err.Error() + ". Your edits are kept."
 	}
-	m.screen = screenDialog
-	return m, nil
+	return nil
 }
 
-func (m Model) staleKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
-	k := m.e.keys
+// staleKeys is the key map of the choice after a stale save.
+type staleKeys struct{ SaveNext, SaveCopy, ShowNewer, Dismiss key.Binding }
+
+func (k KeyMap) staleKeys() staleKeys {
+	return staleKeys{SaveNext: k.SaveNext, SaveCopy: k.SaveCopy, ShowNewer: k.ShowNewer, Dismiss: k.Dismiss}
+}
+
+func (k staleKeys) ShortHelp() []key.Binding {
+	return []key.Binding{k.SaveNext, k.SaveCopy, k.ShowNewer, k.Dismiss}
+}
+
+func (s *staleScreen) footer(m Model) []key.Binding { return m.e.keys.staleKeys().ShortHelp() }
+
+func (s *staleScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
+	k := m.e.keys.staleKeys()
 	switch {
 	case keyIs(km, k.SaveNext):
-		req := m.stale.req
-		req.name = m.stale.info.Session
+		req := s.req
+		req.name = s.info.Session
 		if err := m.save(req, true); err != nil {
-			m.stale.err = "not saved: " + err.Error() + ". Your edits are kept."
-			return m, nil
+			s.err = "not saved: " + err.Error() + ". Your edits are kept."
+			return nil
 		}
-		m.screen = screenMain
-		if m.quitAfterSave {
-			return m, tea.Quit
+		m.close(s)
+		if s.quitAfter {
+			return tea.Quit
 		}
 	case keyIs(km, k.SaveCopy):
-		r := m.stale.req
-		name := m.stale.info.Session + "-copy"
-		if len(name) > nameRunes {
-			name = name[:nameRunes]
-		}
-		m.dlg = m.saveNewDialog("Save your edits as a new session",
-			fmt.Sprintf("%s keeps its revisions as they are; your edits become revision 1 of the new session.", m.stale.info.Session),
-			name, r.title, r.note)
-		m.screen = screenDialog
+		r := s.req
+		d := saveNewDialog("Save your edits as a new session",
+			fmt.Sprintf("%s keeps its revisions as they are; your edits become revision 1 of the new session.", s.info.Session),
+			copyName(s.info.Session), r.title, r.note)
+		d.quitAfter = s.quitAfter
+		m.replace(s, d)
 	case keyIs(km, k.ShowNewer):
-		in := m.stale.info
+		in := s.info
 		if in.Base < 1 {
-			m.stale.err = "your edits did not start from a revision of this session, so there is no older side to compare"
-			return m, nil
+			s.err = "your edits did not start from a revision of this session, so there is no older side to compare"
+			return nil
 		}
-		if err := m.showDiff(in.Session, in.Base, in.Latest, screenStale); err != nil {
-			m.stale.err = err.Error()
+		if err := m.showDiff(in.Session, in.Base, in.Latest); err != nil {
+			s.err = err.Error()
 		}
 	case keyIs(km, k.Dismiss):
-		m.screen = screenMain
-		m.quitAfterSave = false
+		m.close(s)
 		m.note = "not saved; your edits are kept (ctrl+s tries again)"
 	}
-	return m, nil
+	return nil
 }
 
-func (m Model) confirmKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
-	k := m.e.keys
-	c := m.conf
+// confirmKeys is the key map of a yes/no question.
+type confirmKeys struct{ Yes, No key.Binding }
+
+func (c *confirmScreen) confirmKeys(k KeyMap) confirmKeys {
+	return confirmKeys{Yes: key.NewBinding(key.WithKeys(k.Yes.Keys()...), key.WithHelp("y", c.what)),
+		No: key.NewBinding(key.WithKeys(k.No.Keys()...), key.WithHelp("n/esc", "cancel"))}
+}
+
+func (c *confirmScreen) footer(m Model) []key.Binding { return c.confirmKeys(m.e.keys).ShortHelp() }
+
+func (k confirmKeys) ShortHelp() []key.Binding { return []key.Binding{k.Yes, k.No} }
+
+func (c *confirmScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
+	k := c.confirmKeys(m.e.keys)
 	switch {
 	case keyIs(km, k.Yes):
-		m.conf = confirmState{}
-		switch c.kind {
-		case confirmRestore:
-			return m.restoreRevision(c.name, c.rev)
-		case confirmOpen:
-			m.discardDraft()
-			return m.openStored(c.name, c.rev, c.back)
-		}
-		m.screen = c.back
+		m.close(c)
+		return c.yes(m)
 	case keyIs(km, k.No):
-		m.conf = confirmState{}
-		m.screen = c.back
+		m.close(c)
 		m.note = "nothing changed"
 	}
-	return m, nil
+	return nil
 }
 
-func (m Model) draftKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
-	k := m.e.keys
+// draftKeys is the key map of the draft offer.
+type draftKeys struct{ Restore, Discard, Later key.Binding }
+
+func (k KeyMap) draftKeys() draftKeys {
+	return draftKeys{Restore: k.DraftRestore, Discard: k.DraftDiscard, Later: k.DraftLater}
+}
+
+func (k draftKeys) ShortHelp() []key.Binding { return []key.Binding{k.Restore, k.Discard, k.Later} }
+
+func (d *draftScreen) footer(m Model) []key.Binding { return m.e.keys.draftKeys().ShortHelp() }
+
+func (d *draftScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
+	k := m.e.keys.draftKeys()
 	switch {
-	case keyIs(km, k.DraftRestore):
-		cmd := m.restoreDraft()
-		return m, cmd
-	case keyIs(km, k.DraftDiscard):
-		if d := m.offer.draft; d != nil {
-			if err := m.sess.store.DiscardDraft(m.draftName(), d.Key()); err != nil {
+	case keyIs(km, k.Restore):
+		return m.restoreDraft(d)
+	case keyIs(km, k.Discard):
+		if d.draft != nil {
+			if err := m.sess.store.DiscardDraft(m.draftName(), d.draft.Key()); err != nil {
 				m.note = "the draft could not be removed: " + err.Error()
 			} else {
 				m.note = "draft discarded"
 			}
 		}
-		m.nextOffer()
-	case keyIs(km, k.DraftLater):
-		return m, tea.Quit
+		if !d.next(m) {
+			m.close(d)
+		}
+	case keyIs(km, k.Later):
+		return tea.Quit
 	}
-	return m, nil
+	return nil
+}
+
+// interrupt: ctrl+c at the offer quits and keeps the drafts for the
+// next start.
+func (d *draftScreen) interrupt(*Model) (tea.Cmd, bool) { return tea.Quit, true }
+
+// quitScreen asks before dropping changes.
+type quitScreen struct{}
+
+// quitKeys is the key map of the quit question; SaveFirst is off without
+// a store or in review.
+type quitKeys struct{ SaveFirst, Yes, No key.Binding }
+
+func (m Model) quitKeys() quitKeys {
+	k := m.e.keys
+	save := k.SaveFirst
+	save.SetEnabled(m.sess.store != nil && !m.sess.readOnly)
+	no := k.No
+	no.SetKeys(slices.Concat(no.Keys(), []string{"q"})...)
+	return quitKeys{SaveFirst: save, Yes: k.Yes, No: no}
+}
+
+func (k quitKeys) ShortHelp() []key.Binding { return []key.Binding{k.SaveFirst, k.Yes, k.No} }
+
+func (s *quitScreen) footer(m Model) []key.Binding { return m.quitKeys().ShortHelp() }
+
+func (s *quitScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
+	k := m.quitKeys()
+	switch {
+	case keyIs(km, k.Yes):
+		m.discardDraft()
+		return tea.Quit
+	case keyIs(km, k.SaveFirst):
+		m.close(s)
+		if d := m.openSave(false); d != nil {
+			d.quitAfter = true
+		}
+	case keyIs(km, k.No):
+		m.close(s)
+	}
+	return nil
+}
+
+// interrupt: ctrl+c at the question quits at once, writing the draft.
+func (s *quitScreen) interrupt(m *Model) (tea.Cmd, bool) {
+	_, cmd := m.shutdown()
+	return cmd, true
+}
+
+func (s *quitScreen) draw(m Model, w, h int) []string {
+	st := m.e.st
+	msg := []string{
+		st.strong.Paint("Quit junco?"),
+		"",
+		"The junction has changes that are not saved.",
+	}
+	keys := st.keyName.Paint("y") + " quit and drop the changes    " + st.keyName.Paint("n") + " or " + st.keyName.Paint("esc") + " stay"
+	if m.sess.store != nil {
+		msg = append(msg, "Saving keeps them as a new revision.", "", st.keyName.Paint("s")+" save first    "+keys)
+	} else {
+		msg = append(msg, wrapText(m.sess.noStoreText("saving")+".", min(w-4, 46))...)
+		msg = append(msg, "", keys)
+	}
+	boxW := 0
+	for _, l := range msg {
+		boxW = max(boxW, width(l))
+	}
+	padTop := max((h-len(msg))/2, 0)
+	padLeft := max((w-boxW)/2, 0)
+	out := make([]string, padTop)
+	for _, l := range msg {
+		out = append(out, strings.Repeat(" ", padLeft)+l)
+	}
+	return block(out, w, h, m.e.g.ellipsis)
 }
 
 // ---------------------------------------------------------------- views
@@ -446,9 +554,8 @@ func wrapped(text string, w int, paint ink, indent string) []string {
 	return out
 }
 
-func (m Model) dialogScreen(w, h int) []string {
+func (d *dialogScreen) draw(m Model, w, h int) []string {
 	st, g := m.e.st, m.e.g
-	d := m.dlg
 	bw := m.frameWidth(w)
 	var body []string
 	for _, t := range d.intro {
@@ -490,9 +597,8 @@ func (m Model) dialogScreen(w, h int) []string {
 	return m.frame(d.title, body, w, h)
 }
 
-func (m Model) staleScreen(w, h int) []string {
+func (s *staleScreen) draw(m Model, w, h int) []string {
 	st, g := m.e.st, m.e.g
-	s := m.stale
 	bw := m.frameWidth(w)
 	in := s.info
 	var body []string
@@ -524,21 +630,20 @@ func (m Model) staleScreen(w, h int) []string {
 	return m.frame("A newer revision exists", body, w, h)
 }
 
-func (m Model) confirmScreen(w, h int) []string {
+func (c *confirmScreen) draw(m Model, w, h int) []string {
 	st := m.e.st
-	c := m.conf
 	bw := m.frameWidth(w)
 	var body []string
 	for _, l := range c.lines {
 		body = append(body, wrapped(l, bw, st.text, "")...)
 	}
-	body = append(body, "", st.keyName.Paint("y")+" "+c.yes+"    "+st.keyName.Paint("n")+" or "+st.keyName.Paint("esc")+" cancel")
+	body = append(body, "", st.keyName.Paint("y")+" "+c.what+"    "+st.keyName.Paint("n")+" or "+st.keyName.Paint("esc")+" cancel")
 	return m.frame(c.title, body, w, h)
 }
 
-func (m Model) draftScreen(w, h int) []string {
+func (o *draftScreen) draw(m Model, w, h int) []string {
 	st := m.e.st
-	d := m.offer.draft
+	d := o.draft
 	bw := m.frameWidth(w)
 	var body []string
 	if d == nil {
@@ -552,12 +657,12 @@ func (m Model) draftScreen(w, h int) []string {
 		}
 	}
 	body = append(body, wrapped(fmt.Sprintf("The workbench stopped with unsaved changes to %s. A recovery draft of them was kept on %s.", what, stamp(d.Saved)), bw, st.text, "")...)
-	if total := m.offer.shown + len(m.offer.queue); total > 1 {
-		body = append(body, wrapped(fmt.Sprintf("Draft %d of %d: each connection that stopped with unsaved changes kept its own; discard this one to see the next.", m.offer.shown, total), bw, st.muted, "")...)
+	if total := o.shown + len(o.queue); total > 1 {
+		body = append(body, wrapped(fmt.Sprintf("Draft %d of %d: each connection that stopped with unsaved changes kept its own; discard this one to see the next.", o.shown, total), bw, st.muted, "")...)
 	}
-	body = append(body, "", st.strong.Paint("The draft against what is open now ("+plural(len(m.offer.changes), "change", "changes")+")"))
+	body = append(body, "", st.strong.Paint("The draft against what is open now ("+plural(len(o.changes), "change", "changes")+")"))
 	room := max(h-len(body)-7, 3)
-	rows := m.changeLines(m.offer.changes, bw)
+	rows := m.changeLines(o.changes, bw)
 	if len(rows) > room {
 		more := len(rows) - room + 1
 		rows = append(rows[:room-1], st.faint.Paint(fmt.Sprintf("  %s and %d more lines", m.e.g.ellipsis, more)))
@@ -577,38 +682,3 @@ func dashed(s string) string {
 	}
 	return s
 }
-
-// ---------------------------------------------------------------- help
-
-type textDialogHelp struct{ k KeyMap }
-
-func (h textDialogHelp) ShortHelp() []key.Binding {
-	k := h.k
-	return []key.Binding{k.Submit, k.NextField, k.PrevField, k.ClearToStart, k.Dismiss}
-}
-func (h textDialogHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
-
-type staleHelp struct{ k KeyMap }
-
-func (h staleHelp) ShortHelp() []key.Binding {
-	return []key.Binding{h.k.SaveNext, h.k.SaveCopy, h.k.ShowNewer, h.k.Dismiss}
-}
-func (h staleHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
-
-type confirmHelp struct {
-	k   KeyMap
-	yes string
-}
-
-func (h confirmHelp) ShortHelp() []key.Binding {
-	return []key.Binding{key.NewBinding(key.WithKeys("y"), key.WithHelp("y", h.yes)),
-		key.NewBinding(key.WithKeys("n", "esc"), key.WithHelp("n/esc", "cancel"))}
-}
-func (h confirmHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
-
-type draftHelp struct{ k KeyMap }
-
-func (h draftHelp) ShortHelp() []key.Binding {
-	return []key.Binding{h.k.DraftRestore, h.k.DraftDiscard, h.k.DraftLater}
-}
-func (h draftHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }

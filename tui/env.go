@@ -133,6 +133,9 @@ type glyphs struct {
 	unsaved               string
 	markers               []string // one per chart series, distinct without colour
 	pinMarker             string
+	// point marks measured points; mpp the maximum-power point of a lit
+	// fit; plusMinus stands before a standard error.
+	point, mpp, plusMinus string
 	axisV, axisH, axisO   rune
 	tickX, tickY          rune
 }
@@ -143,11 +146,11 @@ func newGlyphs(ascii bool) glyphs {
 			vbar: "|", hbar: "-", hbarHeavy: "=", left: "<", right: ">", ellipsis: "...",
 			dot: "-", delta: "d", arrow: "->", unsaved: "*",
 			markers:   []string{"*", "o", "+", "x", "#", "%", "@", "="},
-			pinMarker: ".", axisV: '|', axisH: '-', axisO: '+', tickX: '+', tickY: '+'}
+			pinMarker: ".", point: "+", mpp: "#", plusMinus: "+/-", axisV: '|', axisH: '-', axisO: '+', tickX: '+', tickY: '+'}
 	}
 	return glyphs{cursor: "▸", bad: "✗", good: "✓",
 		vbar: "│", hbar: "─", hbarHeavy: "━", left: "◂", right: "▸", ellipsis: "…",
 		dot: "·", delta: "Δ", arrow: "→", unsaved: "●",
 		markers:   []string{"●", "■", "▲", "◆", "▼", "✚", "○", "□"},
-		pinMarker: "∘", axisV: '│', axisH: '─', axisO: '└', tickX: '┬', tickY: '┤'}
+		pinMarker: "∘", point: "•", mpp: "◆", plusMinus: "±", axisV: '│', axisH: '─', axisO: '└', tickX: '┬', tickY: '┤'}
 }

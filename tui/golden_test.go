@@ -114,14 +114,18 @@ func goldenStore(t *testing.T) *sessions.Store {
 	storeSession(t, st, "d7-lowdope", "D7 with a lighter p+ layer", spec)
 	spec.Temperature = 350
 	storeSession(t, st, "hot-bench", "hot-chuck run at 350 K", spec)
+	brokenEntry(t, st)
+	return st
+}
+
+// brokenEntry adds a session "broken" whose only revision cannot be read.
+func brokenEntry(t *testing.T, st *sessions.Store) {
+	t.Helper()
 	broken := filepath.Join(st.Root(), "sessions", "broken")
 	if err := os.MkdirAll(broken, 0o755); err != nil {
 		t.Fatal(err)
 	}
-	if err := os.WriteFile(filepath.Join(broken, "rev-000001.json"), []byte(`{"schema": 1, "meta": {`), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	return st
+	writeText(t, filepath.Join(broken, "rev-000001.json"), `{"schema": 1, "meta": {`)
 }
 
 // TestGoldenSessions pins the session browser and review mode.

@@ -4,6 +4,7 @@ import (
 	"strings"
 
 	"github.com/charmbracelet/bubbles/key"
+	tea "github.com/charmbracelet/bubbletea"
 )
 
 // guideText is the getting-started guide of the help screen.
@@ -28,6 +29,37 @@ func guideText(g glyphs) []string {
 	}
 }
 
+// helpScreen is the guide and every key, scrolled by off.
+type helpScreen struct{ off int }
+
+// openHelp shows the help at its top.
+func (m *Model) openHelp() { m.push(&helpScreen{}) }
+
+// helpKeys is the key map of the help screen.
+type helpKeys struct {
+	scrollKeys
+	Back key.Binding
+}
+
+func (k KeyMap) helpKeys() helpKeys {
+	back := key.NewBinding(key.WithKeys(append([]string{"esc", "q", "enter"}, k.Help.Keys()...)...), key.WithHelp("esc/?", "back"))
+	return helpKeys{scrollKeys: k.scrollKeys(), Back: back}
+}
+
+func (k helpKeys) ShortHelp() []key.Binding {
+	return []key.Binding{k.Down, k.Up, k.PageDown, k.Bottom, k.Top, k.Back}
+}
+
+func (s *helpScreen) footer(m Model) []key.Binding { return m.e.keys.helpKeys().ShortHelp() }
+
+func (s *helpScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
+	k := m.e.keys.helpKeys()
+	if !k.scroll(&s.off, km, m.helpPage(), m.helpEnd()) && keyIs(km, k.Back) {
+		m.close(s)
+	}
+	return nil
+}
+
 // helpPage is how far pgdn and space move the help: its height less two
 // lines kept for context.
 func (m Model) helpPage() int { return max(m.h-2-2, 1) }
@@ -35,11 +67,11 @@ func (m Model) helpPage() int { return max(m.h-2-2, 1) }
 // helpEnd is the scroll that shows the end of the help.
 func (m Model) helpEnd() int { return max(len(m.helpLines(m.w))-(m.h-2), 0) }
 
-// helpScreen draws the guide and every key, scrolled by helpOf.
-func (m Model) helpScreen(w, h int) []string {
+// view draws the guide and every key, scrolled by off.
+func (s *helpScreen) draw(m Model, w, h int) []string {
 	st, g := m.e.st, m.e.g
 	out := m.helpLines(w)
-	off := min(m.helpOf, max(len(out)-h, 0))
+	off := min(s.off, max(len(out)-h, 0))
 	out = out[off:]
 	res := block(out, w, h, g.ellipsis)
 	if len(out) > h && h > 0 {

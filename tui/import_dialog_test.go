@@ -22,9 +22,7 @@ func TestImportDialogBoxCompletionAndNames(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, n := range []string{"d7-25C.csv", "d7-75C.csv", "notes.txt"} {
-		if err := os.WriteFile(filepath.Join(dir, n), src, 0o600); err != nil {
-			t.Fatal(err)
-		}
+		writeText(t, filepath.Join(dir, n), string(src))
 	}
 	m := bare(newTest(t, 100, 30))
 	m = press(m, "i")
@@ -33,7 +31,7 @@ func TestImportDialogBoxCompletionAndNames(t *testing.T) {
 	}
 	m = typeText(m, dir+"/d")
 	m = press(m, "tab")
-	if got := m.imp.ed.value(); got != dir+"/d7-" {
+	if got := importOf(m).ed.value(); got != dir+"/d7-" {
 		t.Errorf("tab completed %q to %q, want the common part %q", dir+"/d", got, dir+"/d7-")
 	}
 	if v := plain(m); !strings.Contains(v, "d7-25C.csv") || !strings.Contains(v, "d7-75C.csv") {
@@ -41,7 +39,7 @@ func TestImportDialogBoxCompletionAndNames(t *testing.T) {
 	}
 	m = typeText(m, "2")
 	m = press(m, "tab")
-	if got := m.imp.ed.value(); got != dir+"/d7-25C.csv" {
+	if got := importOf(m).ed.value(); got != dir+"/d7-25C.csv" {
 		t.Fatalf("tab completed to %q, want %q", got, dir+"/d7-25C.csv")
 	}
 	m = press(m, "enter", "enter")
@@ -51,7 +49,7 @@ func TestImportDialogBoxCompletionAndNames(t *testing.T) {
 	// The next import starts in the same folder; a second file of the
 	// same stem gets a number.
 	m = press(m, "i")
-	if got := m.imp.ed.value(); got != dir+"/" {
+	if got := importOf(m).ed.value(); got != dir+"/" {
 		t.Errorf("the next path starts as %q, want the folder %q", got, dir+"/")
 	}
 	m = typeText(m, "d7-25C.csv")
@@ -82,7 +80,7 @@ func TestImportCompletionUsesGivenFiles(t *testing.T) {
 	m = press(m, "i")
 	m = typeText(m, "ze")
 	m = press(m, "tab")
-	if got := m.imp.ed.value(); got != "zeta.csv" {
+	if got := importOf(m).ed.value(); got != "zeta.csv" {
 		t.Errorf("completion in the given files: %q, want zeta.csv\n%s", got, ansi.Strip(m.View()))
 	}
 }

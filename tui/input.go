@@ -26,19 +26,15 @@ func (m Model) eachKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	return cur, tea.Batch(cmds...)
 }
 
-// interrupt is ctrl+c, on every screen: it stops a running batch (keeping
-// the finished rows), leaves a pending draft for the next start, quits at
-// once from the quit question (writing the draft), and otherwise asks to
-// quit as q does.
+// interrupt is ctrl+c, on every screen, handled here once: a screen
+// that answers it itself (an interrupter) does so first (the batch stops
+// its run keeping the finished rows, the quit question quits at once
+// writing the draft, the draft offer quits leaving the drafts for the
+// next start); otherwise, or after, the workbench asks to quit as q does.
 func (m Model) interrupt() (tea.Model, tea.Cmd) {
-	switch m.screen {
-	case screenQuit:
-		return m.shutdown()
-	case screenDraft:
-		return m, tea.Quit
-	case screenBatch:
-		if m.bat.cancel != nil {
-			m.bat.cancel()
+	if s, ok := m.top().(interrupter); ok {
+		if cmd, done := s.interrupt(&m); done {
+			return m, cmd
 		}
 	}
 	return m.quit()

@@ -103,7 +103,7 @@ func DefaultKeyMap() KeyMap {
 		NextPanel: b([]string{"tab"}, "tab", "next panel"),
 		PrevPanel: b([]string{"shift+tab"}, "shift+tab", "previous panel"),
 		Help:      b([]string{"?"}, "?", "help and guide"),
-		Quit:      b([]string{"q", "ctrl+c"}, "q", "quit"),
+		Quit:      b([]string{"q"}, "q", "quit"), // ctrl+c: Model.interrupt
 		Pin:       b([]string{"p"}, "p", "pin as reference"),
 		Unpin:     b([]string{"u"}, "u", "drop the pin"),
 		ASCII:     b([]string{"a"}, "a", "ASCII/Unicode drawing"),

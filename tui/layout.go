@@ -129,7 +129,7 @@ func (m Model) header() string {
 	}
 	for p := panel(0); p < panelCount; p++ {
 		t := p.title()
-		if p == m.focus && m.screen == screenMain {
+		if p == m.focus && m.top() == nil {
 			left += st.tabOn.Paint("[" + t + "]")
 		} else {
 			left += st.tabOff.Paint(" " + t + " ")
@@ -253,53 +253,3 @@ func (m Model) body() []string {
 	}
 	return pane(panelCharts, cw, ch, m.chart.lines())
 }
-
-// quitScreen asks before dropping changes.
-func (m Model) quitScreen(w, h int) []string {
-	st := m.e.st
-	msg := []string{
-		st.strong.Paint("Quit junco?"),
-		"",
-		"The junction has changes that are not saved.",
-	}
-	keys := st.keyName.Paint("y") + " quit and drop the changes    " + st.keyName.Paint("n") + " or " + st.keyName.Paint("esc") + " stay"
-	if m.sess.store != nil {
-		msg = append(msg, "Saving keeps them as a new revision.", "", st.keyName.Paint("s")+" save first    "+keys)
-	} else {
-		msg = append(msg, wrapText(m.sess.noStoreText("saving")+".", min(w-4, 46))...)
-		msg = append(msg, "", keys)
-	}
-	boxW := 0
-	for _, l := range msg {
-		boxW = max(boxW, width(l))
-	}
-	padTop := max((h-len(msg))/2, 0)
-	padLeft := max((w-boxW)/2, 0)
-	out := make([]string, padTop)
-	for _, l := range msg {
-		out = append(out, strings.Repeat(" ", padLeft)+l)
-	}
-	return block(out, w, h, m.e.g.ellipsis)
-}
-
-// dialogHelp is the footer of the quit question.
-type dialogHelp struct {
-	k       KeyMap
-	canSave bool
-}
-
-func (h dialogHelp) ShortHelp() []key.Binding {
-	if h.canSave {
-		return []key.Binding{h.k.SaveFirst, h.k.Yes, h.k.No}
-	}
-	return []key.Binding{h.k.Yes, h.k.No}
-}
-func (h dialogHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
-
-// helpScreenHelp is the footer of the help screen.
-type helpScreenHelp struct{ k KeyMap }
-
-func (h helpScreenHelp) ShortHelp() []key.Binding {
-	return []key.Binding{h.k.ScrollDown, h.k.ScrollUp, h.k.PageDown, h.k.Bottom, h.k.Top, key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc/?", "back"))}
-}
-func (h helpScreenHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }

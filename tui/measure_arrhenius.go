@@ -13,12 +13,12 @@ import (
 	"junco/model/fit"
 )
 
-// arrheniusState is the temperature screen: the I-V data sets at several
-// temperatures, fitted one by one, and the activation energy of their
-// saturation currents. gamma is the exponent of D/tau in T typed by the
-// user (the prefactor is T^(3+gamma/2)); the user picks the data sets
+// arrheniusScreen is the temperature screen: the I-V data sets at
+// several temperatures, fitted one by one, and the activation energy of
+// their saturation currents. gamma is the exponent of D/tau in T typed by
+// the user (the prefactor is T^(3+gamma/2)); the user picks the data sets
 // that enter the fit.
-type arrheniusState struct {
+type arrheniusScreen struct {
 	ed       lineEditor
 	gamma    float64
 	gammaErr string
@@ -36,14 +36,13 @@ func (m *Model) openArrhenius() {
 		m.note = "no I-V data set in the session: i imports one (two or more temperatures are needed)"
 		return
 	}
-	m.arr = arrheniusState{ed: newLineEditor("0"), off: map[string]bool{}}
-	m.screen = screenArrhenius
-	m.refitArrhenius()
+	a := &arrheniusScreen{ed: newLineEditor("0"), off: map[string]bool{}}
+	a.refit(*m)
+	m.push(a)
 }
 
-// refitArrhenius runs the analysis with the gamma in force.
-func (m *Model) refitArrhenius() {
-	a := &m.arr
+// refit runs the analysis with the gamma in force.
+func (a *arrheniusScreen) refit(m Model) {
 	var in []fit.ArrheniusInput
 	for _, i := range m.ivMeasurements() {
 		if a.off[m.sess.meas[i].ID] {
@@ -60,8 +59,7 @@ func (m *Model) refitArrhenius() {
 }
 
 // applyGamma reads the gamma field (empty: 0).
-func (m *Model) applyGamma() {
-	a := &m.arr
+func (a *arrheniusScreen) applyGamma(m Model) {
 	a.gammaErr = ""
 	s := strings.TrimSpace(a.ed.value())
 	g := 0.0
@@ -79,47 +77,55 @@ func (m *Model) applyGamma() {
 		g = v
 	}
 	a.gamma = g
-	m.refitArrhenius()
+	a.refit(m)
 }
 
-func (m Model) arrheniusKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
-	k := m.e.keys
+// arrheniusKeys is the key map of the temperature screen.
+type arrheniusKeys struct{ Apply, Choose, Up, Down, Toggle, Close key.Binding }
+
+func (k KeyMap) arrheniusKeys() arrheniusKeys {
+	return arrheniusKeys{Apply: key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "apply g")),
+		Choose: key.NewBinding(key.WithKeys("up", "down"), key.WithHelp("↑/↓", "data set")),
+		Up:     k.ListUp, Down: k.ListDown,
+		Toggle: key.NewBinding(key.WithKeys(" "), key.WithHelp("space", "use or leave out")), Close: k.Close}
+}
+
+func (k arrheniusKeys) ShortHelp() []key.Binding {
+	return []key.Binding{k.Apply, k.Choose, k.Toggle, k.Close}
+}
+
+func (a *arrheniusScreen) footer(m Model) []key.Binding { return m.e.keys.arrheniusKeys().ShortHelp() }
+
+func (a *arrheniusScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
+	k := m.e.keys.arrheniusKeys()
 	switch {
-	case keyIs(km, k.Dismiss):
-		m.screen = screenMain
-		return m, nil
-	case keyIs(km, k.Submit):
-		m.applyGamma()
-		return m, nil
-	case keyIs(km, k.ListUp):
-		m.arr.cursor = max(0, m.arr.cursor-1)
-		return m, nil
-	case keyIs(km, k.ListDown):
-		m.arr.cursor = min(len(m.ivMeasurements())-1, m.arr.cursor+1)
-		return m, nil
-	case km.Type == tea.KeySpace || km.String() == " ":
-		if ids := m.ivMeasurements(); m.arr.cursor < len(ids) {
-			id := m.sess.meas[ids[m.arr.cursor]].ID
-			if m.arr.off == nil {
-				m.arr.off = map[string]bool{}
-			}
-			m.arr.off[id] = !m.arr.off[id]
-			m.refitArrhenius()
+	case keyIs(km, k.Close):
+		m.close(a)
+	case keyIs(km, k.Apply):
+		a.applyGamma(*m)
+	case keyIs(km, k.Up):
+		a.cursor = max(0, a.cursor-1)
+	case keyIs(km, k.Down):
+		a.cursor = min(len(m.ivMeasurements())-1, a.cursor+1)
+	case keyIs(km, k.Toggle):
+		if ids := m.ivMeasurements(); a.cursor < len(ids) {
+			id := m.sess.meas[ids[a.cursor]].ID
+			a.off[id] = !a.off[id]
+			a.refit(*m)
 		}
-		return m, nil
+	default:
+		a.ed.handle(km)
 	}
-	m.arr.ed.handle(km)
-	return m, nil
+	return nil
 }
 
 // arrheniusTableWidth is the width of the table beside the chart.
 const arrheniusTableWidth = 46
 
-// arrheniusScreen draws the gamma field, the Arrhenius chart and the
-// table of temperatures and the activation energy.
-func (m Model) arrheniusScreen(w, h int) []string {
+// view draws the gamma field, the Arrhenius chart and the table of
+// temperatures and the activation energy.
+func (a *arrheniusScreen) draw(m Model, w, h int) []string {
 	st, g := m.e.st, m.e.g
-	a := m.arr
 	out := []string{rule("Activation energy of Is from the I-V data sets", w, glyphs{hbar: g.hbarHeavy}, st.heading)}
 	out = append(out, "D/tau ~ T^g, g "+st.text.Paint("["+a.ed.view(7, st.selected, " ")+"]")+
 		st.muted.Paint(fmt.Sprintf("  (in force %g: prefactor T^(3+g/2) = T^%g)", a.gamma, 3+a.gamma/2)))
@@ -134,8 +140,8 @@ func (m Model) arrheniusScreen(w, h int) []string {
 	if !beside {
 		tw, cw, ch = w, w, h-3-10
 	}
-	chart := m.arrheniusChart(cw, ch)
-	table := m.arrheniusTable(tw)
+	chart := a.chart(m, cw, ch)
+	table := a.table(m, tw)
 	if beside {
 		out = append(out, joinColumns(" "+st.faint.Paint(g.vbar), block(chart, cw, ch, g.ellipsis), table)...)
 	} else {
@@ -145,18 +151,15 @@ func (m Model) arrheniusScreen(w, h int) []string {
 	return block(out, w, h, g.ellipsis)
 }
 
-// arrheniusChart draws ln(Is/T^x) against 1000/T: the points and the line.
-func (m Model) arrheniusChart(cw, ch int) []string {
+// chart draws ln(Is/T^x) against 1000/T: the points and the line.
+func (a *arrheniusScreen) chart(m Model, cw, ch int) []string {
 	st, g := m.e.st, m.e.g
-	v := m.arr.view
+	v := a.view
 	used := v.Used()
 	if len(used) == 0 || cw < 16 || ch < 8 {
 		return []string{st.muted.Paint("(no chart: enlarge the terminal, or no temperatures to draw)")}
 	}
-	dotMark := "+"
-	if !m.e.ascii {
-		dotMark = "•"
-	}
+	dotMark := g.point
 	items := []string{st.series[1].Paint(dotMark) + " fitted Is of each data set"}
 	var xs, ys []float64
 	for _, r := range used {
@@ -181,21 +184,17 @@ func (m Model) arrheniusChart(cw, ch int) []string {
 	ylo, yhi := minMax(allY, 1)
 	ypad := 0.05 * math.Max(yhi-ylo, 0.5)
 	plot := renderPlot(lines, linearScale(xlo-pad, xhi+pad, max(2, cw/12)), linearScale(ylo-ypad, yhi+ypad, max(2, ph/3)), cw, ph, m.e)
-	x := 3 + m.arr.gamma/2
+	x := 3 + a.gamma/2
 	out := append([]string{}, legend...)
 	out = append(out, st.muted.Paint(fmt.Sprintf("ln(Is/T^%g)  (Is in A, T in K)", x)))
 	out = append(out, plot...)
 	return append(out, st.muted.Paint(padLeft("1000/T (1/K)", cw)))
 }
 
-// arrheniusTable lists the temperatures with their fits and the result.
-func (m Model) arrheniusTable(w int) []string {
+// table lists the temperatures with their fits and the result.
+func (a *arrheniusScreen) table(m Model, w int) []string {
 	st, g := m.e.st, m.e.g
-	a := m.arr
-	pm := "±"
-	if m.e.ascii {
-		pm = "+/-"
-	}
+	pm := g.plusMinus
 	var out []string
 	if v := a.view; v != nil && v.Fit != nil {
 		f := v.Fit
@@ -247,13 +246,3 @@ func (m Model) arrheniusTable(w int) []string {
 	}
 	return out
 }
-
-// arrheniusHelp is the footer of the temperature screen.
-type arrheniusHelp struct{ k KeyMap }
-
-func (h arrheniusHelp) ShortHelp() []key.Binding {
-	return []key.Binding{key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "apply g")),
-		key.NewBinding(key.WithKeys("up", "down"), key.WithHelp("↑/↓", "data set")),
-		key.NewBinding(key.WithKeys(" "), key.WithHelp("space", "use or leave out")), h.k.Close}
-}
-func (h arrheniusHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }

@@ -15,7 +15,7 @@ func TestArrheniusScreenDemo(t *testing.T) {
 	for _, size := range [][2]int{{120, 40}, {80, 24}} {
 		m := newTest(t, size[0], size[1])
 		m = press(m, "A")
-		if m.screen != screenArrhenius {
+		if shown(m) != "arrhenius" {
 			t.Fatalf("A must open the temperature screen:\n%s", plain(m))
 		}
 		v := plain(m)
@@ -40,7 +40,7 @@ func TestArrheniusScreenDemo(t *testing.T) {
 			t.Error("the analysis must not change the session")
 		}
 		m = press(m, "esc")
-		if m.screen != screenMain {
+		if shown(m) != "main" {
 			t.Error("esc must go back")
 		}
 	}
@@ -51,16 +51,16 @@ func TestArrheniusScreenDemo(t *testing.T) {
 func TestArrheniusGamma(t *testing.T) {
 	m := newTest(t, 120, 40)
 	m = press(m, "A")
-	ea0 := m.arr.view.Fit.ActivationEnergyEV
+	ea0 := arrOf(m).view.Fit.ActivationEnergyEV
 	m = press(m, "ctrl+u", "2", "enter")
-	if m.arr.gamma != 2 || m.arr.view.Fit.Exponent != 4 || !strings.Contains(plain(m), "ln(Is/T^4)") {
-		t.Fatalf("gamma 2: %+v\n%s", m.arr, plain(m))
+	if arrOf(m).gamma != 2 || arrOf(m).view.Fit.Exponent != 4 || !strings.Contains(plain(m), "ln(Is/T^4)") {
+		t.Fatalf("gamma 2: %+v\n%s", arrOf(m), plain(m))
 	}
-	if m.arr.view.Fit.ActivationEnergyEV >= ea0 {
+	if arrOf(m).view.Fit.ActivationEnergyEV >= ea0 {
 		t.Error("a larger prefactor exponent must lower Ea")
 	}
 	m = press(m, "ctrl+u", "x", "enter")
-	if m.arr.gammaErr == "" || m.arr.gamma != 2 || !strings.Contains(plain(m), "exponent of D/tau): \"x\" is not a number") {
+	if arrOf(m).gammaErr == "" || arrOf(m).gamma != 2 || !strings.Contains(plain(m), "exponent of D/tau): \"x\" is not a number") {
 		t.Errorf("a bad gamma must be refused:\n%s", plain(m))
 	}
 	m = press(m, "esc", "a", "A")
@@ -74,13 +74,13 @@ func TestArrheniusGamma(t *testing.T) {
 func TestArrheniusTooFew(t *testing.T) {
 	m := bare(newTest(t, 100, 30))
 	m = press(m, "A")
-	if m.screen != screenMain || !strings.Contains(plain(m), "no I-V data set") {
+	if shown(m) != "main" || !strings.Contains(plain(m), "no I-V data set") {
 		t.Fatalf("no data: %q", m.note)
 	}
 	m = importInto(t, m, writeIV(t, "one.csv"))
 	m = press(m, "enter", "A")
 	v := plain(m)
-	if m.screen != screenArrhenius || !strings.Contains(v, "no activation energy") || !strings.Contains(v, "activation energy needs two") {
+	if shown(m) != "arrhenius" || !strings.Contains(v, "no activation energy") || !strings.Contains(v, "activation energy needs two") {
 		t.Fatalf("one temperature:\n%s", v)
 	}
 }
@@ -91,10 +91,10 @@ func TestArrheniusTooFew(t *testing.T) {
 // 10, the standard error of Ea widened by its root); leaving it out with
 // space gives back the demo's own Ea exactly.
 func TestArrheniusPickDataSets(t *testing.T) {
-	own := press(newTest(t, 120, 40), "A").arr.view.Fit
+	own := arrOf(press(newTest(t, 120, 40), "A")).view.Fit
 	m := importInto(t, newTest(t, 120, 40), writeIV(t, "other.csv"))
 	m = press(m, "enter", "A")
-	pooled := m.arr.view.Fit
+	pooled := arrOf(m).view.Fit
 	if pooled == nil || pooled.Points != 4 || !(pooled.ReducedChiSquare > 10) || !strings.Contains(plain(m), "reduced chi-square") || !strings.Contains(plain(m), "one device") {
 		t.Fatalf("pooled: %+v\n%s", pooled, plain(m))
 	}
@@ -104,15 +104,15 @@ func TestArrheniusPickDataSets(t *testing.T) {
 		m = press(m, "down")
 	}
 	m = press(m, "space")
-	if !m.arr.off[last] || !strings.Contains(plain(m), "not selected") {
+	if !arrOf(m).off[last] || !strings.Contains(plain(m), "not selected") {
 		t.Fatalf("space must leave out %s:\n%s", last, plain(m))
 	}
-	f := m.arr.view.Fit
+	f := arrOf(m).view.Fit
 	if f == nil || f.Points != 3 || f.ActivationEnergyEV != own.ActivationEnergyEV || f.StdErrEV != own.StdErrEV {
 		t.Errorf("without the other device: %+v, want %+v", f, own)
 	}
 	m = press(m, "space")
-	if m.arr.off[last] || m.arr.view.Fit.Points != 4 {
+	if arrOf(m).off[last] || arrOf(m).view.Fit.Points != 4 {
 		t.Error("space again must take it back")
 	}
 	if m.Dirty() != true {

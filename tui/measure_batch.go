@@ -16,11 +16,12 @@ import (
 	"junco/sessions"
 )
 
-// batchState is the batch screen: a directory of I-V files fitted one by
-// one off the UI thread. seq numbers the runs; a message of an older run
-// is dropped. While a run is out, cancel stops it and prog and done carry
-// its messages.
-type batchState struct {
+// batchScreen is the batch screen: a directory of I-V files fitted one
+// by one off the UI thread. seq numbers the runs; a message of an older
+// run is dropped. While a run is out, cancel stops it and prog and done
+// carry its messages. The workbench keeps the screen (Model.batch) when
+// it is closed: B shows the last run again.
+type batchScreen struct {
 	ed      lineEditor
 	seq     int
 	running bool
@@ -50,16 +51,15 @@ type batchDoneMsg struct {
 
 // openBatch shows the batch screen, keeping the last run.
 func (m *Model) openBatch() {
-	if m.bat.ed.limit == 0 {
-		m.bat.ed = newLineEditor("")
+	if m.batch == nil {
+		m.batch = &batchScreen{ed: newLineEditor("")}
 	}
-	m.screen = screenBatch
+	m.push(m.batch)
 }
 
 // startBatch cancels a run in force and starts one on the directory
 // typed; the fits run in a goroutine that reports through channels.
-func (m *Model) startBatch() tea.Cmd {
-	b := &m.bat
+func (b *batchScreen) start(m Model) tea.Cmd {
 	if b.cancel != nil {
 		b.cancel()
 	}
@@ -113,10 +113,9 @@ func waitBatch(prog chan batchProgressMsg, done chan batchDoneMsg) tea.Cmd {
 	}
 }
 
-// applyBatchProgress takes a count of the run in force and waits for the
-// next message.
-func (m *Model) applyBatchProgress(msg batchProgressMsg) tea.Cmd {
-	b := &m.bat
+// progress takes a count of the run in force and waits for the next
+// message.
+func (b *batchScreen) progress(msg batchProgressMsg) tea.Cmd {
 	if msg.seq != b.seq || !b.running {
 		return nil
 	}
@@ -126,9 +125,8 @@ func (m *Model) applyBatchProgress(msg batchProgressMsg) tea.Cmd {
 	return waitBatch(b.prog, b.done)
 }
 
-// applyBatchDone takes the end of the run in force.
-func (m *Model) applyBatchDone(msg batchDoneMsg) {
-	b := &m.bat
+// finish takes the end of the run in force.
+func (b *batchScreen) finish(msg batchDoneMsg) {
 	if msg.seq != b.seq {
 		return
 	}
@@ -147,45 +145,89 @@ func (m *Model) applyBatchDone(msg batchDoneMsg) {
 	}
 }
 
-func (m Model) batchKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
-	k := m.e.keys
-	b := &m.bat
-	switch {
-	case keyIs(km, k.Dismiss) && b.wm.die != nil:
-		b.wm.die = nil
-		return m, nil
-	case keyIs(km, k.Dismiss):
-		if b.running {
-			b.cancel()
-			m.note = "cancelling the batch: the files finished are kept"
-			return m, nil
-		}
-		m.screen = screenMain
-		return m, nil
-	case !b.running && b.view != nil && km.String() == "ctrl+e":
-		m.exportBatch()
-		return m, nil
-	case !b.running && b.wm.onMap(b.view):
-		return m.waferMapKey(km)
-	case km.Type == tea.KeyTab && !b.running && b.wm.hasDies:
-		b.wm.focus = true
-		return m, nil
-	case keyIs(km, k.Submit):
-		if b.running {
-			m.note = "a batch is running: esc cancels it"
-			return m, nil
-		}
-		return m, m.startBatch()
-	}
-	b.ed.handle(km)
-	return m, nil
+// batchKeys is the key map of the batch screen: the directory, the
+// wafer map (measure_batch_map.go) and a die's fit.
+type batchKeys struct {
+	Run, Focus, Walk, Param, Export, Close key.Binding
+	// On the map: Walk and Param are their help.
+	Left, Right, Up, Down, Open, Next, Prev, Wafer, AddDie key.Binding
 }
 
-// batchScreen draws the directory field, the progress, the summary and
-// the first rows.
-func (m Model) batchScreen(w, h int) []string {
+func (k KeyMap) batchKeys() batchKeys {
+	b := func(keys []string, k, desc string) key.Binding {
+		return key.NewBinding(key.WithKeys(keys...), key.WithHelp(k, desc))
+	}
+	return batchKeys{Run: b([]string{"enter"}, "enter", "fit the files / open the die"),
+		Focus:  b([]string{"tab", "shift+tab"}, "tab", "directory/map"),
+		Export: b([]string{"ctrl+e"}, "ctrl+e", "export CSV"), Close: b([]string{"esc"}, "esc", "cancel or close"),
+		Walk:  b([]string{"up", "down", "left", "right"}, "arrows", "walk dies"),
+		Param: b([]string{"[", "]"}, "[ ]", "parameter"),
+		Left:  b([]string{"left", "h"}, "left", "die on the left"), Right: b([]string{"right", "l"}, "right", "die on the right"),
+		Up: b([]string{"up", "k"}, "up", "die above"), Down: b([]string{"down", "j"}, "down", "die below"),
+		Open: b([]string{"enter"}, "enter", "open the die"),
+		Next: b([]string{"]"}, "]", "next parameter"), Prev: b([]string{"["}, "[", "previous parameter"),
+		Wafer:  b([]string{"w"}, "w", "wafer"),
+		AddDie: b([]string{"f"}, "f", "add the die to the session and fit")}
+}
+
+func (k batchKeys) ShortHelp() []key.Binding {
+	return []key.Binding{k.Run, k.Focus, k.Walk, k.Param, k.Wafer, k.Export, k.Close}
+}
+
+func (b *batchScreen) footer(m Model) []key.Binding { return m.e.keys.batchKeys().ShortHelp() }
+
+// listen takes the run's messages, on top or not.
+func (b *batchScreen) listen(_ *Model, msg tea.Msg) tea.Cmd {
+	switch msg := msg.(type) {
+	case batchProgressMsg:
+		return b.progress(msg)
+	case batchDoneMsg:
+		b.finish(msg)
+	}
+	return nil
+}
+
+// update is the batch screen's key handling: the directory, the run, the
+// export, and the wafer map's keys (mapKey).
+func (b *batchScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
+	k := m.e.keys.batchKeys()
+	switch {
+	case keyIs(km, k.Close) && b.wm.die != nil:
+		b.wm.die = nil
+	case keyIs(km, k.Close) && b.running:
+		b.cancel()
+		m.note = "cancelling the batch: the files finished are kept"
+	case keyIs(km, k.Close):
+		m.close(b)
+	case !b.running && b.view != nil && keyIs(km, k.Export):
+		b.export(m)
+	case !b.running && b.wm.onMap(b.view):
+		b.mapKey(m, km)
+	case keyIs(km, k.Focus) && !b.running && b.wm.hasDies:
+		b.wm.focus = true
+	case keyIs(km, k.Run) && b.running:
+		m.note = "a batch is running: esc cancels it"
+	case keyIs(km, k.Run):
+		return b.start(*m)
+	default:
+		b.ed.handle(km)
+	}
+	return nil
+}
+
+// interrupt: ctrl+c stops a running batch (the files finished are kept)
+// before the workbench asks to quit.
+func (b *batchScreen) interrupt(*Model) (tea.Cmd, bool) {
+	if b.cancel != nil {
+		b.cancel()
+	}
+	return nil, false
+}
+
+// view draws the directory field, the progress, the summary and the
+// first rows.
+func (b *batchScreen) draw(m Model, w, h int) []string {
 	st, g := m.e.st, m.e.g
-	b := m.bat
 	ascii := m.e.ascii
 	c := func(s string) string { return cut(s, w, g.ellipsis) }
 	out := []string{rule("Batch fit of the I-V files of a directory", w, glyphs{hbar: g.hbarHeavy}, st.heading)}
@@ -211,7 +253,7 @@ func (m Model) batchScreen(w, h int) []string {
 		return block(out, w, h, g.ellipsis)
 	}
 	if b.wm.die != nil {
-		return block(append(out, m.dieFitView(w, h-len(out))...), w, h, g.ellipsis)
+		return block(append(out, b.dieFitView(m, w, h-len(out))...), w, h, g.ellipsis)
 	}
 	out = append(out, "", c(fmt.Sprintf("%d fitted, %d failed, %d not run", v.Fitted, v.Failed, v.NotRun)))
 	out = append(out, st.strong.Paint(c(fmt.Sprintf("  %-4s %-11s %-11s %-11s %s", "", "median", "Q1", "Q3", "outliers"))))
@@ -224,39 +266,27 @@ func (m Model) batchScreen(w, h int) []string {
 	out = append(out, "")
 	room := h - len(out)
 	if !b.wm.hasDies {
-		return block(append(out, m.batchTable(w, room, 20, -1)...), w, h, g.ellipsis)
+		return block(append(out, b.table(m, w, room, 20, -1)...), w, h, g.ellipsis)
 	}
 	tw := batchTableWidth(w)
-	table := block(m.dieTable(tw, room), tw, room, g.ellipsis)
-	right := block(m.waferMapLines(w-tw-3, room), w-tw-3, room, g.ellipsis)
+	table := block(b.dieTable(m, tw, room), tw, room, g.ellipsis)
+	right := block(b.waferMapLines(m, w-tw-3, room), w-tw-3, room, g.ellipsis)
 	return block(append(out, joinColumns(" "+st.faint.Paint(g.vbar)+" ", table, right)...), w, h, g.ellipsis)
 }
 
-// batchTable is the file table of the batch screen in w columns and at
+// table is the file table of the batch screen in w columns and at
 // most room lines: file names cut to nameW, then Is, n and Rs or the
 // error. The cursor's row (an index of the batch's rows, -1: none) is
 // highlighted and kept in view.
-func (m Model) batchTable(w, room, nameW, cursor int) []string {
+func (b *batchScreen) table(m Model, w, room, nameW, cursor int) []string {
 	st, g := m.e.st, m.e.g
-	b := m.bat
 	ascii := m.e.ascii
 	c := func(s string) string { return cut(s, w, g.ellipsis) }
 	nameW = max(nameW, 8)
 	out := []string{st.strong.Paint(c(fmt.Sprintf("  %-*s %-9s %-6s %-10s %s", nameW, "file", "Is", "n", "Rs", "outlier in")))}
 	outliers := fit.OutlierParams(b.view.Stats)
-	var idx []int
-	for k, r := range b.view.Rows {
-		if r.Status != fit.StatusNotRun {
-			idx = append(idx, k)
-		}
-	}
 	room--
-	first := 0
-	for i, k := range idx {
-		if k == cursor && i >= room-1 {
-			first = i - room + 2
-		}
-	}
+	idx, first := rowsInView(b.view.Rows, cursor, room)
 	for i := first; i < len(idx); i++ {
 		if i-first >= room-1 && len(idx)-first > room {
 			out = append(out, st.muted.Paint(c(fmt.Sprintf("  ... %d more", len(idx)-i))))
@@ -298,26 +328,28 @@ func (m Model) batchTable(w, room, nameW, cursor int) []string {
 // oneLine joins the words of s on one line.
 func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
 
-// batchHelp is the footer of the batch screen.
-type batchHelp struct{ k KeyMap }
-
-func (h batchHelp) ShortHelp() []key.Binding {
-	return []key.Binding{key.NewBinding(key.WithKeys("enter"), key.WithHelp("enter", "fit the files / open the die")),
-		key.NewBinding(key.WithKeys("tab"), key.WithHelp("tab", "directory/map")),
-		key.NewBinding(key.WithKeys("up", "down", "left", "right"), key.WithHelp("arrows", "walk dies")),
-		key.NewBinding(key.WithKeys("[", "]"), key.WithHelp("[ ]", "parameter")),
-		key.NewBinding(key.WithKeys("w"), key.WithHelp("w", "wafer")),
-		key.NewBinding(key.WithKeys("ctrl+e"), key.WithHelp("ctrl+e", "export CSV")),
-		key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "cancel or close"))}
+// rowsInView returns the rows that were run (indices into rows) and the
+// first of them to show in room lines with the cursor's row (an index of
+// rows) in view.
+func rowsInView(rows []fit.BatchRow, cursor, room int) (idx []int, first int) {
+	for k, r := range rows {
+		if r.Status != fit.StatusNotRun {
+			idx = append(idx, k)
+		}
+	}
+	for i, k := range idx {
+		if k == cursor && i >= room-1 {
+			first = i - room + 2
+		}
+	}
+	return idx, first
 }
-func (h batchHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
 
-// exportBatch writes the batch table as CSV (fit.WriteBatchCSV, the
+// export writes the batch table as CSV (fit.WriteBatchCSV, the
 // command line's table) to a new file batch-TIME.csv: in the batch's
 // folder on the local file system, in the inbox when served (whatever
 // the folder). It never replaces a file.
-func (m *Model) exportBatch() {
-	b := &m.bat
+func (b *batchScreen) export(m *Model) {
 	files := m.sess.files
 	if files == nil {
 		files = model.LocalFiles{}

@@ -2,7 +2,6 @@ package tui
 
 import (
 	"fmt"
-	"math"
 	"path/filepath"
 
 	tea "github.com/charmbracelet/bubbletea"
@@ -58,37 +57,37 @@ func (s waferMapState) onMap(v *fit.BatchResult) bool {
 	return v != nil && s.hasDies && (s.focus || s.die != nil)
 }
 
-// waferMapKey handles the keys of the map: arrows walk the dies (also
-// from a die's fit, which then follows), enter opens the die's fit, [ and
-// ] change the column, w the wafer, tab gives the keys to the directory;
-// f in a die's fit adds its data set to the session and opens the fit
-// screen.
-func (m Model) waferMapKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
-	b := &m.bat
+// mapKey handles the keys of the map: arrows walk the dies (also from a
+// die's fit, which then follows), enter opens the die's fit, [ and ]
+// change the column, w the wafer, tab gives the keys to the directory; f
+// in a die's fit adds its data set to the session and opens the fit
+// screen over the batch.
+func (b *batchScreen) mapKey(m *Model, km tea.KeyMsg) {
+	k := m.e.keys.batchKeys()
 	s := &b.wm
 	rows := b.view.Rows
 	step := func(dx, dy int) {
 		s.cursor = fit.StepDie(rows, s.cursor, dx, dy)
 		if s.die != nil {
-			m.openDieFit()
+			b.openDie(*m)
 		}
 	}
-	switch km.String() {
-	case "left", "h":
+	switch {
+	case keyIs(km, k.Left):
 		step(-1, 0)
-	case "right", "l":
+	case keyIs(km, k.Right):
 		step(1, 0)
-	case "up", "k":
+	case keyIs(km, k.Up):
 		step(0, -1)
-	case "down", "j":
+	case keyIs(km, k.Down):
 		step(0, 1)
-	case "enter":
+	case keyIs(km, k.Open):
 		if s.die == nil {
-			m.openDieFit()
+			b.openDie(*m)
 		}
-	case "]", "[":
+	case keyIs(km, k.Next), keyIs(km, k.Prev):
 		d := 1
-		if km.String() == "[" {
+		if keyIs(km, k.Prev) {
 			d = len(fit.BatchParams()) - 1
 		}
 		for i := 0; i < len(fit.BatchParams()); i++ {
@@ -97,32 +96,31 @@ func (m Model) waferMapKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 				break
 			}
 		}
-	case "w":
+	case keyIs(km, k.Wafer):
 		if ws := fit.Wafers(rows); len(ws) > 1 {
 			s.wafer = (s.wafer + 1) % len(ws)
 			s.cursor = fit.FirstDie(rows, ws[s.wafer])
 			s.die = nil
 		}
-	case "tab", "shift+tab":
+	case keyIs(km, k.Focus):
 		if s.die == nil {
 			s.focus = false
 		}
-	case "f":
+	case keyIs(km, k.AddDie):
 		if s.die != nil && s.die.ds != nil {
-			m.addDieToSession()
+			b.addDie(m)
 		}
 	}
-	return m, nil
 }
 
-// openDieFit reads the cursor's file again and fits it with the batch's
-// options (the fit layer's, as the batch did): the die's fit screen.
-func (m *Model) openDieFit() {
-	s := &m.bat.wm
-	if m.bat.view == nil || s.cursor < 0 || s.cursor >= len(m.bat.view.Rows) {
+// openDie reads the cursor's file again and fits it with the batch's
+// options (the fit layer's, as the batch did): the die's fit.
+func (b *batchScreen) openDie(m Model) {
+	s := &b.wm
+	if b.view == nil || s.cursor < 0 || s.cursor >= len(b.view.Rows) {
 		return
 	}
-	r := m.bat.view.Rows[s.cursor]
+	r := b.view.Rows[s.cursor]
 	d := &dieFit{row: s.cursor}
 	s.die = d
 	ds, err := fit.Import(m.sess.files, r.File, measure.KindIV, m.sess.now)
@@ -131,7 +129,7 @@ func (m *Model) openDieFit() {
 		return
 	}
 	d.ds = ds
-	v, err := fit.NewIVView(ds, fit.IVOptions{Temperature: fit.TemperatureRule{FallbackK: m.form.spec.Temperature, FallbackSource: fit.SourceJunction}})
+	v, err := fit.NewIVView(ds, fit.IVOptions{Temperature: m.junctionRule()})
 	if err != nil {
 		d.err = err.Error()
 		return
@@ -139,20 +137,19 @@ func (m *Model) openDieFit() {
 	d.view = v
 }
 
-// addDieToSession adds the open die's data set to the session through
-// the import screen's acceptImport (its ID policy) and opens the fit
-// screen on it; refused in review.
-func (m *Model) addDieToSession() {
+// addDie adds the open die's data set to the session as the import
+// screen does (addMeasurement: its ID policy) and opens the fit screen
+// on it over the batch (esc comes back to the map); refused in review.
+func (b *batchScreen) addDie(m *Model) {
 	if m.sess.readOnly {
 		m.note = "read-only review: measurements cannot be added; ctrl+s copies the session to your sessions"
 		return
 	}
-	d := m.bat.wm.die
-	m.imp.ds = d.ds // added as the import screen adds (its ID policy)
-	i := m.acceptImport()
-	m.bat.wm.die = nil // B comes back to the map
+	d := b.wm.die
+	i := m.addMeasurement(*d.ds)
+	b.wm.die = nil // the map again, after the fit
 	m.openFit(i)
-	m.note = fmt.Sprintf("added %s (%s) to the session; ctrl+s saves it; B returns to the batch", m.sess.meas[i].ID, dieLabel(m.bat.view.Rows[d.row].Die))
+	m.note = fmt.Sprintf("added %s (%s) to the session; ctrl+s saves it; esc returns to the batch", m.sess.meas[i].ID, dieLabel(b.view.Rows[d.row].Die))
 }
 
 // dieLabel names a die's position: "x3 y7" (with its wafer when stated).
@@ -188,9 +185,8 @@ func (m Model) waferInks() map[fit.DieClass]ink {
 
 // waferMapLines is the right side of the batch screen: the map of the
 // column chosen with the cursor's die framed, and the cursor's die.
-func (m Model) waferMapLines(w, h int) []string {
+func (b *batchScreen) waferMapLines(m Model, w, h int) []string {
 	st, g := m.e.st, m.e.g
-	b := m.bat
 	s := b.wm
 	rows := b.view.Rows
 	ws := fit.Wafers(rows)
@@ -236,10 +232,10 @@ func (m Model) waferMapLines(w, h int) []string {
 // dieFitView draws the open die's fit: its position and file, the chart
 // of the measured and fitted current (log scale) and the parameters with
 // standard errors.
-func (m Model) dieFitView(w, h int) []string {
+func (b *batchScreen) dieFitView(m Model, w, h int) []string {
 	st, g := m.e.st, m.e.g
-	d := m.bat.wm.die
-	r := m.bat.view.Rows[d.row]
+	d := b.wm.die
+	r := b.view.Rows[d.row]
 	out := []string{rule("Die "+dieLabel(r.Die)+" "+g.dot+" "+sessions.Printable(filepath.Base(r.File), 0, ""), w, glyphs{hbar: g.hbar}, st.heading)}
 	if d.err != "" {
 		out = append(out, wrapped(g.bad+" "+sessions.Printable(d.err, 0, ""), w, st.err, "")...)
@@ -247,18 +243,10 @@ func (m Model) dieFitView(w, h int) []string {
 		return out
 	}
 	v := d.view
-	pm := "±"
-	if m.e.ascii {
-		pm = "+/-"
-	}
 	var table []string
 	table = append(table, st.strong.Paint(fmt.Sprintf("single diode at %s (%s)", model.Format(model.Temperature, v.TemperatureK, 4, m.e.ascii), v.TemperatureFrom)))
 	for _, row := range v.Rows {
-		l := fmt.Sprintf("  %-4s %-12s %s %s", row.Name, row.Value, pm, row.StdErr)
-		if row.Remark != "" {
-			l = fmt.Sprintf("  %-4s %-12s %s", row.Name, row.Value, row.Remark)
-		}
-		table = append(table, l)
+		table = append(table, m.e.paramRow(row))
 	}
 	table = append(table, fmt.Sprintf("  RMS log residual %.4f", v.Fit.RMSLogResidual), fmt.Sprintf("  points used %d", v.Fit.Points),
 		"", st.muted.Paint("arrows: next die"), st.muted.Paint("f: add to the session and fit"), st.muted.Paint("esc: back to the map"))
@@ -279,38 +267,15 @@ func (m Model) dieChart(d *dieFit, w, h int) []string {
 	if len(meas.Series) == 0 || h < 7 || w < 20 {
 		return nil
 	}
-	dot := "+"
-	if !m.e.ascii {
-		dot = "•"
-	}
+	dot := g.point
 	srcs := []plotLine{
 		{label: "fit", xs: d.view.Curve.Xs, ys: d.view.Curve.Series[0].Y, paint: st.series[0], marker: g.markers[0]},
 		{label: "measured", xs: meas.Xs, ys: meas.Series[0].Y, paint: st.series[1], marker: dot, dots: true},
 	}
-	var all []float64
-	for _, s := range srcs {
-		for _, y := range s.ys {
-			if y != 0 {
-				all = append(all, y)
-			}
-		}
-	}
-	lo, hi, ok := decadeRange(all, 1, 16)
+	ph := h - 3
+	ys, ok := logCurrent(srcs, ph)
 	if !ok {
 		return nil
-	}
-	ph := h - 3
-	ys := decadeScale(lo, hi, max(1, int(math.Ceil(3*float64(hi-lo)/float64(max(ph-2, 1))))))
-	floor := math.Pow(10, float64(lo))
-	for i := range srcs {
-		logs := make([]float64, len(srcs[i].ys))
-		for j, y := range srcs[i].ys {
-			logs[j] = math.NaN()
-			if !math.IsNaN(y) && y != 0 {
-				logs[j] = math.Log10(math.Max(math.Abs(y), floor))
-			}
-		}
-		srcs[i].ys = logs
 	}
 	xlo, xhi := minMax(meas.Xs, 1)
 	xs := exactScale(xlo, xhi, max(2, w/12))
@@ -322,26 +287,14 @@ func (m Model) dieChart(d *dieFit, w, h int) []string {
 // dieTable is the file table beside the map, in w columns and at most
 // room lines: file, die position and the value of the column mapped (or
 // the error); the cursor's row is highlighted and kept in view.
-func (m Model) dieTable(w, room int) []string {
+func (b *batchScreen) dieTable(m Model, w, room int) []string {
 	st, g := m.e.st, m.e.g
-	b := m.bat
 	p := fit.BatchParams()[b.wm.param]
 	valW := 11
 	nameW := max(w-2-1-9-1-valW, 8)
 	out := []string{st.strong.Paint(cut(fmt.Sprintf("  %-*s %-9s %s", nameW, "file", "die", p.Symbol), w, g.ellipsis))}
-	var idx []int
-	for k, r := range b.view.Rows {
-		if r.Status != fit.StatusNotRun {
-			idx = append(idx, k)
-		}
-	}
 	room--
-	first := 0
-	for i, k := range idx {
-		if k == b.wm.cursor && i >= room-1 {
-			first = i - room + 2
-		}
-	}
+	idx, first := rowsInView(b.view.Rows, b.wm.cursor, room)
 	for i := first; i < len(idx); i++ {
 		if i-first >= room-1 && len(idx)-first > room {
 			out = append(out, st.muted.Paint(cut(fmt.Sprintf("  ... %d more", len(idx)-i), w, g.ellipsis)))

@@ -2,11 +2,9 @@ package tui
 
 import (
 	"fmt"
-	"math/rand/v2"
 	"strings"
 	"testing"
 
-	tea "github.com/charmbracelet/bubbletea"
 	"github.com/charmbracelet/x/exp/golden"
 
 	"junco/model/fit"
@@ -50,12 +48,12 @@ func TestBatchMapWalk(t *testing.T) {
 	m = press(m, "B")
 	m = typeText(m, waferDir)
 	m = press(m, "enter")
-	wm := m.bat.wm
-	rows := m.bat.view.Rows
+	wm := batchOf(m).wm
+	rows := batchOf(m).view.Rows
 	if !wm.hasDies || !wm.focus {
 		t.Fatalf("the map must take the keys after a run with die positions: %+v", wm)
 	}
-	die := func(m Model) fit.Die { return m.bat.view.Rows[m.bat.wm.cursor].Die }
+	die := func(m Model) fit.Die { return batchOf(m).view.Rows[batchOf(m).wm.cursor].Die }
 	if d := die(m); d.X != 1 || d.Y != 0 {
 		t.Fatalf("first die %+v, want x1 y0 (reading order)", d)
 	}
@@ -72,11 +70,11 @@ func TestBatchMapWalk(t *testing.T) {
 		t.Errorf("right at the edge: %+v, want x3 y2", d)
 	}
 	m = press(m, "enter")
-	d := m.bat.wm.die
+	d := batchOf(m).wm.die
 	if d == nil || d.view == nil {
 		t.Fatalf("enter must open the die's fit: %+v", d)
 	}
-	row := rows[m.bat.wm.cursor]
+	row := rows[batchOf(m).wm.cursor]
 	// The die's fit is the batch's fit of the same file (one fit layer).
 	if got, want := d.view.Fit.Single.SaturationCurrentA, row.Values[0]; got != want {
 		t.Errorf("die fit Is %g, batch row %g", got, want)
@@ -85,56 +83,36 @@ func TestBatchMapWalk(t *testing.T) {
 		t.Errorf("die view lacks its title:\n%s", plain(m))
 	}
 	m = press(m, "left")
-	if d := m.bat.wm.die; d == nil || rows[d.row].Die.X != 2 {
+	if d := batchOf(m).wm.die; d == nil || rows[d.row].Die.X != 2 {
 		t.Errorf("left in the die's fit must follow to x2: %+v", d)
 	}
 	m = press(m, "esc")
-	if m.bat.wm.die != nil || m.screen != screenBatch {
+	if batchOf(m).wm.die != nil || shown(m) != "batch" {
 		t.Error("esc must close the die's fit, not the screen")
 	}
 	m = press(m, "tab")
-	if m.bat.wm.focus {
+	if batchOf(m).wm.focus {
 		t.Error("tab must give the keys to the directory")
 	}
 	m = press(m, "tab")
-	if !m.bat.wm.focus {
+	if !batchOf(m).wm.focus {
 		t.Error("tab must give the keys back to the map")
 	}
 	m = press(m, "down", "down", "down", "enter") // x2 y3: die_x02_y03
 	before := len(m.sess.meas)
 	m = press(m, "f")
-	if m.screen != screenFit || len(m.sess.meas) != before+1 {
-		t.Errorf("f must add the die to the session and open the fit: screen %v, %d data sets (before %d)", m.screen, len(m.sess.meas), before)
+	if shown(m) != "fit" || len(m.sess.meas) != before+1 {
+		t.Errorf("f must add the die to the session and open the fit: screen %v, %d data sets (before %d)", shown(m), len(m.sess.meas), before)
 	}
-	m = press(m, "esc", "B")
-	if m.screen != screenBatch || m.bat.wm.die != nil || m.bat.view == nil {
-		t.Error("B must come back to the batch's map")
+	if !strings.Contains(plain(m), "esc returns to the batch") {
+		t.Errorf("the note must say how to come back:\n%s", plain(m))
 	}
-}
-
-// Random keys on the map and in a die's fit (arrows, enter, [ ], w, tab,
-// letters, sizes) never panic, keep the screen and always draw.
-func TestBatchMapRandomKeys(t *testing.T) {
-	m := newTest(t, 100, 30)
-	m = press(m, "B")
-	m = typeText(m, waferDir)
-	m = press(m, "enter")
-	rng := rand.New(rand.NewPCG(9, 4))
-	keys := []string{"up", "down", "left", "right", "enter", "[", "]", "w", "tab", "h", "j", "k", "l", "x", "1"}
-	sizes := [][2]int{{0, 0}, {1, 1}, {20, 5}, {40, 12}, {80, 24}, {200, 60}}
-	for step := 0; step < 500; step++ {
-		var msg tea.Msg = keyMsg(keys[rng.IntN(len(keys))])
-		if rng.IntN(20) == 0 {
-			s := sizes[rng.IntN(len(sizes))]
-			msg = tea.WindowSizeMsg{Width: s[0], Height: s[1]}
-		}
-		tm, cmd := m.Update(msg)
-		m = drain(tm.(Model), cmd)
-		if m.screen != screenBatch {
-			t.Fatalf("step %d: left the screen", step)
-		}
-		if m.w > 0 && m.h > 0 && m.View() == "" {
-			t.Fatalf("step %d: empty view", step)
-		}
+	m = press(m, "esc")
+	if shown(m) != "batch" || batchOf(m).wm.die != nil || batchOf(m).view == nil {
+		t.Error("esc on the die's fit must come back to the batch's map below it")
+	}
+	m = press(m, "esc", "esc", "B")
+	if shown(m) != "batch" || batchOf(m).view == nil {
+		t.Error("B must show the last run again after the batch was closed")
 	}
 }

@@ -20,18 +20,14 @@ func TestBatchScreenEscapesFileNames(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if err := os.WriteFile(filepath.Join(dir, "d\x1b[2Jy.csv"), good, 0o600); err != nil {
-		t.Fatal(err)
-	}
-	if err := os.WriteFile(filepath.Join(dir, "b\x1b]0;owned\a.csv"), []byte("no numbers\n"), 0o600); err != nil {
-		t.Fatal(err)
-	}
+	writeText(t, filepath.Join(dir, "d\x1b[2Jy.csv"), string(good))
+	writeText(t, filepath.Join(dir, "b\x1b]0;owned\a.csv"), "no numbers\n")
 	m := newTest(t, 160, 40)
 	m = press(m, "B")
 	m = typeText(m, dir)
 	m = press(m, "enter")
-	if m.bat.view == nil || len(m.bat.view.Rows) != 2 {
-		t.Fatalf("batch not run: %q\n%s", m.bat.err, plain(m))
+	if batchOf(m).view == nil || len(batchOf(m).view.Rows) != 2 {
+		t.Fatalf("batch not run: %q\n%s", batchOf(m).err, plain(m))
 	}
 	v := m.View()
 	for _, raw := range []string{"\x1b[2J", "\x1b]0;", "\a"} {
@@ -54,19 +50,15 @@ func TestBatchMapEscapesFileNames(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, n := range []string{"d\x1b[2J_x1_y1.csv", "e\x1b]0;owned\a_x2_y1.csv"} {
-		if err := os.WriteFile(filepath.Join(dir, n), good, 0o600); err != nil {
-			t.Fatal(err)
-		}
+		writeText(t, filepath.Join(dir, n), string(good))
 	}
-	if err := os.WriteFile(filepath.Join(dir, "b\x1b[5m_x1_y2.csv"), []byte("no numbers\n"), 0o600); err != nil {
-		t.Fatal(err)
-	}
+	writeText(t, filepath.Join(dir, "b\x1b[5m_x1_y2.csv"), "no numbers\n")
 	m := newTest(t, 160, 50)
 	m = press(m, "B")
 	m = typeText(m, dir)
 	m = press(m, "enter")
-	if m.bat.view == nil || !m.bat.wm.hasDies {
-		t.Fatalf("no wafer map: %q\n%s", m.bat.err, plain(m))
+	if batchOf(m).view == nil || !batchOf(m).wm.hasDies {
+		t.Fatalf("no wafer map: %q\n%s", batchOf(m).err, plain(m))
 	}
 	check := func(what string, v string) {
 		t.Helper()

@@ -4,53 +4,13 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
-	tea "github.com/charmbracelet/bubbletea"
-
 	"junco/model/fit"
-	"junco/physics"
-	"junco/physics/extract"
 )
-
-// batchIs is the saturation current of the invented diodes.
-const batchIs = 2e-12
-
-// writeBatchDir writes good invented I-V sweeps (single diode at 300 K,
-// Is spread by a few percent around batchIs, 1 % multiplicative noise)
-// and one file that is not a measurement into a temporary directory.
-func writeBatchDir(t *testing.T, good int) string {
-	t.Helper()
-	dir := t.TempDir()
-	vt := physics.ThermalVoltage(300)
-	rng := rand.New(rand.NewPCG(7, 11))
-	for k := 0; k < good; k++ {
-		// Invented device, not a measurement.
-		d := extract.SingleDiode{SaturationCurrentA: batchIs * (1 + 0.04*float64(k-good/2)/float64(good)),
-			IdealityFactor: 1.3 + 0.02*float64(k%3), SeriesResistanceOhm: 3, ShuntResistanceOhm: math.Inf(1)}
-		var b strings.Builder
-		b.WriteString("# invented single-diode sweep for a test\n# temperature: 300 K\nV,I (A)\n")
-		for i := 0; i <= 60; i++ {
-			v := 0.1 + 0.6*float64(i)/60
-			cur := d.Current(v, vt) * (1 + 0.01*rng.NormFloat64())
-			fmt.Fprintf(&b, "%.4f,%.6e\n", v, cur)
-		}
-		if err := os.WriteFile(filepath.Join(dir, fmt.Sprintf("die%02d.csv", k)), []byte(b.String()), 0o600); err != nil {
-			t.Fatal(err)
-		}
-	}
-	if err := os.WriteFile(filepath.Join(dir, "broken.csv"), []byte("no numbers here\nat all;;\n"), 0o600); err != nil {
-		t.Fatal(err)
-	}
-	if err := os.WriteFile(filepath.Join(dir, "notes.md"), []byte("not listed"), 0o600); err != nil {
-		t.Fatal(err)
-	}
-	return dir
-}
 
 func TestBatchFilesListing(t *testing.T) {
 	dir := writeBatchDir(t, 3)
@@ -76,12 +36,12 @@ func TestBatchScreen(t *testing.T) {
 	dir := writeBatchDir(t, 6)
 	m := newTest(t, 120, 40)
 	m = press(m, "B")
-	if m.screen != screenBatch {
+	if shown(m) != "batch" {
 		t.Fatalf("B must open the batch screen:\n%s", plain(m))
 	}
 	m = typeText(m, dir)
 	m = press(m, "enter")
-	b := m.bat
+	b := batchOf(m)
 	if b.running || b.view == nil || b.err != "" {
 		t.Fatalf("batch not finished: running %v err %q\n%s", b.running, b.err, plain(m))
 	}
@@ -105,14 +65,14 @@ func TestBatchScreen(t *testing.T) {
 		t.Error("a batch must not change the session")
 	}
 	m = press(m, "esc")
-	if m.screen != screenMain {
+	if shown(m) != "main" {
 		t.Error("esc must close the screen when no batch runs")
 	}
 	m = press(m, "B", "ctrl+u")
 	m = typeText(m, filepath.Join(dir, "missing"))
 	m = press(m, "enter")
-	if !strings.Contains(m.bat.err, "no directory") {
-		t.Errorf("missing directory: %q", m.bat.err)
+	if !strings.Contains(batchOf(m).err, "no directory") {
+		t.Errorf("missing directory: %q", batchOf(m).err)
 	}
 }
 
@@ -150,67 +110,31 @@ func TestBatchScreenCancel(t *testing.T) {
 	m = typeText(m, dir)
 	tm, cmd := m.Update(keyMsg("enter"))
 	m = tm.(Model)
-	if !m.bat.running || cmd == nil {
+	if !batchOf(m).running || cmd == nil {
 		t.Fatal("enter must start the batch")
 	}
 	tm, _ = m.Update(keyMsg("esc"))
 	m = tm.(Model)
-	if m.screen != screenBatch {
+	if shown(m) != "batch" {
 		t.Fatal("esc while running must cancel, not close")
 	}
 	m = drain(m, cmd)
-	if m.bat.running || m.bat.view == nil {
-		t.Fatalf("the cancelled batch must end with its rows: %+v", m.bat)
+	if batchOf(m).running || batchOf(m).view == nil {
+		t.Fatalf("the cancelled batch must end with its rows: %+v", batchOf(m))
 	}
-	if v := m.bat.view; v.Interrupted {
-		if !strings.Contains(m.bat.err, "cancelled") || v.Fitted+v.Failed+v.NotRun != 7 {
-			t.Errorf("cancelled view: err %q %+v", m.bat.err, v)
+	if v := batchOf(m).view; v.Interrupted {
+		if !strings.Contains(batchOf(m).err, "cancelled") || v.Fitted+v.Failed+v.NotRun != 7 {
+			t.Errorf("cancelled view: err %q %+v", batchOf(m).err, v)
 		}
 	}
-	before := m.bat
-	tm, _ = m.Update(batchDoneMsg{seq: before.seq - 1})
-	if got := tm.(Model).bat; got.view != before.view || got.err != before.err {
+	seq, view, err := batchOf(m).seq, batchOf(m).view, batchOf(m).err
+	tm, _ = m.Update(batchDoneMsg{seq: seq - 1})
+	if got := batchOf(tm.(Model)); got.view != view || got.err != err {
 		t.Error("a stale message must be dropped")
 	}
-	tm, _ = m.Update(batchProgressMsg{seq: before.seq + 5, n: 99, total: 99})
-	if tm.(Model).bat.n == 99 {
+	tm, _ = m.Update(batchProgressMsg{seq: seq + 5, n: 99, total: 99})
+	if batchOf(tm.(Model)).n == 99 {
 		t.Error("a stale progress must be dropped")
-	}
-}
-
-// Random keys on the batch screen (with a finished batch shown) never
-// panic and always draw.
-func TestBatchRandomKeys(t *testing.T) {
-	dir := writeBatchDir(t, 2)
-	m := newTest(t, 80, 24)
-	m = press(m, "B")
-	m = typeText(m, dir)
-	m = press(m, "enter")
-	rng := rand.New(rand.NewPCG(3, 5))
-	named := []tea.KeyType{tea.KeyLeft, tea.KeyRight, tea.KeyBackspace, tea.KeyDelete, tea.KeyHome, tea.KeyEnd,
-		tea.KeyCtrlU, tea.KeyCtrlW, tea.KeySpace, tea.KeyUp, tea.KeyDown, tea.KeyTab, tea.KeyPgDown}
-	const runes = "abcBf/.-_09 é"
-	sizes := [][2]int{{0, 0}, {1, 1}, {20, 5}, {40, 12}, {80, 24}, {200, 60}}
-	for step := 0; step < 400; step++ {
-		var msg tea.Msg
-		switch p := rng.IntN(100); {
-		case p < 5:
-			s := sizes[rng.IntN(len(sizes))]
-			msg = tea.WindowSizeMsg{Width: s[0], Height: s[1]}
-		case p < 50:
-			msg = tea.KeyMsg{Type: named[rng.IntN(len(named))]}
-		default:
-			r := []rune(runes)
-			msg = tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune{r[rng.IntN(len(r))]}}
-		}
-		tm, _ := m.Update(msg)
-		m = tm.(Model)
-		if m.screen != screenBatch {
-			t.Fatalf("step %d: left the screen", step)
-		}
-		if m.w > 0 && m.h > 0 && m.View() == "" {
-			t.Fatalf("step %d: empty view", step)
-		}
 	}
 }
 
@@ -227,8 +151,8 @@ func TestBatchTableMarksOutliers(t *testing.T) {
 	if len(res.Stats[2].Outliers) == 0 {
 		res.Stats[2].Outliers = []int{2} // the fences of three rows may admit it; the mark is what is tested
 	}
-	m.bat.view = res
-	lines := m.batchTable(100, 10, 12, -1)
+	m.batch = &batchScreen{view: res}
+	lines := m.batch.table(m, 100, 10, 12, -1)
 	var row string
 	for _, l := range lines {
 		if strings.Contains(l, "die2.csv") {
@@ -254,7 +178,7 @@ func TestBatchExport(t *testing.T) {
 	m = press(m, "B")
 	m = typeText(m, dir)
 	m = press(m, "enter")
-	if m.bat.view == nil {
+	if batchOf(m).view == nil {
 		t.Fatalf("no batch:\n%s", plain(m))
 	}
 	m = press(m, "ctrl+e")
@@ -267,8 +191,8 @@ func TestBatchExport(t *testing.T) {
 		t.Fatal(err)
 	}
 	lines := strings.Split(strings.TrimSpace(string(data)), "\n")
-	if len(lines) != 1+len(m.bat.view.Rows) || !strings.HasPrefix(lines[0], "file,status,error") {
-		t.Errorf("CSV of %d lines for %d rows:\n%s", len(lines), len(m.bat.view.Rows), data)
+	if len(lines) != 1+len(batchOf(m).view.Rows) || !strings.HasPrefix(lines[0], "file,status,error") {
+		t.Errorf("CSV of %d lines for %d rows:\n%s", len(lines), len(batchOf(m).view.Rows), data)
 	}
 	m = press(m, "ctrl+e")
 	after, _ := filepath.Glob(filepath.Join(dir, "batch-*.csv"))

@@ -13,9 +13,9 @@ import (
 	"junco/physics"
 )
 
-// cardState is the model-card screen: the card built from the session's
-// data sets (fit.Card), read only, scrolled by top.
-type cardState struct {
+// cardScreen is the model-card screen: the card built from the
+// session's data sets (fit.Card), read only, scrolled by top.
+type cardScreen struct {
 	res *fit.CardResult
 	err string
 	top int
@@ -36,43 +36,51 @@ func (m *Model) openCard() {
 		m.note = "no forward I-V data set in the session: i imports one (the model card needs forward I-V)"
 		return
 	}
-	m.card = cardState{}
+	c := &cardScreen{}
 	res, err := fit.Card(context.Background(), in)
 	if err != nil {
-		m.card.err = err.Error()
+		c.err = err.Error()
 	}
-	m.card.res = res
-	m.screen = screenCard
+	c.res = res
+	m.push(c)
 }
 
-func (m Model) cardKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
-	k := m.e.keys
-	switch {
-	case km.String() == "ctrl+c":
-		return m.quit()
-	case keyIs(km, k.Dismiss), keyIs(km, k.Close):
-		m.screen = screenMain
-	case keyIs(km, k.ScrollDown):
-		m.card.top++
-	case keyIs(km, k.ScrollUp):
-		m.card.top = max(0, m.card.top-1)
-	case keyIs(km, k.PageDown):
-		m.card.top += 10
-	case keyIs(km, k.PageUp):
-		m.card.top = max(0, m.card.top-10)
-	case keyIs(km, k.Top):
-		m.card.top = 0
-	}
-	return m, nil
+// cardKeys is the key map of the model-card screen.
+type cardKeys struct {
+	scrollKeys
+	Close key.Binding
 }
 
-// cardScreen draws the card: the sweeps used, the parameters with their
-// standard errors and sources, the ranges and cautions, the card itself
-// (continued with "+" lines to fit the width), the subcircuit and notes.
-func (m Model) cardScreen(w, h int) []string {
+func (k KeyMap) cardKeys() cardKeys { return cardKeys{scrollKeys: k.scrollKeys(), Close: k.Close} }
+
+func (k cardKeys) ShortHelp() []key.Binding { return []key.Binding{k.Down, k.Up, k.Close} }
+
+func (c *cardScreen) footer(m Model) []key.Binding { return m.e.keys.cardKeys().ShortHelp() }
+
+func (c *cardScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
+	k := m.e.keys.cardKeys()
+	end := max(0, len(c.lines(*m, m.w))-(m.h-2-1))
+	if !k.scroll(&c.top, km, 10, end) && keyIs(km, k.Close) {
+		m.close(c)
+	}
+	return nil
+}
+
+// draw draws the title and the card's lines from the scroll.
+func (c *cardScreen) draw(m Model, w, h int) []string {
 	st, g := m.e.st, m.e.g
-	c := m.card
 	head := rule("Model card from the session's data sets", w, glyphs{hbar: g.hbarHeavy}, st.heading)
+	out := c.lines(m, w)
+	top := min(c.top, max(0, len(out)-(h-1)))
+	return block(append([]string{head}, out[top:]...), w, h, g.ellipsis)
+}
+
+// lines are the card for width w: the sweeps used, the parameters with
+// their standard errors and sources, the ranges and cautions, the card
+// itself (continued with "+" lines to fit the width), the subcircuit and
+// notes.
+func (c *cardScreen) lines(m Model, w int) []string {
+	st, g := m.e.st, m.e.g
 	var out []string
 	if c.err != "" {
 		out = append(out, st.err.Paint(g.bad+" no model card:"))
@@ -111,8 +119,7 @@ func (m Model) cardScreen(w, h int) []string {
 			out = append(out, wrapped(n, w, st.muted, "  ")...)
 		}
 	}
-	top := min(c.top, max(0, len(out)-(h-1)))
-	return block(append([]string{head}, out[top:]...), w, h, g.ellipsis)
+	return out
 }
 
 // cardWrap breaks a card line at blanks into lines of at most w columns,
@@ -137,11 +144,3 @@ func cardWrap(line string, w int) []string {
 	}
 	return append(out, cur)
 }
-
-// cardHelp is the footer of the model-card screen.
-type cardHelp struct{ k KeyMap }
-
-func (h cardHelp) ShortHelp() []key.Binding {
-	return []key.Binding{h.k.ScrollDown, h.k.ScrollUp, h.k.Close}
-}
-func (h cardHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }

@@ -15,10 +15,10 @@ func TestCardScreenDemo(t *testing.T) {
 	for _, size := range [][2]int{{120, 40}, {80, 24}} {
 		m := newTest(t, size[0], size[1])
 		m = press(m, "M")
-		if m.screen != screenCard || m.card.res == nil {
-			t.Fatalf("M must open the card screen: %q\n%s", m.card.err, plain(m))
+		if shown(m) != "card" || onTop[cardScreen](m).res == nil {
+			t.Fatalf("M must open the card screen: %q\n%s", onTop[cardScreen](m).err, plain(m))
 		}
-		r := m.card.res
+		r := onTop[cardScreen](m).res
 		if math.Abs(r.Curves[0].Temperature.K-m.form.spec.Temperature) > 0.01 {
 			t.Errorf("reference at %v, want the junction's %g K", r.Curves[0].Temperature, m.form.spec.Temperature)
 		}
@@ -37,7 +37,7 @@ func TestCardScreenDemo(t *testing.T) {
 			t.Error("the card must not change the session")
 		}
 		m = press(m, "esc")
-		if m.screen != screenMain {
+		if shown(m) != "main" {
 			t.Error("esc must go back")
 		}
 	}

@@ -1,51 +1,12 @@
 package tui
 
 import (
-	"fmt"
 	"math"
-	"math/rand/v2"
-	"os"
-	"path/filepath"
 	"strings"
 	"testing"
 
-	tea "github.com/charmbracelet/bubbletea"
-
 	"junco/model"
 )
-
-// cvTestSpec is an invented one-sided junction: p+ (1e19 cm^-3) on n
-// (1e16 cm^-3) silicon, 1 mm^2, at 300 K.
-func cvTestSpec() model.Spec {
-	s := model.DemoJunction().Spec
-	s.Material, s.Profile = "si", "abrupt"
-	s.AcceptorDensity, s.DonorDensity = 1e19*1e6, 1e16*1e6
-	s.Area, s.Temperature = 1e-6, 300
-	return s
-}
-
-// writeCV writes a reverse C-V sweep of cvTestSpec computed by the model
-// (depletion capacitance) with 0.2 % scatter from a fixed seed, in volts
-// and picofarads.
-func writeCV(t *testing.T, name string) string {
-	t.Helper()
-	cv, _, err := model.CVCurve(cvTestSpec(), model.Range{From: -5, To: 0, Step: 0.1})
-	if err != nil {
-		t.Fatal(err)
-	}
-	rng := rand.New(rand.NewPCG(11, 5))
-	var b strings.Builder
-	b.WriteString("# temperature: 300 K\nV (V),C (pF)\n")
-	for k, v := range cv.Xs {
-		c := cv.Series[0].Y[k] * (1 + 0.002*rng.NormFloat64())
-		fmt.Fprintf(&b, "%.4f,%.6e\n", v, c*1e12)
-	}
-	p := filepath.Join(t.TempDir(), name)
-	if err := os.WriteFile(p, []byte(b.String()), 0o600); err != nil {
-		t.Fatal(err)
-	}
-	return p
-}
 
 // withSpec sets the junction of the session (the geometry of the fit).
 func withSpec(m Model, s model.Spec) Model {
@@ -72,10 +33,10 @@ func TestCVFitRoundTrip(t *testing.T) {
 			t.Fatalf("%v: preview:\n%s", size, plain(m))
 		}
 		m = press(m, "f")
-		if m.screen != screenCVFit || m.cvfit.view == nil {
-			t.Fatalf("%v: f must add and show the C-V fit: %q\n%s", size, m.cvfit.err, plain(m))
+		if shown(m) != "cvfit" || cvOf(m).view == nil {
+			t.Fatalf("%v: f must add and show the C-V fit: %q\n%s", size, cvOf(m).err, plain(m))
 		}
-		an := m.cvfit.view.Analysis
+		an := cvOf(m).view.Analysis
 		n, b := an.DopingM3, an.BuiltInPotentialV
 		if r := n.Value / s.DonorDensity; !n.Determined || math.Abs(r-1) > 0.05 {
 			t.Errorf("%v: doping %+v, want %g (ratio %.4f)", size, n, s.DonorDensity, r)
@@ -95,19 +56,19 @@ func TestCVFitRoundTrip(t *testing.T) {
 		// A window narrows the points used; a bad one is refused.
 		before := an.Junction.Points
 		m = press(m, "ctrl+u")
-		m.cvfit.eds[0].set("-3")
-		m.cvfit.eds[1].set("-1")
+		fitOf(m).eds[0].set("-3")
+		fitOf(m).eds[1].set("-1")
 		m = press(m, "enter")
-		if m.cvfit.view == nil || m.cvfit.view.Analysis.Junction.Points >= before {
-			t.Fatalf("%v: window not applied: %+v %q", size, m.cvfit.win, m.cvfit.err)
+		if cvOf(m).view == nil || cvOf(m).view.Analysis.Junction.Points >= before {
+			t.Fatalf("%v: window not applied: %+v %q", size, fitOf(m).win, cvOf(m).err)
 		}
-		m.cvfit.eds[1].set("-4")
+		fitOf(m).eds[1].set("-4")
 		m = press(m, "enter")
-		if m.cvfit.winErr == "" || m.cvfit.view == nil {
+		if fitOf(m).winErr == "" || cvOf(m).view == nil {
 			t.Errorf("%v: V1 > V2 must be refused, keeping the fit", size)
 		}
 		m = press(m, "esc")
-		if m.screen != screenMain {
+		if shown(m) != "main" {
 			t.Errorf("%v: esc must close the C-V screen", size)
 		}
 	}
@@ -121,15 +82,15 @@ func TestKeepCVFit(t *testing.T) {
 	st := newStore(t, "alice")
 	m := start(New(opts(st, "alice", 120, 40)))
 	m = press(m, "f")
-	if m.screen != screenFit {
+	if shown(m) != "fit" {
 		t.Fatalf("f must still open the I-V fit on the demo:\n%s", plain(m))
 	}
 	// pgdn cycles through every data set; the demo's C-V sweep is last.
-	for n := 0; n < len(m.sess.meas) && m.screen != screenCVFit; n++ {
+	for n := 0; n < len(m.sess.meas) && shown(m) != "cvfit"; n++ {
 		m = press(m, "pgdown")
 	}
-	if m.screen != screenCVFit || m.cvfit.view == nil {
-		t.Fatalf("pgdn must reach the C-V data set: %q\n%s", m.cvfit.err, plain(m))
+	if shown(m) != "cvfit" || cvOf(m).view == nil {
+		t.Fatalf("pgdn must reach the C-V data set: %q\n%s", cvOf(m).err, plain(m))
 	}
 	m = press(m, "ctrl+k")
 	want := 2
@@ -157,42 +118,7 @@ func TestKeepCVFit(t *testing.T) {
 	}
 	// pgup goes back to an I-V set on the I-V screen.
 	m = press(m, "pgup")
-	if m.screen != screenFit {
-		t.Errorf("pgup from the C-V set must show the I-V screen, screen %d", m.screen)
-	}
-}
-
-// Random keys and sizes on the C-V screen do not panic and always draw.
-func TestCVFitRandomKeys(t *testing.T) {
-	m := withSpec(bare(newTest(t, 120, 40)), cvTestSpec())
-	m = importInto(t, m, writeCV(t, "cv.csv"))
-	m = press(m, "f")
-	if m.screen != screenCVFit {
-		t.Fatalf("no C-V screen:\n%s", plain(m))
-	}
-	rng := rand.New(rand.NewPCG(7, 7))
-	named := []tea.KeyType{tea.KeyEnter, tea.KeyTab, tea.KeyShiftTab, tea.KeyBackspace, tea.KeyLeft, tea.KeyRight,
-		tea.KeyPgUp, tea.KeyPgDown, tea.KeyCtrlK, tea.KeyCtrlU, tea.KeyHome, tea.KeyEnd, tea.KeyDelete}
-	runes := []rune("-0123456789.eEmuVk xq")
-	sizes := [][2]int{{120, 40}, {80, 24}, {40, 12}, {10, 5}, {200, 60}}
-	for step := 0; step < 300; step++ {
-		var msg tea.Msg
-		switch p := rng.IntN(100); {
-		case p < 5:
-			s := sizes[rng.IntN(len(sizes))]
-			msg = tea.WindowSizeMsg{Width: s[0], Height: s[1]}
-		case p < 40:
-			msg = tea.KeyMsg{Type: named[rng.IntN(len(named))]}
-		default:
-			msg = tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune{runes[rng.IntN(len(runes))]}}
-		}
-		tm, _ := m.Update(msg)
-		m = tm.(Model)
-		if m.View() == "" {
-			t.Fatalf("step %d: empty view", step)
-		}
-		if m.screen != screenCVFit {
-			m = press(m, "f")
-		}
+	if shown(m) != "fit" {
+		t.Errorf("pgup from the C-V set must show the I-V screen, screen %s", shown(m))
 	}
 }

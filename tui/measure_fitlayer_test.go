@@ -15,10 +15,10 @@ func TestKeepFitIDsNeverCollide(t *testing.T) {
 	st := newStore(t, "alice")
 	m := start(New(opts(st, "alice", 120, 40)))
 	m = press(m, "f")
-	if m.screen != screenFit || m.fit.view == nil {
+	if shown(m) != "fit" || ivOf(m).view == nil {
 		t.Fatalf("no fit screen:\n%s", plain(m))
 	}
-	mid := m.sess.meas[m.fit.idx].ID
+	mid := m.sess.meas[fitOf(m).idx].ID
 	m.sess.extr = append(m.sess.extr,
 		sessions.Extraction{ID: "fit-2", Method: "iv-single-diode", Measurement: mid, Performed: m.sess.now().UTC()})
 	m = press(m, "ctrl+k", "ctrl+k")

@@ -1,42 +1,12 @@
 package tui
 
 import (
-	"fmt"
 	"math"
-	"math/rand/v2"
-	"os"
-	"path/filepath"
 	"strings"
 	"testing"
 
 	"junco/model/fit"
-	"junco/physics"
-	"junco/physics/extract"
 )
-
-// writeIVAt writes an invented sweep of a diode (Is 1e-14 A, n 1.05,
-// Rs 1 ohm) at tk with 0.5 % noise, under the first line head ("" for
-// none).
-func writeIVAt(t *testing.T, name, head string, tk float64) string {
-	t.Helper()
-	rng := rand.New(rand.NewPCG(5, 5))
-	d := extract.SingleDiode{SaturationCurrentA: 1e-14, IdealityFactor: 1.05, SeriesResistanceOhm: 1, ShuntResistanceOhm: math.Inf(1)}
-	vt := physics.ThermalVoltage(tk)
-	var b strings.Builder
-	if head != "" {
-		b.WriteString(head + "\n")
-	}
-	b.WriteString("V (V),I (A)\n")
-	for k := 0; k < 80; k++ {
-		v := 0.2 + 0.006*float64(k)
-		fmt.Fprintf(&b, "%.4f,%.6e\n", v, d.Current(v, vt)*(1+0.005*rng.NormFloat64()))
-	}
-	p := filepath.Join(t.TempDir(), name)
-	if err := os.WriteFile(p, []byte(b.String()), 0o600); err != nil {
-		t.Fatal(err)
-	}
-	return p
-}
 
 // The import preview says which temperature a fit will use: the file's
 // comment (also written without a colon), else the junction's, flagged;
@@ -51,7 +21,7 @@ func TestImportPreviewTemperature(t *testing.T) {
 		t.Errorf("comment without a colon not shown:\n%s", v)
 	}
 	m = press(m, "t")
-	if m.imp.editing || !strings.Contains(plain(m), "the file states its temperature") {
+	if importOf(m).editing || !strings.Contains(plain(m), "the file states its temperature") {
 		t.Errorf("t on a file with a temperature must refuse:\n%s", plain(m))
 	}
 	m = press(m, "esc")
@@ -61,18 +31,23 @@ func TestImportPreviewTemperature(t *testing.T) {
 		t.Errorf("assumed temperature not shown:\n%s", v)
 	}
 	m = press(m, "t", "x", "enter")
-	if !m.imp.editing || !strings.Contains(plain(m), "temperature: ") {
+	if !importOf(m).editing || !strings.Contains(plain(m), "temperature: ") {
 		t.Errorf("a bad temperature must be refused:\n%s", plain(m))
 	}
+	// esc leaves the field unchanged and stays on the preview.
+	if m = press(m, "esc"); shown(m) != "import" || importOf(m).editing || importOf(m).ds == nil || importOf(m).ds.TemperatureTyped {
+		t.Fatalf("esc in the temperature field: %s editing %v\n%s", shown(m), importOf(m).editing, plain(m))
+	}
+	m = press(m, "t")
 	m = press(m, "ctrl+u", "2", "5", "0", "K", "enter")
-	if m.imp.editing || !strings.Contains(plain(m), "250.00 K (typed") {
+	if importOf(m).editing || !strings.Contains(plain(m), "250.00 K (typed") {
 		t.Fatalf("typed temperature not shown:\n%s", plain(m))
 	}
 	m = press(m, "f")
-	if m.screen != screenFit || m.fit.view == nil {
+	if shown(m) != "fit" || ivOf(m).view == nil {
 		t.Fatalf("f must add and fit:\n%s", plain(m))
 	}
-	if v := m.fit.view; v.TemperatureK != 250 || v.TemperatureFrom != fit.SourceOption || math.Abs(v.Fit.Single.IdealityFactor/1.05-1) > 0.02 {
+	if v := ivOf(m).view; v.TemperatureK != 250 || v.TemperatureFrom != fit.SourceOption || math.Abs(v.Fit.Single.IdealityFactor/1.05-1) > 0.02 {
 		t.Errorf("fit at %g K (%s): n = %g, want 250 K (option), n = 1.05", v.TemperatureK, v.TemperatureFrom, v.Fit.Single.IdealityFactor)
 	}
 	if !m.sess.meas[len(m.sess.meas)-1].TemperatureTyped {
@@ -81,7 +56,7 @@ func TestImportPreviewTemperature(t *testing.T) {
 	// The same file without the typed value: the junction's temperature.
 	m = importInto(t, press(m, "esc"), writeIVAt(t, "none2.csv", "", 250))
 	m = press(m, "f")
-	if v := m.fit.view; v.TemperatureFrom != fit.SourceJunction || math.Abs(v.Fit.Single.IdealityFactor-1.05*250/296.15) > 0.02 {
+	if v := ivOf(m).view; v.TemperatureFrom != fit.SourceJunction || math.Abs(v.Fit.Single.IdealityFactor-1.05*250/296.15) > 0.02 {
 		t.Errorf("junction fallback: %g K (%s), n = %g, want n near %.3f", v.TemperatureK, v.TemperatureFrom, v.Fit.Single.IdealityFactor, 1.05*250/296.15)
 	}
 }

@@ -22,8 +22,8 @@ func servedInbox(t *testing.T) (m Model, data string, outside []string) {
 	}
 	secretCSV := filepath.Join(data, "private.csv")
 	account := filepath.Join(data, "account")
-	os.WriteFile(secretCSV, good, 0o600)
-	os.WriteFile(account, []byte("rootSECRET:x:0:0:root:/root:/bin/sh\n"), 0o600)
+	writeText(t, secretCSV, string(good))
+	writeText(t, account, "rootSECRET:x:0:0:root:/root:/bin/sh\n")
 	put := func(user, name string, b []byte) *sessions.Inbox {
 		in, err := sessions.OpenInbox(data, user, sessions.InboxLimits{})
 		if err != nil {
@@ -65,12 +65,12 @@ func TestServedImportReadsOnlyTheInbox(t *testing.T) {
 		m = press(m, "i", "ctrl+u")
 		m = typeText(m, p)
 		m = press(m, "enter")
-		if m.imp.ds != nil || m.imp.err == "" {
-			t.Errorf("%s: imported (%v) or no error", p, m.imp.ds != nil)
+		if importOf(m).ds != nil || importOf(m).err == "" {
+			t.Errorf("%s: imported (%v) or no error", p, importOf(m).ds != nil)
 		}
 		for _, leak := range []string{data, filepath.Base(data), "/etc", "passwd", "SECRET", "root:", "users"} {
-			if strings.Contains(m.imp.err, leak) {
-				t.Errorf("%s: message %q names %q", p, m.imp.err, leak)
+			if strings.Contains(importOf(m).err, leak) {
+				t.Errorf("%s: message %q names %q", p, importOf(m).err, leak)
 			}
 		}
 		m = press(m, "esc")
@@ -84,8 +84,8 @@ func TestServedImportReadsOnlyTheInbox(t *testing.T) {
 	}
 	m = typeText(m, "die.csv")
 	m = press(m, "enter")
-	if m.imp.ds == nil {
-		t.Fatalf("a file of the inbox: %s", m.imp.err)
+	if importOf(m).ds == nil {
+		t.Fatalf("a file of the inbox: %s", importOf(m).err)
 	}
 }
 
@@ -98,18 +98,18 @@ func TestServedBatchReadsOnlyTheInbox(t *testing.T) {
 		m = press(m, "B", "ctrl+u")
 		m = typeText(m, dir)
 		m = press(m, "enter")
-		if m.bat.view != nil || m.bat.err == "" {
+		if batchOf(m).view != nil || batchOf(m).err == "" {
 			t.Errorf("%s: listed or no error", dir)
 		}
-		if strings.Contains(m.bat.err, data) || strings.Contains(m.bat.err, "/etc") {
-			t.Errorf("%s: message names a server path: %q", dir, m.bat.err)
+		if strings.Contains(batchOf(m).err, data) || strings.Contains(batchOf(m).err, "/etc") {
+			t.Errorf("%s: message names a server path: %q", dir, batchOf(m).err)
 		}
 		m = press(m, "esc")
 	}
 	m = press(m, "B", "ctrl+u", "enter")
-	v := m.bat.view
+	v := batchOf(m).view
 	if v == nil || len(v.Rows) != 1 || v.Fitted != 1 || v.Rows[0].File != "die.csv" {
-		t.Fatalf("batch of the inbox: %+v err %q", v, m.bat.err)
+		t.Fatalf("batch of the inbox: %+v err %q", v, batchOf(m).err)
 	}
 }
 
@@ -120,8 +120,8 @@ func TestLocalImportKeepsFullAccess(t *testing.T) {
 	m = press(m, "i")
 	m = typeText(m, p)
 	m = press(m, "enter")
-	if m.imp.ds == nil {
-		t.Fatalf("local import of an absolute path: %s", m.imp.err)
+	if importOf(m).ds == nil {
+		t.Fatalf("local import of an absolute path: %s", importOf(m).err)
 	}
 }
 
@@ -130,8 +130,8 @@ func TestLocalImportKeepsFullAccess(t *testing.T) {
 func TestServedBatchExportGoesToTheInbox(t *testing.T) {
 	m, data, _ := servedInbox(t)
 	m = press(m, "B", "ctrl+u", "enter")
-	if m.bat.view == nil {
-		t.Fatalf("no batch: %q", m.bat.err)
+	if batchOf(m).view == nil {
+		t.Fatalf("no batch: %q", batchOf(m).err)
 	}
 	m = press(m, "ctrl+e")
 	if !strings.Contains(m.note, "written") || strings.Contains(m.note, data) {

@@ -2,11 +2,9 @@ package tui
 
 import (
 	"fmt"
-	"math"
 	"strings"
 
 	"junco/model"
-	"junco/model/fit"
 	"junco/physics"
 )
 
@@ -15,41 +13,23 @@ import (
 // with the fit's maximum-power point marked on both; the table lists the
 // lit parameters and the figures of merit of the data and of the fit.
 
-// litMPPMarker is the marker of the maximum-power point.
-func (e env) litMPPMarker() string {
-	if e.ascii {
-		return "#"
-	}
-	return "◆"
-}
-
-// renderLitFit draws the charts of a lit fit into the fit state (legend,
-// titles and plot lines) for the terminal size.
-func (m *Model) renderLitFit() {
-	f := &m.fit
+// litChart draws the charts of a lit fit (legend, titles and plot
+// lines) in cw x ch cells.
+func (f *ivFit) litChart(m Model, cw, ch int) (legend []string, yTitle string, plot []string) {
 	st, g := m.e.st, m.e.g
 	v := f.lit
-	cw, ch, _ := fitGeometry(m.w, m.h-2)
-	if v == nil || f.idx < 0 || f.idx >= len(m.sess.meas) || cw < 16 {
-		return
-	}
-	meas := fit.MeasuredCurve(&m.sess.meas[f.idx].DataSet)
+	meas := f.meas
 	if len(meas.Series) == 0 {
-		return
+		return nil, "", nil
 	}
-	dotMark := "+"
-	if !m.e.ascii {
-		dotMark = "•"
-	}
-	mpp := m.e.litMPPMarker()
+	dotMark, mpp := g.point, g.mpp
 	items := []string{st.series[1].Paint(dotMark) + " measured", st.series[0].Paint(g.markers[0]) + " fit",
 		st.accent.Paint(mpp) + " maximum power (fit)"}
-	f.legend = flowItems(items, cw, 2)
+	legend = flowItems(items, cw, 2)
 	// Two charts and the power chart's title share the height.
-	avail := ch - len(f.legend) - 3
+	avail := ch - len(legend) - 3
 	if avail < 10 {
-		f.legend = nil
-		return
+		return nil, "", nil
 	}
 	ih := avail * 3 / 5
 	ph := avail - ih
@@ -61,27 +41,13 @@ func (m *Model) renderLitFit() {
 	div, unit := axisFactor(model.Axis{Kind: model.Current}, maxAbs(mi), m.e.ascii)
 	ilo, ihi := minMax(mi, div)
 	iys := linearScale(ilo, ihi, max(2, ih/3))
-	clip := func(y, d float64, a axisScale) float64 {
-		y /= d
-		if !physics.Finite(y) || y < a.min || y > a.max {
-			return math.NaN()
-		}
-		return y
-	}
-	conv := func(ys []float64, d float64, a axisScale) []float64 {
-		out := make([]float64, len(ys))
-		for i, y := range ys {
-			out[i] = clip(y, d, a)
-		}
-		return out
-	}
 	ilines := []plotLine{
-		{label: "fit", xs: v.Curve.Xs, ys: conv(v.Curve.Series[0].Y, div, iys), paint: st.series[0], marker: g.markers[0]},
-		{label: "measured", xs: meas.Xs, ys: conv(mi, div, iys), paint: st.series[1], marker: dotMark, dots: true},
-		{label: "maximum power", xs: []float64{v.MaxPowerV}, ys: []float64{clip(v.MaxPowerA, div, iys)}, paint: st.accent, marker: mpp, dots: true},
+		{label: "fit", xs: v.Curve.Xs, ys: onAxis(v.Curve.Series[0].Y, div, iys), paint: st.series[0], marker: g.markers[0]},
+		{label: "measured", xs: meas.Xs, ys: onAxis(mi, div, iys), paint: st.series[1], marker: dotMark, dots: true},
+		{label: "maximum power", xs: []float64{v.MaxPowerV}, ys: onAxis([]float64{v.MaxPowerA}, div, iys), paint: st.accent, marker: mpp, dots: true},
 	}
-	f.yTitle = "current I (" + unit + ", linear scale; " + v.Fit.Sign.String() + " sign)"
-	plot := renderPlot(ilines, xs, iys, cw, ih, m.e)
+	yTitle = "current I (" + unit + ", linear scale; " + v.Fit.Sign.String() + " sign)"
+	plot = renderPlot(ilines, xs, iys, cw, ih, m.e)
 
 	// Delivered power: from a quarter of Pmax below zero to above Pmax
 	// (beyond Voc and in reverse bias the junction absorbs power, which
@@ -95,21 +61,20 @@ func (m *Model) renderLitFit() {
 		}
 	}
 	if !(pk > 0) {
-		f.plot = plot
-		return
+		return legend, yTitle, plot
 	}
 	pdiv, punit := axisFactor(model.Axis{Kind: model.Power}, pk, m.e.ascii)
 	pys := linearScale(-0.25*pk/pdiv, 1.05*pk/pdiv, max(2, ph/3))
 	plines := []plotLine{
-		{label: "fit", xs: v.Power.Xs, ys: conv(v.Power.Series[1].Y, pdiv, pys), paint: st.series[0], marker: g.markers[0]},
-		{label: "measured", xs: v.Power.Xs, ys: conv(v.Power.Series[0].Y, pdiv, pys), paint: st.series[1], marker: dotMark, dots: true},
-		{label: "maximum power", xs: []float64{v.MaxPowerV}, ys: []float64{clip(v.MaxPowerW, pdiv, pys)}, paint: st.accent, marker: mpp, dots: true},
+		{label: "fit", xs: v.Power.Xs, ys: onAxis(v.Power.Series[1].Y, pdiv, pys), paint: st.series[0], marker: g.markers[0]},
+		{label: "measured", xs: v.Power.Xs, ys: onAxis(v.Power.Series[0].Y, pdiv, pys), paint: st.series[1], marker: dotMark, dots: true},
+		{label: "maximum power", xs: []float64{v.MaxPowerV}, ys: onAxis([]float64{v.MaxPowerW}, pdiv, pys), paint: st.accent, marker: mpp, dots: true},
 	}
 	// The same label width on both charts keeps their bias axes aligned.
 	alignLabels(&iys, &pys)
 	plot = renderPlot(ilines, xs, iys, cw, ih, m.e)
 	plot = append(plot, st.muted.Paint("delivered power P ("+punit+", linear scale)"))
-	f.plot = append(plot, renderPlot(plines, xs, pys, cw, ph, m.e)...)
+	return legend, yTitle, append(plot, renderPlot(plines, xs, pys, cw, ph, m.e)...)
 }
 
 // figureText is a figure of merit's data and fit values as text.
@@ -117,9 +82,9 @@ type figureText struct{ data, fit string }
 
 // litTable is the parameter table of a lit fit; compact puts the
 // figures of merit on fewer lines (below the chart on a small terminal).
-func (m Model) litTable(w int, compact bool) []string {
+func (x *ivFit) litTable(m Model, w int, compact bool) []string {
 	st, g := m.e.st, m.e.g
-	v := m.fit.lit
+	v := x.lit
 	f := v.Fit
 	var out []string
 	head := fmt.Sprintf("lit single diode at %s (%s)", model.Format(model.Temperature, v.TemperatureK, 4, m.e.ascii), v.TemperatureFrom)
@@ -130,26 +95,7 @@ func (m Model) litTable(w int, compact bool) []string {
 	if !compact {
 		out = append(out, st.muted.Paint(cut("  current sign: "+f.Sign.String(), w, g.ellipsis)))
 	}
-	pm := "±"
-	if m.e.ascii {
-		pm = "+/-"
-	}
-	var pair string
-	for i, r := range v.Rows {
-		l := fmt.Sprintf("  %-4s %-12s %s %s", r.Name, r.Value, pm, r.StdErr)
-		if r.Remark != "" {
-			l = fmt.Sprintf("  %-4s %-12s %s", r.Name, r.Value, r.Remark)
-		}
-		if compact {
-			if i%2 == 0 && i+1 < len(v.Rows) {
-				pair = padRight(l, 38, "")
-				continue
-			}
-			l = pair + l
-			pair = ""
-		}
-		out = append(out, cut(l, w, g.ellipsis))
-	}
+	out = append(out, m.e.paramLines(v.Rows, w, compact)...)
 	if compact {
 		// Six lines in all (fitCompactRows): the figures on two.
 		fig := map[string]figureText{}

@@ -1,10 +1,7 @@
 package tui
 
 import (
-	"fmt"
 	"math"
-	"math/rand/v2"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -12,36 +9,14 @@ import (
 	tea "github.com/charmbracelet/bubbletea"
 )
 
-// writeIV writes an invented forward I-V sweep of a diode (Is = 1e-12 A,
-// n = 1.5 at 300 K, a little series resistance) with 1 % scatter, in
-// volts and milliamperes, with one compliance row and one NaN row.
-func writeIV(t *testing.T, name string) string {
-	t.Helper()
-	rng := rand.New(rand.NewPCG(3, 9))
-	var b strings.Builder
-	b.WriteString("# temperature: 300 K\nV (V),I (mA),status\n")
-	vt := 0.025852
-	for k := 0; k < 60; k++ {
-		v := 0.05 + 0.012*float64(k)
-		i := 1e-12 * math.Expm1(v/(1.5*vt)) * (1 + 0.01*rng.NormFloat64())
-		fmt.Fprintf(&b, "%.4f,%.6e,0\n", v, i*1e3)
-	}
-	b.WriteString("0.8,NaN,0\n0.81,100,1\n")
-	p := filepath.Join(t.TempDir(), name)
-	if err := os.WriteFile(p, []byte(b.String()), 0o600); err != nil {
-		t.Fatal(err)
-	}
-	return p
-}
-
 func importInto(t *testing.T, m Model, path string) Model {
 	t.Helper()
 	m = press(m, "i")
-	if m.screen != screenImport {
+	if shown(m) != "import" {
 		t.Fatalf("i did not open the import screen: %q", plain(m))
 	}
 	m = press(m, "ctrl+u")
-	m.imp.ed.set(path)
+	importOf(m).ed.set(path)
 	return press(m, "enter")
 }
 
@@ -66,8 +41,8 @@ func TestImportPreviewAndAccept(t *testing.T) {
 		t.Fatal("a preview must add nothing")
 	}
 	m = press(m, "enter")
-	if m.screen != screenMain || len(m.sess.meas) != 1 || m.sess.meas[0].ID != "diode" {
-		t.Fatalf("accept: screen %d, %d measurements", m.screen, len(m.sess.meas))
+	if shown(m) != "main" || len(m.sess.meas) != 1 || m.sess.meas[0].ID != "diode" {
+		t.Fatalf("accept: screen %s, %d measurements", shown(m), len(m.sess.meas))
 	}
 	if !m.Dirty() || !strings.Contains(plain(m), "unsaved") {
 		t.Error("an added measurement must mark the session unsaved")
@@ -86,22 +61,20 @@ func TestImportPreviewAndAccept(t *testing.T) {
 func TestImportBadFileNamesLineAndColumn(t *testing.T) {
 	m := bare(newTest(t, 100, 30))
 	p := filepath.Join(t.TempDir(), "bad.csv")
-	if err := os.WriteFile(p, []byte("V,I (A)\n0.1,1e-9\n0.2,abc\n"), 0o600); err != nil {
-		t.Fatal(err)
-	}
+	writeText(t, p, "V,I (A)\n0.1,1e-9\n0.2,abc\n")
 	m = importInto(t, m, p)
 	v := flat(plain(m))
 	if !strings.Contains(v, "bad.csv:3:2") || !strings.Contains(v, "Nothing was imported") {
 		t.Errorf("the error must name line 3, column 2:\n%s", plain(m))
 	}
 	m = press(m, "enter", "esc")
-	if len(m.sess.meas) != 0 || m.Dirty() || m.screen != screenMain {
-		t.Fatalf("a bad file must add nothing (%d, screen %d)", len(m.sess.meas), m.screen)
+	if len(m.sess.meas) != 0 || m.Dirty() || shown(m) != "main" {
+		t.Fatalf("a bad file must add nothing (%d, screen %s)", len(m.sess.meas), shown(m))
 	}
 	// A missing file and a directory are errors too, not crashes.
 	for _, path := range []string{filepath.Join(t.TempDir(), "none.csv"), t.TempDir(), ""} {
 		m = importInto(t, m, path)
-		if m.imp.ds != nil || m.imp.err == "" {
+		if importOf(m).ds != nil || importOf(m).err == "" {
 			t.Errorf("%q: want an error", path)
 		}
 		m = press(m, "esc")
@@ -113,8 +86,8 @@ func TestFitScreen(t *testing.T) {
 		m := newTest(t, size[0], size[1])
 		m = importInto(t, m, writeIV(t, "diode.csv"))
 		m = press(m, "f")
-		if m.screen != screenFit || m.fit.view == nil {
-			t.Fatalf("%v: f must add and fit: %q %s", size, m.fit.err, plain(m))
+		if shown(m) != "fit" || ivOf(m).view == nil {
+			t.Fatalf("%v: f must add and fit: %q %s", size, ivOf(m).err, plain(m))
 		}
 		v := plain(m)
 		for _, want := range []string{"Is ", "n ", "Rs", "Rsh", "±", "RMS log residual", "points used", "window used", "measured", "fit", "prediction"} {
@@ -123,36 +96,36 @@ func TestFitScreen(t *testing.T) {
 			}
 		}
 		if size[0] == 120 {
-			if n := m.fit.view.Fit.Single.IdealityFactor; math.Abs(n-1.5) > 0.05 {
+			if n := ivOf(m).view.Fit.Single.IdealityFactor; math.Abs(n-1.5) > 0.05 {
 				t.Errorf("n = %g, want about 1.5", n)
 			}
 			if !strings.Contains(v, "•") {
 				t.Errorf("the measured points need their own character:\n%s", v)
 			}
 		}
-		before := m.fit.view.Fit.Points
+		before := ivOf(m).view.Fit.Points
 		m = typeText(m, "0.2")
 		m = press(m, "tab")
 		m = typeText(m, "500mV")
 		m = press(m, "enter")
-		if m.fit.view == nil || m.fit.win.MinV != 0.2 || math.Abs(m.fit.win.MaxV-0.5) > 1e-12 {
-			t.Fatalf("%v: window not applied: %+v %q", size, m.fit.win, m.fit.err)
+		if ivOf(m).view == nil || fitOf(m).win.MinV != 0.2 || math.Abs(fitOf(m).win.MaxV-0.5) > 1e-12 {
+			t.Fatalf("%v: window not applied: %+v %q", size, fitOf(m).win, ivOf(m).err)
 		}
-		if after := m.fit.view.Fit.Points; after >= before || after == 0 {
+		if after := ivOf(m).view.Fit.Points; after >= before || after == 0 {
 			t.Errorf("%v: refit in the window uses %d points, before %d", size, after, before)
 		}
-		if u := m.fit.view.Fit.UsedWindow; u.MinV < 0.2 || u.MaxV > 0.5 {
+		if u := ivOf(m).view.Fit.UsedWindow; u.MinV < 0.2 || u.MaxV > 0.5 {
 			t.Errorf("used window %+v", u)
 		}
 		// A bad window says why and keeps the fit.
 		m = press(m, "ctrl+u")
 		m = typeText(m, "x")
 		m = press(m, "enter")
-		if m.fit.winErr == "" || m.fit.view == nil {
+		if fitOf(m).winErr == "" || ivOf(m).view == nil {
 			t.Errorf("a bad bound must be reported")
 		}
 		m = press(m, "esc")
-		if m.screen != screenMain {
+		if shown(m) != "main" {
 			t.Errorf("esc must close the fit screen")
 		}
 	}
@@ -161,46 +134,8 @@ func TestFitScreen(t *testing.T) {
 func TestFitWithoutData(t *testing.T) {
 	m := bare(newTest(t, 80, 24))
 	m = press(m, "f")
-	if m.screen != screenMain || !strings.Contains(plain(m), "no I-V data set") {
+	if shown(m) != "main" || !strings.Contains(plain(m), "no I-V data set") {
 		t.Errorf("f without data must say so:\n%s", plain(m))
-	}
-}
-
-// TestMeasureScreensRandomKeys feeds random keys and sizes to the import
-// and fit screens: no panic, never an empty view.
-func TestMeasureScreensRandomKeys(t *testing.T) {
-	path := writeIV(t, "diode.csv")
-	named := []tea.KeyType{tea.KeyEnter, tea.KeyTab, tea.KeyShiftTab, tea.KeyEsc, tea.KeyLeft, tea.KeyRight,
-		tea.KeyBackspace, tea.KeyDelete, tea.KeyPgUp, tea.KeyPgDown, tea.KeyCtrlU, tea.KeySpace}
-	const runes = "0123456789.-:mVife "
-	sizes := [][2]int{{0, 0}, {5, 3}, {40, 12}, {60, 16}, {80, 24}, {99, 30}, {100, 30}, {160, 44}}
-	rng := rand.New(rand.NewPCG(11, 5))
-	m := newTest(t, 80, 24)
-	m = importInto(t, m, path)
-	m = press(m, "f")
-	for step := 0; step < 400; step++ {
-		var msg tea.Msg
-		switch p := rng.IntN(100); {
-		case p < 5:
-			s := sizes[rng.IntN(len(sizes))]
-			msg = tea.WindowSizeMsg{Width: s[0], Height: s[1]}
-		case p < 10 && m.screen == screenMain:
-			if m = press(m, "i"); m.screen == screenImport {
-				m.imp.ed.set(path)
-				m = press(m, "enter")
-			}
-			continue
-		case p < 45:
-			msg = tea.KeyMsg{Type: named[rng.IntN(len(named))]}
-		default:
-			rs := []rune(runes)
-			msg = tea.KeyMsg{Type: tea.KeyRunes, Runes: []rune{rs[rng.IntN(len(rs))]}}
-		}
-		tm, _ := m.Update(msg)
-		m = tm.(Model)
-		if m.View() == "" {
-			t.Fatalf("step %d: empty view", step)
-		}
 	}
 }
 
@@ -230,7 +165,7 @@ func TestKeepFitWithSession(t *testing.T) {
 	o := opts(st, "alice", 120, 40)
 	m := start(New(o))
 	m = press(m, "f")
-	if m.screen != screenFit {
+	if shown(m) != "fit" {
 		t.Fatalf("no fit screen:\n%s", plain(m))
 	}
 	m = press(m, "ctrl+k")
@@ -255,7 +190,7 @@ func TestKeepFitWithSession(t *testing.T) {
 func TestFitLinearLogToggle(t *testing.T) {
 	m := newTest(t, 120, 40)
 	m = press(m, "f")
-	if m.screen != screenFit || m.fit.view == nil {
+	if shown(m) != "fit" || ivOf(m).view == nil {
 		t.Fatalf("f must open the I-V fit on the demo:\n%s", plain(m))
 	}
 	if v := plain(m); !strings.Contains(v, "log scale") {
@@ -264,13 +199,13 @@ func TestFitLinearLogToggle(t *testing.T) {
 	tm, _ := m.Update(tea.KeyMsg{Type: tea.KeyCtrlL})
 	m = tm.(Model)
 	v := plain(m)
-	if !m.fit.linear || !strings.Contains(v, "linear scale") || strings.Contains(v, "log scale") || m.fit.plot == nil {
+	if !ivOf(m).linear || !strings.Contains(v, "linear scale") || strings.Contains(v, "log scale") || fitOf(m).plot == nil {
 		t.Fatalf("ctrl+l must draw |I| on a linear axis:\n%s", v)
 	}
 	if !strings.Contains(v, "(mA, linear") && !strings.Contains(v, "(µA, linear") && !strings.Contains(v, "(A, linear") {
 		t.Errorf("the linear axis names its unit:\n%s", v)
 	}
-	if m.fit.eds[0].value() != "" || m.fit.eds[1].value() != "" {
+	if fitOf(m).eds[0].value() != "" || fitOf(m).eds[1].value() != "" {
 		t.Error("ctrl+l must not type into the window")
 	}
 	// A resize keeps the choice.
@@ -281,7 +216,7 @@ func TestFitLinearLogToggle(t *testing.T) {
 	}
 	tm, _ = m.Update(tea.KeyMsg{Type: tea.KeyCtrlL})
 	m = tm.(Model)
-	if m.fit.linear || !strings.Contains(plain(m), "log scale") {
+	if ivOf(m).linear || !strings.Contains(plain(m), "log scale") {
 		t.Errorf("ctrl+l again must go back to log:\n%s", plain(m))
 	}
 }

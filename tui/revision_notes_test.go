@@ -27,7 +27,7 @@ func TestHistoryShowsEachSaveNote(t *testing.T) {
 		}
 	}
 	m = press(m, "ctrl+o", "tab")
-	if m.screen != screenHistory {
+	if shown(m) != "history" {
 		t.Fatalf("tab in the browser did not show the revisions:\n%s", plain(m))
 	}
 	v := plain(m)

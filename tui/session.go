@@ -397,7 +397,7 @@ type draftWrittenMsg struct {
 // while there are unsaved changes not yet in a draft, so that an idle
 // workbench runs no timer.
 func (m Model) scheduleDraft() (Model, tea.Cmd) {
-	if !m.draftable() || m.sess.draftPending || m.screen == screenDraft {
+	if _, offer := find[*draftScreen](m); !m.draftable() || m.sess.draftPending || offer {
 		return m, nil
 	}
 	if m.editKey() == m.sess.draftKey || !m.Dirty() {
@@ -480,41 +480,37 @@ func (m *Model) offerDraft() {
 	for i := range ds {
 		queue = append(queue, &ds[i])
 	}
-	m.offer = draftOffer{queue: queue}
-	m.nextOffer()
+	if d := (&draftScreen{queue: queue}); d.next(m) {
+		m.push(d)
+	}
 }
 
-// nextOffer shows the first draft of the queue that differs from what is
-// open, or returns to the workbench when none is left.
-func (m *Model) nextOffer() {
+// next moves the offer to the first draft of the queue that differs from
+// what is open; false when none is left.
+func (d *draftScreen) next(m *Model) bool {
 	cur, err := m.document(m.title())
-	for err == nil && len(m.offer.queue) > 0 {
-		d := m.offer.queue[0]
-		m.offer.queue = m.offer.queue[1:]
-		changes := sessions.Diff(cur, d.Document, m.e.ascii)
+	for err == nil && len(d.queue) > 0 {
+		x := d.queue[0]
+		d.queue = d.queue[1:]
+		changes := sessions.Diff(cur, x.Document, m.e.ascii)
 		if len(changes) == 0 {
-			_ = m.sess.store.DiscardDraft(m.draftName(), d.Key())
+			_ = m.sess.store.DiscardDraft(m.draftName(), x.Key())
 			continue
 		}
-		m.offer.draft, m.offer.changes = d, changes
-		m.offer.shown++
-		m.screen = screenDraft
-		return
+		d.draft, d.changes = x, changes
+		d.shown++
+		return true
 	}
-	m.offer = draftOffer{}
-	if m.screen == screenDraft {
-		m.screen = screenMain
-	}
+	return false
 }
 
 // restoreDraft puts the offered draft in force as unsaved changes to the
 // revision it started from. Other drafts of the offer stay where they are
 // and are offered at the next opening.
-func (m *Model) restoreDraft() tea.Cmd {
-	d := m.offer.draft
-	left := len(m.offer.queue)
-	m.offer = draftOffer{}
-	m.screen = screenMain
+func (m *Model) restoreDraft(o *draftScreen) tea.Cmd {
+	d := o.draft
+	left := len(o.queue)
+	m.close(o)
 	if d == nil {
 		return nil
 	}

@@ -3,13 +3,11 @@ package tui
 import (
 	"os"
 	"path/filepath"
-	"strings"
 	"testing"
 
 	tea "github.com/charmbracelet/bubbletea"
 
 	"junco/model"
-	"junco/sessions"
 )
 
 // TestTwoConnectionsKeepTheirDrafts: one user on two connections edits
@@ -44,23 +42,23 @@ func TestTwoConnectionsKeepTheirDrafts(t *testing.T) {
 	}
 
 	third := start(New(o))
-	if third.screen != screenDraft {
+	if shown(third) != "draft" {
 		t.Fatal("no draft offer at the next opening")
 	}
 	wantIn(t, third, "A recovery draft was kept", "Draft 1 of 2")
-	first := third.offer.draft.Document.Spec.Temperature
+	first := onTop[draftScreen](third).draft.Document.Spec.Temperature
 	third = press(third, "d")
-	if third.screen != screenDraft {
+	if shown(third) != "draft" {
 		t.Fatal("discarding the first draft did not offer the second")
 	}
 	wantIn(t, third, "Draft 2 of 2")
-	second := third.offer.draft.Document.Spec.Temperature
+	second := onTop[draftScreen](third).draft.Document.Spec.Temperature
 	if first == second {
 		t.Fatalf("both offers showed the draft at %g K", first)
 	}
 	third = press(third, "r")
-	if third.screen != screenMain || third.Spec().Temperature != second || !third.Dirty() {
-		t.Fatalf("restored: screen %d, T %g, dirty %v; want the second draft, %g K, unsaved", third.screen, third.Spec().Temperature, third.Dirty(), second)
+	if shown(third) != "main" || third.Spec().Temperature != second || !third.Dirty() {
+		t.Fatalf("restored: screen %s, T %g, dirty %v; want the second draft, %g K, unsaved", shown(third), third.Spec().Temperature, third.Dirty(), second)
 	}
 	// Saving removes the restored draft too.
 	third = press(third, "ctrl+s", "enter")
@@ -69,27 +67,6 @@ func TestTwoConnectionsKeepTheirDrafts(t *testing.T) {
 	}
 	if ds, _, _ := st.DraftsOf("d7", "alice"); len(ds) != 0 {
 		t.Errorf("%d drafts left after the save, want none", len(ds))
-	}
-}
-
-// TestReviewNoteWithControlCharactersIsEscaped: a review note carrying a
-// terminal control sequence is shown escaped, never passed through.
-func TestReviewNoteWithControlCharactersIsEscaped(t *testing.T) {
-	st := newStore(t, "alice")
-	storeSession(t, st, "d7", "diode D7", model.DemoJunction().Spec)
-	if err := st.AddReviewNote("d7", sessions.ReviewNote{Author: "bob", Text: "fine \x1b[2Jgone"}); err != nil {
-		t.Fatal(err)
-	}
-	o := opts(st, "alice", 120, 40)
-	o.Session = "d7"
-	m := start(New(o))
-	for _, n := range m.sheet.reviews {
-		if strings.ContainsRune(n.Text, 0x1b) {
-			t.Fatalf("the note reaches the sheet unescaped: %q", n.Text)
-		}
-	}
-	if len(m.sheet.reviews) != 1 || m.sheet.reviews[0].Text != `fine \x1b[2Jgone` {
-		t.Errorf("reviews on the sheet: %+v", m.sheet.reviews)
 	}
 }
 
@@ -102,15 +79,13 @@ func TestOpenSessionWithDamagedNewestRevision(t *testing.T) {
 	saveNext(t, st, "d7", 0.5)
 	p := filepath.Join(st.Root(), "sessions", "d7", "rev-000002.json")
 	os.Chmod(p, 0o600)
-	if err := os.WriteFile(p, []byte("{"), 0o600); err != nil {
-		t.Fatal(err)
-	}
+	writeText(t, p, "{")
 	m := start(New(opts(st, "alice", 140, 40)))
 	m = press(m, "ctrl+o")
 	wantIn(t, m, "(damaged: newest readable is revision 1)")
 	m = press(m, "enter")
-	if m.screen != screenMain || m.sess.name != "d7" || m.sess.rev != 1 {
-		t.Fatalf("open: screen %d, session %q, revision %d", m.screen, m.sess.name, m.sess.rev)
+	if shown(m) != "main" || m.sess.name != "d7" || m.sess.rev != 1 {
+		t.Fatalf("open: screen %s, session %q, revision %d", shown(m), m.sess.name, m.sess.rev)
 	}
 	wantIn(t, m, "unreadable newer revisions: 1")
 	m = editField(m, "5", 0, "305")

@@ -1,7 +1,6 @@
 package tui
 
 import (
-	"errors"
 	"os"
 	"path/filepath"
 	"reflect"
@@ -122,8 +121,8 @@ func TestFirstSaveAsksForANameAndChecksIt(t *testing.T) {
 	m = press(m, "tab", "tab")
 	m = typeText(m, "lower p doping")
 	m = press(m, "enter")
-	if m.screen != screenMain || m.Dirty() {
-		t.Fatalf("after the save: screen %d, dirty %v:\n%s", m.screen, m.Dirty(), plain(m))
+	if shown(m) != "main" || m.Dirty() {
+		t.Fatalf("after the save: screen %s, dirty %v:\n%s", shown(m), m.Dirty(), plain(m))
 	}
 	wantIn(t, m, "saved as session lot417, revision 1", "lot417 rev 1")
 	doc, rev := mustOpen(t, st, "lot417", 0)
@@ -252,7 +251,7 @@ func TestStaleBaseOffersNextRevisionOrCopy(t *testing.T) {
 	wantIn(t, a, "A newer revision exists")
 	// esc leaves without saving and keeps the edits.
 	a = press(a, "esc")
-	if a.screen != screenMain || !reflect.DeepEqual(a.Spec(), edited) || !a.Dirty() {
+	if shown(a) != "main" || !reflect.DeepEqual(a.Spec(), edited) || !a.Dirty() {
 		t.Fatal("leaving the choice lost the edits")
 	}
 	wantIn(t, a, "not saved; your edits are kept")
@@ -311,7 +310,7 @@ func TestSaveFailureKeepsEverything(t *testing.T) {
 	m = typeText(m, "my note")
 	m = press(m, "enter")
 	wantIn(t, m, "not saved:", "Your edits are kept")
-	if m.screen != screenDialog || m.dlg.fields[2].ed.value() != "my note" || m.dlg.fields[0].ed.value() != "lot417" {
+	if shown(m) != "dialog" || onTop[dialogScreen](m).fields[2].ed.value() != "my note" || onTop[dialogScreen](m).fields[0].ed.value() != "lot417" {
 		t.Fatal("the dialog lost what was typed")
 	}
 	if !reflect.DeepEqual(m.Spec(), edited) || !m.Dirty() || len(m.sess.notes) != 0 {
@@ -327,8 +326,8 @@ func TestNoStoreSaysWhy(t *testing.T) {
 	m := start(New(Options{Renderer: plainRenderer(), Width: 100, Height: 30, NoStoreReason: "no data directory (HOME is not set)"}))
 	for _, k := range []string{"ctrl+s", "S", "ctrl+o"} {
 		m = press(m, k)
-		if m.screen != screenMain {
-			t.Fatalf("%s opened screen %d without a store", k, m.screen)
+		if shown(m) != "main" {
+			t.Fatalf("%s opened screen %s without a store", k, shown(m))
 		}
 		wantIn(t, m, "is not available here: no data directory")
 	}
@@ -348,13 +347,7 @@ func TestBrowserFiltersAndShowsDamagedEntries(t *testing.T) {
 	storeSession(t, st, "d9-lot420", "test diode D9, lot 420", spec)
 	spec.Temperature = 350
 	storeSession(t, st, "hot-bench", "hot bench run", spec)
-	broken := filepath.Join(st.Root(), "sessions", "broken")
-	if err := os.MkdirAll(broken, 0o755); err != nil {
-		t.Fatal(err)
-	}
-	if err := os.WriteFile(filepath.Join(broken, "rev-000001.json"), []byte(`{"schema": 1, "meta": {`), 0o644); err != nil {
-		t.Fatal(err)
-	}
+	brokenEntry(t, st)
 	m := start(New(opts(st, "alice", 120, 40)))
 	m = press(m, "ctrl+o")
 	wantIn(t, m, "Sessions", "4 sessions, 1 entry cannot be read", "d7-lot417", "d9-lot420", "hot-bench", "broken", "(damaged: no revision can be read)",
@@ -377,8 +370,8 @@ func TestBrowserFiltersAndShowsDamagedEntries(t *testing.T) {
 	m = press(m, "ctrl+u")
 	m = typeText(m, "HOT")
 	m = press(m, "enter")
-	if m.screen != screenMain || m.sess.name != "hot-bench" || m.Spec().Temperature != 350 || m.Dirty() {
-		t.Fatalf("opening hot-bench: screen %d, session %q, T %g", m.screen, m.sess.name, m.Spec().Temperature)
+	if shown(m) != "main" || m.sess.name != "hot-bench" || m.Spec().Temperature != 350 || m.Dirty() {
+		t.Fatalf("opening hot-bench: screen %s, session %q, T %g", shown(m), m.sess.name, m.Spec().Temperature)
 	}
 	wantIn(t, m, "opened hot-bench, revision 1")
 	// With unsaved changes, opening asks first; n keeps them.
@@ -386,7 +379,7 @@ func TestBrowserFiltersAndShowsDamagedEntries(t *testing.T) {
 	m = press(m, "enter", "ctrl+o", "down", "down", "enter")
 	wantIn(t, m, "Open the newest revision of d9-lot420?", "drops them")
 	m = press(m, "n")
-	if m.screen != screenBrowse || m.sess.name != "hot-bench" || m.Spec().Temperature != 360 {
+	if shown(m) != "browse" || m.sess.name != "hot-bench" || m.Spec().Temperature != 360 {
 		t.Fatal("declining lost the edits or left the browser")
 	}
 	m = press(m, "enter", "y")
@@ -406,8 +399,8 @@ func TestHistoryDiffRestore(t *testing.T) {
 	m = press(m, "ctrl+o", "tab")
 	wantIn(t, m, "Revisions of d7", "3 revisions, newest first", "your edits started from revision 3")
 	// Newest first: the cursor is on revision 3.
-	if m.br.hist[0].Number != 3 || m.br.hist[2].Number != 1 {
-		t.Fatalf("history order %v", m.br.hist)
+	if onTop[historyScreen](m).hist[0].Number != 3 || onTop[historyScreen](m).hist[2].Number != 1 {
+		t.Fatalf("history order %v", onTop[historyScreen](m).hist)
 	}
 	// d on revision 3 compares it with revision 2.
 	m = press(m, "d")
@@ -506,7 +499,7 @@ func TestDraftIsWrittenOnlyWhileUnsavedAndOffered(t *testing.T) {
 	// A new workbench offers the draft.
 	n := start(New(opts(st, "alice", 100, 30)))
 	wantIn(t, n, "A recovery draft was kept", "the junction that had not been saved yet", "acceptor doping Na (na)", "1.000e17 cm^-3")
-	if n.screen != screenDraft {
+	if shown(n) != "draft" {
 		t.Fatal("no draft offer")
 	}
 	r := press(n, "r")
@@ -586,7 +579,7 @@ func TestQuitQuestionSavesFirst(t *testing.T) {
 	m = press(m, "enter", "q")
 	wantIn(t, m, "Quit junco?", "s save first")
 	m = press(m, "s")
-	if m.screen != screenDialog {
+	if shown(m) != "dialog" {
 		t.Fatal("s did not open the save dialog")
 	}
 	_, cmd := m.Update(keyMsg("enter"))
@@ -608,101 +601,6 @@ func reviewDoc() *sessions.Document {
 	doc.Reviews = []sessions.ReviewNote{{Author: "carol", Time: t0.Add(time.Hour), Text: "check the area"}}
 	doc.Meta.Modified = t0.Add(2 * time.Hour)
 	return doc
-}
-
-func reviewOpts(added *[]string, copies *[]string, st *sessions.Store) Options {
-	o := Options{Renderer: plainRenderer(), Width: 120, Height: 40, User: "bob", Now: ticking(),
-		Session: "d7-lot417", Document: reviewDoc(), Revision: 3, ReadOnly: true, Store: st,
-		AddReview: func(text string) error {
-			if text == "fail please" {
-				return errors.New("the review service is down")
-			}
-			*added = append(*added, text)
-			return nil
-		},
-		CopyToOwn: func(doc *sessions.Document, name string) (int, error) {
-			*copies = append(*copies, name)
-			r, err := st.Save(name, doc, 0)
-			return r.Number, err
-		}}
-	return o
-}
-
-func TestReviewModeShowsAllRefusesEditsAndAddsNotes(t *testing.T) {
-	st := newStore(t, "bob")
-	var added, copies []string
-	m := start(New(reviewOpts(&added, &copies, st)))
-	wantIn(t, m, "[review (read-only)]", "Define the junction · read-only", "d7-lot417 rev 3")
-	spec := m.Spec()
-	// Every editing key is refused with a reason; navigation works.
-	for _, keys := range [][]string{{"right"}, {"x"}, {"2", "down", "enter"}, {"2", "down", "x"}, {"p"}, {"tab", "tab", "r"}} {
-		m = press(m, keys...)
-		wantIn(t, m, "read-only review:", "cannot be changed; ctrl+s copies it to your sessions")
-		if m.form.typing || m.chart.editing || m.pin != nil {
-			t.Fatalf("%v started an edit in review mode", keys)
-		}
-		if !reflect.DeepEqual(m.Spec(), spec) {
-			t.Fatalf("%v changed the junction in review mode", keys)
-		}
-		m = press(m, "shift+tab", "shift+tab", "shift+tab")
-		m.focus = panelDefine
-	}
-	if m.Dirty() {
-		t.Fatal("review mode reports unsaved changes")
-	}
-	// Notes and review notes are shown, with author and time.
-	m = press(m, "tab")
-	wantIn(t, m, "Session notes", "lifetime from the decay of wafer 3", "Review notes", "carol, 2025-03-14 10:26 UTC: check the area")
-	// n adds a review note through the callback.
-	m = press(m, "n")
-	wantIn(t, m, "Add a review note", "signed bob")
-	m = press(m, "enter")
-	wantIn(t, m, "the text is empty")
-	m = typeText(m, "fail please")
-	m = press(m, "enter")
-	wantIn(t, m, "the review service is down")
-	if m.dlg.fields[0].ed.value() != "fail please" {
-		t.Fatal("a failed review note lost its text")
-	}
-	m = press(m, "ctrl+u")
-	m = typeText(m, "Cj looks high for this area")
-	m = press(m, "enter")
-	if !reflect.DeepEqual(added, []string{"Cj looks high for this area"}) {
-		t.Fatalf("AddReview got %q", added)
-	}
-	wantIn(t, m, "review note added", "bob, 2025-03-14", "Cj looks high for this area")
-	// q quits at once: nothing is unsaved in review mode.
-	if _, cmd := m.Update(keyMsg("q")); cmd == nil {
-		t.Fatal("q in review mode does not quit")
-	}
-	// ctrl+s copies into the reviewer's sessions and opens the copy.
-	m = press(m, "ctrl+s")
-	wantIn(t, m, "Copy into your own sessions", "d7-lot417-mine")
-	m = press(m, "enter")
-	if !reflect.DeepEqual(copies, []string{"d7-lot417-mine"}) {
-		t.Fatalf("CopyToOwn got %q", copies)
-	}
-	doc, _ := mustOpen(t, st, "d7-lot417-mine", 0)
-	if len(doc.Reviews) != 2 || !strings.Contains(doc.Meta.Origin, "copied from session d7-lot417, revision 3, under review") {
-		t.Fatalf("copy: %d review notes, origin %q", len(doc.Reviews), doc.Meta.Origin)
-	}
-	if m.sess.readOnly || m.sess.name != "d7-lot417-mine" {
-		t.Fatal("the copy was not opened for editing")
-	}
-	wantIn(t, m, "copied into your session d7-lot417-mine")
-	m = press(m, "shift+tab", "2", "down", "enter")
-	if !m.form.typing {
-		t.Fatal("the copy cannot be edited")
-	}
-}
-
-func TestReviewWithoutCallbacksSaysWhy(t *testing.T) {
-	o := Options{Renderer: plainRenderer(), Width: 100, Height: 30, Document: reviewDoc(), Session: "x", ReadOnly: true}
-	m := start(New(o))
-	m = press(m, "n")
-	wantIn(t, m, "review notes cannot be added here")
-	m = press(m, "ctrl+s")
-	wantIn(t, m, "Copying into your own sessions is not available here")
 }
 
 func TestEditorID(t *testing.T) {
@@ -761,18 +659,18 @@ func TestSessionScreensDrawOnlyASCII(t *testing.T) {
 	for _, step := range []struct {
 		what string
 		keys []string
-		want screen
+		want string
 	}{
-		{"save dialog", []string{"ctrl+s"}, screenDialog}, {"stale choice", []string{"enter"}, screenStale},
-		{"stale diff", []string{"d"}, screenDiff}, {"back", []string{"esc", "esc"}, screenMain},
-		{"browser", []string{"ctrl+o"}, screenBrowse}, {"history", []string{"tab"}, screenHistory},
-		{"diff", []string{"d"}, screenDiff}, {"diff with edits", []string{"esc", "c"}, screenDiff},
-		{"restore question", []string{"esc", "down", "r"}, screenConfirm}, {"open question", []string{"n", "enter"}, screenConfirm},
-		{"note dialog", []string{"n", "esc", "esc", "n"}, screenDialog}, {"quit question", []string{"esc", "q"}, screenQuit},
+		{"save dialog", []string{"ctrl+s"}, "dialog"}, {"stale choice", []string{"enter"}, "stale"},
+		{"stale diff", []string{"d"}, "diff"}, {"back", []string{"esc", "esc"}, "main"},
+		{"browser", []string{"ctrl+o"}, "browse"}, {"history", []string{"tab"}, "history"},
+		{"diff", []string{"d"}, "diff"}, {"diff with edits", []string{"esc", "c"}, "diff"},
+		{"restore question", []string{"esc", "down", "r"}, "confirm"}, {"open question", []string{"n", "enter"}, "confirm"},
+		{"note dialog", []string{"n", "esc", "esc", "n"}, "dialog"}, {"quit question", []string{"esc", "q"}, "quit"},
 	} {
 		m = press(m, step.keys...)
-		if m.screen != step.want {
-			t.Fatalf("%s: screen %d, want %d", step.what, m.screen, step.want)
+		if shown(m) != step.want {
+			t.Fatalf("%s: screen %s, want %s", step.what, shown(m), step.want)
 		}
 		check(step.what)
 	}
@@ -786,8 +684,8 @@ func TestCtrlSWhileTypingSavesWhatIsInForce(t *testing.T) {
 		t.Fatal("not typing")
 	}
 	m = press(m, "ctrl+s")
-	if m.form.typing || m.screen != screenDialog {
-		t.Fatalf("ctrl+s while typing: typing %v, screen %d", m.form.typing, m.screen)
+	if m.form.typing || shown(m) != "dialog" {
+		t.Fatalf("ctrl+s while typing: typing %v, screen %s", m.form.typing, shown(m))
 	}
 	m = press(m, "enter")
 	if doc, _ := mustOpen(t, st, "d7-demo", 0); doc.Spec.Temperature != 315 {

@@ -136,39 +136,18 @@ func (p panel) title() string {
 	return "Charts"
 }
 
-// Screens: the panels, and the screens over them.
-type screen int
-
-const (
-	screenMain      screen = iota
-	screenHelp             // guide and keys
-	screenQuit             // quit with unsaved changes?
-	screenDialog           // a text dialog: save, save as, note, review note, copy
-	screenBrowse           // the session list
-	screenHistory          // the revisions of a session
-	screenDiff             // the changes between two revisions
-	screenStale            // a save found a newer revision
-	screenConfirm          // a yes/no question before an action
-	screenDraft            // a recovery draft was found
-	screenImport           // import a measurement: path and preview
-	screenFit              // fit an I-V measurement
-	screenCVFit            // fit a C-V measurement
-	screenArrhenius        // activation energy from I-V data at several temperatures
-	screenBatch            // batch fit of the I-V files of a directory
-	screenCard             // model card from the session's data sets
-)
-
 // Smallest terminal the workbench draws panels in.
 const minWidth, minHeight = 40, 12
 
 // Model is the workbench. Use New.
 type Model struct {
-	e      env
-	w, h   int
-	focus  panel
-	right  panel // what the right side shows in the pair layout
-	screen screen
-	helpOf int // scroll of the help screen
+	e     env
+	w, h  int
+	focus panel
+	right panel // what the right side shows in the pair layout
+	// stack holds the screens over the panels, the top one last
+	// (screen.go).
+	stack []screen
 
 	form  formModel
 	sheet sheetModel
@@ -183,20 +162,12 @@ type Model struct {
 	note    string
 	formRev int
 
-	sess          session
-	dlg           dialog
-	stale         staleState
-	conf          confirmState
-	offer         draftOffer
-	br            browser
-	imp           importState
-	fit           fitState
-	cvfit         cvFitState
-	arr           arrheniusState
-	bat           batchState
-	card          cardState
-	quitAfterSave bool
-	syncCharts    bool
+	sess session
+	// batch is the batch screen, kept with its last run when closed;
+	// importPath is the path last typed on the import screen.
+	batch      *batchScreen
+	importPath string
+	syncCharts bool
 }
 
 // New builds a workbench.
@@ -387,24 +358,16 @@ func (m Model) update(msg tea.Msg) (tea.Model, tea.Cmd) {
 	switch msg := msg.(type) {
 	case tea.WindowSizeMsg:
 		m.w, m.h = max(msg.Width, 0), max(msg.Height, 0)
-		if m.screen == screenFit {
-			m.renderFit()
-		}
-		if m.screen == screenCVFit {
-			m.renderCVFit()
-		}
-		return m, m.relayout()
+		cmd := m.broadcast(msg)
+		return m, tea.Batch(cmd, m.relayout())
 	case chartDataMsg:
 		m.chart.apply(msg)
 		return m, nil
 	case solveDoneMsg:
 		m.chart.applySolve(msg)
 		return m, nil
-	case batchProgressMsg:
-		return m, m.applyBatchProgress(msg)
-	case batchDoneMsg:
-		m.applyBatchDone(msg)
-		return m, nil
+	case batchProgressMsg, batchDoneMsg:
+		return m, m.broadcast(msg)
 	case draftTickMsg:
 		cmd := m.writeDraft()
 		return m, cmd
@@ -429,65 +392,8 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	if km.Type == tea.KeyCtrlC {
 		return m.interrupt()
 	}
-	switch m.screen {
-	case screenQuit:
-		switch {
-		case keyIs(km, k.Yes):
-			m.discardDraft()
-			return m, tea.Quit
-		case keyIs(km, k.SaveFirst) && m.sess.store != nil && !m.sess.readOnly:
-			m.screen = screenMain
-			m.openSave(false)
-			m.quitAfterSave = m.screen == screenDialog
-		case keyIs(km, k.No), km.String() == "q":
-			m.screen = screenMain
-		}
-		return m, nil
-	case screenDialog:
-		return m.dialogKey(km)
-	case screenBrowse:
-		return m.browseKey(km)
-	case screenHistory:
-		return m.historyKey(km)
-	case screenDiff:
-		return m.diffKey(km)
-	case screenStale:
-		return m.staleKey(km)
-	case screenConfirm:
-		return m.confirmKey(km)
-	case screenDraft:
-		return m.draftKey(km)
-	case screenImport:
-		return m.importKey(km)
-	case screenFit:
-		return m.fitKey(km)
-	case screenCVFit:
-		return m.cvFitKey(km)
-	case screenArrhenius:
-		return m.arrheniusKey(km)
-	case screenBatch:
-		return m.batchKey(km)
-	case screenCard:
-		return m.cardKey(km)
-	case screenHelp:
-		switch {
-		case keyIs(km, k.ScrollDown):
-			m.helpOf++
-		case keyIs(km, k.ScrollUp):
-			m.helpOf--
-		case keyIs(km, k.PageDown):
-			m.helpOf += m.helpPage()
-		case keyIs(km, k.PageUp):
-			m.helpOf -= m.helpPage()
-		case keyIs(km, k.Top):
-			m.helpOf = 0
-		case keyIs(km, k.Bottom):
-			m.helpOf = m.helpEnd()
-		case keyIs(km, k.Help), km.String() == "esc", km.String() == "q", km.String() == "enter":
-			m.screen = screenMain
-		}
-		m.helpOf = min(max(m.helpOf, 0), m.helpEnd())
-		return m, nil
+	if s := m.top(); s != nil {
+		return m.screenKey(s, km)
 	}
 	typing := (m.focus == panelDefine && m.form.typing) || (m.focus == panelCharts && m.chart.editing)
 	if typing && (keyIs(km, k.Save) || keyIs(km, k.Browse) || keyIs(km, k.CopyOwn)) && km.Type != tea.KeyRunes {
@@ -516,47 +422,17 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		}
 	}
 	if !typing {
+		for _, o := range openers(k) {
+			if keyIs(km, o.key) {
+				o.open(&m)
+				return m, nil
+			}
+		}
 		switch {
-		case keyIs(km, k.Save):
-			m.openSave(false)
-			return m, nil
-		case keyIs(km, k.SaveAs):
-			m.openSave(true)
-			return m, nil
-		case keyIs(km, k.CopyOwn):
-			m.openCopy()
-			return m, nil
-		case keyIs(km, k.Browse):
-			m.openBrowser()
-			return m, nil
-		case keyIs(km, k.Note):
-			m.openNote()
-			return m, nil
-		case keyIs(km, k.Share):
-			m.openShare()
-			return m, nil
-		case keyIs(km, k.Import):
-			m.openImport()
-			return m, nil
-		case keyIs(km, k.Fit):
-			m.openFit(-1)
-			return m, nil
-		case keyIs(km, k.Arrhenius):
-			m.openArrhenius()
-			return m, nil
-		case keyIs(km, k.Batch):
-			m.openBatch()
-			return m, nil
-		case keyIs(km, k.Card):
-			m.openCard()
-			return m, nil
 		case keyIs(km, k.NextPanel):
 			return m, m.setFocus((m.focus + 1) % panelCount)
 		case keyIs(km, k.PrevPanel):
 			return m, m.setFocus((m.focus + panelCount - 1) % panelCount)
-		case keyIs(km, k.Help):
-			m.screen, m.helpOf = screenHelp, 0
-			return m, nil
 		case keyIs(km, k.Step):
 			// The steps answer in every panel: the key shows Define at
 			// that step.
@@ -602,6 +478,31 @@ func (m Model) key(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 		m.chart, cmd = m.chart.Update(km)
 	}
 	return m, cmd
+}
+
+// opener is a key of the panels that opens a screen.
+type opener struct {
+	key  key.Binding
+	open func(m *Model)
+}
+
+// openers are the screens the panels open, by key (outside text entry).
+// A new screen is one line here, its binding in KeyMap and its own file.
+func openers(k KeyMap) []opener {
+	return []opener{
+		{k.Save, func(m *Model) { m.openSave(false) }},
+		{k.SaveAs, func(m *Model) { m.openSave(true) }},
+		{k.CopyOwn, (*Model).openCopy},
+		{k.Browse, (*Model).openBrowser},
+		{k.Note, (*Model).openNote},
+		{k.Share, (*Model).openShare},
+		{k.Import, (*Model).openImport},
+		{k.Fit, func(m *Model) { m.openFit(-1) }},
+		{k.Arrhenius, (*Model).openArrhenius},
+		{k.Batch, (*Model).openBatch},
+		{k.Card, (*Model).openCard},
+		{k.Help, (*Model).openHelp},
+	}
 }
 
 // refusal names what a key would change in review mode ("" when the key
@@ -661,7 +562,7 @@ func (m *Model) setASCII(on bool) {
 
 func (m Model) quit() (tea.Model, tea.Cmd) {
 	if m.Dirty() {
-		m.screen = screenQuit
+		m.push(&quitScreen{})
 		return m, nil
 	}
 	return m, tea.Quit
@@ -681,38 +582,9 @@ func (m Model) View() string {
 	}
 	var lines []string
 	lines = append(lines, m.header())
-	switch m.screen {
-	case screenHelp:
-		lines = append(lines, m.helpScreen(w, h-2)...)
-	case screenQuit:
-		lines = append(lines, m.quitScreen(w, h-2)...)
-	case screenDialog:
-		lines = append(lines, m.dialogScreen(w, h-2)...)
-	case screenBrowse:
-		lines = append(lines, m.browseScreen(w, h-2)...)
-	case screenHistory:
-		lines = append(lines, m.historyScreen(w, h-2)...)
-	case screenDiff:
-		lines = append(lines, m.diffScreen(w, h-2)...)
-	case screenStale:
-		lines = append(lines, m.staleScreen(w, h-2)...)
-	case screenConfirm:
-		lines = append(lines, m.confirmScreen(w, h-2)...)
-	case screenDraft:
-		lines = append(lines, m.draftScreen(w, h-2)...)
-	case screenImport:
-		lines = append(lines, m.importScreen(w, h-2)...)
-	case screenFit:
-		lines = append(lines, m.fitScreen(w, h-2)...)
-	case screenCVFit:
-		lines = append(lines, m.cvFitScreen(w, h-2)...)
-	case screenArrhenius:
-		lines = append(lines, m.arrheniusScreen(w, h-2)...)
-	case screenBatch:
-		lines = append(lines, m.batchScreen(w, h-2)...)
-	case screenCard:
-		lines = append(lines, m.cardScreen(w, h-2)...)
-	default:
+	if s := m.top(); s != nil {
+		lines = append(lines, s.draw(m, w, h-2)...)
+	} else {
 		lines = append(lines, m.body()...)
 	}
 	lines = append(lines, m.footer())
@@ -722,51 +594,22 @@ func (m Model) View() string {
 func (m Model) footer() string {
 	st := m.e.st
 	var hk help.KeyMap
-	switch m.screen {
-	case screenQuit:
-		hk = dialogHelp{k: m.e.keys, canSave: m.sess.store != nil && !m.sess.readOnly}
-	case screenHelp:
-		hk = helpScreenHelp{m.e.keys}
-	case screenDialog:
-		hk = textDialogHelp{m.e.keys}
-	case screenBrowse:
-		hk = browseHelp{m.e.keys}
-	case screenHistory:
-		hk = historyHelp{m.e.keys}
-	case screenDiff:
-		hk = diffHelp{m.e.keys}
-	case screenStale:
-		hk = staleHelp{m.e.keys}
-	case screenConfirm:
-		hk = confirmHelp{k: m.e.keys, yes: m.conf.yes}
-	case screenDraft:
-		hk = draftHelp{m.e.keys}
-	case screenImport:
-		hk = importHelp{k: m.e.keys, preview: m.imp.ds != nil}
-	case screenFit:
-		hk = fitHelp{m.e.keys}
-	case screenCVFit:
-		hk = cvFitHelp{m.e.keys}
-	case screenArrhenius:
-		hk = arrheniusHelp{m.e.keys}
-	case screenBatch:
-		hk = batchHelp{m.e.keys}
-	case screenCard:
-		hk = cardHelp{m.e.keys}
+	switch m.focus {
+	case panelDefine:
+		hk = formHelp{k: m.e.keys, typing: m.form.typing}
+	case panelResults:
+		hk = sheetHelp{k: m.e.keys}
 	default:
-		switch m.focus {
-		case panelDefine:
-			hk = formHelp{k: m.e.keys, typing: m.form.typing}
-		case panelResults:
-			hk = sheetHelp{k: m.e.keys}
-		default:
-			hk = chartHelp{k: m.e.keys, typing: m.chart.editing}
-		}
+		hk = chartHelp{k: m.e.keys, typing: m.chart.editing}
+	}
+	keys := hk.ShortHelp()
+	if s := m.top(); s != nil {
+		keys = s.footer(m)
 	}
 	hm := m.help
 	note := ""
 	if m.note != "" {
 		note = st.warn.Paint(cut(m.note, max(m.w-2, 0), m.e.g.ellipsis)) + "  "
 	}
-	return note + shortHelp(hm, hk.ShortHelp(), max(m.w-width(note), 0))
+	return note + shortHelp(hm, keys, max(m.w-width(note), 0))
 }

@@ -35,12 +35,12 @@ func TestKeysInOneReadEachAct(t *testing.T) {
 	}
 
 	help := feed(base, oneRead("?"))
-	if help.screen != screenHelp {
+	if shown(help) != "help" {
 		t.Fatal("? did not open the help")
 	}
 	help = feed(help, oneRead(strings.Repeat("j", 20)))
-	if help.helpOf != 20 {
-		t.Errorf("twenty j in one read moved the help %d lines, want 20", help.helpOf)
+	if onTop[helpScreen](help).off != 20 {
+		t.Errorf("twenty j in one read moved the help %d lines, want 20", onTop[helpScreen](help).off)
 	}
 }
 
@@ -58,29 +58,5 @@ func TestTypeaheadIntoTextField(t *testing.T) {
 	}
 	if m.Spec().Temperature != 350 {
 		t.Errorf("temperature in force %g K, want 350", m.Spec().Temperature)
-	}
-}
-
-// ctrl+c acts the same from every screen: with unsaved changes it asks
-// whether to quit (the help, the import dialog, the fit and Arrhenius screens), and
-// pressed again at that question it quits at once.
-func TestCtrlCOnEveryScreen(t *testing.T) {
-	for _, open := range []string{"?", "i", "f", "A"} {
-		m := newTest(t, 120, 40)
-		m = editField(m, "5", 0, "320")
-		m = press(m, "enter")
-		m = press(m, open)
-		if m.screen == screenMain {
-			t.Fatalf("%q opened no screen", open)
-		}
-		m = press(m, "ctrl+c")
-		if !strings.Contains(plain(m), "Quit junco?") {
-			t.Errorf("ctrl+c from the screen of %q did not ask:\n%s", open, plain(m))
-			continue
-		}
-		_, cmd := m.Update(keyMsg("ctrl+c"))
-		if cmd == nil {
-			t.Errorf("second ctrl+c from %q: nothing to run", open)
-		}
 	}
 }
