@@ -104,12 +104,13 @@ func (e *BatchLimitError) Error() string {
 }
 
 // NewBatch makes the record of a batch fit run on folder (file names are
-// stored relative to it when they lie within it), judged against limits,
-// fitted with model, performed at now. Its ID is given by AppendBatch.
-// The command line and the workbench both call it, so that the same
-// folder gives the same record.
-func NewBatch(folder string, res *fit.BatchResult, limits []fit.Limit, model string, now time.Time, notes []string) Batch {
-	b := Batch{Folder: folder, Performed: now.UTC(), Model: model, Interrupted: res.Interrupted, Notes: fit.OneLine(notes)}
+// stored relative to it when they lie within it) with the fit options
+// opt (the model, and the notes of fit.BatchNotes), judged against
+// limits, performed at now. Its ID is given by AppendBatch. The command
+// line and the workbench both call it, so that the same folder gives the
+// same record.
+func NewBatch(folder string, res *fit.BatchResult, limits []fit.Limit, opt fit.IVOptions, now time.Time) Batch {
+	b := Batch{Folder: folder, Performed: now.UTC(), Model: opt.Model.String(), Interrupted: res.Interrupted, Notes: fit.OneLine(fit.BatchNotes(opt))}
 	for _, l := range limits {
 		bl := BatchLimit{Parameter: fit.BatchParams()[l.Param].Key}
 		if !math.IsInf(l.Min, 0) {

@@ -28,7 +28,7 @@ func exampleBatch() *fit.BatchResult {
 		row("die_x01_y01.csv", 1, 1, 1.1e-14, 1.03, 2.1, 3e7),
 		row("die_x02_y01.csv", 2, 1, 1.3e-14, 1.05, 2.4, inf),
 		row("die_x01_y02.csv", 1, 2, 9.5e-15, 1.02, nan, 5e7),
-		{File: "wafer12/die_x02_y02.csv", Status: fit.StatusError, Err: errors.New("wafer12/die_x02_y02.csv: no forward points"), Die: fit.Die{X: 2, Y: 2, Source: fit.DieFromName}},
+		{File: "wafer12/die_x02_y02.csv", Status: fit.StatusError, Err: errors.New("wafer12/die_x02_y02.csv: no forward points"), Die: fit.Die{X: 2, Y: 2, Wafer: "W12", Source: fit.DieFromName}},
 		{File: "wafer12/odd.csv", Status: fit.StatusNotRun, Err: errors.New("interrupted before this file")},
 	}, Fitted: 3, Failed: 1, NotRun: 1, Interrupted: true}
 	res.Stats = fit.Statistics(res.Rows)
@@ -66,7 +66,7 @@ func sameRows(t *testing.T, got, want []fit.BatchRow) {
 // and gets the same rows, statistics, outliers, limits and yield back.
 func TestBatchRoundTrip(t *testing.T) {
 	res := exampleBatch()
-	b := NewBatch("wafer12", res, exampleLimits(), "single", fixedTime, []string{"window: every forward point"})
+	b := NewBatch("wafer12", res, exampleLimits(), fit.IVOptions{}, fixedTime)
 	doc := exampleDocument()
 	var id string
 	var err error
@@ -166,7 +166,7 @@ func TestBatchLimits(t *testing.T) {
 	for k := range res.Rows {
 		res.Rows[k] = fit.BatchRow{File: "f.csv", Status: fit.StatusError, Err: errors.New("x")}
 	}
-	big := NewBatch("", res, nil, "single", fixedTime, nil)
+	big := NewBatch("", res, nil, fit.IVOptions{}, fixedTime)
 	var le *BatchLimitError
 	if _, _, err := AppendBatch(nil, big); !errors.As(err, &le) || !strings.Contains(err.Error(), "100000") || !strings.Contains(err.Error(), "MaxBatchRows") {
 		t.Errorf("too many rows: %v", err)
@@ -178,7 +178,7 @@ func TestBatchLimits(t *testing.T) {
 		t.Errorf("Validate of too many rows: %v", err)
 	}
 
-	small := NewBatch("w", exampleBatch(), nil, "single", fixedTime, nil)
+	small := NewBatch("w", exampleBatch(), nil, fit.IVOptions{}, fixedTime)
 	var bs []Batch
 	for range MaxBatches {
 		var err error
@@ -199,7 +199,7 @@ func TestBatchLimits(t *testing.T) {
 // TestBatchDecodeErrors: strict decoding and validation of kept batches.
 func TestBatchDecodeErrors(t *testing.T) {
 	doc := exampleDocument()
-	doc.Batches, _, _ = AppendBatch(nil, NewBatch("wafer12", exampleBatch(), exampleLimits(), "single", fixedTime, nil))
+	doc.Batches, _, _ = AppendBatch(nil, NewBatch("wafer12", exampleBatch(), exampleLimits(), fit.IVOptions{}, fixedTime))
 	data, err := Encode(doc)
 	if err != nil {
 		t.Fatal(err)
@@ -238,7 +238,7 @@ func TestBatchDecodeErrors(t *testing.T) {
 func TestBatchDiff(t *testing.T) {
 	a := exampleDocument()
 	b := a.Clone()
-	b.Batches, _, _ = AppendBatch(nil, NewBatch("wafer12", exampleBatch(), exampleLimits(), "single", fixedTime, nil))
+	b.Batches, _, _ = AppendBatch(nil, NewBatch("wafer12", exampleBatch(), exampleLimits(), fit.IVOptions{}, fixedTime))
 	ch := Diff(a, b, true)
 	if len(ch) != 1 || ch[0].Section != SectionBatches || ch[0].Delta != "added" || !strings.Contains(ch[0].New, "5 files (3 fitted, 1 failed, 1 not run)") {
 		t.Fatalf("added: %+v", ch)
@@ -258,8 +258,8 @@ func TestBatchDiff(t *testing.T) {
 		res.Stats = fit.Statistics(res.Rows)
 		return res
 	}
-	a.Batches, _, _ = AppendBatch(nil, NewBatch("lot7", mk(0), nil, "single", fixedTime, nil))
-	b.Batches, _, _ = AppendBatch(nil, NewBatch("lot7", mk(0.01), nil, "single", fixedTime, nil))
+	a.Batches, _, _ = AppendBatch(nil, NewBatch("lot7", mk(0), nil, fit.IVOptions{}, fixedTime))
+	b.Batches, _, _ = AppendBatch(nil, NewBatch("lot7", mk(0.01), nil, fit.IVOptions{}, fixedTime))
 	ch = Diff(a, b, true)
 	if len(ch) > 8 {
 		t.Errorf("a changed batch of 10,000 files gave %d rows, want a summary of a few", len(ch))

@@ -252,6 +252,11 @@ func (m migrator) upgrade(data []byte, from int) ([]byte, error) {
 	dec.UseNumber()
 	var tree map[string]any
 	if err := dec.Decode(&tree); err != nil {
+		// A damaged file: the strict reader says where (line, column,
+		// truncated), as it does for a document of the current schema.
+		if serr := strictjson.NewReader(data).Skip(); serr != nil {
+			return nil, serr
+		}
 		return nil, &MigrationError{From: from, To: m.current, Err: err}
 	}
 	for v := from; v < m.current; v++ {
