@@ -60,4 +60,3 @@ func fitBatchSave(dataDir, name string, b sessions.Batch, fitted int, stderr io.
 	fmt.Fprintf(stderr, "saved as revision %d of session %s (%s %s, %d files)\n", res.Revision, name, what, id, len(b.Rows))
 	return exitOK
 }
-
