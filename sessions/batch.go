@@ -110,6 +110,9 @@ func (e *BatchLimitError) Error() string {
 // line and the workbench both call it, so that the same folder gives the
 // same record.
 func NewBatch(folder string, res *fit.BatchResult, limits []fit.Limit, opt fit.IVOptions, now time.Time) Batch {
+	if folder != "" {
+		folder = filepath.Clean(folder)
+	}
 	b := Batch{Folder: folder, Performed: now.UTC(), Model: opt.Model.String(), Interrupted: res.Interrupted, Notes: fit.OneLine(fit.BatchNotes(opt))}
 	for _, l := range limits {
 		bl := BatchLimit{Parameter: fit.BatchParams()[l.Param].Key}

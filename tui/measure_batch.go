@@ -34,7 +34,8 @@ type batchState struct {
 	dir      string // the directory of the run shown
 	// wm is the wafer map of the run shown: focus, die cursor, column,
 	// wafer and the die's fit when one is open.
-	wm waferMapState
+	wm   waferMapState
+	keep batchKeepState // kept tables (batch_keep.go)
 }
 
 // batchProgressMsg reports n of total files finished in run seq.
@@ -150,6 +151,9 @@ func (m *Model) applyBatchDone(msg batchDoneMsg) {
 func (m Model) batchKey(km tea.KeyMsg) (tea.Model, tea.Cmd) {
 	k := m.e.keys
 	b := &m.bat
+	if m.batchKeepKey(km) {
+		return m, nil
+	}
 	switch {
 	case keyIs(km, k.Dismiss) && b.wm.die != nil:
 		b.wm.die = nil
@@ -308,6 +312,7 @@ func (h batchHelp) ShortHelp() []key.Binding {
 		key.NewBinding(key.WithKeys("[", "]"), key.WithHelp("[ ]", "parameter")),
 		key.NewBinding(key.WithKeys("w"), key.WithHelp("w", "wafer")),
 		key.NewBinding(key.WithKeys("ctrl+e"), key.WithHelp("ctrl+e", "export CSV")),
+		batchKeepBindings()[0], batchKeepBindings()[1],
 		key.NewBinding(key.WithKeys("esc"), key.WithHelp("esc", "cancel or close"))}
 }
 func (h batchHelp) FullHelp() [][]key.Binding { return [][]key.Binding{h.ShortHelp()} }
