@@ -24,3 +24,21 @@ func TestSheetMarksWholeAndApart(t *testing.T) {
 		}
 	}
 }
+
+// With a pin, the definition panel focused beside the charts at 120x40
+// still gets the width it needs: the pinned sheet's columns (not shown)
+// do not narrow it, and no value or label in it is cut.
+func TestDefineBesideChartsWithPin(t *testing.T) {
+	m := newTest(t, 120, 40)
+	m = press(m, "tab", "tab", "p", "tab", "5")
+	if m.focus != panelDefine || m.rightPanel() != panelCharts || m.pin == nil {
+		t.Fatalf("focus %v, right %v, pin %v", m.focus, m.rightPanel(), m.pin != nil)
+	}
+	lines := strings.Split(plain(m), "\n")
+	for _, l := range lines[1 : len(lines)-1] {
+		left, _, _ := strings.Cut(l, "│")
+		if strings.Contains(left, "…") {
+			t.Errorf("the definition panel cuts %q:\n%s", left, plain(m))
+		}
+	}
+}
