@@ -332,7 +332,7 @@ func (m *Model) exportBatch() {
 		m.note = "exports are not available here"
 		return
 	}
-	name := "batch-" + m.sess.now().UTC().Format("20060102-150405") + ".csv"
+	name := fit.BatchExportName(m.sess.now())
 	path := name
 	if _, local := files.(model.LocalFiles); local && b.dir != "" {
 		dir := b.dir
