@@ -324,7 +324,7 @@ func (m *Model) applyExtras(doc *sessions.Document) {
 	m.sess.extr = slices.Clone(doc.Extractions)
 	m.sess.batches = slices.Clone(doc.Batches)
 	if n := len(doc.Batches); n > 0 {
-		notes = append(notes, fmt.Sprintf("the session keeps %d batch table(s): B, then pgup shows them", n))
+		notes = append(notes, "the session keeps "+plural(n, "batch table", "batch tables")+": B, then pgup shows them")
 	}
 	m.sess.reviews = slices.Clone(doc.Reviews)
 	m.pushNotes()
