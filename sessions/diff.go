@@ -218,7 +218,8 @@ func Delta(k model.Kind, a, b float64, ascii bool) string {
 // (title, author), every changed input in trade units, the sweeps, every
 // changed result (both Specs evaluated with model.Evaluate), and the
 // measurements, extractions, references, notes and review notes that were
-// added, removed or changed. Identical documents give no rows.
+// added, removed or changed, and the kept batch tables in summary
+// (diffBatches). Identical documents give no rows.
 func Diff(a, b *Document, ascii bool) []Change {
 	var out []Change
 	add := func(sec, q, o, n, d string) {
@@ -374,7 +375,7 @@ func Diff(a, b *Document, ascii bool) []Change {
 			add(SectionReviews, "review notes", fmt.Sprintf("%d notes", len(a.Reviews)), fmt.Sprintf("%d notes", len(b.Reviews)), fmt.Sprintf("%d removed", len(a.Reviews)-kept))
 		}
 	}
-	return out
+	return append(out, diffBatches(a.Batches, b.Batches, ascii)...)
 }
 
 // diffResults evaluates both specs and lists the results that differ.

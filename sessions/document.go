@@ -29,9 +29,10 @@ import (
 )
 
 // SchemaVersion is the version of the session format this package writes.
-// Version 1 is the first released format; documents with a higher version
-// are refused (see SchemaError), lower ones would be migrated.
-const SchemaVersion = 1
+// Version 1 is the first released format; version 2 adds the kept batch
+// tables ("batches"). Documents with a higher version are refused (see
+// SchemaError), lower ones are migrated (format.go).
+const SchemaVersion = 2
 
 // Document is one session: the record of a characterisation. Values are
 // SI; JSON keys name their unit where a value has one. The JSON members
@@ -56,6 +57,9 @@ type Document struct {
 	Notes []string `json:"notes"`
 	// Reviews are the review notes of colleagues, oldest first.
 	Reviews []ReviewNote `json:"review_notes"`
+	// Batches are the batch tables kept with the session (schema 2), in
+	// the order kept.
+	Batches []Batch `json:"batches"`
 }
 
 // Meta describes a document: who made it, when, with which tool version.
@@ -276,6 +280,7 @@ func (d *Document) Clone() *Document {
 	})
 	c.Notes = cloneSlice(d.Notes, nil)
 	c.Reviews = cloneSlice(d.Reviews, nil)
+	c.Batches = cloneBatches(d.Batches)
 	return &c
 }
 

@@ -50,6 +50,16 @@ func normalise(d *Document) *Document {
 	nilIfEmpty(&c.References)
 	nilIfEmpty(&c.Notes)
 	nilIfEmpty(&c.Reviews)
+	nilIfEmpty(&c.Batches)
+	for i := range c.Batches {
+		b := &c.Batches[i]
+		nilIfEmpty(&b.Limits)
+		nilIfEmpty(&b.Notes)
+		nilIfEmpty(&b.Rows)
+		for k := range b.Rows {
+			nilIfEmpty(&b.Rows[k].Infinite)
+		}
+	}
 	for i := range c.Measurements {
 		m := &c.Measurements[i]
 		nilIfEmpty(&m.Units.Assumed)
@@ -103,7 +113,7 @@ func TestGoldenEncoding(t *testing.T) {
 	// Layout properties reviewers rely on.
 	s := string(data)
 	for _, want := range []string{
-		"{\n  \"schema\": 1,\n  \"meta\": {\n",
+		"{\n  \"schema\": 2,\n  \"meta\": {\n",
 		"\n      \"voltage_V\": [0.1, 0.2, 0.3],\n",
 		"\"acceptor_density_per_m3\": 1e+25,",
 		"\"notes\": [\n    \"Wafer 12, die 7.\",\n",
@@ -249,8 +259,8 @@ func TestDecodeErrors(t *testing.T) {
 		{"not an object", "[1,2]", []string{"JSON object"}, new(*SyntaxError)},
 		{"truncated", g[:len(g)/2], []string{"truncated"}, new(*SyntaxError)},
 		{"no schema", `{"meta": {}}`, []string{`no "schema" field`}, new(*SchemaError)},
-		{"schema 0", strings.Replace(g, `"schema": 1`, `"schema": 0`, 1), []string{"schema 0 is not"}, new(*SchemaError)},
-		{"newer schema", strings.Replace(g, `"schema": 1`, `"schema": 7`, 1), []string{"schema 7 is newer", "nothing was read"}, new(*SchemaError)},
+		{"schema 0", strings.Replace(g, `"schema": 2`, `"schema": 0`, 1), []string{"schema 0 is not"}, new(*SchemaError)},
+		{"newer schema", strings.Replace(g, `"schema": 2`, `"schema": 7`, 1), []string{"schema 7 is newer", "nothing was read"}, new(*SchemaError)},
 		{"unknown fields", strings.Replace(strings.Replace(g, `"title":`, `"colour": "red", "title":`, 1), `"temperature_K": 310`, `"temprature_K": 310, "temperature_K": 310`, 1),
 			[]string{"$.meta.colour", "$.spec.temprature_K", "unknown fields"}, new(*UnknownFieldsError)},
 		{"key case", strings.Replace(g, `"title":`, `"Title":`, 1), []string{"$.meta.Title"}, new(*UnknownFieldsError)},

@@ -33,12 +33,17 @@ func (e *SchemaError) Error() string {
 
 // Encode validates doc and returns its JSON: pretty-printed, keys in
 // field order, numeric rows one per line, ending with a newline. The
-// document must carry Schema == SchemaVersion.
+// document must carry Schema == SchemaVersion, and its JSON must stay
+// within MaxDocumentBytes (what junco reads back).
 func Encode(doc *Document) ([]byte, error) {
 	if err := doc.Validate(); err != nil {
 		return nil, err
 	}
-	return strictjson.EncodeSize(doc, sizeHint(doc))
+	data, err := strictjson.EncodeSize(doc, sizeHint(doc))
+	if err == nil && len(data) > MaxDocumentBytes {
+		return nil, fmt.Errorf("the session would be %d MiB: at most %d MiB (MaxDocumentBytes) can be read back; keep fewer data sets or batch tables", len(data)>>20, MaxDocumentBytes>>20)
+	}
+	return data, err
 }
 
 // sizeHint estimates the encoded size of a document: about 26 bytes per
@@ -50,6 +55,9 @@ func sizeHint(doc *Document) int {
 			n += 26 * len(c.Values)
 		}
 		n += 256 * len(m.Problems)
+	}
+	for _, b := range doc.Batches {
+		n += 600 * len(b.Rows)
 	}
 	return n
 }
@@ -209,12 +217,20 @@ type migrator struct {
 	steps   []migration
 }
 
-// currentMigrator returns the migrations of this junco. Schema 1 is the
-// first released format, so there are none yet; a change of the format
-// bumps SchemaVersion and adds the step from the previous version here,
-// with a frozen sample of the old version in testdata.
+// currentMigrator returns the migrations of this junco. A change of the
+// format bumps SchemaVersion and adds the step from the previous version
+// here, with a frozen sample of the old version in testdata
+// (schema1-frozen.json).
 func currentMigrator() migrator {
-	return migrator{current: SchemaVersion}
+	return migrator{current: SchemaVersion, steps: []migration{
+		{From: 1, Note: "kept batch tables: \"batches\" added, empty", Apply: func(doc map[string]any) error {
+			if _, ok := doc["batches"]; ok {
+				return errors.New("a schema 1 document has no \"batches\" member: the schema number is wrong")
+			}
+			doc["batches"] = []any{}
+			return nil
+		}},
+	}}
 }
 
 // MigrationError reports a document that could not be upgraded.
@@ -236,6 +252,11 @@ func (m migrator) upgrade(data []byte, from int) ([]byte, error) {
 	dec.UseNumber()
 	var tree map[string]any
 	if err := dec.Decode(&tree); err != nil {
+		// A damaged file: the strict reader says where (line, column,
+		// truncated), as it does for a document of the current schema.
+		if serr := strictjson.NewReader(data).Skip(); serr != nil {
+			return nil, serr
+		}
 		return nil, &MigrationError{From: from, To: m.current, Err: err}
 	}
 	for v := from; v < m.current; v++ {

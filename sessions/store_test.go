@@ -331,7 +331,7 @@ func TestDamagedFiles(t *testing.T) {
 		"truncated": full[:len(full)/3*2],
 		"garbage":   []byte("\x00\x01binary\xff"),
 		"empty":     {},
-		"newer":     bytes.Replace(full, []byte(`"schema": 1`), []byte(`"schema": 2`), 1),
+		"newer":     bytes.Replace(full, []byte(`"schema": 2`), []byte(`"schema": 3`), 1),
 		"badspec":   bytes.Replace(full, []byte(`"material": "si"`), []byte(`"material": "unobtainium"`), 1),
 	}
 	for n, b := range damage {
@@ -383,7 +383,7 @@ func TestDamagedFiles(t *testing.T) {
 		joined += p.Error() + "\n"
 	}
 	for _, want := range []string{
-		rev1("garbage"), rev1("empty"), rev1("newer"), "schema 2 is newer",
+		rev1("garbage"), rev1("empty"), rev1("newer"), "schema 3 is newer",
 		filepath.Join(dir("good"), "notes.txt"), "bad name", "loose.json",
 	} {
 		if !strings.Contains(joined, want) {
@@ -398,7 +398,7 @@ func TestDamagedFiles(t *testing.T) {
 		"truncated": "truncated",
 		"garbage":   "line 1, column 1",
 		"empty":     "empty document",
-		"newer":     "schema 2 is newer",
+		"newer":     "schema 3 is newer",
 		"badspec":   `(material) = "unobtainium"`,
 	}
 	for n, msg := range wantOpen {

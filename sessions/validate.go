@@ -163,6 +163,7 @@ func (d *Document) Validate() error {
 		}
 		text(p+".text", r.Text, maxLineRunes, true, true)
 	}
+	ps = append(ps, batchProblems(d.Batches)...)
 	if len(ps) == 0 {
 		return nil
 	}

@@ -550,7 +550,11 @@ func (b *historyScreen) draw(m Model, w, h int) []string {
 			padLeft(from, fromW) + " " + cut(what, titleW, g.ellipsis)
 	}
 	out = append(out, "    "+st.muted.Paint(row("REV", "SAVED", "BY", "FROM", "NOTE / ORIGIN / TITLE")))
+	// The note, origin and title wrap under their column (at most
+	// historyLines lines a revision), so that no word of a note is cut.
+	const historyLines = 6
 	var list []string
+	selFrom, selTo := 0, 0
 	for i, r := range b.hist {
 		from := "-"
 		if r.Meta.BasedOn > 0 {
@@ -560,15 +564,34 @@ func (b *historyScreen) draw(m Model, w, h int) []string {
 		if rm := r.Meta.Remark(); rm != "" {
 			what = rm + " " + g.dot + " " + what
 		}
-		l := row(strconv.Itoa(r.Number), stamp(r.Meta.Modified), dashed(r.Meta.SavedBy), from, what)
+		lines := wrapText(what, titleW)
+		if len(lines) > historyLines {
+			lines = lines[:historyLines]
+			lines[historyLines-1] = cut(lines[historyLines-1]+" "+g.ellipsis, titleW, g.ellipsis)
+		}
 		mark := " "
 		if r.Number == b.mark {
 			mark = st.accent.Paint("A")
 		}
 		if i == b.hsel {
-			list = append(list, st.accent.Paint(g.cursor)+mark+"  "+st.selected.Paint(l))
-		} else {
-			list = append(list, " "+mark+"  "+l)
+			selFrom, selTo = len(list), len(list)+len(lines)
+		}
+		for k, text := range lines {
+			l := strings.Repeat(" ", width(row("", "", "", "", "")))
+			if k == 0 {
+				l = row(strconv.Itoa(r.Number), stamp(r.Meta.Modified), dashed(r.Meta.SavedBy), from, "")
+			}
+			l += text
+			switch {
+			case i == b.hsel && k == 0:
+				list = append(list, st.accent.Paint(g.cursor)+mark+"  "+st.selected.Paint(l))
+			case i == b.hsel:
+				list = append(list, "    "+st.selected.Paint(l))
+			case k == 0:
+				list = append(list, " "+mark+"  "+l)
+			default:
+				list = append(list, "    "+l)
+			}
 		}
 	}
 	var tail []string
@@ -580,7 +603,8 @@ func (b *historyScreen) draw(m Model, w, h int) []string {
 	}
 	room := max(h-len(out)-min(len(tail), max(h/3, 3)), 1)
 	if len(list) > room {
-		off := min(max(b.hsel-room/2, 0), len(list)-room)
+		// The selected revision in view, whole where it fits.
+		off := min(max(selFrom-(room-(selTo-selFrom))/2, 0), len(list)-room)
 		list = list[off : off+room]
 	}
 	out = append(out, list...)

@@ -91,6 +91,9 @@ type chartModel struct {
 	plot           []string
 	curveErr       string
 	topPad         int
+	// readRows is the rows of the cursor readout: up to 4 where every
+	// series' value does not fit on one line of the panel.
+	readRows int
 
 	// view is the part of the chart shown, with the cursor; ax the scales
 	// of the last render; shown the curve drawn; drag the last cell of a
@@ -294,8 +297,29 @@ func chartCurve(c chartRequest, s model.Spec) (model.Curve, error) {
 }
 
 // fixedRows is the number of panel rows around the plot.
-// (title, y title, x title, cursor readout, two sweep lines).
-func (c chartModel) fixedRows(legendLines int) int { return 6 + legendLines + c.readoutRows() }
+// (title, y title, x title, cursor readout, two sweep lines; a title and
+// a readout that do not fit on one line take two).
+func (c chartModel) fixedRows(legendLines int) int {
+	return 6 + legendLines + c.readoutRows() + len(c.titleLines(c.w, "")) - 1 + max(c.readRows, 1) - 1
+}
+
+// titleLines is the chart's position and title, wrapped under the title
+// onto a second line when it does not fit in w (the rest cut there), with
+// busy after it.
+func (c chartModel) titleLines(w int, busy string) []string {
+	st, g := c.e.st, c.e.g
+	pos := fmt.Sprintf("%s %d/%d %s ", g.left, c.idx+1, len(c.kinds), g.right)
+	tw := max(w-width(pos), 1)
+	parts := wrapText(c.title+busy, tw)
+	if len(parts) > 2 {
+		parts = []string{parts[0], cut(strings.Join(parts[1:], " "), tw, g.ellipsis)}
+	}
+	out := []string{st.accent.Paint(pos) + st.strong.Paint(parts[0])}
+	if len(parts) > 1 {
+		out = append(out, strings.Repeat(" ", width(pos))+st.strong.Paint(parts[1]))
+	}
+	return out
+}
 
 // capDecades bounds the decades a log chart spans.
 func capDecades(id string) int {
@@ -462,8 +486,6 @@ func (c chartModel) lines() []string {
 	if w < 1 || h < 1 {
 		return nil
 	}
-	var out []string
-	pos := fmt.Sprintf("%s %d/%d %s ", g.left, c.idx+1, len(c.kinds), g.right)
 	busy := ""
 	if c.pending() {
 		busy = " " + g.dot + " computing" + g.ellipsis
@@ -471,7 +493,10 @@ func (c chartModel) lines() []string {
 	if c.num.solving {
 		busy = " " + g.dot + " solving" + g.ellipsis
 	}
-	out = append(out, st.accent.Paint(pos)+st.strong.Paint(cut(c.title, max(w-width(pos)-width(busy), 0), g.ellipsis))+st.faint.Paint(busy))
+	out := c.titleLines(w, busy)
+	if n := len(c.titleLines(w, "")); len(out) > n {
+		out = c.titleLines(w, "") // the rows were counted without it
+	}
 	if c.curveErr != "" || c.plot == nil {
 		msg := c.curveErr
 		switch {
@@ -505,7 +530,7 @@ func (c chartModel) lines() []string {
 	}
 	out = append(out, c.plot...)
 	out = append(out, st.muted.Paint(padLeft(cut(c.xTitle, w, g.ellipsis), w)))
-	out = append(out, c.cursorLine(w))
+	out = append(out, c.cursorLines(w)...)
 	out = append(out, c.readout(w)...)
 	out = append(out, c.sweepLines(w)...)
 	return block(out, w, h, g.ellipsis)

@@ -12,7 +12,7 @@ import (
 // idealised components are drawn clipped to the frame, never allowed to
 // set it.
 func (c *chartModel) render() {
-	c.plot, c.legend, c.curveErr, c.topPad = nil, nil, "", 0
+	c.plot, c.legend, c.curveErr, c.topPad, c.readRows = nil, nil, "", 0, 1
 	c.ax = drawnAxes{}
 	k := c.kind()
 	c.title = k.name
@@ -32,6 +32,15 @@ func (c *chartModel) render() {
 	}
 	c.shown = cur
 	c.title = cur.Title
+	// The readout takes the rows the values of every series need where
+	// the panel has the height (2 from 20 rows, 4 from 30).
+	c.readRows = 1
+	switch {
+	case c.h >= 30:
+		c.readRows = min(4, max(readoutLines(cur, pinned != nil, c.w), c.hintLines(c.w)))
+	case c.h >= 20:
+		c.readRows = min(2, max(readoutLines(cur, pinned != nil, c.w), c.hintLines(c.w)))
+	}
 	if len(extra) > 0 {
 		c.title += " " + g.dot + " with the drift-diffusion solution"
 	}
@@ -78,6 +87,9 @@ func (c *chartModel) render() {
 		if m, ok := splitMap(xlo, xhi); ok {
 			xm = m
 			c.xTitle = axisTitle(cur.X.Label, xUnit) + ", each side of the junction to its own scale"
+			if width(c.xTitle) > c.w {
+				c.xTitle = axisTitle(cur.X.Label, xUnit) + ", each side to its own scale"
+			}
 		}
 	}
 	c.ax.xm = xm

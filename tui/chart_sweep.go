@@ -153,11 +153,18 @@ func (c chartModel) sweepLines(w int) []string {
 	default:
 		l1 = "at the bias in force, " + f(model.Voltage, c.spec.Bias) + " (Define, step 5)"
 	}
-	if c.kind().sweep != sweepNone {
-		l1 += "  " + g.dot + "  r: change"
-	}
 	if c.editErr != "" {
 		l2 = st.err.Paint(g.bad + " " + c.editErr)
+	}
+	if c.kind().sweep != sweepNone {
+		// "r: change" beside the sweep, or on the free second line when
+		// the sweep fills the first.
+		switch more := "  " + g.dot + "  r: change"; {
+		case width(l1+more) <= w:
+			l1 += more
+		case l2 == "":
+			l2 = st.muted.Paint("r: change the sweep")
+		}
 	}
 	return []string{st.muted.Paint(cut(l1, w, g.ellipsis)), cut(l2, w, g.ellipsis)}
 }

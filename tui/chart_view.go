@@ -287,22 +287,30 @@ func (c *chartModel) mouse(msg tea.MouseMsg, x, y int) {
 	c.render()
 }
 
-// cursorLine is the readout under the plot: the cursor's x and every
-// series' y there in trade units, or what the view keys do.
-func (c chartModel) cursorLine(w int) string {
+// cursorLines is the readout under the plot, on readRows lines: the
+// cursor's x and every series' y there in trade units (flowing onto the
+// second line where the panel is narrow), or what the view keys do.
+func (c chartModel) cursorLines(w int) []string {
 	st, g, ascii := c.e.st, c.e.g, c.e.ascii
+	rows := max(c.readRows, 1)
+	pad := func(out []string) []string {
+		for len(out) < rows {
+			out = append(out, "")
+		}
+		return out
+	}
 	d := c.data
 	i := c.view.cursor
 	if d == nil || d.err != nil || c.plot == nil || i < 0 || i >= len(d.cur.Xs) || d.cur.ID == "carriers" && !c.num.on {
-		hint := "c cursor " + g.dot + " +/- zoom " + g.dot + " H/J/K/L pan " + g.dot + " x log x " + g.dot + " 0 whole chart"
-		if c.view.zoomed() {
-			hint = "zoomed " + g.dot + " 0 shows the whole chart " + g.dot + " " + hint
+		var out []string
+		for _, l := range flowParts(c.viewHints(), " "+g.dot+" ", w, rows, g.ellipsis) {
+			out = append(out, st.faint.Paint(l))
 		}
-		return st.faint.Paint(cut(hint, w, g.ellipsis))
+		return pad(out)
 	}
 	cur := c.shown
 	if i >= len(cur.Xs) {
-		return ""
+		return pad(nil)
 	}
 	parts := []string{st.strong.Paint(symbolOf(cur.X.Label) + " " + valueText(cur.X, cur.Xs[i], ascii))}
 	// The total first: a narrow panel cuts the components.
@@ -326,11 +334,68 @@ func (c chartModel) cursorLine(w int) string {
 		ps := pinnedSeries(*p)
 		parts = append(parts, st.pinSeries.Paint("pinned")+" "+valueText(p.Y, p.Series[ps].Y[i], ascii))
 	}
-	line := g.cursor + " " + strings.Join(parts, "  ")
+	parts[0] = g.cursor + " " + parts[0]
 	if !c.ax.cursorInFrame {
-		line += "  " + st.faint.Paint("(outside the view)")
+		parts = append(parts, st.faint.Paint("(outside the view)"))
 	}
-	return cut(line, w, g.ellipsis)
+	return pad(flowParts(parts, "  ", w, rows, g.ellipsis))
+}
+
+// viewHints are what the view keys do, shown under the plot while the
+// cursor is off.
+func (c chartModel) viewHints() []string {
+	items := []string{"c cursor", ", . walk", "+/- zoom", "H/J/K/L pan", "x log x", "0 whole chart"}
+	if c.view.zoomed() {
+		items = append([]string{"zoomed", "0 shows the whole chart"}, items[:5]...)
+	}
+	return items
+}
+
+// readoutLines is the number of lines the cursor readout of curve cur
+// takes in w cells: the x, each series' label with a value and the
+// pinned value, flowed as cursorLines does (values taken as 10 cells,
+// "-123.4 mA").
+func readoutLines(cur model.Curve, pinned bool, w int) int {
+	const value = "-123.4 mA "
+	parts := []string{"> " + symbolOf(cur.X.Label) + " " + value}
+	for _, s := range cur.Series {
+		parts = append(parts, s.Label+" "+value)
+	}
+	if pinned {
+		parts = append(parts, "pinned "+value)
+	}
+	return len(flowParts(parts, "  ", w, len(parts), ""))
+}
+
+// hintLines is the number of lines the view hints take in w cells.
+func (c chartModel) hintLines(w int) int {
+	h := c.viewHints()
+	return len(flowParts(h, " . ", w, len(h), ""))
+}
+
+// flowParts joins parts with sep into lines of at most w cells, at most
+// maxLines lines; what does not fit on the last is cut there with tail.
+func flowParts(parts []string, sep string, w, maxLines int, tail string) []string {
+	var out []string
+	line := ""
+	for _, p := range parts {
+		switch {
+		case line == "":
+			line = p
+		case width(line)+width(sep)+width(p) <= w || len(out) == maxLines-1:
+			line += sep + p
+		default:
+			out = append(out, line)
+			line = p
+		}
+	}
+	if line != "" {
+		out = append(out, line)
+	}
+	for i := range out {
+		out[i] = cut(out[i], w, tail)
+	}
+	return out
 }
 
 // symbolOf is the symbol at the end of an axis label ("bias V" -> "V"),

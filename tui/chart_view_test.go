@@ -141,7 +141,7 @@ func TestChartCursorReadoutAndZoom(t *testing.T) {
 		t.Fatal("c did not put the cursor on")
 	}
 	xs := m.chart.shown.Xs
-	read := func(m Model) string { return ansi.Strip(m.chart.cursorLine(200)) }
+	read := func(m Model) string { return ansi.Strip(strings.Join(m.chart.cursorLines(200), " ")) }
 	if want := model.Format(model.Voltage, xs[i], 4, false); !strings.Contains(read(m), "V "+want) {
 		t.Errorf("readout %q lacks the cursor's bias %q", read(m), want)
 	}

@@ -72,7 +72,13 @@ func (m Model) geometry() (fw, fh, sw, sh, cw, ch int) {
 		lw := min(64, max(54, w*48/100))
 		switch m.focus {
 		case panelDefine:
-			lw = min(max(lw, m.form.need()), w-1-m.sheet.minNeed())
+			// The side panel keeps what it needs: the sheet its values
+			// (with the changes against a pin), the charts a readable plot.
+			side := m.sheet.minNeed()
+			if m.rightPanel() == panelCharts {
+				side = chartSideMinW
+			}
+			lw = min(max(lw, m.form.need()), w-1-side)
 		case panelResults:
 			lw = w - 1 - min(max(w-1-lw, m.sheet.need()), w-1-formMinW)
 		}
@@ -95,6 +101,10 @@ func (m Model) geometry() (fw, fh, sw, sh, cw, ch int) {
 	}
 	return
 }
+
+// chartSideMinW is the narrowest the charts are made beside a focused
+// definition panel.
+const chartSideMinW = 40
 
 func (m Model) sheetNeed(w int) int {
 	if m.sheet.w == w && m.sheet.built != nil {

@@ -35,7 +35,8 @@ type batchScreen struct {
 	dir      string // the directory of the run shown
 	// wm is the wafer map of the run shown: focus, die cursor, column,
 	// wafer and the die's fit when one is open.
-	wm waferMapState
+	wm   waferMapState
+	keep batchKeepState // kept tables (batch_keep.go)
 }
 
 // batchProgressMsg reports n of total files finished in run seq.
@@ -148,7 +149,7 @@ func (b *batchScreen) finish(msg batchDoneMsg) {
 // batchKeys is the key map of the batch screen: the directory, the
 // wafer map (measure_batch_map.go) and a die's fit.
 type batchKeys struct {
-	Run, Focus, Walk, Param, Export, Close key.Binding
+	Run, Focus, Walk, Param, Export, Keep, Kept, Close key.Binding
 	// On the map: Walk and Param are their help.
 	Left, Right, Up, Down, Open, Next, Prev, Wafer, AddDie key.Binding
 }
@@ -159,10 +160,13 @@ func (k KeyMap) batchKeys() batchKeys {
 	}
 	return batchKeys{Run: b([]string{"enter"}, "enter", "fit the files / open the die"),
 		Focus:  b([]string{"tab", "shift+tab"}, "tab", "directory/map"),
-		Export: b([]string{"ctrl+e"}, "ctrl+e", "export CSV"), Close: b([]string{"esc"}, "esc", "cancel or close"),
-		Walk:  b([]string{"up", "down", "left", "right"}, "arrows", "walk dies"),
-		Param: b([]string{"[", "]"}, "[ ]", "parameter"),
-		Left:  b([]string{"left", "h"}, "left", "die on the left"), Right: b([]string{"right", "l"}, "right", "die on the right"),
+		Export: b([]string{"ctrl+e"}, "ctrl+e", "export CSV"),
+		Keep:   b([]string{"ctrl+k"}, "ctrl+k", "keep with the session"),
+		Kept:   b([]string{"pgup", "pgdown"}, "pgup/pgdn", "kept tables"),
+		Close:  b([]string{"esc"}, "esc", "cancel or close"),
+		Walk:   b([]string{"up", "down", "left", "right"}, "arrows", "walk dies"),
+		Param:  b([]string{"[", "]"}, "[ ]", "parameter"),
+		Left:   b([]string{"left", "h"}, "left", "die on the left"), Right: b([]string{"right", "l"}, "right", "die on the right"),
 		Up: b([]string{"up", "k"}, "up", "die above"), Down: b([]string{"down", "j"}, "down", "die below"),
 		Open: b([]string{"enter"}, "enter", "open the die"),
 		Next: b([]string{"]"}, "]", "next parameter"), Prev: b([]string{"["}, "[", "previous parameter"),
@@ -171,7 +175,7 @@ func (k KeyMap) batchKeys() batchKeys {
 }
 
 func (k batchKeys) ShortHelp() []key.Binding {
-	return []key.Binding{k.Run, k.Focus, k.Walk, k.Param, k.Wafer, k.Export, k.Close}
+	return []key.Binding{k.Run, k.Focus, k.Walk, k.Param, k.Wafer, k.Export, k.Keep, k.Kept, k.Close}
 }
 
 func (b *batchScreen) footer(m Model) []key.Binding { return m.e.keys.batchKeys().ShortHelp() }
@@ -191,6 +195,9 @@ func (b *batchScreen) listen(_ *Model, msg tea.Msg) tea.Cmd {
 // export, and the wafer map's keys (mapKey).
 func (b *batchScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
 	k := m.e.keys.batchKeys()
+	if b.keepKey(m, k, km) {
+		return nil
+	}
 	switch {
 	case keyIs(km, k.Close) && b.wm.die != nil:
 		b.wm.die = nil
@@ -359,7 +366,7 @@ func (b *batchScreen) export(m *Model) {
 		m.note = "exports are not available here"
 		return
 	}
-	name := "batch-" + m.sess.now().UTC().Format("20060102-150405") + ".csv"
+	name := fit.BatchExportName(m.sess.now())
 	path := name
 	if _, local := files.(model.LocalFiles); local && b.dir != "" {
 		dir := b.dir

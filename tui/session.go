@@ -36,8 +36,9 @@ type snapshot struct {
 	pin  *model.Spec
 	// notes are the session notes.
 	notes []string
-	// measN is the number of measurements, extrN of kept fits.
-	measN, extrN int
+	// measN is the number of measurements, extrN of kept fits, batchN of
+	// kept batch tables.
+	measN, extrN, batchN int
 	// sweeps are the document's sweeps as opened: a sweep the user has
 	// not changed is saved as it was.
 	sweeps sessions.Sweeps
@@ -52,6 +53,7 @@ type editKey struct {
 	notes    int
 	meas     int
 	extr     int
+	batches  int
 }
 
 // session is the persistence side of a workbench: the store, who works,
@@ -86,6 +88,9 @@ type session struct {
 	meas []sessions.Measurement
 	// extr are the fits kept with the session (ctrl+k on the fit screen).
 	extr []sessions.Extraction
+	// batches are the batch tables kept with the session (ctrl+k on the
+	// batch screen; batch_keep.go).
+	batches []sessions.Batch
 	// pinRef names the reference the pin stands for; pinnedAt is when the
 	// user pinned.
 	pinRef   string
@@ -114,7 +119,7 @@ func (s session) noStoreText(what string) string {
 
 // editKey returns the key of the saveable state in force.
 func (m Model) editKey() editKey {
-	return editKey{formRev: m.form.rev, iv: m.chart.iv, temp: m.chart.temp, pin: m.pin, notes: len(m.sess.notes), meas: len(m.sess.meas), extr: len(m.sess.extr)}
+	return editKey{formRev: m.form.rev, iv: m.chart.iv, temp: m.chart.temp, pin: m.pin, notes: len(m.sess.notes), meas: len(m.sess.meas), extr: len(m.sess.extr), batches: len(m.sess.batches)}
 }
 
 // Dirty reports whether there are changes not yet saved: the junction, the
@@ -129,7 +134,7 @@ func (m Model) Dirty() bool {
 	if !reflect.DeepEqual(m.form.spec, b.spec) || len(m.form.bad()) > 0 {
 		return true
 	}
-	if m.chart.iv != b.iv || m.chart.temp != b.temp || !slices.Equal(m.sess.notes, b.notes) || len(m.sess.meas) != b.measN || len(m.sess.extr) != b.extrN {
+	if m.chart.iv != b.iv || m.chart.temp != b.temp || !slices.Equal(m.sess.notes, b.notes) || len(m.sess.meas) != b.measN || len(m.sess.extr) != b.extrN || len(m.sess.batches) != b.batchN {
 		return true
 	}
 	switch {
@@ -143,7 +148,7 @@ func (m Model) Dirty() bool {
 
 // setBaseline records the state in force as saved.
 func (m *Model) setBaseline() {
-	b := snapshot{spec: m.form.spec, iv: m.chart.iv, temp: m.chart.temp, notes: slices.Clone(m.sess.notes), measN: len(m.sess.meas), extrN: len(m.sess.extr)}
+	b := snapshot{spec: m.form.spec, iv: m.chart.iv, temp: m.chart.temp, notes: slices.Clone(m.sess.notes), measN: len(m.sess.meas), extrN: len(m.sess.extr), batchN: len(m.sess.batches)}
 	if m.pin != nil {
 		s := m.pin.Spec
 		b.pin = &s
@@ -265,6 +270,9 @@ func (m Model) document(title string) (*sessions.Document, error) {
 	if len(m.sess.extr) > 0 || len(d.Extractions) > 0 {
 		d.Extractions = slices.Clone(m.sess.extr)
 	}
+	if len(m.sess.batches) > 0 || len(d.Batches) > 0 {
+		d.Batches = slices.Clone(m.sess.batches)
+	}
 	return &d, nil
 }
 
@@ -314,6 +322,10 @@ func (m *Model) applyExtras(doc *sessions.Document) {
 	m.sess.notes = slices.Clone(doc.Notes)
 	m.sess.meas = slices.Clone(doc.Measurements)
 	m.sess.extr = slices.Clone(doc.Extractions)
+	m.sess.batches = slices.Clone(doc.Batches)
+	if n := len(doc.Batches); n > 0 {
+		notes = append(notes, "the session keeps "+plural(n, "batch table", "batch tables")+": B, then pgup shows them")
+	}
 	m.sess.reviews = slices.Clone(doc.Reviews)
 	m.pushNotes()
 	m.chart.render()

@@ -218,7 +218,45 @@ func (s sheetModel) naturalCols() sheetCols {
 	if s.pin != nil {
 		c.delta, c.pct = 14, 10 // "+2.37 nF/cm^2", " +1.2e5%" and gaps
 	}
+	if s.res != nil {
+		// The flag marks and the changes as wide as the longest, with a
+		// gap before each column: no column runs into the next.
+		flagNo := flagNumbers(s.res)
+		for _, q := range s.res.Quantities {
+			c.marks = max(c.marks, width(markText(q, flagNo))+1)
+			if s.pin != nil {
+				d, p := deltaText(q, s.pin, s.e.ascii)
+				c.delta, c.pct = max(c.delta, width(d)+1), max(c.pct, width(p)+1)
+			}
+		}
+	}
 	return c
+}
+
+// flagNumbers numbers the flags of r from 1, so that marks beside values
+// point into the list of warnings.
+func flagNumbers(r *model.Result) map[string]int {
+	flagNo := map[string]int{}
+	for i, f := range r.Flags {
+		if _, ok := flagNo[f.Code]; !ok {
+			flagNo[f.Code] = i + 1
+		}
+	}
+	return flagNo
+}
+
+// markText is the marks of q's flags, " [1,2]" ("" without flags).
+func markText(q model.Quantity, flagNo map[string]int) string {
+	var marks []string
+	for _, code := range q.Flags {
+		if n, ok := flagNo[code]; ok {
+			marks = append(marks, strconv.Itoa(n))
+		}
+	}
+	if len(marks) == 0 {
+		return ""
+	}
+	return " [" + strings.Join(marks, ",") + "]"
 }
 
 func (s sheetModel) cols(w int) sheetCols {
@@ -276,13 +314,7 @@ func (s sheetModel) allLines() []string {
 	var out []string
 	out = append(out, s.noteLines(w)...)
 
-	// Number the flags so that marks beside values point into the list.
-	flagNo := map[string]int{}
-	for i, f := range r.Flags {
-		if _, ok := flagNo[f.Code]; !ok {
-			flagNo[f.Code] = i + 1
-		}
-	}
+	flagNo := flagNumbers(r)
 	c := s.cols(w)
 	twoCol := w >= 2*c.total()+3
 	var blocks [][]string
@@ -402,17 +434,7 @@ func (s sheetModel) group(grp string, c sheetCols, flagNo map[string]int) []stri
 		}
 		b.WriteString(st.muted.Paint(padRight(q.Symbol, c.sym-1, g.ellipsis) + " "))
 		b.WriteString(st.strong.Paint(padLeft(q.Text(4, ascii), c.val)))
-		var marks []string
-		for _, code := range q.Flags {
-			if n, ok := flagNo[code]; ok {
-				marks = append(marks, strconv.Itoa(n))
-			}
-		}
-		m := ""
-		if len(marks) > 0 {
-			m = " [" + strings.Join(marks, ",") + "]"
-		}
-		b.WriteString(st.warn.Paint(padRight(m, c.marks, "]")))
+		b.WriteString(st.warn.Paint(padRight(markText(q, flagNo), c.marks, "]")))
 		if s.pin != nil {
 			d, p := deltaText(q, s.pin, ascii)
 			b.WriteString(st.pinned.Paint(padLeft(d, c.delta)))

@@ -173,3 +173,23 @@ func OutlierParams(stats [5]extract.Summary) map[int][]int {
 	}
 	return m
 }
+
+// BatchNotes says, one line each, the options of a batch's fits that a
+// kept batch table records beside its rows: the window, the compliance
+// and the noise floor when given (each row carries its own temperature
+// and its source).
+func BatchNotes(opt IVOptions) []string {
+	var out []string
+	if w := opt.Window; w.IsZero() {
+		out = append(out, "window: every forward point")
+	} else {
+		out = append(out, fmt.Sprintf("window %g V to %g V", w.MinV, w.MaxV))
+	}
+	if opt.ComplianceA > 0 {
+		out = append(out, fmt.Sprintf("compliance %g A (given)", opt.ComplianceA))
+	}
+	if opt.FloorA > 0 {
+		out = append(out, fmt.Sprintf("noise floor %g A (given)", opt.FloorA))
+	}
+	return out
+}

@@ -3,11 +3,33 @@ package fit
 import (
 	"encoding/csv"
 	"io"
-	"junco/physics/extract"
 	"math"
+	"path/filepath"
 	"strconv"
 	"strings"
+	"time"
+
+	"junco/physics/extract"
 )
+
+// BatchExportName is the name of a batch table the workbench writes
+// beside the files at t: batch-YYYYMMDD-HHMMSS.csv (UTC).
+func BatchExportName(t time.Time) string {
+	return "batch-" + t.UTC().Format("20060102-150405") + ".csv"
+}
+
+// IsBatchExport reports whether the base name of path is a batch table
+// written by BatchExportName: such a table is never a data file of a
+// batch (BatchFiles leaves it out), so that a folder fitted again does not
+// take its own exported table for a measurement.
+func IsBatchExport(path string) bool {
+	b := filepath.Base(path)
+	if len(b) != len("batch-20060102-150405.csv") || !strings.HasPrefix(b, "batch-") || !strings.EqualFold(b[len(b)-4:], ".csv") {
+		return false
+	}
+	_, err := time.Parse("20060102-150405", b[6:len(b)-4])
+	return err == nil
+}
 
 func csvNum(v float64) string {
 	if math.IsNaN(v) {

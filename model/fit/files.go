@@ -115,8 +115,9 @@ const (
 // system): each path that is a file is taken as given; each directory is
 // walked recursively (entries whose name starts with "." skipped, at most
 // MaxBatchDepth levels) for regular files with a data extension
-// (IsDataFile), sorted by path; a folder's die manifest (ManifestName) is
-// not a data file and is left out. A missing path, an empty result and more
+// (IsDataFile), sorted by path; a folder's die manifest (ManifestName) and
+// the batch tables the workbench wrote there (IsBatchExport) are not data
+// files and are left out. A missing path, an empty result and more
 // than MaxBatchFiles files are errors. With an inbox for files, "" names
 // the inbox itself.
 func BatchFiles(files model.Files, paths ...string) ([]string, error) {
@@ -200,7 +201,7 @@ func batchWalk(files model.Files, root, dir string, depth int, found *[]string) 
 			if err := batchWalk(files, root, q, depth+1, found); err != nil {
 				return err
 			}
-		case e.Type().IsRegular() && IsDataFile(q) && !isManifest(q):
+		case e.Type().IsRegular() && IsDataFile(q) && !isManifest(q) && !IsBatchExport(q):
 			*found = append(*found, q)
 			if len(*found) > MaxBatchFiles {
 				return fmt.Errorf("more than %d data files under %s: at most %d are fitted in one batch; split it", MaxBatchFiles, root, MaxBatchFiles)

@@ -130,6 +130,10 @@ func FreeID(prefix string, taken func(string) bool) string {
 	}
 }
 
+// BatchRecordID is the ID of a new kept batch table: batch-K with the
+// smallest free K (taken reports the IDs in use).
+func BatchRecordID(taken func(string) bool) string { return FreeID("batch", taken) }
+
 // RecordID is the ID of a new record of measurement: MEASUREMENT-fit-K
 // with the smallest free K (taken reports the IDs in use), so that a new
 // record never collides with one the session holds.

@@ -55,7 +55,9 @@ func (o ExportOptions) prefix() string {
 // for each kept fit drawn against its data), for csv one NAME-rN-ID.csv per
 // curve, NAME-rN-data-ID.csv per measured data set, NAME-rN-fit-ID.csv per
 // kept fit with a data set (bias, measured and fitted values) and
-// NAME-rN-fits.csv with the parameters of every fit, for json NAME-rN.json.
+// NAME-rN-fits.csv with the parameters of every fit and NAME-rN-ID.csv
+// per kept batch table, for json NAME-rN.json. A kept batch's wafer maps
+// are NAME-rN-ID-map-KEY.svg.
 func Export(doc *sessions.Document, f ExportFormat, o ExportOptions) ([]File, error) {
 	if err := sessions.ValidateName(o.Session); err != nil {
 		return nil, err
@@ -85,7 +87,8 @@ func Export(doc *sessions.Document, f ExportFormat, o ExportOptions) ([]File, er
 		if len(doc.Extractions) > 0 {
 			out = append(out, File{Name: o.prefix() + "-fits.csv", Data: FitParametersCSV(doc)})
 		}
-		return out, nil
+		batches, err := batchCSVFiles(doc, o)
+		return append(out, batches...), err
 	case FormatMarkdown:
 		return Report(doc, o)
 	}
@@ -279,6 +282,7 @@ func Report(doc *sessions.Document, o ExportOptions) ([]File, error) {
 			}
 		}
 	}
+	files = append(files, batchSection(&b, doc, o)...)
 	report := File{Name: o.prefix() + ".md", Data: []byte(b.String())}
 	return append([]File{report}, files...), nil
 }

@@ -174,10 +174,20 @@ func BatchReport(res *fit.BatchResult, o BatchReportOptions) ([]File, error) {
 	p := func(format string, a ...any) { fmt.Fprintf(&b, format, a...) }
 	p("# Batch fit: %s\n\n", md(o.Name))
 	p("Computed by junco %s: %d files, %d fitted, %d failed, %d not run; %s diode model.\n\n", mdCell(orDash(o.ToolVersion)), len(res.Rows), res.Fitted, res.Failed, res.NotRun, mdCell(orDash(o.Model)))
+	figs := batchBody(&b, res, o, "##", o.Name, true)
+	return append([]File{{Name: o.Name + ".md", Data: []byte(b.String())}}, figs...), nil
+}
+
+// batchBody writes the sections of a batch's report under headings of
+// level h ("##"): the summary of each column, the limits and yield, the
+// wafer maps (with figures: SVG files named stem-map-KEY[-wN].svg,
+// linked) and the failed files; it returns the SVG files.
+func batchBody(b *strings.Builder, res *fit.BatchResult, o BatchReportOptions, h, stem string, figures bool) []File {
+	p := func(format string, a ...any) { fmt.Fprintf(b, format, a...) }
 	if res.Interrupted {
 		p("The batch was interrupted: the files not run are marked.\n\n")
 	}
-	p("## Summary\n\nQuartiles by linear interpolation; outliers beyond 1.5 IQR, on a log scale for Is, Is2 and Rsh.\n\n")
+	p("%s Summary\n\nQuartiles by linear interpolation; outliers beyond 1.5 IQR, on a log scale for Is, Is2 and Rsh.\n\n", h)
 	p("| parameter | N | median | Q1 | Q3 | outliers |\n|---|---|---|---|---|---|\n")
 	var params []int
 	for j, bp := range fit.BatchParams() {
@@ -191,7 +201,7 @@ func BatchReport(res *fit.BatchResult, o BatchReportOptions) ([]File, error) {
 	}
 	if len(o.Limits) > 0 {
 		y := fit.BatchYield(res.Rows, o.Limits)
-		p("\n## Limits and yield\n\n%d dies tested; a failed fit fails every limit.\n\n| parameter | min | max | passed | yield |\n|---|---|---|---|---|\n", y.Tested)
+		p("\n%s Limits and yield\n\n%d dies tested; a failed fit fails every limit.\n\n| parameter | min | max | passed | yield |\n|---|---|---|---|---|\n", h, y.Tested)
 		pct := func(a, t int) string {
 			if t == 0 {
 				return "-"
@@ -213,11 +223,15 @@ func BatchReport(res *fit.BatchResult, o BatchReportOptions) ([]File, error) {
 	if o.Param >= 0 {
 		params = []int{o.Param}
 	}
-	files := []File{{Name: o.Name + ".md"}}
+	var files []File
 	wafers := fit.Wafers(res.Rows)
-	p("\n## Wafer maps\n\n")
-	if len(wafers) == 0 {
+	p("\n%s Wafer maps\n\n", h)
+	switch {
+	case len(wafers) == 0:
 		p("No die positions: name the files like `die_x03_y07.csv` or `r07c03.csv`, or list them in `%s`.\n", fit.ManifestName)
+	case !figures:
+		params = nil
+		p("Drawn as SVG figures when the report is exported with its figures.\n\n")
 	}
 	for _, j := range params {
 		for i, wf := range wafers {
@@ -226,7 +240,7 @@ func BatchReport(res *fit.BatchResult, o BatchReportOptions) ([]File, error) {
 				p("%s: %s\n\n", mdCell(fit.BatchParams()[j].Label), md(err.Error()))
 				continue
 			}
-			name := o.Name + "-map-" + slug(fit.BatchParams()[j].Symbol)
+			name := stem + "-map-" + slug(fit.BatchParams()[j].Symbol)
 			if len(wafers) > 1 {
 				name += "-w" + strconv.Itoa(i+1)
 			}
@@ -240,7 +254,7 @@ func BatchReport(res *fit.BatchResult, o BatchReportOptions) ([]File, error) {
 		}
 	}
 	if res.Failed > 0 {
-		p("## Failed files\n\n")
+		p("%s Failed files\n\n", h)
 		shown := 0
 		for _, r := range res.Rows {
 			if r.Status != fit.StatusError {
@@ -254,8 +268,7 @@ func BatchReport(res *fit.BatchResult, o BatchReportOptions) ([]File, error) {
 			shown++
 		}
 	}
-	files[0].Data = []byte(b.String())
-	return files, nil
+	return files
 }
 
 func oneLineErr(err error) string {

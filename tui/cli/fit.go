@@ -85,6 +85,7 @@ page: junco fit SUBCOMMAND --help.
                        [--model single|double] [--compliance I] [--floor I]
                        [--json] [--ascii]
                        [--map PARAM] [--limit PARAM:MIN:MAX]... [--report FILE.md]
+                       [--save-to NAME] [--data DIR]
       Fit many I-V files in parallel: the files named and every .csv,
       .tsv, .txt and .dat file under each directory (subdirectories too,
       hidden entries skipped), in sorted order; summary per parameter
@@ -94,7 +95,8 @@ page: junco fit SUBCOMMAND --help.
       in the files' folder, else from names like die_x03_y07 or r07c03.
       --map draws the wafer map of PARAM (Is, n, Rs, Rsh, Is2); --limit
       marks dies out of limits and prints the yield (n:1.0:1.2, Rs::5ohm);
-      --report writes a Markdown report with SVG wafer maps beside it.
+      --report writes a Markdown report with SVG wafer maps beside it;
+      --save-to keeps the batch table with a session (batch-1, ...).
 
 ` + fitSaveHelp + "\n\n" + fitDataHelp
 
@@ -102,7 +104,8 @@ page: junco fit SUBCOMMAND --help.
 const fitSaveHelp = `--save-to NAME (fit iv and cv) stores each data set fitted (IDs iv-1, cv-1,
 ...) and its fit (parameters with standard errors; window and residual in
 the notes) as the next revision of session NAME, created with the default
-junction when missing; failed fits are not stored. --data DIR selects the
+junction when missing; failed fits are not stored (fit batch --save-to
+keeps its table: see junco fit batch --help). --data DIR selects the
 session store (default $XDG_DATA_HOME/junco, else ~/.local/share/junco).`
 
 // fitDataHelp tells what data files the fits read and the units of values.

@@ -15,6 +15,7 @@ import (
 	"junco/model"
 	"junco/model/fit"
 	"junco/physics/extract"
+	"junco/sessions"
 )
 
 // fitBatchSub is `junco fit batch`.
@@ -31,7 +32,7 @@ die_x03_y07 or r07c03. --map draws the wafer map of PARAM (Is, n, Rs, Rsh,
 Is2); --limit marks dies out of limits and prints the yield (n:1.0:1.2,
 Rs::5ohm); --report writes a Markdown report with SVG wafer maps beside it.
 
-` + fitDataHelp,
+` + fitBatchSaveHelp + "\n\n" + fitDataHelp,
 	flags: []fitFlag{
 		{"jobs", "N", "workers fitting at once, 1..1024 (default: the number of CPUs)"},
 		{"csv", "OUT", "write the table of every file's parameters as CSV to OUT (- for standard output)"},
@@ -43,6 +44,7 @@ Rs::5ohm); --report writes a Markdown report with SVG wafer maps beside it.
 		{"map", "PARAM", "draw the wafer map of PARAM: Is, n, Rs, Rsh or Is2"},
 		{"limit", "PARAM:MIN:MAX", "mark dies out of limits and print the yield, e.g. n:1.0:1.2 or Rs::5ohm (repeatable)"},
 		{"report", "FILE.md", "write a Markdown report with SVG wafer maps beside it"},
+		fitBatchSaveFlags[0], fitBatchSaveFlags[1],
 		{"json", "", "print JSON in SI units instead of text"},
 		{"ascii", "", "plain ASCII output (u for micro)"},
 	},
@@ -59,6 +61,13 @@ func fitRunBatch(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) int 
 	if err != nil {
 		fmt.Fprintln(stderr, err)
 		return exitUsage
+	}
+	saveTo, wantSave := a.str("save-to")
+	if wantSave {
+		if err := fitSaveCheckName("batch", saveTo); err != nil {
+			fmt.Fprintln(stderr, err)
+			return exitUsage
+		}
 	}
 	code := exitOK
 	jobs := runtime.NumCPU()
@@ -153,6 +162,11 @@ func fitRunBatch(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) int 
 			return exitFailure
 		}
 		fmt.Fprintf(stderr, "junco fit batch: wrote %s\n", strings.Join(paths, ", "))
+	}
+	if wantSave {
+		dir, _ := a.str("data")
+		b := sessions.NewBatch(fitBatchFolder(a.pos), res, wo.limits, c.ivOptions(), time.Now())
+		code = max(code, fitBatchSave(dir, saveTo, b, ok, stderr))
 	}
 	if csvOut != nil {
 		if err := fit.WriteBatchCSV(csvOut, res, wo.limits); err != nil {

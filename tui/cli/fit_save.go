@@ -65,11 +65,28 @@ type fitSaveResult struct {
 // end). A session that does not exist is created with the default
 // junction. Either the whole revision is stored or nothing.
 func fitSaveToSession(dataDir, name string, items []fitSaveItem, now time.Time, stderr io.Writer) (fitSaveResult, error) {
-	if err := sessions.ValidateName(name); err != nil {
-		return fitSaveResult{}, err
-	}
 	if len(items) == 0 {
 		return fitSaveResult{}, errors.New("no successful fit to store")
+	}
+	var added []string
+	res, err := fitUpdateSession(dataDir, name, now, stderr, func(doc *sessions.Document) error {
+		added = fitAppendItems(doc, items, now)
+		return nil
+	})
+	res.Measurements = added
+	return res, err
+}
+
+// fitUpdateSession stores the next revision of session name in the store
+// at dataDir (default location when empty): add changes the newest
+// readable revision (a new document with the default junction when the
+// session does not exist) and the result is saved on top of it; when
+// another save came first, add runs again on the new newest revision
+// (sessions.Store.Update, the one save-with-retry of every front end).
+// Either the whole revision is stored or nothing.
+func fitUpdateSession(dataDir, name string, now time.Time, stderr io.Writer, add func(doc *sessions.Document) error) (fitSaveResult, error) {
+	if err := sessions.ValidateName(name); err != nil {
+		return fitSaveResult{}, err
 	}
 	author := currentUser()
 	st, err := openStore(dataDir, author, stderr)
@@ -81,8 +98,8 @@ func fitSaveToSession(dataDir, name string, items []fitSaveItem, now time.Time, 
 		if doc == nil {
 			doc = sessions.NewDocument(name, author, model.DefaultSpec(), now)
 		}
-		res = fitSaveResult{Created: rev == 0, Measurements: fitAppendItems(doc, items, now)}
-		return doc, nil
+		res = fitSaveResult{Created: rev == 0}
+		return doc, add(doc)
 	})
 	if err != nil {
 		return fitSaveResult{}, err

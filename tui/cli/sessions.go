@@ -417,6 +417,7 @@ func sessionsShow(st *sessions.Store, name string, o sessionFlags, stdout, stder
 			}
 		}
 	}
+	sessionsShowBatches(stdout, doc, o.ascii)
 	if len(doc.References) > 0 {
 		fmt.Fprintln(stdout, "\nReferences")
 		for _, r := range doc.References {

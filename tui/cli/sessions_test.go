@@ -287,7 +287,7 @@ func TestLoadAndSaveSpecForCalc(t *testing.T) {
 	if err != nil || spec.Temperature != 300 {
 		t.Errorf("load by file: %+v %v", spec, err)
 	}
-	os.WriteFile(file, []byte(strings.Replace(js, `"schema": 1`, `"schema": 4`, 1)), 0o644)
+	os.WriteFile(file, []byte(strings.Replace(js, `"schema": 2`, `"schema": 4`, 1)), 0o644)
 	if _, err := loadSpecForCalc(dir, file); err == nil || !strings.Contains(err.Error(), file) || !strings.Contains(err.Error(), "schema 4 is newer") {
 		t.Errorf("newer file: %v", err)
 	}

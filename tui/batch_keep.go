@@ -1,0 +1,108 @@
+package tui
+
+import (
+	"fmt"
+
+	tea "github.com/charmbracelet/bubbletea"
+
+	"junco/model/fit"
+	"junco/sessions"
+)
+
+// batchKeepState is what the batch screen knows of the batch tables kept
+// with the session: the kept table on view (shown, an index of the
+// session's batches, valid while shownSeq is the run number in force) and
+// the run kept last (keptSeq, under keptID), so that one run is kept
+// once.
+type batchKeepState struct {
+	shown, shownSeq int
+	keptSeq         int
+	keptID          string
+}
+
+// keepKey handles the batch screen's keys for kept tables (not while a
+// run is out) and reports whether it did: k.Keep keeps the table on view
+// with the session (saved with ctrl+s, as a kept fit), k.Kept (pgup,
+// pgdn) shows the tables the session keeps.
+func (b *batchScreen) keepKey(m *Model, k batchKeys, km tea.KeyMsg) bool {
+	if b.running {
+		return false
+	}
+	switch {
+	case keyIs(km, k.Keep):
+		b.keepRun(m)
+	case keyIs(km, k.Kept):
+		b.showKept(m, km.Type == tea.KeyPgDown)
+	default:
+		return false
+	}
+	return true
+}
+
+// viewIsKept reports whether the batch screen shows a table kept with
+// the session (not a run).
+func (b *batchScreen) viewIsKept(m *Model) bool {
+	kb := b.keep
+	return b.view != nil && kb.shownSeq == b.seq && kb.shown >= 0 && kb.shown < len(m.sess.batches)
+}
+
+// keepBatch keeps the table of the run on view with the session
+// (sessions.NewBatch and AppendBatch, as fit batch --save-to keeps it),
+// saved with ctrl+s.
+func (b *batchScreen) keepRun(m *Model) {
+	switch {
+	case m.sess.readOnly:
+		m.note = "read-only review: batch tables cannot be kept here"
+		return
+	case b.view == nil:
+		m.note = "no batch table to keep: type a folder and press enter to fit it first"
+		return
+	case b.viewIsKept(m):
+		m.note = m.sess.batches[b.keep.shown].ID + " is kept with the session already"
+		return
+	case b.keep.keptSeq == b.seq && b.keep.keptID != "":
+		m.note = "this run is kept already as " + b.keep.keptID + "; ctrl+s saves it"
+		return
+	}
+	// The options of startBatch's fits: the single-diode model over every
+	// forward point (the temperature of each row is in the row).
+	rec := sessions.NewBatch(b.dir, b.view, nil, fit.IVOptions{}, m.sess.now())
+	batches, id, err := sessions.AppendBatch(m.sess.batches, rec)
+	if err != nil {
+		m.note = "not kept: " + sessions.Printable(err.Error(), 200, "")
+		return
+	}
+	m.sess.batches = batches
+	b.keep.keptSeq, b.keep.keptID = b.seq, id
+	what := fmt.Sprintf("kept %s (%d files) with the session; ctrl+s saves it", id, len(rec.Rows))
+	if rec.Interrupted {
+		what = fmt.Sprintf("kept %s (%d files, interrupted: the files not run are marked) with the session; ctrl+s saves it", id, len(rec.Rows))
+	}
+	m.note = what
+}
+
+// showKeptBatch shows the next (or previous) batch table kept with the
+// session in place of the run on view: its rows, statistics and wafer
+// map, computed from the kept rows (Batch.Result).
+func (b *batchScreen) showKept(m *Model, next bool) {
+	n := len(m.sess.batches)
+	if n == 0 {
+		m.note = "this session keeps no batch table: fit a folder, then ctrl+k keeps it"
+		return
+	}
+	i := n - 1 // the newest first
+	if b.viewIsKept(m) {
+		i = b.keep.shown
+		if next {
+			i = min(i+1, n-1)
+		} else {
+			i = max(i-1, 0)
+		}
+	}
+	kb := m.sess.batches[i]
+	res, _ := kb.Result()
+	b.view, b.wm, b.dir, b.err = res, newWaferMapState(res), kb.Folder, ""
+	b.n, b.total = res.Fitted+res.Failed, len(res.Rows)
+	b.keep.shown, b.keep.shownSeq = i, b.seq
+	m.note = fmt.Sprintf("kept table %d of %d (pgup/pgdn): %s", i+1, n, sessions.Printable(kb.Summary(), 200, ""))
+}
