@@ -1,12 +1,16 @@
 package serve
 
 import (
+	"errors"
+	"fmt"
 	"net"
+	"slices"
 	"sync"
 	"sync/atomic"
 	"time"
 
 	"github.com/charmbracelet/ssh"
+	gossh "golang.org/x/crypto/ssh"
 )
 
 // Connections are limited apart from their sessions: a client may hold an
@@ -17,6 +21,10 @@ import (
 //   - At most connCapFactor x MaxConnections connections are open at once,
 //     counted from the TCP accept whether or not they log in or open a
 //     session; a connection beyond is closed at once and logged.
+//   - Once a key is verified, the connection counts against its user's
+//     share: at most connCapFactor x MaxPerUser connections per user, so
+//     that one user with a valid key cannot fill the cap and lock the
+//     others out; a login beyond is refused with a banner and logged.
 //   - A connection with no session open for the idle timeout (at most
 //     maxSessionless, also when the idle timeout is off) is closed,
 //     whatever it sends.
@@ -37,6 +45,8 @@ type connState struct {
 	sessions  atomic.Int32
 	lastEnd   atomic.Int64 // UnixNano when no session was last open
 	lastInput atomic.Int64 // UnixNano of the client's last data on a session
+	// users the connection counts against (userConns), under Server.mu.
+	users []string
 }
 
 // countedConn is an accepted connection counted against the cap; Close
@@ -83,6 +93,12 @@ func (s *Server) admitConn(ctx ssh.Context, c net.Conn) net.Conn {
 	cc := &countedConn{Conn: c, release: func() {
 		s.mu.Lock()
 		s.openConns--
+		for _, u := range st.users {
+			if s.userConns[u]--; s.userConns[u] <= 0 {
+				delete(s.userConns, u)
+			}
+		}
+		st.users = nil
 		s.mu.Unlock()
 	}}
 	limitFor, idle := s.sessionlessLimit(), s.cfg.IdleTimeout
@@ -133,5 +149,46 @@ func sessionOpened(ctx ssh.Context) func() {
 		if st.sessions.Add(-1) == 0 {
 			st.lastEnd.Store(time.Now().UnixNano())
 		}
+	}
+}
+
+// errUserConnShare refuses a login beyond the user's share of open
+// connections; its banner tells the client why.
+var errUserConnShare = errors.New("at the user's share of open connections")
+
+// countUserConn counts the connection of ctx against user once its key is
+// verified (the server configuration's VerifiedPublicKeyCallback, which
+// runs after the signature check, so knowing a user's public key is not
+// enough to use up the user's share). It refuses the login when the user
+// already holds connCapFactor x MaxPerUser connections.
+func (s *Server) countUserConn(ctx ssh.Context, user string) error {
+	st, _ := ctx.Value(connStateKey{}).(*connState)
+	if st == nil {
+		return nil
+	}
+	limit := connCapFactor * s.cfg.MaxPerUser
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if slices.Contains(st.users, user) {
+		return nil
+	}
+	if s.userConns[user] >= limit {
+		s.log.Warn("login refused: at the user's share of open connections", "user", user,
+			"remote", remoteHost(ctx.RemoteAddr()), "open", s.userConns[user], "max_conn_per_user", s.cfg.MaxPerUser)
+		return &gossh.BannerError{Err: errUserConnShare, Message: fmt.Sprintf(
+			"junco: %s has %d connections open, the most one user may hold on this server (twice --max-conn-per-user); close one and try again\r\n", user, limit)}
+	}
+	s.userConns[user]++
+	st.users = append(st.users, user)
+	return nil
+}
+
+// serverConfig is the base SSH configuration of a connection: the
+// per-user connection count runs after each verified key.
+func (s *Server) serverConfig(ctx ssh.Context) *gossh.ServerConfig {
+	return &gossh.ServerConfig{
+		VerifiedPublicKeyCallback: func(conn gossh.ConnMetadata, _ gossh.PublicKey, perms *gossh.Permissions, _ string) (*gossh.Permissions, error) {
+			return perms, s.countUserConn(ctx, conn.User())
+		},
 	}
 }

@@ -5,6 +5,8 @@ import (
 	"strings"
 	"testing"
 
+	gossh "golang.org/x/crypto/ssh"
+
 	"junco/tui/serve/servetest"
 )
 
@@ -33,6 +35,34 @@ func TestOneUserCannotHoldEverySlot(t *testing.T) {
 	}
 	b := openInteractive(t, f.addr, "bob", bob)
 	waitFor(t, b.out, "WORKBENCH user=bob")
+}
+
+// Connections count against the user's share from the verified key on,
+// with or without a session: with a share of 1 (2 connections), ada's
+// third sessionless connection (`ssh -N`) is refused with a banner that
+// says why, while bob still logs in. (The count runs after the signature
+// check, VerifiedPublicKeyCallback in golang.org/x/crypto/ssh, so a client
+// that only knows ada's public key counts for nothing.) Before, one user could
+// hold every connection of the cap (twice --max-conn) without a session.
+func TestUserConnectionShare(t *testing.T) {
+	ada, bob := servetest.NewKey(t, "ada"), servetest.NewKey(t, "bob")
+	f := startServerWith(t, t.TempDir(), func(c *Config) { c.MaxConnections, c.MaxPerUser = 8, 1 }, ada.Line, bob.Line)
+	login(t, f.addr, "ada", ada)
+	login(t, f.addr, "ada", ada)
+	var banner string
+	cfg := servetest.ClientConfig("ada", gossh.PublicKeys(ada.Signer))
+	cfg.BannerCallback = func(msg string) error { banner += msg; return nil }
+	if c, err := dial(f.addr, cfg); err == nil {
+		c.Close()
+		t.Fatal("ada's third connection logged in with a share of 1 (2 connections)")
+	}
+	if !strings.Contains(banner, "--max-conn-per-user") {
+		t.Errorf("banner %q does not say why", banner)
+	}
+	if !strings.Contains(f.logs.String(), "user's share of open connections") {
+		t.Errorf("refusal not logged:\n%s", f.logs.String())
+	}
+	login(t, f.addr, "bob", bob)
 }
 
 // The default share: a quarter of the cap, at least 2, never above it.

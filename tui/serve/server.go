@@ -106,6 +106,9 @@ type Server struct {
 	active int
 	// perUser counts the sessions open by each user (limitMiddleware).
 	perUser map[string]int
+	// userConns counts the connections each user has open, from the
+	// verified key on (connlimit.go).
+	userConns map[string]int
 	// openConns counts the connections open (connlimit.go).
 	openConns int
 	programs  map[*tea.Program]program
@@ -148,7 +151,7 @@ func New(cfg Config) (*Server, error) {
 		lg = slog.New(slog.NewTextHandler(io.Discard, nil))
 	}
 	s := &Server{cfg: cfg, log: lg, programs: map[*tea.Program]program{}, conns: map[ssh.Context]*liveConn{},
-		perUser: map[string]int{}, failures: map[string]int{}, stop: make(chan struct{})}
+		perUser: map[string]int{}, userConns: map[string]int{}, failures: map[string]int{}, stop: make(chan struct{})}
 	signer, created, err := loadOrCreateHostKey(cfg.HostKeyPath)
 	if err != nil {
 		return nil, err
@@ -210,6 +213,7 @@ func (s *Server) Reload() error { return s.keys.reload(true) }
 // key options at terminal and session requests, forwarding requests
 // refused, and the idle watchdog.
 func (s *Server) connectionPolicy(srv *ssh.Server) error {
+	srv.ServerConfigCallback = s.serverConfig
 	srv.PtyCallback = s.ptyRequest
 	srv.SessionRequestCallback = s.sessionRequest
 	srv.ChannelHandlers = map[string]ssh.ChannelHandler{"session": s.sessionChannel}
