@@ -68,7 +68,7 @@ func fitCompareIV(ctx context.Context, r *fitIVReport, session string, spec mode
 	if t := r.res.Temperature; t.Source == fit.SourceOption {
 		ds.TemperatureK, ds.StatedTemperatureK = nil, t.K
 	}
-	cmp, err := model.CompareIVContext(ctx, spec, &ds, c.window.MinV, c.window.MaxV)
+	cmp, err := fit.CompareIVContext(ctx, spec, &ds, c.window.MinV, c.window.MaxV)
 	if cmp != nil {
 		out.PredictionRMSLogRatio = fitNum(cmp.RMSLogRatio)
 		out.ModelDiffusionIsA = fitNum(cmp.ModelIsA)

@@ -1,4 +1,4 @@
-package model
+package fit
 
 import (
 	"math"
@@ -6,22 +6,23 @@ import (
 	"strings"
 	"testing"
 
+	"junco/model"
 	"junco/model/measure"
 )
 
 // noisyIV generates forward I-V data of spec with junco's own model
 // (IVCurve, total current) and the demo noise (1 % multiplicative, 10 pA
 // floor) from a fixed seed: the synthetic measurement of a round trip.
-func noisyIV(t *testing.T, spec Spec, seed uint64) *measure.DataSet {
+func noisyIV(t *testing.T, spec model.Spec, seed uint64) *measure.DataSet {
 	t.Helper()
-	c, err := IVCurve(spec, DemoIVRange())
+	c, err := model.IVCurve(spec, model.DemoIVRange())
 	if err != nil {
 		t.Fatal(err)
 	}
 	rng := rand.New(rand.NewPCG(seed, 1))
 	cur := make([]float64, len(c.Xs))
 	for k, i := range c.Series[0].Y {
-		cur[k] = i*(1+DemoCurrentNoise*rng.NormFloat64()) + DemoCurrentFloorA*rng.NormFloat64()
+		cur[k] = i*(1+model.DemoCurrentNoise*rng.NormFloat64()) + model.DemoCurrentFloorA*rng.NormFloat64()
 	}
 	return &measure.DataSet{Kind: measure.KindIV, SourceFile: "round-trip synthetic data", VoltageV: c.Xs, CurrentA: cur,
 		StatedTemperatureK: spec.Temperature}
@@ -32,7 +33,7 @@ func noisyIV(t *testing.T, spec Spec, seed uint64) *measure.DataSet {
 // lifetime must come back to the known one within 10 %.
 func TestCompareIVRecoversLifetime(t *testing.T) {
 	const trueTau = 2e-6 // s, the lifetime the data are generated with
-	truth := DemoJunction().Spec
+	truth := model.DemoJunction().Spec
 	truth.HoleLifetime = trueTau
 	ds := noisyIV(t, truth, 7)
 	for _, wrong := range []float64{trueTau * 10, trueTau / 10} {
@@ -49,14 +50,14 @@ func TestCompareIVRecoversLifetime(t *testing.T) {
 		if got := c.ReconcilingLifetimeS / trueTau; math.Abs(got-1) > 0.10 {
 			t.Errorf("spec tau %g s: reconciling lifetime %g s, want %g s within 10 %% (ratio %.3f)", wrong, c.ReconcilingLifetimeS, trueTau, got)
 		}
-		if c.LifetimeField != FieldHoleLifetime {
-			t.Errorf("lifetime varied %q, want %q (n is the lightly doped side of the demo)", c.LifetimeField, FieldHoleLifetime)
+		if c.LifetimeField != model.FieldHoleLifetime {
+			t.Errorf("lifetime varied %q, want %q (n is the lightly doped side of the demo)", c.LifetimeField, model.FieldHoleLifetime)
 		}
 		// The diffusion length must be the model's own sqrt(D tau) at the
 		// reconciling lifetime.
 		back := truth
 		back.HoleLifetime = c.ReconcilingLifetimeS
-		r, err := Evaluate(back)
+		r, err := model.Evaluate(back)
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -90,7 +91,7 @@ func TestCompareIVRecoversLifetime(t *testing.T) {
 // an error, not a lifetime. Both: the depletion region lies in the n side,
 // where it recombines with that side's electron and hole lifetimes.
 func TestCompareIVRecombinationDominated(t *testing.T) {
-	s := DemoJunction().Spec
+	s := model.DemoJunction().Spec
 	s.HoleLifetime = 1e-9
 	s.ElectronLifetime = 1e-9
 	ds := noisyIV(t, s, 3)
@@ -110,8 +111,8 @@ func TestCompareIVRecombinationDominated(t *testing.T) {
 // (the data scaled by 1e6: the 1 ps end of the lifetime range cannot reach
 // it) must name the limit.
 func TestCompareIVUnreachable(t *testing.T) {
-	s := DemoJunction().Spec
-	s.Effects = IdealEffects()
+	s := model.DemoJunction().Spec
+	s.Effects = model.IdealEffects()
 	ds := noisyIV(t, s, 5)
 	big := *ds
 	big.CurrentA = make([]float64, len(ds.CurrentA))
@@ -132,7 +133,7 @@ func TestCompareIVUnreachable(t *testing.T) {
 }
 
 func TestCompareIVInputErrors(t *testing.T) {
-	s := DemoJunction().Spec
+	s := model.DemoJunction().Spec
 	if _, err := CompareIV(s, nil, 0, 0); err == nil {
 		t.Error("nil data set: want an error")
 	}
@@ -146,7 +147,7 @@ func TestCompareIVInputErrors(t *testing.T) {
 	}
 	bad := s
 	bad.Area = -1
-	if _, err := CompareIV(bad, ds, 0.4, 0.6); err == nil || !strings.Contains(err.Error(), FieldArea) {
+	if _, err := CompareIV(bad, ds, 0.4, 0.6); err == nil || !strings.Contains(err.Error(), model.FieldArea) {
 		t.Errorf("bad spec: got %v, want the area field named", err)
 	}
 }

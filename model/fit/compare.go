@@ -1,4 +1,4 @@
-package model
+package fit
 
 import (
 	"context"
@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"math"
 
+	"junco/model"
 	"junco/model/measure"
 	"junco/physics"
 	"junco/physics/extract"
@@ -56,8 +57,8 @@ type IVComparison struct {
 	// region" or "electron lifetime in the p region" (the lightly doped
 	// side; the other side's lifetime is kept as specified).
 	LifetimeSide string
-	// LifetimeField is the Spec field varied (FieldHoleLifetime or
-	// FieldElectronLifetime); SpecLifetimeS its value in the model before
+	// LifetimeField is the model.Spec field varied (model.FieldHoleLifetime or
+	// model.FieldElectronLifetime); SpecLifetimeS its value in the model before
 	// (the default when the spec leaves it 0), s.
 	LifetimeField string
 	SpecLifetimeS float64
@@ -92,13 +93,13 @@ type IVComparison struct {
 // ideality factor is outside 0.9..1.3 (above, recombination dominates and a
 // diffusion lifetime is meaningless) or when the fitted Is lies outside the
 // range of IsDiff over the lifetime range (naming the limit).
-func CompareIV(spec Spec, ds *measure.DataSet, v1, v2 float64) (*IVComparison, error) {
+func CompareIV(spec model.Spec, ds *measure.DataSet, v1, v2 float64) (*IVComparison, error) {
 	return CompareIVContext(context.Background(), spec, ds, v1, v2)
 }
 
 // CompareIVContext is CompareIV with cancellation: the fits stop soon
 // after ctx is cancelled and the error wraps ctx.Err().
-func CompareIVContext(ctx context.Context, spec Spec, ds *measure.DataSet, v1, v2 float64) (*IVComparison, error) {
+func CompareIVContext(ctx context.Context, spec model.Spec, ds *measure.DataSet, v1, v2 float64) (*IVComparison, error) {
 	if ds == nil {
 		return nil, errors.New("compare: no data set given")
 	}
@@ -115,7 +116,7 @@ func CompareIVContext(ctx context.Context, spec Spec, ds *measure.DataSet, v1, v
 		c.TemperatureK, c.TemperatureSource = t, "data set"
 		spec.Temperature = t
 	}
-	st, err := prepare(spec)
+	st, err := prepareStatic(spec)
 	if err != nil {
 		return nil, fmt.Errorf("compare: the junction: %w", err)
 	}
@@ -173,9 +174,9 @@ func CompareIVContext(ctx context.Context, spec Spec, ds *measure.DataSet, v1, v
 	}
 
 	holes := spec.DonorDensity <= spec.AcceptorDensity
-	c.LifetimeSide, c.LifetimeField, c.SpecLifetimeS = "electron lifetime in the p region (the lightly doped side)", FieldElectronLifetime, st.TauN
+	c.LifetimeSide, c.LifetimeField, c.SpecLifetimeS = "electron lifetime in the p region (the lightly doped side)", model.FieldElectronLifetime, st.TauN
 	if holes {
-		c.LifetimeSide, c.LifetimeField, c.SpecLifetimeS = "hole lifetime in the n region (the lightly doped side)", FieldHoleLifetime, st.TauP
+		c.LifetimeSide, c.LifetimeField, c.SpecLifetimeS = "hole lifetime in the n region (the lightly doped side)", model.FieldHoleLifetime, st.TauP
 	}
 	at := func(tau float64) (*physics.Static, error) {
 		s := spec
@@ -185,7 +186,7 @@ func CompareIVContext(ctx context.Context, spec Spec, ds *measure.DataSet, v1, v
 			s.ElectronLifetime = tau
 		}
 		c.Evaluations++
-		return prepare(s)
+		return prepareStatic(s)
 	}
 	target := math.Log(c.MeasuredIsA)
 	gap := func(tau float64) (float64, *physics.Static, error) {
@@ -207,11 +208,11 @@ func CompareIVContext(ctx context.Context, spec Spec, ds *measure.DataSet, v1, v
 	// IsDiff falls as the lifetime grows (fewer recombinations): fa > fb.
 	if fa < 0 {
 		return c, fmt.Errorf("compare: measured Is = %s is above the model's diffusion Is at the 1 ps lifetime limit (%s): no lifetime in 1 ps to 1 s reconciles them; the current is not diffusion from this junction",
-			Format(Current, c.MeasuredIsA, 3, true), Format(Current, math.Exp(fa+target), 3, true))
+			model.Format(model.Current, c.MeasuredIsA, 3, true), model.Format(model.Current, math.Exp(fa+target), 3, true))
 	}
 	if fb > 0 {
 		return c, fmt.Errorf("compare: measured Is = %s is below the model's diffusion Is at the 1 s lifetime limit (%s; the other side and the contacts set this floor): no lifetime in 1 ps to 1 s reconciles them",
-			Format(Current, c.MeasuredIsA, 3, true), Format(Current, math.Exp(fb+target), 3, true))
+			model.Format(model.Current, c.MeasuredIsA, 3, true), model.Format(model.Current, math.Exp(fb+target), 3, true))
 	}
 	la, lb := math.Log(a), math.Log(b)
 	best := sb
@@ -243,15 +244,15 @@ func CompareIVContext(ctx context.Context, spec Spec, ds *measure.DataSet, v1, v
 	return c, nil
 }
 
-func compareAssumptions(s Spec, c *IVComparison, holes bool) []string {
+func compareAssumptions(s model.Spec, c *IVComparison, holes bool) []string {
 	contact := func(width float64, v *float64, side string) string {
 		switch {
 		case width == 0:
 			return "the " + side + " region is long (no contact within a diffusion length)"
 		case v == nil:
-			return fmt.Sprintf("the %s region is %s wide with an ideal ohmic contact", side, Format(Length, width, 3, true))
+			return fmt.Sprintf("the %s region is %s wide with an ideal ohmic contact", side, model.Format(model.Length, width, 3, true))
 		}
-		return fmt.Sprintf("the %s region is %s wide with a contact recombination velocity of %s", side, Format(Length, width, 3, true), Format(Velocity, *v, 3, true))
+		return fmt.Sprintf("the %s region is %s wide with a contact recombination velocity of %s", side, model.Format(model.Length, width, 3, true), model.Format(model.Velocity, *v, 3, true))
 	}
 	other := "the p region's electron current is as modelled (its lifetime and width as specified)"
 	if !holes {
@@ -259,12 +260,22 @@ func compareAssumptions(s Spec, c *IVComparison, holes bool) []string {
 	}
 	return []string{
 		fmt.Sprintf("geometry and doping are as defined: area %s, Na = %s, Nd = %s (%s profile)",
-			Format(Area, s.Area, 3, true), Format(Density, s.AcceptorDensity, 3, true), Format(Density, s.DonorDensity, 3, true), s.Profile),
+			model.Format(model.Area, s.Area, 3, true), model.Format(model.Density, s.AcceptorDensity, 3, true), model.Format(model.Density, s.DonorDensity, 3, true), s.Profile),
 		fmt.Sprintf("the current is diffusion-dominated in the window %g V to %g V (fitted ideality %.3f, near 1); the measured Is is the %s",
 			c.Fit.UsedWindow.MinV, c.Fit.UsedWindow.MaxV, c.Fit.Single.IdealityFactor, c.IsSource),
 		contact(s.PWidth, s.PContactVelocity, "p") + "; " + contact(s.NWidth, s.NContactVelocity, "n"),
-		fmt.Sprintf("the temperature is %s (from the %s)", Format(Temperature, c.TemperatureK, 4, true), c.TemperatureSource),
+		fmt.Sprintf("the temperature is %s (from the %s)", model.Format(model.Temperature, c.TemperatureK, 4, true), c.TemperatureSource),
 		other,
 		"the lifetime varied is the " + c.LifetimeSide + "; its depletion-region (SRH) lifetime follows it as in the model",
 	}
+}
+
+// prepareStatic resolves spec's junction into the prepared device of the
+// analytic model.
+func prepareStatic(spec model.Spec) (*physics.Static, error) {
+	d, err := spec.Device()
+	if err != nil {
+		return nil, err
+	}
+	return d.Prepare()
 }
