@@ -1,7 +1,10 @@
 package cli
 
 import (
+	"errors"
 	"fmt"
+	"io"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"strings"
@@ -81,6 +84,13 @@ func writeManual(root *cobra.Command, e *env, dir string) (int, error) {
 	for _, c := range cmds {
 		e.defineFlags(c) // flags are defined lazily, only for the command run
 	}
+	// Nothing a user wrote is replaced: every page's path is checked
+	// before the first is written.
+	for _, c := range cmds {
+		if err := replaceableManualPage(filepath.Join(dir, manualName(c)+".1")); err != nil {
+			return 0, err
+		}
+	}
 	for _, c := range cmds {
 		path := filepath.Join(dir, manualName(c)+".1")
 		if err := os.WriteFile(path, []byte(manualPage(c)), 0o644); err != nil {
@@ -88,6 +98,36 @@ func writeManual(root *cobra.Command, e *env, dir string) (int, error) {
 		}
 	}
 	return len(cmds), nil
+}
+
+// manualMark begins every page junco writes (manualPage).
+const manualMark = `.TH "JUNCO`
+
+// replaceableManualPage returns nil when path is free or holds a page
+// junco wrote before (a regular file beginning with manualMark), else an
+// error naming the file: a file of the user's, a link or a folder there
+// is never replaced.
+func replaceableManualPage(path string) error {
+	fi, err := os.Lstat(path)
+	if errors.Is(err, fs.ErrNotExist) {
+		return nil
+	}
+	if err != nil {
+		return err
+	}
+	if fi.Mode().IsRegular() {
+		f, err := os.Open(path)
+		if err != nil {
+			return err
+		}
+		head := make([]byte, len(manualMark))
+		_, err = io.ReadFull(f, head)
+		f.Close()
+		if err == nil && string(head) == manualMark {
+			return nil
+		}
+	}
+	return fmt.Errorf("%s exists and is not a manual page junco wrote; it is not replaced (move it, or choose another --dir)", path)
 }
 
 // manualPage renders one command's page in roff (man macros).

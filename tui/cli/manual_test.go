@@ -87,3 +87,33 @@ func TestManualNeedsDir(t *testing.T) {
 		t.Errorf("junco manual: exit %d, stdout %q, stderr %q", code, out, errs)
 	}
 }
+
+// junco manual replaces only pages it wrote: run twice into one folder it
+// succeeds; a file of the user's under a page's name (or a link there)
+// stops it before any page is written, names the file and keeps it.
+func TestManualKeepsUserFiles(t *testing.T) {
+	dir := t.TempDir()
+	for i := 0; i < 2; i++ {
+		if code, _, errs := runCLI(t, "manual", "--dir", dir); code != exitOK {
+			t.Fatalf("run %d into the same folder: exit %d, %s", i+1, code, errs)
+		}
+	}
+	other := t.TempDir()
+	mine := filepath.Join(other, "junco-fit-iv.1")
+	if err := os.WriteFile(mine, []byte("my own notes\n"), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.Symlink(mine, filepath.Join(other, "junco-calc.1")); err != nil {
+		t.Fatal(err)
+	}
+	code, _, errs := runCLI(t, "manual", "--dir", other)
+	if code != exitFailure || !strings.Contains(errs, "junco-") || !strings.Contains(errs, "not replaced") {
+		t.Errorf("over a user's file: exit %d, stderr %q", code, errs)
+	}
+	if b, _ := os.ReadFile(mine); string(b) != "my own notes\n" {
+		t.Errorf("the user's file became %q", b)
+	}
+	if _, err := os.Stat(filepath.Join(other, "junco.1")); err == nil {
+		t.Error("pages were written although one path was refused")
+	}
+}
