@@ -1,6 +1,8 @@
 package sessions
 
 import (
+	"os"
+	"path/filepath"
 	"reflect"
 	"testing"
 )
@@ -12,6 +14,13 @@ import (
 func FuzzDecode(f *testing.F) {
 	if data, err := Encode(exampleDocument()); err == nil {
 		f.Add(data)
+	}
+	// A schema 2 document with a kept batch table (TestBatchRoundTrip's
+	// golden file), so that the fuzzer starts from the batch records too.
+	if data, err := os.ReadFile(filepath.Join("testdata", "golden-session-batch.json")); err == nil {
+		f.Add(data)
+	} else {
+		f.Fatal(err)
 	}
 	f.Fuzz(func(t *testing.T, data []byte) {
 		_, _ = decodeHeader(data, false)
