@@ -119,10 +119,10 @@ func lambertW(y, w0 float64) float64 {
 	}
 	w := w0
 	for k := 0; k < 6; k++ {
-		z := y - w - math.Log(w)
+		z := y - w - fastLog(w)
 		w1 := 1 + w
 		q := 2 * w1 * (w1 + z*(2.0/3))
-		eps := z / w1 * (q - z) / (q - 2*z)
+		eps := z * (q - z) / (w1 * (q - 2*z))
 		w *= 1 + eps
 		if !(w > 0) || math.IsInf(w, 0) {
 			break
@@ -142,6 +142,32 @@ func (e *singleEval) grad(n int, v float64, g *[4]float64) float64 {
 	if e.bad || e.closed {
 		return e.closedGrad(v, g)
 	}
+	return e.gradAt(v, e.solve(n, v), g)
+}
+
+// current returns I at point n (bias v); gradLast then gives its gradient
+// from the W found here.
+func (e *singleEval) current(n int, v float64) float64 {
+	if e.bad || e.closed {
+		var g [4]float64
+		return e.closedGrad(v, &g)
+	}
+	return e.f.current(v, e.solve(n, v))
+}
+
+// gradLast is grad at the point n where current was last called with
+// these parameters: W is not solved again.
+func (e *singleEval) gradLast(n int, v float64, g *[4]float64) float64 {
+	if e.bad || e.closed {
+		return e.closedGrad(v, g)
+	}
+	return e.gradAt(v, e.w[n], g)
+}
+
+// solve returns W0(exp(y(v))) at point n, from the previous evaluation's
+// value there (or the previous point's on the first evaluation), and keeps
+// it for the next.
+func (e *singleEval) solve(n int, v float64) float64 {
 	y := e.f.y(v)
 	wp, yp := e.w[n], e.y[n]
 	if !(wp > 0) && n > 0 {
@@ -152,7 +178,7 @@ func (e *singleEval) grad(n int, v float64, g *[4]float64) float64 {
 	t := (y - yp) / (1 + wp)
 	w := lambertW(y, wp*(1+math.Max(-0.5, math.Min(1, t))))
 	e.w[n], e.y[n] = w, y
-	return e.gradAt(v, w, g)
+	return w
 }
 
 // gradAt is grad for Rs > 0 given w = W0(exp(y(v))).

@@ -21,6 +21,10 @@ func (e *refEval) prepare(d SingleDiode) { e.d = d }
 func (e *refEval) grad(_ int, v float64, g *[4]float64) float64 {
 	return refGrad(e.d, v, e.vt, g)
 }
+func (e *refEval) current(_ int, v float64) float64 { return e.d.Current(v, e.vt) }
+func (e *refEval) gradLast(_ int, v float64, g *[4]float64) float64 {
+	return refGrad(e.d, v, e.vt, g)
+}
 
 func refGrad(d SingleDiode, v, vt float64, g *[4]float64) float64 {
 	i := d.Current(v, vt)

@@ -484,6 +484,11 @@ type fitResult[D any] struct {
 type pointModel[D any] interface {
 	prepare(d D)
 	grad(n int, v float64, g *[4]float64) float64
+	// current is grad without the derivatives; gradLast is grad at a point
+	// where current was the last call with these parameters (it may reuse
+	// what current found there).
+	current(n int, v float64) float64
+	gradLast(n int, v float64, g *[4]float64) float64
 }
 
 // doubleEval is the pointModel of the double-diode model.
@@ -494,6 +499,13 @@ type doubleEval struct {
 
 func (e *doubleEval) prepare(d DoubleDiode) { e.d = d }
 func (e *doubleEval) grad(_ int, v float64, g *[4]float64) float64 {
+	return e.d.grad(v, e.vt, g)
+}
+func (e *doubleEval) current(_ int, v float64) float64 {
+	var g [4]float64
+	return e.d.grad(v, e.vt, &g)
+}
+func (e *doubleEval) gradLast(_ int, v float64, g *[4]float64) float64 {
 	return e.d.grad(v, e.vt, g)
 }
 
@@ -542,32 +554,43 @@ func fitLog[D any, P fourParams[D]](ctx context.Context, pts ivPoints, w []float
 		theta[j] = math.Log(*P(&d0).slot(k))
 	}
 	m := len(pts.v)
-	eval := func(th, r, jac []float64) bool {
+	lnI := make([]float64, m)
+	for n, c := range pts.i {
+		lnI[n] = fastLog(c)
+	}
+	// eval gives the residuals only; jacobian the Jacobian at the theta
+	// of the last eval, from the W values that eval found (levenberg asks
+	// for it only where a step is taken).
+	eval := func(th, r, _ []float64) bool {
 		d := d0
 		for j, k := range idx {
 			*P(&d).slot(k) = math.Exp(th[j])
 		}
-		var g [4]float64
 		model.prepare(d)
 		for n := 0; n < m; n++ {
 			if n&(cancelCheckEvery-1) == 0 && ctx.Err() != nil {
 				return false
 			}
-			c := model.grad(n, pts.v[n], &g)
+			c := model.current(n, pts.v[n])
 			if !(c > 0) || math.IsInf(c, 0) {
 				return false
 			}
-			r[n] = w[n] * math.Log(c/pts.i[n])
-			if jac != nil {
-				wc := w[n] / c
-				for j, k := range idx {
-					jac[n*p+j] = wc * g[k]
-				}
-			}
+			r[n] = w[n] * (fastLog(c) - lnI[n])
 		}
 		return true
 	}
-	lr, err := levenberg(ctx, lmProblem{m: m, p: p, eval: eval}, theta, maxIter)
+	jacobian := func(_, jac []float64) {
+		var g [4]float64
+		for n := 0; n < m; n++ {
+			c := model.gradLast(n, pts.v[n], &g)
+			wc := w[n] / c
+			row := jac[n*p : n*p+p]
+			for j, k := range idx {
+				row[j] = wc * g[k]
+			}
+		}
+	}
+	lr, err := levenberg(ctx, lmProblem{m: m, p: p, eval: eval, jacobian: jacobian}, theta, maxIter)
 	if err != nil {
 		return fitResult[D]{}, err
 	}

@@ -13,9 +13,27 @@ const cancelCheckEvery = 4096
 // m residuals and p parameters. eval fills r (length m) and, when jac is not
 // nil, the row-major Jacobian dr_i/dtheta_j (m x p); it reports false when
 // the model is not finite at theta (the step is then rejected).
+//
+// When jacobian is set, eval is only asked for residuals (jac nil) and
+// jacobian fills the Jacobian at the theta of the last successful eval
+// (it may reuse what that eval computed): the Jacobian of a step that is
+// rejected is then never formed.
 type lmProblem struct {
-	m, p int
-	eval func(theta, r, jac []float64) bool
+	m, p     int
+	eval     func(theta, r, jac []float64) bool
+	jacobian func(theta, jac []float64)
+}
+
+// evalJ evaluates the residuals and the Jacobian at theta.
+func (pr *lmProblem) evalJ(theta, r, jac []float64) bool {
+	if pr.jacobian == nil {
+		return pr.eval(theta, r, jac)
+	}
+	if !pr.eval(theta, r, nil) {
+		return false
+	}
+	pr.jacobian(theta, jac)
+	return true
 }
 
 type lmResult struct {
@@ -53,7 +71,7 @@ func levenberg(ctx context.Context, pr lmProblem, theta0 []float64, maxIter int)
 	if err := ctx.Err(); err != nil {
 		return lmResult{}, err
 	}
-	if !pr.eval(theta, r, jac) {
+	if !pr.evalJ(theta, r, jac) {
 		if err := ctx.Err(); err != nil {
 			return lmResult{}, err
 		}
@@ -101,9 +119,16 @@ func levenberg(ctx context.Context, pr lmProblem, theta0 []float64, maxIter int)
 			if err := ctx.Err(); err != nil {
 				return lmResult{}, err
 			}
-			if pr.eval(trial, rt, jt) {
+			var jtrial []float64
+			if pr.jacobian == nil {
+				jtrial = jt
+			}
+			if pr.eval(trial, rt, jtrial) {
 				ct := sumSq(rt)
 				if ct <= cost && !math.IsNaN(ct) {
+					if pr.jacobian != nil {
+						pr.jacobian(trial, jt)
+					}
 					small := big < 1e-10 || cost-ct <= 1e-13*cost
 					theta, trial = trial, theta
 					r, rt = rt, r
@@ -153,6 +178,10 @@ func sumSq(r []float64) float64 {
 
 // normal forms a = J^T J and g = J^T r.
 func normal(jac, r []float64, m, p int, a, g []float64) {
+	if p == 4 {
+		normal4(jac, r, m, a, g)
+		return
+	}
 	for k := range a {
 		a[k] = 0
 	}
@@ -306,4 +335,37 @@ func strongCorrelations(cov []float64, names []string) []Correlation {
 		}
 	}
 	return out
+}
+
+// normal4 is normal for p = 4 with the ten sums of J^T J and the four of
+// J^T r in registers; it adds the same products in the same order, so the
+// result is the same to the last bit.
+func normal4(jac, r []float64, m int, a, g []float64) {
+	var a00, a10, a11, a20, a21, a22, a30, a31, a32, a33, g0, g1, g2, g3 float64
+	jac = jac[:4*m]
+	r = r[:m]
+	for i, ri := range r {
+		row := jac[4*i : 4*i+4 : 4*i+4]
+		j0, j1, j2, j3 := row[0], row[1], row[2], row[3]
+		g0 += j0 * ri
+		a00 += j0 * j0
+		g1 += j1 * ri
+		a10 += j1 * j0
+		a11 += j1 * j1
+		g2 += j2 * ri
+		a20 += j2 * j0
+		a21 += j2 * j1
+		a22 += j2 * j2
+		g3 += j3 * ri
+		a30 += j3 * j0
+		a31 += j3 * j1
+		a32 += j3 * j2
+		a33 += j3 * j3
+	}
+	copy(a[:16], []float64{
+		a00, a10, a20, a30,
+		a10, a11, a21, a31,
+		a20, a21, a22, a32,
+		a30, a31, a32, a33})
+	g[0], g[1], g[2], g[3] = g0, g1, g2, g3
 }
