@@ -76,3 +76,19 @@ func BenchmarkMathLog(b *testing.B) {
 		b.Fatal(s)
 	}
 }
+
+// lnOneMinusExp agrees with ln(1 - e^-x) from the standard library to
+// 1e-15 relative plus 2e-16 (the rounding of 1 - e^-x) from x = 1e-6 to 700: math.Log(-math.Expm1(-x)) below
+// x = 1 and math.Log1p(-math.Exp(-x)) above, each accurate there (no
+// cancellation).
+func TestLnOneMinusExp(t *testing.T) {
+	for x := 1e-6; x < 700; x *= 1.001 {
+		want := math.Log1p(-math.Exp(-x))
+		if x < 1 {
+			want = math.Log(-math.Expm1(-x))
+		}
+		if got := lnOneMinusExp(x); math.Abs(got-want) > 1e-15*math.Abs(want)+2e-16 {
+			t.Fatalf("lnOneMinusExp(%g) = %g, want %g", x, got, want)
+		}
+	}
+}

@@ -103,7 +103,7 @@ func linearRegion(ctx context.Context, v, i []float64, vt float64) (is, n float6
 		if !(i[j] > 0) || !(v[j] > 0) {
 			return 0, 0, Window{}, inputErr(fmt.Sprintf("point %d", j), fmt.Sprintf("V=%g, I=%g", v[j], i[j]), "V > 0 and I > 0", "the semilog plot needs positive forward current")
 		}
-		y[j] = math.Log(i[j])
+		y[j] = fastLog(i[j])
 	}
 	yc := make([]float64, m)
 	copy(yc, y)
@@ -129,14 +129,29 @@ func linearRegion(ctx context.Context, v, i []float64, vt float64) (is, n float6
 		if !ok || !(bf.b > 0) {
 			return 0, 0, Window{}, inputErr("current", "not increasing", "ln I rising with V", "no part of the curve rises with bias; is this forward data?")
 		}
+		if pass == 3 {
+			break // the last line is fitted: no further pass reads yc
+		}
 		// Remove the "-1" of exp(V/(n Vt)) - 1, which steepens the curve
 		// below a few n Vt: ln(I/(1 - exp(-V/(n Vt)))) = ln Is + V/(n Vt).
 		a := 1 / bf.b
 		for j := range yc {
-			yc[j] = y[j] - math.Log(-math.Expm1(-v[j]/a))
+			yc[j] = y[j] - lnOneMinusExp(v[j]/a)
 		}
 	}
 	return math.Exp(bf.a), 1 / (vt * bf.b), Window{v[bs], v[bs+k-1]}, nil
+}
+
+// lnOneMinusExp returns ln(1 - e^-x) for x > 0: above x = 9.2, where
+// e^-x < 1.1e-4, by the series -(e + e^2/2 + e^3/3 + e^4/4), e = e^-x
+// (Taylor series of ln(1 - e); the next term is below 4e-21, about 3e-17
+// of the value); below, as fastLog(-expm1(-x)).
+func lnOneMinusExp(x float64) float64 {
+	if x > 9.2 {
+		e := math.Exp(-x)
+		return -e * (1 + e*(0.5+e*(1.0/3+e*0.25)))
+	}
+	return fastLog(-math.Expm1(-x))
 }
 
 // CheungResult holds the Cheung-Cheung estimates.
@@ -177,7 +192,7 @@ func cheungCheung(ctx context.Context, v, i []float64, vt float64) (CheungResult
 		if !(i[j] > 0) {
 			return CheungResult{}, inputErr(fmt.Sprintf("point %d", j), i[j], "I > 0", "ln I needs positive current")
 		}
-		y[j] = math.Log(i[j])
+		y[j] = fastLog(i[j])
 	}
 	var xs, hs []float64
 	// The window centred on point j starts at s = j - h.
