@@ -21,6 +21,9 @@ func (im *importer) unitRow(line []byte) (bool, error) {
 	units := make([]string, len(cells))
 	n := 0
 	for k, c := range cells {
+		if _, st := parseNum(c, im.dcomma); st == numOK {
+			return false, nil // a number: a data row (no unit is a number)
+		}
 		u := strings.TrimSpace(strings.Trim(strings.TrimSpace(string(c)), "\""))
 		u = strings.TrimSuffix(strings.TrimPrefix(strings.TrimPrefix(u, "("), "["), ")")
 		u = strings.TrimSuffix(u, "]")

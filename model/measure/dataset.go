@@ -177,7 +177,11 @@ func ImportContext(ctx context.Context, r io.Reader, name string, opt Options) (
 	if err := im.checkOptions(); err != nil {
 		return nil, err
 	}
-	im.lr.br = bufio.NewReaderSize(&capReader{r: r, max: MaxBytes, ctx: ctx}, readBufferSize(r))
+	size, small := readBufferSize(r)
+	if small {
+		im.sizeHint = size
+	}
+	im.lr.br = bufio.NewReaderSize(&capReader{r: r, max: MaxBytes, ctx: ctx}, size)
 	ds, err := im.run()
 	if err != nil {
 		return nil, err
@@ -187,20 +191,21 @@ func ImportContext(ctx context.Context, r io.Reader, name string, opt Options) (
 
 // readBufferSize is the read buffer for r: 64 KiB, or the size of a smaller
 // regular file plus one byte (at least 512), so that a batch of small files
-// does not allocate and clear 64 KiB for each.
+// does not allocate and clear 64 KiB for each; small reports the latter
+// (the whole file fits the buffer, and its size bounds the rows).
 // An *io.LimitedReader is looked through to the file it limits.
-func readBufferSize(r io.Reader) int {
-	const size = 64 << 10
+func readBufferSize(r io.Reader) (size int, small bool) {
+	const big = 64 << 10
 	if lr, ok := r.(*io.LimitedReader); ok {
 		r = lr.R
 	}
 	st, ok := r.(interface{ Stat() (fs.FileInfo, error) })
 	if !ok {
-		return size
+		return big, false
 	}
 	fi, err := st.Stat()
-	if err != nil || !fi.Mode().IsRegular() || fi.Size() >= size {
-		return size
+	if err != nil || !fi.Mode().IsRegular() || fi.Size() >= big {
+		return big, false
 	}
-	return max(int(fi.Size())+1, 512)
+	return max(int(fi.Size())+1, 512), true
 }

@@ -54,6 +54,26 @@ type importer struct {
 	header []headerCell
 	row    []float64
 	tempOK bool
+	// sizeHint is the size in bytes of a small file read whole (0: not
+	// known); it sizes the output columns (presize).
+	sizeHint int
+}
+
+// presize gives the output columns room for the rows a small file can
+// hold, estimated from the length of its first data line: the file's size
+// over that length plus one (under 64 KiB over 2, so at most 256 KiB a
+// column, and within the row cap), so that they are not grown by
+// doubling.
+func (im *importer) presize(first []byte) {
+	if im.sizeHint <= 0 {
+		return
+	}
+	rows := min(im.sizeHint/(len(first)+1)+1, im.rowLimit())
+	for _, p := range im.plans {
+		if cap(*p.dst) == 0 {
+			*p.dst = make([]float64, 0, rows)
+		}
+	}
 }
 
 func (im *importer) optErr(field, value, detail string) error {
@@ -204,7 +224,9 @@ func (im *importer) run() (*DataSet, error) {
 		return nil, err
 	}
 	im.row = make([]float64, len(im.plans))
-	if pending != nil {
+	sized := pending != nil
+	if sized {
+		im.presize(pending)
 		if err := im.dataLine(pending); err != nil {
 			return nil, err
 		}
@@ -216,6 +238,10 @@ func (im *importer) run() (*DataSet, error) {
 		}
 		if line == nil {
 			break
+		}
+		if !sized {
+			im.presize(line)
+			sized = true
 		}
 		if err := im.dataLine(line); err != nil {
 			return nil, err

@@ -376,7 +376,7 @@ func (p ivPoints) Swap(a, b int) {
 // forwardPoints copies the finite points with V > 0, I > 0 inside w,
 // sorted by V, and counts the points in w that were left out.
 func forwardPoints(v, i []float64, w Window) (ivPoints, int) {
-	var p ivPoints
+	p := ivPoints{make([]float64, 0, len(v)), make([]float64, 0, len(v))}
 	skipped := 0
 	for k := range v {
 		if !w.Contains(v[k]) {

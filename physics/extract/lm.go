@@ -58,16 +58,23 @@ type lmResult struct {
 // when it sees the cancellation part-way).
 func levenberg(ctx context.Context, pr lmProblem, theta0 []float64, maxIter int) (lmResult, error) {
 	m, p := pr.m, pr.p
-	theta := append([]float64(nil), theta0...)
-	trial := make([]float64, p)
-	r := make([]float64, m)
-	rt := make([]float64, m)
-	jac := make([]float64, m*p)
-	jt := make([]float64, m*p)
-	a := make([]float64, p*p)
-	aa := make([]float64, p*p)
-	g := make([]float64, p)
-	d := make([]float64, p)
+	// One allocation for the work arrays; the Jacobian of a trial step
+	// needs its own array only when eval forms it (no jacobian).
+	njt := m * p
+	if pr.jacobian != nil {
+		njt = 0
+	}
+	buf := make([]float64, 4*p+2*m+m*p+njt+2*p*p)
+	take := func(n int) []float64 {
+		s := buf[:n:n]
+		buf = buf[n:]
+		return s
+	}
+	theta, trial, g, d := take(p), take(p), take(p), take(p)
+	copy(theta, theta0)
+	r, rt := take(m), take(m)
+	jac, jt := take(m*p), take(njt)
+	a, aa := take(p*p), take(p*p)
 	if err := ctx.Err(); err != nil {
 		return lmResult{}, err
 	}
@@ -127,12 +134,13 @@ func levenberg(ctx context.Context, pr lmProblem, theta0 []float64, maxIter int)
 				ct := sumSq(rt)
 				if ct <= cost && !math.IsNaN(ct) {
 					if pr.jacobian != nil {
-						pr.jacobian(trial, jt)
+						pr.jacobian(trial, jac) // the step is taken: jac is not needed
+					} else {
+						jac, jt = jt, jac
 					}
 					small := big < 1e-10 || cost-ct <= 1e-13*cost
 					theta, trial = trial, theta
 					r, rt = rt, r
-					jac, jt = jt, jac
 					cost = ct
 					lambda = math.Max(lambda/5, 1e-12)
 					accepted = true

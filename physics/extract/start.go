@@ -194,7 +194,7 @@ func cheungCheung(ctx context.Context, v, i []float64, vt float64) (CheungResult
 		}
 		y[j] = fastLog(i[j])
 	}
-	var xs, hs []float64
+	xs, hs := make([]float64, 0, m), make([]float64, 0, m)
 	// The window centred on point j starts at s = j - h.
 	err := slidingSlopes(ctx, y, v, 2*h+1, func(s int, b float64) {
 		xs = append(xs, i[s+h])
