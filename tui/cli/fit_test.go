@@ -572,3 +572,21 @@ func TestFitIVLitSaveTo(t *testing.T) {
 		t.Errorf("invalid document: %v", err)
 	}
 }
+
+// The batch's collector percentage makes a heap of 32 MiB for small batches
+// (543 % for 2,000 files: live 4 MiB + 2,000 x 512 B = 4.98 MiB,
+// 32 MiB / 4.98 MiB = 6.43 times it)
+// and leaves the default where twice the estimated live heap exceeds
+// 32 MiB (from 24,576 files on), so the heap is never more than
+// max(32 MiB, 2 x live): arithmetic of the rule in batchGCPercent.
+func TestBatchGCPercent(t *testing.T) {
+	for _, c := range []struct{ n, want int }{{1, 699}, {2000, 543}, {24575, 100}, {24576, 100}, {1000000, 100}} {
+		if got := batchGCPercent(c.n); got != c.want {
+			t.Errorf("batchGCPercent(%d) = %d, want %d", c.n, got, c.want)
+		}
+		live := 4<<20 + 512*c.n
+		if heap := live * (100 + batchGCPercent(c.n)) / 100; heap > max(32<<20, 2*live) {
+			t.Errorf("%d files: heap goal %d bytes above max(32 MiB, 2 x %d)", c.n, heap, live)
+		}
+	}
+}
