@@ -173,10 +173,23 @@ func (e *singleEval) solve(n int, v float64) float64 {
 	if !(wp > 0) && n > 0 {
 		wp, yp = e.w[n-1], e.y[n-1] // first evaluation: the previous point (sorted by V)
 	}
-	// First-order prediction from the earlier value, dW/dy = W/(1+W)
-	// (from W + ln W = y), kept within a factor 2.
-	t := (y - yp) / (1 + wp)
-	w := lambertW(y, wp*(1+math.Max(-0.5, math.Min(1, t))))
+	// Third-order Taylor prediction from the earlier value: with
+	// t = (y - yp)/(1 + W), W(y) = W (1 + t + t^2/(2 (1+W))
+	// + t^3 (1 - 2W)/(6 (1+W)^2) + R), from the derivatives of W + ln W = y
+	// (dW/dy = W/(1+W), d2W/dy2 = W/(1+W)^3, d3W/dy3 = W (1-2W)/(1+W)^5),
+	// the remainder R below t^4 for every W > 0. Where |t| < 1e-5 (R below
+	// 1e-20: the prediction is W to rounding; near convergence of a fit about
+	// half the points) it is taken as it is; else it starts the iteration,
+	// kept within a factor 2.
+	iw := 1 / (1 + wp)
+	t := (y - yp) * iw
+	f := t * (1 + t*iw*(0.5+t*(1-2*wp)*iw*(1.0/6)))
+	var w float64
+	if math.Abs(t) < 1e-5 && wp > 0 {
+		w = wp * (1 + f)
+	} else {
+		w = lambertW(y, wp*(1+math.Max(-0.5, math.Min(1, f))))
+	}
 	e.w[n], e.y[n] = w, y
 	return w
 }

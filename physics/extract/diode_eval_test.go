@@ -170,3 +170,36 @@ func TestLambertWOneStep(t *testing.T) {
 		}
 	}
 }
+
+// The third-order prediction of singleEval.solve is within t^4 (plus
+// rounding, 2e-15) of W0(e^y) for every W from 1e-13 to 1e3 and |t| up to
+// 0.1, so that below |t| = 1e-5 it is W to rounding: checked against
+// physics.LambertW0Exp and the defining identity W + ln W = y (Corless et
+// al., Adv. Comput. Math. 5, 329 (1996), eq. 1.5). After one evaluation
+// that moves y, solve gives W to 2e-15 (2e-16 |y| for y below -10, where W
+// is about e^y) whether it refines the prediction or takes it as it is.
+func TestSolvePrediction(t *testing.T) {
+	for _, y0 := range []float64{-30, -5, -1, 0, 1, 3, 10, 30, 300, 1000} {
+		w0 := physics.LambertW0Exp(y0)
+		for _, tt := range []float64{-0.1, -1e-2, -1e-3, -1e-5, -3e-7, 0, 1e-9, 2e-6, 9e-6, 1e-4, 1e-2, 0.1} {
+			y := y0 + tt*(1+w0)
+			e := newSingleEval(1, physics.ThermalVoltage(300))
+			e.w[0], e.y[0] = w0, y0
+			e.f = lambertForm{inf: true, c0: y, a: 1} // y(v = 0) = y
+			got := e.solve(0, 0)
+			want := physics.LambertW0Exp(y)
+			if math.Abs(got+math.Log(got)-y) > 1e-15*math.Max(1, math.Abs(y)) {
+				t.Errorf("y0=%g t=%g: W=%.17g misses W + ln W = y by %g", y0, tt, got, got+math.Log(got)-y)
+			}
+			// W ~ e^y for y << 0: its relative error is that of y
+			if math.Abs(got/want-1) > 2e-15*math.Max(1, math.Abs(y)/10) {
+				t.Errorf("y0=%g t=%g: W=%.17g, want %.17g", y0, tt, got, want)
+			}
+			iw := 1 / (1 + w0)
+			f := tt * (1 + tt*iw*(0.5+tt*(1-2*w0)*iw/6))
+			if r := math.Abs(w0*(1+f)/want - 1); r > math.Pow(tt, 4)+2e-15 {
+				t.Errorf("y0=%g t=%g: prediction off by %g, above t^4", y0, tt, r)
+			}
+		}
+	}
+}
