@@ -405,6 +405,12 @@ func parseNum(b []byte, dcomma bool) (float64, numStatus) {
 			b = buf[:n]
 		}
 	}
+	if x, ok := parseDecimal(b); ok {
+		if math.Abs(x) >= 9.9e37 {
+			return x, numOverflow
+		}
+		return x, numOK
+	}
 	// Reject forms strconv accepts but instruments never write (hex
 	// floats, digit separators) so they are not read as numbers silently.
 	for _, c := range b {
