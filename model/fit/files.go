@@ -46,7 +46,7 @@ func Import(files model.Files, path string, kind measure.Kind, now func() time.T
 
 // ImportContext is Import that stops, with ctx's error, when ctx is done.
 func ImportContext(ctx context.Context, files model.Files, path string, kind measure.Kind, now func() time.Time) (*measure.DataSet, error) {
-	f, err := OpenDataFile(files, path)
+	f, fi, err := openDataFile(files, path)
 	if err != nil {
 		return nil, err
 	}
@@ -55,28 +55,43 @@ func ImportContext(ctx context.Context, files model.Files, path string, kind mea
 	if rl, ok := files.(RowLimiter); ok {
 		opt.MaxRows = rl.RowLimit()
 	}
-	return measure.ImportContext(ctx, io.LimitReader(f, MaxFileBytes), path, opt)
+	// The importer sizes its buffer from Stat: give it the one made here.
+	return measure.ImportContext(ctx, io.LimitReader(statedFile{f, fi}, MaxFileBytes), path, opt)
 }
+
+// statedFile is an open file with the FileInfo already read for it.
+type statedFile struct {
+	fs.File
+	fi fs.FileInfo
+}
+
+func (s statedFile) Stat() (fs.FileInfo, error) { return s.fi, nil }
 
 // OpenDataFile opens the file at path in files (nil: the local file
 // system) under the fit's file policy: a regular file (no directory,
 // device or pipe that could block) of at most MaxFileBytes, else a
 // *FileError. The caller closes it and reads at most MaxFileBytes.
 func OpenDataFile(files model.Files, path string) (fs.File, error) {
+	f, _, err := openDataFile(files, path)
+	return f, err
+}
+
+// openDataFile is OpenDataFile, also giving the file's FileInfo.
+func openDataFile(files model.Files, path string) (fs.File, fs.FileInfo, error) {
 	if files == nil {
 		files = model.LocalFiles{}
 		if strings.TrimSpace(path) == "" {
-			return nil, &FileError{Path: `""`, Why: "no file named: give the path of a CSV or text file"}
+			return nil, nil, &FileError{Path: `""`, Why: "no file named: give the path of a CSV or text file"}
 		}
 	}
 	f, err := files.Open(path)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	fi, err := f.Stat()
 	if err != nil {
 		f.Close()
-		return nil, err
+		return nil, nil, err
 	}
 	why := ""
 	switch {
@@ -89,9 +104,9 @@ func OpenDataFile(files model.Files, path string) (fs.File, error) {
 	}
 	if why != "" {
 		f.Close()
-		return nil, &FileError{Path: path, Why: why}
+		return nil, nil, &FileError{Path: path, Why: why}
 	}
-	return f, nil
+	return f, fi, nil
 }
 
 // IsDataFile reports whether name ends in one of the data extensions
