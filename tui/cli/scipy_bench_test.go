@@ -32,7 +32,10 @@ import (
 // files (default 2000), JUNCO_BIN a junco binary to time instead of one
 // built from this tree. The files are invented data: the single-diode model
 // with Is, n, Rs and Rsh varied from file to file, 100 points from 0.05 to
-// 0.9 V, 1 % Gaussian current noise. Run:
+// 0.9 V, 1 % Gaussian current noise, written in five dialects in turn
+// (scipyBenchDialects: separators, decimal comma, units in the header or a
+// row of units, current in A, mA or uA, CRLF, quoted fields, extra
+// columns), which the scipy script reads too. Run:
 //
 //	JUNCO_SCIPY_BENCH=1 go test -run '^$' -bench ScipyPool -benchtime 3x ./tui/cli/
 func BenchmarkScipyPool(b *testing.B) {
@@ -106,7 +109,34 @@ func BenchmarkScipyPool(b *testing.B) {
 	b.ReportMetric(jt.Seconds()/pfit.Seconds(), "ratio_fitonly")
 }
 
-// writeScipyBenchFile writes invented file k of the comparison.
+// scipyBenchDialect is one way bench software writes an I-V file: the
+// file's extension, the field separator, the header (a second line is a
+// row of units), the temperature comment, the current unit's factor, a
+// decimal comma, CRLF line ends.
+type scipyBenchDialect struct {
+	ext, sep, header, temp string
+	perA                   float64 // current unit per ampere
+	dcomma, crlf           bool
+}
+
+// scipyBenchDialects are the dialects of the comparison's files, file k
+// taking dialect k mod 5: comma-separated with units in parentheses;
+// semicolons, a decimal comma and mA in the column name; tabs with units
+// in brackets and uA; blank-separated with a row of units and CRLF line
+// ends; quoted comma-separated fields with extra columns (time and a
+// compliance flag) before and after.
+func scipyBenchDialects() []scipyBenchDialect {
+	return []scipyBenchDialect{
+		{".csv", ",", "Voltage (V),Current (A)", "# temperature: 300 K", 1, false, false},
+		{".csv", ";", "bias_V;current_mA", "# T = 300K", 1e3, true, false},
+		{".tsv", "\t", "V [V]\tI [uA]", "# temp=300", 1e6, false, false},
+		{".dat", " ", "V I\nV A", "# Temperature 300 K", 1, false, true},
+		{".csv", ",", "\"time (s)\",\"V (V)\",\"I (A)\",\"compliance\"", "# Tchuck: 300 K (set point)", 1, false, false},
+	}
+}
+
+// writeScipyBenchFile writes invented file k of the comparison in dialect
+// k mod 5.
 func writeScipyBenchFile(b *testing.B, dir string, k int) {
 	rng := rand.New(rand.NewPCG(uint64(k), 16))
 	d := extract.SingleDiode{
@@ -115,17 +145,34 @@ func writeScipyBenchFile(b *testing.B, dir string, k int) {
 		SeriesResistanceOhm: 5 + 10*rng.Float64(),
 		ShuntResistanceOhm:  1e5 * math.Pow(10, rng.Float64()),
 	}
+	ds := scipyBenchDialects()
+	dl := ds[k%len(ds)]
 	const tempK = 300
 	vt := physics.ThermalVoltage(tempK)
 	var s strings.Builder
-	fmt.Fprintf(&s, "# invented data for the speed comparison (single-diode model plus 1 %% noise)\n# temperature: %d K\n", tempK)
-	s.WriteString("Voltage (V),Current (A)\n")
+	s.WriteString("# invented data for the speed comparison (single-diode model plus 1 % noise)\n" + dl.temp + "\n" + dl.header + "\n")
+	num := func(format string, x float64) string {
+		t := fmt.Sprintf(format, x)
+		if dl.dcomma {
+			t = strings.Replace(t, ".", ",", 1)
+		}
+		return t
+	}
 	const pts = 100
 	for j := 0; j < pts; j++ {
 		v := 0.05 + 0.85*float64(j)/(pts-1)
-		fmt.Fprintf(&s, "%.6g,%.8g\n", v, d.Current(v, vt)*(1+0.01*rng.NormFloat64()))
+		i := d.Current(v, vt) * (1 + 0.01*rng.NormFloat64()) * dl.perA
+		if strings.HasPrefix(dl.header, "\"time") {
+			fmt.Fprintf(&s, "\"%.3f\",\"%s\",\"%s\",\"0\"\n", 0.02*float64(j), num("%.6g", v), num("%.8g", i))
+			continue
+		}
+		s.WriteString(num("%.6g", v) + dl.sep + num("%.8g", i) + "\n")
 	}
-	if err := os.WriteFile(filepath.Join(dir, fmt.Sprintf("die%06d.csv", k)), []byte(s.String()), 0o644); err != nil {
+	text := s.String()
+	if dl.crlf {
+		text = strings.ReplaceAll(text, "\n", "\r\n")
+	}
+	if err := os.WriteFile(filepath.Join(dir, fmt.Sprintf("die%06d%s", k, dl.ext)), []byte(text), 0o644); err != nil {
 		b.Fatal(err)
 	}
 }

@@ -13,14 +13,18 @@ files, far from the minimum); the files
 spread over a multiprocessing Pool of 2 processes.
 
 Usage: python3 scipy_pool.py DIR OUT.csv
-Reads every DIR/*.csv written by the benchmark (comment lines with '#', a
-'# temperature: T K' line, a header line, then V (V), I (A)), writes
+Reads every DIR/*.csv, *.tsv, *.dat and *.txt written by the benchmark, in
+its dialects (comma, semicolon with a decimal comma, tab or blank
+separators; units in the column names or a row of units, current in A,
+mA or uA; '#' comments with the temperature; quoted fields and extra
+columns; CRLF), by numpy.loadtxt after the header is read, writes
 file,Is_A,n,Rs_ohm,Rsh_ohm to OUT.csv and the fitting time (pool start to
 last result, s) to standard output.
 """
 import glob
 import math
 import os
+import re
 import sys
 import time
 from multiprocessing import Pool
@@ -54,19 +58,57 @@ def dlog_current(v, cur, parts):
     return np.column_stack(((ie - i_s) * f, -ie * vd / a * f, -rs * cur * gd * f, -vd / rsh * f))
 
 
-def fit_file(path):
+# Units a column may carry (in its name or a row of units), as factors to SI.
+UNITS = {"V": 1.0, "mV": 1e-3, "A": 1.0, "mA": 1e-3, "uA": 1e-6, "nA": 1e-9}
+TEMP = re.compile(r"#\s*(?:temperature|temp|t|tchuck)\s*[:=]?\s*([-+0-9.eE]+)\s*(K|C)?\b", re.I)
+
+
+def name_unit(cell):
+    """Column name and unit of a header cell: 'Voltage (V)', 'I [uA]', 'bias_V'."""
+    c = cell.strip().strip('"')
+    m = re.match(r"(.*?)\s*[\(\[]\s*(\w+)\s*[\)\]]$", c) or re.match(r"(.*?)_(\w+)$", c)
+    if m and m.group(2) in UNITS:
+        return m.group(1).lower(), m.group(2)
+    return c.lower(), None
+
+
+def read_iv(path):
+    """Temperature (K), V (V) and I (A) of a file in any of the dialects."""
     temp = 300.0
-    with open(path) as f:
+    with open(path, newline="") as f:
         lines = f.read().splitlines()
     rows = []
     for ln in lines:
-        if ln.startswith("#"):
-            low = ln.lower()
-            if "temperature" in low:
-                temp = float(low.split(":")[1].split()[0])
+        t = ln.strip()
+        if not t:
             continue
-        rows.append(ln)
-    data = np.loadtxt(rows[1:], delimiter=",", ndmin=2)
+        if t.startswith("#"):
+            m = TEMP.match(t)
+            if m:
+                temp = float(m.group(1)) + (273.15 if (m.group(2) or "K").upper() == "C" else 0.0)
+            continue
+        rows.append(t)
+    head = rows[0]
+    sep = "\t" if "\t" in head else ";" if ";" in head else "," if "," in head else None
+    cells = head.split(sep)
+    names, units = zip(*(name_unit(c) for c in cells))
+    body = rows[1:]
+    first = [c.strip().strip('"') for c in body[0].split(sep)]
+    if all(c in UNITS for c in first):  # a row of units
+        units, body = first, body[1:]
+    vcol = next(k for k, n in enumerate(names) if n in ("v", "voltage", "bias"))
+    icol = next(k for k, n in enumerate(names) if n in ("i", "current"))
+    if sep != ",":  # a decimal comma
+        body = [b.replace(",", ".") for b in body]
+    body = [b.replace('"', "") for b in body]
+    data = np.loadtxt(body, delimiter=sep, usecols=(vcol, icol), ndmin=2)
+    data[:, 0] *= UNITS[units[vcol] or "V"]
+    data[:, 1] *= UNITS[units[icol] or "A"]
+    return temp, data
+
+
+def fit_file(path):
+    temp, data = read_iv(path)
     v, i = data[:, 0], data[:, 1]
     keep = (v > 0) & (i > 0)
     v, i = v[keep], i[keep]
@@ -107,7 +149,7 @@ def fit_file(path):
 
 
 def main():
-    files = sorted(glob.glob(os.path.join(sys.argv[1], "*.csv")))
+    files = sorted(f for e in ("csv", "tsv", "dat", "txt") for f in glob.glob(os.path.join(sys.argv[1], "*." + e)))
     t0 = time.perf_counter()
     with Pool(2) as pool:
         out = pool.map(fit_file, files, chunksize=16)
