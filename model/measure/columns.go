@@ -43,7 +43,7 @@ func (im *importer) unitRow(line []byte) (bool, error) {
 		switch h := im.header[k]; {
 		case u == "":
 		case h.unit == "":
-			im.header[k].unit = u
+			im.header[k] = im.header[k].withUnit(u)
 			im.header[k].raw += " (" + u + ")"
 		case h.unit != u:
 			a, _ := lookupUnit(h.unit)
@@ -286,7 +286,7 @@ func (im *importer) plan(headerless bool, line int) error {
 		*col = idx + 1
 		u := c.unit
 		if u != "" {
-			un, ok := lookupUnit(u)
+			un, ok := c.known, c.hasKnown
 			if !ok || un.q != q {
 				what := ErrUnknownUnit
 				detail := fmt.Sprintf("the unit of column %d is not a %s unit; allowed %s", idx+1, q, allowedUnits(q))

@@ -10,6 +10,17 @@ type headerCell struct {
 	raw  string // as read (quotes removed, trimmed)
 	name string // normalised name: lower case, no spaces, '_', '-', '.'
 	unit string // unit text as written, "" if none
+	// known is lookupUnit(unit), found once (withUnit): a header cell's
+	// unit is asked for by every column choice.
+	known    unit
+	hasKnown bool
+}
+
+// withUnit returns c with unit u and its lookup.
+func (c headerCell) withUnit(u string) headerCell {
+	c.unit = u
+	c.known, c.hasKnown = lookupUnit(u)
+	return c
 }
 
 func normName(s string) string {
@@ -47,8 +58,7 @@ func splitCell(raw string) headerCell {
 		}
 		if k := strings.LastIndexByte(raw, open); k >= 0 {
 			c.name = normName(raw[:k])
-			c.unit = strings.TrimSpace(raw[k+1 : len(raw)-1])
-			return c
+			return c.withUnit(strings.TrimSpace(raw[k+1 : len(raw)-1]))
 		}
 	}
 	// "name/unit", "name_unit", "name unit", "name-unit".
@@ -57,7 +67,7 @@ func splitCell(raw string) headerCell {
 		if unit, ok := lookupUnit(u); ok {
 			role, _ := nameRole(normName(name))
 			if role == QuantityNone || role == unit.q {
-				return headerCell{raw: raw, name: normName(name), unit: u}
+				return headerCell{raw: raw, name: normName(name), unit: u, known: unit, hasKnown: true}
 			}
 		}
 	}
@@ -126,8 +136,8 @@ func score(c headerCell) (Quantity, int) {
 	}
 	q, s := nameRole(c.name)
 	if q == QuantityNone {
-		if u, ok := lookupUnit(c.unit); ok {
-			q, s = u.q, 10
+		if c.hasKnown {
+			q, s = c.known.q, 10
 		} else if c.name == "t" && c.unit == "" {
 			return QuantityNone, 0 // "t" alone is as often time as temperature
 		}
@@ -151,12 +161,12 @@ func score(c headerCell) (Quantity, int) {
 // index) or by the best score among the columns not yet taken. It returns
 // -1 when none fits.
 func pickColumn(cells []headerCell, q Quantity, opt Column, file string, line int, taken []bool) (int, error) {
-	header := rawCells(cells)
+	header := func() []string { return rawCells(cells) } // for errors only
 	if opt.Index != 0 || opt.Name != "" {
 		idx := -1
 		if opt.Index != 0 {
 			if opt.Index < 1 || opt.Index > len(cells) {
-				return -1, &ColumnError{File: file, Line: line, Role: q.String(), Header: header, Err: ErrOption,
+				return -1, &ColumnError{File: file, Line: line, Role: q.String(), Header: header(), Err: ErrOption,
 					Detail: fmt.Sprintf("column index %d outside 1..%d", opt.Index, len(cells))}
 			}
 			idx = opt.Index - 1
@@ -173,11 +183,11 @@ func pickColumn(cells []headerCell, q Quantity, opt Column, file string, line in
 				}
 			}
 			if byName < 0 {
-				return -1, &ColumnError{File: file, Line: line, Role: q.String(), Header: header, Err: ErrOption,
+				return -1, &ColumnError{File: file, Line: line, Role: q.String(), Header: header(), Err: ErrOption,
 					Detail: fmt.Sprintf("no column named %q", opt.Name)}
 			}
 			if idx >= 0 && idx != byName {
-				return -1, &ColumnError{File: file, Line: line, Role: q.String(), Header: header, Err: ErrOption,
+				return -1, &ColumnError{File: file, Line: line, Role: q.String(), Header: header(), Err: ErrOption,
 					Detail: fmt.Sprintf("column name %q is column %d, not the index %d also given", opt.Name, byName+1, opt.Index)}
 			}
 			idx = byName
@@ -201,7 +211,7 @@ func pickColumn(cells []headerCell, q Quantity, opt Column, file string, line in
 		}
 	}
 	if tie >= 0 {
-		return -1, &ColumnError{File: file, Line: line, Column: tie + 1, Role: q.String(), Header: header, Err: ErrAmbiguousColumn,
+		return -1, &ColumnError{File: file, Line: line, Column: tie + 1, Role: q.String(), Header: header(), Err: ErrAmbiguousColumn,
 			Detail: fmt.Sprintf("columns %d and %d both look like %s; choose one in the import options",
 				best+1, tie+1, q)}
 	}
