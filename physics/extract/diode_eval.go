@@ -188,7 +188,7 @@ func (e *singleEval) solve(n int, v float64) float64 {
 	if math.Abs(t) < 1e-5 && wp > 0 {
 		w = wp * (1 + f)
 	} else {
-		w = lambertW(y, wp*(1+math.Max(-0.5, math.Min(1, f))))
+		w = lambertW(y, wp*(1+max(-0.5, min(1, f))))
 	}
 	e.w[n], e.y[n] = w, y
 	return w

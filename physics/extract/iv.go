@@ -398,7 +398,7 @@ func forwardPoints(v, i []float64, w Window) (ivPoints, int) {
 func maxRatio(v, i []float64) float64 {
 	m := 0.0
 	for k := range v {
-		m = math.Max(m, v[k]/i[k])
+		m = max(m, v[k]/i[k])
 	}
 	return m
 }
@@ -406,7 +406,7 @@ func maxRatio(v, i []float64) float64 {
 func seriesEffect(p ivPoints, rs, a float64) float64 {
 	m := 0.0
 	for _, c := range p.i {
-		m = math.Max(m, c*rs/a)
+		m = max(m, c*rs/a)
 	}
 	return m
 }
@@ -436,7 +436,7 @@ func shuntEffect(p ivPoints, d SingleDiode) float64 {
 	m := 0.0
 	for k := range p.v {
 		vd := p.v[k] - p.i[k]*d.SeriesResistanceOhm
-		m = math.Max(m, vd/d.ShuntResistanceOhm/p.i[k])
+		m = max(m, vd/d.ShuntResistanceOhm/p.i[k])
 	}
 	return m
 }
@@ -445,7 +445,7 @@ func shuntEffectDouble(p ivPoints, vt float64, d DoubleDiode) float64 {
 	m := 0.0
 	for k := range p.v {
 		vd := p.v[k] - p.i[k]*d.SeriesResistanceOhm
-		m = math.Max(m, vd/d.ShuntResistanceOhm/p.i[k])
+		m = max(m, vd/d.ShuntResistanceOhm/p.i[k])
 	}
 	return m
 }
@@ -454,7 +454,7 @@ func recombEffect(p ivPoints, vt float64, d DoubleDiode) float64 {
 	m := 0.0
 	for k := range p.v {
 		vd := p.v[k] - p.i[k]*d.SeriesResistanceOhm
-		m = math.Max(m, d.RecombinationCurrentA*math.Expm1(vd/(2*vt))/p.i[k])
+		m = max(m, d.RecombinationCurrentA*math.Expm1(vd/(2*vt))/p.i[k])
 	}
 	return m
 }
