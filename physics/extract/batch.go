@@ -7,6 +7,7 @@ import (
 	"runtime"
 	"sort"
 	"sync"
+	"sync/atomic"
 )
 
 // BatchOptions configures RunBatch.
@@ -46,35 +47,25 @@ func RunBatch[In, Out any](ctx context.Context, items []In, opt BatchOptions, fn
 	if n == 0 {
 		return res, ctx.Err()
 	}
-	idx := make(chan int)
+	// Each worker takes the next item by an atomic counter (no feeding
+	// goroutine, no channel hand-off for each item).
+	var next atomic.Int64
 	done := make(chan int, jobs)
 	var wg sync.WaitGroup
 	for w := 0; w < jobs; w++ {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			for k := range idx {
-				if ctx.Err() != nil {
-					continue // drain; the item stays not run
+			for ctx.Err() == nil { // once cancelled, the items left stay not run
+				k := int(next.Add(1) - 1)
+				if k >= n {
+					return
 				}
 				res[k] = runOne(ctx, items[k], fn)
 				done <- k
 			}
 		}()
 	}
-	go func() {
-		defer close(idx)
-		for k := 0; k < n; k++ {
-			if ctx.Err() != nil {
-				return
-			}
-			select {
-			case idx <- k:
-			case <-ctx.Done():
-				return
-			}
-		}
-	}()
 	go func() { wg.Wait(); close(done) }()
 	count := 0
 	for range done {
