@@ -82,11 +82,20 @@ type BatchOptions struct {
 // result). Every row carries its die (Dies); a manifest that cannot be
 // used stops the batch before any fit, with a nil result.
 func Batch(ctx context.Context, files []string, opt BatchOptions) (*BatchResult, error) {
-	dies, err := Dies(opt.Files, files)
+	dt, err := dieManifests(opt.Files, files)
 	if err != nil {
 		return nil, err
 	}
-	one := func(ctx context.Context, p string) (BatchRow, error) {
+	// Each worker finds the die of the files it fits (dieTable.die only
+	// reads the manifests): no pass over the names before the first fit.
+	dies, dieSet := make([]Die, len(files)), make([]bool, len(files))
+	idx := make([]int, len(files))
+	for k := range idx {
+		idx[k] = k
+	}
+	one := func(ctx context.Context, k int) (BatchRow, error) {
+		p := files[k]
+		dies[k], dieSet[k] = dt.die(p), true
 		row := BatchRow{File: p}
 		if err := ctx.Err(); err != nil {
 			return row, err
@@ -116,7 +125,7 @@ func Batch(ctx context.Context, files []string, opt BatchOptions) (*BatchResult,
 		row.RMS, row.Points = f.RMSLogResidual, f.Points
 		return row, nil
 	}
-	res, runErr := extract.RunBatch(ctx, files, extract.BatchOptions{Jobs: opt.Jobs, Progress: opt.Progress}, one)
+	res, runErr := extract.RunBatch(ctx, idx, extract.BatchOptions{Jobs: opt.Jobs, Progress: opt.Progress}, one)
 	out := &BatchResult{Rows: make([]BatchRow, len(files)), Interrupted: runErr != nil}
 	for k, r := range res {
 		row := r.Value
@@ -135,6 +144,9 @@ func Batch(ctx context.Context, files []string, opt BatchOptions) (*BatchResult,
 		default:
 			row.Status = StatusOK
 			out.Fitted++
+		}
+		if !dieSet[k] { // not run
+			dies[k] = dt.die(files[k])
 		}
 		row.Die = dies[k]
 		out.Rows[k] = row

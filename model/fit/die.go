@@ -238,37 +238,58 @@ func isManifest(name string) bool { return strings.EqualFold(filepath.Base(name)
 // without a manifest is fine; a manifest that cannot be read or parsed is
 // an error (*ManifestError, or the file system's).
 func Dies(files model.Files, batch []string) ([]Die, error) {
+	t, err := dieManifests(files, batch)
+	if err != nil {
+		return nil, err
+	}
+	out := make([]Die, len(batch))
+	for k, f := range batch {
+		out[k] = t.die(f)
+	}
+	return out, nil
+}
+
+// dieTable holds the manifests of the folders of a batch (nil: none).
+type dieTable map[string]manifest
+
+// dieManifests reads the manifest of every folder of the batch's files, in
+// the order of the files; the first that cannot be used is the error.
+func dieManifests(files model.Files, batch []string) (dieTable, error) {
 	if files == nil {
 		files = model.LocalFiles{}
 	}
-	byDir := map[string]manifest{}
-	out := make([]Die, len(batch))
-	for k, f := range batch {
+	t := dieTable{}
+	for _, f := range batch {
 		dir := filepath.Dir(f)
-		man, seen := byDir[dir]
-		if !seen {
-			var err error
-			if man, err = loadManifest(files, dir); err != nil {
-				return nil, err
-			}
-			byDir[dir] = man
-		}
-		x, y, named, nameErr := DieFromFileName(f)
-		if d, ok := man[strings.ToLower(filepath.Base(f))]; ok {
-			if named && (x != d.X || y != d.Y) {
-				d.Note = fmt.Sprintf("the manifest's x=%d y=%d differs from the name's x=%d y=%d; the manifest wins", d.X, d.Y, x, y)
-			}
-			out[k] = d
+		if _, seen := t[dir]; seen {
 			continue
 		}
-		switch {
-		case named:
-			out[k] = Die{X: x, Y: y, Source: DieFromName}
-		case nameErr != nil:
-			out[k] = Die{Note: nameErr.Error()}
+		man, err := loadManifest(files, dir)
+		if err != nil {
+			return nil, err
 		}
+		t[dir] = man
 	}
-	return out, nil
+	return t, nil
+}
+
+// die is the die of batch file f (see Dies); it only reads the table, so
+// the workers of a batch call it at once.
+func (t dieTable) die(f string) Die {
+	x, y, named, nameErr := DieFromFileName(f)
+	if d, ok := t[filepath.Dir(f)][strings.ToLower(filepath.Base(f))]; ok {
+		if named && (x != d.X || y != d.Y) {
+			d.Note = fmt.Sprintf("the manifest's x=%d y=%d differs from the name's x=%d y=%d; the manifest wins", d.X, d.Y, x, y)
+		}
+		return d
+	}
+	switch {
+	case named:
+		return Die{X: x, Y: y, Source: DieFromName}
+	case nameErr != nil:
+		return Die{Note: nameErr.Error()}
+	}
+	return Die{}
 }
 
 // loadManifest reads the manifest of dir, nil when there is none.
