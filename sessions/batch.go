@@ -128,7 +128,7 @@ func NewBatch(folder string, res *fit.BatchResult, limits []fit.Limit, opt fit.I
 	}
 	b.Rows = make([]BatchRow, 0, len(res.Rows))
 	for _, r := range res.Rows {
-		row := BatchRow{File: batchFileName(folder, r.File), Status: r.Status}
+		row := BatchRow{File: BatchFileName(folder, r.File), Status: r.Status}
 		if r.Err != nil {
 			row.Error = oneLine(r.Err.Error(), maxLineRunes)
 		}
@@ -165,9 +165,10 @@ func NewBatch(folder string, res *fit.BatchResult, limits []fit.Limit, opt fit.I
 	return b
 }
 
-// batchFileName is file relative to folder when it lies within it (the
-// base name when file is the folder), file otherwise.
-func batchFileName(folder, file string) string {
+// BatchFileName is file relative to folder when it lies within it (the
+// base name when file is the folder), file otherwise: the name a kept
+// batch stores and the batch screen shows.
+func BatchFileName(folder, file string) string {
 	if folder == "" {
 		return file
 	}

@@ -186,29 +186,41 @@ func (m Model) header() string {
 // shortHelp is the one-line help of bindings in w cells: as many entries
 // as fit whole, then an ellipsis when some are left out.
 func shortHelp(hm help.Model, bindings []key.Binding, w int) string {
+	return helpLines(hm, bindings, "", w, 1)[0]
+}
+
+// helpLines is the help of bindings after lead (a note, already painted,
+// or "") in at most n lines of w cells: entries whole, a line broken
+// between entries, then an ellipsis when some are left out.
+func helpLines(hm help.Model, bindings []key.Binding, lead string, w, n int) []string {
 	sep := hm.Styles.ShortSeparator.Inline(true).Render(hm.ShortSeparator)
 	tail := " " + hm.Styles.Ellipsis.Inline(true).Render(hm.Ellipsis)
-	var b strings.Builder
-	total := 0
+	var lines []string
+	line, lw, keys := lead, width(lead), 0 // keys: entries on the line
 	for _, kb := range bindings {
 		if !kb.Enabled() {
 			continue
 		}
 		item := hm.Styles.ShortKey.Inline(true).Render(kb.Help().Key) + " " + hm.Styles.ShortDesc.Inline(true).Render(kb.Help().Desc)
-		if total > 0 {
+		if keys > 0 {
 			item = sep + item
 		}
-		iw := width(item)
-		if total+iw > w {
-			if total > 0 && total+width(tail) <= w {
-				b.WriteString(tail)
-			}
-			break
+		if lw+width(item) <= w {
+			line, lw, keys = line+item, lw+width(item), keys+1
+			continue
 		}
-		total += iw
-		b.WriteString(item)
+		if len(lines)+1 < n && lw > 0 {
+			lines = append(lines, line)
+			item = strings.TrimPrefix(item, sep)
+			line, lw, keys = item, width(item), 1
+			continue
+		}
+		if keys > 0 && lw+width(tail) <= w {
+			line += tail
+		}
+		break
 	}
-	return b.String()
+	return append(lines, line)
 }
 
 // body lays the panels out.

@@ -158,27 +158,60 @@ func (k KeyMap) batchKeys() batchKeys {
 	b := func(keys []string, k, desc string) key.Binding {
 		return key.NewBinding(key.WithKeys(keys...), key.WithHelp(k, desc))
 	}
-	return batchKeys{Run: b([]string{"enter"}, "enter", "fit the files / open the die"),
-		Focus:  b([]string{"tab", "shift+tab"}, "tab", "directory/map"),
+	return batchKeys{Run: b([]string{"enter"}, "enter", "fit the folder"),
+		Focus:  b([]string{"tab", "shift+tab"}, "tab", "map"),
 		Export: b([]string{"ctrl+e"}, "ctrl+e", "export CSV"),
-		Keep:   b([]string{"ctrl+k"}, "ctrl+k", "keep with the session"),
+		Keep:   b([]string{"ctrl+k"}, "ctrl+k", "keep table"),
 		Kept:   b([]string{"pgup", "pgdown"}, "pgup/pgdn", "kept tables"),
-		Close:  b([]string{"esc"}, "esc", "cancel or close"),
+		Close:  b([]string{"esc"}, "esc", "close"),
 		Walk:   b([]string{"up", "down", "left", "right"}, "arrows", "walk dies"),
 		Param:  b([]string{"[", "]"}, "[ ]", "parameter"),
 		Left:   b([]string{"left", "h"}, "left", "die on the left"), Right: b([]string{"right", "l"}, "right", "die on the right"),
 		Up: b([]string{"up", "k"}, "up", "die above"), Down: b([]string{"down", "j"}, "down", "die below"),
-		Open: b([]string{"enter"}, "enter", "open the die"),
+		Open: b([]string{"enter"}, "enter", "open die"),
 		Next: b([]string{"]"}, "]", "next parameter"), Prev: b([]string{"["}, "[", "previous parameter"),
-		Wafer:  b([]string{"w"}, "w", "wafer"),
-		AddDie: b([]string{"f"}, "f", "add the die to the session and fit")}
+		Wafer:  b([]string{"w"}, "w", "next wafer"),
+		AddDie: b([]string{"f"}, "f", "add to session and fit")}
 }
 
-func (k batchKeys) ShortHelp() []key.Binding {
-	return []key.Binding{k.Run, k.Focus, k.Walk, k.Param, k.Wafer, k.Export, k.Keep, k.Kept, k.Close}
-}
+// footerLines: the batch screen's keys take two lines at 80 columns, a
+// third with a note.
+func (b *batchScreen) footerLines() int { return 3 }
 
-func (b *batchScreen) footer(m Model) []key.Binding { return m.e.keys.batchKeys().ShortHelp() }
+// footer is the keys that act in the screen's state, the most used
+// first: a run out (esc cancels), a die's fit, the map, the folder field.
+// With the note they take more footer lines where one does not hold
+// them (tallFooter), so that every key stays in view.
+func (b *batchScreen) footer(m Model) []key.Binding {
+	k := m.e.keys.batchKeys()
+	help := func(kb key.Binding, desc string) key.Binding {
+		kb.SetHelp(kb.Help().Key, desc)
+		return kb
+	}
+	if b.running {
+		return []key.Binding{help(k.Close, "cancel (the files finished are kept)")}
+	}
+	table := []key.Binding{k.Export, k.Keep, k.Kept}
+	switch {
+	case b.wm.die != nil:
+		k.AddDie.SetEnabled(b.wm.die.ds != nil)
+		return append(append([]key.Binding{help(k.Walk, "next die"), k.AddDie}, table...), help(k.Close, "back to the map"))
+	case b.wm.onMap(b.view):
+		keys := []key.Binding{k.Walk, k.Open, k.Param}
+		if len(fit.Wafers(b.view.Rows)) > 1 {
+			keys = append(keys, k.Wafer)
+		}
+		return append(append(append(keys, help(k.Focus, "folder")), table...), k.Close)
+	}
+	keys := []key.Binding{k.Run}
+	if b.view != nil {
+		if b.wm.hasDies {
+			keys = append(keys, k.Focus)
+		}
+		keys = append(keys, k.Export, k.Keep)
+	}
+	return append(keys, k.Kept, k.Close)
+}
 
 // listen takes the run's messages, on top or not.
 func (b *batchScreen) listen(_ *Model, msg tea.Msg) tea.Cmd {
@@ -245,7 +278,8 @@ func (b *batchScreen) draw(m Model, w, h int) []string {
 	case b.running:
 		out = append(out, st.strong.Paint(c(fmt.Sprintf("%d of %d files", b.n, b.total)))+st.muted.Paint("  esc cancels"))
 	case b.view != nil:
-		out = append(out, st.strong.Paint(c(fmt.Sprintf("%d of %d files", b.n, b.total))))
+		v := b.view
+		out = append(out, st.strong.Paint(c(fmt.Sprintf("%d of %d files: %d fitted, %d failed, %d not run", b.n, b.total, v.Fitted, v.Failed, v.NotRun))))
 	default:
 		out = append(out, st.muted.Paint(c("type a directory of I-V files (.csv, .tsv, .txt, .dat; subdirectories too); enter fits them all")))
 		if m.sess.filesNote != "" {
@@ -262,7 +296,6 @@ func (b *batchScreen) draw(m Model, w, h int) []string {
 	if b.wm.die != nil {
 		return block(append(out, b.dieFitView(m, w, h-len(out))...), w, h, g.ellipsis)
 	}
-	out = append(out, "", c(fmt.Sprintf("%d fitted, %d failed, %d not run", v.Fitted, v.Failed, v.NotRun)))
 	out = append(out, st.strong.Paint(c(fmt.Sprintf("  %-4s %-11s %-11s %-11s %s", "", "median", "Q1", "Q3", "outliers"))))
 	params := fit.BatchParams()
 	for j := range 3 { // Is, n, Rs
@@ -275,10 +308,7 @@ func (b *batchScreen) draw(m Model, w, h int) []string {
 	if !b.wm.hasDies {
 		return block(append(out, b.table(m, w, room, 20, -1)...), w, h, g.ellipsis)
 	}
-	tw := batchTableWidth(w)
-	table := block(b.dieTable(m, tw, room), tw, room, g.ellipsis)
-	right := block(b.waferMapLines(m, w-tw-3, room), w-tw-3, room, g.ellipsis)
-	return block(append(out, joinColumns(" "+st.faint.Paint(g.vbar)+" ", table, right)...), w, h, g.ellipsis)
+	return block(append(out, b.dieTableAndMap(m, w, room)...), w, h, g.ellipsis)
 }
 
 // table is the file table of the batch screen in w columns and at
@@ -300,13 +330,9 @@ func (b *batchScreen) table(m Model, w, room, nameW, cursor int) []string {
 			break
 		}
 		r := b.view.Rows[idx[i]]
-		file := r.File
-		if rel, err := filepath.Rel(b.dir, r.File); err == nil {
-			file = rel
-		}
 		// Names and errors come from a folder others may fill: control
 		// characters are shown escaped.
-		name := cut(sessions.Printable(file, 0, ""), nameW, g.ellipsis)
+		name := cut(sessions.Printable(sessions.BatchFileName(b.dir, r.File), 0, ""), nameW, g.ellipsis)
 		mark, paint := "  ", st.text
 		if idx[i] == cursor {
 			mark, paint = g.cursor+" ", st.selected

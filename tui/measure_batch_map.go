@@ -52,6 +52,14 @@ func newWaferMapState(v *fit.BatchResult) waferMapState {
 	return s
 }
 
+// waferKey is the wafer shown (fit.WaferKey; "" when the dies name none).
+func (s waferMapState) waferKey(rows []fit.BatchRow) string {
+	if ws := fit.Wafers(rows); s.wafer < len(ws) {
+		return ws[s.wafer]
+	}
+	return ""
+}
+
 // onMap reports whether keys go to the map (or the die's fit).
 func (s waferMapState) onMap(v *fit.BatchResult) bool {
 	return v != nil && s.hasDies && (s.focus || s.die != nil)
@@ -164,9 +172,6 @@ func dieLabel(d fit.Die) string {
 	return s
 }
 
-// batchTableWidth is the width of the file table beside the map.
-func batchTableWidth(w int) int { return min(max(w/2-2, 30), 56) }
-
 // waferInks paints the map's classes: a cool-to-warm scale for the
 // shades, the workbench's error, warning and pinned colours for the
 // marks. Built from the session's renderer; without colour, nothing.
@@ -189,11 +194,7 @@ func (b *batchScreen) waferMapLines(m Model, w, h int) []string {
 	st, g := m.e.st, m.e.g
 	s := b.wm
 	rows := b.view.Rows
-	ws := fit.Wafers(rows)
-	wafer := ""
-	if s.wafer < len(ws) {
-		wafer = ws[s.wafer]
-	}
+	wafer := s.waferKey(rows)
 	inks := m.waferInks()
 	paint := func(c fit.DieClass, t string) string {
 		if k, ok := inks[c]; ok {
@@ -213,12 +214,13 @@ func (b *batchScreen) waferMapLines(m Model, w, h int) []string {
 	if s.cursor >= 0 && s.cursor < len(rows) {
 		r := rows[s.cursor]
 		p := fit.BatchParams()[s.param]
-		val := g.bad + " " + sessions.Printable(oneLine(fmt.Sprint(r.Err)), 0, "")
-		if r.Status == fit.StatusOK {
-			val = p.Symbol + " " + model.Format(p.Kind, r.Values[s.param], 4, m.e.ascii)
-		}
 		out = append(out, "", st.strong.Paint(cut(g.cursor+" "+dieLabel(r.Die)+"  "+sessions.Printable(filepath.Base(r.File), 0, ""), w, g.ellipsis)))
-		out = append(out, cut("  "+val, w, g.ellipsis))
+		switch {
+		case r.Status == fit.StatusOK:
+			out = append(out, cut("  "+p.Symbol+" "+model.Format(p.Kind, r.Values[s.param], 4, m.e.ascii), w, g.ellipsis))
+		case r.Err != nil:
+			out = append(out, wrapped(g.bad+" "+rowError(r.Err), w, st.err, "  ")...)
+		}
 		if r.Die.Note != "" {
 			out = append(out, wrapped(r.Die.Note, w, st.muted, "  ")...)
 		}
@@ -282,47 +284,4 @@ func (m Model) dieChart(d *dieFit, w, h int) []string {
 	out := []string{st.series[1].Paint(dot) + " measured  " + st.series[0].Paint(g.markers[0]) + " fit", st.muted.Paint("|current I| (A, log scale)")}
 	out = append(out, renderPlot(srcs, xs, ys, w, ph, m.e)...)
 	return append(out, st.muted.Paint(padLeft("bias V (V)", w)))
-}
-
-// dieTable is the file table beside the map, in w columns and at most
-// room lines: file, die position and the value of the column mapped (or
-// the error); the cursor's row is highlighted and kept in view.
-func (b *batchScreen) dieTable(m Model, w, room int) []string {
-	st, g := m.e.st, m.e.g
-	p := fit.BatchParams()[b.wm.param]
-	valW := 11
-	nameW := max(w-2-1-9-1-valW, 8)
-	out := []string{st.strong.Paint(cut(fmt.Sprintf("  %-*s %-9s %s", nameW, "file", "die", p.Symbol), w, g.ellipsis))}
-	room--
-	idx, first := rowsInView(b.view.Rows, b.wm.cursor, room)
-	for i := first; i < len(idx); i++ {
-		if i-first >= room-1 && len(idx)-first > room {
-			out = append(out, st.muted.Paint(cut(fmt.Sprintf("  ... %d more", len(idx)-i), w, g.ellipsis)))
-			break
-		}
-		r := b.view.Rows[idx[i]]
-		file := r.File
-		if rel, err := filepath.Rel(b.dir, r.File); err == nil {
-			file = rel
-		}
-		file = sessions.Printable(file, 0, "") // from a folder others may fill
-		pos := "-"
-		if r.Die.Known() {
-			pos = fmt.Sprintf("x%d y%d", r.Die.X, r.Die.Y)
-		}
-		val, paint := "", st.text
-		switch {
-		case r.Err != nil:
-			val, paint = g.bad+" "+sessions.Printable(oneLine(r.Err.Error()), 0, ""), st.err
-		default:
-			val = model.Format(p.Kind, r.Values[b.wm.param], 4, m.e.ascii)
-		}
-		mark := "  "
-		if idx[i] == b.wm.cursor {
-			mark, paint = g.cursor+" ", st.selected
-		}
-		line := fmt.Sprintf("%-*s %-9s %s", nameW, cut(file, nameW, g.ellipsis), cut(pos, 9, g.ellipsis), val)
-		out = append(out, mark+paint.Paint(cut(line, w-2, g.ellipsis)))
-	}
-	return out
 }

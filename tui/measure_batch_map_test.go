@@ -14,8 +14,8 @@ import (
 // named by die position; see its README).
 const waferDir = "cli/testdata/fit/wafermap"
 
-// The batch screen with the wafer map beside the table, at 80x24 and
-// 120x40: after the run, after walking two dies right and one down, and
+// The batch screen with the wafer map beside the table, at 80x24, 120x40
+// and 200x60: after the run, after walking two dies right and one down, and
 // with a die's fit open.
 func TestGoldenBatchMap(t *testing.T) {
 	cases := []struct {
@@ -26,7 +26,7 @@ func TestGoldenBatchMap(t *testing.T) {
 		{"walked", []string{"right", "down", "]"}},
 		{"die", []string{"right", "down", "enter"}},
 	}
-	for _, size := range [][2]int{{80, 24}, {120, 40}} {
+	for _, size := range goldenSizes {
 		for _, c := range cases {
 			t.Run(fmt.Sprintf("batch-%s-%dx%d", c.name, size[0], size[1]), func(t *testing.T) {
 				m := newTest(t, size[0], size[1])

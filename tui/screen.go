@@ -27,6 +27,15 @@ type screen interface {
 	footer(m Model) []key.Binding
 }
 
+// tallFooter is a screen whose footer takes up to footerLines lines
+// (fewer on a short terminal) where one does not hold the note and every
+// key of the screen: the batch screen, whose keys all stay in view at 80
+// columns.
+type tallFooter interface {
+	screen
+	footerLines() int
+}
+
 // listener is a screen that takes the messages other than keys while it
 // is on the stack, on top or not, bottom first: the fit screen draws its
 // chart again for a new terminal size, the batch screen takes its run's

@@ -582,16 +582,20 @@ func (m Model) View() string {
 	}
 	var lines []string
 	lines = append(lines, m.header())
+	foot := m.footer()
 	if s := m.top(); s != nil {
-		lines = append(lines, s.draw(m, w, h-2)...)
+		lines = append(lines, s.draw(m, w, h-1-len(foot))...)
 	} else {
 		lines = append(lines, m.body()...)
 	}
-	lines = append(lines, m.footer())
+	lines = append(lines, foot...)
 	return strings.Join(block(lines, w, h, m.e.g.ellipsis), "\n")
 }
 
-func (m Model) footer() string {
+// footer is the note and the keys of the panel or the screen on top: one
+// line, more for a screen that asks for them (tallFooter) when one line
+// does not hold them.
+func (m Model) footer() []string {
 	st := m.e.st
 	var hk help.KeyMap
 	switch m.focus {
@@ -602,14 +606,27 @@ func (m Model) footer() string {
 	default:
 		hk = chartHelp{k: m.e.keys, typing: m.chart.editing}
 	}
-	keys := hk.ShortHelp()
+	keys, n := hk.ShortHelp(), 1
 	if s := m.top(); s != nil {
 		keys = s.footer(m)
+		if t, ok := s.(tallFooter); ok {
+			n = max(min(t.footerLines(), 1+(m.h-minHeight)/6), 1)
+		}
 	}
-	hm := m.help
 	note := ""
+	var head []string // a tall footer's note wraps over its first lines
+	if m.note != "" && n > 1 {
+		nl := wrapText(m.note, max(m.w-2, 1))
+		if len(nl) > n-1 {
+			nl = append(nl[:n-2], cut(strings.Join(nl[n-2:], " "), max(m.w-2, 0), m.e.g.ellipsis))
+		}
+		for _, l := range nl[:len(nl)-1] {
+			head = append(head, st.warn.Paint(l))
+		}
+		m.note, n = nl[len(nl)-1], n-len(head)
+	}
 	if m.note != "" {
 		note = st.warn.Paint(cut(m.note, max(m.w-2, 0), m.e.g.ellipsis)) + "  "
 	}
-	return note + shortHelp(hm, keys, max(m.w-width(note), 0))
+	return append(head, helpLines(m.help, keys, note, max(m.w, 0), n)...)
 }

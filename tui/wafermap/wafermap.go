@@ -179,9 +179,33 @@ func Render(rows []fit.BatchRow, stats [5]extract.Summary, o Options) []string {
 	return append(out, legend(sc, p, o, marks, paint)...)
 }
 
+// MinWidth is the room in columns the map of o.Param and o.Wafer needs
+// to show its whole grid (y labels, two columns a die, the cursor's
+// frame) and the widest item of its legend without cutting them; the
+// title and the legend's lines wrap or are cut beyond it.
+func MinWidth(rows []fit.BatchRow, stats [5]extract.Summary, o Options) int {
+	g := fit.NewDieGrid(rows, o.Wafer)
+	if g.N == 0 {
+		return 0
+	}
+	ylab := max(len(strconv.Itoa(g.Y0)), len(strconv.Itoa(g.Y1)))
+	w := ylab + 2 + 2*(g.X1-g.X0+1)
+	p := fit.BatchParams()[o.Param]
+	sc := fit.NewShadeScale(rows, stats, o.Param)
+	for _, it := range legendItems(sc, p, o, Marks(o.ASCII), func(_ fit.DieClass, s string) string { return s }) {
+		w = max(w, visibleWidth(it))
+	}
+	return w
+}
+
 // legend is the map's key: the value range of each shade (on a log scale
 // for Is, Is2 and Rsh), then the marks, wrapped to o.Width.
 func legend(sc fit.ShadeScale, p fit.BatchParam, o Options, marks map[fit.DieClass]string, paint func(fit.DieClass, string) string) []string {
+	return flow(legendItems(sc, p, o, marks, paint), o.Width)
+}
+
+// legendItems are the items of the legend, each painted.
+func legendItems(sc fit.ShadeScale, p fit.BatchParam, o Options, marks map[fit.DieClass]string, paint func(fit.DieClass, string) string) []string {
 	f := func(v float64) string { return model.Format(p.Kind, v, 4, o.ASCII) }
 	var items []string
 	switch {
@@ -205,8 +229,7 @@ func legend(sc fit.ShadeScale, p fit.BatchParam, o Options, marks map[fit.DieCla
 	if sc.Log {
 		scale = "log"
 	}
-	items = append(items, paint(Text, "("+scale+" shading)"))
-	return flow(items, o.Width)
+	return append(items, paint(Text, "("+scale+" shading)"))
 }
 
 // flow joins items with two spaces, wrapping before width (0: one line).

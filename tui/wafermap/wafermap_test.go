@@ -77,3 +77,37 @@ func TestRenderPaintAndNoDies(t *testing.T) {
 		t.Errorf("no dies: %q", out)
 	}
 }
+
+// MinWidth is the least room that shows the whole grid, with the cursor
+// framed at its right edge, and every legend item whole: the map drawn in
+// it has no line over it but the title, and one column less cuts the
+// grid or an item.
+func TestMinWidth(t *testing.T) {
+	res := smallWafer()
+	for p := range 3 {
+		o := Options{Param: p, Cursor: -1}
+		w := MinWidth(res.Rows, res.Stats, o)
+		if w <= 0 {
+			t.Fatalf("param %d: MinWidth %d", p, w)
+		}
+		fits := func(w int) bool {
+			o := o
+			o.Width = w
+			for k := range res.Rows { // the cursor on every die, the right edge too
+				o.Cursor = k
+				for _, l := range Render(res.Rows, res.Stats, o)[1:] {
+					if visibleWidth(l) > w || strings.Contains(l, "widen the terminal") {
+						return false
+					}
+				}
+			}
+			return true
+		}
+		if !fits(w) {
+			t.Errorf("param %d: the map does not fit in MinWidth %d", p, w)
+		}
+		if fits(w - 1) {
+			t.Errorf("param %d: the map fits in %d, less than MinWidth %d", p, w-1, w)
+		}
+	}
+}

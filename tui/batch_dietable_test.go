@@ -1,0 +1,379 @@
+package tui
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"path/filepath"
+	"slices"
+	"strings"
+	"testing"
+
+	"github.com/charmbracelet/bubbles/key"
+	"github.com/charmbracelet/lipgloss"
+	"github.com/charmbracelet/x/ansi"
+	"github.com/muesli/termenv"
+
+	"junco/model/fit"
+	"junco/model/measure"
+)
+
+// batchRun opens the batch screen at w x h with the renderer r and fits
+// the invented wafer.
+func batchRun(t *testing.T, r *lipgloss.Renderer, w, h int) Model {
+	t.Helper()
+	m := start(New(Options{Renderer: r, Width: w, Height: h}))
+	m = press(m, "B")
+	m = typeText(m, waferDir)
+	m = press(m, "enter")
+	if v := batchOf(m).view; v == nil || !batchOf(m).wm.hasDies {
+		t.Fatalf("no wafer map after the run: %q\n%s", batchOf(m).err, plain(m))
+	}
+	return m
+}
+
+// tableLine is the line of the die table (left of the map's bar) that
+// names file, "" when none does.
+func tableLine(screen, file string) string {
+	for _, l := range strings.Split(screen, "\n") {
+		left, _, _ := strings.Cut(l, "│")
+		if strings.Contains(left, file) {
+			return left
+		}
+	}
+	return ""
+}
+
+// The die table marks every row the fit layer calls an outlier
+// (fit.OutlierParams: beyond 1.5 IQR, per parameter) with the
+// parameters it is an outlier in, as the table without dies does, and
+// paints it as a caution; other rows carry no mark. Before, the die
+// x1 y1 (Is 992 pA against a median of 1.1 pA) had neither.
+func TestBatchDieTableMarksOutliers(t *testing.T) {
+	for _, size := range goldenSizes {
+		m := batchRun(t, plainRenderer(), size[0], size[1])
+		v := batchOf(m).view
+		outliers := fit.OutlierParams(v.Stats)
+		if len(outliers) == 0 {
+			t.Fatal("the invented wafer has no outlier: the check below would prove nothing")
+		}
+		screen := plain(m)
+		// The outlier column starts under its heading.
+		at := strings.Index(tableLine(screen, "outlier in"), "outlier in")
+		if at < 0 {
+			t.Fatalf("%dx%d: no outlier column:\n%s", size[0], size[1], screen)
+		}
+		at = len([]rune(tableLine(screen, "outlier in")[:at]))
+		for k, r := range v.Rows {
+			name := filepath.Base(r.File)
+			line := tableLine(screen, name)
+			if line == "" {
+				continue // scrolled out at 80x24
+			}
+			var want []string
+			for _, j := range outliers[k] {
+				want = append(want, fit.BatchParams()[j].Symbol)
+			}
+			tail := ""
+			if r := []rune(line); len(r) > at {
+				tail = strings.TrimSpace(string(r[at:]))
+			}
+			if got := strings.Join(want, ", "); got != tail && r.Err == nil {
+				t.Errorf("%dx%d: row %s ends %q, want the outlier parameters %q", size[0], size[1], name, tail, got)
+			}
+		}
+		if tableLine(screen, "die_x01_y01.csv") == "" {
+			t.Errorf("%dx%d: the outlier row of die x1 y1 is not in view:\n%s", size[0], size[1], screen)
+		}
+	}
+	r := lipgloss.NewRenderer(io.Discard)
+	r.SetColorProfile(termenv.ANSI256)
+	r.SetHasDarkBackground(true)
+	m := batchRun(t, r, 120, 40)
+	var line string
+	for _, l := range strings.Split(m.View(), "\n") {
+		if strings.Contains(ansi.Strip(l), "die_x01_y01.csv") {
+			line = l
+		}
+	}
+	caution := m.e.st.caution.Paint("x")
+	code, _, _ := strings.Cut(caution, "x")
+	if code == "" || !strings.Contains(line, code) {
+		t.Errorf("the outlier row is not painted as a caution (%q): %q", code, line)
+	}
+}
+
+// File names and errors are not cut in the die table: the table takes
+// the width of its longest name where the map leaves the room (at 80x24
+// as well for this wafer), and a failed file's error is wrapped below
+// its row, every word of it on the screen.
+func TestBatchDieTableKeepsNamesAndErrors(t *testing.T) {
+	for _, size := range goldenSizes {
+		m := batchRun(t, plainRenderer(), size[0], size[1])
+		v := batchOf(m).view
+		if l := leftOfMap(plain(m)); strings.Contains(l, "…") {
+			t.Errorf("%dx%d: a name is cut:\n%s", size[0], size[1], l)
+		}
+		for _, r := range v.Rows {
+			if r.Err == nil {
+				continue
+			}
+			// Walk the cursor down to the failed die (x1 y3 below the
+			// first, x1 y0), so that its rows are in view.
+			for i := 0; i < len(v.Rows) && batchOf(m).wm.cursor != indexOf(v.Rows, r); i++ {
+				m = press(m, "down")
+			}
+			msg := rowError(r.Err)
+			if !strings.Contains(flat(leftOfMap(plain(m))), msg) {
+				t.Errorf("%dx%d: the error %q is not shown whole beside the map:\n%s", size[0], size[1], msg, plain(m))
+			}
+			if strings.Contains(msg, r.File) {
+				t.Errorf("the error repeats the file name its row shows: %q", msg)
+			}
+		}
+	}
+}
+
+// leftOfMap is the screen's text left of the map's bar: the summary and
+// the die table.
+func leftOfMap(screen string) string {
+	var left []string
+	for _, l := range strings.Split(screen, "\n") {
+		a, _, _ := strings.Cut(l, "│")
+		left = append(left, a)
+	}
+	return strings.Join(left, "\n")
+}
+
+func indexOf(rows []fit.BatchRow, r fit.BatchRow) int {
+	for k := range rows {
+		if rows[k].File == r.File {
+			return k
+		}
+	}
+	return -1
+}
+
+// The die table's width: the longest name where the map leaves room;
+// else what the map leaves, never below names of dieNameMin.
+func TestDieTableWidth(t *testing.T) {
+	cols := dieCols{name: 30, pos: 7, val: 8, out: 10}
+	full := cols.width() // 2+30+1+7+1+8+1+10 = 60
+	if full != 60 {
+		t.Fatalf("width %d, want 60", full)
+	}
+	for _, c := range []struct{ w, mapNeed, want int }{
+		{200, 30, 60},                    // room: the whole table
+		{80, 30, 47},                     // the map keeps 30 and the bar 3
+		{60, 30, 60 - (30 - dieNameMin)}, // never below names of dieNameMin
+	} {
+		if got := dieTableWidth(c.w, cols, c.mapNeed); got != c.want {
+			t.Errorf("dieTableWidth(%d, map %d) = %d, want %d", c.w, c.mapNeed, got, c.want)
+		}
+	}
+	// A long error widens the table up to 80 columns in half the screen.
+	cols.err = 170
+	for _, c := range []struct{ w, mapNeed, want int }{
+		{200, 30, 80}, {160, 30, 78}, {80, 30, 47},
+	} {
+		if got := dieTableWidth(c.w, cols, c.mapNeed); got != c.want {
+			t.Errorf("dieTableWidth(%d, map %d) = %d, want %d", c.w, c.mapNeed, got, c.want)
+		}
+	}
+}
+
+// cutMiddle keeps a name's start and end (its extension) and takes out
+// the middle.
+func TestCutMiddle(t *testing.T) {
+	for _, c := range []struct {
+		s    string
+		w    int
+		want string
+	}{
+		{"die_x01_y00.csv", 20, "die_x01_y00.csv"},
+		{"die_x01_y00.csv", 15, "die_x01_y00.csv"},
+		{"lot417/wafer07/die_x01_y00.csv", 15, "lot417/…y00.csv"},
+		{"abcdef", 3, "ab…"},
+	} {
+		got := cutMiddle(c.s, c.w, "…")
+		if got != c.want || width(got) > c.w {
+			t.Errorf("cutMiddle(%q, %d) = %q, want %q", c.s, c.w, got, c.want)
+		}
+	}
+}
+
+// rowWindow keeps the cursor's row in view with rows of several lines,
+// and leaves a line for "... n more" when rows are left out.
+func TestRowWindow(t *testing.T) {
+	rows := func(h ...int) [][]string {
+		var out [][]string
+		for _, n := range h {
+			out = append(out, make([]string, n))
+		}
+		return out
+	}
+	for _, c := range []struct {
+		h          []int
+		cur, room  int
+		first, end int
+	}{
+		{[]int{1, 1, 1}, 0, 5, 0, 3},
+		{[]int{1, 1, 1, 1, 1, 1}, 0, 4, 0, 3},
+		{[]int{1, 1, 1, 1, 1, 1}, 5, 4, 2, 6},
+		{[]int{1, 6, 1, 1}, 3, 5, 2, 4},
+		{[]int{1, 6, 1, 1}, 1, 4, 1, 2},
+	} {
+		first, end := rowWindow(rows(c.h...), c.cur, c.room)
+		if first != c.first || end != c.end {
+			t.Errorf("rowWindow(%v, cur %d, room %d) = %d..%d, want %d..%d", c.h, c.cur, c.room, first, end, c.first, c.end)
+		}
+		if c.cur < first || c.cur >= end {
+			t.Errorf("rowWindow(%v, cur %d): the cursor's row is out of view", c.h, c.cur)
+		}
+	}
+}
+
+// An error at a place of the file names the place in words, not the
+// file (its row names it).
+func TestRowError(t *testing.T) {
+	base := errors.New("missing column")
+	for _, c := range []struct {
+		err  error
+		want string
+	}{
+		{&measure.ColumnError{File: "a/b.csv", Line: 1, Role: "current", Err: base}, "line 1: current column: missing column"},
+		{&measure.ParseError{File: "a/b.csv", Line: 7, Column: 2, Err: base}, "line 7, column 2: missing column"},
+		{fmt.Errorf("fit: %w", &measure.ParseError{File: "a/b.csv", Line: 7, Err: base}), "fit: a/b.csv:7: missing column"},
+		{errors.New("too few points\x1b[2J"), `too few points\x1b[2J`},
+	} {
+		if got := rowError(c.err); got != c.want {
+			t.Errorf("rowError(%v) = %q, want %q", c.err, got, c.want)
+		}
+	}
+}
+
+// footerOf is the footer of a screen drawn at h lines: the lines below
+// the screen's own (the batch screen has no line of its own after the
+// die table's; the footer starts at the first line naming a key of the
+// footer's first binding).
+func footerOf(m Model) string {
+	return strings.Join(m.footer(), "\n")
+}
+
+// Every key of the batch screen is in its footer in every state of the
+// screen at 80x24 and 120x40, also with a note: the folder field before
+// and after a run, the map, a die's fit. Before, the footer was cut after
+// "ctrl+e export CSV" below 200 columns, and ctrl+k and pgup/pgdn could
+// not be found.
+func TestBatchFooterShowsEveryKey(t *testing.T) {
+	k := KeyMap{}.batchKeys()
+	every := map[string]bool{}
+	for _, kb := range []key.Binding{k.Run, k.Focus, k.Walk, k.Param, k.Export, k.Keep, k.Kept, k.Close, k.Open, k.AddDie} {
+		every[kb.Help().Key] = false
+	}
+	for _, size := range [][2]int{{80, 24}, {120, 40}} {
+		m := newTest(t, size[0], size[1])
+		m = press(m, "B")
+		states := []struct {
+			name string
+			keys []string
+		}{
+			{"folder", nil},
+			{"map", append(append([]string{}, strings.Split(waferDir, "")...), "enter")},
+			{"map with a note", []string{"ctrl+k"}},
+			{"die", []string{"enter"}},
+			{"folder after a run", []string{"esc", "tab"}},
+		}
+		for _, s := range states {
+			m = press(m, s.keys...)
+			if s.name == "map with a note" && m.note == "" {
+				t.Fatal("ctrl+k left no note: the check with a note would prove nothing")
+			}
+			foot := footerOf(m)
+			if got := len(strings.Split(plain(m), "\n")); got != size[1] {
+				t.Errorf("%dx%d %s: %d lines drawn", size[0], size[1], s.name, got)
+			}
+			lines, fl := strings.Split(plain(m), "\n"), m.footer()
+			for i, l := range fl {
+				fl[i] = strings.TrimRight(ansi.Strip(l), " ")
+			}
+			for i, l := range lines {
+				lines[i] = strings.TrimRight(l, " ")
+			}
+			if !slices.Equal(lines[len(lines)-len(fl):], fl) {
+				t.Errorf("%dx%d %s: the footer is not at the foot of the screen:\n%s", size[0], size[1], s.name, plain(m))
+			}
+			if strings.Contains(foot, "…") {
+				t.Errorf("%dx%d %s: the footer is cut:\n%s", size[0], size[1], s.name, foot)
+			}
+			for _, kb := range batchOf(m).footer(m) {
+				if !kb.Enabled() {
+					continue
+				}
+				h := kb.Help()
+				if !strings.Contains(ansi.Strip(foot), h.Key+" "+h.Desc) {
+					t.Errorf("%dx%d %s: %q missing from the footer:\n%s", size[0], size[1], s.name, h.Key+" "+h.Desc, foot)
+				}
+				every[h.Key] = true
+			}
+		}
+	}
+	for key, seen := range every {
+		if !seen {
+			t.Errorf("the key %q of the batch screen is in no footer", key)
+		}
+	}
+}
+
+// helpLines lays key entries whole over at most n lines of w cells, the
+// note first; one line is the footer every other screen has (entries
+// that fit, then an ellipsis).
+func TestHelpLines(t *testing.T) {
+	m := newTest(t, 80, 24)
+	b := func(k, desc string) key.Binding { return key.NewBinding(key.WithKeys(k), key.WithHelp(k, desc)) }
+	keys := []key.Binding{b("a", "alpha beta"), b("b", "gamma delta"), b("c", "epsilon zeta"), b("d", "eta theta")}
+	one := helpLines(m.help, keys, "", 30, 1)
+	if len(one) != 1 || ansi.Strip(one[0]) != ansi.Strip(shortHelp(m.help, keys, 30)) || !strings.HasSuffix(ansi.Strip(one[0]), "…") {
+		t.Errorf("one line: %q", one)
+	}
+	two := helpLines(m.help, keys, "saved  ", 30, 2)
+	var all []string
+	for _, l := range two {
+		l = ansi.Strip(l)
+		if width(l) > 30 {
+			t.Errorf("line wider than 30: %q", l)
+		}
+		all = append(all, l)
+	}
+	if len(two) != 2 || !strings.HasPrefix(all[0], "saved  a alpha beta") || strings.HasPrefix(all[1], " ") {
+		t.Errorf("two lines: %q", all)
+	}
+	joined := strings.Join(all, " ")
+	for _, kb := range keys[:3] {
+		if !strings.Contains(joined, kb.Help().Key+" "+kb.Help().Desc) {
+			t.Errorf("%q not whole in %q", kb.Help().Desc, all)
+		}
+	}
+}
+
+// A note longer than the line wraps over the batch screen's footer
+// rather than being cut (the keys come after it; the next key clears
+// the note), and a kept table's names are its own, not "../" paths.
+func TestBatchFooterWrapsTheNote(t *testing.T) {
+	m := batchRun(t, plainRenderer(), 80, 24)
+	m = press(m, "ctrl+k", "pgup")
+	note := m.note
+	if width(note) <= 78 {
+		t.Fatalf("the note %q fits one line: the check would prove nothing", note)
+	}
+	foot := m.footer()
+	if len(foot) != 3 {
+		t.Errorf("footer of %d lines, want 3: %q", len(foot), foot)
+	}
+	if got := flat(ansi.Strip(strings.Join(foot, "\n"))); !strings.HasPrefix(got, flat(note)) {
+		t.Errorf("the note is not whole in the footer:\n%s\nwant %q", got, note)
+	}
+	if l := leftOfMap(plain(m)); strings.Contains(l, "../") || !strings.Contains(l, "die_x01_y01.csv") {
+		t.Errorf("the kept table's names:\n%s", l)
+	}
+}
