@@ -85,15 +85,28 @@ func newStyles(r *lipgloss.Renderer, color bool) styles {
 		sand   = tone("#D8B878", "180", "#85621A", "94", "3")
 		rose   = tone("#E29A94", "174", "#A4403A", "131", "1")
 		moss   = tone("#A3C98E", "150", "#41752F", "64", "2")
-		dusk   = tone("#93AEDB", "110", "#32588F", "25", "4")
-		heath  = tone("#B8A2D6", "146", "#5E4A8A", "60", "5")
+		heath  = tone("#B8A2D6", "141", "#5E4A8A", "99", "5")
 		cloud  = tone("#D9DEE5", "253", "#2B313B", "236", "7")
 		signal = tone("#F0C674", "221", "#7A5200", "94", "11")
-		// Two more line colours, so that the seven lines of the I-V
-		// chart (total and components) each have their own.
-		apricot = tone("#E8A36B", "173", "#9A5418", "130", "13")
-		lagoon  = tone("#6FC7D8", "80", "#1F6E80", "30", "14")
 	)
+	// The chart lines' colours, one per series of a chart (the I-V
+	// chart's seven: total, ideal, electron and hole diffusion,
+	// diffusion, recombination, shunt; the solver's lines from the last
+	// one back) and the pinned line's heath: in 256 colours and in true
+	// colour, on dark and light backgrounds, no two are the same or
+	// neighbouring shades (TestChartColoursDistinct); in 16 colours they
+	// are distinct codes, though bright and plain of one hue (the markers
+	// tell them apart). Chosen for this workbench.
+	series := []lipgloss.TerminalColor{
+		sage,
+		tone("#E6D67A", "227", "#7A7000", "100", "3"),
+		tone("#7FD36E", "83", "#2F8A1F", "34", "2"),
+		tone("#F07CC8", "207", "#A0309A", "127", "13"),
+		tone("#F0A45C", "215", "#B86200", "172", "11"),
+		tone("#5A9CFF", "75", "#1F3FC0", "20", "4"),
+		tone("#F07A7A", "203", "#C02828", "160", "1"),
+		tone("#FFFFFF", "231", "#00A5C8", "37", "14"),
+	}
 	s := styles{
 		text:       inkOf(base),
 		muted:      inkOf(fg(slate)),
@@ -116,7 +129,7 @@ func newStyles(r *lipgloss.Renderer, color bool) styles {
 		helpDesc:   fg(slate),
 		helpSep:    fg(dim),
 	}
-	for _, c := range []lipgloss.TerminalColor{sage, sand, moss, dusk, rose, cloud, apricot, lagoon} {
+	for _, c := range series {
 		s.series = append(s.series, inkOf(fg(c)))
 	}
 	return s
