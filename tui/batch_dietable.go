@@ -57,9 +57,7 @@ func (b *batchScreen) dieRows(m Model) ([]dieRow, dieCols) {
 		if r.Status == fit.StatusNotRun {
 			continue
 		}
-		// Names relative to the folder (a kept table's are already), from
-		// a folder others may fill: control characters escaped.
-		d := dieRow{k: k, name: sessions.Printable(sessions.BatchFileName(b.dir, r.File), 0, ""), pos: "-"}
+		d := dieRow{k: k, name: b.rowName(r), pos: "-"}
 		if r.Die.Known() {
 			d.pos = fmt.Sprintf("x%d y%d", r.Die.X, r.Die.Y)
 		}
@@ -68,11 +66,7 @@ func (b *batchScreen) dieRows(m Model) ([]dieRow, dieCols) {
 		} else {
 			d.val = model.Format(p.Kind, r.Values[b.wm.param], 4, m.e.ascii)
 		}
-		var syms []string
-		for _, j := range outliers[k] {
-			syms = append(syms, fit.BatchParams()[j].Symbol)
-		}
-		d.out = strings.Join(syms, ", ")
+		d.out = outlierSymbols(outliers[k])
 		cols.name, cols.pos, cols.val = max(cols.name, width(d.name)), max(cols.pos, width(d.pos)), max(cols.val, width(d.val))
 		if d.out != "" {
 			cols.out = max(cols.out, width(d.out), width("outlier in"))
@@ -232,6 +226,10 @@ func cutMiddle(s string, w int, ellipsis string) string {
 	return head + ellipsis + tail
 }
 
+// dieMapMin is the least width the map keeps beside a table of long
+// names, for its title and the line of the cursor's die.
+const dieMapMin = 30
+
 // dieTableAndMap lays the die table and the wafer map side by side in w x
 // room: the table as wide as its longest name where the map leaves the
 // room (dieTableWidth).
@@ -239,7 +237,7 @@ func (b *batchScreen) dieTableAndMap(m Model, w, room int) []string {
 	st, g := m.e.st, m.e.g
 	rows, cols := b.dieRows(m)
 	o := wafermap.Options{Param: b.wm.param, Wafer: b.wm.waferKey(b.view.Rows), ASCII: m.e.ascii}
-	need := wafermap.MinWidth(b.view.Rows, b.view.Stats, o)
+	need := max(wafermap.MinWidth(b.view.Rows, b.view.Stats, o), dieMapMin)
 	tw := dieTableWidth(w, cols, need)
 	table := block(b.dieTable(m, rows, cols, tw, room), tw, room, g.ellipsis)
 	right := block(b.waferMapLines(m, w-tw-3, room), w-tw-3, room, g.ellipsis)

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"os"
 	"path/filepath"
 	"slices"
 	"strings"
@@ -375,5 +376,71 @@ func TestBatchFooterWrapsTheNote(t *testing.T) {
 	}
 	if l := leftOfMap(plain(m)); strings.Contains(l, "../") || !strings.Contains(l, "die_x01_y01.csv") {
 		t.Errorf("the kept table's names:\n%s", l)
+	}
+}
+
+// The table of a batch without die positions keeps names whole where
+// the room exists (shortened from the middle beyond half the width) and
+// wraps a failed file's error below its row, every word of it shown.
+func TestBatchTableKeepsNamesAndErrors(t *testing.T) {
+	dir := writeBatchDir(t, 4)
+	good, err := os.ReadFile(filepath.Join(dir, "die00.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	long := "lot417_wafer07_probe-station-B_repeat-run.csv" // 45 characters
+	writeText(t, filepath.Join(dir, long), string(good))
+	writeText(t, filepath.Join(dir, "broken.csv"), "no numbers\n")
+	for _, size := range goldenSizes {
+		m := newTest(t, size[0], size[1])
+		m = press(m, "B")
+		m = typeText(m, dir)
+		m = press(m, "enter")
+		v := batchOf(m).view
+		if v == nil || v.Failed != 1 {
+			t.Fatalf("batch not run as expected: %+v\n%s", v, plain(m))
+		}
+		screen := plain(m)
+		for _, r := range v.Rows {
+			if r.Err != nil && !strings.Contains(flat(screen), rowError(r.Err)) {
+				t.Errorf("%dx%d: the error %q is not whole:\n%s", size[0], size[1], rowError(r.Err), screen)
+			}
+		}
+		switch {
+		case size[0] >= 120 && !strings.Contains(screen, long):
+			t.Errorf("%dx%d: the long name is not whole:\n%s", size[0], size[1], screen)
+		case size[0] < 120 && !strings.Contains(screen, "lot417_wafer07_pr") && !strings.Contains(screen, "repeat-run.csv"):
+			t.Errorf("%dx%d: the long name is not shortened from the middle:\n%s", size[0], size[1], screen)
+		}
+	}
+}
+
+// At 80x24 a die table of long names shortens them from the middle, and
+// the die position and value stay whole in their own columns.
+func TestBatchDieTableShortensLongNames(t *testing.T) {
+	src := writeBatchDir(t, 1)
+	good, err := os.ReadFile(filepath.Join(src, "die00.csv"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	dir := t.TempDir()
+	for _, p := range [][2]int{{1, 1}, {2, 1}, {1, 2}} {
+		writeText(t, filepath.Join(dir, fmt.Sprintf("lot417_wafer07_probe-station-B_long-name_die_x%02d_y%02d.csv", p[0], p[1])), string(good))
+	}
+	m := newTest(t, 80, 24)
+	m = press(m, "B")
+	m = typeText(m, dir)
+	m = press(m, "enter")
+	if !batchOf(m).wm.hasDies {
+		t.Fatalf("no map:\n%s", plain(m))
+	}
+	left := leftOfMap(plain(m))
+	for _, want := range []string{"x1 y1", "x2 y1", "x1 y2", "_y01.csv", "lot417_", "…"} {
+		if !strings.Contains(left, want) {
+			t.Errorf("%q missing from the die table:\n%s", want, left)
+		}
+	}
+	if rows, cols := batchOf(m).dieRows(m); len(rows) != 3 || cols.name <= dieNameMin {
+		t.Fatalf("rows %d, name column %d", len(rows), cols.name)
 	}
 }

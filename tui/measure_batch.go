@@ -306,77 +306,77 @@ func (b *batchScreen) draw(m Model, w, h int) []string {
 	out = append(out, "")
 	room := h - len(out)
 	if !b.wm.hasDies {
-		return block(append(out, b.table(m, w, room, 20, -1)...), w, h, g.ellipsis)
+		return block(append(out, b.table(m, w, room)...), w, h, g.ellipsis)
 	}
 	return block(append(out, b.dieTableAndMap(m, w, room)...), w, h, g.ellipsis)
 }
 
-// table is the file table of the batch screen in w columns and at
-// most room lines: file names cut to nameW, then Is, n and Rs or the
-// error. The cursor's row (an index of the batch's rows, -1: none) is
-// highlighted and kept in view.
-func (b *batchScreen) table(m Model, w, room, nameW, cursor int) []string {
+// table is the file table of a batch without die positions in w
+// columns and at most room lines: file names as wide as the longest
+// (shortened from the middle beyond half the width), then Is, n and Rs
+// and the parameters the row is an outlier in (painted as a caution), or
+// the failure with its error wrapped below.
+func (b *batchScreen) table(m Model, w, room int) []string {
 	st, g := m.e.st, m.e.g
 	ascii := m.e.ascii
 	c := func(s string) string { return cut(s, w, g.ellipsis) }
-	nameW = max(nameW, 8)
+	nameW := width("file")
+	for _, r := range b.view.Rows {
+		if r.Status != fit.StatusNotRun {
+			nameW = max(nameW, width(b.rowName(r)))
+		}
+	}
+	nameW = min(nameW, max(w/2, dieNameMin))
 	out := []string{st.strong.Paint(c(fmt.Sprintf("  %-*s %-9s %-6s %-10s %s", nameW, "file", "Is", "n", "Rs", "outlier in")))}
 	outliers := fit.OutlierParams(b.view.Stats)
-	room--
-	idx, first := rowsInView(b.view.Rows, cursor, room)
-	for i := first; i < len(idx); i++ {
-		if i-first >= room-1 && len(idx)-first > room {
-			out = append(out, st.muted.Paint(c(fmt.Sprintf("  ... %d more", len(idx)-i))))
-			break
+	var blocks [][]string
+	for k, r := range b.view.Rows {
+		if r.Status == fit.StatusNotRun {
+			continue
 		}
-		r := b.view.Rows[idx[i]]
-		// Names and errors come from a folder others may fill: control
-		// characters are shown escaped.
-		name := cut(sessions.Printable(sessions.BatchFileName(b.dir, r.File), 0, ""), nameW, g.ellipsis)
-		mark, paint := "  ", st.text
-		if idx[i] == cursor {
-			mark, paint = g.cursor+" ", st.selected
-		}
+		name := cutMiddle(b.rowName(r), nameW, g.ellipsis)
 		if r.Err != nil {
-			out = append(out, mark+st.err.Paint(cut(fmt.Sprintf("%-*s %s %s", nameW, name, g.bad, sessions.Printable(oneLine(r.Err.Error()), 0, "")), w-2, g.ellipsis)))
+			head := "  " + st.err.Paint(c(fmt.Sprintf("%-*s %s failed", nameW, name, g.bad)))
+			blocks = append(blocks, append([]string{head}, wrapped(rowError(r.Err), w, st.err, dieErrIndent)...))
 			continue
 		}
 		line := fmt.Sprintf("%-*s %-9s %-6.3f %-10s", nameW, name, model.Format(model.Current, r.Values[0], 3, ascii), r.Values[1],
 			model.Format(model.Resistance, r.Values[2], 3, ascii))
-		if js := outliers[idx[i]]; len(js) > 0 {
-			var syms []string
-			for _, j := range js {
-				syms = append(syms, fit.BatchParams()[j].Symbol)
-			}
-			line += " " + strings.Join(syms, ", ")
-			if idx[i] != cursor {
-				paint = st.caution
-			}
+		paint := st.text
+		if syms := outlierSymbols(outliers[k]); syms != "" {
+			line, paint = line+" "+syms, st.caution
 		}
-		out = append(out, mark+paint.Paint(cut(line, w-2, g.ellipsis)))
+		blocks = append(blocks, []string{"  " + paint.Paint(cut(line, w-2, g.ellipsis))})
+	}
+	first, end := rowWindow(blocks, -1, room-1)
+	for _, bl := range blocks[first:end] {
+		out = append(out, bl...)
+	}
+	if end < len(blocks) {
+		out = append(out, st.muted.Paint(c(fmt.Sprintf("  ... %d more", len(blocks)-end))))
 	}
 	return out
 }
 
+// rowName is a row's file name as the batch screen shows it: relative to
+// the folder (a kept table's is already), control characters escaped
+// (names come from a folder others may fill).
+func (b *batchScreen) rowName(r fit.BatchRow) string {
+	return sessions.Printable(sessions.BatchFileName(b.dir, r.File), 0, "")
+}
+
+// outlierSymbols names the parameters (indices of fit.BatchParams, as
+// fit.OutlierParams gives them) a row is an outlier in: "Is, Rs".
+func outlierSymbols(js []int) string {
+	var syms []string
+	for _, j := range js {
+		syms = append(syms, fit.BatchParams()[j].Symbol)
+	}
+	return strings.Join(syms, ", ")
+}
+
 // oneLine joins the words of s on one line.
 func oneLine(s string) string { return strings.Join(strings.Fields(s), " ") }
-
-// rowsInView returns the rows that were run (indices into rows) and the
-// first of them to show in room lines with the cursor's row (an index of
-// rows) in view.
-func rowsInView(rows []fit.BatchRow, cursor, room int) (idx []int, first int) {
-	for k, r := range rows {
-		if r.Status != fit.StatusNotRun {
-			idx = append(idx, k)
-		}
-	}
-	for i, k := range idx {
-		if k == cursor && i >= room-1 {
-			first = i - room + 2
-		}
-	}
-	return idx, first
-}
 
 // export writes the batch table as CSV (fit.WriteBatchCSV, the
 // command line's table) to a new file batch-TIME.csv: in the batch's

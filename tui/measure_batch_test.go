@@ -152,7 +152,7 @@ func TestBatchTableMarksOutliers(t *testing.T) {
 		res.Stats[2].Outliers = []int{2} // the fences of three rows may admit it; the mark is what is tested
 	}
 	m.batch = &batchScreen{view: res}
-	lines := m.batch.table(m, 100, 10, 12, -1)
+	lines := m.batch.table(m, 100, 10)
 	var row string
 	for _, l := range lines {
 		if strings.Contains(l, "die2.csv") {
