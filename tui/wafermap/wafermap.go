@@ -12,6 +12,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"junco/model"
 	"junco/model/fit"
@@ -87,10 +88,17 @@ func Render(rows []fit.BatchRow, stats [5]extract.Summary, o Options) []string {
 		title += ", wafer " + o.Wafer
 	}
 	title += fmt.Sprintf(": %d %s", g.N, plural(g.N, "die", "dies"))
-	if unknown > 0 {
-		title += fmt.Sprintf(", %d %s without a position", unknown, plural(unknown, "file", "files"))
-	}
 	out := []string{paint(Text, title)}
+	if unknown > 0 {
+		// The count of files without a position goes on the title line
+		// where it fits, else on a line of its own: never cut.
+		more := fmt.Sprintf("%d %s without a position", unknown, plural(unknown, "file", "files"))
+		if o.Width > 0 && utf8.RuneCountInString(title)+2+len(more) > o.Width {
+			out = append(out, paint(Text, more))
+		} else {
+			out[0] = paint(Text, title+", "+more)
+		}
+	}
 	if g.N == 0 {
 		return append(out, paint(Text, "no die positions: name files like die_x03_y07.csv or r07c03.csv, or list them in "+fit.ManifestName))
 	}
