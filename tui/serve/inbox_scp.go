@@ -7,6 +7,7 @@ import (
 	"io/fs"
 	"path"
 	"strings"
+	"time"
 
 	"github.com/charmbracelet/ssh"
 	"github.com/charmbracelet/wish"
@@ -160,8 +161,31 @@ func (h inboxSCP) NewFileEntry(sess ssh.Session, name string) (*scp.FileEntry, f
 		f.Close()
 		return nil, nil, lineErr(fmt.Errorf("download: %s cannot be read", name))
 	}
+	var r io.Reader = f
+	if st, _ := sess.Context().Value(connStateKey{}).(*connState); st != nil {
+		r = downloadReader{r: f, st: st}
+	}
 	return &scp.FileEntry{Name: fi.Name(), Filepath: fi.Name(), Mode: 0o600, Size: fi.Size(),
-		Reader: f, Mtime: fi.ModTime().Unix(), Atime: fi.ModTime().Unix()}, f.Close, nil
+		Reader: r, Mtime: fi.ModTime().Unix(), Atime: fi.ModTime().Unix()}, f.Close, nil
+}
+
+// downloadReader counts a legacy scp download as the client's input for
+// the idle check: in that protocol the client sends nothing while it
+// takes a file's bytes, so a download longer than --idle was cut. The
+// next read of the file happens only once the client has taken (window
+// space for) the bytes before it, so a client that stops taking them is
+// still closed after --idle.
+type downloadReader struct {
+	r  io.Reader
+	st *connState
+}
+
+func (d downloadReader) Read(p []byte) (int, error) {
+	n, err := d.r.Read(p)
+	if n > 0 {
+		d.st.lastInput.Store(time.Now().UnixNano())
+	}
+	return n, err
 }
 
 // lineErr ends an error's message with a newline: wish prints the scp
