@@ -28,7 +28,9 @@ func TestSCPDownloadLongerThanIdle(t *testing.T) {
 	writeKeys(t, fx.authKeys, ada.Line)
 	srv, err := New(Config{Listen: "127.0.0.1:0", HostKeyPath: fx.hostKey, AuthorizedKeysPath: fx.authKeys,
 		App: testApp{}, Logger: slog.New(slog.NewTextHandler(fx.logs, nil)), Grace: time.Second, IdleTimeout: 300 * time.Millisecond,
-		Inbox: func(user string) (*sessions.Inbox, error) { return sessions.OpenInbox(data, user, sessions.InboxLimits{}) }})
+		Inbox: func(user string) (*sessions.Inbox, error) {
+			return sessions.OpenInbox(data, user, sessions.InboxLimits{})
+		}})
 	if err != nil {
 		t.Fatal(err)
 	}
