@@ -130,7 +130,7 @@ type QETable struct {
 // out. The absorbed photons are counted in the simulated device (length D,
 // Phi A (1 - e^(-alpha D))) for both models, so that the two IQEs differ
 // only by the collected current. progress, if not nil, is called after
-// each wavelength (Stage "qe", Bias the wavelength in m, Value the
+// each wavelength (Stage "qe", Wavelength in m, Value the
 // numeric IQE).
 //
 // Errors: a *ValidationError (FieldQE) for lists of different lengths,
@@ -172,7 +172,7 @@ func QuantumEfficiency(ctx context.Context, spec Spec, num NumericSpec, waveleng
 		p.Numeric = p.NumericCurrent / (physics.Q * p.Absorbed)
 		out.Points = append(out.Points, p)
 		if progress != nil {
-			progress(NumericProgress{Stage: "qe", Done: i + 1, Total: len(wavelengths), Bias: lam, Value: p.Numeric})
+			progress(NumericProgress{Stage: "qe", Done: i + 1, Total: len(wavelengths), Wavelength: lam, Value: p.Numeric})
 		}
 	}
 	out.Flags = flags.flags

@@ -21,8 +21,10 @@ type NumericProgress struct {
 	Stage string
 	// Done and Total count the finished and requested steps or points.
 	Done, Total int
-	// Bias is the bias just finished, V.
+	// Bias is the bias just finished, V (0 for "qe").
 	Bias float64
+	// Wavelength is the wavelength just finished for "qe", m.
+	Wavelength float64
 	// Value is the result of the step: the built-in potential (V) at
 	// equilibrium, the current (A) for bias and iv, the capacitance (F)
 	// for capacitance and cv.

@@ -576,6 +576,9 @@ func isTerminal(w io.Writer) bool {
 
 func (p *progressPrinter) update(pr model.NumericProgress) {
 	v := model.Format(model.Voltage, pr.Bias, 4, true)
+	if pr.Stage == "qe" {
+		v = model.Format(model.Length, pr.Wavelength, 4, true)
+	}
 	if p.tty {
 		fmt.Fprintf(p.w, "\rjunco solve: %s %d/%d points, at %s   ", p.what, pr.Done, pr.Total, v)
 		p.printed = true
