@@ -68,3 +68,32 @@ func TestFlagsAttachByClass(t *testing.T) {
 		t.Error("kT/q carries the degenerate flag")
 	}
 }
+
+// A value is marked by a code once, however many flags share it: at
+// Na = Nd = 1e20 cm^-3 boron and phosphorus both pass their Mott density
+// and give two mott-transition flags, and the ionised densities used to
+// read [degenerate, mott-transition, mott-transition].
+func TestFlagCodeOncePerValue(t *testing.T) {
+	s := DemoJunction().Spec
+	s.AcceptorDensity, s.DonorDensity = 1e26, 1e26 // 1e20 cm^-3
+	r, err := Evaluate(s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	mott := 0
+	for _, f := range r.Flags {
+		if f.Code == "mott-transition" {
+			mott++
+		}
+	}
+	if mott < 2 {
+		t.Fatalf("want two mott-transition flags (boron and phosphorus), got %d", mott)
+	}
+	for _, q := range r.Quantities {
+		for i, c := range q.Flags {
+			if slices.Contains(q.Flags[i+1:], c) {
+				t.Errorf("%s carries %q twice: %v", q.Key, c, q.Flags)
+			}
+		}
+	}
+}

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"math"
+	"slices"
 	"strconv"
 	"strings"
 	"unicode/utf8"
@@ -213,7 +214,9 @@ func (r *Result) attachFlags() {
 		q := &r.Quantities[i]
 		classes := QuantityClasses(q.Key)
 		for _, f := range r.Flags {
-			if f.Concerns(classes) {
+			// One code once: two flags of one code (boron and
+			// phosphorus both past their Mott density) mark a value once.
+			if f.Concerns(classes) && !slices.Contains(q.Flags, f.Code) {
 				q.Flags = append(q.Flags, f.Code)
 			}
 		}
