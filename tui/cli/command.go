@@ -170,14 +170,14 @@ func buildVersion() string {
 }
 
 // versionFrom reads a version from build information: the module version
-// ("devel" for a build from a work tree, or without information) and the
-// VCS revision when the build recorded one, with "-modified" for
-// uncommitted changes.
+// of a tagged build, else Version (the number sessions and reports record)
+// marked as a work-tree build, with the VCS revision when the build
+// recorded one ("-modified" for uncommitted changes).
 func versionFrom(bi *debug.BuildInfo, ok bool) string {
-	v, rev, dirty := "devel", "", false
+	tagged, rev, dirty := "", "", false
 	if ok && bi != nil {
 		if m := bi.Main.Version; m != "" && m != "(devel)" {
-			v = m
+			tagged = m
 		}
 		for _, s := range bi.Settings {
 			switch s.Key {
@@ -188,16 +188,19 @@ func versionFrom(bi *debug.BuildInfo, ok bool) string {
 			}
 		}
 	}
+	if tagged != "" {
+		return tagged
+	}
 	if len(rev) > 12 {
 		rev = rev[:12]
 	}
-	if rev != "" {
-		if dirty {
-			rev += "-modified"
-		}
-		v += " (revision " + rev + ")"
+	if rev == "" {
+		return Version + " (work-tree build)"
 	}
-	return v
+	if dirty {
+		rev += "-modified"
+	}
+	return Version + " (work-tree build, revision " + rev + ")"
 }
 
 // noArgs refuses positional arguments as a usage error.

@@ -129,13 +129,13 @@ func TestVersion(t *testing.T) {
 	}
 	bi := &debug.BuildInfo{Main: debug.Module{Version: "(devel)"}, Settings: []debug.BuildSetting{
 		{Key: "vcs.revision", Value: "0123456789abcdef0123"}, {Key: "vcs.modified", Value: "true"}}}
-	if got := versionFrom(bi, true); got != "devel (revision 0123456789ab-modified)" {
+	if got := versionFrom(bi, true); got != Version+" (work-tree build, revision 0123456789ab-modified)" {
 		t.Errorf("work-tree build: %q", got)
 	}
 	if got := versionFrom(&debug.BuildInfo{Main: debug.Module{Version: "v1.2.3"}}, true); got != "v1.2.3" {
 		t.Errorf("module build: %q", got)
 	}
-	if got := versionFrom(nil, false); got != "devel" {
+	if got := versionFrom(nil, false); got != Version+" (work-tree build)" {
 		t.Errorf("no build information: %q", got)
 	}
 }
