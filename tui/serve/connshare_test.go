@@ -20,12 +20,12 @@ import (
 // each user's connections and sessions, and each address's connections
 // waiting for a login.
 type counts struct {
-	open, active             int
-	userConns, perUser, pend map[string]int
+	open, active                    int
+	userConns, perUser, pend, chans map[string]int
 }
 
 func (c counts) zero() bool {
-	return c.open == 0 && c.active == 0 && len(c.userConns) == 0 && len(c.perUser) == 0 && len(c.pend) == 0
+	return c.open == 0 && c.active == 0 && len(c.userConns) == 0 && len(c.perUser) == 0 && len(c.pend) == 0 && len(c.chans) == 0
 }
 
 func (s *Server) countsNow() counts {
@@ -38,7 +38,7 @@ func (s *Server) countsNow() counts {
 		}
 		return out
 	}
-	return counts{open: s.openConns, active: s.active, userConns: cp(s.userConns), perUser: cp(s.perUser), pend: cp(s.preAuth)}
+	return counts{open: s.openConns, active: s.active, userConns: cp(s.userConns), perUser: cp(s.perUser), pend: cp(s.preAuth), chans: cp(s.userChans)}
 }
 
 // waitZero waits up to 10 s for every count of srv to be back at zero.
@@ -261,5 +261,56 @@ func TestCountsReturnToZero(t *testing.T) {
 	waitZero(t, f.srv, "after every connection ended")
 	for i := 0; i < 2*2; i++ { // a full share of connections again
 		login(t, f.addr, "ada", ada)
+	}
+}
+
+// One user cannot hold session channels without limit: channels that ask
+// for nothing are refused beyond twice --max-conn-per-user, on one
+// connection or several, with a message that says why, and given back
+// when they close. Before, such channels were counted nowhere: 20000 of
+// them on one connection raised the server's resident memory from 20 MB
+// to 198 MB (about 9 kB each), without bound.
+func TestIdleSessionChannelsCapped(t *testing.T) {
+	ada, bob := servetest.NewKey(t, "ada"), servetest.NewKey(t, "bob")
+	f := startServerWith(t, t.TempDir(), func(c *Config) { c.MaxConnections, c.MaxPerUser = 8, 2 }, ada.Line, bob.Line)
+	c1, c2 := login(t, f.addr, "ada", ada), login(t, f.addr, "ada", ada)
+	var held []gossh.Channel
+	var refusal error
+	for i := 0; i < 50 && refusal == nil; i++ {
+		c := map[bool]*gossh.Client{true: c1, false: c2}[i%2 == 0]
+		ch, reqs, err := c.OpenChannel("session", nil)
+		if err != nil {
+			refusal = err
+			break
+		}
+		go gossh.DiscardRequests(reqs)
+		held = append(held, ch)
+	}
+	if len(held) != connCapFactor*2 {
+		t.Errorf("ada holds %d session channels with a share of 2, want %d", len(held), connCapFactor*2)
+	}
+	if refusal == nil || !strings.Contains(refusal.Error(), "--max-conn-per-user") {
+		t.Errorf("refusal %v does not say why", refusal)
+	}
+	if !strings.Contains(f.logs.String(), "share of open session channels") {
+		t.Errorf("refusal not logged:\n%s", f.logs.String())
+	}
+	s := openSession(t, login(t, f.addr, "bob", bob)) // bob is not held up
+	if out, err := s.Output("sessions list"); err != nil || !strings.Contains(string(out), "ran sessions list for bob") {
+		t.Errorf("bob's command: %q, %v", out, err)
+	}
+	held[0].Close()
+	deadline := time.Now().Add(5 * time.Second)
+	for {
+		ch, reqs, err := c1.OpenChannel("session", nil)
+		if err == nil {
+			go gossh.DiscardRequests(reqs)
+			ch.Close()
+			break
+		}
+		if time.Now().After(deadline) {
+			t.Fatalf("a closed channel was not given back: %v", err)
+		}
+		time.Sleep(20 * time.Millisecond)
 	}
 }

@@ -111,6 +111,9 @@ type Server struct {
 	userConns map[string]int
 	// openConns counts the connections open (connlimit.go).
 	openConns int
+	// userChans counts the session channels each user has open, with
+	// or without a request (conn.go).
+	userChans map[string]int
 	// preAuth counts, by remote address, the connections not yet logged
 	// in (connlimit.go).
 	preAuth  map[string]int
@@ -154,7 +157,7 @@ func New(cfg Config) (*Server, error) {
 		lg = slog.New(slog.NewTextHandler(io.Discard, nil))
 	}
 	s := &Server{cfg: cfg, log: lg, programs: map[*tea.Program]program{}, conns: map[ssh.Context]*liveConn{},
-		perUser: map[string]int{}, userConns: map[string]int{}, preAuth: map[string]int{}, failures: map[string]int{}, stop: make(chan struct{})}
+		perUser: map[string]int{}, userConns: map[string]int{}, preAuth: map[string]int{}, userChans: map[string]int{}, failures: map[string]int{}, stop: make(chan struct{})}
 	signer, created, err := loadOrCreateHostKey(cfg.HostKeyPath)
 	if err != nil {
 		return nil, err
