@@ -235,6 +235,17 @@ func (s *Server) channelClosed(user string) {
 	}
 }
 
+// A session keeps at most maxEnvVars environment variables of at most
+// maxEnvBytes (name and value) each; further "env" requests are refused
+// (as sshd refuses those AcceptEnv does not name). The SSH library keeps
+// every one it is sent: 5000 of 30 kB on one channel raised the server's
+// resident memory by 80 MB, without bound. The workbench reads a few
+// (TERM, COLORTERM, NO_COLOR, LANG and the like).
+const (
+	maxEnvVars  = 64
+	maxEnvBytes = 1024
+)
+
 type filteredChannel struct {
 	gossh.NewChannel
 	refuse func(what string)
@@ -249,11 +260,24 @@ func (f filteredChannel) Accept() (gossh.Channel, <-chan *gossh.Request, error) 
 	out := make(chan *gossh.Request)
 	go func() {
 		defer close(out)
+		envs, envRefused := 0, false
 		for r := range reqs {
 			if what, ok := refusedSessionRequests[r.Type]; ok {
 				f.refuse(what)
 				_ = r.Reply(false, nil)
 				continue
+			}
+			if r.Type == "env" {
+				// The SSH library keeps every variable a client sends.
+				if envs >= maxEnvVars || len(r.Payload) > maxEnvBytes {
+					if !envRefused {
+						envRefused = true
+						f.refuse(fmt.Sprintf("environment beyond %d variables of at most %d bytes", maxEnvVars, maxEnvBytes))
+					}
+					_ = r.Reply(false, nil)
+					continue
+				}
+				envs++
 			}
 			out <- r
 		}

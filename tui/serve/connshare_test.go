@@ -314,3 +314,40 @@ func TestIdleSessionChannelsCapped(t *testing.T) {
 		time.Sleep(20 * time.Millisecond)
 	}
 }
+
+// A client cannot make a session keep environment variables without
+// limit: up to 64 of at most 1 kB each are accepted, further ones and
+// larger ones are refused, and the refusal is logged. Before, every one was
+// kept (5000 of 30 kB took 80 MB of the server's memory).
+func TestEnvironmentRequestsBounded(t *testing.T) {
+	ada := servetest.NewKey(t, "ada")
+	f := startServerWith(t, t.TempDir(), nil, ada.Line)
+	ch, reqs, err := login(t, f.addr, "ada", ada).OpenChannel("session", nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer ch.Close()
+	go gossh.DiscardRequests(reqs)
+	env := func(k, v string) bool {
+		ok, err := ch.SendRequest("env", true, gossh.Marshal(struct{ K, V string }{k, v}))
+		if err != nil {
+			t.Fatal(err)
+		}
+		return ok
+	}
+	if env("BIG", strings.Repeat("x", 2000)) {
+		t.Error("a 2000-byte variable was accepted")
+	}
+	accepted := 0
+	for i := 0; i < 100; i++ {
+		if env(fmt.Sprintf("V%d", i), "1") {
+			accepted++
+		}
+	}
+	if accepted != maxEnvVars {
+		t.Errorf("%d variables accepted, want %d", accepted, maxEnvVars)
+	}
+	if !strings.Contains(f.logs.String(), "environment beyond") {
+		t.Errorf("refusal not logged:\n%s", f.logs.String())
+	}
+}
