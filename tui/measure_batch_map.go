@@ -131,7 +131,12 @@ func (b *batchScreen) openDie(m Model) {
 	r := b.view.Rows[s.cursor]
 	d := &dieFit{row: s.cursor}
 	s.die = d
-	ds, err := fit.Import(m.sess.files, r.File, measure.KindIV, m.sess.now)
+	file, err := b.dieFile(&m, r)
+	if err != nil {
+		d.err = err.Error()
+		return
+	}
+	ds, err := fit.Import(m.sess.files, file, measure.KindIV, m.sess.now)
 	if err != nil {
 		d.err = err.Error()
 		return
