@@ -16,7 +16,7 @@ type StoreQuotaError struct {
 }
 
 func (e *StoreQuotaError) Error() string {
-	return fmt.Sprintf("not saved: your sessions hold %s and this would add %s, over the %s a user may keep on this server%s; ask the administrator to make room",
+	return fmt.Sprintf("your sessions hold %s and this would add %s, over the %s a user may keep on this server%s; ask the administrator to make room",
 		sizeText(e.Used), sizeText(e.Adding), sizeText(e.Limit), flagNote(e.Flag))
 }
 

@@ -42,7 +42,7 @@ func TestStoreQuota(t *testing.T) {
 	if saved != 3 || qerr == nil {
 		t.Fatalf("%d revisions saved under a cap of 3.5 revisions (error %v)", saved, qerr)
 	}
-	if msg := qerr.Error(); !strings.Contains(msg, "--store-max-mib") || !strings.Contains(msg, "not saved") {
+	if msg := qerr.Error(); !strings.Contains(msg, "--store-max-mib") || !strings.Contains(msg, "would add") {
 		t.Errorf("message %q does not say what was refused and which option sets the cap", msg)
 	}
 	ents, _ := os.ReadDir(s.sessionDir("d7"))
