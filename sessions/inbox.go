@@ -190,6 +190,16 @@ const ServedMaxRows = 200_000
 // model/fit reads it).
 func (in *Inbox) RowLimit() int { return ServedMaxRows }
 
+// ServedMaxPoints caps the points of every data set of one served
+// workbench together (five imports at the cap, about 170 MB): imports are
+// held in the server's memory for as long as the connection lasts, and
+// the same file may be imported again and again.
+const ServedMaxPoints = 5 * ServedMaxRows
+
+// PointLimit is the cap on a served workbench's points in all
+// (ServedMaxPoints; the workbench reads it).
+func (in *Inbox) PointLimit() int { return ServedMaxPoints }
+
 // Limits returns the caps in force.
 func (in *Inbox) Limits() InboxLimits { return in.lim }
 

@@ -159,6 +159,10 @@ func (b *batchScreen) addDie(m *Model) {
 		return
 	}
 	d := b.wm.die
+	if err := m.roomFor(*d.ds); err != nil {
+		m.note = err.Error()
+		return
+	}
 	i := m.addMeasurement(*d.ds)
 	b.wm.die = nil // the map again, after the fit
 	m.openFit(i)
