@@ -84,8 +84,8 @@ const inboxNameRule = "name a file of your inbox by its plain file name (as `ls`
 // InboxName is the one confinement policy for a user-given inbox name: it
 // returns the plain file name, or an error for anything that is not one
 // (empty, absolute, with a path separator or a drive letter, "." or "..",
-// hidden, starting with '-', control characters, not UTF-8, longer than
-// 255 bytes). A leading "./" is dropped. The error never repeats a path
+// hidden, starting with '-', control or invisible format characters, not
+// UTF-8, longer than 255 bytes). A leading "./" is dropped. The error never repeats a path
 // the user gave.
 func InboxName(op, given string) (string, error) {
 	name := strings.TrimSpace(given)
@@ -98,6 +98,8 @@ func InboxName(op, given string) (string, error) {
 		return bad("no file named")
 	case !utf8.ValidString(name) || strings.ContainsFunc(name, unicode.IsControl):
 		return bad("the name holds control characters or is not UTF-8")
+	case strings.ContainsFunc(name, func(r rune) bool { return unicode.Is(unicode.Cf, r) }):
+		return bad("the name holds invisible format characters (bidirectional overrides, zero-width marks), which would show it as another name")
 	case strings.HasPrefix(name, "/") || strings.HasPrefix(name, `\`) || filepath.IsAbs(name):
 		return bad("absolute paths are refused")
 	case name == "." || name == ".." || strings.HasPrefix(name, "../") || strings.HasSuffix(name, "/..") || strings.Contains(name, "/../"):
@@ -187,6 +189,16 @@ const ServedMaxRows = 200_000
 // RowLimit is the data-row cap of an import from the inbox (ServedMaxRows;
 // model/fit reads it).
 func (in *Inbox) RowLimit() int { return ServedMaxRows }
+
+// ServedMaxPoints caps the points of every data set of one served
+// workbench together (five imports at the cap, about 170 MB): imports are
+// held in the server's memory for as long as the connection lasts, and
+// the same file may be imported again and again.
+const ServedMaxPoints = 5 * ServedMaxRows
+
+// PointLimit is the cap on a served workbench's points in all
+// (ServedMaxPoints; the workbench reads it).
+func (in *Inbox) PointLimit() int { return ServedMaxPoints }
 
 // Limits returns the caps in force.
 func (in *Inbox) Limits() InboxLimits { return in.lim }

@@ -68,7 +68,9 @@ func TestInboxNamePolicy(t *testing.T) {
 		}
 	}
 	for _, bad := range []string{"", ".", "..", "../x", "../../x", "a/../../x", "/etc/passwd", "/x.csv", `\x`, `..\x`,
-		"sub/x.csv", "C:x", ".hidden", "-rf", "x\x00y", "x\ny", "\xff", strings.Repeat("a", 256), "../bob/inbox/bobs.csv"} {
+		"sub/x.csv", "C:x", ".hidden", "-rf", "x\x00y", "x\ny", "\xff", strings.Repeat("a", 256), "../bob/inbox/bobs.csv",
+		// Invisible format characters: "rlo\u202egnp.csv" shows as "rlovsc.png".
+		"rlo\u202egnp.csv", "a\u200bb.csv", "x\u2066y.csv"} {
 		if _, err := InboxName("open", bad); err == nil {
 			t.Errorf("InboxName(%q) accepted", bad)
 		} else if len(bad) > 2 && strings.Contains(err.Error(), bad) {

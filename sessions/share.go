@@ -20,6 +20,12 @@ import (
 const (
 	reviewsDir = "reviews"
 	maxNoteLen = 8 << 10 // bytes of one review note
+	// MaxReviewNotes is how many review notes reviewers may add beside
+	// one session's revisions: a reviewer writes into the owner's space,
+	// so the notes are bounded (8 MiB a session at most), and a session
+	// that merges them stays within the notes a document may keep
+	// (maxReviewNotes), so that the owner can still save it.
+	MaxReviewNotes = 1000
 )
 
 // AddReviewNote stores a review note on session name (which must exist).
@@ -54,6 +60,11 @@ func (s *Store) AddReviewNote(name string, note ReviewNote) error {
 	if err := s.makeDir(dir); err != nil {
 		return err
 	}
+	if n, err := s.countNotes(dir); err != nil {
+		return err
+	} else if n >= MaxReviewNotes {
+		return fmt.Errorf("review note: %q has %d review notes, the most a session keeps (MaxReviewNotes); ask its owner to copy the session for more", name, MaxReviewNotes)
+	}
 	tmp, err := s.writeTemp(dir, append(data, '\n'), revisionMode)
 	if err != nil {
 		return err
@@ -74,6 +85,21 @@ func (s *Store) AddReviewNote(name string, note ReviewNote) error {
 		}
 	}
 	return fmt.Errorf("saving review note on %q: too many notes at the same instant", name)
+}
+
+// countNotes counts the note files in dir.
+func (s *Store) countNotes(dir string) (int, error) {
+	entries, err := s.fs.ReadDir(dir)
+	if err != nil {
+		return 0, err
+	}
+	n := 0
+	for _, e := range entries {
+		if !e.IsDir() && !strings.HasPrefix(e.Name(), ".") && strings.HasSuffix(e.Name(), ".json") {
+			n++
+		}
+	}
+	return n, nil
 }
 
 // ReviewNotes returns the review notes reviewers added to session name,

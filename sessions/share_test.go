@@ -1,10 +1,14 @@
 package sessions
 
 import (
+	"encoding/json"
 	"errors"
+	"fmt"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
+	"time"
 )
 
 func TestReviewNotes(t *testing.T) {
@@ -127,5 +131,46 @@ func TestOpenMergesReviewNotes(t *testing.T) {
 	doc2, _, err := s.Open("d7", 0)
 	if err != nil || count(doc2) != 1 {
 		t.Fatalf("note duplicated after save: %+v %v", doc2.Reviews, err)
+	}
+}
+
+// A reviewer writes review notes into the owner's space, so their number
+// is bounded: after MaxReviewNotes on one session the next is refused,
+// naming the limit, and the owner still opens and saves the session with
+// every note merged. Before, notes were unbounded: a reviewer could fill
+// the server's disk from a read-only share, and past 10000 notes the
+// owner's next save was refused (a document keeps at most 10000).
+func TestReviewNotesBounded(t *testing.T) {
+	s := newTestStore(t)
+	if _, err := s.Save("d7", exampleDocument(), 0); err != nil {
+		t.Fatal(err)
+	}
+	t0 := time.Date(2026, 1, 2, 3, 4, 5, 0, time.UTC)
+	if err := s.AddReviewNote("d7", ReviewNote{Author: "bob", Text: "first", Time: t0}); err != nil {
+		t.Fatal(err)
+	}
+	// The rest written as AddReviewNote writes them (one file each),
+	// without a flush per note.
+	dir := filepath.Join(s.Root(), reviewsDir, "d7")
+	for i := 1; i < MaxReviewNotes; i++ {
+		n := ReviewNote{Author: "bob", Text: fmt.Sprintf("note %d", i), Time: t0.Add(time.Duration(i) * time.Second)}
+		data, _ := json.Marshal(n)
+		if err := os.WriteFile(filepath.Join(dir, n.Time.Format(trashStamp)+"-bob.json"), data, 0o400); err != nil {
+			t.Fatal(err)
+		}
+	}
+	err := s.AddReviewNote("d7", ReviewNote{Author: "bob", Text: "one more", Time: t0.Add(-time.Hour)})
+	if err == nil || !strings.Contains(err.Error(), "MaxReviewNotes") {
+		t.Fatalf("note beyond the limit: %v", err)
+	}
+	doc, _, err := s.Open("d7", 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := MaxReviewNotes + len(exampleDocument().Reviews); len(doc.Reviews) != want {
+		t.Fatalf("%d notes merged, want %d", len(doc.Reviews), want)
+	}
+	if _, err := s.Save("d7", doc, 1); err != nil {
+		t.Errorf("the owner cannot save the session with its notes: %v", err)
 	}
 }

@@ -49,6 +49,9 @@ type Store struct {
 	user string
 	// notices say what opening the store changed (modes tightened).
 	notices []string
+	// maxBytes caps the store's files (0: no cap; store_quota.go).
+	maxBytes     int64
+	maxBytesFlag string
 }
 
 // Options configure a Store.
@@ -59,6 +62,11 @@ type Options struct {
 	User string
 	// Now returns the current time; nil means time.Now.
 	Now func() time.Time
+	// MaxBytes caps what the store's files may hold in all (revisions,
+	// drafts, review notes; 0 = no cap): a write beyond is refused with a
+	// *StoreQuotaError. MaxBytesFlag names the option that sets it.
+	MaxBytes     int64
+	MaxBytesFlag string
 }
 
 // New returns the store rooted at root (made absolute). Directories are
@@ -90,7 +98,7 @@ func newStore(root string, o Options, fsys fileSystem) (*Store, error) {
 	if now == nil {
 		now = time.Now
 	}
-	return &Store{root: abs, fs: fsys, now: now, tool: o.ToolVersion, user: o.User}, nil
+	return &Store{root: abs, fs: fsys, now: now, tool: o.ToolVersion, user: o.User, maxBytes: o.MaxBytes, maxBytesFlag: o.MaxBytesFlag}, nil
 }
 
 // Root returns the store's root directory.
@@ -397,6 +405,11 @@ const (
 // writeTemp writes data to a new temporary file in dir with the given
 // mode and flushes it.
 func (s *Store) writeTemp(dir string, data []byte, mode fs.FileMode) (string, error) {
+	if s.inStore(dir) {
+		if err := s.checkQuota(int64(len(data))); err != nil {
+			return "", err
+		}
+	}
 	f, err := s.fs.CreateTemp(dir, tempPattern)
 	if err != nil {
 		return "", fmt.Errorf("writing in %s: %w", dir, err)

@@ -61,7 +61,6 @@ const (
 	maxAuthorRunes = 100
 	maxLineRunes   = 10000
 	maxNoteLines   = 100000
-	maxDataSets    = 1000
 	maxRows        = 1000000
 	maxUnitRunes   = 32
 	maxParameters  = 100
@@ -85,8 +84,8 @@ func (d *Document) Validate() error {
 	ps = append(ps, d.Sweeps.problems()...)
 
 	ids := map[string]bool{}
-	if len(d.Measurements) > maxDataSets {
-		add("$.measurements", fmt.Sprintf("%d data sets", len(d.Measurements)), fmt.Sprintf("at most %d", maxDataSets), "keeps one session within memory")
+	if len(d.Measurements) > MaxDataSets {
+		add("$.measurements", fmt.Sprintf("%d data sets", len(d.Measurements)), fmt.Sprintf("at most %d (MaxDataSets)", MaxDataSets), "keeps one session within memory")
 	}
 	for i, m := range d.Measurements {
 		ps = append(ps, m.problems(fmt.Sprintf("$.measurements[%d]", i), ids)...)
@@ -190,6 +189,10 @@ func textChecker(add func(path, value, allowed, why string)) func(path, s string
 		}
 	}
 }
+
+// MaxDataSets is how many data sets one session keeps (a larger one is
+// refused at save, and the workbench adds none beyond).
+const MaxDataSets = 1000
 
 // problems checks the metadata; listing uses it on headers, so that no
 // title with terminal control characters is ever printed.

@@ -1,10 +1,14 @@
 package tui
 
 import (
+	"errors"
 	"fmt"
+	"os"
+	"path/filepath"
 
 	tea "github.com/charmbracelet/bubbletea"
 
+	"junco/model"
 	"junco/model/fit"
 	"junco/sessions"
 )
@@ -105,4 +109,33 @@ func (b *batchScreen) showKept(m *Model, next bool) {
 	b.n, b.total = res.Fitted+res.Failed, len(res.Rows)
 	b.keep.shown, b.keep.shownSeq = i, b.seq
 	m.note = fmt.Sprintf("kept table %d of %d (pgup/pgdn): %s", i+1, n, sessions.Printable(kb.Summary(), 200, ""))
+}
+
+// errKeptDieInReview refuses to read a die's file of a kept table in a
+// served review.
+var errKeptDieInReview = errors.New("the files of a kept table are in its owner's inbox, which a review does not read; the kept row gives this die's parameters")
+
+// dieFile names the file to read again for the die's fit of row r. A
+// run's rows name their files as the run read them. A kept table's rows
+// name them relative to its folder: on the local file system the folder
+// is joined again; served, the folder was the owner's inbox, so one's own
+// kept table reads one's inbox, and a review reads nothing (its files are
+// the reviewer's inbox: a file of the reviewer's with the same name was
+// fitted and shown as the owner's die).
+func (b *batchScreen) dieFile(m *Model, r fit.BatchRow) (string, error) {
+	if !b.viewIsKept(m) {
+		return r.File, nil
+	}
+	_, local := m.sess.files.(model.LocalFiles)
+	switch served := m.sess.files != nil && !local; {
+	case served && m.sess.readOnly:
+		return "", errKeptDieInReview
+	case served:
+		return r.File, nil
+	}
+	folder := m.sess.batches[b.keep.shown].Folder
+	if fi, err := os.Stat(folder); err == nil && !fi.IsDir() {
+		return folder, nil // a batch of one file
+	}
+	return filepath.Join(folder, r.File), nil
 }

@@ -89,7 +89,9 @@ func (s *importScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
 		case keyIs(km, k.Add):
 			s.accept(m)
 		case keyIs(km, k.AddFit):
-			m.openFit(s.accept(m))
+			if i := s.accept(m); i >= 0 {
+				m.openFit(i)
+			}
 		case keyIs(km, k.EditPath):
 			s.ds = nil
 		}
@@ -116,10 +118,40 @@ func (s *importScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
 }
 
 // accept adds the previewed data set to the session and closes the
-// screen; it returns the data set's index among the measurements.
+// screen; it returns the data set's index among the measurements, or -1
+// (the screen stays, saying why) when the session has no room for it.
 func (s *importScreen) accept(m *Model) int {
+	if err := m.roomFor(*s.ds); err != nil {
+		s.err = err.Error()
+		return -1
+	}
 	m.close(s)
 	return m.addMeasurement(*s.ds)
+}
+
+// pointLimiter is a file access that caps the points a workbench holds
+// in all (a served user's inbox: sessions.ServedMaxPoints).
+type pointLimiter interface{ PointLimit() int }
+
+// roomFor refuses a data set the session cannot take: beyond
+// sessions.MaxDataSets data sets (the save would be refused), or, served,
+// beyond the points the server holds for one workbench.
+func (m *Model) roomFor(ds measure.DataSet) error {
+	if n := len(m.sess.meas); n >= sessions.MaxDataSets {
+		return fmt.Errorf("not added: the session holds %d data sets, the most one keeps (MaxDataSets)", n)
+	}
+	pl, ok := m.sess.files.(pointLimiter)
+	if !ok {
+		return nil
+	}
+	held := 0
+	for _, x := range m.sess.meas {
+		held += x.Len()
+	}
+	if limit := pl.PointLimit(); held+ds.Len() > limit {
+		return fmt.Errorf("not added: the session holds %d points and this data set %d, over the %d points the server holds for one workbench; save this session and start another for more data", held, ds.Len(), limit)
+	}
+	return nil
 }
 
 // addMeasurement adds a data set to the session under a new ID (from its

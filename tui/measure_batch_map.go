@@ -131,7 +131,12 @@ func (b *batchScreen) openDie(m Model) {
 	r := b.view.Rows[s.cursor]
 	d := &dieFit{row: s.cursor}
 	s.die = d
-	ds, err := fit.Import(m.sess.files, r.File, measure.KindIV, m.sess.now)
+	file, err := b.dieFile(&m, r)
+	if err != nil {
+		d.err = err.Error()
+		return
+	}
+	ds, err := fit.Import(m.sess.files, file, measure.KindIV, m.sess.now)
 	if err != nil {
 		d.err = err.Error()
 		return
@@ -154,6 +159,10 @@ func (b *batchScreen) addDie(m *Model) {
 		return
 	}
 	d := b.wm.die
+	if err := m.roomFor(*d.ds); err != nil {
+		m.note = err.Error()
+		return
+	}
 	i := m.addMeasurement(*d.ds)
 	b.wm.die = nil // the map again, after the fit
 	m.openFit(i)

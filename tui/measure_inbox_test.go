@@ -1,11 +1,13 @@
 package tui
 
 import (
+	"fmt"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
+	"junco/model/measure"
 	"junco/sessions"
 )
 
@@ -141,5 +143,43 @@ func TestServedBatchExportGoesToTheInbox(t *testing.T) {
 	found, _ := filepath.Glob(filepath.Join(dir, "batch-*.csv"))
 	if len(found) != 1 {
 		t.Errorf("inbox holds %v, want one batch CSV", found)
+	}
+}
+
+// A served workbench holds at most sessions.ServedMaxPoints points in
+// all: an import beyond is refused on the import screen with the limit
+// named, and nothing is added (the same file could be imported again and
+// again, each copy held in the server's memory for the connection's
+// life). Locally any number of points may be held, up to
+// sessions.MaxDataSets data sets (beyond, the save would be refused).
+func TestServedImportPointsBounded(t *testing.T) {
+	m, _, _ := servedInbox(t)
+	big := measure.DataSet{Kind: measure.KindIV, SourceFile: "big.csv",
+		VoltageV: make([]float64, sessions.ServedMaxPoints-10), CurrentA: make([]float64, sessions.ServedMaxPoints-10)}
+	m.sess.meas = append(m.sess.meas, sessions.Measurement{ID: "big", DataSet: big})
+	before := len(m.sess.meas)
+	m = press(m, "i", "ctrl+u")
+	m = typeText(m, "die.csv")
+	m = press(m, "enter", "enter")
+	if len(m.sess.meas) != before {
+		t.Fatalf("a data set was added past %d points", sessions.ServedMaxPoints)
+	}
+	if s := importOf(m); s == nil || !strings.Contains(s.err, fmt.Sprint(sessions.ServedMaxPoints)) {
+		t.Fatalf("the import screen does not say why: %+v", s)
+	}
+	m = press(m, "f") // add and fit: refused the same way
+	if len(m.sess.meas) != before {
+		t.Fatal("add and fit added a data set past the limit")
+	}
+
+	l := newTest(t, 120, 40)
+	for len(l.sess.meas) < sessions.MaxDataSets {
+		l.sess.meas = append(l.sess.meas, sessions.Measurement{ID: fmt.Sprintf("x%d", len(l.sess.meas)), DataSet: measure.DataSet{Kind: measure.KindIV, VoltageV: []float64{0}, CurrentA: []float64{0}}})
+	}
+	l = press(l, "i")
+	l = typeText(l, writeIV(t, "local.csv"))
+	l = press(l, "enter", "enter")
+	if len(l.sess.meas) != sessions.MaxDataSets || !strings.Contains(importOf(l).err, "MaxDataSets") {
+		t.Errorf("a data set beyond MaxDataSets: %d held, message %q", len(l.sess.meas), importOf(l).err)
 	}
 }

@@ -26,7 +26,7 @@ func batchSection(b *strings.Builder, doc *sessions.Document, o ExportOptions) [
 		res, limits := kb.Result()
 		p("### %s\n\n", md(kb.ID))
 		p("Folder `%s`, fitted %s: %d files, %d fitted, %d failed, %d not run; %s diode model.\n\n",
-			strings.ReplaceAll(orDash(kb.Folder), "`", "'"), stamp(kb.Performed), len(res.Rows), res.Fitted, res.Failed, res.NotRun, md(kb.Model))
+			strings.ReplaceAll(sessions.Printable(orDash(kb.Folder), sessions.MaxEchoRunes, "..."), "`", "'"), stamp(kb.Performed), len(res.Rows), res.Fitted, res.Failed, res.NotRun, md(kb.Model))
 		for _, n := range kb.Notes {
 			p("- %s\n", md(n))
 		}

@@ -101,3 +101,36 @@ func TestReportBatchTables(t *testing.T) {
 		t.Errorf("plain report: %v, batch section present", err)
 	}
 }
+
+// Names in a kept table reach the Markdown report escaped: a
+// bidirectional override (which an inbox name could hold, and which turns
+// "rlo\u202egnp.csv" into "rlovsc.png" on screen) and an escape character
+// in a failed file's message are written as \uXXXX, never as themselves,
+// and a very long folder is cut. Before, md() passed them through, so
+// `sessions export` over SSH sent them to the reviewer's terminal.
+func TestReportBatchNamesEscaped(t *testing.T) {
+	doc := batchDocument(t)
+	kb := &doc.Batches[0]
+	kb.Folder = "lot\u202e7" + strings.Repeat("x", 300)
+	for i := range kb.Rows {
+		if kb.Rows[i].Error != "" {
+			kb.Rows[i].Error = "rlo\u202egnp.csv: bad \x1b[31m line"
+		}
+	}
+	files, err := Export(doc, FormatMarkdown, ExportOptions{Session: "d7", Revision: 3, ASCII: true, ToolVersion: "test"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	md := string(files[0].Data)
+	if strings.ContainsAny(md, "\u202e\x1b") {
+		t.Error("the report holds a raw bidirectional override or escape character")
+	}
+	for _, want := range []string{"rlo\\\\u202egnp.csv", "\\\\u001b\\[31m", "Folder `lot\\u202e7xxx"} {
+		if !strings.Contains(md, want) {
+			t.Errorf("report lacks %q", want)
+		}
+	}
+	if strings.Contains(md, strings.Repeat("x", 200)) {
+		t.Error("a 300-character folder is not cut")
+	}
+}

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"strings"
 	"time"
+	"unicode"
 
 	"junco/model"
 	"junco/sessions"
@@ -313,7 +314,9 @@ func stamp(t time.Time) string {
 }
 
 // md escapes user text for Markdown: characters that would start
-// formatting, links or HTML are backslash-escaped.
+// formatting, links or HTML are backslash-escaped, line breaks and tabs
+// become spaces, and other control and invisible format characters are
+// written as \uXXXX.
 func md(s string) string {
 	var b strings.Builder
 	for _, r := range s {
@@ -324,6 +327,13 @@ func md(s string) string {
 		case '\n', '\r', '\t':
 			b.WriteByte(' ')
 		default:
+			if unicode.IsControl(r) || unicode.Is(unicode.Cf, r) {
+				// Shown as an escape (as sessions.Printable shows it),
+				// never acted on: an escape sequence or a bidirectional
+				// override would reach a terminal or a viewer as it is.
+				fmt.Fprintf(&b, `\\u%04x`, r)
+				continue
+			}
 			b.WriteRune(r)
 		}
 	}

@@ -25,7 +25,7 @@ type serveOptions struct {
 	idle                            time.Duration
 	maxConn                         int
 	maxConnPerUser                  int
-	uploadMiB, inboxMiB             int64
+	uploadMiB, inboxMiB, storeMiB   int64
 }
 
 // serveHelp is the page of `junco serve --help`.
@@ -70,6 +70,7 @@ func addServeFlags(fs *pflag.FlagSet, o *serveOptions) {
 	fs.IntVar(&o.maxConn, "max-conn", 32, "most concurrent sessions (workbench, command or file transfer); open SSH connections are capped at twice this")
 	fs.IntVar(&o.maxConnPerUser, "max-conn-per-user", 0, "most concurrent sessions one user may hold (1 to --max-conn; default a quarter of --max-conn, at least 2)")
 	fs.Int64Var(&o.uploadMiB, "upload-max-mib", sessions.DefaultInboxFileBytes>>20, "largest file a user may upload to the inbox, in MiB (1 to 65536)")
+	fs.Int64Var(&o.storeMiB, "store-max-mib", defaultStoreMiB, "most a user's sessions may hold in all on the server (revisions, drafts, review notes), in MiB (1 to 1048576)")
 	fs.Int64Var(&o.inboxMiB, "inbox-max-mib", sessions.DefaultInboxUserBytes>>20, "most a user's inbox may hold in all, in MiB (1 to 1048576, at least --upload-max-mib)")
 }
 
@@ -85,6 +86,10 @@ func runServeOptions(ctx context.Context, o serveOptions, stdout, stderr io.Writ
 	}
 	if o.uploadMiB < 1 || o.uploadMiB > 1<<16 || o.inboxMiB < 1 || o.inboxMiB > 1<<20 || o.inboxMiB < o.uploadMiB {
 		fmt.Fprintf(stderr, "junco serve: --upload-max-mib %d, --inbox-max-mib %d: allowed 1 to 65536 and 1 to 1048576 MiB, the inbox at least one upload\n", o.uploadMiB, o.inboxMiB)
+		return exitUsage
+	}
+	if o.storeMiB < 1 || o.storeMiB > 1<<20 {
+		fmt.Fprintf(stderr, "junco serve: --store-max-mib %d: allowed 1 to 1048576 MiB, so that one user's sessions cannot fill the server's disk\n", o.storeMiB)
 		return exitUsage
 	}
 	if o.idle < 0 {
@@ -111,6 +116,7 @@ func runServeOptions(ctx context.Context, o serveOptions, stdout, stderr io.Writ
 		fmt.Fprintf(stderr, "junco serve: %v\n", err)
 		return exitFailure
 	}
+	app.storeBytes = o.storeMiB << 20
 	app.inboxLimits = sessions.InboxLimits{FileBytes: o.uploadMiB << 20, UserBytes: o.inboxMiB << 20,
 		FileFlag: "--upload-max-mib", UserFlag: "--inbox-max-mib"}
 	srv, err := serve.New(serve.Config{
@@ -166,6 +172,8 @@ type serveApp struct {
 	shares *sessions.Shares
 	log    *slog.Logger
 	now    func() time.Time
+	// storeBytes caps each user's store (0: none).
+	storeBytes int64
 	// inboxLimits caps each user's uploads (zero: the defaults).
 	inboxLimits sessions.InboxLimits
 	// quotas counts each user's uploads on all their connections
@@ -196,8 +204,18 @@ func (a *serveApp) userStore(user string) (*sessions.Store, string, error) {
 	if err != nil {
 		return nil, "", err
 	}
-	st, err := sessions.New(root, sessions.Options{ToolVersion: Version, User: user, Now: a.now})
+	st, err := sessions.New(root, a.storeOptions(user))
 	return st, root, err
+}
+
+// defaultStoreMiB is the default of --store-max-mib: four of the largest
+// documents a session may have.
+const defaultStoreMiB = 4 * sessions.MaxDocumentBytes >> 20
+
+// storeOptions are the options of user's store on the server: saves
+// signed by user, within the per-user cap.
+func (a *serveApp) storeOptions(user string) sessions.Options {
+	return sessions.Options{ToolVersion: Version, User: user, Now: a.now, MaxBytes: a.storeBytes, MaxBytesFlag: "--store-max-mib"}
 }
 
 // sharedTarget resolves OWNER/NAME for user, refusing anything not shared

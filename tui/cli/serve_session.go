@@ -63,7 +63,7 @@ func (a *serveApp) sessionOptions(c serve.Conn, o *tui.Options) error {
 		if owner == c.User {
 			return fmt.Errorf("review %s: this is your own session; open it with `open %s`", c.Args[1], name)
 		}
-		ownerStore, err := sessions.New(root, sessions.Options{ToolVersion: Version, User: owner, Now: a.now})
+		ownerStore, err := sessions.New(root, a.storeOptions(owner))
 		if err != nil {
 			return err
 		}

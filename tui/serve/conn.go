@@ -3,6 +3,7 @@ package serve
 import (
 	"context"
 	"errors"
+	"fmt"
 	"io"
 	"net"
 	"sync"
@@ -193,12 +194,57 @@ var refusedSessionRequests = map[string]string{
 // sessionChannel is the handler of "session" channels: the library's own,
 // behind a filter that refuses the forwarding requests above.
 func (s *Server) sessionChannel(srv *ssh.Server, conn *gossh.ServerConn, nc gossh.NewChannel, ctx ssh.Context) {
+	user := conn.User()
+	if !s.channelOpened(user) {
+		s.log.Warn("session channel refused: at the user's share of open session channels", "user", user,
+			"remote", remoteHost(conn.RemoteAddr()), "open", connCapFactor*s.cfg.MaxPerUser, "max_conn_per_user", s.cfg.MaxPerUser)
+		_ = nc.Reject(gossh.ResourceShortage, fmt.Sprintf("junco: %s has %d session channels open, the most one user may hold (twice --max-conn-per-user); close one and try again",
+			user, connCapFactor*s.cfg.MaxPerUser))
+		return
+	}
+	defer s.channelClosed(user)
 	defer sessionOpened(ctx)()
 	st, _ := ctx.Value(connStateKey{}).(*connState)
 	ssh.DefaultSessionHandler(srv, conn, filteredChannel{NewChannel: nc, input: st, refuse: func(what string) {
 		s.log.Warn("request refused: "+what, "user", conn.User(), "remote", remoteHost(conn.RemoteAddr()))
 	}}, ctx)
 }
+
+// channelOpened counts a session channel of user from its opening to its
+// close, whatever requests it carries (none at all included), and
+// reports false beyond connCapFactor x MaxPerUser open at once: a channel
+// costs the server about 9 kB before any request, and the session cap
+// (limitMiddleware) counts only channels that ask for a command, a
+// terminal or a subsystem.
+func (s *Server) channelOpened(user string) bool {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if s.userChans[user] >= connCapFactor*s.cfg.MaxPerUser {
+		return false
+	}
+	s.userChans[user]++
+	return true
+}
+
+// channelClosed gives back the count of a session channel of user.
+func (s *Server) channelClosed(user string) {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	if s.userChans[user]--; s.userChans[user] <= 0 {
+		delete(s.userChans, user)
+	}
+}
+
+// A session keeps at most maxEnvVars environment variables of at most
+// maxEnvBytes (name and value) each; further "env" requests are refused
+// (as sshd refuses those AcceptEnv does not name). The SSH library keeps
+// every one it is sent: 5000 of 30 kB on one channel raised the server's
+// resident memory by 80 MB, without bound. The workbench reads a few
+// (TERM, COLORTERM, NO_COLOR, LANG and the like).
+const (
+	maxEnvVars  = 64
+	maxEnvBytes = 1024
+)
 
 type filteredChannel struct {
 	gossh.NewChannel
@@ -214,11 +260,24 @@ func (f filteredChannel) Accept() (gossh.Channel, <-chan *gossh.Request, error) 
 	out := make(chan *gossh.Request)
 	go func() {
 		defer close(out)
+		envs, envRefused := 0, false
 		for r := range reqs {
 			if what, ok := refusedSessionRequests[r.Type]; ok {
 				f.refuse(what)
 				_ = r.Reply(false, nil)
 				continue
+			}
+			if r.Type == "env" {
+				// The SSH library keeps every variable a client sends.
+				if envs >= maxEnvVars || len(r.Payload) > maxEnvBytes {
+					if !envRefused {
+						envRefused = true
+						f.refuse(fmt.Sprintf("environment beyond %d variables of at most %d bytes", maxEnvVars, maxEnvBytes))
+					}
+					_ = r.Reply(false, nil)
+					continue
+				}
+				envs++
 			}
 			out <- r
 		}

@@ -21,6 +21,12 @@ import (
 //   - At most connCapFactor x MaxConnections connections are open at once,
 //     counted from the TCP accept whether or not they log in or open a
 //     session; a connection beyond is closed at once and logged.
+//   - Until its key is verified, a connection also counts against its
+//     remote address: at most preAuthShare(MaxConnections) connections of
+//     one address wait for a login at once, so that a client with no key
+//     at all, holding connections open without logging in, cannot fill
+//     the cap and lock every user out; one beyond is closed at once and
+//     logged.
 //   - Once a key is verified, the connection counts against its user's
 //     share: at most connCapFactor x MaxPerUser connections per user, so
 //     that one user with a valid key cannot fill the cap and lock the
@@ -45,8 +51,14 @@ type connState struct {
 	sessions  atomic.Int32
 	lastEnd   atomic.Int64 // UnixNano when no session was last open
 	lastInput atomic.Int64 // UnixNano of the client's last data on a session
-	// users the connection counts against (userConns), under Server.mu.
-	users []string
+	// Under Server.mu: the users the connection counts against
+	// (userConns); host, the remote address it counts against in
+	// preAuth until a key is verified (pending); released once its count
+	// was given back, after which nothing is counted for it any more.
+	users    []string
+	host     string
+	pending  bool
+	released bool
 }
 
 // countedConn is an accepted connection counted against the cap; Close
@@ -77,22 +89,32 @@ func (s *Server) sessionlessLimit() time.Duration {
 // of a session; it returns nil (the library then closes c) beyond the cap.
 func (s *Server) admitConn(ctx ssh.Context, c net.Conn) net.Conn {
 	limit := connCapFactor * s.cfg.MaxConnections
+	host, hostLimit := remoteHost(c.RemoteAddr()), preAuthShare(s.cfg.MaxConnections)
 	s.mu.Lock()
 	if s.openConns >= limit {
 		s.mu.Unlock()
 		s.log.Warn("connection refused: at the connection cap (connections open, with or without a session)",
-			"remote", remoteHost(c.RemoteAddr()), "open", limit, "max_conn", s.cfg.MaxConnections)
+			"remote", host, "open", limit, "max_conn", s.cfg.MaxConnections)
+		return nil
+	}
+	if s.preAuth[host] >= hostLimit {
+		s.mu.Unlock()
+		s.log.Warn("connection refused: at the address's share of connections not yet logged in",
+			"remote", host, "waiting", hostLimit, "max_conn", s.cfg.MaxConnections)
 		return nil
 	}
 	s.openConns++
+	s.preAuth[host]++
+	st := &connState{host: host, pending: true}
 	s.mu.Unlock()
-	st := &connState{}
 	st.lastEnd.Store(time.Now().UnixNano())
 	st.lastInput.Store(time.Now().UnixNano())
 	ctx.SetValue(connStateKey{}, st)
 	cc := &countedConn{Conn: c, release: func() {
 		s.mu.Lock()
 		s.openConns--
+		s.loggedIn(st)
+		st.released = true
 		for _, u := range st.users {
 			if s.userConns[u]--; s.userConns[u] <= 0 {
 				delete(s.userConns, u)
@@ -137,6 +159,25 @@ func (s *Server) admitConn(ctx ssh.Context, c net.Conn) net.Conn {
 	return cc
 }
 
+// preAuthShare is how many connections of one remote address may wait
+// for a login at once: half of maxConn, at least 1. With an address's
+// users holding at most half of the connection cap between them by
+// default (twice a quarter), one address never holds more than the cap's
+// half.
+func preAuthShare(maxConn int) int { return max(maxConn/2, 1) }
+
+// loggedIn stops counting st against its address's share of connections
+// waiting for a login. The caller holds s.mu.
+func (s *Server) loggedIn(st *connState) {
+	if !st.pending {
+		return
+	}
+	st.pending = false
+	if s.preAuth[st.host]--; s.preAuth[st.host] <= 0 {
+		delete(s.preAuth, st.host)
+	}
+}
+
 // sessionOpened counts a session on ctx's connection; the function it
 // returns counts its end.
 func sessionOpened(ctx ssh.Context) func() {
@@ -156,6 +197,9 @@ func sessionOpened(ctx ssh.Context) func() {
 // connections; its banner tells the client why.
 var errUserConnShare = errors.New("at the user's share of open connections")
 
+// errConnClosed refuses a login on a connection closed meanwhile.
+var errConnClosed = errors.New("the connection is closed")
+
 // countUserConn counts the connection of ctx against user once its key is
 // verified (the server configuration's VerifiedPublicKeyCallback, which
 // runs after the signature check, so knowing a user's public key is not
@@ -169,6 +213,11 @@ func (s *Server) countUserConn(ctx ssh.Context, user string) error {
 	limit := connCapFactor * s.cfg.MaxPerUser
 	s.mu.Lock()
 	defer s.mu.Unlock()
+	if st.released {
+		// Closed (by the watchdog, say) while the key was being checked:
+		// its count was given back already and must not be taken again.
+		return errConnClosed
+	}
 	if slices.Contains(st.users, user) {
 		return nil
 	}
@@ -180,6 +229,7 @@ func (s *Server) countUserConn(ctx ssh.Context, user string) error {
 	}
 	s.userConns[user]++
 	st.users = append(st.users, user)
+	s.loggedIn(st)
 	return nil
 }
 

@@ -8,6 +8,7 @@ import (
 	"os"
 	"strings"
 	"sync"
+	"sync/atomic"
 	"time"
 
 	"github.com/charmbracelet/ssh"
@@ -62,7 +63,46 @@ func (s *Server) openInbox(user string) (*sessions.Inbox, error) {
 type inboxSFTP struct {
 	in     *sessions.Inbox
 	stderr io.Writer
+	// handles counts the files and listings open (maxSFTPHandles).
+	handles atomic.Int32
 }
+
+// maxSFTPHandles bounds the files and folder listings one SFTP session
+// holds open at once: each open file is a descriptor of the server's
+// process and each listing holds the whole inbox's entries until the
+// client closes it. Before the bound, one session held 3000 descriptors
+// of one file (and could go on to the process's limit, after which no
+// user could connect or save).
+const maxSFTPHandles = 64
+
+// openHandle counts a file or listing being opened; release gives the
+// count back (once, however often it is called).
+func (h *inboxSFTP) openHandle(op string) (release func(), err error) {
+	if h.handles.Add(1) > maxSFTPHandles {
+		h.handles.Add(-1)
+		return nil, h.fail(&sessions.InboxError{Op: op, Why: fmt.Sprintf("at most %d files and listings may be open at once in one sftp session; close some first", maxSFTPHandles), Err: fs.ErrPermission})
+	}
+	var once sync.Once
+	return func() { once.Do(func() { h.handles.Add(-1) }) }, nil
+}
+
+// sftpRead is a download: closing it closes the file and gives back its
+// handle's count.
+type sftpRead struct {
+	io.ReaderAt
+	close func() error
+}
+
+func (r sftpRead) Close() error { return r.close() }
+
+// sftpListing is a folder listing: closing it gives back its handle's
+// count.
+type sftpListing struct {
+	listerAt
+	release func()
+}
+
+func (l sftpListing) Close() error { l.release(); return nil }
 
 // fail says why on stderr (unless the file is merely missing, which
 // scp asks about on every upload) and returns the SFTP status.
@@ -97,16 +137,25 @@ func sftpErr(err error) error {
 // Fileread opens a file for download.
 func (h *inboxSFTP) Fileread(r *sftp.Request) (io.ReaderAt, error) {
 	name, _ := sftpName(r.Filepath)
+	release, err := h.openHandle("open")
+	if err != nil {
+		return nil, err
+	}
 	f, err := h.in.Open(name)
 	if err != nil {
+		release()
 		return nil, h.fail(err)
 	}
 	ra, ok := f.(io.ReaderAt)
 	if !ok {
 		f.Close()
+		release()
 		return nil, sftp.ErrSSHFxFailure
 	}
-	return ra, nil
+	return sftpRead{ReaderAt: ra, close: func() error {
+		defer release()
+		return f.Close()
+	}}, nil
 }
 
 // Filewrite opens a file for upload, within the inbox's caps.
@@ -115,11 +164,16 @@ func (h *inboxSFTP) Filewrite(r *sftp.Request) (io.WriterAt, error) {
 	if root {
 		return nil, h.fail(&sessions.InboxError{Op: "upload", Why: "name a file, not the inbox", Err: fs.ErrPermission})
 	}
+	release, err := h.openHandle("upload")
+	if err != nil {
+		return nil, err
+	}
 	w, err := h.in.Create(name, -1)
 	if err != nil {
+		release()
 		return nil, h.fail(err)
 	}
-	return &sftpUpload{InboxWriter: w, h: h}, nil
+	return &sftpUpload{InboxWriter: w, h: h, release: release}, nil
 }
 
 // sftpUpload reports the first failure of an upload (a cap crossed) on
@@ -127,8 +181,15 @@ func (h *inboxSFTP) Filewrite(r *sftp.Request) (io.WriterAt, error) {
 // clients that show messages print.
 type sftpUpload struct {
 	*sessions.InboxWriter
-	h    *inboxSFTP
-	once sync.Once
+	h       *inboxSFTP
+	once    sync.Once
+	release func()
+}
+
+// Close ends the upload and gives back its handle's count.
+func (u *sftpUpload) Close() error {
+	defer u.release()
+	return u.InboxWriter.Close()
 }
 
 func (u *sftpUpload) WriteAt(p []byte, off int64) (int, error) {
@@ -174,11 +235,16 @@ func (h *inboxSFTP) Filelist(r *sftp.Request) (sftp.ListerAt, error) {
 			}
 			return nil, h.fail(&sessions.InboxError{Op: "list", Why: "the inbox has no folders", Err: fs.ErrPermission})
 		}
+		release, err := h.openHandle("list")
+		if err != nil {
+			return nil, err
+		}
 		fis, err := h.in.List()
 		if err != nil {
+			release()
 			return nil, h.fail(err)
 		}
-		return listerAt(fis), nil
+		return sftpListing{listerAt: listerAt(fis), release: release}, nil
 	case "Stat", "Lstat":
 		if root {
 			return listerAt{inboxRootInfo{}}, nil

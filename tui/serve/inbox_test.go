@@ -407,3 +407,61 @@ func TestSFTPReasonsOnStderr(t *testing.T) {
 		}
 	}
 }
+
+// One SFTP session holds at most maxSFTPHandles files open at once: the
+// next open is refused (the reason on stderr), a closed file gives its
+// place back, and listings still work after. Before, one session held
+// 3000 descriptors of one file (by hand, against `junco serve`) and could
+// go on to the server process's limit, after which nobody could connect.
+func TestSFTPOpenFilesBounded(t *testing.T) {
+	f := startInboxServer(t, sessions.InboxLimits{})
+	c := sftpClient(t, f.addr, "ada", f.ada)
+	w, err := c.Create("x.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	w.Write([]byte("1,2\n"))
+	if err := w.Close(); err != nil {
+		t.Fatal(err)
+	}
+	var held []*sftp.File
+	defer func() {
+		for _, h := range held {
+			h.Close()
+		}
+	}()
+	var refused error
+	for i := 0; i < 3*maxSFTPHandles; i++ {
+		h, err := c.Open("x.csv")
+		if err != nil {
+			refused = err
+			break
+		}
+		held = append(held, h)
+	}
+	if len(held) != maxSFTPHandles || refused == nil {
+		t.Fatalf("%d files open at once in one session (refusal %v), want %d", len(held), refused, maxSFTPHandles)
+	}
+	if _, err := c.Create("y.csv"); err == nil {
+		t.Error("an upload opened beyond the bound")
+	}
+	held[0].Close()
+	held = held[1:]
+	h, err := c.Open("x.csv")
+	if err != nil {
+		t.Fatalf("a closed file did not give its place back: %v", err)
+	}
+	held = append(held, h)
+	for _, h := range held {
+		h.Close()
+	}
+	held = nil
+	if fis, err := c.ReadDir("/"); err != nil || len(fis) != 1 {
+		t.Errorf("listing after closing: %d files, %v", len(fis), err)
+	}
+	for i := 0; i < 2*maxSFTPHandles; i++ { // listings give their place back
+		if _, err := c.ReadDir("/"); err != nil {
+			t.Fatalf("listing %d: %v", i+1, err)
+		}
+	}
+}

@@ -111,10 +111,16 @@ type Server struct {
 	userConns map[string]int
 	// openConns counts the connections open (connlimit.go).
 	openConns int
-	programs  map[*tea.Program]program
-	conns     map[ssh.Context]*liveConn
-	failures  map[string]int // by remote host
-	closing   bool
+	// userChans counts the session channels each user has open, with
+	// or without a request (conn.go).
+	userChans map[string]int
+	// preAuth counts, by remote address, the connections not yet logged
+	// in (connlimit.go).
+	preAuth  map[string]int
+	programs map[*tea.Program]program
+	conns    map[ssh.Context]*liveConn
+	failures map[string]int // by remote host
+	closing  bool
 
 	revalMu  sync.Mutex // one revalidation at a time
 	stop     chan struct{}
@@ -151,7 +157,7 @@ func New(cfg Config) (*Server, error) {
 		lg = slog.New(slog.NewTextHandler(io.Discard, nil))
 	}
 	s := &Server{cfg: cfg, log: lg, programs: map[*tea.Program]program{}, conns: map[ssh.Context]*liveConn{},
-		perUser: map[string]int{}, userConns: map[string]int{}, failures: map[string]int{}, stop: make(chan struct{})}
+		perUser: map[string]int{}, userConns: map[string]int{}, preAuth: map[string]int{}, userChans: map[string]int{}, failures: map[string]int{}, stop: make(chan struct{})}
 	signer, created, err := loadOrCreateHostKey(cfg.HostKeyPath)
 	if err != nil {
 		return nil, err
