@@ -81,7 +81,7 @@ func runServeOptions(ctx context.Context, o serveOptions, stdout, stderr io.Writ
 		return exitUsage
 	}
 	if o.maxConnPerUser < 0 || o.maxConnPerUser > o.maxConn {
-		fmt.Fprintf(stderr, "junco serve: --max-conn-per-user %d: allowed 1 to --max-conn (%d), so that one user cannot hold every slot\n", o.maxConnPerUser, o.maxConn)
+		fmt.Fprintf(stderr, "junco serve: --max-conn-per-user %d: allowed 1 to --max-conn (%d); below --max-conn, one user cannot hold every slot\n", o.maxConnPerUser, o.maxConn)
 		return exitUsage
 	}
 	if o.uploadMiB < 1 || o.uploadMiB > 1<<16 || o.inboxMiB < 1 || o.inboxMiB > 1<<20 || o.inboxMiB < o.uploadMiB {
