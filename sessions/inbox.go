@@ -337,6 +337,13 @@ func (in *Inbox) userCapError(name string, used int64) error {
 // upload ends. A file whose upload failed or crossed a cap is removed at
 // Close.
 func (in *Inbox) Create(given string, size int64) (*InboxWriter, error) {
+	return in.create(given, size, false)
+}
+
+// create is Create; with exclusive, a name that exists is refused under
+// the inbox's lock and the file is created exclusively (O_EXCL), so that
+// nothing, an upload finishing at that moment included, is replaced.
+func (in *Inbox) create(given string, size int64, exclusive bool) (*InboxWriter, error) {
 	name, err := InboxName("upload", given)
 	if err != nil {
 		return nil, err
@@ -358,6 +365,9 @@ func (in *Inbox) Create(given string, size int64) (*InboxWriter, error) {
 		}
 		old, exists = fi.Size(), true
 	}
+	if exists && exclusive {
+		return nil, fmt.Errorf("%s exists in your inbox; nothing was written", Printable(given, 64, ""))
+	}
 	files, used, err := in.scan()
 	if err != nil {
 		return nil, err
@@ -372,7 +382,14 @@ func (in *Inbox) Create(given string, size int64) (*InboxWriter, error) {
 	if size >= 0 && others+size > in.lim.UserBytes {
 		return nil, in.userCapError(name, others)
 	}
-	f, err := in.root.OpenFile(name, os.O_WRONLY|os.O_CREATE|os.O_TRUNC, 0o600)
+	flags := os.O_WRONLY | os.O_CREATE | os.O_TRUNC
+	if exclusive {
+		flags = os.O_WRONLY | os.O_CREATE | os.O_EXCL
+	}
+	f, err := in.root.OpenFile(name, flags, 0o600)
+	if exclusive && errors.Is(err, fs.ErrExist) {
+		return nil, fmt.Errorf("%s exists in your inbox; nothing was written", Printable(given, 64, ""))
+	}
 	if err != nil {
 		return nil, refused("upload", quoteName(name)+" cannot be written")
 	}
@@ -565,8 +582,5 @@ func (in *Inbox) Rename(from, to string, replace bool) error {
 // workbench, under the inbox's name policy and caps, refusing a name that
 // exists (model.FileWriter).
 func (in *Inbox) CreateNew(given string) (io.WriteCloser, error) {
-	if _, err := in.Stat(given); err == nil {
-		return nil, fmt.Errorf("%s exists in your inbox; nothing was written", Printable(given, 64, ""))
-	}
-	return in.Create(given, -1)
+	return in.create(given, -1, true)
 }
