@@ -222,14 +222,14 @@ func fitRunCV(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) int {
 	}
 	code = exitOK
 	if wantCard {
-		// Only what the data determine goes on the card (0 = left out).
+		// Only what the data determine goes on the card.
 		var cp extract.CardParams
 		for _, x := range []struct {
 			q   extract.CVQuantity
-			dst *float64
+			dst *extract.CardValue
 		}{{an.ZeroBiasCapacitanceF, &cp.CJO}, {an.BuiltInPotentialV, &cp.VJ}, {an.GradingCoefficient, &cp.M}} {
 			if x.q.Determined {
-				*x.dst = x.q.Value
+				*x.dst = extract.Given(x.q.Value)
 			}
 		}
 		r.ModelCard, err = extract.ModelCard(card, cp)

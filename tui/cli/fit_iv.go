@@ -317,16 +317,19 @@ func fitRunIV(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) int {
 	return code
 }
 
+// fitIVCard is the card of one fit: IS, N, RS (when the fit has a series
+// resistance; its 0 means none) and TNOM, the fit's temperature (0 degC
+// included).
 func fitIVCard(name string, r *fitIVReport) (string, error) {
 	f := r.fit
-	p := extract.CardParams{TNOM: f.TemperatureK - 273.15}
+	p := extract.CardParams{TNOM: extract.Given(extract.TNOMCelsius(f.TemperatureK))}
+	is, n, rs := f.Single.SaturationCurrentA, f.Single.IdealityFactor, f.Single.SeriesResistanceOhm
 	if f.Model == extract.ModelDouble {
-		p.IS, p.N, p.RS = f.Double.DiffusionCurrentA, 1, f.Double.SeriesResistanceOhm
-	} else {
-		p.IS, p.N, p.RS = f.Single.SaturationCurrentA, f.Single.IdealityFactor, f.Single.SeriesResistanceOhm
+		is, n, rs = f.Double.DiffusionCurrentA, 1, f.Double.SeriesResistanceOhm
 	}
-	if p.TNOM == 0 {
-		p.TNOM = math.NaN()
+	p.IS, p.N = extract.Given(is), extract.Given(n)
+	if rs > 0 {
+		p.RS = extract.Given(rs)
 	}
 	return extract.ModelCard(name, p)
 }
