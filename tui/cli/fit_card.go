@@ -105,6 +105,17 @@ type fitCardReport struct {
 var fitCardSub = fitSub{
 	use:   "card --iv FILE... | --session NAME|FILE  --name NAME [flags]",
 	short: "build a SPICE diode model card from a whole characterisation",
+	summary: `  junco fit card --iv FILE... | --session NAME|FILE  --name NAME
+                       [--cv FILE] [--reverse FILE] [--recovery FILE] [--temp T]
+                       [--window V1:V2] [--check] [--json] [--ascii] [--data DIR]
+      One SPICE diode model card (.model NAME D(...)) from a whole
+      characterisation: IS, N, RS (ISR, NR) from the forward I-V sweeps,
+      EG and XTI when they span several temperatures (the first --iv file
+      is the reference, TNOM its temperature); CJO, VJ, M from C-V; BV,
+      IBV from a reverse sweep to breakdown; TT from a recovery file or
+      forward C-V. Each parameter comes with its standard error and
+      source; what nothing measured is left out; a .subckt holds an
+      observable shunt. --check runs the card in ngspice against the data.`,
 	long: `Build one SPICE diode model card from a characterisation: IS, N, RS
 (ISR, NR when a second diode is significant) from the forward I-V sweeps,
 fitted jointly with EG and XTI when they span several temperatures (the
