@@ -251,7 +251,7 @@ func Card(ctx context.Context, in CardInputs) (*CardResult, error) {
 	} else {
 		res.Notes = append(res.Notes, "BV, IBV not in the card: no reverse sweep to breakdown")
 	}
-	params = append(params, CardParam{"TNOM", "degC", tnomK - 273.15, math.NaN(), FromReference})
+	params = append(params, CardParam{"TNOM", "degC", extract.TNOMCelsius(tnomK), math.NaN(), FromReference})
 	res.Params = params
 	res.Diode = d
 

@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"junco/physics"
+	"junco/physics/extract"
 	"math"
 	"os"
 	"os/exec"
@@ -224,7 +225,8 @@ func deck(netlist, element string, tempK float64, control []string) string {
 	b.WriteString(netlist)
 	b.WriteString("\nV1 a 0 dc 0 ac 1\n")
 	b.WriteString(element)
-	fmt.Fprintf(&b, "\n.options temp=%s\n.control\nset noaskquit\n", strconv.FormatFloat(tempK-273.15, 'f', 6, 64))
+	// The card's own conversion: a sweep at the reference temperature runs at TNOM exactly.
+	fmt.Fprintf(&b, "\n.options temp=%s\n.control\nset noaskquit\n", strconv.FormatFloat(extract.TNOMCelsius(tempK), 'f', 6, 64))
 	for _, c := range control {
 		b.WriteString(c)
 		b.WriteByte('\n')

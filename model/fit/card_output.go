@@ -75,49 +75,17 @@ func cardJunction(ctx context.Context, ds *measure.DataSet) (*extract.JunctionCV
 // junction fit leaves the forward points out.
 const cardMinReverseCV = 8
 
-// cardParams maps the parameters to the card's fields; skip names the
-// ones to leave out (RS in the subcircuit's inner model).
+// cardParams maps the parameters to the card's fields, every one of them
+// given (written whatever its value: TNOM = 0 degC is a temperature);
+// skip names the one to leave out (RS in the subcircuit's inner model).
 func cardParams(ps []CardParam, skip string) extract.CardParams {
 	var c extract.CardParams
+	fields := map[string]*extract.CardValue{"IS": &c.IS, "N": &c.N, "RS": &c.RS, "ISR": &c.ISR, "NR": &c.NR,
+		"CJO": &c.CJO, "VJ": &c.VJ, "M": &c.M, "FC": &c.FC, "TT": &c.TT, "EG": &c.EG, "XTI": &c.XTI,
+		"BV": &c.BV, "IBV": &c.IBV, "TNOM": &c.TNOM}
 	for _, p := range ps {
-		if p.Name == skip {
-			continue
-		}
-		v := p.Value
-		switch p.Name {
-		case "IS":
-			c.IS = v
-		case "N":
-			c.N = v
-		case "RS":
-			c.RS = v
-		case "ISR":
-			c.ISR = v
-		case "NR":
-			c.NR = v
-		case "CJO":
-			c.CJO = v
-		case "VJ":
-			c.VJ = v
-		case "M":
-			c.M = v
-		case "FC":
-			c.FC = v
-		case "TT":
-			c.TT = v
-		case "EG":
-			c.EG = v
-		case "XTI":
-			c.XTI = v
-		case "BV":
-			c.BV = v
-		case "IBV":
-			c.IBV = v
-		case "TNOM":
-			c.TNOM = v
-			if c.TNOM == 0 {
-				c.TNOM = math.NaN() // 0 degC would read as "not given"
-			}
+		if f, ok := fields[p.Name]; ok && p.Name != skip {
+			*f = extract.Given(p.Value)
 		}
 	}
 	return c
@@ -207,12 +175,14 @@ func (r *CardResult) Beyond(v, i, t float64) []string {
 	return out
 }
 
-// cardDiodeOf is the static card of r's parameters (TNOM in degC).
+// cardDiodeOf is the static card of r's parameters (TNOM in degC; 27
+// degC, the simulator's default, when the card has none).
 func cardDiodeOf(r *CardResult) extract.CardDiode {
 	c := cardParams(r.Params, "")
-	tnom := c.TNOM
-	if math.IsNaN(tnom) {
-		tnom = 0
+	tnom := 27.0
+	if c.TNOM.Set {
+		tnom = c.TNOM.Value
 	}
-	return extract.CardDiode{IS: c.IS, N: c.N, RS: c.RS, ISR: c.ISR, NR: c.NR, EG: c.EG, XTI: c.XTI, TNOMK: tnom + 273.15, VJ: c.VJ, M: c.M}
+	return extract.CardDiode{IS: c.IS.Value, N: c.N.Value, RS: c.RS.Value, ISR: c.ISR.Value, NR: c.NR.Value, EG: c.EG.Value,
+		XTI: c.XTI.Value, TNOMK: extract.TNOMKelvin(tnom), VJ: c.VJ.Value, M: c.M.Value}
 }

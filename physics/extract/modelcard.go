@@ -5,31 +5,76 @@ import (
 	"math"
 	"strconv"
 	"strings"
+
+	"junco/physics"
 )
 
+// CardValue is one parameter of a model card: written when Set, whatever
+// its value (0 included); left out when not Set, so the simulator's
+// default applies. Given makes a set value.
+type CardValue struct {
+	Value float64
+	Set   bool
+}
+
+// Given returns v as a card value that is written (CardValue.Set).
+func Given(v float64) CardValue { return CardValue{Value: v, Set: true} }
+
+// CelsiusOffsetK is the kelvin temperature of 0 degC (273.15 K, exact by
+// the definition of the Celsius scale: BIPM, The International System of
+// Units, 9th ed., 2019, sec. 2.3.1).
+const CelsiusOffsetK = 273.15
+
+// tnomStepsPerC is the inverse of the step TNOM is rounded to (1e-9
+// degC): far below any measured temperature's precision, far above the
+// rounding error of the kelvin-to-Celsius subtraction (about 6e-14 degC
+// near 273 K). Dividing the rounded count by it gives the float64 nearest
+// the decimal value (26.85, not 26.850000000000023).
+const tnomStepsPerC = 1e9
+
+// TNOMCelsius returns the card's TNOM (degC) for a temperature tK in
+// kelvin: TNOM = tK - 273.15, rounded to 1e-9 degC so that a temperature
+// stated as 0 degC or 273.15 K gives 0 exactly (the subtraction alone
+// leaves a rounding residue such as 5.7e-14). Valid for any finite tK;
+// NaN stays NaN.
+func TNOMCelsius(tK float64) float64 {
+	c := math.Round((tK-CelsiusOffsetK)*tnomStepsPerC) / tnomStepsPerC
+	if c == 0 {
+		return 0 // no -0
+	}
+	return c
+}
+
+// TNOMKelvin returns the temperature in kelvin of a card's TNOM in degC:
+// T = TNOM + 273.15 (the inverse of TNOMCelsius up to its rounding).
+func TNOMKelvin(tnomC float64) float64 { return tnomC + CelsiusOffsetK }
+
 // CardParams are the diode parameters written into a SPICE-style model
-// card. A zero or NaN field is left out of the card, so the simulator's
-// default applies (the SPICE defaults for these are IS = 1e-14 A, N = 1,
-// RS = 0, CJO = 0, VJ = 1 V, M = 0.5, FC = 0.5, TT = 0, EG = 1.11 eV,
-// XTI = 3, BV = infinite, IBV = 1e-3 A, TNOM = 27 C; ISR = 0 and NR = 2 in
-// simulators that have the recombination term; from memory, Nagel, SPICE2,
-// UC Berkeley ERL-M520 (1975), and the ngspice manual).
+// card. A field is written when it is Set (Given), whatever its value: a
+// TNOM of 0 degC or an XTI of 0 is a value, not an absence. A field not
+// Set is left out of the card, so the simulator's default applies (the
+// SPICE defaults for these are IS = 1e-14 A, N = 1, RS = 0, CJO = 0, VJ =
+// 1 V, M = 0.5, FC = 0.5, TT = 0, EG = 1.11 eV, XTI = 3, BV = infinite,
+// IBV = 1e-3 A, TNOM = 27 C; ISR = 0 and NR = 2 in simulators that have
+// the recombination term; from memory, Nagel, SPICE2, UC Berkeley
+// ERL-M520 (1975), the Berkeley SPICE 3 diode model, and the ngspice
+// manual).
 type CardParams struct {
-	IS   float64 // saturation current, A (> 0)
-	N    float64 // emission (ideality) coefficient (> 0)
-	RS   float64 // series resistance, ohm (>= 0)
-	ISR  float64 // recombination saturation current, A (> 0)
-	NR   float64 // emission coefficient of ISR (> 0)
-	CJO  float64 // zero-bias junction capacitance, F (> 0)
-	VJ   float64 // junction potential, V (> 0)
-	M    float64 // grading coefficient (> 0)
-	FC   float64 // forward-bias depletion capacitance coefficient (> 0, < 1)
-	TT   float64 // transit time, s (> 0)
-	EG   float64 // activation energy of IS, eV (> 0)
-	XTI  float64 // saturation-current temperature exponent (any finite)
-	BV   float64 // reverse breakdown voltage, V (> 0, magnitude)
-	IBV  float64 // current at the breakdown voltage, A (> 0, magnitude)
-	TNOM float64 // temperature at which the parameters hold, degrees C
+	IS   CardValue // saturation current, A (> 0)
+	N    CardValue // emission (ideality) coefficient (> 0)
+	RS   CardValue // series resistance, ohm (>= 0)
+	ISR  CardValue // recombination saturation current, A (> 0)
+	NR   CardValue // emission coefficient of ISR (> 0)
+	CJO  CardValue // zero-bias junction capacitance, F (>= 0)
+	VJ   CardValue // junction potential, V (> 0)
+	M    CardValue // grading coefficient (>= 0)
+	FC   CardValue // forward-bias depletion capacitance coefficient (>= 0, < 1)
+	TT   CardValue // transit time, s (>= 0)
+	EG   CardValue // activation energy of IS, eV (> 0)
+	XTI  CardValue // saturation-current temperature exponent (any finite)
+	BV   CardValue // reverse breakdown voltage, V (> 0, magnitude)
+	IBV  CardValue // current at the breakdown voltage, A (> 0, magnitude)
+	TNOM CardValue // temperature at which the parameters hold, degrees C (>= -273.15)
 }
 
 // ModelCard returns the one-line SPICE-style diode model card
@@ -37,8 +82,7 @@ type CardParams struct {
 //	.model NAME D(IS=... N=... RS=... ISR=... NR=... CJO=... VJ=... M=...
 //	+ FC=... TT=... EG=... XTI=... BV=... IBV=... TNOM=...)
 //
-// with only the parameters actually given (non-zero, non-NaN) in that
-// order, each printed with 4 significant digits in exponent form when
+// with only the parameters Set, whatever their value, in that order, each printed with 4 significant digits in exponent form when
 // needed. The name must start with a letter and hold only letters, digits,
 // '_', '-', '.' or '+' (at most 64 characters), so the card parses as one
 // token. Source: Nagel, SPICE2: A Computer Program to Simulate
@@ -54,35 +98,46 @@ func ModelCard(name string, p CardParams) (string, error) {
 			return "", inputErr("name", fmt.Sprintf("%q", name), "a letter first, then letters, digits, _ - . +", fmt.Sprintf("character %q at position %d would break the card", r, k+1))
 		}
 	}
+	// limit: the allowed values of each parameter, by its meaning.
+	const (
+		positive    = iota // > 0
+		nonNegative        // >= 0 (0 is meaningful: no resistance, no charge)
+		signed             // any finite value
+	)
 	type kv struct {
-		k        string
-		v        float64
-		positive bool // must be > 0 (else >= 0)
-		signed   bool // any finite value
+		k     string
+		v     CardValue
+		limit int
 	}
-	list := []kv{{"IS", p.IS, true, false}, {"N", p.N, true, false}, {"RS", p.RS, false, false},
-		{"ISR", p.ISR, true, false}, {"NR", p.NR, true, false},
-		{"CJO", p.CJO, true, false}, {"VJ", p.VJ, true, false}, {"M", p.M, true, false},
-		{"FC", p.FC, true, false}, {"TT", p.TT, true, false}, {"EG", p.EG, true, false}, {"XTI", p.XTI, false, true},
-		{"BV", p.BV, true, false}, {"IBV", p.IBV, true, false},
-		{"TNOM", p.TNOM, false, true}}
+	list := []kv{{"IS", p.IS, positive}, {"N", p.N, positive}, {"RS", p.RS, nonNegative},
+		{"ISR", p.ISR, positive}, {"NR", p.NR, positive},
+		{"CJO", p.CJO, nonNegative}, {"VJ", p.VJ, positive}, {"M", p.M, nonNegative},
+		{"FC", p.FC, nonNegative}, {"TT", p.TT, nonNegative}, {"EG", p.EG, positive}, {"XTI", p.XTI, signed},
+		{"BV", p.BV, positive}, {"IBV", p.IBV, positive},
+		{"TNOM", p.TNOM, signed}}
 	var b strings.Builder
 	b.WriteString(".model ")
 	b.WriteString(name)
 	b.WriteString(" D(")
 	first := true
 	for _, e := range list {
-		if e.v == 0 || math.IsNaN(e.v) {
+		if !e.v.Set {
 			continue
 		}
-		if math.IsInf(e.v, 0) || (!e.signed && e.v < 0) {
-			return "", inputErr(e.k, e.v, "finite and positive", "a model-card parameter must be a finite physical value")
+		v := e.v.Value
+		switch {
+		case !physics.Finite(v):
+			return "", inputErr(e.k, v, "a finite number", "a model-card parameter that is given must be a finite physical value")
+		case e.limit == positive && !(v > 0):
+			return "", inputErr(e.k, v, "> 0", "a model-card parameter must be a physical value")
+		case e.limit == nonNegative && v < 0:
+			return "", inputErr(e.k, v, ">= 0", "a model-card parameter must be a physical value")
 		}
-		if e.k == "FC" && e.v >= 1 {
-			return "", inputErr(e.k, e.v, "0 < FC < 1", "the depletion-capacitance formula is linearised from FC*VJ, below VJ")
+		if e.k == "FC" && v >= 1 {
+			return "", inputErr(e.k, v, "0 <= FC < 1", "the depletion-capacitance formula is linearised from FC*VJ, below VJ")
 		}
-		if e.k == "TNOM" && e.v < -273.15 {
-			return "", inputErr(e.k, e.v, ">= -273.15 C", "below absolute zero")
+		if e.k == "TNOM" && v < -CelsiusOffsetK {
+			return "", inputErr(e.k, v, ">= -273.15 C", "below absolute zero")
 		}
 		if !first {
 			b.WriteByte(' ')
@@ -90,7 +145,7 @@ func ModelCard(name string, p CardParams) (string, error) {
 		first = false
 		b.WriteString(e.k)
 		b.WriteByte('=')
-		b.WriteString(strconv.FormatFloat(e.v, 'g', 4, 64))
+		b.WriteString(strconv.FormatFloat(v, 'g', 4, 64))
 	}
 	b.WriteByte(')')
 	return b.String(), nil

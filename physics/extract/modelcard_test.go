@@ -266,14 +266,58 @@ func TestFitDiffusionTransitTime(t *testing.T) {
 
 // The card carries every parameter given, in SPICE order (Nagel 1975).
 func TestModelCardAllParameters(t *testing.T) {
-	s, err := ModelCard("DX", CardParams{IS: 1e-14, N: 1.02, RS: 2, ISR: 1e-11, NR: 2, CJO: 1e-11, VJ: 0.7, M: 0.5, FC: 0.5,
-		TT: 5e-9, EG: 1.12, XTI: 3, BV: 50, IBV: 1e-5, TNOM: 26.85})
+	s, err := ModelCard("DX", CardParams{IS: Given(1e-14), N: Given(1.02), RS: Given(2), ISR: Given(1e-11), NR: Given(2),
+		CJO: Given(1e-11), VJ: Given(0.7), M: Given(0.5), FC: Given(0.5), TT: Given(5e-9), EG: Given(1.12), XTI: Given(3),
+		BV: Given(50), IBV: Given(1e-5), TNOM: Given(26.85)})
 	want := ".model DX D(IS=1e-14 N=1.02 RS=2 ISR=1e-11 NR=2 CJO=1e-11 VJ=0.7 M=0.5 FC=0.5 TT=5e-09 EG=1.12 XTI=3 BV=50 IBV=1e-05 TNOM=26.85)"
 	if err != nil || s != want {
 		t.Errorf("got %q, %v\nwant %q", s, err, want)
 	}
-	if _, err := ModelCard("DX", CardParams{FC: 1}); err == nil || !strings.Contains(err.Error(), "FC") {
+	if _, err := ModelCard("DX", CardParams{FC: Given(1)}); err == nil || !strings.Contains(err.Error(), "FC") {
 		t.Errorf("FC = 1: %v", err)
+	}
+}
+
+// A parameter's presence, not its value, decides whether it is written:
+// TNOM = 0 degC and XTI = 0 are values (the Berkeley SPICE 3 diode model
+// reads a missing TNOM as 27 degC and a missing XTI as 3; from memory),
+// RS = 0 and TT = 0 too; a parameter not given is left out. A given NaN
+// is an error naming the field, not a silent absence.
+func TestModelCardWritesGivenZeros(t *testing.T) {
+	s, err := ModelCard("D0", CardParams{IS: Given(1e-14), N: Given(1), RS: Given(0), TT: Given(0), EG: Given(1.12), XTI: Given(0), TNOM: Given(0)})
+	if want := ".model D0 D(IS=1e-14 N=1 RS=0 TT=0 EG=1.12 XTI=0 TNOM=0)"; err != nil || s != want {
+		t.Errorf("got %q, %v\nwant %q", s, err, want)
+	}
+	s, err = ModelCard("D0", CardParams{IS: Given(1e-14)})
+	if want := ".model D0 D(IS=1e-14)"; err != nil || s != want {
+		t.Errorf("got %q, %v\nwant %q", s, err, want)
+	}
+	for _, p := range []CardParams{{TNOM: Given(math.NaN())}, {XTI: Given(math.Inf(-1))}, {IS: Given(0)}, {RS: Given(-1)}} {
+		if _, err := ModelCard("D0", p); !errors.Is(err, ErrInput) {
+			t.Errorf("%+v: %v", p, err)
+		}
+	}
+}
+
+// TNOMCelsius: 273.15 K is 0 degC by the definition of the Celsius scale
+// (BIPM, The International System of Units, 9th ed., 2019, sec. 2.3.1);
+// the rounding residue of the subtraction (one step of a float64 near
+// 273.15, 5.7e-14) is gone, and TNOMKelvin inverts it.
+func TestTNOMCelsius(t *testing.T) {
+	for _, c := range []struct{ k, want float64 }{
+		{273.15, 0}, {math.Nextafter(273.15, 1000), 0}, {math.Nextafter(273.15, 0), 0},
+		{300, 26.85}, {296.15, 23}, {0, -273.15}, {373.15, 100}, {273.1500004, 0.0000004},
+	} {
+		got := TNOMCelsius(c.k)
+		if got != c.want || math.Signbit(got) != math.Signbit(c.want) {
+			t.Errorf("TNOMCelsius(%.17g) = %.17g, want %g", c.k, got, c.want)
+		}
+		if back := TNOMKelvin(got); math.Abs(back-c.k) > 1e-9 {
+			t.Errorf("TNOMKelvin(%g) = %.17g, want %.17g", got, back, c.k)
+		}
+	}
+	if !math.IsNaN(TNOMCelsius(math.NaN())) {
+		t.Error("NaN in, not NaN out")
 	}
 }
 

@@ -79,7 +79,7 @@ func TestFitVFTemperature(t *testing.T) {
 }
 
 func TestModelCard(t *testing.T) {
-	s, err := ModelCard("D1N_x", CardParams{IS: 2.52e-9, N: 1.752, RS: 0.568, CJO: 4e-12, M: 0.4, BV: 100})
+	s, err := ModelCard("D1N_x", CardParams{IS: Given(2.52e-9), N: Given(1.752), RS: Given(0.568), CJO: Given(4e-12), M: Given(0.4), BV: Given(100)})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -92,8 +92,8 @@ func TestModelCard(t *testing.T) {
 		name string
 		p    CardParams
 	}{
-		{"", CardParams{IS: 1e-14}}, {"1abc", CardParams{IS: 1e-14}}, {"a b", CardParams{IS: 1e-14}},
-		{"ok", CardParams{IS: -1}}, {"ok", CardParams{RS: math.Inf(1)}}, {"ok", CardParams{TNOM: -300}},
+		{"", CardParams{IS: Given(1e-14)}}, {"1abc", CardParams{IS: Given(1e-14)}}, {"a b", CardParams{IS: Given(1e-14)}},
+		{"ok", CardParams{IS: Given(-1)}}, {"ok", CardParams{RS: Given(math.Inf(1))}}, {"ok", CardParams{TNOM: Given(-300)}},
 	} {
 		if _, err := ModelCard(c.name, c.p); !errors.Is(err, ErrInput) {
 			t.Errorf("ModelCard(%q, %+v): %v", c.name, c.p, err)

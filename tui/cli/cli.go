@@ -54,13 +54,16 @@ func boolFlag(name, val string, hasVal bool) (bool, error) {
 // Version is the tool version written into sessions and reports.
 const Version = "0.1.0"
 
-const rootHelp = `junco: a terminal workbench for pn junctions and diodes
+// rootHelp is the page of `junco --help`; the fit line names the
+// subcommands of fitSubs.
+func rootHelp() string {
+	return `junco: a terminal workbench for pn junctions and diodes
 
   junco                      open the workbench on the built-in demo session
   junco calc [flags]         evaluate one junction (junco calc --help)
   junco solve [flags]        solve it numerically (drift-diffusion) beside calc
   junco open NAME|FILE       open the workbench on a stored session or a file
-  junco fit iv|cv|arrhenius|batch ...
+  junco fit ` + fitNames() + ` ...
                              extract diode parameters from measured data
   junco sessions list|show|history|diff|export|import|trash|restore ...
                              the session store
@@ -71,6 +74,7 @@ const rootHelp = `junco: a terminal workbench for pn junctions and diodes
 
 Every command has its own page: junco COMMAND --help. Exit status: 0 done,
 1 failed, 2 bad usage or input (one line on stderr), 130 interrupted.`
+}
 
 // printVersion writes the version line of junco version and --version.
 // (Cobra's own --version would format it with text/template, whose use

@@ -37,68 +37,44 @@ type fitFlag struct{ name, arg, help string }
 // one file holding its fitSub and run function, plus one line in fitSubs.
 type fitSub struct {
 	use, short, long string
-	flags            []fitFlag
-	run              func(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) int
+	// summary is the subcommand's entry on `junco fit --help`: its
+	// synopsis lines ("  junco fit NAME ...") and a short paragraph.
+	summary string
+	flags   []fitFlag
+	run     func(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) int
 }
+
+// name is the subcommand's name: the first word of its usage line.
+func (s fitSub) name() string { return strings.Fields(s.use)[0] }
 
 // fitSubs lists the fit subcommands in help order.
 func fitSubs() []fitSub {
 	return []fitSub{fitIVSub, fitCVSub, fitArrheniusSub, fitBatchSub, fitCardSub}
 }
 
-// fitHelp is the page of `junco fit --help`: every subcommand in short.
-const fitHelp = `Extract diode parameters from measured data. Each subcommand has its own
+// fitHelp is the page of `junco fit --help`: every subcommand of fitSubs
+// in short (its summary), then the options common to several.
+func fitHelp() string {
+	var b strings.Builder
+	b.WriteString(`Extract diode parameters from measured data. Each subcommand has its own
 page: junco fit SUBCOMMAND --help.
+`)
+	for _, s := range fitSubs() {
+		b.WriteString("\n")
+		b.WriteString(s.summary)
+	}
+	b.WriteString("\n\n" + fitSaveHelp + "\n\n" + fitDataHelp)
+	return b.String()
+}
 
-  junco fit iv FILE... [--temp T] [--window V1:V2] [--model single|double]
-                       [--compliance I] [--floor I]
-                       [--leakage-at V] [--model-card NAME] [--json] [--ascii]
-                       [--compare SESSION|FILE] [--save-to NAME] [--data DIR] [--light]
-      Fit the diode equation to forward I-V data (one result per file).
-      A lit curve (current of one sign at zero bias, changing sign at
-      open circuit; load or generator sign) gets the lit single-diode fit
-      (Iph, Is, n, Rs, Rsh; Isc, Voc, maximum power, fill factor);
-      --light forces it.
-      --compare sets the data against a session's junction: the RMS of
-      ln(measured/predicted) over the window, and the minority lifetime of
-      the lightly doped side for which the model's diffusion Is equals the
-      measured one (with its diffusion length and the assumptions).
-  junco fit cv FILE [--area A] [--material si|ge|gaas|4h-sic] [--window V1:V2]
-                       [--grading M] [--parasitic C] [--profile] [--smooth N]
-                       [--model-card NAME] [--json] [--ascii] [--save-to NAME] [--data DIR]
-      Junction-capacitance fit C = Cj0/(1 - V/Vbi)^m + Cpar (the headline:
-      Vbi, m, Cj0, Cpar; "not determined" when the data cannot pin one
-      down); --grading and --parasitic hold m and Cpar. With --area: the
-      doping from the Mott-Schottky line of C - Cpar (only when m is within
-      0.05 of 1/2) and, with --profile, the doping profile of C - Cpar.
-  junco fit arrhenius FILE... [--temp T1,T2,...] [--dtau-exponent G] [--current I]
-                       [--window V1:V2] [--json] [--ascii]
-      Saturation current against temperature: activation energy from
-      Is = C T^(3+G/2) exp(-Ea/kT); with --current also dVF/dT at that
-      current. --dtau-exponent G (default 0) is the exponent of the
-      temperature dependence of D/tau (D/tau ~ T^G), not the prefactor's
-      exponent: the prefactor is T^(3+G/2), printed as "prefactor
-      exponent". --gamma is its deprecated old name. The standard error of
-      Ea is widened by sqrt(reduced chi-square) when the points scatter
-      more than their errors.
-  junco fit batch DIR|FILE... [--jobs N] [--csv OUT] [--temp T] [--window V1:V2]
-                       [--model single|double] [--compliance I] [--floor I]
-                       [--json] [--ascii]
-                       [--map PARAM] [--limit PARAM:MIN:MAX]... [--report FILE.md]
-                       [--save-to NAME] [--data DIR]
-      Fit many I-V files in parallel: the files named and every .csv,
-      .tsv, .txt and .dat file under each directory (subdirectories too,
-      hidden entries skipped), in sorted order; summary per parameter
-      (median, quartiles, outliers; log scale for Is, Is2 and Rsh) and a
-      CSV table (--csv -, standard output). Ctrl-C keeps the rows done.
-      Die positions come from a dies.csv manifest (file,x,y[,wafer,lot])
-      in the files' folder, else from names like die_x03_y07 or r07c03.
-      --map draws the wafer map of PARAM (Is, n, Rs, Rsh, Is2); --limit
-      marks dies out of limits and prints the yield (n:1.0:1.2, Rs::5ohm);
-      --report writes a Markdown report with SVG wafer maps beside it;
-      --save-to keeps the batch table with a session (batch-1, ...).
-
-` + fitSaveHelp + "\n\n" + fitDataHelp
+// fitNames is the subcommands' names joined by "|" (the root help's line).
+func fitNames() string {
+	var names []string
+	for _, s := range fitSubs() {
+		names = append(names, s.name())
+	}
+	return strings.Join(names, "|")
+}
 
 // fitSaveHelp tells what --save-to and --data do (fit iv and cv).
 const fitSaveHelp = `--save-to NAME (fit iv and cv) stores each data set fitted (IDs iv-1, cv-1,
@@ -126,7 +102,7 @@ Values take units: --temp 300K or 27C (bare: K), --area 1mm2, 1e-4cm2 or
 
 // newFitCmd is `junco fit` and its subcommands.
 func newFitCmd(e *env) *cobra.Command {
-	cmd := &cobra.Command{Use: "fit SUBCOMMAND", Short: "extract diode parameters from measured data", Long: fitHelp}
+	cmd := &cobra.Command{Use: "fit SUBCOMMAND", Short: "extract diode parameters from measured data", Long: fitHelp()}
 	commandGroup(cmd, "subcommand")
 	for _, s := range fitSubs() {
 		cmd.AddCommand(s.command(e))

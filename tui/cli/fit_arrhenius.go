@@ -45,6 +45,16 @@ type fitArrheniusReport struct {
 var fitArrheniusSub = fitSub{
 	use:   "arrhenius FILE... [flags]",
 	short: "saturation current against temperature: activation energy",
+	summary: `  junco fit arrhenius FILE... [--temp T1,T2,...] [--dtau-exponent G] [--current I]
+                       [--window V1:V2] [--json] [--ascii]
+      Saturation current against temperature: activation energy from
+      Is = C T^(3+G/2) exp(-Ea/kT); with --current also dVF/dT at that
+      current. --dtau-exponent G (default 0) is the exponent of the
+      temperature dependence of D/tau (D/tau ~ T^G), not the prefactor's
+      exponent: the prefactor is T^(3+G/2), printed as "prefactor
+      exponent". --gamma is its deprecated old name. The standard error of
+      Ea is widened by sqrt(reduced chi-square) when the points scatter
+      more than their errors.`,
 	long: `Saturation current against temperature: activation energy from
 Is = C T^(3+G/2) exp(-Ea/kT); with --current also dVF/dT at that current.
 Give I-V curves at 3 or more temperatures. --dtau-exponent G (default 0) is

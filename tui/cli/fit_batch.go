@@ -23,6 +23,22 @@ import (
 var fitBatchSub = fitSub{
 	use:   "batch DIR|FILE... [flags]",
 	short: "fit many I-V files in parallel, with a summary per parameter",
+	summary: `  junco fit batch DIR|FILE... [--jobs N] [--csv OUT] [--temp T] [--window V1:V2]
+                       [--model single|double] [--compliance I] [--floor I]
+                       [--json] [--ascii]
+                       [--map PARAM] [--limit PARAM:MIN:MAX]... [--report FILE.md]
+                       [--save-to NAME] [--data DIR]
+      Fit many I-V files in parallel: the files named and every .csv,
+      .tsv, .txt and .dat file under each directory (subdirectories too,
+      hidden entries skipped), in sorted order; summary per parameter
+      (median, quartiles, outliers; log scale for Is, Is2 and Rsh) and a
+      CSV table (--csv -, standard output). Ctrl-C keeps the rows done.
+      Die positions come from a dies.csv manifest (file,x,y[,wafer,lot])
+      in the files' folder, else from names like die_x03_y07 or r07c03.
+      --map draws the wafer map of PARAM (Is, n, Rs, Rsh, Is2); --limit
+      marks dies out of limits and prints the yield (n:1.0:1.2, Rs::5ohm);
+      --report writes a Markdown report with SVG wafer maps beside it;
+      --save-to keeps the batch table with a session (batch-1, ...).`,
 	long: `Fit many I-V files in parallel: the files named and every .csv, .tsv, .txt
 and .dat file under each directory (subdirectories too, hidden entries
 skipped), in sorted order; summary per parameter (median, quartiles,

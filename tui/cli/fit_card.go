@@ -63,6 +63,15 @@ type fitCardCheckBV struct {
 	SimulatedA float64 `json:"simulated_A"`
 }
 
+// fitCardCheckTT is the storage time of the card's transient (current
+// step IF to -IR) beside the measured one: reported, not judged.
+type fitCardCheckTT struct {
+	ForwardA   float64 `json:"forward_A"`
+	ReverseA   float64 `json:"reverse_A"`
+	MeasuredS  float64 `json:"measured_s"`
+	SimulatedS float64 `json:"simulated_s"`
+}
+
 type fitCardCheck struct {
 	Simulator string             `json:"simulator"`
 	Installed bool               `json:"installed"`
@@ -71,6 +80,7 @@ type fitCardCheck struct {
 	IV        []fitCardCheckIV   `json:"iv,omitempty"`
 	CV        *fitCardCheckCV    `json:"cv,omitempty"`
 	Breakdown *fitCardCheckBV    `json:"breakdown,omitempty"`
+	Storage   *fitCardCheckTT    `json:"storage_time,omitempty"`
 	Pass      bool               `json:"pass"`
 	Limits    map[string]float64 `json:"limits"`
 }
@@ -95,6 +105,17 @@ type fitCardReport struct {
 var fitCardSub = fitSub{
 	use:   "card --iv FILE... | --session NAME|FILE  --name NAME [flags]",
 	short: "build a SPICE diode model card from a whole characterisation",
+	summary: `  junco fit card --iv FILE... | --session NAME|FILE  --name NAME
+                       [--cv FILE] [--reverse FILE] [--recovery FILE] [--temp T]
+                       [--window V1:V2] [--check] [--json] [--ascii] [--data DIR]
+      One SPICE diode model card (.model NAME D(...)) from a whole
+      characterisation: IS, N, RS (ISR, NR) from the forward I-V sweeps,
+      EG and XTI when they span several temperatures (the first --iv file
+      is the reference, TNOM its temperature); CJO, VJ, M from C-V; BV,
+      IBV from a reverse sweep to breakdown; TT from a recovery file or
+      forward C-V. Each parameter comes with its standard error and
+      source; what nothing measured is left out; a .subckt holds an
+      observable shunt. --check runs the card in ngspice against the data.`,
 	long: `Build one SPICE diode model card from a characterisation: IS, N, RS
 (ISR, NR when a second diode is significant) from the forward I-V sweeps,
 fitted jointly with EG and XTI when they span several temperatures (the
@@ -108,7 +129,9 @@ With an observable shunt a .subckt is offered. Each I-V sweep is fitted
 over its points well above the noise floor and below a compliance plateau
 unless --window is given. --check runs the card in ngspice (batch mode)
 against the data: rms ln(I_sim/I_meas) < 0.05 per sweep and C within 3 %
-at every reverse C-V bias; exit 1 when it fails or cannot run.
+at every reverse C-V bias (with --recovery it also prints the card's
+storage time beside the measured one, not judged); exit 1 when it fails or
+cannot run.
 
 ` + fitDataHelp,
 	flags: []fitFlag{
@@ -296,6 +319,9 @@ func fitCardCheckReport(out *fitCardCheck, chk *fit.CardCheck) {
 	if b := chk.BV; b != nil {
 		out.Breakdown = &fitCardCheckBV{BiasV: b.BiasV, IBV: b.IBV, SimulatedA: b.SimulatedA}
 	}
+	if s := chk.TT; s != nil {
+		out.Storage = &fitCardCheckTT{ForwardA: s.ForwardA, ReverseA: s.ReverseA, MeasuredS: s.MeasuredS, SimulatedS: s.SimulatedS}
+	}
 }
 
 func fitCardText(w io.Writer, r *fitCardReport, ascii bool) {
@@ -361,6 +387,11 @@ func fitCardText(w io.Writer, r *fitCardReport, ascii bool) {
 		if b := c.Breakdown; b != nil {
 			fmt.Fprintf(w, "  breakdown: at %s the card carries %s (IBV %s)\n", model.Format(model.Voltage, b.BiasV, 4, ascii),
 				model.Format(model.Current, b.SimulatedA, 3, ascii), model.Format(model.Current, b.IBV, 3, ascii))
+		}
+		if s := c.Storage; s != nil {
+			fmt.Fprintf(w, "  storage time: IF %s to IR %s: measured %s, card %s (%.3g times; reported, not judged: the card's junction charge lengthens it)\n",
+				model.Format(model.Current, s.ForwardA, 3, ascii), model.Format(model.Current, s.ReverseA, 3, ascii),
+				model.Format(model.Time, s.MeasuredS, 3, ascii), model.Format(model.Time, s.SimulatedS, 3, ascii), s.SimulatedS/s.MeasuredS)
 		}
 		fmt.Fprintf(w, "check: %s\n", strings.ToUpper(verdict[c.Pass]))
 	}

@@ -86,6 +86,14 @@ func fitCVPut(q extract.CVQuantity, val, se **float64, st *fitCVState) {
 var fitCVSub = fitSub{
 	use:   "cv FILE [flags]",
 	short: "junction-capacitance fit of C-V data (Vbi, m, Cj0, Cpar), doping and its profile",
+	summary: `  junco fit cv FILE [--area A] [--material si|ge|gaas|4h-sic] [--window V1:V2]
+                       [--grading M] [--parasitic C] [--profile] [--smooth N]
+                       [--model-card NAME] [--json] [--ascii] [--save-to NAME] [--data DIR]
+      Junction-capacitance fit C = Cj0/(1 - V/Vbi)^m + Cpar (the headline:
+      Vbi, m, Cj0, Cpar; "not determined" when the data cannot pin one
+      down); --grading and --parasitic hold m and Cpar. With --area: the
+      doping from the Mott-Schottky line of C - Cpar (only when m is within
+      0.05 of 1/2) and, with --profile, the doping profile of C - Cpar.`,
 	long: `Junction-capacitance fit C = Cj0/(1 - V/Vbi)^m + Cpar (the headline: Vbi, m,
 Cj0, Cpar; "not determined" when the data cannot pin one down); --grading
 and --parasitic hold m and Cpar. With --area: the doping from the
@@ -222,14 +230,14 @@ func fitRunCV(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) int {
 	}
 	code = exitOK
 	if wantCard {
-		// Only what the data determine goes on the card (0 = left out).
+		// Only what the data determine goes on the card.
 		var cp extract.CardParams
 		for _, x := range []struct {
 			q   extract.CVQuantity
-			dst *float64
+			dst *extract.CardValue
 		}{{an.ZeroBiasCapacitanceF, &cp.CJO}, {an.BuiltInPotentialV, &cp.VJ}, {an.GradingCoefficient, &cp.M}} {
 			if x.q.Determined {
-				*x.dst = x.q.Value
+				*x.dst = extract.Given(x.q.Value)
 			}
 		}
 		r.ModelCard, err = extract.ModelCard(card, cp)

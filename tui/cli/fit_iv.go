@@ -165,6 +165,19 @@ func fitIVFileLit(ctx context.Context, path string, c fitCommon, leakAt *float64
 var fitIVSub = fitSub{
 	use:   "iv FILE... [flags]",
 	short: "fit the diode equation to forward I-V data",
+	summary: `  junco fit iv FILE... [--temp T] [--window V1:V2] [--model single|double]
+                       [--compliance I] [--floor I]
+                       [--leakage-at V] [--model-card NAME] [--json] [--ascii]
+                       [--compare SESSION|FILE] [--save-to NAME] [--data DIR] [--light]
+      Fit the diode equation to forward I-V data (one result per file).
+      A lit curve (current of one sign at zero bias, changing sign at
+      open circuit; load or generator sign) gets the lit single-diode fit
+      (Iph, Is, n, Rs, Rsh; Isc, Voc, maximum power, fill factor);
+      --light forces it.
+      --compare sets the data against a session's junction: the RMS of
+      ln(measured/predicted) over the window, and the minority lifetime of
+      the lightly doped side for which the model's diffusion Is equals the
+      measured one (with its diffusion length and the assumptions).`,
 	long: `Fit the diode equation to forward I-V data (one result per file).
 --compare sets the data against a session's junction: the RMS of
 ln(measured/predicted) over the window, and the minority lifetime of the
@@ -317,16 +330,19 @@ func fitRunIV(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) int {
 	return code
 }
 
+// fitIVCard is the card of one fit: IS, N, RS (when the fit has a series
+// resistance; its 0 means none) and TNOM, the fit's temperature (0 degC
+// included).
 func fitIVCard(name string, r *fitIVReport) (string, error) {
 	f := r.fit
-	p := extract.CardParams{TNOM: f.TemperatureK - 273.15}
+	p := extract.CardParams{TNOM: extract.Given(extract.TNOMCelsius(f.TemperatureK))}
+	is, n, rs := f.Single.SaturationCurrentA, f.Single.IdealityFactor, f.Single.SeriesResistanceOhm
 	if f.Model == extract.ModelDouble {
-		p.IS, p.N, p.RS = f.Double.DiffusionCurrentA, 1, f.Double.SeriesResistanceOhm
-	} else {
-		p.IS, p.N, p.RS = f.Single.SaturationCurrentA, f.Single.IdealityFactor, f.Single.SeriesResistanceOhm
+		is, n, rs = f.Double.DiffusionCurrentA, 1, f.Double.SeriesResistanceOhm
 	}
-	if p.TNOM == 0 {
-		p.TNOM = math.NaN()
+	p.IS, p.N = extract.Given(is), extract.Given(n)
+	if rs > 0 {
+		p.RS = extract.Given(rs)
 	}
 	return extract.ModelCard(name, p)
 }

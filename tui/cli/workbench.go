@@ -104,7 +104,7 @@ func newWorkbenchCmd(e *env) *cobra.Command {
 	cmd := &cobra.Command{
 		Use:   "junco",
 		Short: "a terminal workbench for pn junctions and diodes",
-		Long:  rootHelp,
+		Long:  rootHelp(),
 		Args:  func(c *cobra.Command, args []string) error { return unknownCommand(c, args) },
 		RunE: func(c *cobra.Command, args []string) error {
 			if version {
