@@ -145,7 +145,11 @@ func ModelCard(name string, p CardParams) (string, error) {
 		first = false
 		b.WriteString(e.k)
 		b.WriteByte('=')
-		b.WriteString(strconv.FormatFloat(v, 'g', 4, 64))
+		prec := 4 // fitted values: four significant digits
+		if e.k == "TNOM" {
+			prec = -1 // a condition, already rounded (TNOMCelsius): 126.85, not 126.8
+		}
+		b.WriteString(strconv.FormatFloat(v, 'g', prec, 64))
 	}
 	b.WriteByte(')')
 	return b.String(), nil

@@ -319,6 +319,13 @@ func TestTNOMCelsius(t *testing.T) {
 	if !math.IsNaN(TNOMCelsius(math.NaN())) {
 		t.Error("NaN in, not NaN out")
 	}
+	// TNOM is a condition, written whole: a reference at 400 K is
+	// TNOM=126.85 (400 - 273.15; SI Brochure, BIPM 2019, sec. 2.3.1), not
+	// 126.8 as at the four digits of the fitted values.
+	card, err := ModelCard("DX", CardParams{IS: Given(1e-14), N: Given(1.02), TNOM: Given(TNOMCelsius(400))})
+	if err != nil || !strings.Contains(card, "TNOM=126.85)") {
+		t.Errorf("card %q, %v: want TNOM=126.85", card, err)
+	}
 }
 
 // BenchmarkFitCardIV: the joint card fit of three 56-point sweeps with
