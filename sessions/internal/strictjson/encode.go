@@ -10,6 +10,8 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+	"unicode"
+	"unicode/utf16"
 	"unicode/utf8"
 )
 
@@ -160,9 +162,19 @@ func (e *encoder) str(s string, path *jpath) error {
 		}
 		if c >= utf8.RuneSelf {
 			r, size := utf8.DecodeRuneInString(s[i:])
-			if r == '\u2028' || r == '\u2029' {
+			// Line and paragraph separators, and the invisible format
+			// characters (bidirectional overrides such as U+202E, zero
+			// widths), are written escaped: a document printed to a
+			// terminal (sessions export --format json) cannot reorder or
+			// hide what it shows. Decoding gives the same text back.
+			if r == '\u2028' || r == '\u2029' || unicode.Is(unicode.Cf, r) {
 				e.buf = append(e.buf, s[start:i]...)
-				e.buf = fmt.Appendf(e.buf, `\u%04x`, r)
+				if r > 0xffff { // beyond the BMP: a UTF-16 surrogate pair (RFC 8259 sec. 7)
+					hi, lo := utf16.EncodeRune(r)
+					e.buf = fmt.Appendf(e.buf, `\u%04x\u%04x`, hi, lo)
+				} else {
+					e.buf = fmt.Appendf(e.buf, `\u%04x`, r)
+				}
 				i += size
 				start = i
 				continue

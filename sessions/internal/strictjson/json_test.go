@@ -1,6 +1,7 @@
 package strictjson
 
 import (
+	"encoding/json"
 	"errors"
 	"math"
 	"strings"
@@ -96,5 +97,36 @@ func TestOmitZero(t *testing.T) {
 	var back withZero
 	if err := Decode(b, &back); err != nil || back.Inner.X != 2 {
 		t.Errorf("round trip %+v (%v)", back, err)
+	}
+}
+
+// Invisible format characters are written escaped (a right-to-left
+// override U+202E, a zero-width space U+200B, a byte-order mark U+FEFF, a
+// language tag U+E0001 beyond the BMP as a surrogate pair, RFC 8259 sec.
+// 7), so a document printed to a terminal cannot reorder what it shows;
+// the text decodes back unchanged and is also what encoding/json reads.
+func TestFormatCharactersEscaped(t *testing.T) {
+	type doc struct {
+		Name string `json:"name"`
+	}
+	in := doc{Name: "rlo\u202egnp.csv zw\u200bsp \ufeffbom tag\U000E0001 µm"}
+	data, err := Encode(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, raw := range []string{"\u202e", "\u200b", "\ufeff", "\U000E0001"} {
+		if strings.Contains(string(data), raw) {
+			t.Errorf("%q written raw in %s", raw, data)
+		}
+	}
+	if !strings.Contains(string(data), `\u202e`) || !strings.Contains(string(data), `\udb40\udc01`) || !strings.Contains(string(data), "µm") {
+		t.Errorf("escapes or plain text wrong: %s", data)
+	}
+	var back, std doc
+	if err := Decode(data, &back); err != nil || back != in {
+		t.Errorf("decoded %q, %v", back.Name, err)
+	}
+	if err := json.Unmarshal(data, &std); err != nil || std != in {
+		t.Errorf("encoding/json read %q, %v", std.Name, err)
 	}
 }
