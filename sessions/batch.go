@@ -60,10 +60,14 @@ type BatchLimit struct {
 // BatchRow is one file of a kept batch: its name relative to the folder,
 // the fit's status (fit.StatusOK, fit.StatusError, fit.StatusNotRun) and
 // error, the die, and for a fitted file the temperature with its source,
-// the parameters (keys of fit.BatchParams, SI; a parameter not
-// determined is absent, one that is infinite is listed in Infinite),
-// their standard errors (absent: not estimated), the RMS log residual
-// and the points used.
+// whether it was recognised as a lit curve and fitted with the lit model
+// (Lit: its values are in the lit columns, fit.BatchParams with Lit; a
+// dark row's in the dark columns), the parameters (keys of
+// fit.BatchParams, SI; a parameter not determined is absent, one that is
+// infinite is listed in Infinite), their standard errors (absent: not
+// estimated), the RMS log residual (dark) or RMS residual in A (lit) and
+// the points used. Lit and rms_residual_A are optional fields added
+// within schema 2: a document without lit rows is written as before.
 type BatchRow struct {
 	File              string             `json:"file"`
 	Status            string             `json:"status"`
@@ -71,10 +75,12 @@ type BatchRow struct {
 	Die               *BatchDie          `json:"die,omitempty"`
 	TemperatureK      float64            `json:"temperature_K,omitempty"`
 	TemperatureSource string             `json:"temperature_source,omitempty"`
+	Lit               bool               `json:"lit,omitempty"`
 	Values            map[string]float64 `json:"values,omitempty"`
 	Infinite          []string           `json:"infinite,omitempty"`
 	StdErrors         map[string]float64 `json:"std_errors,omitempty"`
 	RMSLogResidual    float64            `json:"rms_log_residual,omitempty"`
+	RMSResidualA      float64            `json:"rms_residual_A,omitempty"`
 	Points            int                `json:"points,omitempty"`
 }
 
@@ -155,7 +161,12 @@ func NewBatch(folder string, res *fit.BatchResult, limits []fit.Limit, opt fit.I
 			if len(row.StdErrors) == 0 {
 				row.StdErrors = nil
 			}
-			if physics.Finite(r.RMS) {
+			row.Lit = r.Lit
+			switch {
+			case !physics.Finite(r.RMS):
+			case r.Lit:
+				row.RMSResidualA = r.RMS
+			default:
 				row.RMSLogResidual = r.RMS
 			}
 			row.Points = r.Points
@@ -207,7 +218,10 @@ func (b Batch) Result() (*fit.BatchResult, []fit.Limit) {
 	res := &fit.BatchResult{Rows: make([]fit.BatchRow, len(b.Rows)), Interrupted: b.Interrupted}
 	for k, r := range b.Rows {
 		row := fit.BatchRow{File: r.File, Status: r.Status, Temperature: fit.Temperature{K: r.TemperatureK, Source: r.TemperatureSource},
-			RMS: r.RMSLogResidual, Points: r.Points}
+			Lit: r.Lit, RMS: r.RMSLogResidual, Points: r.Points}
+		if r.Lit {
+			row.RMS = r.RMSResidualA
+		}
 		if r.Error != "" || r.Status != fit.StatusOK {
 			row.Err = errors.New(r.Error)
 		}
@@ -300,9 +314,9 @@ func batchProblems(bs []Batch) []FieldProblem {
 	if len(bs) > MaxBatches {
 		add("$.batches", fmt.Sprintf("%d batch tables", len(bs)), fmt.Sprintf("at most %d (MaxBatches)", MaxBatches), "keeps one session within memory")
 	}
-	keys := map[string]bool{}
+	keys := map[string]bool{} // key: a lit column
 	for _, p := range fit.BatchParams() {
-		keys[p.Key] = true
+		keys[p.Key] = p.Lit
 	}
 	ids := map[string]bool{}
 	for i, b := range bs {
@@ -325,7 +339,7 @@ func batchProblems(bs []Batch) []FieldProblem {
 		}
 		for j, l := range b.Limits {
 			lp := fmt.Sprintf("%s.limits[%d]", p, j)
-			if !keys[l.Parameter] {
+			if _, ok := keys[l.Parameter]; !ok {
 				add(lp+".parameter", fmt.Sprintf("%q", l.Parameter), "a batch column key", "the columns a batch fits")
 			}
 			for _, side := range []*float64{l.Min, l.Max} {
@@ -393,8 +407,10 @@ func (r BatchRow) problems(p string, keys map[string]bool, text func(path, s str
 		se   bool
 	}{{"values", r.Values, false}, {"std_errors", r.StdErrors, true}} {
 		for k, v := range m.vals {
-			if !keys[k] {
+			if lit, ok := keys[k]; !ok {
 				add(p+"."+m.name, fmt.Sprintf("%q", k), "a batch column key", "the columns a batch fits")
+			} else if lit != r.Lit {
+				add(p+"."+m.name, fmt.Sprintf("%q", k), fmt.Sprintf("a column of the %s rows", rowPopulation(r.Lit)), "a row has values only in the columns of the model that fitted it")
 			}
 			if !physics.Finite(v) || (m.se && v < 0) {
 				add(p+"."+m.name+"."+k, fmt.Sprint(v), "a finite number (0 or more for a standard error)", "JSON has no NaN or infinity")
@@ -402,17 +418,31 @@ func (r BatchRow) problems(p string, keys map[string]bool, text func(path, s str
 		}
 	}
 	for _, k := range r.Infinite {
-		if _, both := r.Values[k]; both || !keys[k] {
+		lit, ok := keys[k]
+		if _, both := r.Values[k]; both || !ok || lit != r.Lit {
 			add(p+".infinite", fmt.Sprintf("%q", k), "a batch column key without a value", "an infinite parameter has no finite value")
 		}
 	}
 	if !physics.Finite(r.RMSLogResidual) || r.RMSLogResidual < 0 {
 		add(p+".rms_log_residual", fmt.Sprint(r.RMSLogResidual), "0 or more", "a residual")
 	}
+	if !physics.Finite(r.RMSResidualA) || r.RMSResidualA < 0 || (r.RMSResidualA > 0 && !r.Lit) {
+		add(p+".rms_residual_A", fmt.Sprint(r.RMSResidualA), "0 or more, on a lit row only", "the residual of a lit fit")
+	}
+	if r.Lit && r.Status != fit.StatusOK {
+		add(p+".lit", "true on a row not fitted", "false", "only a fitted row has a model")
+	}
 	if r.Points < 0 {
 		add(p+".points", fmt.Sprint(r.Points), "0 or more", "the points a fit used")
 	}
 	return ps
+}
+
+func rowPopulation(lit bool) string {
+	if lit {
+		return fit.BatchModelLit
+	}
+	return fit.BatchModelDark
 }
 
 // cloneBatches deep-copies kept batches.

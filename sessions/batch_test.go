@@ -22,7 +22,7 @@ func exampleBatch() *fit.BatchResult {
 	row := func(file string, x, y int, is, n, rs, rsh float64) fit.BatchRow {
 		return fit.BatchRow{File: "wafer12/" + file, Status: fit.StatusOK, Die: fit.Die{X: x, Y: y, Wafer: "W12", Source: fit.DieFromName},
 			Temperature: fit.Temperature{K: 298.15, Source: fit.SourceComment},
-			Values:      [5]float64{is, n, rs, rsh, nan}, StdErr: [5]float64{is / 100, 0.01, 0.05, nan, nan}, RMS: 0.012, Points: 61}
+			Values:      fit.BatchColumns(is, n, rs, rsh, nan), StdErr: fit.BatchColumns(is / 100, 0.01, 0.05, nan, nan), RMS: 0.012, Points: 61}
 	}
 	res := &fit.BatchResult{Rows: []fit.BatchRow{
 		row("die_x01_y01.csv", 1, 1, 1.1e-14, 1.03, 2.1, 3e7),
@@ -48,7 +48,7 @@ func sameRows(t *testing.T, got, want []fit.BatchRow) {
 	eq := func(a, b float64) bool { return a == b || (math.IsNaN(a) && math.IsNaN(b)) }
 	for k := range want {
 		g, w := got[k], want[k]
-		if g.Status != w.Status || g.Die != w.Die || g.Temperature != w.Temperature || g.Points != w.Points || !eq(g.RMS, w.RMS) {
+		if g.Status != w.Status || g.Lit != w.Lit || g.Die != w.Die || g.Temperature != w.Temperature || g.Points != w.Points || !eq(g.RMS, w.RMS) {
 			t.Errorf("row %d: %+v, want %+v", k, g, w)
 		}
 		if (g.Err == nil) != (w.Err == nil) || (w.Err != nil && g.Err.Error() != w.Err.Error()) {
@@ -253,7 +253,7 @@ func TestBatchDiff(t *testing.T) {
 				n += shift
 			}
 			res.Rows[k] = fit.BatchRow{File: "die-" + strconv.Itoa(k) + ".csv", Status: fit.StatusOK,
-				Values: [5]float64{1e-14, n, 2, 1e7, math.NaN()}, StdErr: [5]float64{1e-16, 0.01, 0.1, 1e5, math.NaN()}, Points: 50}
+				Values: fit.BatchColumns(1e-14, n, 2, 1e7, math.NaN()), StdErr: fit.BatchColumns(1e-16, 0.01, 0.1, 1e5, math.NaN()), Points: 50}
 		}
 		res.Stats = fit.Statistics(res.Rows)
 		return res

@@ -65,6 +65,9 @@ func (b *batchScreen) dieRows(m Model) ([]dieRow, dieCols) {
 			d.val, d.err = g.bad+" failed", rowError(r.Err)
 		} else {
 			d.val = model.Format(p.Kind, r.Values[b.wm.param], 4, m.e.ascii)
+			if r.Lit { // fitted with the lit model (fit.BatchRow.Lit)
+				d.val += " lit"
+			}
 		}
 		d.out = outlierSymbols(outliers[k])
 		cols.name, cols.pos, cols.val = max(cols.name, width(d.name)), max(cols.pos, width(d.pos)), max(cols.val, width(d.val))

@@ -298,7 +298,14 @@ func (b *batchScreen) draw(m Model, w, h int) []string {
 	}
 	out = append(out, st.strong.Paint(c(fmt.Sprintf("  %-4s %-11s %-11s %-11s %s", "", "median", "Q1", "Q3", "outliers"))))
 	params := fit.BatchParams()
-	for j := range 3 { // Is, n, Rs
+	cols := []int{fit.ColIs, fit.ColN, fit.ColRs}
+	if v.Stats[fit.ColIph].N > 0 { // lit files: their population's own lines
+		if v.Stats[fit.ColIs].N == 0 {
+			cols = nil
+		}
+		cols = append(cols, fit.ColIph, fit.ColVoc, fit.ColFF)
+	}
+	for _, j := range cols {
 		p, sm := params[j], v.Stats[j]
 		f := func(x float64) string { return model.Format(p.Kind, x, 3, ascii) }
 		out = append(out, c(fmt.Sprintf("  %-4s %-11s %-11s %-11s %d of %d", p.Symbol, f(sm.Median), f(sm.Q1), f(sm.Q3), len(sm.Outliers), sm.N)))
@@ -314,7 +321,7 @@ func (b *batchScreen) draw(m Model, w, h int) []string {
 // table is the file table of a batch without die positions in w
 // columns and at most room lines: file names as wide as the longest
 // (shortened from the middle beyond half the width), then Is, n and Rs
-// and the parameters the row is an outlier in (painted as a caution), or
+// (a lit row's from the lit fit, marked "lit") and the parameters the row is an outlier in (painted as a caution), or
 // the failure with its error wrapped below.
 func (b *batchScreen) table(m Model, w, room int) []string {
 	st, g := m.e.st, m.e.g
@@ -340,8 +347,12 @@ func (b *batchScreen) table(m Model, w, room int) []string {
 			blocks = append(blocks, append([]string{head}, wrapped(rowError(r.Err), w, st.err, dieErrIndent)...))
 			continue
 		}
-		line := fmt.Sprintf("%-*s %-9s %-6.3f %-10s", nameW, name, model.Format(model.Current, r.Values[0], 3, ascii), r.Values[1],
-			model.Format(model.Resistance, r.Values[2], 3, ascii))
+		is, n, rs := r.Diode() // a lit row's from the lit fit, marked lit
+		line := fmt.Sprintf("%-*s %-9s %-6.3f %-10s", nameW, name, model.Format(model.Current, is, 3, ascii), n,
+			model.Format(model.Resistance, rs, 3, ascii))
+		if r.Lit {
+			line += " lit"
+		}
 		paint := st.text
 		if syms := outlierSymbols(outliers[k]); syms != "" {
 			line, paint = line+" "+syms, st.caution

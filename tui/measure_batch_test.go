@@ -145,7 +145,7 @@ func TestBatchTableMarksOutliers(t *testing.T) {
 	res := &fit.BatchResult{Fitted: 3}
 	for k, rs := range []float64{5, 5.2, 80} {
 		res.Rows = append(res.Rows, fit.BatchRow{File: fmt.Sprintf("die%d.csv", k), Status: fit.StatusOK,
-			Values: [5]float64{1e-12, 1.4, rs, math.Inf(1), math.NaN()}})
+			Values: fit.BatchColumns(1e-12, 1.4, rs, math.Inf(1), math.NaN())})
 	}
 	res.Stats = fit.Statistics(res.Rows)
 	if len(res.Stats[2].Outliers) == 0 {
@@ -165,6 +165,26 @@ func TestBatchTableMarksOutliers(t *testing.T) {
 	for _, l := range lines {
 		if strings.Contains(l, "die0.csv") && strings.HasSuffix(strings.TrimSpace(l), "Rs") {
 			t.Errorf("a row that is no outlier is marked: %q", l)
+		}
+	}
+}
+
+// A lit row of the batch table shows the lit fit's Is, n and Rs and is
+// marked lit; a dark row is not marked.
+func TestBatchTableMarksLitRows(t *testing.T) {
+	m := newTest(t, 120, 40)
+	dark := fit.BatchRow{File: "dark.csv", Status: fit.StatusOK, Values: fit.BatchColumns(1e-12, 1.4, 5, math.Inf(1)), StdErr: fit.BatchColumns()}
+	lit := fit.BatchRow{File: "lit.csv", Status: fit.StatusOK, Lit: true, Values: fit.BatchColumns(), StdErr: fit.BatchColumns()}
+	lit.Values[fit.ColLitIs], lit.Values[fit.ColLitN], lit.Values[fit.ColLitRs], lit.Values[fit.ColIph] = 5e-9, 1.35, 0.05, 0.5
+	res := &fit.BatchResult{Fitted: 2, Rows: []fit.BatchRow{dark, lit}}
+	res.Stats = fit.Statistics(res.Rows)
+	m.batch = &batchScreen{view: res}
+	for _, l := range m.batch.table(m, 100, 10) {
+		switch {
+		case strings.Contains(l, "lit.csv") && (!strings.HasSuffix(strings.TrimSpace(l), "lit") || !strings.Contains(l, "1.350")):
+			t.Errorf("lit row: %q", l)
+		case strings.Contains(l, "dark.csv") && strings.HasSuffix(strings.TrimSpace(l), "lit"):
+			t.Errorf("dark row marked lit: %q", l)
 		}
 	}
 }

@@ -8,8 +8,6 @@ import (
 	"strconv"
 	"strings"
 	"time"
-
-	"junco/physics/extract"
 )
 
 // BatchExportName is the name of a batch table the workbench writes
@@ -43,7 +41,7 @@ func csvNum(v float64) string {
 
 // outlierKeys maps row index to the keys of the parameters it is an
 // outlier in (OutlierParams).
-func outlierKeys(sums [5]extract.Summary) map[int][]string {
+func outlierKeys(sums BatchStats) map[int][]string {
 	m := map[int][]string{}
 	for row, js := range OutlierParams(sums) {
 		for _, j := range js {
@@ -54,20 +52,22 @@ func outlierKeys(sums [5]extract.Summary) map[int][]string {
 }
 
 // WriteBatchCSV writes a batch as CSV, one row per file in the batch's
-// order, with unit-labelled SI headers: file, status, error, temperature
-// and its source, each parameter and its standard error, the RMS log
-// residual, the points, the parameters the row is an outlier in, the die
+// order, with unit-labelled SI headers: file, status, error, the model
+// that fitted it (dark or lit), temperature and its source, each
+// parameter and its standard error (empty where not determined: the lit
+// columns of a dark row, the dark columns of a lit row), the RMS log
+// residual (dark) or RMS residual in A (lit), the points, the parameters the row is an outlier in, the die
 // position (die_x, die_y, wafer, lot) and, with limits, the limits the
 // row is outside. The one batch table of the command line and the
 // workbench.
 func WriteBatchCSV(w io.Writer, res *BatchResult, limits []Limit) error {
 	rows, sums := res.Rows, res.Stats
 	cw := csv.NewWriter(w)
-	head := []string{"file", "status", "error", "temperature_K", "temperature_source"}
+	head := []string{"file", "status", "error", "model", "temperature_K", "temperature_source"}
 	for _, p := range BatchParams() {
 		head = append(head, p.Key, p.Key+"_stderr")
 	}
-	head = append(head, "rms_log_residual", "points", "outlier_in")
+	head = append(head, "rms_log_residual", "rms_residual_A", "points", "outlier_in")
 	fitted := len(head)
 	head = append(head, "die_x", "die_y", "wafer", "lot")
 	if len(limits) > 0 {
@@ -90,11 +90,15 @@ func WriteBatchCSV(w io.Writer, res *BatchResult, limits []Limit) error {
 				rec = append(rec, "")
 			}
 		} else {
-			rec = append(rec, csvNum(r.Temperature.K), r.Temperature.Source)
+			rec = append(rec, r.Model(), csvNum(r.Temperature.K), r.Temperature.Source)
 			for j := range BatchParams() {
 				rec = append(rec, csvNum(r.Values[j]), csvNum(r.StdErr[j]))
 			}
-			rec = append(rec, csvNum(r.RMS), strconv.Itoa(r.Points), strings.Join(out[k], " "))
+			rmsLog, rmsA := r.RMS, math.NaN()
+			if r.Lit {
+				rmsLog, rmsA = rmsA, rmsLog
+			}
+			rec = append(rec, csvNum(rmsLog), csvNum(rmsA), strconv.Itoa(r.Points), strings.Join(out[k], " "))
 		}
 		if r.Die.Known() {
 			rec = append(rec, strconv.Itoa(r.Die.X), strconv.Itoa(r.Die.Y))

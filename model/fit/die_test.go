@@ -189,7 +189,7 @@ func TestParseLimit(t *testing.T) {
 func TestBatchYield(t *testing.T) {
 	nan := math.NaN()
 	row := func(st string, n, rs float64) BatchRow {
-		return BatchRow{Status: st, Values: [5]float64{1e-12, n, rs, math.Inf(1), nan}}
+		return BatchRow{Status: st, Values: BatchColumns(1e-12, n, rs, math.Inf(1), nan)}
 	}
 	rows := []BatchRow{
 		row(StatusOK, 1.05, 2),   // passes both

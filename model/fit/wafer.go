@@ -89,7 +89,7 @@ type ShadeScale struct {
 
 // NewShadeScale is the scale of column j over rows (stats: their
 // Statistics).
-func NewShadeScale(rows []BatchRow, stats [5]extract.Summary, j int) ShadeScale {
+func NewShadeScale(rows []BatchRow, stats BatchStats, j int) ShadeScale {
 	sc := ShadeScale{Lo: math.Inf(1), Hi: math.Inf(-1), Log: BatchParams()[j].Log}
 	out := OutlierSet(stats[j])
 	for k, r := range rows {

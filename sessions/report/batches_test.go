@@ -90,7 +90,7 @@ func TestReportBatchTables(t *testing.T) {
 		}
 	}
 	lines := strings.Split(strings.TrimSpace(table), "\n")
-	if len(lines) != 6 || !strings.HasPrefix(lines[0], "file,status,error,temperature_K") || !strings.Contains(table, "out_of_limits") ||
+	if len(lines) != 6 || !strings.HasPrefix(lines[0], "file,status,error,model,temperature_K") || !strings.Contains(table, "out_of_limits") ||
 		!strings.HasPrefix(lines[1], "die_x01_y01.csv,ok,") || !strings.Contains(lines[2], ",inf,") {
 		t.Errorf("batch CSV:\n%s", table)
 	}

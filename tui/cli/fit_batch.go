@@ -15,7 +15,6 @@ import (
 
 	"junco/model"
 	"junco/model/fit"
-	"junco/physics/extract"
 	"junco/sessions"
 )
 
@@ -270,13 +269,40 @@ type fitBatchRowJSON struct {
 	Error             string   `json:"error,omitempty"`
 	TemperatureK      *float64 `json:"temperature_K,omitempty"`
 	TemperatureSource string   `json:"temperature_source,omitempty"`
+	Model             string   `json:"model,omitempty"`
 	*fitIVValues
-	RMSLogResidual *float64     `json:"rms_log_residual,omitempty"`
-	Points         int          `json:"points,omitempty"`
-	StdErr         *fitIVValues `json:"stderr,omitempty"`
+	*fitBatchLitValues
+	RMSLogResidual *float64 `json:"rms_log_residual,omitempty"`
+	RMSResidualA   *float64 `json:"rms_residual_A,omitempty"`
+	Points         int      `json:"points,omitempty"`
+	StdErr         any      `json:"stderr,omitempty"`
 }
 
-func fitBatchJSON(rows []fit.BatchRow, sums [5]extract.Summary, ok, failed, notRun int, interrupted bool, limits []fit.Limit) any {
+// fitBatchLitValues are the columns of a lit row of a batch (fit.BatchParams
+// with Lit): the lit fit's parameters and the figures of its curve.
+type fitBatchLitValues struct {
+	PhotocurrentA       *float64 `json:"photocurrent_A"`
+	SaturationCurrentA  *float64 `json:"lit_saturation_current_A"`
+	IdealityFactor      *float64 `json:"lit_ideality_factor"`
+	SeriesResistanceOhm *float64 `json:"lit_series_resistance_ohm"`
+	ShuntResistanceOhm  *float64 `json:"lit_shunt_resistance_ohm"`
+	OpenCircuitVoltageV *float64 `json:"open_circuit_voltage_V,omitempty"`
+	ShortCircuitA       *float64 `json:"short_circuit_current_A,omitempty"`
+	FillFactor          *float64 `json:"fill_factor,omitempty"`
+	MaxPowerW           *float64 `json:"max_power_W,omitempty"`
+}
+
+// fitBatchLitValuesOf is the lit columns of v; the figures are left out
+// of a standard error (not estimated).
+func fitBatchLitValuesOf(v [fit.NumBatchParams]float64, figures bool) *fitBatchLitValues {
+	o := &fitBatchLitValues{fitNum(v[fit.ColIph]), fitNum(v[fit.ColLitIs]), fitNum(v[fit.ColLitN]), fitNum(v[fit.ColLitRs]), fitNum(v[fit.ColLitRsh]), nil, nil, nil, nil}
+	if figures {
+		o.OpenCircuitVoltageV, o.ShortCircuitA, o.FillFactor, o.MaxPowerW = fitNum(v[fit.ColVoc]), fitNum(v[fit.ColIsc]), fitNum(v[fit.ColFF]), fitNum(v[fit.ColPmax])
+	}
+	return o
+}
+
+func fitBatchJSON(rows []fit.BatchRow, sums fit.BatchStats, ok, failed, notRun int, interrupted bool, limits []fit.Limit) any {
 	summary := map[string]fitSummaryJSON{}
 	for j, s := range sums {
 		if s.N == 0 {
@@ -300,9 +326,16 @@ func fitBatchJSON(rows []fit.BatchRow, sums [5]extract.Summary, ok, failed, notR
 		if r.Status == fit.StatusOK {
 			rj.TemperatureK, rj.TemperatureSource = fitNum(r.Temperature.K), r.Temperature.Source
 			v, s := r.Values, r.StdErr
-			rj.fitIVValues = &fitIVValues{fitNum(v[0]), fitNum(v[1]), fitNum(v[2]), fitNum(v[3]), fitNum(v[4])}
-			rj.StdErr = &fitIVValues{fitNum(s[0]), fitNum(s[1]), fitNum(s[2]), fitNum(s[3]), fitNum(s[4])}
-			rj.RMSLogResidual, rj.Points = fitNum(r.RMS), r.Points
+			rj.Model, rj.Points = r.Model(), r.Points
+			if r.Lit {
+				rj.fitBatchLitValues = fitBatchLitValuesOf(v, true)
+				rj.StdErr = fitBatchLitValuesOf(s, false)
+				rj.RMSResidualA = fitNum(r.RMS)
+			} else {
+				rj.fitIVValues = &fitIVValues{fitNum(v[0]), fitNum(v[1]), fitNum(v[2]), fitNum(v[3]), fitNum(v[4])}
+				rj.StdErr = &fitIVValues{fitNum(s[0]), fitNum(s[1]), fitNum(s[2]), fitNum(s[3]), fitNum(s[4])}
+				rj.RMSLogResidual = fitNum(r.RMS)
+			}
 		}
 		out = append(out, rj)
 	}
@@ -318,12 +351,22 @@ func fitBatchJSON(rows []fit.BatchRow, sums [5]extract.Summary, ok, failed, notR
 	}{len(rows), ok, failed, notRun, interrupted, summary, fitYieldOf(rows, limits), out}
 }
 
-func fitBatchText(w io.Writer, rows []fit.BatchRow, sums [5]extract.Summary, ok, failed, notRun, jobs int, elapsed time.Duration, c fitCommon) {
+func fitBatchText(w io.Writer, rows []fit.BatchRow, sums fit.BatchStats, ok, failed, notRun, jobs int, elapsed time.Duration, c fitCommon) {
 	fmt.Fprintf(w, "%d files: %d fitted, %d failed", len(rows), ok, failed)
 	if notRun > 0 {
 		fmt.Fprintf(w, ", %d not run (interrupted)", notRun)
 	}
-	fmt.Fprintf(w, "; %s diode model, %d workers, %.1f s\n\n", c.model, jobs, elapsed.Seconds())
+	lit := 0
+	for _, r := range rows {
+		if r.Status == fit.StatusOK && r.Lit {
+			lit++
+		}
+	}
+	fmt.Fprintf(w, "; %s diode model, %d workers, %.1f s\n", c.model, jobs, elapsed.Seconds())
+	if lit > 0 {
+		fmt.Fprintf(w, "%d lit files fitted with the lit single-diode model (their columns marked lit; dark and lit files are summarised apart)\n", lit)
+	}
+	fmt.Fprintln(w)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintf(tw, "parameter\tN\tmedian\tQ1\tQ3\toutliers\n")
 	for j, p := range fit.BatchParams() {

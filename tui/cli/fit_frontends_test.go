@@ -300,3 +300,65 @@ func TestFitProgressLine(t *testing.T) {
 		t.Errorf("%q", got)
 	}
 }
+
+// Lit files in a batch: one routing. On the invented folder of dark and
+// lit dies the command line and the workbench's call (fit.Batch with the
+// workbench's temperature rule; the files state 300 K) mark the same
+// rows lit and give the same numbers in every column, and the same
+// per-population statistics.
+func TestFrontEndsLitBatch(t *testing.T) {
+	dir := fitWriteMixedBatch(t, t.TempDir())
+	_, out, _ := fitCall("batch", dir, "--json", "--jobs", "3")
+	var b struct {
+		Summary map[string]struct {
+			N      int      `json:"n"`
+			Median *float64 `json:"median"`
+		} `json:"summary"`
+		Results []map[string]any `json:"results"`
+	}
+	if err := json.Unmarshal([]byte(out), &b); err != nil {
+		t.Fatal(err)
+	}
+	files, err := fit.BatchFiles(nil, dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	wb, err := fit.Batch(context.Background(), files, fit.BatchOptions{IV: fit.IVOptions{Temperature: workbenchRule(296.15)}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(b.Results) != len(wb.Rows) || len(wb.Rows) != 6 {
+		t.Fatalf("command line %d rows, workbench %d", len(b.Results), len(wb.Rows))
+	}
+	lit := 0
+	for k, r := range wb.Rows {
+		c := b.Results[k]
+		if c["file"] != r.File || c["model"] != r.Model() || r.Status != fit.StatusOK {
+			t.Errorf("row %d: command line %v %v, workbench %s %s", k, c["file"], c["model"], r.File, r.Model())
+		}
+		if r.Lit {
+			lit++
+		}
+		for j, p := range fit.BatchParams() {
+			got, ok := c[p.Key].(float64)
+			if math.IsNaN(r.Values[j]) || math.IsInf(r.Values[j], 0) {
+				if ok {
+					t.Errorf("%s: %s %g on the command line, not determined in the workbench", r.File, p.Key, got)
+				}
+				continue
+			}
+			if !ok || got != r.Values[j] {
+				t.Errorf("%s: %s %v on the command line, %g in the workbench", r.File, p.Key, c[p.Key], r.Values[j])
+			}
+		}
+	}
+	for j, p := range fit.BatchParams() {
+		s, ws := b.Summary[p.Key], wb.Stats[j]
+		if s.N != ws.N || (ws.N > 0 && *s.Median != ws.Median) {
+			t.Errorf("%s: command line n %d, workbench n %d median %g", p.Key, s.N, ws.N, ws.Median)
+		}
+	}
+	if lit != 3 {
+		t.Errorf("%d lit rows in the workbench, want 3", lit)
+	}
+}

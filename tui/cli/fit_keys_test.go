@@ -143,7 +143,8 @@ func TestReadmeDocumentsEveryFitKey(t *testing.T) {
 			append([]string{"arrhenius", "--json"}, fitKeysRecombination(t, dir)...),
 		},
 		"batch": {{"batch", "testdata/fit/wafer", "--json"}, {"batch", "testdata/fit/wafer", "--json", "--model", "double"},
-			{"batch", "testdata/fit/wafermap", "--json", "--limit", "n:1.3:1.42", "--limit", "Rs::8.2ohm"}, {"batch", "testdata/fit/wafermap-manifest", "--json"}},
+			{"batch", "testdata/fit/wafermap", "--json", "--limit", "n:1.3:1.42", "--limit", "Rs::8.2ohm"}, {"batch", "testdata/fit/wafermap-manifest", "--json"},
+			{"batch", fitWriteMixedBatch(t, dir), "--json"}},
 	}
 	for _, sub := range []string{"iv", "cv", "arrhenius", "batch"} {
 		emitted := map[string]bool{}

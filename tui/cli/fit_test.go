@@ -366,7 +366,7 @@ func TestFitBatchCommand(t *testing.T) {
 		t.Fatalf("csv: %v, %d records", err, len(recs))
 	}
 	head := strings.Join(recs[0], ",")
-	if !strings.HasPrefix(head, "file,status,error,temperature_K") || !strings.Contains(head, "ideality_factor_stderr") {
+	if !strings.HasPrefix(head, "file,status,error,model,temperature_K") || !strings.Contains(head, "ideality_factor_stderr") {
 		t.Errorf("csv header %s", head)
 	}
 	outlierIn := slices.Index(recs[0], "outlier_in")

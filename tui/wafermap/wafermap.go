@@ -16,7 +16,6 @@ import (
 
 	"junco/model"
 	"junco/model/fit"
-	"junco/physics/extract"
 )
 
 // Text is the class of labels and legend text, for painting.
@@ -67,7 +66,7 @@ type Options struct {
 // label at the left, and the legend (the value range of each shade, then
 // the marks). The cursor's die is framed [ ]. Rows without a known die
 // are not drawn; the title counts them.
-func Render(rows []fit.BatchRow, stats [5]extract.Summary, o Options) []string {
+func Render(rows []fit.BatchRow, stats fit.BatchStats, o Options) []string {
 	paint := o.Paint
 	if paint == nil {
 		paint = func(_ fit.DieClass, s string) string { return s }
@@ -191,7 +190,7 @@ func Render(rows []fit.BatchRow, stats [5]extract.Summary, o Options) []string {
 // to show its whole grid (y labels, two columns a die, the cursor's
 // frame) and the widest item of its legend without cutting them; the
 // title and the legend's lines wrap or are cut beyond it.
-func MinWidth(rows []fit.BatchRow, stats [5]extract.Summary, o Options) int {
+func MinWidth(rows []fit.BatchRow, stats fit.BatchStats, o Options) int {
 	g := fit.NewDieGrid(rows, o.Wafer)
 	if g.N == 0 {
 		return 0

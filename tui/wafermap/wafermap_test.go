@@ -16,14 +16,14 @@ import (
 func smallWafer() *fit.BatchResult {
 	die := func(x, y int) fit.Die { return fit.Die{X: x, Y: y, Source: fit.DieFromName} }
 	ok := func(x, y int, n float64) fit.BatchRow {
-		return fit.BatchRow{File: "d.csv", Status: fit.StatusOK, Die: die(x, y), Values: [5]float64{1e-12, n, 5, math.Inf(1), math.NaN()}}
+		return fit.BatchRow{File: "d.csv", Status: fit.StatusOK, Die: die(x, y), Values: fit.BatchColumns(1e-12, n, 5, math.Inf(1), math.NaN())}
 	}
 	rows := []fit.BatchRow{
 		ok(1, 0, 1.02), ok(2, 0, 1.04),
 		ok(0, 1, 1.00), ok(1, 1, 1.03), ok(2, 1, 1.05), ok(3, 1, 1.08),
 		ok(0, 2, 1.01), {File: "f.csv", Status: fit.StatusError, Die: die(1, 2)}, ok(2, 2, 1.90), {File: "g.csv", Status: fit.StatusNotRun, Die: die(3, 2)},
 		ok(1, 3, 1.06),
-		{File: "nameless.csv", Status: fit.StatusOK, Values: [5]float64{1e-12, 1.04, 5, 1, 1}},
+		{File: "nameless.csv", Status: fit.StatusOK, Values: fit.BatchColumns(1e-12, 1.04, 5, 1, 1)},
 	}
 	res := &fit.BatchResult{Rows: rows}
 	res.Stats = fit.Statistics(rows)
