@@ -22,7 +22,7 @@ func exampleBatch() *fit.BatchResult {
 	row := func(file string, x, y int, is, n, rs, rsh float64) fit.BatchRow {
 		return fit.BatchRow{File: "wafer12/" + file, Status: fit.StatusOK, Die: fit.Die{X: x, Y: y, Wafer: "W12", Source: fit.DieFromName},
 			Temperature: fit.Temperature{K: 298.15, Source: fit.SourceComment},
-			Values:      fit.BatchColumns(is, n, rs, rsh, nan), StdErr: fit.BatchColumns(is / 100, 0.01, 0.05, nan, nan), RMS: 0.012, Points: 61}
+			Values:      fit.BatchColumns(is, n, rs, rsh, nan), StdErr: fit.BatchColumns(is/100, 0.01, 0.05, nan, nan), RMS: 0.012, Points: 61}
 	}
 	res := &fit.BatchResult{Rows: []fit.BatchRow{
 		row("die_x01_y01.csv", 1, 1, 1.1e-14, 1.03, 2.1, 3e7),

@@ -20,7 +20,7 @@ func inventedLot() *fit.BatchResult {
 		}
 		rows = append(rows, fit.BatchRow{File: "d.csv", Status: fit.StatusOK,
 			Die:    fit.Die{X: k % 3, Y: k / 3 % 2, Wafer: w, Lot: "L1", Source: fit.DieFromManifest},
-			Values: fit.BatchColumns(1e-12 * (1 + 0.1*float64(k)), 1 + 0.01*float64(k), 4, math.Inf(1), math.NaN())})
+			Values: fit.BatchColumns(1e-12*(1+0.1*float64(k)), 1+0.01*float64(k), 4, math.Inf(1), math.NaN())})
 	}
 	rows[4].Status, rows[4].Err = fit.StatusError, errInvented{}
 	res := &fit.BatchResult{Rows: rows, Fitted: 8, Failed: 1}
