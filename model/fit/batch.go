@@ -131,6 +131,22 @@ func (r BatchRow) Diode() (is, n, rs float64) {
 	return r.Values[ColIs], r.Values[ColN], r.Values[ColRs]
 }
 
+// changesSign reports whether the currents hold finite values of both
+// signs: a condition every lit curve meets (IsLit needs the current to
+// change sign at open circuit), checked first so that a dark sweep, all
+// of one sign, costs the batch one pass without allocation instead of
+// the recognition.
+func changesSign(i []float64) bool {
+	neg, pos := false, false
+	for _, x := range i {
+		neg, pos = neg || x < 0, pos || x > 0
+		if neg && pos {
+			return true
+		}
+	}
+	return false
+}
+
 // nanColumns is every column not determined.
 func nanColumns() [NumBatchParams]float64 { return BatchColumns() }
 
@@ -204,7 +220,7 @@ func Batch(ctx context.Context, files []string, opt BatchOptions) (*BatchResult,
 			return row, err
 		}
 		row.Values, row.StdErr = nanColumns(), nanColumns()
-		if IsLit(ds) {
+		if changesSign(ds.CurrentA) && IsLit(ds) {
 			r, err := LitIVContext(ctx, ds, LitOptions{Window: opt.IV.Window, Temperature: opt.IV.Temperature})
 			if err != nil {
 				return row, fmt.Errorf("%s: lit fit: %w", p, err)
