@@ -390,7 +390,11 @@ func fitBatchText(w io.Writer, rows []fit.BatchRow, sums fit.BatchStats, ok, fai
 		fmt.Fprintf(tw, "%s\t%d\t%s\t%s\t%s\t%s\n", p.Label, s.N, f(s.Median), f(s.Q1), f(s.Q3), o)
 	}
 	tw.Flush()
-	fmt.Fprintln(w, "\n(quartiles by linear interpolation; outliers beyond 1.5 IQR, on a log scale for Is, Is2 and Rsh)")
+	logs := "Is, Is2 and Rsh"
+	if lit > 0 {
+		logs = "Is, Is2, Rsh, Is_lit and Rsh_lit; lit and dark files apart"
+	}
+	fmt.Fprintf(w, "\n(quartiles by linear interpolation; outliers beyond 1.5 IQR, on a log scale for %s)\n", logs)
 	if failed > 0 {
 		fmt.Fprintln(w, "\nfailed:")
 		shown := 0
