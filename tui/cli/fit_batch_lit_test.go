@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"math"
+	"os"
 	"path/filepath"
 	"slices"
 	"strings"
@@ -100,5 +101,34 @@ func TestFitBatchLitFiles(t *testing.T) {
 	if code != exitOK || !strings.Contains(out, "open-circuit voltage Voc (lit)") || !strings.Contains(out, "3 of 6") ||
 		!strings.Contains(out, "3 lit files fitted with the lit single-diode model") {
 		t.Errorf("--map voc --limit: exit %d\n%s%s", code, out, errs)
+	}
+}
+
+// A mixed batch kept with a session (--save-to) shows the lit
+// population's statistics in sessions show, and its Markdown export and
+// --report draw the Voc wafer map.
+func TestFitBatchLitSaveAndReport(t *testing.T) {
+	t.Setenv("USER", "ana")
+	dir := fitWriteMixedBatch(t, t.TempDir())
+	store := t.TempDir()
+	if code, _, errs := fitCall("batch", dir, "--save-to", "cells", "--data", store); code != exitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	code, out, errs := sess(t, store, "show", "cells")
+	for _, w := range []string{"open-circuit voltage Voc (lit)", "saturation current Is"} {
+		if code != exitOK || !strings.Contains(out, w) {
+			t.Errorf("show lacks %q (exit %d, %s):\n%s", w, code, errs, out)
+		}
+	}
+	rep := filepath.Join(t.TempDir(), "cells.md")
+	if code, _, errs := fitCall("batch", dir, "--map", "Voc", "--report", rep); code != exitOK {
+		t.Fatalf("--report: exit %d: %s", code, errs)
+	}
+	md, err := os.ReadFile(rep)
+	if err != nil || !strings.Contains(string(md), "open-circuit voltage Voc (lit)") {
+		t.Errorf("report (%v):\n%s", err, md)
+	}
+	if svg, err := os.ReadFile(strings.TrimSuffix(rep, ".md") + "-map-voc.svg"); err != nil || !strings.Contains(string(svg), "<svg") {
+		t.Errorf("Voc wafer map figure: %v", err)
 	}
 }
