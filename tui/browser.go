@@ -147,6 +147,10 @@ func (k browseKeys) ShortHelp() []key.Binding {
 	return []key.Binding{k.Type, k.Choose, k.Open, k.Revisions, k.Clear, k.Close}
 }
 
+// FullHelp is every key of the session list, for the help screen (Choose
+// stands for Up and Down).
+func (k browseKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
+
 func (b *browseScreen) footer(m Model) []key.Binding { return m.e.keys.browseKeys().ShortHelp() }
 
 func (b *browseScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
@@ -211,6 +215,15 @@ func (k KeyMap) historyKeys() historyKeys {
 
 func (k historyKeys) ShortHelp() []key.Binding {
 	return []key.Binding{k.Choose, k.Mark, k.DiffPair, k.DiffCurrent, k.Restore, k.Open, k.Back}
+}
+
+// FullHelp is every key of the revision history, for the help screen:
+// Choose stands for Up and Down (the arrows and k, j).
+func (k historyKeys) FullHelp() [][]key.Binding {
+	choose := k.Choose
+	choose.SetKeys(slices.Concat(k.Up.Keys(), k.Down.Keys())...)
+	choose.SetHelp(k.Up.Help().Key+" "+k.Down.Help().Key, choose.Help().Desc)
+	return [][]key.Binding{{choose, k.Mark, k.DiffPair, k.DiffCurrent, k.Restore, k.Open, k.Back}}
 }
 
 func (b *historyScreen) footer(m Model) []key.Binding { return m.e.keys.historyKeys().ShortHelp() }
@@ -363,6 +376,11 @@ func (k KeyMap) diffKeys() diffKeys {
 
 func (k diffKeys) ShortHelp() []key.Binding {
 	return []key.Binding{k.Down, k.Up, k.PageDown, k.PageUp, k.Back}
+}
+
+// FullHelp is every key of a comparison, for the help screen.
+func (k diffKeys) FullHelp() [][]key.Binding {
+	return [][]key.Binding{append(k.scrollKeys.list(), k.Back)}
 }
 
 func (b *diffScreen) footer(m Model) []key.Binding { return m.e.keys.diffKeys().ShortHelp() }

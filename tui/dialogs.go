@@ -214,6 +214,9 @@ func (k dialogKeys) ShortHelp() []key.Binding {
 	return []key.Binding{k.Submit, k.Next, k.Prev, k.Clear, k.Dismiss}
 }
 
+// FullHelp is every key of a dialog, for the help screen.
+func (k dialogKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
+
 func (d *dialogScreen) footer(m Model) []key.Binding { return m.e.keys.dialogKeys().ShortHelp() }
 
 func (d *dialogScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
@@ -356,6 +359,10 @@ func (k staleKeys) ShortHelp() []key.Binding {
 	return []key.Binding{k.SaveNext, k.SaveCopy, k.ShowNewer, k.Dismiss}
 }
 
+// FullHelp is every key of the newer-revision choice, for the help
+// screen.
+func (k staleKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
+
 func (s *staleScreen) footer(m Model) []key.Binding { return m.e.keys.staleKeys().ShortHelp() }
 
 func (s *staleScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
@@ -407,6 +414,9 @@ func (c *confirmScreen) footer(m Model) []key.Binding { return c.confirmKeys(m.e
 
 func (k confirmKeys) ShortHelp() []key.Binding { return []key.Binding{k.Yes, k.No} }
 
+// FullHelp is every key of a yes/no question, for the help screen.
+func (k confirmKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
+
 func (c *confirmScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
 	k := c.confirmKeys(m.e.keys)
 	switch {
@@ -428,6 +438,9 @@ func (k KeyMap) draftKeys() draftKeys {
 }
 
 func (k draftKeys) ShortHelp() []key.Binding { return []key.Binding{k.Restore, k.Discard, k.Later} }
+
+// FullHelp is every key of the draft offer, for the help screen.
+func (k draftKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
 
 func (d *draftScreen) footer(m Model) []key.Binding { return m.e.keys.draftKeys().ShortHelp() }
 
@@ -474,6 +487,9 @@ func (m Model) quitKeys() quitKeys {
 }
 
 func (k quitKeys) ShortHelp() []key.Binding { return []key.Binding{k.SaveFirst, k.Yes, k.No} }
+
+// FullHelp is every key of the quit question, for the help screen.
+func (k quitKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
 
 func (s *quitScreen) footer(m Model) []key.Binding { return m.quitKeys().ShortHelp() }
 

@@ -50,6 +50,11 @@ func (k helpKeys) ShortHelp() []key.Binding {
 	return []key.Binding{k.Down, k.Up, k.PageDown, k.Bottom, k.Top, k.Back}
 }
 
+// FullHelp is every key of the help screen, for the help screen.
+func (k helpKeys) FullHelp() [][]key.Binding {
+	return [][]key.Binding{append(k.scrollKeys.list(), k.Back)}
+}
+
 func (s *helpScreen) footer(m Model) []key.Binding { return m.e.keys.helpKeys().ShortHelp() }
 
 func (s *helpScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
@@ -92,7 +97,7 @@ func (m Model) helpLines(w int) []string {
 		}
 	}
 	out = append(out, "", st.strong.Paint("Keys"))
-	groups := m.e.keys.helpGroups()
+	groups := m.helpGroups()
 	hm := m.help
 	hm.Width = 0
 	var cols [][]string

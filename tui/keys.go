@@ -1,6 +1,8 @@
 package tui
 
 import (
+	"slices"
+
 	"github.com/charmbracelet/bubbles/key"
 )
 
@@ -361,28 +363,22 @@ func (h chartHelp) FullHelp() [][]key.Binding {
 	return [][]key.Binding{k.chartBindings(), k.globalBindings(), k.sessionBindings()}
 }
 
-// allHelp is the full key list of the help screen, one column per panel.
-type allHelp struct{ k KeyMap }
-
-func (h allHelp) ShortHelp() []key.Binding { return h.k.globalBindings() }
-
-func (h allHelp) FullHelp() [][]key.Binding {
-	var out [][]key.Binding
-	for _, g := range h.k.helpGroups() {
-		out = append(out, g.b)
-	}
-	return out
-}
-
 // helpGroup is one titled column of the help screen.
 type helpGroup struct {
 	title string
 	b     []key.Binding
 }
 
+// screenHelp is a screen's key map as the help screen lists it: the
+// FullHelp of each screen's own key map (one definition of its keys:
+// the map the screen's update and footer use), every key it acts on.
+type screenHelp interface{ FullHelp() [][]key.Binding }
+
 // helpGroups lists every binding of the workbench by where it applies:
-// the help screen shows them all.
-func (k KeyMap) helpGroups() []helpGroup {
+// the panels' bindings from KeyMap, then each screen's from its own key
+// map. The help screen shows them all.
+func (m Model) helpGroups() []helpGroup {
+	k := m.e.keys
 	g := []helpGroup{
 		{"Everywhere", k.globalBindings()},
 		{"Sessions", k.sessionBindings()},
@@ -391,14 +387,39 @@ func (k KeyMap) helpGroups() []helpGroup {
 	if !k.review {
 		g = append(g, helpGroup{"Typing a value", []key.Binding{k.Apply, k.Cancel, k.ApplyNext, k.ApplyPrev, k.CursorLeftRight, k.ClearToStart}})
 	}
-	return append(g,
+	g = append(g,
 		helpGroup{"Results", []key.Binding{k.ScrollUp, k.ScrollDown, k.PageUp, k.PageDown, k.Top, k.Bottom}},
 		helpGroup{"Charts", k.chartBindings()},
-		helpGroup{"Measurements", []key.Binding{k.Import, k.Fit, k.AddData, k.AddFit, k.EditPath, k.Refit, k.PrevData, k.NextData, k.KeepFit, k.LinLog, k.Arrhenius, k.Batch, k.Card}},
-		helpGroup{"Session list", []key.Binding{k.ListUp, k.ListDown, k.Open, k.Revisions, k.ClearFilter, k.Close}},
-		helpGroup{"Revisions", []key.Binding{k.Mark, k.DiffPair, k.DiffCurrent, k.RestoreRev, k.OpenRev, k.Back}},
-		helpGroup{"Dialogs", []key.Binding{k.Submit, k.NextField, k.PrevField, k.Dismiss, k.Yes, k.No, k.SaveFirst}},
-		helpGroup{"Newer revision", []key.Binding{k.SaveNext, k.SaveCopy, k.ShowNewer}},
-		helpGroup{"Recovery draft", []key.Binding{k.DraftRestore, k.DraftDiscard, k.DraftLater}},
+		helpGroup{"Measurements", []key.Binding{k.Import, k.Fit, k.Arrhenius, k.Batch, k.Card}},
 	)
+	var screens []struct {
+		title string
+		keys  screenHelp
+	}
+	add := func(title string, keys screenHelp) {
+		screens = append(screens, struct {
+			title string
+			keys  screenHelp
+		}{title, keys})
+	}
+	if k.Import.Enabled() {
+		add("Import", (&importScreen{}).importKeys(k))
+	}
+	add("Fit", (&fitScreen{}).fitKeys(k))
+	add("Activation energy", k.arrheniusKeys())
+	add("Batch fit", k.batchKeys())
+	add("Model card", k.cardKeys())
+	add("Session list", k.browseKeys())
+	add("Revisions", k.historyKeys())
+	add("Comparison", k.diffKeys())
+	add("Dialogs", k.dialogKeys())
+	add("Questions", (&confirmScreen{what: "yes, the question's action"}).confirmKeys(k))
+	add("Quit question", m.quitKeys())
+	add("Newer revision", k.staleKeys())
+	add("Recovery draft", k.draftKeys())
+	add("Help", k.helpKeys())
+	for _, s := range screens {
+		g = append(g, helpGroup{s.title, slices.Concat(s.keys.FullHelp()...)})
+	}
+	return g
 }

@@ -71,6 +71,11 @@ func (k importKeys) ShortHelp() []key.Binding {
 	return []key.Binding{k.Read, k.Complete, k.Dismiss}
 }
 
+// FullHelp is every key of the import screen, for the help screen.
+func (k importKeys) FullHelp() [][]key.Binding {
+	return [][]key.Binding{{k.Read, k.Complete, k.Add, k.AddFit, k.EditPath, k.Temperature, k.Dismiss}}
+}
+
 func (s *importScreen) footer(m Model) []key.Binding { return s.importKeys(m.e.keys).ShortHelp() }
 
 func (s *importScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {

@@ -94,6 +94,10 @@ func (k arrheniusKeys) ShortHelp() []key.Binding {
 	return []key.Binding{k.Apply, k.Choose, k.Toggle, k.Close}
 }
 
+// FullHelp is every key of the activation-energy screen, for the help
+// screen (Choose stands for Up and Down).
+func (k arrheniusKeys) FullHelp() [][]key.Binding { return [][]key.Binding{k.ShortHelp()} }
+
 func (a *arrheniusScreen) footer(m Model) []key.Binding { return m.e.keys.arrheniusKeys().ShortHelp() }
 
 func (a *arrheniusScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {

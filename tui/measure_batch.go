@@ -164,7 +164,7 @@ func (k KeyMap) batchKeys() batchKeys {
 		Keep:   b([]string{"ctrl+k"}, "ctrl+k", "keep table"),
 		Kept:   b([]string{"pgup", "pgdown"}, "pgup/pgdn", "kept tables"),
 		Close:  b([]string{"esc"}, "esc", "close"),
-		Walk:   b([]string{"up", "down", "left", "right"}, "arrows", "walk dies"),
+		Walk:   b([]string{"up", "down", "left", "right", "h", "j", "k", "l"}, "arrows", "walk dies"),
 		Param:  b([]string{"[", "]"}, "[ ]", "parameter"),
 		Left:   b([]string{"left", "h"}, "left", "die on the left"), Right: b([]string{"right", "l"}, "right", "die on the right"),
 		Up: b([]string{"up", "k"}, "up", "die above"), Down: b([]string{"down", "j"}, "down", "die below"),
@@ -172,6 +172,19 @@ func (k KeyMap) batchKeys() batchKeys {
 		Next: b([]string{"]"}, "]", "next parameter"), Prev: b([]string{"["}, "[", "previous parameter"),
 		Wafer:  b([]string{"w"}, "w", "next wafer"),
 		AddDie: b([]string{"f"}, "f", "add to session and fit")}
+}
+
+// FullHelp is every key of the batch screen, for the help screen: Walk
+// stands for the arrows (and h, j, k, l), Param for [ and ].
+func (k batchKeys) FullHelp() [][]key.Binding {
+	help := func(kb key.Binding, desc string) key.Binding {
+		kb.SetHelp(kb.Help().Key, desc)
+		return kb
+	}
+	return [][]key.Binding{{k.Run, help(k.Focus, "keys to the map or the folder"), help(k.Walk, "walk dies (a die's fit follows)"),
+		k.Open, help(k.Param, "parameter mapped"), k.Wafer, help(k.AddDie, "add the open die to the session and fit"),
+		k.Export, help(k.Keep, "keep the table with the session"), help(k.Kept, "show the kept tables"),
+		help(k.Close, "close, back to the map, cancel a run")}}
 }
 
 // footerLines: the batch screen's keys take two lines at 80 columns, a

@@ -55,6 +55,11 @@ func (k KeyMap) cardKeys() cardKeys { return cardKeys{scrollKeys: k.scrollKeys()
 
 func (k cardKeys) ShortHelp() []key.Binding { return []key.Binding{k.Down, k.Up, k.Close} }
 
+// FullHelp is every key of the model card, for the help screen.
+func (k cardKeys) FullHelp() [][]key.Binding {
+	return [][]key.Binding{append(k.scrollKeys.list(), k.Close)}
+}
+
 func (c *cardScreen) footer(m Model) []key.Binding { return m.e.keys.cardKeys().ShortHelp() }
 
 func (c *cardScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {

@@ -223,6 +223,15 @@ func (k fitKeys) ShortHelp() []key.Binding {
 	return []key.Binding{k.Refit, k.OtherBound, k.Keep, k.LinLog, k.NextData, k.Close}
 }
 
+// FullHelp is every key of the fit screen, for the help screen: LinLog
+// named with the kinds it acts in.
+func (k fitKeys) FullHelp() [][]key.Binding {
+	lin := k.LinLog
+	lin.SetEnabled(true)
+	lin.SetHelp(lin.Help().Key, lin.Help().Desc+" (I-V)")
+	return [][]key.Binding{{k.Refit, k.OtherBound, k.Keep, lin, k.PrevData, k.NextData, k.Close}}
+}
+
 func (s *fitScreen) footer(m Model) []key.Binding { return s.fitKeys(m.e.keys).ShortHelp() }
 
 // listen draws the chart again for a new terminal size.

@@ -115,6 +115,11 @@ func (m *Model) broadcast(msg tea.Msg) tea.Cmd {
 // help, a comparison, the model card.
 type scrollKeys struct{ Down, Up, PageDown, PageUp, Top, Bottom key.Binding }
 
+// list is the scroll keys in the order the help names them.
+func (k scrollKeys) list() []key.Binding {
+	return []key.Binding{k.Down, k.Up, k.PageDown, k.PageUp, k.Top, k.Bottom}
+}
+
 func (k KeyMap) scrollKeys() scrollKeys {
 	return scrollKeys{Down: k.ScrollDown, Up: k.ScrollUp, PageDown: k.PageDown, PageUp: k.PageUp, Top: k.Top, Bottom: k.Bottom}
 }
