@@ -100,7 +100,7 @@ func dieTableWidth(w int, cols dieCols, mapNeed int) int {
 
 // dieTable is the file table beside the map, in w columns and at most
 // room lines: file, die position, the value of the column mapped (or
-// the failure, its error wrapped below) and the parameters the row is an
+// the failure, its error below: see errorLine) and the parameters the row is an
 // outlier in (painted as a caution, as in the table without dies). The
 // cursor's row is highlighted and kept in view. Where w is short of the
 // longest name, names are shortened from the middle: the die position
@@ -135,8 +135,11 @@ func (b *batchScreen) dieTable(m Model, rows []dieRow, cols dieCols, w, room int
 			paint = st.caution
 		}
 		lines := []string{mark + paint.Paint(c(line(cutMiddle(d.name, cols.name, g.ellipsis), d.pos, d.val, d.out)))}
-		if d.err != "" {
+		switch {
+		case d.err != "" && d.k == b.wm.cursor:
 			lines = append(lines, wrapped(d.err, w, st.err, dieErrIndent)...)
+		case d.err != "":
+			lines = append(lines, dieErrIndent+st.err.Paint(errorLine(d.err, w-width(dieErrIndent), g.ellipsis)))
 		}
 		blocks = append(blocks, lines)
 	}
@@ -148,6 +151,37 @@ func (b *batchScreen) dieTable(m Model, rows []dieRow, cols dieCols, w, room int
 		out = append(out, st.muted.Paint(c(fmt.Sprintf("  ... %d more", len(blocks)-end))))
 	}
 	return out
+}
+
+// errorLine is a failed row's error in the die table when the row is not
+// under the cursor, in w cells. The rule: such a row's error takes one
+// line, the whole error where it fits, else its first words that fit
+// (never a word cut) and the ellipsis saying more follows; the row under
+// the cursor shows the whole error wrapped below it, as do the die's
+// line beside the map and the die's screen (enter), so walking onto a
+// die reads its error whole. A table of several failed files thus keeps
+// its rows in view at 80x24.
+func errorLine(err string, w int, ellipsis string) string {
+	if width(err) <= w {
+		return err
+	}
+	more := " " + ellipsis
+	words := strings.Fields(err)
+	line := ""
+	for _, word := range words {
+		next := word
+		if line != "" {
+			next = line + " " + word
+		}
+		if width(next)+width(more) > w {
+			break
+		}
+		line = next
+	}
+	if line == "" { // a first word longer than the line: cut it
+		return cut(err, w, ellipsis)
+	}
+	return line + more
 }
 
 // rowWindow chooses the rows of several lines each (blocks) shown in

@@ -112,7 +112,7 @@ func TestBatchDieTableKeepsNamesAndErrors(t *testing.T) {
 	for _, size := range goldenSizes {
 		m := batchRun(t, plainRenderer(), size[0], size[1])
 		v := batchOf(m).view
-		if l := leftOfMap(plain(m)); strings.Contains(l, "…") {
+		if l := namesOf(leftOfMap(plain(m))); strings.Contains(l, "…") {
 			t.Errorf("%dx%d: a name is cut:\n%s", size[0], size[1], l)
 		}
 		for _, r := range v.Rows {
@@ -144,6 +144,18 @@ func leftOfMap(screen string) string {
 		left = append(left, a)
 	}
 	return strings.Join(left, "\n")
+}
+
+// namesOf leaves out the die table's error lines (indented by
+// dieErrIndent): the rest are the summary, the header and the rows.
+func namesOf(left string) string {
+	var keep []string
+	for _, l := range strings.Split(left, "\n") {
+		if rest, ok := strings.CutPrefix(l, dieErrIndent); !ok || strings.HasPrefix(rest, " ") {
+			keep = append(keep, l)
+		}
+	}
+	return strings.Join(keep, "\n")
 }
 
 func indexOf(rows []fit.BatchRow, r fit.BatchRow) int {
@@ -442,5 +454,67 @@ func TestBatchDieTableShortensLongNames(t *testing.T) {
 	}
 	if rows, cols := batchOf(m).dieRows(m); len(rows) != 3 || cols.name <= dieNameMin {
 		t.Fatalf("rows %d, name column %d", len(rows), cols.name)
+	}
+}
+
+// At 80x24 a failed die's error off the cursor takes one line of the die
+// table: the first words of the error, none cut, and the ellipsis; the
+// rows after it stay in view. Walking onto the die shows the error whole
+// (TestBatchDieTableKeepsNamesAndErrors).
+func TestDieTableErrorOneLineOffCursor(t *testing.T) {
+	m := batchRun(t, plainRenderer(), 80, 24)
+	v := batchOf(m).view
+	var msg string
+	for _, r := range v.Rows {
+		if r.Err != nil {
+			msg = rowError(r.Err)
+		}
+	}
+	if msg == "" {
+		t.Fatal("the wafer folder must hold a failed file")
+	}
+	left := strings.Split(leftOfMap(plain(m)), "\n")
+	var errLines []string
+	for i, l := range left {
+		if strings.Contains(l, "✗ failed") && i+2 < len(left) {
+			errLines = append(errLines, strings.TrimSpace(left[i+1]))
+			if strings.HasPrefix(left[i+2], dieErrIndent) {
+				t.Errorf("the error takes more than one line off the cursor:\n%s", strings.Join(left, "\n"))
+			}
+		}
+	}
+	if len(errLines) != 1 {
+		t.Fatalf("want one failed row in view, got %d:\n%s", len(errLines), plain(m))
+	}
+	shown, ok := strings.CutSuffix(errLines[0], " …")
+	if !ok || !strings.HasPrefix(msg, shown+" ") {
+		t.Errorf("error line %q: want the error's first whole words and an ellipsis (error %q)", errLines[0], msg)
+	}
+	// The rows below the failed one: 13 files, all but the last ones in
+	// view (before, the error's 5 lines left "... 7 more").
+	if s := plain(m); strings.Contains(s, "... 7 more") || !strings.Contains(s, "die_x02_y02.dat") {
+		t.Errorf("the rows after the failed one are not in view:\n%s", s)
+	}
+}
+
+// errorLine keeps whole words within w cells and says when some are left
+// out; a first word longer than the line is cut.
+func TestErrorLine(t *testing.T) {
+	msg := "line 1: current column: missing column: no column is named like a current"
+	for _, w := range []int{12, 20, 36, 50} {
+		got := errorLine(msg, w, "…")
+		if width(got) > w {
+			t.Errorf("w=%d: %q is %d cells wide", w, got, width(got))
+		}
+		head, ok := strings.CutSuffix(got, " …")
+		if !ok || !strings.HasPrefix(msg, head+" ") {
+			t.Errorf("w=%d: %q is not whole words and an ellipsis", w, got)
+		}
+	}
+	if got := errorLine(msg, 200, "…"); got != msg {
+		t.Errorf("a fitting error is shown whole: %q", got)
+	}
+	if got := errorLine("unreadable-file-name-without-spaces", 10, "…"); width(got) > 10 || !strings.HasSuffix(got, "…") {
+		t.Errorf("a long first word: %q", got)
 	}
 }

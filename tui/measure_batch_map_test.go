@@ -16,7 +16,8 @@ const waferDir = "cli/testdata/fit/wafermap"
 
 // The batch screen with the wafer map beside the table, at 80x24, 120x40
 // and 200x60: after the run, after walking two dies right and one down, and
-// with a die's fit open.
+// with a die's fit open; with the cursor on the failed die (its error
+// whole; off the cursor it takes one line).
 func TestGoldenBatchMap(t *testing.T) {
 	cases := []struct {
 		name string
@@ -25,6 +26,7 @@ func TestGoldenBatchMap(t *testing.T) {
 		{"map", nil},
 		{"walked", []string{"right", "down", "]"}},
 		{"die", []string{"right", "down", "enter"}},
+		{"failed", []string{"down", "down", "down"}},
 	}
 	for _, size := range goldenSizes {
 		for _, c := range cases {
