@@ -369,25 +369,47 @@ func TestHelpLines(t *testing.T) {
 	}
 }
 
-// A note longer than the line wraps over the batch screen's footer
-// rather than being cut (the keys come after it; the next key clears
-// the note), and a kept table's names are its own, not "../" paths.
-func TestBatchFooterWrapsTheNote(t *testing.T) {
-	m := batchRun(t, plainRenderer(), 80, 24)
-	m = press(m, "ctrl+k", "pgup")
-	note := m.note
-	if width(note) <= 78 {
-		t.Fatalf("the note %q fits one line: the check would prove nothing", note)
-	}
-	foot := m.footer()
-	if len(foot) != 3 {
-		t.Errorf("footer of %d lines, want 3: %q", len(foot), foot)
-	}
-	if got := flat(ansi.Strip(strings.Join(foot, "\n"))); !strings.HasPrefix(got, flat(note)) {
-		t.Errorf("the note is not whole in the footer:\n%s\nwant %q", got, note)
-	}
-	if l := leftOfMap(plain(m)); strings.Contains(l, "../") || !strings.Contains(l, "die_x01_y01.csv") {
-		t.Errorf("the kept table's names:\n%s", l)
+// A note longer than the line (kept table 1 of 1 ...) shares the batch
+// screen's footer with the keys without cutting any: at 80x24 it takes
+// two lines of its own above the two lines of keys (the screen gives
+// them up until the next key clears the note); at 120 and 200 columns
+// the note is whole too and every key is named. A kept table's names
+// are its own, not "../" paths.
+func TestBatchFooterNoteKeepsEveryKey(t *testing.T) {
+	for _, size := range goldenSizes {
+		m := batchRun(t, plainRenderer(), size[0], size[1])
+		m = press(m, "ctrl+k", "pgup")
+		note := m.note
+		if size[0] == 80 && width(note) <= 78 {
+			t.Fatalf("the note %q fits one line: the check would prove nothing", note)
+		}
+		foot := ansi.Strip(strings.Join(m.footer(), "\n"))
+		if size[0] == 80 && len(m.footer()) != 4 {
+			t.Errorf("80x24: footer of %d lines, want the note's 2 and the keys' 2: %q", len(m.footer()), foot)
+		}
+		if got := flat(foot); !strings.HasPrefix(got, flat(note)) {
+			t.Errorf("%dx%d: the note is not whole in the footer:\n%s\nwant %q", size[0], size[1], got, note)
+		}
+		if strings.Contains(foot, "…") {
+			t.Errorf("%dx%d: a key is cut:\n%s", size[0], size[1], foot)
+		}
+		for _, kb := range batchOf(m).footer(m) {
+			if h := kb.Help(); kb.Enabled() && !strings.Contains(flat(foot), h.Key+" "+h.Desc) {
+				t.Errorf("%dx%d: the footer lacks %q:\n%s", size[0], size[1], h.Key+" "+h.Desc, foot)
+			}
+		}
+		screen := plain(m)
+		if n := len(strings.Split(screen, "\n")); n != size[1] {
+			t.Errorf("%dx%d: the screen has %d lines", size[0], size[1], n)
+		}
+		if l := leftOfMap(screen); strings.Contains(l, "../") || !strings.Contains(l, "die_x01_y01.csv") {
+			t.Errorf("the kept table's names:\n%s", l)
+		}
+		// The next key clears the note: the keys alone again.
+		m = press(m, "right")
+		if m.note != "" || len(m.footer()) > 2 {
+			t.Errorf("%dx%d: after a key the footer is %q", size[0], size[1], m.footer())
+		}
 	}
 }
 

@@ -594,7 +594,10 @@ func (m Model) View() string {
 
 // footer is the note and the keys of the panel or the screen on top: one
 // line, more for a screen that asks for them (tallFooter) when one line
-// does not hold them.
+// does not hold them. There the note never cuts a key: it stands before
+// the keys where every key still fits in the lines they may take, else
+// it takes lines of its own above them (the screen gives them up until
+// the next key clears the note).
 func (m Model) footer() []string {
 	st := m.e.st
 	var hk help.KeyMap
@@ -607,26 +610,45 @@ func (m Model) footer() []string {
 		hk = chartHelp{k: m.e.keys, typing: m.chart.editing}
 	}
 	keys, n := hk.ShortHelp(), 1
+	w := max(m.w, 0)
 	if s := m.top(); s != nil {
 		keys = s.footer(m)
 		if t, ok := s.(tallFooter); ok {
 			n = max(min(t.footerLines(), 1+(m.h-minHeight)/6), 1)
+			if m.note != "" {
+				return m.noteAboveKeys(keys, n)
+			}
 		}
 	}
 	note := ""
-	var head []string // a tall footer's note wraps over its first lines
-	if m.note != "" && n > 1 {
-		nl := wrapText(m.note, max(m.w-2, 1))
-		if len(nl) > n-1 {
-			nl = append(nl[:n-2], cut(strings.Join(nl[n-2:], " "), max(m.w-2, 0), m.e.g.ellipsis))
-		}
-		for _, l := range nl[:len(nl)-1] {
-			head = append(head, st.warn.Paint(l))
-		}
-		m.note, n = nl[len(nl)-1], n-len(head)
-	}
 	if m.note != "" {
 		note = st.warn.Paint(cut(m.note, max(m.w-2, 0), m.e.g.ellipsis)) + "  "
 	}
-	return append(head, helpLines(m.help, keys, note, max(m.w, 0), n)...)
+	return helpLines(m.help, keys, note, w, n)
+}
+
+// footerNoteLines is the most lines a note takes above a tall footer's
+// keys; a longer note is cut at its end.
+const footerNoteLines = 3
+
+// noteAboveKeys is a tall footer of at most n lines of keys with the
+// note: before the keys when all of them still fit in n lines, else
+// wrapped on lines of its own above them.
+func (m Model) noteAboveKeys(keys []key.Binding, n int) []string {
+	st, g := m.e.st, m.e.g
+	w := max(m.w, 0)
+	unbounded := len(keys) + 2 // more lines than keys: helpLines cuts nothing
+	lead := st.warn.Paint(m.note) + "  "
+	if width(lead) <= w && len(helpLines(m.help, keys, lead, w, unbounded)) <= n {
+		return helpLines(m.help, keys, lead, w, n)
+	}
+	nl := wrapText(m.note, max(w-2, 1))
+	if len(nl) > footerNoteLines {
+		nl = append(nl[:footerNoteLines-1], cut(strings.Join(nl[footerNoteLines-1:], " "), max(w-2, 0), g.ellipsis))
+	}
+	var out []string
+	for _, l := range nl {
+		out = append(out, st.warn.Paint(l))
+	}
+	return append(out, helpLines(m.help, keys, "", w, min(n, len(helpLines(m.help, keys, "", w, unbounded))))...)
 }
