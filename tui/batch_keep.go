@@ -3,8 +3,11 @@ package tui
 import (
 	"errors"
 	"fmt"
+	"io/fs"
+	"math"
 	"os"
 	"path/filepath"
+	"strings"
 
 	tea "github.com/charmbracelet/bubbletea"
 
@@ -138,4 +141,66 @@ func (b *batchScreen) dieFile(m *Model, r fit.BatchRow) (string, error) {
 		return folder, nil // a batch of one file
 	}
 	return filepath.Join(folder, r.File), nil
+}
+
+// keptTolerance is the relative difference beyond which today's fit of a
+// kept row's file no longer matches the row: the fit is deterministic
+// (the same file and temperature give the same doubles, and the session
+// keeps them whole), so a difference beyond rounding means other data.
+const keptTolerance = 1e-6
+
+// keptChange says how the file of a kept row r compares with the row,
+// after the die's screen read it again into d (readErr: the reading's
+// error): "" when today's fit gives the kept parameters (Is, n, Rs, Rsh
+// within keptTolerance) or both fail; otherwise the plain words the
+// die's screen shows above today's chart.
+func keptChange(r fit.BatchRow, d *dieFit, readErr error) string {
+	switch {
+	case errors.Is(readErr, fs.ErrNotExist):
+		return "the file is gone since the table was kept: the row shows the kept values, and there is no chart"
+	case readErr != nil:
+		return "the file cannot be read since the table was kept: the row shows the kept values, and there is no chart"
+	case r.Status == fit.StatusOK && d.view == nil:
+		return "the file has changed since the table was kept: the row shows the kept values; today's file does not fit"
+	case r.Status != fit.StatusOK && d.view != nil:
+		return "the file has changed since the table was kept: the row shows the kept failure, the chart today's file"
+	case d.view == nil:
+		return ""
+	}
+	f := d.view.Fit.Single
+	// The batch row's columns in fit.BatchParams' order (single diode).
+	today := [4]float64{f.SaturationCurrentA, f.IdealityFactor, f.SeriesResistanceOhm, f.ShuntResistanceOhm}
+	for j, x := range today {
+		if !sameWithin(x, r.Values[j], keptTolerance) {
+			return "the file has changed since the table was kept: the row shows the kept values, the chart today's file"
+		}
+	}
+	return ""
+}
+
+// sameWithin reports whether a and b agree to the relative tolerance
+// tol: equal infinities and two NaNs (a parameter not fitted) agree.
+func sameWithin(a, b, tol float64) bool {
+	switch {
+	case math.IsNaN(a) || math.IsNaN(b):
+		return math.IsNaN(a) && math.IsNaN(b)
+	case math.IsInf(a, 0) || math.IsInf(b, 0):
+		return a == b
+	}
+	return math.Abs(a-b) <= tol*math.Max(math.Abs(a), math.Abs(b))
+}
+
+// keptValues is the kept row's parameters as the die's screen states
+// them beside today's fit: "kept: Is 1.058 pA, n 1.410, Rs 8.09 ohm";
+// "" for a failed row.
+func keptValues(r fit.BatchRow, ascii bool) string {
+	if r.Status != fit.StatusOK {
+		return ""
+	}
+	var parts []string
+	ps := fit.BatchParams()
+	for j, p := range ps[:3] {
+		parts = append(parts, p.Symbol+" "+model.Format(p.Kind, r.Values[j], 4, ascii))
+	}
+	return "kept: " + strings.Join(parts, ", ")
 }

@@ -2,6 +2,9 @@ package tui
 
 import (
 	"bytes"
+	"math"
+	"os"
+	"path/filepath"
 	"strings"
 	"testing"
 
@@ -99,5 +102,93 @@ func TestBatchKeepLimit(t *testing.T) {
 	m = press(m, "ctrl+k")
 	if !strings.Contains(m.note, "not kept") || !strings.Contains(m.note, "MaxBatches") || len(m.sess.batches) != sessions.MaxBatches {
 		t.Errorf("over the limit: note %q, %d kept", m.note, len(m.sess.batches))
+	}
+}
+
+// A kept table opened on a die reads today's file again: while it gives
+// the kept row's fit the die's screen says nothing more; once the file
+// holds other data (another die's sweep copied over it) the screen says
+// the file has changed and gives the kept values beside today's chart;
+// once the file is gone it says so. The comparison is keptChange's, at
+// keptTolerance.
+func TestKeptDieSaysWhenTheFileChanged(t *testing.T) {
+	dir := t.TempDir()
+	ents, err := os.ReadDir(waferDir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, e := range ents {
+		b, err := os.ReadFile(filepath.Join(waferDir, e.Name()))
+		if err != nil {
+			t.Fatal(err)
+		}
+		writeText(t, filepath.Join(dir, e.Name()), string(b))
+	}
+	for _, size := range goldenSizes {
+		m := newTest(t, size[0], size[1])
+		m = press(m, "B")
+		m = typeText(m, dir)
+		m = press(m, "enter", "ctrl+k", "pgup")
+		b := batchOf(m)
+		if !b.viewIsKept(&m) {
+			t.Fatalf("pgup does not show the kept table: %q", m.note)
+		}
+		row := b.view.Rows[b.wm.cursor]
+		if filepath.Base(row.File) != "die_x01_y00.csv" {
+			t.Fatalf("the cursor is on %s", row.File)
+		}
+		file := filepath.Join(dir, "die_x01_y00.csv")
+		orig, err := os.ReadFile(file)
+		if err != nil {
+			t.Fatal(err)
+		}
+		m = press(m, "enter")
+		if d := batchOf(m).wm.die; d == nil || d.view == nil || d.kept != "" {
+			t.Fatalf("%dx%d: the unchanged file: %+v", size[0], size[1], d)
+		}
+		changed := "the file has changed since the table was kept: the row shows the kept values, the chart today's file"
+		if strings.Contains(flat(plain(m)), "changed") {
+			t.Errorf("%dx%d: the unchanged file is said to have changed:\n%s", size[0], size[1], plain(m))
+		}
+		other, err := os.ReadFile(filepath.Join(dir, "die_x02_y01.csv"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		writeText(t, file, string(other))
+		m = press(m, "esc", "enter")
+		d := batchOf(m).wm.die
+		if d == nil || d.view == nil || d.kept != changed {
+			t.Fatalf("%dx%d: a changed file: %+v", size[0], size[1], d)
+		}
+		screen := flat(plain(m))
+		kept := "kept: Is " + model.Format(model.Current, row.Values[0], 4, false)
+		if !strings.Contains(screen, changed) || !strings.Contains(screen, kept) {
+			t.Errorf("%dx%d: the die's screen does not say the file changed (want %q and %q):\n%s", size[0], size[1], changed, kept, plain(m))
+		}
+		if err := os.Remove(file); err != nil {
+			t.Fatal(err)
+		}
+		m = press(m, "esc", "enter")
+		if !strings.Contains(flat(plain(m)), "the file is gone since the table was kept") {
+			t.Errorf("%dx%d: a removed file:\n%s", size[0], size[1], plain(m))
+		}
+		writeText(t, file, string(orig))
+	}
+}
+
+// sameWithin: the relative tolerance, infinities and NaN (a parameter not
+// fitted, as Is2 of the single diode).
+func TestSameWithin(t *testing.T) {
+	inf, nan := math.Inf(1), math.NaN()
+	for _, c := range []struct {
+		a, b float64
+		want bool
+	}{
+		{1e-12, 1e-12 * (1 + 1e-7), true}, {1e-12, 1e-12 * (1 + 1e-5), false}, {8, 8.0001, false},
+		{inf, inf, true}, {inf, 1e12, false}, {nan, nan, true}, {nan, 1, false}, {0, 0, true},
+	} {
+		if got := sameWithin(c.a, c.b, 1e-6); got != c.want {
+			t.Errorf("sameWithin(%g, %g) = %v", c.a, c.b, got)
+		}
 	}
 }

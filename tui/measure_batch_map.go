@@ -1,6 +1,7 @@
 package tui
 
 import (
+	"errors"
 	"fmt"
 	"path/filepath"
 
@@ -34,6 +35,9 @@ type dieFit struct {
 	ds   *measure.DataSet
 	view *fit.IVView
 	err  string
+	// kept says how the file compares with its row of a kept table
+	// (keptChange; empty: it matches, or the row is a run's).
+	kept string
 }
 
 // newWaferMapState starts the map of a batch on its first die, with the
@@ -131,23 +135,41 @@ func (b *batchScreen) openDie(m Model) {
 	r := b.view.Rows[s.cursor]
 	d := &dieFit{row: s.cursor}
 	s.die = d
+	kept := b.viewIsKept(&m)
+	readErr := b.readDie(m, r, d, kept)
+	if kept && !errors.Is(readErr, errKeptDieInReview) {
+		d.kept = keptChange(r, d, readErr)
+	}
+}
+
+// readDie reads the file of row r again and fits it into d; the error of
+// the reading (nil once the file is read, whether it fits or not). A
+// kept row whose temperature was the junction's is fitted at the kept
+// temperature, so that a junction edited since does not pass for a
+// changed file.
+func (b *batchScreen) readDie(m Model, r fit.BatchRow, d *dieFit, kept bool) error {
 	file, err := b.dieFile(&m, r)
 	if err != nil {
 		d.err = err.Error()
-		return
+		return err
 	}
 	ds, err := fit.Import(m.sess.files, file, measure.KindIV, m.sess.now)
 	if err != nil {
 		d.err = err.Error()
-		return
+		return err
 	}
 	d.ds = ds
-	v, err := fit.NewIVView(ds, fit.IVOptions{Temperature: m.junctionRule()})
+	rule := m.junctionRule()
+	if kept && r.Temperature.Source == fit.SourceJunction && r.Temperature.K > 0 {
+		rule.FallbackK = r.Temperature.K
+	}
+	v, err := fit.NewIVView(ds, fit.IVOptions{Temperature: rule})
 	if err != nil {
 		d.err = err.Error()
-		return
+		return nil
 	}
 	d.view = v
+	return nil
 }
 
 // addDie adds the open die's data set to the session as the import
@@ -248,6 +270,12 @@ func (b *batchScreen) dieFitView(m Model, w, h int) []string {
 	d := b.wm.die
 	r := b.view.Rows[d.row]
 	out := []string{rule("Die "+dieLabel(r.Die)+" "+g.dot+" "+sessions.Printable(filepath.Base(r.File), 0, ""), w, glyphs{hbar: g.hbar}, st.heading)}
+	if d.kept != "" {
+		out = append(out, wrapped(g.bad+" "+d.kept, w, st.caution, "")...)
+		if kv := keptValues(r, m.e.ascii); kv != "" {
+			out = append(out, wrapped(kv, w, st.muted, "  ")...)
+		}
+	}
 	if d.err != "" {
 		out = append(out, wrapped(g.bad+" "+sessions.Printable(d.err, 0, ""), w, st.err, "")...)
 		out = append(out, st.muted.Paint(cut("arrows: next die  esc: back to the map", w, g.ellipsis)))
