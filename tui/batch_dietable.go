@@ -3,6 +3,8 @@ package tui
 import (
 	"errors"
 	"fmt"
+	"path/filepath"
+	"strconv"
 	"strings"
 
 	"github.com/charmbracelet/x/ansi"
@@ -62,7 +64,7 @@ func (b *batchScreen) dieRows(m Model) ([]dieRow, dieCols) {
 			d.pos = fmt.Sprintf("x%d y%d", r.Die.X, r.Die.Y)
 		}
 		if r.Err != nil {
-			d.val, d.err = g.bad+" failed", rowError(r.Err)
+			d.val, d.err = g.bad+" failed", b.rowErr(r)
 		} else {
 			d.val = model.Format(p.Kind, r.Values[b.wm.param], 4, m.e.ascii)
 			if r.Lit { // fitted with the lit model (fit.BatchRow.Lit)
@@ -207,12 +209,20 @@ func rowWindow(blocks [][]string, cur, room int) (first, end int) {
 	return first, fits(first)
 }
 
+// rowErr is row r's error as the batch screen shows it (rowError), the
+// row's file named by its path in the run's or kept table's folder or
+// as the row names it.
+func (b *batchScreen) rowErr(r fit.BatchRow) string {
+	return rowError(r.Err, filepath.Join(b.dir, r.File), r.File)
+}
+
 // rowError is a failed row's error as its table shows it, on one line
 // with control characters escaped: an error at a place of the file
-// (measure.ParseError, measure.ColumnError) starts with its line and
+// (measure.ParseError, measure.ColumnError; or the text of one kept
+// with a table, which starts with one of paths) starts with its line and
 // column in words in place of the file's name, which the row shows
 // already.
-func rowError(err error) string {
+func rowError(err error, paths ...string) string {
 	msg := err.Error()
 	file, line, col := "", 0, 0
 	var pe *measure.ParseError
@@ -240,7 +250,36 @@ func rowError(err error) string {
 			}
 		}
 	}
+	for _, p := range paths {
+		if file != "" || p == "" {
+			break
+		}
+		if rest, ok := strings.CutPrefix(msg, p+":"); ok {
+			msg, file = placeWords(rest), p
+		}
+	}
 	return sessions.Printable(oneLine(msg), 0, "")
+}
+
+// placeWords turns the "LINE:COLUMN: message" after a file's name in an
+// error's text into "line LINE, column COLUMN: message" (either number
+// may be missing).
+func placeWords(rest string) string {
+	var say []string
+	for _, what := range []string{"line", "column"} {
+		num, after, found := strings.Cut(rest, ":")
+		n, err := strconv.Atoi(num)
+		if !found || err != nil || n <= 0 {
+			break
+		}
+		say = append(say, fmt.Sprintf("%s %d", what, n))
+		rest = after
+	}
+	rest = strings.TrimSpace(rest)
+	if len(say) > 0 {
+		rest = strings.Join(say, ", ") + ": " + rest
+	}
+	return rest
 }
 
 // cutMiddle shortens s to w cells by taking out its middle (an ellipsis

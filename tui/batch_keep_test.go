@@ -2,6 +2,7 @@ package tui
 
 import (
 	"bytes"
+	"errors"
 	"math"
 	"os"
 	"path/filepath"
@@ -133,6 +134,11 @@ func TestKeptDieSaysWhenTheFileChanged(t *testing.T) {
 		if !b.viewIsKept(&m) {
 			t.Fatalf("pgup does not show the kept table: %q", m.note)
 		}
+		// The kept failed row's error (kept as text) names its place in
+		// words, not by the file's path, as the run's row does.
+		if l := leftOfMap(plain(m)); !strings.Contains(l, "line 1: current column") || strings.Contains(l, "die_x01_y03.tsv:") {
+			t.Errorf("%dx%d: the kept failed row's error:\n%s", size[0], size[1], l)
+		}
 		row := b.view.Rows[b.wm.cursor]
 		if filepath.Base(row.File) != "die_x01_y00.csv" {
 			t.Fatalf("the cursor is on %s", row.File)
@@ -189,6 +195,21 @@ func TestSameWithin(t *testing.T) {
 	} {
 		if got := sameWithin(c.a, c.b, 1e-6); got != c.want {
 			t.Errorf("sameWithin(%g, %g) = %v", c.a, c.b, got)
+		}
+	}
+}
+
+// rowError of an error kept as text names the place in words in place of
+// the file's path (the row names the file).
+func TestRowErrorOfKeptText(t *testing.T) {
+	for _, c := range []struct{ msg, want string }{
+		{"/lab/w7/d1.tsv:1: current column: missing", "line 1: current column: missing"},
+		{"/lab/w7/d1.tsv:3:7: not a number", "line 3, column 7: not a number"},
+		{"/lab/w7/d1.tsv: empty file", "empty file"},
+		{"other.tsv:1: kept as it was", "other.tsv:1: kept as it was"},
+	} {
+		if got := rowError(errors.New(c.msg), "/lab/w7/d1.tsv", "d1.tsv"); got != c.want {
+			t.Errorf("rowError(%q) = %q, want %q", c.msg, got, c.want)
 		}
 	}
 }

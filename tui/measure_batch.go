@@ -357,7 +357,7 @@ func (b *batchScreen) table(m Model, w, room int) []string {
 		name := cutMiddle(b.rowName(r), nameW, g.ellipsis)
 		if r.Err != nil {
 			head := "  " + st.err.Paint(c(fmt.Sprintf("%-*s %s failed", nameW, name, g.bad)))
-			blocks = append(blocks, append([]string{head}, wrapped(rowError(r.Err), w, st.err, dieErrIndent)...))
+			blocks = append(blocks, append([]string{head}, wrapped(b.rowErr(r), w, st.err, dieErrIndent)...))
 			continue
 		}
 		is, n, rs := r.Diode() // a lit row's from the lit fit, marked lit

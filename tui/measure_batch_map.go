@@ -250,7 +250,7 @@ func (b *batchScreen) waferMapLines(m Model, w, h int) []string {
 		case r.Status == fit.StatusOK:
 			out = append(out, cut("  "+p.Symbol+" "+model.Format(p.Kind, r.Values[s.param], 4, m.e.ascii), w, g.ellipsis))
 		case r.Err != nil:
-			out = append(out, wrapped(g.bad+" "+rowError(r.Err), w, st.err, "  ")...)
+			out = append(out, wrapped(g.bad+" "+b.rowErr(r), w, st.err, "  ")...)
 		}
 		if r.Die.Note != "" {
 			out = append(out, wrapped(r.Die.Note, w, st.muted, "  ")...)
