@@ -152,14 +152,18 @@ const keptTolerance = 1e-6
 // keptChange says how the file of a kept row r compares with the row,
 // after the die's screen read it again into d (readErr: the reading's
 // error): "" when today's fit gives the kept parameters (Is, n, Rs, Rsh
-// within keptTolerance) or both fail; otherwise the plain words the
-// die's screen shows above today's chart.
+// within keptTolerance), both fail, or the row is lit (not compared);
+// otherwise the plain words the die's screen shows above today's chart.
 func keptChange(r fit.BatchRow, d *dieFit, readErr error) string {
 	switch {
 	case errors.Is(readErr, fs.ErrNotExist):
 		return "the file is gone since the table was kept: the row shows the kept values, and there is no chart"
 	case readErr != nil:
 		return "the file cannot be read since the table was kept: the row shows the kept values, and there is no chart"
+	case r.Lit:
+		// A lit row holds the lit fit's columns; the die's screen fits
+		// the dark model, which has none of them to compare.
+		return ""
 	case r.Status == fit.StatusOK && d.view == nil:
 		return "the file has changed since the table was kept: the row shows the kept values; today's file does not fit"
 	case r.Status != fit.StatusOK && d.view != nil:
@@ -168,8 +172,9 @@ func keptChange(r fit.BatchRow, d *dieFit, readErr error) string {
 		return ""
 	}
 	f := d.view.Fit.Single
-	// The batch row's columns in fit.BatchParams' order (single diode).
-	today := [4]float64{f.SaturationCurrentA, f.IdealityFactor, f.SeriesResistanceOhm, f.ShuntResistanceOhm}
+	// The dark row's columns (fit.BatchParams) of the single diode.
+	today := map[int]float64{fit.ColIs: f.SaturationCurrentA, fit.ColN: f.IdealityFactor,
+		fit.ColRs: f.SeriesResistanceOhm, fit.ColRsh: f.ShuntResistanceOhm}
 	for j, x := range today {
 		if !sameWithin(x, r.Values[j], keptTolerance) {
 			return "the file has changed since the table was kept: the row shows the kept values, the chart today's file"
@@ -197,10 +202,14 @@ func keptValues(r fit.BatchRow, ascii bool) string {
 	if r.Status != fit.StatusOK {
 		return ""
 	}
-	var parts []string
 	ps := fit.BatchParams()
-	for j, p := range ps[:3] {
-		parts = append(parts, p.Symbol+" "+model.Format(p.Kind, r.Values[j], 4, ascii))
+	is, n, rs := r.Diode() // a lit row's from the lit fit
+	var parts []string
+	for _, c := range []struct {
+		j int
+		x float64
+	}{{fit.ColIs, is}, {fit.ColN, n}, {fit.ColRs, rs}} {
+		parts = append(parts, ps[c.j].Symbol+" "+model.Format(ps[c.j].Kind, c.x, 4, ascii))
 	}
 	return "kept: " + strings.Join(parts, ", ")
 }

@@ -3,6 +3,7 @@ package tui
 import (
 	"bytes"
 	"errors"
+	"io/fs"
 	"math"
 	"os"
 	"path/filepath"
@@ -211,5 +212,22 @@ func TestRowErrorOfKeptText(t *testing.T) {
 		if got := rowError(errors.New(c.msg), "/lab/w7/d1.tsv", "d1.tsv"); got != c.want {
 			t.Errorf("rowError(%q) = %q, want %q", c.msg, got, c.want)
 		}
+	}
+}
+
+// keptChange compares no lit row (its columns are the lit fit's; the
+// die's screen fits the dark model) but still says when its file is gone.
+func TestKeptChangeLitRow(t *testing.T) {
+	r := fit.BatchRow{File: "cell.csv", Status: fit.StatusOK, Lit: true, Values: fit.BatchColumns()}
+	r.Values[fit.ColLitIs], r.Values[fit.ColLitN], r.Values[fit.ColLitRs] = 1e-9, 1.5, 2
+	d := &dieFit{view: &fit.IVView{}}
+	if got := keptChange(r, d, nil); got != "" {
+		t.Errorf("a lit row is compared with the dark fit: %q", got)
+	}
+	if got := keptChange(r, &dieFit{}, fs.ErrNotExist); !strings.HasPrefix(got, "the file is gone") {
+		t.Errorf("a lit row's file gone: %q", got)
+	}
+	if got := keptValues(r, true); got != "kept: Is 1.000 nA, n 1.500, Rs 2.000 ohm" {
+		t.Errorf("a lit row's kept values: %q", got)
 	}
 }
