@@ -99,6 +99,8 @@ func QuantityClasses(key string) []physics.Class {
 		return c(breakdown)
 	case "punch_through_voltage_V":
 		return c(punch)
+	case "photocurrent_at_bias_A", "photocurrent_gain":
+		return c(light, multiplier)
 	case "photocurrent_A", "photocurrent_p_region_A", "photocurrent_depletion_A", "photocurrent_n_region_A",
 		"short_circuit_current_A", "open_circuit_voltage_V", "max_power_W", "max_power_voltage_V",
 		"max_power_current_A", "fill_factor", "efficiency":

@@ -220,7 +220,7 @@ func breakdownFlags(st *physics.Static, vmin float64) []physics.Flag {
 	}
 	return []physics.Flag{{Code: FlagNumericBreakdown, Affects: []physics.Class{physics.ClassCurrent},
 		Message: fmt.Sprintf("%s is beyond the analytic avalanche breakdown voltage (%s): the solver has no impact ionisation and shows no breakdown",
-			Format(Voltage, vmin, 4, true), Format(Voltage, -vb, 4, true))}, cautionFlag()}
+			Format(Voltage, vmin, 4, true), Format(Voltage, -vb, 4, true))}, cautionFlag(true)}
 }
 
 // Nodes returns the number of mesh nodes of the solution.
