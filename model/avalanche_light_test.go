@@ -6,8 +6,11 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"testing"
+
+	"junco/physics"
 )
 
 var updateLitGolden = flag.Bool("update-lit-golden", false, "rewrite testdata/lit_forward_golden.json from the current model")
@@ -89,5 +92,82 @@ func TestLitForwardResultsUnchanged(t *testing.T) {
 	}
 	if n < 50*len(litGoldenBiases) {
 		t.Errorf("only %d values compared", n)
+	}
+}
+
+// quantity returns the quantity with key k of r.
+func quantity(t *testing.T, r *Result, k string) Quantity {
+	t.Helper()
+	for _, q := range r.Quantities {
+		if q.Key == k {
+			return q
+		}
+	}
+	t.Fatalf("no %s", k)
+	return Quantity{}
+}
+
+// Near breakdown the lit results at the bias carry the avalanche gain
+// (photocurrent_at_bias_A = photocurrent_gain x photocurrent_A, the gain
+// above 1 and rising towards VB, as M does: Sze & Ng 2007, section 2.4.1),
+// the near-breakdown flag and the safety caution; photocurrent_A (at short
+// circuit) keeps its value and, at zero bias, neither flag.
+func TestLitResultsNearBreakdown(t *testing.T) {
+	s := litDemo()
+	s.Bias = 0
+	r0 := evaluateOK(t, s)
+	vb := r0.Static.Breakdown.Voltage
+	il := quantity(t, r0, "photocurrent_A")
+	if slices.Contains(il.Flags, FlagCaution) || slices.Contains(il.Flags, physics.FlagNearBreakdown) {
+		t.Errorf("0 V: photocurrent flagged %v", il.Flags)
+	}
+	prev := 1.0
+	for _, x := range []float64{0.5, 0.9, 0.99} {
+		s.Bias = -x * vb
+		r := evaluateOK(t, s)
+		at, g := quantity(t, r, "photocurrent_at_bias_A"), quantity(t, r, "photocurrent_gain")
+		if math.Abs(at.Value-g.Value*il.Value) > 1e-12*at.Value || !(g.Value > prev) {
+			t.Errorf("%g VB: photocurrent %g A, gain %g (previous %g), IL %g A", x, at.Value, g.Value, prev, il.Value)
+		}
+		if v, _ := r.Get("photocurrent_A"); v != il.Value {
+			t.Errorf("%g VB: photocurrent_A %g, at 0 V %g", x, v, il.Value)
+		}
+		for _, q := range []Quantity{at, g} {
+			if !slices.Contains(q.Flags, physics.FlagNearBreakdown) || !slices.Contains(q.Flags, FlagCaution) {
+				t.Errorf("%g VB: %s flags %v", x, q.Key, q.Flags)
+			}
+		}
+		prev = g.Value
+	}
+}
+
+// The solver has no impact ionisation: near the analytic breakdown its
+// current is not multiplied, the numeric result says so
+// (FlagNumericNoMultiplication, with the caution) and Compare leaves the
+// current out (Relative NaN, not flagged) instead of reporting the gain as
+// a model difference. A p+n Si junction at 1e17 cm^-3 (VB about 14 V)
+// keeps the solve short.
+func TestNumericNotMultiplied(t *testing.T) {
+	s := DefaultSpec()
+	s.AcceptorDensity, s.DonorDensity = 1e18*perCm3, 1e17*perCm3
+	a := evaluateOK(t, s)
+	vb := a.Static.Breakdown.Voltage
+	s.Bias = -0.95 * vb
+	a = evaluateOK(t, s)
+	if !nearBreakdown(a.Point) {
+		t.Fatalf("analytic point at 0.95 VB not near breakdown: M %g, %g", a.Point.Mn, a.Point.Mp)
+	}
+	r := solveOK(t, s, NumericSpec{})
+	if !hasFlag(r.Flags, FlagNumericNoMultiplication) || !hasFlag(r.Flags, FlagCaution) {
+		t.Errorf("flags %v", r.Flags)
+	}
+	for _, d := range Compare(a, r) {
+		if d.Key == "current_A" && (!math.IsNaN(d.Relative) || d.Flagged) {
+			t.Errorf("current compared near breakdown: %+v", d)
+		}
+	}
+	s.Bias = -0.1 * vb
+	if r := solveOK(t, s, NumericSpec{}); hasFlag(r.Flags, FlagNumericNoMultiplication) {
+		t.Errorf("flagged at 0.1 VB: %v", r.Flags)
 	}
 }

@@ -49,7 +49,9 @@ func cautionFlag(near bool) physics.Flag {
 }
 
 // nearBreakdown reports whether p carries the analytic model's
-// near-breakdown, capped-multiplication or beyond-breakdown flag.
+// near-breakdown (a multiplication factor above 1.1), capped-multiplication
+// or beyond-breakdown flag: the caution then concerns the lit results, and
+// Compare leaves the current out (the solver has no impact ionisation).
 func nearBreakdown(p physics.Point) bool {
 	for _, f := range p.Flags {
 		switch f.Code {
