@@ -41,7 +41,9 @@ type Device struct {
 	ShuntResistance float64
 	// Light illuminates the junction (the zero value: dark). Its
 	// photocurrent (JunctionPhotocurrent) is subtracted from the dark
-	// current at every bias, whatever the Effects.
+	// current at every bias, whatever the Effects; in reverse bias with
+	// Effects.Breakdown it is multiplied by the avalanche first
+	// (MultiplicationAt, Point.Photo).
 	Light Light
 	// PThickness and NThickness are the layer thicknesses from the
 	// metallurgical junction to the contacts used for a long region's
