@@ -111,7 +111,8 @@ func quantity(t *testing.T, r *Result, k string) Quantity {
 // (photocurrent_at_bias_A = photocurrent_gain x photocurrent_A, the gain
 // above 1 and rising towards VB, as M does: Sze & Ng 2007, section 2.4.1),
 // the near-breakdown flag and the safety caution; photocurrent_A (at short
-// circuit) keeps its value and, at zero bias, neither flag.
+// circuit) keeps its value, and it and the lit figures (read at zero and
+// forward bias) carry neither flag.
 func TestLitResultsNearBreakdown(t *testing.T) {
 	s := litDemo()
 	s.Bias = 0
@@ -135,6 +136,13 @@ func TestLitResultsNearBreakdown(t *testing.T) {
 		for _, q := range []Quantity{at, g} {
 			if !slices.Contains(q.Flags, physics.FlagNearBreakdown) || !slices.Contains(q.Flags, FlagCaution) {
 				t.Errorf("%g VB: %s flags %v", x, q.Key, q.Flags)
+			}
+		}
+		// Collected at short circuit or read at zero and forward bias:
+		// not multiplied, so neither flag.
+		for _, k := range []string{"photocurrent_A", "photocurrent_n_region_A", "short_circuit_current_A", "fill_factor"} {
+			if q := quantity(t, r, k); slices.Contains(q.Flags, physics.FlagNearBreakdown) || slices.Contains(q.Flags, FlagCaution) {
+				t.Errorf("%g VB: %s flags %v", x, k, q.Flags)
 			}
 		}
 		prev = g.Value

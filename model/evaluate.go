@@ -38,12 +38,12 @@ const (
 )
 
 // cautionFlag is the flag carrying Caution; near breakdown (near) it
-// also concerns the multiplication and the lit results, which are then
+// also concerns the multiplication and the photocurrent at the bias,
 // figures of a junction held at a high reverse voltage.
 func cautionFlag(near bool) physics.Flag {
 	cs := []physics.Class{physics.ClassBreakdown, physics.ClassPunchThrough, physics.ClassPower}
 	if near {
-		cs = append(cs, physics.ClassMultiplication, physics.ClassLight)
+		cs = append(cs, physics.ClassMultiplication, physics.ClassLightAtBias)
 	}
 	return physics.Flag{Code: FlagCaution, Affects: cs, Message: Caution}
 }

@@ -241,7 +241,7 @@ func multiplicationFlags(st *physics.Static, v float64) []physics.Flag {
 	if st.IL > 0 {
 		what = fmt.Sprintf(" and its photocurrent by %.3g", p.PhotoGain)
 	}
-	return []physics.Flag{{Code: FlagNumericNoMultiplication, Affects: []physics.Class{physics.ClassCurrent, physics.ClassLight},
+	return []physics.Flag{{Code: FlagNumericNoMultiplication, Affects: []physics.Class{physics.ClassCurrent, physics.ClassLightAtBias},
 		Message: fmt.Sprintf("at %s the analytic model multiplies the reverse current by the avalanche (up to %.3g)%s; the solver has no impact ionisation, so its current is not multiplied and the two are not compared",
 			Format(Voltage, v, 4, true), math.Max(p.Mn, p.Mp), what)}, cautionFlag(true)}
 }

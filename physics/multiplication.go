@@ -207,11 +207,11 @@ func (s *Static) multiplicationFlags(p Point) []Flag {
 		if s.IL > 0 {
 			what = fmt.Sprintf("; the photocurrent at the bias is multiplied %.3g times", p.PhotoGain)
 		}
-		f = append(f, Flag{FlagNearBreakdown, []Class{ClassCurrent, ClassMultiplication, ClassLight},
+		f = append(f, Flag{FlagNearBreakdown, []Class{ClassCurrent, ClassMultiplication, ClassLightAtBias},
 			fmt.Sprintf("near breakdown: avalanche multiplication %.3g%s (ionisation integrals; high voltage: see the caution)", m, what)})
 	}
 	if p.MultiplicationCapped {
-		f = append(f, Flag{FlagMultiplicationCapped, []Class{ClassCurrent, ClassMultiplication, ClassLight},
+		f = append(f, Flag{FlagMultiplicationCapped, []Class{ClassCurrent, ClassMultiplication, ClassLightAtBias},
 			fmt.Sprintf("within a hair of breakdown: the multiplication reached the model's cap of %g (series resistance, space charge and heating limit a real junction's gain; none is modelled)", MaxMultiplication)})
 	}
 	return f

@@ -175,7 +175,7 @@ func TestMultiplicationCapped(t *testing.T) {
 		t.Fatalf("at VB(1 - 1e-7): %+v", p)
 	}
 	for _, f := range p.Flags {
-		if f.Code == FlagNearBreakdown && !f.Concerns([]Class{ClassLight}) {
+		if f.Code == FlagNearBreakdown && !f.Concerns([]Class{ClassLightAtBias}) {
 			t.Errorf("near-breakdown flag does not concern the lit results: %+v", f)
 		}
 	}

@@ -486,7 +486,7 @@ func (s *Static) SolveFrom(v, guess float64) Point {
 		if rs > 0 {
 			p.Current = (v - vj) / rs
 		}
-		p.Flags = append(p.Flags, Flag{FlagBeyondBreakdown, []Class{ClassCurrent, ClassPower, ClassLight, ClassMultiplication},
+		p.Flags = append(p.Flags, Flag{FlagBeyondBreakdown, []Class{ClassCurrent, ClassPower, ClassLightAtBias, ClassMultiplication},
 			fmt.Sprintf("reverse bias at or beyond the avalanche breakdown (%.4g V): the current is set by the external circuit", s.Breakdown.Voltage)})
 		p.Diffusion, p.DiffusionN, p.DiffusionP = math.NaN(), math.NaN(), math.NaN()
 		p.Recombination, p.Generation, p.Shunt = math.NaN(), math.NaN(), math.NaN()
@@ -554,7 +554,7 @@ func (s *Static) SolveFrom(v, guess float64) Point {
 			fmt.Sprintf("high injection: the injected minority density is %.2g times the doping at a depletion edge, %s", inj, what)})
 	}
 	if !st.beyond && s.aval != nil && s.Effects.Breakdown && v <= -s.Breakdown.Voltage {
-		p.Flags = append(p.Flags, Flag{FlagBeyondBreakdown, []Class{ClassCurrent, ClassPower, ClassLight, ClassMultiplication},
+		p.Flags = append(p.Flags, Flag{FlagBeyondBreakdown, []Class{ClassCurrent, ClassPower, ClassLightAtBias, ClassMultiplication},
 			fmt.Sprintf("reverse bias beyond the avalanche breakdown (%.4g V): the junction clamps there and the series resistance and external circuit set the current", s.Breakdown.Voltage)})
 	} else if !st.beyond {
 		p.Flags = append(p.Flags, s.multiplicationFlags(p)...)
