@@ -183,3 +183,26 @@ func TestMultiplicationCapped(t *testing.T) {
 		t.Errorf("capped at 0.5 VB: %+v", q)
 	}
 }
+
+// Solve at 0.99 VB, lit (the photocurrent multiplied, with the beam's
+// weighted mean) and dark, for the ratio of the two.
+func BenchmarkSolveNearBreakdownLit(b *testing.B)  { benchNearBreakdown(b, true) }
+func BenchmarkSolveNearBreakdownDark(b *testing.B) { benchNearBreakdown(b, false) }
+
+func benchNearBreakdown(b *testing.B, lit bool) {
+	m, _ := MaterialByName("si")
+	d := Device{Material: m, Na: 1e19 * perCm3, Nd: 2e15 * perCm3, Temperature: 300, Area: 1e-6,
+		Wp: 0.4e-6, Wn: 40e-6, Sp: 1e4, Sn: 1, Effects: RealisticEffects()}
+	if lit {
+		d.Light = Light{PhotonFlux: PhotonFluxOf(10, 650e-9), Absorption: 3e5}
+	}
+	s, err := d.Prepare()
+	if err != nil {
+		b.Fatal(err)
+	}
+	v := -0.99 * s.Breakdown.Voltage
+	b.ReportAllocs()
+	for i := 0; i < b.N; i++ {
+		s.Solve(v)
+	}
+}
