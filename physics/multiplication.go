@@ -208,7 +208,7 @@ func (s *Static) multiplicationFlags(p Point) []Flag {
 			what = fmt.Sprintf("; the photocurrent at the bias is multiplied %.3g times", p.PhotoGain)
 		}
 		f = append(f, Flag{FlagNearBreakdown, []Class{ClassCurrent, ClassMultiplication, ClassLightAtBias},
-			fmt.Sprintf("near breakdown: avalanche multiplication %.3g%s (ionisation integrals; high voltage: see the caution)", m, what)})
+			fmt.Sprintf("near breakdown: the largest avalanche multiplication factor (Mn, Mp or the depletion region's) is %.3g%s (ionisation integrals; high voltage: see the caution)", m, what)})
 	}
 	if p.MultiplicationCapped {
 		f = append(f, Flag{FlagMultiplicationCapped, []Class{ClassCurrent, ClassMultiplication, ClassLightAtBias},
