@@ -32,6 +32,7 @@ func QuantityClasses(key string) []physics.Class {
 		multiplier = physics.ClassMultiplication
 		punch      = physics.ClassPunchThrough
 		light      = physics.ClassLight
+		lightAtV   = physics.ClassLightAtBias
 	)
 	c := func(cs ...physics.Class) []physics.Class { return cs }
 	switch key {
@@ -99,6 +100,8 @@ func QuantityClasses(key string) []physics.Class {
 		return c(breakdown)
 	case "punch_through_voltage_V":
 		return c(punch)
+	case "photocurrent_at_bias_A", "photocurrent_gain":
+		return c(light, lightAtV, multiplier)
 	case "photocurrent_A", "photocurrent_p_region_A", "photocurrent_depletion_A", "photocurrent_n_region_A",
 		"short_circuit_current_A", "open_circuit_voltage_V", "max_power_W", "max_power_voltage_V",
 		"max_power_current_A", "fill_factor", "efficiency":

@@ -140,7 +140,7 @@ func sweepFlags(s Spec, pmax, vmax float64) []physics.Flag {
 	if lim := s.PowerLimitOrDefault(); pmax > lim {
 		f = append(f, powerFlag(pmax, lim, "the sweep, at "+Format(Voltage, vmax, 4, true)+","))
 	}
-	return append(f, cautionFlag())
+	return append(f, cautionFlag(false))
 }
 
 // IVSweep evaluates the junction at every bias of r with every enabled

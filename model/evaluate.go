@@ -37,9 +37,29 @@ const (
 	FlagPowerLimit = "power-limit" // the dissipated power exceeds the user's limit
 )
 
-// cautionFlag is the flag carrying Caution.
-func cautionFlag() physics.Flag {
-	return physics.Flag{Code: FlagCaution, Affects: []physics.Class{physics.ClassBreakdown, physics.ClassPunchThrough, physics.ClassPower}, Message: Caution}
+// cautionFlag is the flag carrying Caution; near breakdown (near) it
+// also concerns the multiplication and the photocurrent at the bias,
+// figures of a junction held at a high reverse voltage.
+func cautionFlag(near bool) physics.Flag {
+	cs := []physics.Class{physics.ClassBreakdown, physics.ClassPunchThrough, physics.ClassPower}
+	if near {
+		cs = append(cs, physics.ClassMultiplication, physics.ClassLightAtBias)
+	}
+	return physics.Flag{Code: FlagCaution, Affects: cs, Message: Caution}
+}
+
+// nearBreakdown reports whether p carries the analytic model's
+// near-breakdown (a multiplication factor above 1.1), capped-multiplication
+// or beyond-breakdown flag: the caution then concerns the lit results, and
+// Compare leaves the current out (the solver has no impact ionisation).
+func nearBreakdown(p physics.Point) bool {
+	for _, f := range p.Flags {
+		switch f.Code {
+		case physics.FlagNearBreakdown, physics.FlagMultiplicationCapped, physics.FlagBeyondBreakdown:
+			return true
+		}
+	}
+	return false
 }
 
 // powerFlag returns the power-limit flag for power p (W) against limit (W)
@@ -194,8 +214,8 @@ func resultAt(s Spec, st *physics.Static, v float64) *Result {
 		{"tunnelling_limit_V", GroupBreakdown, "Zener limit 4Eg/q (breakdown)", "4Eg/q", Voltage, bd.TunnellingLimit, nil},
 		{"breakdown_sze_gibbons_V", GroupBreakdown, "Sze-Gibbons breakdown estimate", "VB,SG", Voltage, bd.SzeGibbons, nil},
 	}
-	r.Quantities = append(r.Quantities, litQuantities(s, st)...)
-	r.Flags = append(r.Flags, cautionFlag())
+	r.Quantities = append(r.Quantities, litQuantities(s, st, p)...)
+	r.Flags = append(r.Flags, cautionFlag(nearBreakdown(p)))
 	r.Cautions = []string{Caution}
 	if lim := s.PowerLimitOrDefault(); p.Power > lim {
 		r.Flags = append(r.Flags, powerFlag(p.Power, lim, fmt.Sprintf("the bias %s", Format(Voltage, v, 4, true))))

@@ -56,9 +56,13 @@ func (l Light) Physics() physics.Light {
 }
 
 // litQuantities are the results of a lit junction (none in the dark): the
-// photocurrent by region, and the figures of merit of the lit I-V curve
-// (physics.Static.LitFigures); the efficiency needs an irradiance.
-func litQuantities(s Spec, st *physics.Static) []Quantity {
+// photocurrent collected at short circuit by region, the photocurrent at
+// the bias p with its avalanche gain (physics.Point.Photo, PhotoGain:
+// multiplied in reverse bias near breakdown, IL at zero and forward bias),
+// and the figures of merit of the lit I-V curve
+// (physics.Static.LitFigures, all read at zero and forward bias, so never
+// multiplied); the efficiency needs an irradiance.
+func litQuantities(s Spec, st *physics.Static, p physics.Point) []Quantity {
 	if !(st.IL > 0) {
 		return nil
 	}
@@ -76,6 +80,8 @@ func litQuantities(s Spec, st *physics.Static) []Quantity {
 		{"photocurrent_p_region_A", GroupLight, "  collected from the p region", "IL,p", Current, st.Photo.P, nil},
 		{"photocurrent_depletion_A", GroupLight, "  from the depletion region", "IL,dep", Current, st.Photo.Depletion, nil},
 		{"photocurrent_n_region_A", GroupLight, "  collected from the n region", "IL,n", Current, st.Photo.N, nil},
+		{"photocurrent_at_bias_A", GroupLight, "photocurrent at bias (avalanche-multiplied)", "IL(V)", Current, p.Photo, nil},
+		{"photocurrent_gain", GroupLight, "  avalanche gain IL(V)/IL", "M_ph", Dimensionless, p.PhotoGain, nil},
 	}, litFigureQuantities(f, eff)...)
 }
 

@@ -108,6 +108,11 @@ const (
 	// FlagNumericBreakdown: the bias lies beyond the analytic breakdown
 	// voltage, which the solver (no impact ionisation) does not model.
 	FlagNumericBreakdown = "numeric-breakdown"
+	// FlagNumericNoMultiplication: the analytic model multiplies the
+	// current (and the photocurrent) at the bias by the avalanche; the
+	// solver has no impact ionisation, so its current is not multiplied
+	// and the current is not compared.
+	FlagNumericNoMultiplication = "numeric-no-multiplication"
 	// FlagNumericBGN: band-gap narrowing is on but junco has no parameter
 	// set for the material.
 	FlagNumericBGN = "numeric-bgn"

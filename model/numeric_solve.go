@@ -207,6 +207,7 @@ func Solve(ctx context.Context, spec Spec, num NumericSpec, progress NumericProg
 		r.Donors[i], r.Acceptors[i] = nd.Device.Profile.At(x)
 	}
 	r.Flags = append(r.Flags, breakdownFlags(nd.Static, spec.Bias)...)
+	r.Flags = append(r.Flags, multiplicationFlags(nd.Static, spec.Bias)...)
 	r.Flags = append(r.Flags, sol.Flags...)
 	return r, nil
 }
@@ -220,7 +221,29 @@ func breakdownFlags(st *physics.Static, vmin float64) []physics.Flag {
 	}
 	return []physics.Flag{{Code: FlagNumericBreakdown, Affects: []physics.Class{physics.ClassCurrent},
 		Message: fmt.Sprintf("%s is beyond the analytic avalanche breakdown voltage (%s): the solver has no impact ionisation and shows no breakdown",
-			Format(Voltage, vmin, 4, true), Format(Voltage, -vb, 4, true))}, cautionFlag()}
+			Format(Voltage, vmin, 4, true), Format(Voltage, -vb, 4, true))}, cautionFlag(true)}
+}
+
+// multiplicationFlags flags a bias at which the analytic model multiplies
+// the current by the avalanche (its near-breakdown flag, a factor above
+// 1.1) while the solver, without impact ionisation, does not: the numeric
+// current and photocurrent there are unmultiplied and Compare leaves the
+// current out (multipliedAt).
+func multiplicationFlags(st *physics.Static, v float64) []physics.Flag {
+	if vb := st.Breakdown.Voltage; vb > 0 && -v >= vb {
+		return nil // beyond breakdown: breakdownFlags says it
+	}
+	p := st.Solve(v)
+	if !nearBreakdown(p) {
+		return nil
+	}
+	what := ""
+	if st.IL > 0 {
+		what = fmt.Sprintf(" and its photocurrent by %.3g", p.PhotoGain)
+	}
+	return []physics.Flag{{Code: FlagNumericNoMultiplication, Affects: []physics.Class{physics.ClassCurrent, physics.ClassLightAtBias},
+		Message: fmt.Sprintf("at %s the analytic model multiplies the reverse current by the avalanche (up to %.3g)%s; the solver has no impact ionisation, so its current is not multiplied and the two are not compared",
+			Format(Voltage, v, 4, true), math.Max(p.Mn, p.Mp), what)}, cautionFlag(true)}
 }
 
 // Nodes returns the number of mesh nodes of the solution.
@@ -374,6 +397,9 @@ func CompareTolerance(key string) float64 {
 // be trusted (Difference.Flagged, at CompareTolerance). A lit Spec adds
 // the short-circuit current, open-circuit voltage, maximum power and fill
 // factor of the lit I-V (physics.LitFiguresOf on each model's curve).
+// Near breakdown, where the analytic current is multiplied by the
+// avalanche and the solver's is not, the current's Relative is NaN and not
+// flagged (the numeric result carries FlagNumericNoMultiplication).
 func Compare(analytic *Result, numeric *NumericResult) []Difference {
 	if analytic == nil || numeric == nil {
 		return nil
@@ -390,6 +416,11 @@ func Compare(analytic *Result, numeric *NumericResult) []Difference {
 		rel := math.NaN()
 		if physics.Finite(a) && physics.Finite(q.Value) && a != 0 {
 			rel = (q.Value - a) / math.Abs(a)
+		}
+		if k == "current_A" && nearBreakdown(analytic.Point) {
+			// The solver has no impact ionisation: the difference is the
+			// multiplication (FlagNumericNoMultiplication), not compared.
+			rel = math.NaN()
 		}
 		tol := CompareTolerance(k)
 		out = append(out, Difference{Key: k, Label: strings.TrimSpace(q.Label), Symbol: q.Symbol, Kind: q.Kind, Analytic: a, Numeric: q.Value, Relative: rel,

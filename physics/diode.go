@@ -41,7 +41,9 @@ type Device struct {
 	ShuntResistance float64
 	// Light illuminates the junction (the zero value: dark). Its
 	// photocurrent (JunctionPhotocurrent) is subtracted from the dark
-	// current at every bias, whatever the Effects.
+	// current at every bias, whatever the Effects; in reverse bias with
+	// Effects.Breakdown it is multiplied by the avalanche first
+	// (MultiplicationAt, Point.Photo).
 	Light Light
 	// PThickness and NThickness are the layer thicknesses from the
 	// metallurgical junction to the contacts used for a long region's
@@ -133,6 +135,10 @@ type Static struct {
 	// pairs were generated, and IL its total, A (zero in the dark).
 	Photo Photocurrent
 	IL    float64
+	// photoDepUniform and photoDepBeam split Photo.Depletion into the
+	// uniform generation's part and the monochromatic light's, A (they
+	// are multiplied differently: MultiplicationAt).
+	photoDepUniform, photoDepBeam float64
 	// IsDiffN, IsDiffP and IsDiff are the low-injection diffusion
 	// saturation currents with band-gap narrowing and ionisation, A.
 	IsDiffN, IsDiffP, IsDiff float64
@@ -243,6 +249,16 @@ func (d Device) Prepare() (*Static, error) {
 			return nil, err
 		}
 		s.Photo, s.IL = pc, pc.Total()
+		beam := d.Light
+		beam.Generation = 0
+		if beam.Lit() {
+			pb, err := JunctionPhotocurrent(s.PEff.QuasiNeutral, s.NEff.QuasiNeutral, s.DepletionAt(0).W, d.Area, beam)
+			if err != nil {
+				return nil, err
+			}
+			s.photoDepBeam = pb.Depletion
+		}
+		s.photoDepUniform = pc.Depletion - s.photoDepBeam
 	}
 	return s, nil
 }
@@ -311,12 +327,23 @@ type Point struct {
 	Shunt                             float64
 	// Photo is the photocurrent taken from the total, A (0 in the dark),
 	// so that Diffusion + Recombination + Generation + Shunt - Photo =
-	// Current. It is not multiplied by the avalanche.
+	// Current. In reverse bias it is multiplied by the avalanche like the
+	// dark current of the same carriers (the p region's part by Mn, the n
+	// region's by Mp, the depletion region's by Mgen and Mbeam:
+	// MultiplicationAt); at zero and forward junction voltage it is IL.
 	Photo float64
+	// PhotoGain is Photo / IL, the avalanche gain of the photocurrent (1
+	// in the dark, at zero and forward bias and with Breakdown off; NaN
+	// beyond breakdown).
+	PhotoGain float64
 	// Mn, Mp and Mgen are the avalanche multiplication factors of electrons
 	// injected from the p side, holes from the n side and pairs generated
-	// in the depletion region (1 in forward bias or with Breakdown off).
-	Mn, Mp, Mgen float64
+	// uniformly in the depletion region, and Mbeam that of the pairs of
+	// the monochromatic light absorbed there (1 in forward bias or with
+	// Breakdown off; MultiplicationAt).
+	Mn, Mp, Mgen, Mbeam float64
+	// MultiplicationCapped is true when a factor reached MaxMultiplication.
+	MultiplicationCapped bool
 	// SeriesDrop is I Rs, V.
 	SeriesDrop float64
 	// InjectionP and InjectionN are the excess minority densities at the

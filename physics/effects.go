@@ -25,8 +25,9 @@ type Effects struct {
 	// the dopant levels in the neutral regions (IonisedDensity).
 	Ionisation bool
 	// Breakdown searches the avalanche breakdown voltage from the
-	// ionisation integral and multiplies the reverse current by the
-	// avalanche multiplication factors (Breakdown).
+	// ionisation integral and multiplies the reverse current, dark and
+	// photocurrent alike, by the avalanche multiplication factors
+	// (Breakdown, MultiplicationAt).
 	Breakdown bool
 	// BGNModel selects the band-gap narrowing parameter set.
 	BGNModel BGNModel

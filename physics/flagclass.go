@@ -31,6 +31,7 @@ const (
 	ClassMultiplication   Class = "multiplication"     // avalanche multiplication
 	ClassPunchThrough     Class = "punch-through"      // punch-through voltage
 	ClassLight            Class = "light"              // photocurrent and the lit figures of merit
+	ClassLightAtBias      Class = "light-at-bias"      // the photocurrent at the bias and its avalanche gain
 )
 
 // Concerns reports whether the flag concerns a result of the given

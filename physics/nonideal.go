@@ -318,7 +318,8 @@ type jstate struct {
 	dn, dp, gdn, gdp float64 // electron and hole diffusion currents (A), unmultiplied, and dI/dVj (S)
 	pen, pep         float64 // excess minority densities at the p and n edges, m^-3
 	scr, gscr        float64 // depletion-region SRH current (A) and its derivative
-	mn, mp, mg       float64 // avalanche multiplication factors
+	mn, mp, mg, mb   float64 // avalanche multiplication factors (Multiplication)
+	capped           bool    // a factor reached MaxMultiplication
 	sh               float64 // shunt current, A
 	ph               float64 // photocurrent, A (taken from the total)
 	i, g             float64 // total current and derivative
@@ -330,7 +331,7 @@ func (s *Static) junction(vj float64) jstate {
 	e := s.Effects
 	a := s.Device.Area
 	vt := s.Vt
-	st := jstate{mn: 1, mp: 1, mg: 1}
+	st := jstate{mn: 1, mp: 1, mg: 1, mb: 1}
 	hli := e.HighInjection
 	side := func(r DiffusionSide) (float64, float64, float64) {
 		j, pe := r.CurrentDensity(vj, vt, hli)
@@ -357,64 +358,43 @@ func (s *Static) junction(vj float64) jstate {
 		j, dj := SCRCurrentDensity(dep, vj, s.SCR)
 		st.scr, st.gscr = j*a, dj*a
 	}
-	var dm [3]float64
+	var dm [4]float64
 	if e.Breakdown && s.aval != nil && vj < 0 {
 		vr := -vj
-		if vr >= s.Breakdown.Voltage {
-			st.beyond = true
-			st.i, st.g = math.Inf(-1), math.Inf(1)
-			return st
-		}
-		mult := func(vr, guess float64) (float64, float64, float64, float64, bool) {
-			e0 := s.aval.peakField(vr, guess)
-			// Cheap bound: An <= alpha_n(E0) W exp(alpha_p(E0) W), the
-			// coefficients being largest at the peak field; below 1e-10 the
-			// multiplication is 1 to that accuracy.
-			an, ap := s.aval.c.alpha(e0)
-			_, w, _, _ := s.aval.reverse(e0)
-			if an*w*math.Exp(ap*w) < 1e-10 && ap*w < 1e-10 {
-				return 1, 1, 1, e0, true
-			}
-			// A coarse grid far from breakdown (An < 0.05, where its error
-			// of about 1% in An changes M by < 5e-4), the full grid nearer.
-			in := s.aval.integralsN(e0, ionisationGrid/2)
-			if in.An > 0.05 {
-				in = s.aval.integrals(e0)
-			}
-			den := 1 - in.An
-			if !(den > 0) {
-				return 0, 0, 0, e0, false
-			}
-			return 1 / den, in.ExpPhiW / den, in.MeanExp / den, e0, true
-		}
 		guess := dep.PeakField
 		if !(guess > 0) {
 			guess = s.Junction.Solve(s.Vbi, vj).PeakField
 		}
-		var e0 float64
-		var ok bool
-		st.mn, st.mp, st.mg, e0, ok = mult(vr, guess)
+		m, ok := s.multiplicationFrom(vr, guess)
 		if !ok {
 			st.beyond = true
 			st.i, st.g = math.Inf(-1), math.Inf(1)
 			return st
 		}
-		if st.mn > 1.2 || st.mp > 1.2 {
+		st.mn, st.mp, st.mg, st.mb, st.capped = m.Mn, m.Mp, m.Mgen, m.Mbeam, m.Capped
+		if m.Mn > 1.2 || m.Mp > 1.2 {
 			// Derivative of the multiplication, by a forward difference
-			// towards zero bias (it matters only near breakdown).
+			// towards zero bias (it matters only near breakdown; a capped
+			// factor has none).
 			h := 1e-3 * (s.Breakdown.Voltage - vr)
-			if m1, m2, m3, _, ok2 := mult(vr-h, e0); ok2 {
-				dm = [3]float64{(st.mn - m1) / h, (st.mp - m2) / h, (st.mg - m3) / h}
+			if m1, ok2 := s.multiplicationFrom(vr-h, m.PeakField); ok2 {
+				dm = [4]float64{(m.Mn - m1.Mn) / h, (m.Mp - m1.Mp) / h, (m.Mgen - m1.Mgen) / h, (m.Mbeam - m1.Mbeam) / h}
 			}
 		}
 	}
 	if !math.IsInf(s.Rsh, 1) {
 		st.sh = vj / s.Rsh
 	}
+	// The photocurrent is multiplied like the dark current of the same
+	// carriers (multipliedPhoto); with all factors 1 it is IL exactly.
 	st.ph = s.IL
+	if st.mn != 1 || st.mp != 1 || st.mg != 1 || st.mb != 1 {
+		st.ph = s.multipliedPhoto(Multiplication{Mn: st.mn, Mp: st.mp, Mgen: st.mg, Mbeam: st.mb})
+	}
 	st.i = st.mn*st.dn + st.mp*st.dp + st.mg*st.scr + st.sh - st.ph
-	// dM/dVj = -dM/dVr.
-	st.g = st.mn*st.gdn + st.mp*st.gdp + st.mg*st.gscr - (dm[0]*st.dn + dm[1]*st.dp + dm[2]*st.scr)
+	// dM/dVj = -dM/dVr; the photocurrent enters with a minus sign.
+	st.g = st.mn*st.gdn + st.mp*st.gdp + st.mg*st.gscr - (dm[0]*st.dn + dm[1]*st.dp + dm[2]*st.scr) +
+		(dm[0]*s.Photo.P + dm[1]*s.Photo.N + dm[2]*s.photoDepUniform + dm[3]*s.photoDepBeam)
 	if !math.IsInf(s.Rsh, 1) {
 		st.g += 1 / s.Rsh
 	}
@@ -435,7 +415,7 @@ func (s *Static) Solve(v float64) Point { return s.SolveFrom(v, math.NaN()) }
 // example extrapolated from the previous points of a sweep); NaN selects
 // the default start (the Lambert-W solution of the diffusion current).
 func (s *Static) SolveFrom(v, guess float64) Point {
-	p := Point{V: v, Mn: 1, Mp: 1, Mgen: 1, Ideality: math.NaN(), Conductance: math.NaN(),
+	p := Point{V: v, Mn: 1, Mp: 1, Mgen: 1, Mbeam: 1, PhotoGain: 1, Ideality: math.NaN(), Conductance: math.NaN(),
 		DiffusionCap: math.NaN(), TotalCap: math.NaN()}
 	e := math.Expm1(v / s.Vt)
 	p.IdealN, p.IdealP = s.IsN*e, s.IsP*e
@@ -506,13 +486,15 @@ func (s *Static) SolveFrom(v, guess float64) Point {
 		if rs > 0 {
 			p.Current = (v - vj) / rs
 		}
-		p.Flags = append(p.Flags, Flag{FlagBeyondBreakdown, []Class{ClassCurrent, ClassPower},
+		p.Flags = append(p.Flags, Flag{FlagBeyondBreakdown, []Class{ClassCurrent, ClassPower, ClassLightAtBias, ClassMultiplication},
 			fmt.Sprintf("reverse bias at or beyond the avalanche breakdown (%.4g V): the current is set by the external circuit", s.Breakdown.Voltage)})
 		p.Diffusion, p.DiffusionN, p.DiffusionP = math.NaN(), math.NaN(), math.NaN()
 		p.Recombination, p.Generation, p.Shunt = math.NaN(), math.NaN(), math.NaN()
-		p.Mn, p.Mp, p.Mgen = math.Inf(1), math.Inf(1), math.Inf(1)
+		p.Mn, p.Mp, p.Mgen, p.Mbeam = math.Inf(1), math.Inf(1), math.Inf(1), math.Inf(1)
+		p.PhotoGain = math.NaN()
 	} else {
-		p.Mn, p.Mp, p.Mgen = st.mn, st.mp, st.mg
+		p.Mn, p.Mp, p.Mgen, p.Mbeam = st.mn, st.mp, st.mg, st.mb
+		p.MultiplicationCapped = st.capped
 		p.DiffusionN, p.DiffusionP = st.mn*st.dn, st.mp*st.dp
 		p.Diffusion = p.DiffusionN + p.DiffusionP
 		scr := st.mg * st.scr
@@ -529,7 +511,19 @@ func (s *Static) SolveFrom(v, guess float64) Point {
 		// sensitive to Vj); rescale the components to it.
 		if rs > 0 && math.Abs(v-vj) > 1e-6*math.Max(1, math.Abs(v)) {
 			it := (v - vj) / rs
-			if den := st.i - st.sh + st.ph; den != 0 && !math.IsInf(den, 0) {
+			if st.ph != s.IL {
+				// A multiplied photocurrent is as sensitive to Vj as the
+				// dark current it is multiplied with: rescale both.
+				if den := st.i - st.sh; den != 0 && !math.IsInf(den, 0) {
+					k := (it - st.sh) / den
+					p.DiffusionN *= k
+					p.DiffusionP *= k
+					p.Diffusion *= k
+					p.Recombination *= k
+					p.Generation *= k
+					p.Photo *= k
+				}
+			} else if den := st.i - st.sh + st.ph; den != 0 && !math.IsInf(den, 0) {
 				k := (it - st.sh + st.ph) / den
 				p.DiffusionN *= k
 				p.DiffusionP *= k
@@ -538,6 +532,9 @@ func (s *Static) SolveFrom(v, guess float64) Point {
 				p.Generation *= k
 			}
 			p.Current = it
+		}
+		if s.IL > 0 {
+			p.PhotoGain = p.Photo / s.IL
 		}
 	}
 	p.SeriesDrop = p.Current * rs
@@ -557,11 +554,10 @@ func (s *Static) SolveFrom(v, guess float64) Point {
 			fmt.Sprintf("high injection: the injected minority density is %.2g times the doping at a depletion edge, %s", inj, what)})
 	}
 	if !st.beyond && s.aval != nil && s.Effects.Breakdown && v <= -s.Breakdown.Voltage {
-		p.Flags = append(p.Flags, Flag{FlagBeyondBreakdown, []Class{ClassCurrent, ClassPower},
+		p.Flags = append(p.Flags, Flag{FlagBeyondBreakdown, []Class{ClassCurrent, ClassPower, ClassLightAtBias, ClassMultiplication},
 			fmt.Sprintf("reverse bias beyond the avalanche breakdown (%.4g V): the junction clamps there and the series resistance and external circuit set the current", s.Breakdown.Voltage)})
-	} else if m := math.Max(p.Mn, p.Mp); m > 1.1 && !st.beyond {
-		p.Flags = append(p.Flags, Flag{FlagNearBreakdown, []Class{ClassCurrent, ClassMultiplication},
-			fmt.Sprintf("near breakdown: avalanche multiplication %.3g", m)})
+	} else if !st.beyond {
+		p.Flags = append(p.Flags, s.multiplicationFlags(p)...)
 	}
 	if rs > 0 && math.Abs(p.SeriesDrop) > 0.1*math.Abs(v) && v > 0 {
 		p.Flags = append(p.Flags, Flag{FlagSeriesDominates, []Class{ClassCurrent, ClassIdeality, ClassJunctionVoltage},

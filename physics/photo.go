@@ -194,7 +194,9 @@ func (p Photocurrent) Total() float64 { return p.P + p.Depletion + p.N }
 // the n side with l.FromN): FrontPhotocurrentDensity for the region under
 // the surface, q phi e^(-alpha Hf) (1 - e^(-alpha w)) from the depletion
 // region (Hf the front region's width) and BackPhotocurrentDensity with the
-// flux left after the front region and the depletion region.
+// flux left after the front region and the depletion region. These are the
+// collected currents at short circuit; the diode model multiplies each part
+// by the avalanche in reverse bias (Static.MultiplicationAt).
 func JunctionPhotocurrent(pr, nr QuasiNeutral, w, a float64, l Light) (Photocurrent, error) {
 	if l.Generation < 0 || l.PhotonFlux < 0 || l.Absorption < 0 || !Finite(l.Generation) || !Finite(l.PhotonFlux) || !Finite(l.Absorption) {
 		return Photocurrent{}, fmt.Errorf("light: generation %g m^-3 s^-1, photon flux %g m^-2 s^-1 and absorption %g 1/m must be finite and not negative", l.Generation, l.PhotonFlux, l.Absorption)
