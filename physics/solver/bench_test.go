@@ -138,3 +138,27 @@ func BenchmarkSweepNodes(b *testing.B) {
 		})
 	}
 }
+
+// One reverse-bias solve as `junco solve --na 1e19 --nd 1e16 --bias -5V`
+// does it (silicon p+n step, 8.2 + 204 um, automatic mesh refined for
+// 5 V): mesh and node parameters, equilibrium, the bias point and one C-V
+// point. The abrupt step's heavy side (Debye length 1.3 nm) sets the
+// node count, reported as nodes.
+func BenchmarkSolveOneSided(b *testing.B) {
+	d := stepDiode(material(b, "si"), 300, 1e19*cm3, 1e16*cm3, 8.21*um, 204*um)
+	nodes := 0
+	for range b.N {
+		s, err := New(d, Options{Mesh: MeshOptions{MaxReverseBias: 5}})
+		if err != nil {
+			b.Fatal(err)
+		}
+		if _, err := s.Solve(-5); err != nil {
+			b.Fatal(err)
+		}
+		if _, err := s.CV(context.Background(), []float64{-5}, nil); err != nil {
+			b.Fatal(err)
+		}
+		nodes = len(s.Nodes())
+	}
+	b.ReportMetric(float64(nodes), "nodes")
+}

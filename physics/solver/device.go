@@ -258,11 +258,17 @@ func (s *Solver) Flags() []physics.Flag { return append([]physics.Flag(nil), s.f
 // that spans the depletion-approximation edges (for the actual profile)
 // from zero to Options.Mesh.MaxReverseBias plus 6 Debye lengths,
 // min(W0/50, 0.25 L_D) with W0 the zero-bias width and L_D = sqrt(eps kT /
-// (q^2 |N|)) the local Debye length. h is then limited to grow by 15 % per
-// cell (and kept above L/(4 MaxNodes)), and the nodes are placed by
-// equidistributing 1/h; under monochromatic light (Device.Light) h is also
-// kept below 0.1 (1/alpha + depth) from the illuminated contact; when more than MaxNodes nodes would be needed the
-// count is capped and flagged (FlagMeshCapped).
+// (q^2 |N|)) the local Debye length; at every abrupt doping step (a knot
+// where |N| jumps by more than 20 % or changes sign) 0.2 L_D of the heavy
+// side, growing by 15 % of the distance from the step. h is then limited
+// to grow by 15 % per cell (and kept above a floor between L/(4 MaxNodes)
+// and 4096 times less, the finest that keeps the auxiliary grid within 8
+// points per node of the cap), the nodes are placed by equidistributing
+// 1/h, and each step is moved to the middle of its cell (the shift fading
+// over 8 cells on each side), so that each box holds one side's doping;
+// under monochromatic light (Device.Light) h is also kept below 0.1
+// (1/alpha + depth) from the illuminated contact; when more than MaxNodes
+// nodes would be needed the count is capped and flagged (FlagMeshCapped).
 func New(dev Device, opt Options) (*Solver, error) {
 	if err := opt.validate(); err != nil {
 		return nil, err
@@ -347,8 +353,10 @@ func New(dev Device, opt Options) (*Solver, error) {
 	s.junctions = findJunctions(dev.Profile, dev.Length)
 
 	env := &meshEnv{length: dev.Length, prof: dev.Profile, eps: s.eps, vt: s.vt, ni: s.ni, temp: t,
-		junctions: s.junctions, vr: opt.Mesh.MaxReverseBias, lDiff: s.diffusionLength,
-		floor: meshFloor(dev.Length, opt.Mesh)}
+		junctions: s.junctions, vr: opt.Mesh.MaxReverseBias, lDiff: s.diffusionLength}
+	env.minFloor, env.maxFloor = meshFloors(dev.Length, opt.Mesh)
+	env.floor = env.maxFloor
+	env.steps = env.findSteps()
 	if l := dev.Light; l.PhotonFlux > 0 && l.Absorption > 0 {
 		env.absorb = l.Absorption
 		if s.anodeLeft == l.FromN { // the illuminated contact is at x = Length

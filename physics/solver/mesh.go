@@ -12,9 +12,11 @@ import (
 //
 // By default the mesh is chosen from the doping profile (see New): a target
 // local spacing h(x) is built from the local Debye length, the doping
-// gradient, the minority diffusion length and the estimated depletion
-// region of every junction, graded so that neighbouring cells differ by at
-// most about 15 %, and the nodes are placed by equidistribution of 1/h.
+// gradient, the minority diffusion length, the estimated depletion region
+// of every junction and the heavy side's Debye length at every abrupt
+// doping step, graded so that neighbouring cells differ by at most about
+// 15 %, the nodes are placed by equidistribution of 1/h, and every abrupt
+// step is centred in a cell.
 type MeshOptions struct {
 	// Positions, if set, are the node positions in m, used as given: they
 	// must start at 0, end at Device.Length and increase strictly, with at
@@ -47,6 +49,11 @@ const (
 	meshGrading     = 0.15 // neighbouring cells differ by <= ~15 %
 	meshMarginDebye = 6    // zone margin beyond the depletion edge, in L_D
 	meshAbsorption  = 0.1  // spacing <= 0.1 (1/alpha + depth) under monochromatic light
+
+	meshDefaultMaxNodes = 20000 // node cap when MeshOptions.MaxNodes is 0
+	meshAuxBudget       = 8     // auxiliary grid points per node of the cap
+	meshFloorRange      = 4096  // finest / coarsest smallest spacing tried
+	meshFloorStep       = 8     // coarsening factor of the floor per try
 )
 
 // Bisect returns the mesh with a node added at the middle of every
@@ -71,8 +78,11 @@ type meshEnv struct {
 	ni, temp  float64
 	lDiff     func(x, net float64) float64 // minority diffusion length, m
 	junctions []float64
+	steps     []step // abrupt doping steps, sorted (findSteps)
 	vr        float64
 	floor     float64 // smallest spacing the auxiliary grid resolves, m
+	minFloor  float64 // finest floor tried, m
+	maxFloor  float64 // coarsest floor, m (the grid always fits)
 	absorb    float64 // absorption coefficient of the monochromatic light, 1/m (0 = none)
 	surface   float64 // position of the illuminated contact, m
 }
@@ -320,6 +330,7 @@ func (e *meshEnv) target(x float64, zs []zone) float64 {
 			h = math.Min(h, math.Min(z.h, meshDebye*ld))
 		}
 	}
+	h = math.Min(h, e.stepSpacing(x))
 	if e.absorb > 0 {
 		// The minority carriers generated within a few absorption lengths
 		// of an ohmic contact diffuse to it or to the junction: their
@@ -350,23 +361,43 @@ func (e *meshEnv) autoMesh(opt MeshOptions, zs []zone) ([]float64, int) {
 	// Adaptive auxiliary grid resolving the target spacing.
 	type pt struct{ x, h float64 }
 	var aux []pt
+	budget := meshAuxBudget * max(opt.MaxNodes, opt.Nodes, meshDefaultMaxNodes)
+	limit := budget // the coarsest floor is not limited: the grid fits
 	var refine func(a, b, ha, hb float64, depth int)
 	refine = func(a, b, ha, hb float64, depth int) {
 		m := 0.5 * (a + b)
 		hm := e.target(m, zs)
-		if depth < 60 && b-a > 2*e.floor && b-a > 0.5*math.Min(hm, math.Min(ha, hb)) {
+		if len(aux) <= limit && depth < 60 && b-a > 2*e.floor && b-a > 0.5*math.Min(hm, math.Min(ha, hb)) {
 			refine(a, m, ha, hm, depth+1)
 			refine(m, b, hm, hb, depth+1)
 			return
 		}
 		aux = append(aux, pt{m, hm}, pt{b, hb})
 	}
-	h0 := e.target(seed[0], zs)
-	aux = append(aux, pt{seed[0], h0})
-	for i := 0; i+1 < len(seed); i++ {
-		ha := aux[len(aux)-1].h
-		hb := e.target(seed[i+1], zs)
-		refine(seed[i], seed[i+1], ha, hb, 0)
+	// The finest spacing starts far below the mean spacing at the node
+	// cap (a fraction of the heavy side's Debye length at an abrupt step
+	// needs it) and is coarsened by meshFloorStep while the auxiliary
+	// grid would exceed its budget, so that it stays O(MaxNodes) whatever
+	// the profile asks for (at the coarsest floor, the former fixed one,
+	// the grid holds at most about 8 points per node of the cap plus the
+	// seeds, and is not cut).
+	for e.floor = math.Min(e.minFloor, e.maxFloor); ; e.floor = math.Min(e.floor*meshFloorStep, e.maxFloor) {
+		if e.floor >= e.maxFloor {
+			limit = math.MaxInt
+		}
+		aux = aux[:0]
+		over := false
+		h0 := e.target(seed[0], zs)
+		aux = append(aux, pt{seed[0], h0})
+		for i := 0; i+1 < len(seed) && !over; i++ {
+			ha := aux[len(aux)-1].h
+			hb := e.target(seed[i+1], zs)
+			refine(seed[i], seed[i+1], ha, hb, 0)
+			over = len(aux) > limit
+		}
+		if !over {
+			break
+		}
 	}
 	// Grading: h Lipschitz with constant meshGrading, both directions.
 	for i := 1; i < len(aux); i++ {
@@ -400,7 +431,7 @@ func (e *meshEnv) autoMesh(opt MeshOptions, zs []zone) ([]float64, int) {
 	} else {
 		maxN := opt.MaxNodes
 		if maxN <= 0 {
-			maxN = 20000
+			maxN = meshDefaultMaxNodes
 		}
 		cells = max(min(cells, maxN-1), 2)
 	}
@@ -430,19 +461,22 @@ func (e *meshEnv) autoMesh(opt MeshOptions, zs []zone) ([]float64, int) {
 			x[k] = math.Nextafter(x[k-1], math.Inf(1))
 		}
 	}
+	centreSteps(x, e.steps)
 	return x, wanted
 }
 
-// meshFloor returns the smallest spacing the automatic mesh resolves: a
-// quarter of the mean spacing at the node cap, so that the auxiliary grid
-// stays O(MaxNodes) whatever the profile asks for.
-func meshFloor(length float64, opt MeshOptions) float64 {
+// meshFloors returns the range of the smallest spacing the automatic mesh
+// resolves (m): from a quarter of the mean spacing at the node cap
+// (coarsest) down by meshFloorRange (finest); autoMesh takes the finest
+// that keeps the auxiliary grid within its budget.
+func meshFloors(length float64, opt MeshOptions) (finest, coarsest float64) {
 	n := opt.MaxNodes
 	if n <= 0 {
-		n = 20000
+		n = meshDefaultMaxNodes
 	}
 	n = max(n, opt.Nodes)
-	return length / (4 * float64(n))
+	coarsest = length / (4 * float64(n))
+	return coarsest / meshFloorRange, coarsest
 }
 
 func dedupe(s []float64, tol float64) []float64 {
