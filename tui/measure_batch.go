@@ -254,6 +254,8 @@ func (b *batchScreen) update(m *Model, km tea.KeyMsg) tea.Cmd {
 		m.close(b)
 	case !b.running && b.view != nil && keyIs(km, k.Export):
 		b.export(m)
+	case !b.running && b.wm.onMap(b.view) && keyIs(km, m.e.keys.Help):
+		m.openHelp() // on the map; in the folder field ? is text
 	case !b.running && b.wm.onMap(b.view):
 		b.mapKey(m, km)
 	case keyIs(km, k.Focus) && !b.running && b.wm.hasDies:

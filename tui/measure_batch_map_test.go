@@ -118,3 +118,23 @@ func TestBatchMapWalk(t *testing.T) {
 		t.Error("B must show the last run again after the batch was closed")
 	}
 }
+
+// ? on the wafer map opens the help over the batch (whose keys it lists),
+// and esc comes back to the map; in the folder field ? is text.
+func TestBatchMapHelpKey(t *testing.T) {
+	m := newTest(t, 120, 40)
+	m = press(m, "B")
+	m = typeText(m, waferDir)
+	m = press(m, "enter", "?")
+	if shown(m) != "help" {
+		t.Fatalf("? on the map did not open the help: %s", shown(m))
+	}
+	m = press(m, "esc")
+	if shown(m) != "batch" {
+		t.Fatalf("esc from the help did not return to the batch: %s", shown(m))
+	}
+	m = press(m, "tab", "?")
+	if shown(m) != "batch" || !strings.HasSuffix(batchOf(m).ed.value(), "?") {
+		t.Errorf("? in the folder field: screen %s, field %q", shown(m), batchOf(m).ed.value())
+	}
+}
