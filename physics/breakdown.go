@@ -129,26 +129,34 @@ type ionisation struct {
 // x, exp(-phi(x))/(1 - An); breakdown is An = 1 (all three diverge).
 func (a *avalanche) integrals(e0 float64) ionisation { return a.integralsN(e0, ionisationGrid) }
 
+// gridPoint is node i of the ionisation grid of n intervals per side: its
+// position x (m, from the metallurgical junction, p side negative) and the
+// field there (V/m), e0 at the junction less the depleted charge between
+// (Gauss's law, e = e0 - q/eps * charge per area from 0 to |x|). The nodes
+// crowd quadratically towards the junction (x = -up (1 - i/n)^2 on the p
+// side, un ((i-n)/n)^2 on the n side), where the field and the ionisation
+// rates peak; up and un are the depleted widths of each side.
+func (a *avalanche) gridPoint(i, n int, e0, up, un float64) (x, e float64) {
+	k := Q / a.j.Eps
+	if i <= n {
+		r := float64(n-i) / float64(n)
+		u := up * r * r
+		return -u, e0 - k*a.j.sideCharge(u, a.j.Na)
+	}
+	r := float64(i-n) / float64(n)
+	u := un * r * r
+	return u, e0 - k*a.j.sideCharge(u, a.j.Nd)
+}
+
 // integralsN is integrals on a grid of n intervals per side (even, at most
 // ionisationGrid).
 func (a *avalanche) integralsN(e0 float64, n int) ionisation {
 	var xs, an, ap [2*ionisationGrid + 1]float64
 	up, _ := a.j.sideField(e0, a.j.Na, a.thickP)
 	un, _ := a.j.sideField(e0, a.j.Nd, a.thickN)
-	k := Q / a.j.Eps
 	for i := 0; i <= 2*n; i++ {
-		var u, e float64
-		if i <= n {
-			r := float64(n-i) / float64(n)
-			u = up * r * r
-			xs[i] = -u
-			e = e0 - k*a.j.sideCharge(u, a.j.Na)
-		} else {
-			r := float64(i-n) / float64(n)
-			u = un * r * r
-			xs[i] = u
-			e = e0 - k*a.j.sideCharge(u, a.j.Nd)
-		}
+		var e float64
+		xs[i], e = a.gridPoint(i, n, e0, up, un)
 		an[i], ap[i] = a.c.alpha(e)
 	}
 	// Trapezoid sums on the grid and on its every-other-node subgrid,

@@ -136,21 +136,10 @@ func (a *avalanche) beamMeanExp(e0, alpha float64, fromN bool) float64 {
 	var xs, phi [2*n + 1]float64
 	up, _ := a.j.sideField(e0, a.j.Na, a.thickP)
 	un, _ := a.j.sideField(e0, a.j.Nd, a.thickN)
-	k := Q / a.j.Eps
 	var prevD float64
 	for i := 0; i <= 2*n; i++ {
-		var u, e float64
-		if i <= n {
-			r := float64(n-i) / float64(n)
-			u = up * r * r
-			xs[i] = -u
-			e = e0 - k*a.j.sideCharge(u, a.j.Na)
-		} else {
-			r := float64(i-n) / float64(n)
-			u = un * r * r
-			xs[i] = u
-			e = e0 - k*a.j.sideCharge(u, a.j.Nd)
-		}
+		var e float64
+		xs[i], e = a.gridPoint(i, n, e0, up, un)
 		an, ap := a.c.alpha(e)
 		d := an - ap
 		if i > 0 {
