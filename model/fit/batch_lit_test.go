@@ -1,7 +1,6 @@
 package fit
 
 import (
-	"context"
 	"fmt"
 	"math"
 	"path/filepath"
@@ -55,18 +54,7 @@ func writeMixedBatch(t testing.TB) string {
 // Devices, 3rd ed., 2007, ch. 14; from memory), within 2 mV.
 func TestBatchRoutesLitFiles(t *testing.T) {
 	dir := writeMixedBatch(t)
-	files, err := BatchFiles(nil, dir)
-	if err != nil {
-		t.Fatal(err)
-	}
-	one, err := Batch(context.Background(), files, BatchOptions{Jobs: 1})
-	if err != nil {
-		t.Fatal(err)
-	}
-	four, err := Batch(context.Background(), files, BatchOptions{Jobs: 4})
-	if err != nil {
-		t.Fatal(err)
-	}
+	one, four := batchOneAndFour(t, dir)
 	if fmt.Sprint(one.Rows) != fmt.Sprint(four.Rows) || fmt.Sprint(one.Stats) != fmt.Sprint(four.Stats) {
 		t.Error("rows or statistics differ between 1 and 4 workers")
 	}

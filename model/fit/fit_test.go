@@ -140,20 +140,13 @@ func TestBatchWorkersAndCancel(t *testing.T) {
 		writeIV(t, filepath.Join(dir, fmt.Sprintf("die%02d.csv", k)), "# temperature: 300 K\nV,I (A)\n", d, 300, 0, uint64(k))
 	}
 	os.WriteFile(filepath.Join(dir, "die99.csv"), []byte("V,T (K)\n1,300\n"), 0o644)
+	one, four := batchOneAndFour(t, dir)
+	if one.Fitted != 12 || one.Failed != 1 || fmt.Sprint(one.Rows) != fmt.Sprint(four.Rows) || fmt.Sprint(one.Stats) != fmt.Sprint(four.Stats) {
+		t.Errorf("1 and 4 workers differ or wrong counts: %d fitted %d failed", one.Fitted, one.Failed)
+	}
 	files, err := BatchFiles(nil, dir)
 	if err != nil {
 		t.Fatal(err)
-	}
-	one, err := Batch(context.Background(), files, BatchOptions{Jobs: 1})
-	if err != nil {
-		t.Fatal(err)
-	}
-	four, err := Batch(context.Background(), files, BatchOptions{Jobs: 4})
-	if err != nil {
-		t.Fatal(err)
-	}
-	if one.Fitted != 12 || one.Failed != 1 || fmt.Sprint(one.Rows) != fmt.Sprint(four.Rows) || fmt.Sprint(one.Stats) != fmt.Sprint(four.Stats) {
-		t.Errorf("1 and 4 workers differ or wrong counts: %d fitted %d failed", one.Fitted, one.Failed)
 	}
 	ctx, cancel := context.WithCancel(context.Background())
 	res, err := Batch(ctx, files, BatchOptions{Jobs: 1, Progress: func(done, total int) {
@@ -333,4 +326,25 @@ func TestLitRoutingAndFit(t *testing.T) {
 			t.Errorf("max power %g W, sampled peak %g W, rows %d", v.MaxPowerW, pk, len(v.Rows))
 		}
 	}
+}
+
+// batchOneAndFour fits the batch of dir with one worker and with four.
+func batchOneAndFour(t *testing.T, dir string) (one, four *BatchResult) {
+	t.Helper()
+	files, err := BatchFiles(nil, dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, jobs := range []int{1, 4} {
+		r, err := Batch(context.Background(), files, BatchOptions{Jobs: jobs})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if jobs == 1 {
+			one = r
+		} else {
+			four = r
+		}
+	}
+	return one, four
 }
