@@ -94,14 +94,7 @@ func TestFrontEndsBatchFiles(t *testing.T) {
 func TestFrontEndsRsStatistics(t *testing.T) {
 	dir := "testdata/fit/wafer"
 	b := cliBatch(t, dir, "--jobs", "2")
-	files, err := fit.BatchFiles(nil, dir)
-	if err != nil {
-		t.Fatal(err)
-	}
-	wb, err := fit.Batch(context.Background(), files, fit.BatchOptions{IV: fit.IVOptions{Temperature: workbenchRule(296.15)}})
-	if err != nil {
-		t.Fatal(err)
-	}
+	wb := workbenchBatch(t, dir)
 	rs := b.Summary["series_resistance_ohm"]
 	ws := wb.Stats[2]
 	if rs.LogScale || ws.Log {
@@ -319,14 +312,7 @@ func TestFrontEndsLitBatch(t *testing.T) {
 	if err := json.Unmarshal([]byte(out), &b); err != nil {
 		t.Fatal(err)
 	}
-	files, err := fit.BatchFiles(nil, dir)
-	if err != nil {
-		t.Fatal(err)
-	}
-	wb, err := fit.Batch(context.Background(), files, fit.BatchOptions{IV: fit.IVOptions{Temperature: workbenchRule(296.15)}})
-	if err != nil {
-		t.Fatal(err)
-	}
+	wb := workbenchBatch(t, dir)
 	if len(b.Results) != len(wb.Rows) || len(wb.Rows) != 6 {
 		t.Fatalf("command line %d rows, workbench %d", len(b.Results), len(wb.Rows))
 	}
@@ -361,4 +347,20 @@ func TestFrontEndsLitBatch(t *testing.T) {
 	if lit != 3 {
 		t.Errorf("%d lit rows in the workbench, want 3", lit)
 	}
+}
+
+// workbenchBatch is the workbench's batch of dir: the fit layer's call
+// the batch screen makes, the junction's temperature (the demo's 296.15 K)
+// where a file states none.
+func workbenchBatch(t *testing.T, dir string) *fit.BatchResult {
+	t.Helper()
+	files, err := fit.BatchFiles(nil, dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	wb, err := fit.Batch(context.Background(), files, fit.BatchOptions{IV: fit.IVOptions{Temperature: workbenchRule(296.15)}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return wb
 }
