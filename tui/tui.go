@@ -586,7 +586,11 @@ func (m Model) View() string {
 	if s := m.top(); s != nil {
 		lines = append(lines, s.draw(m, w, h-1-len(foot))...)
 	} else {
-		lines = append(lines, m.body()...)
+		body := m.body()
+		if extra := len(foot) - 1; extra > 0 { // a long note (footer)
+			body = body[:max(len(body)-extra, 0)]
+		}
+		lines = append(lines, body...)
 	}
 	lines = append(lines, foot...)
 	return strings.Join(block(lines, w, h, m.e.g.ellipsis), "\n")
@@ -619,6 +623,12 @@ func (m Model) footer() []string {
 				return m.noteAboveKeys(keys, n)
 			}
 		}
+	}
+	if m.top() == nil && m.note != "" && width(m.note)+2 > w {
+		// On the panels a note longer than the line is wrapped above the
+		// keys, never cut: the panels give up their bottom lines until the
+		// next key clears it (View).
+		return m.noteAboveKeys(keys, 1)
 	}
 	note := ""
 	if m.note != "" {
