@@ -54,8 +54,8 @@ func boolFlag(name, val string, hasVal bool) (bool, error) {
 // Version is the tool version written into sessions and reports.
 const Version = "0.1.0"
 
-// rootHelp is the page of `junco --help`; the fit line names the
-// subcommands of fitSubs.
+// rootHelp is the page of `junco --help`; the fit and sessions lines name
+// the subcommands of fitSubs and sessionsSubs.
 func rootHelp() string {
 	return `junco: a terminal workbench for pn junctions and diodes
 
@@ -65,7 +65,7 @@ func rootHelp() string {
   junco open NAME|FILE       open the workbench on a stored session or a file
   junco fit ` + fitNames() + ` ...
                              extract diode parameters from measured data
-  junco sessions list|show|history|diff|export|import|trash|restore ...
+  junco sessions ` + sessionNames() + ` ...
                              the session store
   junco serve [flags]        serve the workbench over SSH to a lab group
   junco completion bash|zsh|fish

@@ -30,3 +30,21 @@ func TestHelpSummariesListEveryFitSubcommand(t *testing.T) {
 		}
 	}
 }
+
+// The root's help names every sessions command the tree defines, each of
+// which answers --help.
+func TestHelpSummaryListsEverySessionsCommand(t *testing.T) {
+	code, root, errs := runCLI(t, "--help")
+	if code != exitOK {
+		t.Fatalf("junco --help: exit %d: %s", code, errs)
+	}
+	for _, s := range sessionsSubs() {
+		name := strings.Fields(s.use)[0]
+		if !strings.Contains(root, "|"+name+"|") && !strings.Contains(root, " "+name+"|") && !strings.Contains(root, "|"+name+" ") {
+			t.Errorf("junco --help does not name sessions %s", name)
+		}
+		if c, _, e := runCLI(t, "sessions", name, "--help"); c != exitOK {
+			t.Errorf("junco sessions %s --help: exit %d: %s", name, c, e)
+		}
+	}
+}

@@ -37,13 +37,15 @@ type sessionsSub struct {
 	want             string
 }
 
-// sessionsSubs lists the sessions commands in help order.
-var sessionsSubs = []sessionsSub{
-	{use: "list", short: "sessions with their newest revision", want: "no arguments"},
-	{use: "show NAME [--rev N] [--ascii]", short: "inputs, results, data and notes of a revision", extra: []string{"rev", "ascii"}, min: 1, max: 1, want: "a session NAME"},
-	{use: "history NAME", short: "every revision: when, by whom, from what", min: 1, max: 1, want: "a session NAME"},
-	{use: "diff NAME A B | NAME1[@REV] NAME2[@REV]", short: "changed inputs and results between two revisions or two sessions",
-		long: `Show what changed in the inputs, results, data and notes.
+// sessionsSubs lists the sessions commands in help order (a new list on
+// each call: no package state).
+func sessionsSubs() []sessionsSub {
+	return []sessionsSub{
+		{use: "list", short: "sessions with their newest revision", want: "no arguments"},
+		{use: "show NAME [--rev N] [--ascii]", short: "inputs, results, data and notes of a revision", extra: []string{"rev", "ascii"}, min: 1, max: 1, want: "a session NAME"},
+		{use: "history NAME", short: "every revision: when, by whom, from what", min: 1, max: 1, want: "a session NAME"},
+		{use: "diff NAME A B | NAME1[@REV] NAME2[@REV]", short: "changed inputs and results between two revisions or two sessions",
+			long: `Show what changed in the inputs, results, data and notes.
 
   junco sessions diff NAME A B              revision A to revision B of session NAME
   junco sessions diff NAME1[@REV] NAME2[@REV]
@@ -53,13 +55,24 @@ var sessionsSubs = []sessionsSub{
 With three arguments the last two are revision numbers of one session; with
 two, each is a session (a bare number as the second argument is refused as
 a half-given revision pair: write NAME@REV).`,
-		extra: []string{"ascii"}, min: 2, max: 3, want: "NAME A B (two revisions of one session) or NAME1[@REV] NAME2[@REV] (two sessions)"},
-	{use: "export NAME [--rev N] --format md|csv|json [--out DIR]", short: "a Markdown report with SVG figures, CSV tables of every curve, or the JSON document",
-		extra: []string{"rev", "format", "out", "ascii"}, min: 1, max: 1, want: "a session NAME"},
-	{use: "import FILE [--as NAME]", short: "store a session file from elsewhere", extra: []string{"as"}, min: 1, max: 1, want: "a FILE"},
-	{use: "trash [NAME]", short: "move a session to the trash (no NAME: list the trash)", max: 1, want: "at most a session NAME"},
-	{use: "restore NAME [--rev N]", short: "bring a session back from the trash; with --rev N store revision N again as the newest",
-		extra: []string{"rev"}, min: 1, max: 1, want: "a session NAME"},
+			extra: []string{"ascii"}, min: 2, max: 3, want: "NAME A B (two revisions of one session) or NAME1[@REV] NAME2[@REV] (two sessions)"},
+		{use: "export NAME [--rev N] --format md|csv|json [--out DIR]", short: "a Markdown report with SVG figures, CSV tables of every curve, or the JSON document",
+			extra: []string{"rev", "format", "out", "ascii"}, min: 1, max: 1, want: "a session NAME"},
+		{use: "import FILE [--as NAME]", short: "store a session file from elsewhere", extra: []string{"as"}, min: 1, max: 1, want: "a FILE"},
+		{use: "trash [NAME]", short: "move a session to the trash (no NAME: list the trash)", max: 1, want: "at most a session NAME"},
+		{use: "restore NAME [--rev N]", short: "bring a session back from the trash; with --rev N store revision N again as the newest",
+			extra: []string{"rev"}, min: 1, max: 1, want: "a session NAME"},
+	}
+}
+
+// sessionNames is "list|show|...": the sessions commands' names, for the
+// root's help.
+func sessionNames() string {
+	var names []string
+	for _, s := range sessionsSubs() {
+		names = append(names, strings.Fields(s.use)[0])
+	}
+	return strings.Join(names, "|")
 }
 
 // sessionFlags are the flags shared by the sessions commands.
@@ -163,7 +176,7 @@ func newSessionsCmd(e *env) *cobra.Command {
 	cmd := &cobra.Command{Use: "sessions COMMAND", Short: "the session store", Long: sessionsHelp}
 	commandGroup(cmd, "command")
 	cmd.Flags().String("data", "", "session store `DIR` (default $XDG_DATA_HOME/junco, else ~/.local/share/junco)")
-	for _, s := range sessionsSubs {
+	for _, s := range sessionsSubs() {
 		cmd.AddCommand(s.command(e))
 	}
 	return cmd

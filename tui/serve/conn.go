@@ -184,11 +184,17 @@ func (c *idleConn) Close() error {
 	return c.Conn.Close()
 }
 
-// refusedSessionRequests are session requests the server refuses, with
-// the reason logged: the SSH library would accept agent forwarding.
-var refusedSessionRequests = map[string]string{
-	"auth-agent-req@openssh.com": "agent forwarding",
-	"x11-req":                    "X11 forwarding",
+// refusedSessionRequest names a session request the server refuses, for
+// the log (ok false for any other): the SSH library would accept agent
+// forwarding.
+func refusedSessionRequest(kind string) (what string, ok bool) {
+	switch kind {
+	case "auth-agent-req@openssh.com":
+		return "agent forwarding", true
+	case "x11-req":
+		return "X11 forwarding", true
+	}
+	return "", false
 }
 
 // sessionChannel is the handler of "session" channels: the library's own,
@@ -262,7 +268,7 @@ func (f filteredChannel) Accept() (gossh.Channel, <-chan *gossh.Request, error) 
 		defer close(out)
 		envs, envRefused := 0, false
 		for r := range reqs {
-			if what, ok := refusedSessionRequests[r.Type]; ok {
+			if what, ok := refusedSessionRequest(r.Type); ok {
 				f.refuse(what)
 				_ = r.Reply(false, nil)
 				continue
