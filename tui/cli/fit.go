@@ -49,7 +49,7 @@ func (s fitSub) name() string { return strings.Fields(s.use)[0] }
 
 // fitSubs lists the fit subcommands in help order.
 func fitSubs() []fitSub {
-	return []fitSub{fitIVSub, fitCVSub, fitArrheniusSub, fitBatchSub, fitCardSub}
+	return []fitSub{fitIVSub(), fitCVSub(), fitArrheniusSub(), fitBatchSub(), fitCardSub()}
 }
 
 // fitHelp is the page of `junco fit --help`: every subcommand of fitSubs

@@ -42,10 +42,11 @@ type fitArrheniusReport struct {
 }
 
 // fitArrheniusSub is `junco fit arrhenius`.
-var fitArrheniusSub = fitSub{
-	use:   "arrhenius FILE... [flags]",
-	short: "saturation current against temperature: activation energy",
-	summary: `  junco fit arrhenius FILE... [--temp T1,T2,...] [--dtau-exponent G] [--current I]
+func fitArrheniusSub() fitSub {
+	return fitSub{
+		use:   "arrhenius FILE... [flags]",
+		short: "saturation current against temperature: activation energy",
+		summary: `  junco fit arrhenius FILE... [--temp T1,T2,...] [--dtau-exponent G] [--current I]
                        [--window V1:V2] [--json] [--ascii]
       Saturation current against temperature: activation energy from
       Is = C T^(3+G/2) exp(-Ea/kT); with --current also dVF/dT at that
@@ -55,7 +56,7 @@ var fitArrheniusSub = fitSub{
       exponent". --gamma is its deprecated old name. The standard error of
       Ea is widened by sqrt(reduced chi-square) when the points scatter
       more than their errors.`,
-	long: `Saturation current against temperature: activation energy from
+		long: `Saturation current against temperature: activation energy from
 Is = C T^(3+G/2) exp(-Ea/kT); with --current also dVF/dT at that current.
 Give I-V curves at 3 or more temperatures. --dtau-exponent G (default 0) is
 the exponent of the temperature dependence of D/tau (D/tau ~ T^G), not the
@@ -65,16 +66,17 @@ widened by sqrt(reduced chi-square) when the points scatter more than their
 errors.
 
 ` + fitDataHelp,
-	flags: []fitFlag{
-		{"temp", "T1,T2,...", "temperature of each file, in file order, for files that state none (repeatable)"},
-		{"window", "V1:V2", "forward-bias window of each fit, e.g. 0.1:0.7"},
-		{"dtau-exponent", "G", "exponent of D/tau against T (D/tau ~ T^G; Is ~ T^(3+G/2) exp(-Ea/kT)), default 0"},
-		{"gamma", "G", "deprecated old name of --dtau-exponent"},
-		{"current", "I", "also give dVF/dT at this forward current, e.g. 1mA"},
-		{"json", "", "print JSON in SI units instead of text"},
-		{"ascii", "", "plain ASCII output (u for micro)"},
-	},
-	run: fitRunArrhenius,
+		flags: []fitFlag{
+			{"temp", "T1,T2,...", "temperature of each file, in file order, for files that state none (repeatable)"},
+			{"window", "V1:V2", "forward-bias window of each fit, e.g. 0.1:0.7"},
+			{"dtau-exponent", "G", "exponent of D/tau against T (D/tau ~ T^G; Is ~ T^(3+G/2) exp(-Ea/kT)), default 0"},
+			{"gamma", "G", "deprecated old name of --dtau-exponent"},
+			{"current", "I", "also give dVF/dT at this forward current, e.g. 1mA"},
+			{"json", "", "print JSON in SI units instead of text"},
+			{"ascii", "", "plain ASCII output (u for micro)"},
+		},
+		run: fitRunArrhenius,
+	}
 }
 
 func fitRunArrhenius(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) int {

@@ -19,10 +19,11 @@ import (
 )
 
 // fitBatchSub is `junco fit batch`.
-var fitBatchSub = fitSub{
-	use:   "batch DIR|FILE... [flags]",
-	short: "fit many I-V files in parallel, with a summary per parameter",
-	summary: `  junco fit batch DIR|FILE... [--jobs N] [--csv OUT] [--temp T] [--window V1:V2]
+func fitBatchSub() fitSub {
+	return fitSub{
+		use:   "batch DIR|FILE... [flags]",
+		short: "fit many I-V files in parallel, with a summary per parameter",
+		summary: `  junco fit batch DIR|FILE... [--jobs N] [--csv OUT] [--temp T] [--window V1:V2]
                        [--model single|double] [--compliance I] [--floor I]
                        [--json] [--ascii]
                        [--map PARAM] [--limit PARAM:MIN:MAX]... [--report FILE.md]
@@ -38,7 +39,7 @@ var fitBatchSub = fitSub{
       marks dies out of limits and prints the yield (n:1.0:1.2, Rs::5ohm);
       --report writes a Markdown report with SVG wafer maps beside it;
       --save-to keeps the batch table with a session (batch-1, ...).`,
-	long: `Fit many I-V files in parallel: the files named and every .csv, .tsv, .txt
+		long: `Fit many I-V files in parallel: the files named and every .csv, .tsv, .txt
 and .dat file under each directory (subdirectories too, hidden entries
 skipped), in sorted order; summary per parameter (median, quartiles,
 outliers; log scale for Is, Is2 and Rsh) and a CSV table (--csv -, standard
@@ -49,22 +50,23 @@ Is2); --limit marks dies out of limits and prints the yield (n:1.0:1.2,
 Rs::5ohm); --report writes a Markdown report with SVG wafer maps beside it.
 
 ` + fitBatchSaveHelp + "\n\n" + fitDataHelp,
-	flags: []fitFlag{
-		{"jobs", "N", "workers fitting at once, 1..1024 (default: the number of CPUs)"},
-		{"csv", "OUT", "write the table of every file's parameters as CSV to OUT (- for standard output)"},
-		{"temp", "T", "temperature for files that state none, e.g. 300K (else 300 K assumed)"},
-		{"window", "V1:V2", "forward-bias window of each fit, e.g. 0.1:0.7"},
-		{"model", "single|double", "diode model: single or double"},
-		{"compliance", "I", "the instrument's current compliance: points clipped at it are left out (else found from each sweep)"},
-		{"floor", "I", "the noise floor of the current (else estimated from each file)"},
-		{"map", "PARAM", "draw the wafer map of PARAM: Is, n, Rs, Rsh or Is2"},
-		{"limit", "PARAM:MIN:MAX", "mark dies out of limits and print the yield, e.g. n:1.0:1.2 or Rs::5ohm (repeatable)"},
-		{"report", "FILE.md", "write a Markdown report with SVG wafer maps beside it"},
-		fitBatchSaveFlags[0], fitBatchSaveFlags[1],
-		{"json", "", "print JSON in SI units instead of text"},
-		{"ascii", "", "plain ASCII output (u for micro)"},
-	},
-	run: fitRunBatch,
+		flags: []fitFlag{
+			{"jobs", "N", "workers fitting at once, 1..1024 (default: the number of CPUs)"},
+			{"csv", "OUT", "write the table of every file's parameters as CSV to OUT (- for standard output)"},
+			{"temp", "T", "temperature for files that state none, e.g. 300K (else 300 K assumed)"},
+			{"window", "V1:V2", "forward-bias window of each fit, e.g. 0.1:0.7"},
+			{"model", "single|double", "diode model: single or double"},
+			{"compliance", "I", "the instrument's current compliance: points clipped at it are left out (else found from each sweep)"},
+			{"floor", "I", "the noise floor of the current (else estimated from each file)"},
+			{"map", "PARAM", "draw the wafer map of PARAM: Is, n, Rs, Rsh or Is2"},
+			{"limit", "PARAM:MIN:MAX", "mark dies out of limits and print the yield, e.g. n:1.0:1.2 or Rs::5ohm (repeatable)"},
+			{"report", "FILE.md", "write a Markdown report with SVG wafer maps beside it"},
+			fitBatchSaveFlags()[0], fitBatchSaveFlags()[1],
+			{"json", "", "print JSON in SI units instead of text"},
+			{"ascii", "", "plain ASCII output (u for micro)"},
+		},
+		run: fitRunBatch,
+	}
 }
 
 func fitRunBatch(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) int {

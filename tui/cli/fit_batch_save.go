@@ -11,9 +11,11 @@ import (
 
 // fitBatchSaveFlags are the flags of fit batch that keep its table with a
 // session.
-var fitBatchSaveFlags = []fitFlag{
-	{"save-to", "NAME", "keep the batch table (every file's parameters, dies, limits) as the next revision of session NAME"},
-	{"data", "DIR", "session store (default $XDG_DATA_HOME/junco, else ~/.local/share/junco)"},
+func fitBatchSaveFlags() []fitFlag {
+	return []fitFlag{
+		{"save-to", "NAME", "keep the batch table (every file's parameters, dies, limits) as the next revision of session NAME"},
+		{"data", "DIR", "session store (default $XDG_DATA_HOME/junco, else ~/.local/share/junco)"},
+	}
 }
 
 // fitBatchSaveHelp tells what --save-to does for fit batch.

@@ -102,10 +102,11 @@ type fitCardReport struct {
 }
 
 // fitCardSub is `junco fit card`.
-var fitCardSub = fitSub{
-	use:   "card --iv FILE... | --session NAME|FILE  --name NAME [flags]",
-	short: "build a SPICE diode model card from a whole characterisation",
-	summary: `  junco fit card --iv FILE... | --session NAME|FILE  --name NAME
+func fitCardSub() fitSub {
+	return fitSub{
+		use:   "card --iv FILE... | --session NAME|FILE  --name NAME [flags]",
+		short: "build a SPICE diode model card from a whole characterisation",
+		summary: `  junco fit card --iv FILE... | --session NAME|FILE  --name NAME
                        [--cv FILE] [--reverse FILE] [--recovery FILE] [--temp T]
                        [--window V1:V2] [--check] [--json] [--ascii] [--data DIR]
       One SPICE diode model card (.model NAME D(...)) from a whole
@@ -116,7 +117,7 @@ var fitCardSub = fitSub{
       forward C-V. Each parameter comes with its standard error and
       source; what nothing measured is left out; a .subckt holds an
       observable shunt. --check runs the card in ngspice against the data.`,
-	long: `Build one SPICE diode model card from a characterisation: IS, N, RS
+		long: `Build one SPICE diode model card from a characterisation: IS, N, RS
 (ISR, NR when a second diode is significant) from the forward I-V sweeps,
 fitted jointly with EG and XTI when they span several temperatures (the
 first --iv file is the reference: TNOM is its temperature; more files may
@@ -134,21 +135,22 @@ storage time beside the measured one, not judged); exit 1 when it fails or
 cannot run.
 
 ` + fitDataHelp,
-	flags: []fitFlag{
-		{"iv", "FILE", "forward I-V sweep; repeat, or list more files after it (the first is the reference, TNOM)"},
-		{"cv", "FILE", "C-V sweep: CJO, VJ, M (forward points: TT)"},
-		{"reverse", "FILE", "reverse I-V sweep that reaches breakdown: BV, IBV"},
-		{"recovery", "FILE", "reverse-recovery (storage time) file: TT"},
-		{"session", "NAME|FILE", "take the sweeps from a session's data sets instead of files (dark forward I-V, the one nearest the junction's temperature the reference; a reverse sweep; a C-V sweep)"},
-		{"data", "DIR", "session store of --session (default $XDG_DATA_HOME/junco, else ~/.local/share/junco)"},
-		{"name", "NAME", "the card's model name (a letter first, then letters, digits, _ - . +)"},
-		{"temp", "T", "temperature of a file that states none, e.g. 300K or 27C (else 300 K assumed)"},
-		{"window", "V1:V2", "forward-bias window of every I-V sweep (default: above the noise floor)"},
-		{"check", "", "run the card in ngspice against the data and print the figures"},
-		{"json", "", "print JSON in SI units instead of text"},
-		{"ascii", "", "plain ASCII output (u for micro)"},
-	},
-	run: fitRunCard,
+		flags: []fitFlag{
+			{"iv", "FILE", "forward I-V sweep; repeat, or list more files after it (the first is the reference, TNOM)"},
+			{"cv", "FILE", "C-V sweep: CJO, VJ, M (forward points: TT)"},
+			{"reverse", "FILE", "reverse I-V sweep that reaches breakdown: BV, IBV"},
+			{"recovery", "FILE", "reverse-recovery (storage time) file: TT"},
+			{"session", "NAME|FILE", "take the sweeps from a session's data sets instead of files (dark forward I-V, the one nearest the junction's temperature the reference; a reverse sweep; a C-V sweep)"},
+			{"data", "DIR", "session store of --session (default $XDG_DATA_HOME/junco, else ~/.local/share/junco)"},
+			{"name", "NAME", "the card's model name (a letter first, then letters, digits, _ - . +)"},
+			{"temp", "T", "temperature of a file that states none, e.g. 300K or 27C (else 300 K assumed)"},
+			{"window", "V1:V2", "forward-bias window of every I-V sweep (default: above the noise floor)"},
+			{"check", "", "run the card in ngspice against the data and print the figures"},
+			{"json", "", "print JSON in SI units instead of text"},
+			{"ascii", "", "plain ASCII output (u for micro)"},
+		},
+		run: fitRunCard,
+	}
 }
 
 func fitRunCard(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) int {

@@ -83,10 +83,11 @@ func fitCVPut(q extract.CVQuantity, val, se **float64, st *fitCVState) {
 }
 
 // fitCVSub is `junco fit cv`: its help and flag definitions.
-var fitCVSub = fitSub{
-	use:   "cv FILE [flags]",
-	short: "junction-capacitance fit of C-V data (Vbi, m, Cj0, Cpar), doping and its profile",
-	summary: `  junco fit cv FILE [--area A] [--material si|ge|gaas|4h-sic] [--window V1:V2]
+func fitCVSub() fitSub {
+	return fitSub{
+		use:   "cv FILE [flags]",
+		short: "junction-capacitance fit of C-V data (Vbi, m, Cj0, Cpar), doping and its profile",
+		summary: `  junco fit cv FILE [--area A] [--material si|ge|gaas|4h-sic] [--window V1:V2]
                        [--grading M] [--parasitic C] [--profile] [--smooth N]
                        [--model-card NAME] [--json] [--ascii] [--save-to NAME] [--data DIR]
       Junction-capacitance fit C = Cj0/(1 - V/Vbi)^m + Cpar (the headline:
@@ -94,28 +95,29 @@ var fitCVSub = fitSub{
       down); --grading and --parasitic hold m and Cpar. With --area: the
       doping from the Mott-Schottky line of C - Cpar (only when m is within
       0.05 of 1/2) and, with --profile, the doping profile of C - Cpar.`,
-	long: `Junction-capacitance fit C = Cj0/(1 - V/Vbi)^m + Cpar (the headline: Vbi, m,
+		long: `Junction-capacitance fit C = Cj0/(1 - V/Vbi)^m + Cpar (the headline: Vbi, m,
 Cj0, Cpar; "not determined" when the data cannot pin one down); --grading
 and --parasitic hold m and Cpar. With --area: the doping from the
 Mott-Schottky line of C - Cpar (only when m is within 0.05 of 1/2) and,
 with --profile, the doping profile of C - Cpar.
 
 ` + fitSaveHelp + "\n\n" + fitDataHelp,
-	flags: []fitFlag{
-		{"area", "A", "junction area, for the doping, e.g. 1mm2, 1e-4cm2 or 100um2 (bare: cm^2)"},
-		{"material", "si|ge|gaas|4h-sic", "semiconductor, for its permittivity (default si)"},
-		{"window", "V1:V2", "bias window of the fits, e.g. -5:0"},
-		{"grading", "M", "hold the grading coefficient m (1/2 abrupt, 1/3 linearly graded)"},
-		{"parasitic", "C", "hold the parasitic capacitance Cpar, e.g. 2pF (bare: F)"},
-		{"profile", "", "with --area: also the doping profile against depth (differential C-V)"},
-		{"smooth", "N", "neighbouring points of the profile's derivative, 1..100 (default 2)"},
-		{"model-card", "NAME", "also write a SPICE diode model card (CJO, VJ, M) of this name"},
-		{"save-to", "NAME", "store the data and the fit as the next revision of session NAME"},
-		{"data", "DIR", "session store (default $XDG_DATA_HOME/junco, else ~/.local/share/junco)"},
-		{"json", "", "print JSON in SI units instead of text"},
-		{"ascii", "", "plain ASCII output (u for micro)"},
-	},
-	run: fitRunCV,
+		flags: []fitFlag{
+			{"area", "A", "junction area, for the doping, e.g. 1mm2, 1e-4cm2 or 100um2 (bare: cm^2)"},
+			{"material", "si|ge|gaas|4h-sic", "semiconductor, for its permittivity (default si)"},
+			{"window", "V1:V2", "bias window of the fits, e.g. -5:0"},
+			{"grading", "M", "hold the grading coefficient m (1/2 abrupt, 1/3 linearly graded)"},
+			{"parasitic", "C", "hold the parasitic capacitance Cpar, e.g. 2pF (bare: F)"},
+			{"profile", "", "with --area: also the doping profile against depth (differential C-V)"},
+			{"smooth", "N", "neighbouring points of the profile's derivative, 1..100 (default 2)"},
+			{"model-card", "NAME", "also write a SPICE diode model card (CJO, VJ, M) of this name"},
+			{"save-to", "NAME", "store the data and the fit as the next revision of session NAME"},
+			{"data", "DIR", "session store (default $XDG_DATA_HOME/junco, else ~/.local/share/junco)"},
+			{"json", "", "print JSON in SI units instead of text"},
+			{"ascii", "", "plain ASCII output (u for micro)"},
+		},
+		run: fitRunCV,
+	}
 }
 
 func fitRunCV(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) int {

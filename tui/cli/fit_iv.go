@@ -162,10 +162,11 @@ func fitIVFileLit(ctx context.Context, path string, c fitCommon, leakAt *float64
 }
 
 // fitIVSub is `junco fit iv`.
-var fitIVSub = fitSub{
-	use:   "iv FILE... [flags]",
-	short: "fit the diode equation to forward I-V data",
-	summary: `  junco fit iv FILE... [--temp T] [--window V1:V2] [--model single|double]
+func fitIVSub() fitSub {
+	return fitSub{
+		use:   "iv FILE... [flags]",
+		short: "fit the diode equation to forward I-V data",
+		summary: `  junco fit iv FILE... [--temp T] [--window V1:V2] [--model single|double]
                        [--compliance I] [--floor I]
                        [--leakage-at V] [--model-card NAME] [--json] [--ascii]
                        [--compare SESSION|FILE] [--save-to NAME] [--data DIR] [--light]
@@ -178,7 +179,7 @@ var fitIVSub = fitSub{
       ln(measured/predicted) over the window, and the minority lifetime of
       the lightly doped side for which the model's diffusion Is equals the
       measured one (with its diffusion length and the assumptions).`,
-	long: `Fit the diode equation to forward I-V data (one result per file).
+		long: `Fit the diode equation to forward I-V data (one result per file).
 --compare sets the data against a session's junction: the RMS of
 ln(measured/predicted) over the window, and the minority lifetime of the
 lightly doped side for which the model's diffusion Is equals the measured
@@ -188,22 +189,23 @@ sign) gets the lit single-diode fit (Iph, Is, n, Rs, Rsh; Isc, Voc, maximum
 power, fill factor); --light forces it.
 
 ` + fitSaveHelp + "\n\n" + fitDataHelp,
-	flags: []fitFlag{
-		{"temp", "T", "temperature when the file states none, e.g. 300K or 27C (else 300 K assumed)"},
-		{"window", "V1:V2", "forward-bias window of the fit, e.g. 0.1:0.7 or 100mV:700mV"},
-		{"model", "single|double", "diode model: single (Is, n, Rs, Rsh) or double (Is1, Is2, Rs, Rsh)"},
-		{"compliance", "I", "the instrument's current compliance, e.g. 100mA: points clipped at it are left out (else found from the sweep)"},
-		{"floor", "I", "the noise floor of the current, e.g. 1pA (else estimated from the data)"},
-		{"leakage-at", "V", "also report the leakage current at this reverse bias, e.g. -5V"},
-		{"model-card", "NAME", "also write a SPICE diode model card of this name"},
-		{"compare", "SESSION|FILE", "set the data against the junction of a session or session file"},
-		{"save-to", "NAME", "store the data and the fit as the next revision of session NAME"},
-		{"data", "DIR", "session store (default $XDG_DATA_HOME/junco, else ~/.local/share/junco)"},
-		{"json", "", "print JSON in SI units instead of text"},
-		{"ascii", "", "plain ASCII output (u for micro)"},
-		{"light", "", "fit every curve as a lit one (photocurrent Iph, Is, n, Rs, Rsh; Isc, Voc, maximum power, fill factor)"},
-	},
-	run: fitRunIV,
+		flags: []fitFlag{
+			{"temp", "T", "temperature when the file states none, e.g. 300K or 27C (else 300 K assumed)"},
+			{"window", "V1:V2", "forward-bias window of the fit, e.g. 0.1:0.7 or 100mV:700mV"},
+			{"model", "single|double", "diode model: single (Is, n, Rs, Rsh) or double (Is1, Is2, Rs, Rsh)"},
+			{"compliance", "I", "the instrument's current compliance, e.g. 100mA: points clipped at it are left out (else found from the sweep)"},
+			{"floor", "I", "the noise floor of the current, e.g. 1pA (else estimated from the data)"},
+			{"leakage-at", "V", "also report the leakage current at this reverse bias, e.g. -5V"},
+			{"model-card", "NAME", "also write a SPICE diode model card of this name"},
+			{"compare", "SESSION|FILE", "set the data against the junction of a session or session file"},
+			{"save-to", "NAME", "store the data and the fit as the next revision of session NAME"},
+			{"data", "DIR", "session store (default $XDG_DATA_HOME/junco, else ~/.local/share/junco)"},
+			{"json", "", "print JSON in SI units instead of text"},
+			{"ascii", "", "plain ASCII output (u for micro)"},
+			{"light", "", "fit every curve as a lit one (photocurrent Iph, Is, n, Rs, Rsh; Isc, Voc, maximum power, fill factor)"},
+		},
+		run: fitRunIV,
+	}
 }
 
 func fitRunIV(ctx context.Context, a *fitArgs, stdout, stderr io.Writer) int {
