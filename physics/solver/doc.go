@@ -74,8 +74,9 @@
 // fails (no convergence within Options.MaxIterations, or an update still
 // above 1e-2 kT/q after 12 iterations) is halved; below
 // Options.MinBiasStep a *ConvergenceError reports the bias, the last
-// converged bias, iterations, update and residual. After
-// convergence, when Jn + Jp varies along the device by more than ten
+// converged bias, iterations, update and residual. Once the target bias
+// is reached (not after the intermediate steps, which only start the
+// next), when Jn + Jp varies along the device by more than ten
 // times max(1e-11, 20 N eps) relative (N nodes, eps the double-precision
 // epsilon: the rounding floor of the discrete current grows with N), up
 // to six decoupled continuity steps with psi frozen polish the

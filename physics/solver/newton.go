@@ -422,16 +422,8 @@ func (s *Solver) newton(st *state, w *work) (iters int, upd, res float64, err er
 			return it, upd, res, errSlowConvergence
 		}
 		if t == 1 && upd <= tol {
-			// Converged in the update norm. The potential is now known to
-			// rounding (~1e-16 relative), but a tiny majority current is set
-			// by quasi-Fermi differences far below that level, which the
-			// coupled solve mixes with the rounding noise of Poisson's rows.
-			// Polish them with psi frozen: decoupled Newton steps on each
-			// continuity equation alone (tridiagonal), until the total
-			// current is constant along the device to polishTarget (at most
-			// six sweeps, stopping when a sweep no longer halves the
-			// spread; the best iterate is kept in a preallocated buffer).
-			s.polish(st, w)
+			// Converged in the update norm; a state that is a result is
+			// polished next (see polish), a continuation step is not.
 			return it, upd, res, nil
 		}
 	}
@@ -449,8 +441,23 @@ func polishTarget(nn int) float64 {
 	return math.Max(1e-11, 20*float64(nn)*0x1p-52)
 }
 
-// polish runs the carrier polishing sweeps on a converged state (see
-// newton) when its current spread exceeds ten times polishTarget.
+// polish runs the carrier polishing sweeps on a state converged by newton
+// when its current spread exceeds ten times polishTarget.
+//
+// After newton the potential is known to rounding (~1e-16 relative), but
+// a tiny majority current is set by quasi-Fermi differences far below
+// that level, which the coupled solve mixes with the rounding noise of
+// Poisson's rows (the error grows as the cells shrink where the majority
+// density is high: the flux of a cell is D p/h times the difference).
+// Polish them with psi frozen: decoupled Newton steps on each continuity
+// equation alone (tridiagonal), until the total current is constant
+// along the device to polishTarget (at most six sweeps, stopping when a
+// sweep no longer halves the spread; the best iterate is kept in a
+// preallocated buffer). Only the states that are results are polished
+// (the end of a continuation, the frozen-occupation C-V point): the
+// polish changes the quasi-Fermi potentials by far less than the Newton
+// tolerance, so an intermediate continuation step, which only starts the
+// next, gains nothing from it.
 func (s *Solver) polish(st *state, w *work) {
 	target := polishTarget(len(s.x))
 	spread := s.currentSpread(st, w)

@@ -63,6 +63,8 @@ type tracker struct {
 	iters      int
 	upd, res   float64
 	totalIters int
+	// rough: cur comes from a Newton solve not yet polished (see polish).
+	rough bool
 }
 
 func (s *Solver) newTracker() (*tracker, error) {
@@ -143,6 +145,7 @@ func (tr *tracker) try(g, prev *state) (it int, upd, res float64, err error) {
 	if err == nil {
 		tr.prev, tr.cur = prev, g
 		tr.iters, tr.upd, tr.res = it, upd, res
+		tr.rough = true
 	}
 	return it, upd, res, err
 }
@@ -160,7 +163,7 @@ func nextStep(step float64, iters int, err error) float64 {
 }
 
 // advance moves the tracker to bias target (V) by continuation with step
-// halving on failure.
+// halving on failure, and polishes the state it reaches (see polish).
 func (tr *tracker) advance(ctx context.Context, targetV float64) error {
 	s := tr.s
 	if err := tr.illuminate(ctx); err != nil {
@@ -197,6 +200,10 @@ func (tr *tracker) advance(ctx context.Context, targetV float64) error {
 			return &ConvergenceError{Stage: "bias", Bias: targetV, Reached: tr.cur.v * s.vt, Step: 2 * math.Abs(step) * s.vt,
 				Iterations: it, Update: upd, Residual: res, Reason: err.Error()}
 		}
+	}
+	if tr.rough {
+		s.polish(tr.cur, tr.w)
+		tr.rough = false
 	}
 	return nil
 }
@@ -389,5 +396,6 @@ func (s *Solver) frozenStep(ctx context.Context, tr *tracker, v float64) (*state
 	if _, _, _, err := s.newton(g, tr.w); err != nil {
 		return nil, err
 	}
+	s.polish(g, tr.w)
 	return g, nil
 }
