@@ -61,19 +61,10 @@ const sweepCancelEvery = 64
 // DefaultIVRange is the bias sweep the workbench starts with.
 func DefaultIVRange() Range { return Range{From: -1, To: 0.8, Step: 0.01} }
 
-// prepare converts and prepares a spec.
-func prepare(s Spec) (*physics.Static, error) {
-	d, err := s.Device()
-	if err != nil {
-		return nil, err
-	}
-	return d.Prepare()
-}
-
 // prepareSweep resolves the junction and the biases of a sweep over r;
 // field names the sweep in a validation error.
 func prepareSweep(s Spec, r Range, field string) (*physics.Static, []float64, error) {
-	st, err := prepare(s)
+	st, err := s.Static()
 	if err != nil {
 		return nil, nil, err
 	}
@@ -263,7 +254,7 @@ func CVCurve(s Spec, r Range) (Curve, Curve, error) {
 // It returns an error when the depletion approximation does not apply at
 // that bias.
 func JunctionProfiles(s Spec, n int) (charge, field, potential, bands Curve, err error) {
-	st, err := prepare(s)
+	st, err := s.Static()
 	if err != nil {
 		return
 	}
@@ -333,7 +324,7 @@ func JunctionProfiles(s Spec, n int) (charge, field, potential, bands Curve, err
 // high-injection diffusivity at the edge, an approximation in high
 // injection.
 func MinorityProfiles(s Spec, n int) (density, current Curve, err error) {
-	st, err := prepare(s)
+	st, err := s.Static()
 	if err != nil {
 		return
 	}
@@ -406,7 +397,7 @@ func TemperatureSweep(ctx context.Context, s Spec, r Range, iF float64) ([]Tempe
 		}
 		s2 := s
 		s2.Temperature = t
-		st, e := prepare(s2)
+		st, e := s2.Static()
 		if e != nil {
 			return nil, fmt.Errorf("at %g K: %w", t, e)
 		}

@@ -100,11 +100,7 @@ type Result struct {
 // *ValidationError for bad fields, or a plain error when the physics
 // refuses the combination (for example Na Nd <= ni^2).
 func Evaluate(s Spec) (*Result, error) {
-	d, err := s.Device()
-	if err != nil {
-		return nil, err
-	}
-	st, err := d.Prepare()
+	st, err := s.Static()
 	if err != nil {
 		return nil, err
 	}

@@ -394,6 +394,18 @@ func (s Spec) Validate() error {
 	return &ValidationError{Fields: errs}
 }
 
+// Static validates and converts the Spec and prepares the physics for
+// evaluation at any bias (physics.Device.Prepare): the one way from a Spec
+// to the analytic model, for Evaluate, the curves and the fit layer's
+// comparison.
+func (s Spec) Static() (*physics.Static, error) {
+	d, err := s.Device()
+	if err != nil {
+		return nil, err
+	}
+	return d.Prepare()
+}
+
 // Device converts a valid Spec into the physics description.
 func (s Spec) Device() (physics.Device, error) {
 	if err := s.Validate(); err != nil {

@@ -116,7 +116,7 @@ func CompareIVContext(ctx context.Context, spec model.Spec, ds *measure.DataSet,
 		c.TemperatureK, c.TemperatureSource = t, "data set"
 		spec.Temperature = t
 	}
-	st, err := prepareStatic(spec)
+	st, err := spec.Static()
 	if err != nil {
 		return nil, fmt.Errorf("compare: the junction: %w", err)
 	}
@@ -186,7 +186,7 @@ func CompareIVContext(ctx context.Context, spec model.Spec, ds *measure.DataSet,
 			s.ElectronLifetime = tau
 		}
 		c.Evaluations++
-		return prepareStatic(s)
+		return s.Static()
 	}
 	target := math.Log(c.MeasuredIsA)
 	gap := func(tau float64) (float64, *physics.Static, error) {
@@ -268,14 +268,4 @@ func compareAssumptions(s model.Spec, c *IVComparison, holes bool) []string {
 		other,
 		"the lifetime varied is the " + c.LifetimeSide + "; its depletion-region (SRH) lifetime follows it as in the model",
 	}
-}
-
-// prepareStatic resolves spec's junction into the prepared device of the
-// analytic model.
-func prepareStatic(spec model.Spec) (*physics.Static, error) {
-	d, err := spec.Device()
-	if err != nil {
-		return nil, err
-	}
-	return d.Prepare()
 }
