@@ -366,7 +366,7 @@ func (in *Inbox) create(given string, size int64, exclusive bool) (*InboxWriter,
 		old, exists = fi.Size(), true
 	}
 	if exists && exclusive {
-		return nil, fmt.Errorf("%s exists in your inbox; nothing was written", Printable(given, 64, ""))
+		return nil, existsError(given)
 	}
 	files, used, err := in.scan()
 	if err != nil {
@@ -388,7 +388,7 @@ func (in *Inbox) create(given string, size int64, exclusive bool) (*InboxWriter,
 	}
 	f, err := in.root.OpenFile(name, flags, 0o600)
 	if exclusive && errors.Is(err, fs.ErrExist) {
-		return nil, fmt.Errorf("%s exists in your inbox; nothing was written", Printable(given, 64, ""))
+		return nil, existsError(given)
 	}
 	if err != nil {
 		return nil, refused("upload", quoteName(name)+" cannot be written")
@@ -583,4 +583,9 @@ func (in *Inbox) Rename(from, to string, replace bool) error {
 // exists (model.FileWriter).
 func (in *Inbox) CreateNew(given string) (io.WriteCloser, error) {
 	return in.create(given, -1, true)
+}
+
+// existsError refuses to replace an inbox file (CreateNew).
+func existsError(given string) error {
+	return fmt.Errorf("%s exists in your inbox; nothing was written", Printable(given, 64, ""))
 }

@@ -208,3 +208,46 @@ func TestInboxCaps(t *testing.T) {
 		t.Fatal(err)
 	}
 }
+
+// CreateNew writes a new file and never replaces one: over an existing
+// name (a finished upload, or one still being written) it is refused,
+// naming the file, and the file keeps its bytes.
+func TestInboxCreateNewNeverReplaces(t *testing.T) {
+	in, err := OpenInbox(t.TempDir(), "ada", InboxLimits{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer in.Close()
+	up, err := in.Create("table.csv", -1) // an upload in progress
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := up.Write([]byte("uploaded\n")); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := in.CreateNew("table.csv"); err == nil || !strings.Contains(err.Error(), "table.csv") {
+		t.Errorf("CreateNew over an upload in progress: %v", err)
+	}
+	if err := up.Close(); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := in.CreateNew("table.csv"); err == nil || !strings.Contains(err.Error(), "nothing was written") {
+		t.Errorf("CreateNew over a finished upload: %v", err)
+	}
+	f, err := in.Open("table.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, _ := io.ReadAll(f)
+	f.Close()
+	if string(b) != "uploaded\n" {
+		t.Errorf("the upload became %q", b)
+	}
+	w, err := in.CreateNew("export.csv")
+	if err != nil {
+		t.Fatalf("CreateNew of a new name: %v", err)
+	}
+	if _, err := io.WriteString(w, "x\n"); err != nil || w.Close() != nil {
+		t.Errorf("writing the new file: %v", err)
+	}
+}
