@@ -30,7 +30,10 @@ type inboxFixture struct {
 	ada, bob      servetest.Key
 }
 
-func startInboxServer(t *testing.T, lim sessions.InboxLimits) *inboxFixture {
+// startInboxServer starts a server with ada's and bob's inboxes under lim
+// (bob's holding bobs.csv); configure, if given, changes the server's
+// configuration first.
+func startInboxServer(t *testing.T, lim sessions.InboxLimits, configure ...func(*Config)) *inboxFixture {
 	t.Helper()
 	data := t.TempDir()
 	f := &inboxFixture{data: data, outside: filepath.Join(data, "outside.txt"), ada: servetest.NewKey(t, "ada"), bob: servetest.NewKey(t, "bob")}
@@ -39,9 +42,13 @@ func startInboxServer(t *testing.T, lim sessions.InboxLimits) *inboxFixture {
 	}
 	fx := &fixture{dir: data, hostKey: filepath.Join(data, "host", "ed25519"), authKeys: filepath.Join(data, "authorized_keys"), logs: &servetest.Buffer{}}
 	writeKeys(t, fx.authKeys, f.ada.Line, f.bob.Line)
-	srv, err := New(Config{Listen: "127.0.0.1:0", HostKeyPath: fx.hostKey, AuthorizedKeysPath: fx.authKeys,
+	cfg := Config{Listen: "127.0.0.1:0", HostKeyPath: fx.hostKey, AuthorizedKeysPath: fx.authKeys,
 		App: testApp{}, Logger: slog.New(slog.NewTextHandler(fx.logs, nil)), Grace: time.Second,
-		Inbox: func(user string) (*sessions.Inbox, error) { return sessions.OpenInbox(data, user, lim) }})
+		Inbox: func(user string) (*sessions.Inbox, error) { return sessions.OpenInbox(data, user, lim) }}
+	for _, c := range configure {
+		c(&cfg)
+	}
+	srv, err := New(cfg)
 	if err != nil {
 		t.Fatal(err)
 	}

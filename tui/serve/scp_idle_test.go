@@ -5,13 +5,10 @@ import (
 	"bytes"
 	"fmt"
 	"io"
-	"log/slog"
-	"path/filepath"
 	"testing"
 	"time"
 
 	"junco/sessions"
-	"junco/tui/serve/servetest"
 )
 
 // A legacy scp download (`scp -O host:file .`) longer than --idle is not
@@ -22,19 +19,8 @@ import (
 // stops reading is still closed: the second half of the test stops after
 // the header and waits.
 func TestSCPDownloadLongerThanIdle(t *testing.T) {
-	data := t.TempDir()
-	ada := servetest.NewKey(t, "ada")
-	fx := &fixture{dir: data, hostKey: filepath.Join(data, "host", "ed25519"), authKeys: filepath.Join(data, "authorized_keys"), logs: &servetest.Buffer{}}
-	writeKeys(t, fx.authKeys, ada.Line)
-	srv, err := New(Config{Listen: "127.0.0.1:0", HostKeyPath: fx.hostKey, AuthorizedKeysPath: fx.authKeys,
-		App: testApp{}, Logger: slog.New(slog.NewTextHandler(fx.logs, nil)), Grace: time.Second, IdleTimeout: 300 * time.Millisecond,
-		Inbox: func(user string) (*sessions.Inbox, error) {
-			return sessions.OpenInbox(data, user, sessions.InboxLimits{})
-		}})
-	if err != nil {
-		t.Fatal(err)
-	}
-	fx.srv, fx.addr = srv, servetest.Serve(t, srv)
+	f := startInboxServer(t, sessions.InboxLimits{}, func(c *Config) { c.IdleTimeout = 300 * time.Millisecond })
+	data, ada, fx := f.data, f.ada, f.fixture
 	in, err := sessions.OpenInbox(data, "ada", sessions.InboxLimits{})
 	if err != nil {
 		t.Fatal(err)
